@@ -1,0 +1,9 @@
+/** Unit, layer and bundle tests (`npm test`). Browser tests live in jest.browser.config.js. */
+module.exports = {
+  testEnvironment: 'node',
+  transform: { '^.+\\.ts$': ['ts-jest', { tsconfig: 'tsconfig.json', diagnostics: { warnOnly: false } }] },
+  testMatch: ['<rootDir>/test/**/*.test.ts'],
+  testPathIgnorePatterns: ['/node_modules/', '<rootDir>/test/browser/'],
+  setupFiles: ['<rootDir>/test/setup/customFunctions.ts'],
+  moduleNameMapper: { '^office-addin-manifest$': '<rootDir>/test/setup/officeAddinManifestStub.js' },
+};
