@@ -61,3 +61,25 @@ export interface WorkingDensity {
   /** The exact mean of the value, when known in closed form. */
   readonly exactMean?: number;
 }
+
+/** One variant's summary statistics of a per-visitor metric (COUNT, AVERAGE, STDEV.S of its values). */
+export interface MeanSummary {
+  readonly count: number;
+  readonly mean: number;
+  readonly sd: number;
+}
+
+/** One variant's event count over its exposure (user-days, sessions, …). */
+export interface EventCounts {
+  readonly events: number;
+  readonly exposure: number;
+}
+
+/** A Gamma(shape, rate) prior on an event rate: shape > 0, rate ≥ 0 (rate 0 is flat on the rate). */
+export interface GammaPrior {
+  readonly shape: number;
+  readonly rate: number;
+}
+
+/** The catalogue's default Gamma prior, Gamma(1, 0). */
+export const FLAT_GAMMA_PRIOR: GammaPrior = Object.freeze({ shape: 1, rate: 0 });
