@@ -1,0 +1,377 @@
+#!/usr/bin/env node
+// `npm run bench`: the speed table of Lift Ledger's statistics core and add-in bundle.
+//
+// Each cell is the median time of one call, measured over repeated calls after a warm-up. Beside the
+// exact (quadrature) values stands what a notebook would do: a seeded 100,000-draw Monte Carlo estimate
+// of the same quantity, its time, and its error against ours. The scenario is invented: a control
+// converting at 5% and challengers a few percent better, at 1e2 … 1e9 visitors per variant.
+//
+// Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, models, addin).
+'use strict';
+require('./tsRequire');
+const fs = require('fs');
+const path = require('path');
+const vm = require('vm');
+const zlib = require('zlib');
+
+const args = process.argv.slice(2);
+const quick = args.includes('--quick');
+const onlySection = (args.find((a) => a.startsWith('--section=')) || '').split('=')[1];
+const root = path.join(__dirname, '..');
+
+// ---------------------------------------------------------------------------------------------------
+// Timing and formatting
+// ---------------------------------------------------------------------------------------------------
+
+/** Median milliseconds per call of fn, over batches lasting at least `budgetMs` in total. */
+function medianMs(fn, budgetMs = 150, maxCalls = 2000) {
+  fn(); // warm-up (JIT, caches)
+  const times = [];
+  const started = process.hrtime.bigint();
+  while (times.length < 5 || (times.length < maxCalls && Number(process.hrtime.bigint() - started) / 1e6 < budgetMs)) {
+    const t0 = process.hrtime.bigint();
+    fn();
+    times.push(Number(process.hrtime.bigint() - t0) / 1e6);
+  }
+  times.sort((a, b) => a - b);
+  return times[Math.floor(times.length / 2)];
+}
+
+function fmtMs(ms) {
+  if (ms === undefined || ms === null || Number.isNaN(ms)) return 'n/a';
+  if (ms < 0.01) return `${(ms * 1000).toFixed(2)} µs`;
+  if (ms < 1) return `${(ms * 1000).toFixed(0)} µs`;
+  if (ms < 100) return `${ms.toFixed(2)} ms`;
+  return `${ms.toFixed(0)} ms`;
+}
+const fmtErr = (e) => (e === undefined ? 'n/a' : Math.abs(e).toExponential(1));
+const fmtN = (n) => (n >= 1e3 ? `1e${Math.round(Math.log10(n))}` : String(n));
+
+function printTable(title, headers, rows, note) {
+  const widths = headers.map((h, i) => Math.max(String(h).length, ...rows.map((r) => String(r[i]).length)));
+  const line = (cells) => `| ${cells.map((c, i) => String(c).padEnd(widths[i])).join(' | ')} |`;
+  console.log(`\n### ${title}\n`);
+  console.log(line(headers));
+  console.log(`|${widths.map((w) => '-'.repeat(w + 2)).join('|')}|`);
+  for (const r of rows) console.log(line(r));
+  if (note) console.log(`\n${note}`);
+}
+
+function section(name, fn) {
+  if (onlySection && onlySection !== name) return;
+  try {
+    fn();
+  } catch (error) {
+    console.log(`\n### ${name}: not measured (${error && error.message ? error.message.split('\n')[0] : error})`);
+  }
+}
+
+// ---------------------------------------------------------------------------------------------------
+// The seeded Monte Carlo a notebook would run (for comparison only; the product uses no random numbers)
+// ---------------------------------------------------------------------------------------------------
+
+function seededUniform(seed) {
+  // mulberry32: a small, well-known 32-bit generator; fine for a comparison baseline.
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let t = state;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function makeSampler(seed) {
+  const uniform = seededUniform(seed);
+  let spare = null;
+  const normal = () => {
+    if (spare !== null) {
+      const s = spare;
+      spare = null;
+      return s;
+    }
+    let u = 0;
+    while (u === 0) u = uniform();
+    const v = uniform();
+    const r = Math.sqrt(-2 * Math.log(u));
+    spare = r * Math.sin(2 * Math.PI * v);
+    return r * Math.cos(2 * Math.PI * v);
+  };
+  // Marsaglia & Tsang (2000) gamma sampler, with the usual boost for shape < 1.
+  const gamma = (shape) => {
+    if (shape < 1) return gamma(shape + 1) * Math.pow(uniform(), 1 / shape);
+    const d = shape - 1 / 3;
+    const c = 1 / Math.sqrt(9 * d);
+    for (;;) {
+      let x;
+      let v;
+      do {
+        x = normal();
+        v = 1 + c * x;
+      } while (v <= 0);
+      v = v * v * v;
+      const u = uniform();
+      if (u < 1 - 0.0331 * x * x * x * x) return d * v;
+      if (Math.log(u) < 0.5 * x * x + d * (1 - v + Math.log(v))) return d * v;
+    }
+  };
+  const beta = (a, b) => {
+    const x = gamma(a);
+    return x / (x + gamma(b));
+  };
+  return { beta, gamma, normal, uniform };
+}
+
+const DRAWS = 100000;
+
+/** Monte Carlo draws of each variant's posterior rate under a uniform prior: draws[variant][i]. */
+function drawPosteriors(variants, seed = 20261201) {
+  const sampler = makeSampler(seed);
+  return variants.map((v) => {
+    const out = new Float64Array(DRAWS);
+    for (let i = 0; i < DRAWS; i++) out[i] = sampler.beta(1 + v.conversions, 1 + v.visitors - v.conversions);
+    return out;
+  });
+}
+
+function mcProbAbove(variants) {
+  const [a, b] = drawPosteriors(variants);
+  let count = 0;
+  for (let i = 0; i < DRAWS; i++) if (b[i] > a[i]) count++;
+  return count / DRAWS;
+}
+
+function mcProbHighest(variants) {
+  const draws = drawPosteriors(variants);
+  const wins = new Array(variants.length).fill(0);
+  for (let i = 0; i < DRAWS; i++) {
+    let best = 0;
+    for (let j = 1; j < draws.length; j++) if (draws[j][i] > draws[best][i]) best = j;
+    wins[best]++;
+  }
+  return wins.map((w) => w / DRAWS);
+}
+
+function mcExpectedLoss(variants) {
+  const draws = drawPosteriors(variants);
+  const loss = new Array(variants.length).fill(0);
+  for (let i = 0; i < DRAWS; i++) {
+    let max = -Infinity;
+    for (const d of draws) if (d[i] > max) max = d[i];
+    draws.forEach((d, j) => (loss[j] += max - d[i]));
+  }
+  return loss.map((l) => l / DRAWS);
+}
+
+function mcLiftLower(variants, level = 0.95) {
+  const [a, b] = drawPosteriors(variants);
+  const lift = new Float64Array(DRAWS);
+  for (let i = 0; i < DRAWS; i++) lift[i] = b[i] / a[i] - 1;
+  lift.sort();
+  return lift[Math.floor(((1 - level) / 2) * DRAWS)];
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Scenarios (invented)
+// ---------------------------------------------------------------------------------------------------
+
+const SIZES = quick ? [1e2, 1e4, 1e6, 1e9] : [1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9];
+const VARIANT_COUNTS = quick ? [2, 10, 50] : [2, 5, 10, 20, 50];
+
+function conversionScenario(visitors, k) {
+  return Array.from({ length: k }, (_, i) => ({
+    visitors,
+    conversions: Math.round(visitors * 0.05 * (1 + 0.02 * i)),
+  }));
+}
+
+const UNIFORM = { alpha: 1, beta: 1 };
+const mark = (ms, target) => (ms <= target ? `${fmtMs(ms)} ✓` : `${fmtMs(ms)} ✗`);
+
+console.log('# Lift Ledger benchmark');
+console.log(`node ${process.version}, ${require('os').cpus().length} cores; ${new Date().toISOString().slice(0, 10)}`);
+console.log('Median time per call; Monte Carlo = seeded 100,000 draws per variant (what a notebook would do).');
+
+section('core', () => {
+  const conversion = require('../functions/stats/conversion');
+  const rows = [];
+  for (const n of SIZES) {
+    const v = conversionScenario(n, 2);
+    const ours = conversion.probAboveControl(v, UNIFORM)[0];
+    const tOurs = medianMs(() => conversion.probAboveControl(v, UNIFORM));
+    const tMc = medianMs(() => mcProbAbove(v), 300, 5);
+    const errMc = mcProbAbove(v) - ours;
+    const lift = conversion.liftInterval(v, 0.95, UNIFORM)[0];
+    const tLift = medianMs(() => conversion.liftInterval(v, 0.95, UNIFORM));
+    const errLift = mcLiftLower(v) - lift.lower;
+    const loss = conversion.expectedLoss(v, UNIFORM);
+    const tLoss = medianMs(() => conversion.expectedLoss(v, UNIFORM));
+    const errLoss = mcExpectedLoss(v)[0] - loss[0];
+    rows.push([
+      fmtN(n),
+      ours.toFixed(9),
+      mark(tOurs, 0.2),
+      fmtMs(tMc),
+      `${(tMc / tOurs).toFixed(0)}×${tMc / tOurs >= 20 ? ' ✓' : ' ✗'}`,
+      fmtErr(errMc),
+      mark(tLift, 2),
+      fmtErr(errLift),
+      fmtMs(tLoss),
+      fmtErr(errLoss),
+    ]);
+  }
+  printTable(
+    'Two variants (control 5%, challenger +2% relative)',
+    ['visitors/variant', 'P(beats control)', 'time (≤0.2 ms)', 'MC time', 'speed-up (≥20×)', 'MC error',
+      'lift interval (≤2 ms)', 'MC error (lower end)', 'expected loss', 'MC error (control)'],
+    rows,
+  );
+});
+
+section('variants', () => {
+  const conversion = require('../functions/stats/conversion');
+  const rows = [];
+  const sizes = quick ? [1e4] : [1e2, 1e4, 1e6, 1e9];
+  for (const n of sizes) {
+    for (const k of VARIANT_COUNTS) {
+      const v = conversionScenario(n, k);
+      const tHighest = medianMs(() => conversion.probHighest(v, UNIFORM));
+      const tAbove = medianMs(() => conversion.probAboveControl(v, UNIFORM));
+      const tLoss = medianMs(() => conversion.expectedLoss(v, UNIFORM));
+      let mcCells = ['', ''];
+      if (n === 1e4) {
+        const ours = conversion.probHighest(v, UNIFORM);
+        const tMc = medianMs(() => mcProbHighest(v), 300, 3);
+        const mc = mcProbHighest(v);
+        mcCells = [fmtMs(tMc), fmtErr(Math.max(...mc.map((p, i) => Math.abs(p - ours[i]))))];
+      }
+      rows.push([fmtN(n), k, k === 10 ? mark(tHighest, 3) : fmtMs(tHighest), fmtMs(tAbove), fmtMs(tLoss), ...mcCells]);
+    }
+  }
+  printTable(
+    'Many variants',
+    ['visitors/variant', 'variants', 'P(highest) (10: ≤3 ms)', 'P(beats control), all', 'expected loss, all',
+      'MC time', 'MC max error'],
+    rows,
+  );
+});
+
+section('planning', () => {
+  const planning = require('../functions/stats/planning');
+  const rows = [];
+  const cases = [
+    [0.05, 0.1, 1000],
+    [0.05, 0.1, 10000],
+    [0.05, 0.1, 30000],
+    [0.1, 0.05, 50000],
+    [0.02, 0.2, 20000],
+  ];
+  for (const [p, lift, n] of cases) {
+    const power = planning.decisionPower(p, lift, n, 0.95, UNIFORM);
+    const t = medianMs(() => planning.decisionPower(p, lift, n, 0.95, UNIFORM), 300, 50);
+    rows.push([`DECISION_POWER(${p}, ${lift}, ${n})`, power.toFixed(6), mark(t, 20)]);
+  }
+  for (const [p, lift] of [
+    [0.05, 0.1],
+    [0.1, 0.05],
+    [0.02, 0.2],
+  ]) {
+    const needed = planning.visitorsNeeded(p, lift, 0.95, 0.8, UNIFORM);
+    const t = medianMs(() => planning.visitorsNeeded(p, lift, 0.95, 0.8, UNIFORM), 600, 5);
+    rows.push([`VISITORS_NEEDED(${p}, ${lift})`, String(needed), mark(t, 200)]);
+  }
+  printTable('Planning', ['call', 'value', 'time (power ≤20 ms, needed ≤200 ms)'], rows);
+});
+
+section('models', () => {
+  const means = require('../functions/stats/normalMeans');
+  const events = require('../functions/stats/eventRates');
+  const rows = [];
+  const sizes = quick ? [1e2, 1e5, 1e8] : [1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8];
+  const ks = quick ? [2, 20] : [2, 5, 10, 20];
+  const prior = { shape: 1, rate: 0 };
+  for (const n of sizes) {
+    for (const k of ks) {
+      const mv = Array.from({ length: k }, (_, i) => ({ count: n, mean: 2.4 * (1 + 0.01 * i), sd: 9.5 }));
+      const ev = Array.from({ length: k }, (_, i) => ({ events: Math.round(0.3 * n * (1 + 0.01 * i)), exposure: n }));
+      rows.push([
+        fmtN(n),
+        k,
+        fmtMs(medianMs(() => means.meanProbAboveControl(mv))),
+        fmtMs(medianMs(() => means.meanProbHighest(mv))),
+        fmtMs(medianMs(() => means.meanLiftInterval(mv, 0.95))),
+        fmtMs(medianMs(() => means.meanExpectedLoss(mv))),
+        fmtMs(medianMs(() => events.eventsProbAboveControl(ev, prior))),
+        fmtMs(medianMs(() => events.eventsProbHighest(ev, prior))),
+        fmtMs(medianMs(() => events.eventsLiftInterval(ev, 0.95, prior))),
+        fmtMs(medianMs(() => events.eventsExpectedLoss(ev, prior))),
+      ]);
+    }
+  }
+  printTable(
+    'Revenue (Normal model) and counts (Gamma–Poisson)',
+    ['count/exposure', 'variants', 'MEAN P(beats)', 'MEAN P(highest)', 'MEAN lift', 'MEAN loss',
+      'EVENTS P(beats)', 'EVENTS P(highest)', 'EVENTS lift', 'EVENTS loss'],
+    rows,
+  );
+});
+
+section('addin', () => {
+  const bundlePath = path.join(root, 'dist', 'functions.js');
+  if (!fs.existsSync(bundlePath)) throw new Error('dist/functions.js is missing: run `npm run build` first');
+  const code = fs.readFileSync(bundlePath, 'utf8');
+  const registered = new Map();
+  class CfError extends Error {
+    constructor(code, message) {
+      super(message);
+      this.code = code;
+    }
+  }
+  const sandbox = {
+    CustomFunctions: {
+      associate: (id, fn) => {
+        if (typeof id === 'string') registered.set(id, fn);
+        else for (const [k, f] of Object.entries(id)) registered.set(k, f);
+      },
+      Error: CfError,
+      ErrorCode: { invalidValue: '#VALUE!', notAvailable: '#N/A', invalidNumber: '#NUM!' },
+    },
+    Office: { onReady: () => Promise.resolve({}) },
+  };
+  sandbox.self = sandbox;
+  sandbox.globalThis = sandbox;
+  vm.createContext(sandbox);
+  vm.runInContext(code, sandbox, { filename: 'functions.js' });
+  const call = (name, ...a) => {
+    const fn = registered.get(name);
+    if (!fn) throw new Error(`${name} is not registered by the bundle`);
+    return fn(...a);
+  };
+  // 1,000 invented experiments, three variants each, read out by 8 functions.
+  const experiments = Array.from({ length: 1000 }, (_, e) => {
+    const visitors = 1000 + 37 * e;
+    const conv = [0, 1, 2].map((i) => [Math.round(visitors * (0.04 + 0.001 * ((e + i) % 7)))]);
+    return { conv, vis: [[visitors], [visitors], [visitors]] };
+  });
+  const readOut = () => {
+    for (const { conv, vis } of experiments) {
+      call('POSTERIOR_MEAN', conv, vis);
+      call('RATE_INTERVAL', conv, vis);
+      call('PROB_HIGHEST', conv, vis);
+      call('PROB_ABOVE_CONTROL', conv, vis);
+      call('LIFT_INTERVAL', conv, vis);
+      call('EXPECTED_LOSS', conv, vis);
+      call('DECISION', conv, vis);
+      call('SRM_PVALUE', vis);
+    }
+  };
+  const t = medianMs(readOut, 1, 3);
+  const size = fs.statSync(bundlePath).size;
+  const gz = zlib.gzipSync(fs.readFileSync(bundlePath)).length;
+  printTable('The add-in bundle', ['measure', 'value', 'target'], [
+    ['read-out of 1,000 experiments × 8 functions through dist/functions.js', mark(t, 2000), '≤ 2 s'],
+    ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
+    ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
+  ]);
+});

@@ -1,0 +1,14 @@
+// Lets the benchmark require the TypeScript sources directly: each .ts file is transpiled in memory with
+// the project's own TypeScript (no type check; `npm test` does that), so the bench measures the same code
+// the tests check without a separate build step.
+const fs = require('fs');
+const ts = require('typescript');
+
+require.extensions['.ts'] = function compileTypeScript(module, filename) {
+  const source = fs.readFileSync(filename, 'utf8');
+  const { outputText } = ts.transpileModule(source, {
+    compilerOptions: { module: ts.ModuleKind.CommonJS, target: ts.ScriptTarget.ES2020, esModuleInterop: true },
+    fileName: filename,
+  });
+  module._compile(outputText, filename);
+};
