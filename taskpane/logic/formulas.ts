@@ -1,0 +1,353 @@
+/**
+ * Formula builders: the live =ABTEST.… formulas and labelled blocks the side panel writes. Pure
+ * functions from plain inputs to FormulaBlock data; nothing here touches the workbook or the DOM.
+ * The panel writes formulas, never pasted numbers, so a workbook keeps computing without the panel.
+ */
+import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
+import { cellAddress, parseAddress, rangeAddress, type CellPosition } from '../workbook/address';
+
+/** Warning fill and text colours for a split that looks broken. */
+export const WARNING_FILL = '#F4CCCC';
+export const WARNING_TEXT = '#9C0006';
+/** The SRM p-value below which a split is treated as broken (common practice; see Fabijan et al., KDD 2019). */
+export const SRM_ALARM = 0.001;
+
+/**
+ * A number as formula text: the shortest text that reads back as the same double (JavaScript's
+ * round-trip rule), which Excel parses as the same number. Cost O(1). Throws RangeError for NaN/±∞.
+ * @example numberLiteral(0.04) //=> "0.04"; numberLiteral(1e-7) //=> "1E-7"
+ */
+export function numberLiteral(x: number): string {
+  if (!Number.isFinite(x)) throw new RangeError(`${x} cannot be written into a formula`);
+  return String(x).replace('e', 'E').replace('E+', 'E');
+}
+
+/**
+ * A text as a formula string literal, with inner double quotes doubled. Cost O(length).
+ * @example textLiteral('say "hi"') //=> '"say ""hi"""'
+ */
+export function textLiteral(text: string): string {
+  return `"${text.replace(/"/g, '""')}"`;
+}
+
+/** How the user chose a prior. References are as the formula's own sheet should write them. */
+export type PriorChoice =
+  | { readonly kind: 'mean'; readonly meanRate: number; readonly strength: number }
+  | { readonly kind: 'interval'; readonly low: number; readonly high: number; readonly level: number }
+  | {
+      readonly kind: 'history';
+      readonly conversionsRef: string;
+      readonly visitorsRef: string;
+      readonly method: 'likelihood' | 'moments';
+    };
+
+/**
+ * The =ABTEST.PRIOR_FROM_… formula for a prior choice (it spills alpha, beta into one row). Optional
+ * arguments at their catalogue default are left out. Cost O(1).
+ * @example priorFormula({ kind: 'mean', meanRate: 0.04, strength: 500 }) //=> "=ABTEST.PRIOR_FROM_MEAN(0.04,500)"
+ */
+export function priorFormula(choice: PriorChoice): string {
+  switch (choice.kind) {
+    case 'mean':
+      return `=ABTEST.PRIOR_FROM_MEAN(${numberLiteral(choice.meanRate)},${numberLiteral(choice.strength)})`;
+    case 'interval': {
+      const level = choice.level === 0.9 ? '' : `,${numberLiteral(choice.level)}`;
+      return `=ABTEST.PRIOR_FROM_INTERVAL(${numberLiteral(choice.low)},${numberLiteral(choice.high)}${level})`;
+    }
+    case 'history': {
+      const method = choice.method === 'likelihood' ? '' : `,${textLiteral(choice.method)}`;
+      return `=ABTEST.PRIOR_FROM_HISTORY(${choice.conversionsRef},${choice.visitorsRef}${method})`;
+    }
+  }
+}
+
+/**
+ * The block "Write to sheet" puts at the selected cell: the prior formula, with room for its two-cell
+ * spill (alpha, beta). Cost O(1).
+ * @example priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, "F2").area //=> { rowCount: 1, columnCount: 2 }
+ */
+export function priorBlock(choice: PriorChoice, topLeft: string, sheet?: string): FormulaBlock {
+  return {
+    sheet,
+    topLeft,
+    cells: [[priorFormula(choice)]],
+    numberFormats: [['0.000']],
+    area: { rowCount: 1, columnCount: 2 },
+  };
+}
+
+/** What the Plan section asks for. Rates and lifts are fractions. */
+export interface PlanInputs {
+  readonly baselineRate: number;
+  readonly lift: number;
+  readonly threshold: number;
+  readonly power: number;
+  readonly variants: number;
+  readonly dailyVisitors: number;
+  readonly trafficShare: number;
+  /** Two-sided significance level of the classic z-test shown for comparison. */
+  readonly classicAlpha: number;
+  /** A Beta prior for the planning calculation; omitted means the uniform default. */
+  readonly prior?: { readonly alpha: number; readonly beta: number };
+}
+
+/** Where a result of a written block lives, for tests and for the panel to point at. */
+export interface BlockCells {
+  readonly [name: string]: string;
+}
+
+/** A FormulaBlock plus the local addresses of its named cells. */
+export interface LabelledBlock {
+  readonly block: FormulaBlock;
+  readonly cells: BlockCells;
+}
+
+function at(origin: CellPosition, row: number, column: number): string {
+  return cellAddress({ row: origin.row + row, column: origin.column + column });
+}
+
+/**
+ * The "Insert plan" block: a title, the inputs as labelled constant cells, and the results as live
+ * formulas that refer to those cells — visitors per variant =ABTEST.VISITORS_NEEDED(…), total
+ * visitors, days to run =ROUNDUP(total/(daily·share), 0), and the classic z-test size
+ * =ABTEST.CLASSIC_SAMPLE_SIZE(…) beside it. Two columns (label, value). Cost O(1).
+ * @example planBlock(inputs, "A1").cells.visitorsPerVariant //=> "B11"
+ */
+export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string): LabelledBlock {
+  const origin = parseAddress(topLeft).start;
+  const rows: [string, CellValue, string | null][] = [];
+  const names: Record<string, string> = {};
+  const add = (name: string, label: string, value: CellValue, format: string | null): string => {
+    const address = at(origin, rows.length, 1);
+    names[name] = address;
+    rows.push([label, value, format]);
+    return address;
+  };
+  rows.push(['Test plan (Lift Ledger)', '', null]);
+  const base = add('baselineRate', 'Baseline conversion rate', inputs.baselineRate, '0.00%');
+  const lift = add('lift', 'Smallest lift worth detecting (relative)', inputs.lift, '0.0%');
+  const threshold = add('threshold', 'Decision threshold: P(beats control) at least', inputs.threshold, '0.00');
+  const power = add('power', 'Target decision power', inputs.power, '0%');
+  const variants = add('variants', 'Variants, control included', inputs.variants, '0');
+  const daily = add('dailyVisitors', 'Visitors per day to the page', inputs.dailyVisitors, '#,##0');
+  const share = add('trafficShare', 'Share of those visitors in the test', inputs.trafficShare, '0%');
+  const alpha = add('classicAlpha', 'Classic test: significance level (two-sided)', inputs.classicAlpha, '0.00');
+  let priorArgs = '';
+  if (inputs.prior) {
+    const a = add('priorAlpha', 'Prior alpha', inputs.prior.alpha, '0.000');
+    const b = add('priorBeta', 'Prior beta', inputs.prior.beta, '0.000');
+    priorArgs = `,${a},${b}`;
+  }
+  const perVariant = add(
+    'visitorsPerVariant',
+    'Visitors needed per variant',
+    `=ABTEST.VISITORS_NEEDED(${base},${lift},${threshold},${power}${priorArgs})`,
+    '#,##0',
+  );
+  const total = add('totalVisitors', 'Visitors needed in total', `=${perVariant}*${variants}`, '#,##0');
+  add('days', 'Days to run', `=ROUNDUP(${total}/(${daily}*${share}),0)`, '0');
+  add(
+    'classicPerVariant',
+    'Classic z-test size per variant (for comparison)',
+    `=ABTEST.CLASSIC_SAMPLE_SIZE(${base},${lift},${alpha},${power},2)`,
+    '#,##0',
+  );
+  const styles: BlockStyle[] = [{ row: 0, column: 0, style: { bold: true } }];
+  const resultRow = rows.findIndex(([label]) => label === 'Visitors needed per variant');
+  styles.push({ row: resultRow, column: 0, rowCount: rows.length - resultRow, columnCount: 2, style: { bold: true } });
+  return {
+    block: {
+      sheet,
+      topLeft: cellAddress(origin),
+      cells: rows.map(([label, value]) => [label, value]),
+      numberFormats: rows.map(([, , format]) => [null, format]),
+      styles,
+      autofit: true,
+    },
+    cells: names,
+  };
+}
+
+/** Where the variant table is and which of its columns is which (all on one sheet, one row per variant). */
+export interface ReadoutSource {
+  /** Local address of the names column's data cells ("A2:A4"), or null to call them A, B, C… */
+  readonly namesRef: string | null;
+  readonly visitorsRef: string;
+  readonly conversionsRef: string;
+  /** Number of variants (data rows). */
+  readonly variants: number;
+}
+
+/** Settings written as input cells of the read-out block. */
+export interface ReadoutSettings {
+  readonly level: number;
+  readonly prior: { readonly alpha: number; readonly beta: number };
+  /** Rows of the density table for the chart (LIFT_DENSITY's `points`). */
+  readonly densityPoints: number;
+  /**
+   * The SRM p-value as the core computes it from the visitors read now, used only to set the warning
+   * fill (the warning text itself is a formula that follows the live value).
+   */
+  readonly currentSrmPValue: number;
+}
+
+/** The read-out block with its named cells and the local address of the chart's source block. */
+export interface ReadoutBlock extends LabelledBlock {
+  readonly chartSource: string;
+  readonly chartTopLeft: string;
+  readonly chartBottomRight: string;
+}
+
+const DEFAULT_NAMES = (index: number): string => (index < 26 ? String.fromCharCode(65 + index) : `V${index + 1}`);
+
+/**
+ * The "Insert read-out" block written beside the variant table: one row per variant with the
+ * posterior mean, credible interval, P(beats control), P(highest), lift interval and expected loss (all
+ * spilling live formulas); then the inputs (level, prior, largest acceptable loss), the DECISION, the
+ * SRM p-value with a formula-driven warning text (and a warning fill when the current value is below
+ * 0.001), and a LIFT_DENSITY table for the native chart. Cost O(variants + points).
+ * Throws RangeError for fewer than 2 variants or a density table under 3 points.
+ * @example readoutBlock(source, settings, "F1").cells.decision //=> "G11" (for three variants)
+ */
+export function readoutBlock(
+  source: ReadoutSource,
+  settings: ReadoutSettings,
+  topLeft: string,
+  sheet?: string,
+): ReadoutBlock {
+  const k = source.variants;
+  if (!Number.isInteger(k) || k < 2) throw new RangeError('a read-out needs at least two variants');
+  if (!Number.isInteger(settings.densityPoints) || settings.densityPoints < 3) {
+    throw new RangeError('the density table needs at least 3 points');
+  }
+  const origin = parseAddress(topLeft).start;
+  const width = 10;
+  const settingsRow = k + 3;
+  const densityTitleRow = settingsRow + 7;
+  const densityHeaderRow = densityTitleRow + 1;
+  const height = densityHeaderRow + 1 + settings.densityPoints;
+  const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
+  const formats: (string | null)[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => null));
+  const put = (row: number, column: number, value: CellValue, format: string | null = null): string => {
+    (cells[row] as CellValue[])[column] = value;
+    (formats[row] as (string | null)[])[column] = format;
+    return at(origin, row, column);
+  };
+  const formatColumn = (row: number, column: number, format: string): void => {
+    for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
+  };
+
+  const level = at(origin, settingsRow, 1);
+  const alpha = at(origin, settingsRow + 1, 1);
+  const beta = at(origin, settingsRow + 2, 1);
+  const conv = source.conversionsRef;
+  const vis = source.visitorsRef;
+  const prior = `,${alpha},${beta}`;
+  const names: Record<string, string> = {};
+
+  put(0, 0, 'Read-out (Lift Ledger)');
+  const headers = [
+    'Variant',
+    'Posterior mean',
+    'Interval low',
+    'Interval high',
+    'P(beats control)',
+    'P(highest)',
+    'Lift low',
+    'Lift median',
+    'Lift high',
+    'Expected loss',
+  ];
+  headers.forEach((header, column) => put(1, column, header));
+  const namesStart = parseAddress(source.namesRef ?? 'A1').start;
+  for (let i = 0; i < k; i += 1) {
+    const value =
+      source.namesRef === null
+        ? DEFAULT_NAMES(i)
+        : `=${cellAddress({ row: namesStart.row + i, column: namesStart.column })}`;
+    put(2 + i, 0, value);
+  }
+  const labels = rangeAddress({ row: origin.row + 2, column: origin.column }, k, 1);
+  names.labels = labels;
+  names.posteriorMean = put(2, 1, `=ABTEST.POSTERIOR_MEAN(${conv},${vis}${prior})`);
+  formatColumn(2, 1, '0.00%');
+  names.rateInterval = put(2, 2, `=ABTEST.RATE_INTERVAL(${conv},${vis},${level}${prior})`);
+  formatColumn(2, 2, '0.00%');
+  formatColumn(2, 3, '0.00%');
+  names.probAboveControl = put(2, 4, `=ABTEST.PROB_ABOVE_CONTROL(${conv},${vis}${prior})`);
+  formatColumn(2, 4, '0.0%');
+  names.probHighest = put(2, 5, `=ABTEST.PROB_HIGHEST(${conv},${vis}${prior})`);
+  formatColumn(2, 5, '0.0%');
+  names.liftInterval = put(2, 6, `=ABTEST.LIFT_INTERVAL(${conv},${vis},${level}${prior})`);
+  formatColumn(2, 6, '0.0%');
+  formatColumn(2, 7, '0.0%');
+  formatColumn(2, 8, '0.0%');
+  names.expectedLoss = put(2, 9, `=ABTEST.EXPECTED_LOSS(${conv},${vis}${prior})`);
+  formatColumn(2, 9, '0.000%');
+
+  put(settingsRow, 0, 'Credible level');
+  names.level = put(settingsRow, 1, settings.level, '0%');
+  put(settingsRow + 1, 0, 'Prior alpha');
+  names.priorAlpha = put(settingsRow + 1, 1, settings.prior.alpha, '0.000');
+  put(settingsRow + 2, 0, 'Prior beta');
+  names.priorBeta = put(settingsRow + 2, 1, settings.prior.beta, '0.000');
+  put(settingsRow + 3, 0, 'Largest expected loss you accept (rate)');
+  const controlMean = at(origin, 2, 1);
+  names.maxLoss = put(settingsRow + 3, 1, `=0.01*${controlMean}`, '0.000%');
+  put(settingsRow + 4, 0, 'Decision');
+  names.decision = put(settingsRow + 4, 1, `=ABTEST.DECISION(${conv},${vis},${names.maxLoss},${labels}${prior})`);
+  put(settingsRow + 5, 0, 'Split check: SRM p-value');
+  names.srmPValue = put(settingsRow + 5, 1, `=ABTEST.SRM_PVALUE(${vis})`, '0.0000');
+  names.srmVerdict = put(
+    settingsRow + 5,
+    2,
+    `=IF(${names.srmPValue}<${numberLiteral(SRM_ALARM)},"split looks broken: check how visitors are assigned","split looks as planned")`,
+  );
+
+  put(densityTitleRow, 0, 'Lift densities, for the chart (relative lift vs control)');
+  names.densityHeader = put(densityHeaderRow, 0, 'Lift');
+  for (let i = 1; i < k; i += 1) {
+    put(densityHeaderRow, i, `=${cellAddress({ row: origin.row + 2 + i, column: origin.column })}`);
+  }
+  names.liftDensity = put(
+    densityHeaderRow + 1,
+    0,
+    `=ABTEST.LIFT_DENSITY(${conv},${vis},${settings.densityPoints}${prior})`,
+  );
+  for (let r = densityHeaderRow + 1; r < height; r += 1) (formats[r] as (string | null)[])[0] = '0.0%';
+
+  const styles: BlockStyle[] = [
+    { row: 0, column: 0, style: { bold: true } },
+    { row: 1, column: 0, columnCount: width, style: { bold: true } },
+    { row: settingsRow + 4, column: 0, columnCount: 2, style: { bold: true } },
+    { row: densityTitleRow, column: 0, style: { bold: true } },
+    { row: densityHeaderRow, column: 0, columnCount: k, style: { bold: true } },
+  ];
+  if (settings.currentSrmPValue < SRM_ALARM) {
+    styles.push({ row: settingsRow + 5, column: 1, columnCount: 2, style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true } });
+  }
+
+  const chartSource = rangeAddress({ row: origin.row + densityHeaderRow, column: origin.column }, settings.densityPoints + 1, k);
+  const chartLeft = origin.column + Math.max(k, 3) + 1;
+  const chartTopLeft = cellAddress({ row: origin.row + densityTitleRow, column: chartLeft });
+  const chartBottomRight = cellAddress({ row: origin.row + densityTitleRow + 16, column: chartLeft + 6 });
+  names.chartSource = chartSource;
+  return {
+    block: { sheet, topLeft: cellAddress(origin), cells, numberFormats: formats, styles, autofit: true },
+    cells: names,
+    chartSource,
+    chartTopLeft,
+    chartBottomRight,
+  };
+}
+
+/**
+ * Where to put a read-out beside a table: the same top row, one empty column to the right of it.
+ * Cost O(1).
+ * @example besideTable("Sheet1!A1:C4") //=> "E1"
+ */
+export function besideTable(tableAddress: string): string {
+  const parsed = parseAddress(tableAddress);
+  return cellAddress({ row: parsed.start.row, column: parsed.end.column + 2 });
+}
+
