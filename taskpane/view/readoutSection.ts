@@ -1,0 +1,215 @@
+/**
+ * The Read-out section: the user selects the variant table; the panel finds the header row and which
+ * column is which (the user can correct it), then "Insert read-out" writes a labelled block of live
+ * formulas beside the table and a native Excel chart of the lift densities.
+ */
+import { srmPValue } from '../../functions/stats/srm';
+import { besideTable, readoutBlock, SRM_ALARM } from '../logic/formulas';
+import { formatCount, parseNumber, parsePercent } from '../logic/inputs';
+import { checkTable, detectTable, type TableMapping } from '../logic/tableDetect';
+import { columnLetters, parseAddress, rangeAddress } from '../workbook/address';
+import type { RangeContents } from '../workbook/workbook';
+import { outcomeText, writeAsking, type PanelContext } from './context';
+import { button, el, select, setBusy, showMessage, textField } from './dom';
+
+/** Rows of the LIFT_DENSITY table the read-out writes for its chart. */
+const DENSITY_POINTS = 61;
+
+/**
+ * Build the Read-out section. Cost: DOM construction; "Use the selected table" reads the selection
+ * once; "Insert read-out" makes one block write and one chart insert.
+ * @example section.append(readoutSection(context))
+ */
+export function readoutSection(context: PanelContext): HTMLElement {
+  const root = el('section', { id: 'section-readout', class: 'section', hidden: true, 'aria-labelledby': 'tab-readout' });
+  const useButton = button('readout-use-selection', 'Use the selected table', 'primary');
+  const tableInfo = el('div', { id: 'readout-table', class: 'summary', 'aria-live': 'polite' });
+  const mappingArea = el('div', { id: 'readout-mapping', class: 'group' });
+  const level = textField('readout-level', 'Credible level (%)', '95');
+  const alpha = textField('readout-alpha', 'Prior alpha', '1');
+  const beta = textField('readout-beta', 'Prior beta', '1');
+  const priorButton = button('readout-use-prior', 'Use the prior from the Prior section', 'subtle');
+  const insertButton = button('readout-insert', 'Insert read-out', 'primary');
+  setBusy(insertButton, true);
+  const splitArea = el('div', { id: 'readout-split' });
+  const status = el('div', { id: 'readout-status' });
+  const cautionLink = el('fluent-link', { href: '#', id: 'readout-cautions' }, 'Before you act on a read-out');
+  cautionLink.addEventListener('click', (event) => {
+    event.preventDefault();
+    context.showCautions('peeking');
+  });
+  root.append(
+    el('h2', {}, 'Read-out'),
+    el('p', { class: 'hint' }, 'Select the variant table (one row per variant: name, visitors, conversions; the control first), then press the button.'),
+    el('div', { class: 'actions' }, useButton),
+    tableInfo,
+    mappingArea,
+    splitArea,
+    level.element,
+    alpha.element,
+    beta.element,
+    el('div', { class: 'actions' }, priorButton),
+    el('div', { class: 'actions' }, insertButton),
+    el('p', { class: 'hint' }, 'Writes beside the table: posterior means and intervals, P(beats control), P(highest), lift intervals, expected loss, the decision, the split check, and a lift-density table with a native chart — all live formulas.'),
+    status,
+    cautionLink,
+  );
+
+  const view = { selection: null as RangeContents | null, mapping: null as TableMapping | null };
+
+  const renderCheck = (): void => {
+    const selection = view.selection;
+    const mapping = view.mapping;
+    if (selection === null || mapping === null) return;
+    const checked = checkTable(selection.values, mapping);
+    if (!checked.ok) {
+      tableInfo.replaceChildren(el('p', { class: 'error-text' }, `The table has problems: ${checked.problems.join('; ')}.`));
+      showMessage(splitArea, 'info', null);
+      setBusy(insertButton, true);
+      return;
+    }
+    const list = el('ul', { id: 'readout-variants' });
+    checked.names.forEach((name, i) =>
+      list.append(el('li', {}, `${i === 0 ? 'Control ' : ''}${name}: ${formatCount(checked.conversions[i] ?? NaN)} conversions of ${formatCount(checked.visitors[i] ?? NaN)} visitors`)),
+    );
+    tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
+    const p = srmPValue(checked.visitors);
+    showMessage(
+      splitArea,
+      p < SRM_ALARM ? 'error' : 'info',
+      p < SRM_ALARM
+        ? `Split check: SRM p-value ${p.toExponential(2)} is below 0.001 — the split looks broken. Find out why before trusting any read-out.`
+        : `Split check: SRM p-value ${p.toPrecision(3)} (equal shares planned); no sign of a broken split.`,
+    );
+    if (checked.names.length > 4) {
+      tableInfo.append(el('p', { class: 'hint' }, 'Many variants: the best-looking one is often lucky. See the cautions.'));
+    }
+    setBusy(insertButton, false);
+  };
+
+  const renderMapping = (): void => {
+    const selection = view.selection;
+    const mapping = view.mapping;
+    mappingArea.replaceChildren();
+    if (selection === null || mapping === null) return;
+    const start = parseAddress(selection.localAddress).start;
+    const header = selection.values[0] ?? [];
+    const options: [string, string][] = header.map((cell, c) => {
+      const heading = mapping.hasHeader && typeof cell === 'string' && cell !== '' ? ` (${cell})` : '';
+      return [String(c), `column ${columnLetters(start.column + c)}${heading}`];
+    });
+    const headerBox = el('fluent-checkbox', { id: 'readout-has-header', ...(mapping.hasHeader ? { checked: true } : {}) }, 'First row is a heading');
+    const names = select('readout-names', 'Names', [['none', 'no names (A, B, C…)'], ...options], mapping.namesColumn === null ? 'none' : String(mapping.namesColumn));
+    const visitors = select('readout-visitors', 'Visitors', options, String(mapping.visitorsColumn));
+    const conversions = select('readout-conversions', 'Conversions', options, String(mapping.conversionsColumn));
+    const changed = (): void => {
+      view.mapping = {
+        hasHeader: (headerBox as HTMLElement & { checked?: boolean }).checked === true,
+        namesColumn: names.input.value === 'none' ? null : Number(names.input.value),
+        visitorsColumn: Number(visitors.input.value),
+        conversionsColumn: Number(conversions.input.value),
+      };
+      renderCheck();
+    };
+    headerBox.addEventListener('change', changed);
+    for (const control of [names, visitors, conversions]) control.input.addEventListener('change', changed);
+    mappingArea.append(el('p', { class: 'hint' }, 'Which column is which (correct it if needed):'), headerBox, names.element, visitors.element, conversions.element);
+  };
+
+  const useSelection = async (): Promise<void> => {
+    setBusy(useButton, true);
+    showMessage(status, 'info', null);
+    try {
+      const selection = await context.workbook.readSelection();
+      const detection = detectTable(selection.values);
+      view.selection = selection;
+      if (!detection.ok) {
+        view.mapping = null;
+        mappingArea.replaceChildren();
+        showMessage(splitArea, 'info', null);
+        tableInfo.replaceChildren(el('p', { class: 'error-text' }, `${selection.address}: ${detection.problem}.`));
+        setBusy(insertButton, true);
+        return;
+      }
+      view.mapping = detection.mapping;
+      renderMapping();
+      renderCheck();
+      tableInfo.append(el('p', { class: 'hint' }, `Detected: ${detection.note}.`));
+    } catch (error) {
+      tableInfo.replaceChildren(el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`));
+    } finally {
+      setBusy(useButton, false);
+    }
+  };
+
+  const insert = async (): Promise<void> => {
+    const selection = view.selection;
+    const mapping = view.mapping;
+    if (selection === null || mapping === null) return;
+    const checked = checkTable(selection.values, mapping);
+    if (!checked.ok) return;
+    const lv = parsePercent(level.text());
+    const a = parseNumber(alpha.text());
+    const b = parseNumber(beta.text());
+    if (!(lv > 0 && lv < 1) || !(a > 0) || !(b > 0)) {
+      showMessage(status, 'error', 'The credible level must be between 0% and 100%, and prior alpha and beta above 0.');
+      return;
+    }
+    setBusy(insertButton, true);
+    try {
+      const start = parseAddress(selection.localAddress).start;
+      const k = checked.names.length;
+      const column = (c: number): string => rangeAddress({ row: start.row + checked.firstRow, column: start.column + c }, k, 1);
+      const built = readoutBlock(
+        {
+          namesRef: mapping.namesColumn === null ? null : column(mapping.namesColumn),
+          visitorsRef: column(mapping.visitorsColumn),
+          conversionsRef: column(mapping.conversionsColumn),
+          variants: k,
+        },
+        { level: lv, prior: { alpha: a, beta: b }, densityPoints: DENSITY_POINTS, currentSrmPValue: srmPValue(checked.visitors) },
+        besideTable(selection.localAddress),
+        selection.sheet,
+      );
+      const outcome = await writeAsking(context.workbook, built.block, status, 'the read-out');
+      if (outcome === null) return;
+      if (outcome.kind !== 'written') {
+        const { intent, text } = outcomeText(outcome, 'the read-out');
+        showMessage(status, intent, text);
+        return;
+      }
+      const chart = await context.workbook.insertChart({
+        sheet: selection.sheet,
+        sourceAddress: built.chartSource,
+        type: 'XYScatterSmoothNoMarkers',
+        title: 'Lift over control: posterior density',
+        topLeft: built.chartTopLeft,
+        bottomRight: built.chartBottomRight,
+      });
+      showMessage(
+        status,
+        chart.kind === 'inserted' ? 'success' : 'warning',
+        chart.kind === 'inserted'
+          ? `Wrote the read-out to ${outcome.address} (live formulas) and a lift chart from ${built.chartSource}. The decision is in ${built.cells.decision}.`
+          : `Wrote the read-out to ${outcome.address}, but ${chart.message}. The density table in ${built.chartSource} can be charted by hand.`,
+      );
+    } catch (error) {
+      showMessage(status, 'error', `Could not insert the read-out: ${(error as Error).message}`);
+    } finally {
+      setBusy(insertButton, false);
+    }
+  };
+
+  priorButton.addEventListener('click', () => {
+    const prior = context.state.prior;
+    if (prior === null) {
+      showMessage(status, 'info', 'Choose a prior in the Prior section first.');
+      return;
+    }
+    alpha.set(String(+prior.alpha.toPrecision(8)));
+    beta.set(String(+prior.beta.toPrecision(8)));
+  });
+  useButton.addEventListener('click', () => void useSelection());
+  insertButton.addEventListener('click', () => void insert());
+  return root;
+}
