@@ -1,0 +1,97 @@
+/**
+ * Plain-words text for DECISION, and the percentage formatting it uses.
+ */
+import { classifyCell } from './cells';
+
+/**
+ * Formats a rate (0.0123) as a percentage with two significant digits and at least two decimals
+ * ("1.23%", "0.30%", "0.0012%"), so small expected losses do not round to "0.00%".
+ *
+ * Cost O(1).
+ * @example formatPercent(0.0002) //=> "0.020%"
+ * @example formatPercent(0.0123) //=> "1.23%"
+ */
+export function formatPercent(rate: number): string {
+  const percent = rate * 100;
+  if (percent === 0) return '0%';
+  const magnitude = Math.floor(Math.log10(Math.abs(percent)));
+  const decimals = Math.min(12, Math.max(2, 1 - magnitude));
+  return `${percent.toFixed(decimals)}%`;
+}
+
+/**
+ * The default label of the variant at 0-based position `p` of the range: A, B, …, Z, AA, AB, …
+ *
+ * Cost O(log p).
+ * @example defaultLabel(1) //=> "B"
+ * @example defaultLabel(26) //=> "AA"
+ */
+export function defaultLabel(p: number): string {
+  let n = p + 1;
+  let label = '';
+  while (n > 0) {
+    const r = (n - 1) % 26;
+    label = String.fromCharCode(65 + r) + label;
+    n = Math.floor((n - 1) / 26);
+  }
+  return label;
+}
+
+/**
+ * The label of a variant: the user's label cell if it holds text or a number, else the default letter.
+ *
+ * Cost O(1).
+ * @example labelOf('Green button', 1) //=> "Green button"
+ * @example labelOf('', 1) //=> "B"
+ */
+export function labelOf(cell: unknown, p: number): string {
+  const c = classifyCell(cell);
+  if (c.kind === 'text') return c.text.trim();
+  if (c.kind === 'number') return String(c.value);
+  return defaultLabel(p);
+}
+
+/** What the core's decision rule found, with the chosen or leading variant's label. */
+export interface DecisionOutcome {
+  readonly choose: boolean;
+  readonly label: string;
+  readonly loss: number;
+  readonly maxLoss: number;
+}
+
+/**
+ * The one-cell text of DECISION.
+ *
+ * Cost O(1).
+ * @example decisionText({ choose: true, label: 'B', loss: 0.0002, maxLoss: 0.0005 })
+ * //=> "Choose B: its expected loss 0.020% is within the 0.050% allowed"
+ */
+export function decisionText(outcome: DecisionOutcome): string {
+  const loss = formatPercent(outcome.loss);
+  const allowed = formatPercent(outcome.maxLoss);
+  return outcome.choose
+    ? `Choose ${outcome.label}: its expected loss ${loss} is within the ${allowed} allowed`
+    : `Keep collecting data: ${outcome.label} leads, but its expected loss ${loss} is above the ${allowed} allowed`;
+}
+
+/**
+ * The DECISION cell for a variant table: maps the core's variant index back to its position in the
+ * range, picks the label (user's or default letter) and writes the text.
+ *
+ * Cost O(variants).
+ * @throws {Error} if the core's index is outside the table (an internal fault, shown as #VALUE!).
+ * @example decisionCell(table, undefined, { choose: false, index: 1, loss: 0.003, maxLoss: 0.0005 })
+ * //=> "Keep collecting data: B leads, but its expected loss 0.30% is above the 0.050% allowed"
+ */
+export function decisionCell(
+  table: { readonly positions: readonly number[] },
+  labels: readonly unknown[] | undefined,
+  found: { readonly choose: boolean; readonly index: number; readonly loss: number; readonly maxLoss: number },
+): string {
+  const position = table.positions[found.index];
+  if (position === undefined || !Number.isFinite(found.loss) || !Number.isFinite(found.maxLoss)) {
+    throw new Error(`internal: the decision rule returned variant ${found.index}`);
+  }
+  const label = labelOf(labels?.[found.index], position);
+  return decisionText({ choose: found.choose, label, loss: found.loss, maxLoss: found.maxLoss });
+}

@@ -1,0 +1,11 @@
+/**
+ * The sheet layer: cell ranges → checked numbers (declared argument rules) → core → spills, and the one
+ * place where failures become worksheet errors. functions/functions.ts uses only this module and the core.
+ */
+export * from './cells';
+export * from './rules';
+export * from './variants';
+export * from './inputs';
+export * from './spill';
+export * from './run';
+export * from './decision';

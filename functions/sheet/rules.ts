@@ -1,0 +1,213 @@
+/**
+ * Declared argument rules: every number a worksheet function accepts is described here as data, and
+ * checked by the one routine {@link checkNumber}. The style follows HyperFormula's function plugins, where
+ * each parameter declares its type and bounds and one runner does the coercion and the checks.
+ */
+import { ArgumentProblem, classifyCell } from './cells';
+
+/** The largest count accepted: 2^53, the largest integer a double holds exactly with all smaller ones. */
+export const MAX_COUNT = 2 ** 53;
+
+/** Bounds and kind of one numeric argument or of every cell of a numeric range. */
+export interface NumberRule {
+  /** The argument's name as the user sees it in Excel's formula help (`visitors`, `prior_alpha`). */
+  readonly name: string;
+  /** `count`: a whole number in [min, 2^53]; `real`: any finite number within the bounds. */
+  readonly kind: 'count' | 'real';
+  /** Smallest allowed value (inclusive). */
+  readonly min?: number;
+  /** Largest allowed value (inclusive). */
+  readonly max?: number;
+  /** The value must be strictly greater than this. */
+  readonly above?: number;
+  /** The value must be strictly less than this. */
+  readonly below?: number;
+  /** For a range cell: the value may not exceed the same position's value of the named column. */
+  readonly atMost?: string;
+  /** For an optional scalar: the value used when the argument is omitted. */
+  readonly default?: number;
+}
+
+/** A text argument that must be one of a few words (case-insensitive). */
+export interface ChoiceRule<T extends string> {
+  readonly name: string;
+  readonly choices: readonly T[];
+  readonly default: T;
+}
+
+/** Plain-words description of what a rule allows, for error messages. */
+export function describeAllowed(rule: NumberRule): string {
+  const parts: string[] = [];
+  if (rule.min !== undefined) parts.push(`at least ${rule.min}`);
+  if (rule.above !== undefined) parts.push(`greater than ${rule.above}`);
+  if (rule.below !== undefined) parts.push(`less than ${rule.below}`);
+  if (rule.max !== undefined) parts.push(`at most ${rule.max}`);
+  const bounds = parts.join(' and ');
+  if (rule.kind === 'count') return bounds ? `a whole number, ${bounds}` : 'a whole number, 0 or more';
+  return bounds ? `a number ${bounds}` : 'a finite number';
+}
+
+/**
+ * Checks one value against a rule and returns it as a number.
+ *
+ * `where` names the argument and position for the message, e.g. `visitors, item 3`.
+ * Cost O(1).
+ * @throws {ArgumentProblem} naming `where`, the value, the problem and what is allowed, e.g.
+ *   `visitors, item 3: 12.5 is not a whole number`.
+ * @example checkNumber({ name: 'visitors', kind: 'count', min: 1 }, 120, 'visitors, item 1') //=> 120
+ */
+export function checkNumber(rule: NumberRule, cell: unknown, where: string): number {
+  const c = classifyCell(cell);
+  const allowed = describeAllowed(rule);
+  switch (c.kind) {
+    case 'blank':
+      throw new ArgumentProblem(`${where}: is blank; enter ${allowed}`);
+    case 'text':
+      throw new ArgumentProblem(
+        `${where}: "${c.text}" is text, not a number; enter ${allowed} (convert text with VALUE() if needed)`,
+      );
+    case 'logical':
+      throw new ArgumentProblem(`${where}: ${c.value ? 'TRUE' : 'FALSE'} is a logical value, not a number; enter ${allowed}`);
+    case 'other':
+      throw new ArgumentProblem(`${where}: ${c.description} is not a number; enter ${allowed}`);
+    case 'number':
+      break;
+  }
+  const x = c.value;
+  if (rule.kind === 'count') {
+    if (x < 0) throw new ArgumentProblem(`${where}: ${x} is negative; enter ${allowed}`);
+    if (!Number.isInteger(x)) throw new ArgumentProblem(`${where}: ${x} is not a whole number`);
+    if (x > MAX_COUNT) throw new ArgumentProblem(`${where}: ${x} is larger than 2^53, the largest count accepted`);
+  }
+  const outside =
+    (rule.min !== undefined && x < rule.min) ||
+    (rule.max !== undefined && x > rule.max) ||
+    (rule.above !== undefined && !(x > rule.above)) ||
+    (rule.below !== undefined && !(x < rule.below));
+  if (outside) throw new ArgumentProblem(`${where}: ${x} is not allowed; enter ${allowed}`);
+  return x;
+}
+
+/**
+ * Reads an optional scalar number: omitted (null, undefined, blank) gives the rule's default, or
+ * `undefined` when the rule has none.
+ *
+ * Cost O(1).
+ * @throws {ArgumentProblem} as {@link checkNumber}.
+ * @example readOptionalNumber(LEVEL, null) //=> 0.95
+ */
+export function readOptionalNumber(rule: NumberRule, value: unknown): number | undefined {
+  if (classifyCell(value).kind === 'blank') return rule.default;
+  return checkNumber(rule, value, rule.name);
+}
+
+/**
+ * Reads a required scalar number.
+ *
+ * Cost O(1).
+ * @throws {ArgumentProblem} when missing or outside the rule.
+ * @example readRequiredNumber(BASELINE_RATE, 0.05) //=> 0.05
+ */
+export function readRequiredNumber(rule: NumberRule, value: unknown): number {
+  if (classifyCell(value).kind === 'blank') {
+    throw new ArgumentProblem(`${rule.name}: is missing; enter ${describeAllowed(rule)}`);
+  }
+  return checkNumber(rule, value, rule.name);
+}
+
+/**
+ * Reads an optional one-word text argument such as `method`.
+ *
+ * Cost O(length of text).
+ * @throws {ArgumentProblem} when the value is not one of the rule's choices.
+ * @example readChoice(RATE_INTERVAL_METHOD, 'HDI') //=> 'hdi'
+ */
+export function readChoice<T extends string>(rule: ChoiceRule<T>, value: unknown): T {
+  const c = classifyCell(value);
+  if (c.kind === 'blank') return rule.default;
+  const list = rule.choices.map((choice) => `"${choice}"`).join(' or ');
+  if (c.kind !== 'text') {
+    const shown = c.kind === 'number' ? String(c.value) : c.kind === 'logical' ? String(c.value).toUpperCase() : c.description;
+    throw new ArgumentProblem(`${rule.name}: ${shown} is not allowed; enter ${list}`);
+  }
+  const word = c.text.trim().toLowerCase();
+  const found = rule.choices.find((choice) => choice === word);
+  if (found === undefined) throw new ArgumentProblem(`${rule.name}: "${c.text}" is not allowed; enter ${list}`);
+  return found;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// The declared rules of the catalogue's arguments.
+
+/** `conversions`: whole number, 0 ≤ conversions ≤ visitors at the same position. */
+export const CONVERSIONS: NumberRule = { name: 'conversions', kind: 'count', min: 0, atMost: 'visitors' };
+/** `visitors`: whole number ≥ 1. */
+export const VISITORS: NumberRule = { name: 'visitors', kind: 'count', min: 1 };
+/** `visitors` of SRM_PVALUE: whole number ≥ 0 (an arm that received nobody is the worst mismatch). */
+export const SRM_VISITORS: NumberRule = { name: 'visitors', kind: 'count', min: 0 };
+/** `planned_shares`: positive weights. */
+export const PLANNED_SHARES: NumberRule = { name: 'planned_shares', kind: 'real', above: 0 };
+/** `count` of the Normal model: whole number ≥ 2 (a standard deviation needs two values). */
+export const COUNT: NumberRule = { name: 'count', kind: 'count', min: 2 };
+/** `mean`: any finite number. */
+export const MEAN: NumberRule = { name: 'mean', kind: 'real' };
+/** `sd`: ≥ 0. */
+export const SD: NumberRule = { name: 'sd', kind: 'real', min: 0 };
+/** `events`: whole number ≥ 0. */
+export const EVENTS: NumberRule = { name: 'events', kind: 'count', min: 0 };
+/** `exposure`: > 0. */
+export const EXPOSURE: NumberRule = { name: 'exposure', kind: 'real', above: 0 };
+
+/** `level` of credible intervals: in (0, 1), default 0.95. */
+export const LEVEL: NumberRule = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95 };
+/** `level` of PRIOR_FROM_INTERVAL: in (0, 1), default 0.90. */
+export const PRIOR_LEVEL: NumberRule = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9 };
+/** `prior_alpha`: > 0, default 1. */
+export const PRIOR_ALPHA: NumberRule = { name: 'prior_alpha', kind: 'real', above: 0, default: 1 };
+/** `prior_beta`: > 0, default 1. */
+export const PRIOR_BETA: NumberRule = { name: 'prior_beta', kind: 'real', above: 0, default: 1 };
+/** `prior_shape`: > 0, default 1. */
+export const PRIOR_SHAPE: NumberRule = { name: 'prior_shape', kind: 'real', above: 0, default: 1 };
+/** `prior_rate`: ≥ 0, default 0. */
+export const PRIOR_RATE: NumberRule = { name: 'prior_rate', kind: 'real', min: 0, default: 0 };
+/** `min_lift`: a relative lift, greater than −1 (a rate cannot fall below zero). */
+export const MIN_LIFT: NumberRule = { name: 'min_lift', kind: 'real', above: -1 };
+/** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
+export const MAX_LOSS: NumberRule = { name: 'max_loss', kind: 'real', min: 0, below: 1 };
+/** `points` of density tables: whole number 2…10000, default 101. */
+export const POINTS: NumberRule = { name: 'points', kind: 'count', min: 2, max: 10000, default: 101 };
+/** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */
+export const MEAN_RATE: NumberRule = { name: 'mean_rate', kind: 'real', above: 0, below: 1 };
+/** `strength` of PRIOR_FROM_MEAN: > 0 (the prior's worth in visitors). */
+export const STRENGTH: NumberRule = { name: 'strength', kind: 'real', above: 0 };
+/** `low` of PRIOR_FROM_INTERVAL: in (0, 1). */
+export const LOW: NumberRule = { name: 'low', kind: 'real', above: 0, below: 1 };
+/** `high` of PRIOR_FROM_INTERVAL: in (0, 1). */
+export const HIGH: NumberRule = { name: 'high', kind: 'real', above: 0, below: 1 };
+/** `baseline_rate`: in (0, 1). */
+export const BASELINE_RATE: NumberRule = { name: 'baseline_rate', kind: 'real', above: 0, below: 1 };
+/** `lift` of the planners: > −1. */
+export const LIFT: NumberRule = { name: 'lift', kind: 'real', above: -1 };
+/** `visitors_per_variant`: whole number ≥ 1. */
+export const VISITORS_PER_VARIANT: NumberRule = { name: 'visitors_per_variant', kind: 'count', min: 1 };
+/** `threshold` of the Bayesian planners: in (0, 1), default 0.95. */
+export const THRESHOLD: NumberRule = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95 };
+/** `power`: in (0, 1), default 0.8. */
+export const POWER: NumberRule = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8 };
+/** `alpha` of the classic test: in (0, 1), default 0.05. */
+export const ALPHA: NumberRule = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05 };
+/** `sides`: 1 or 2, default 2. */
+export const SIDES: NumberRule = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 };
+
+/** `method` of RATE_INTERVAL. */
+export const RATE_INTERVAL_METHOD: ChoiceRule<'central' | 'hdi'> = {
+  name: 'method',
+  choices: ['central', 'hdi'],
+  default: 'central',
+};
+/** `method` of PRIOR_FROM_HISTORY. */
+export const HISTORY_METHOD: ChoiceRule<'likelihood' | 'moments'> = {
+  name: 'method',
+  choices: ['likelihood', 'moments'],
+  default: 'likelihood',
+};
