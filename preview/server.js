@@ -1,0 +1,194 @@
+/**
+ * The preview server (plain http on localhost) and its build steps. Used by preview/start.js (`npm start`)
+ * and by the browser tests (test/browser/), which start it on a free port.
+ *
+ * Routes:
+ *   /                      the preview page (preview/build/index.html)
+ *   /preview/…             the preview bundle (preview/build/) and its static files (preview/static/)
+ *   /taskpane.html         dist/taskpane.html with Office's CDN office.js replaced by the preview's stand-in
+ *   /…                     any other file of dist/ (functions.js, functions.json, taskpane.js, help/…)
+ */
+'use strict';
+const fs = require('fs');
+const http = require('http');
+const net = require('net');
+const path = require('path');
+const { spawnSync } = require('child_process');
+
+const REPO_ROOT = path.resolve(__dirname, '..');
+// PREVIEW_DIST points the server at another build folder (development against a fixture only).
+const DIST = process.env.PREVIEW_DIST ? path.resolve(process.env.PREVIEW_DIST) : path.join(REPO_ROOT, 'dist');
+const PREVIEW_BUILD = path.join(__dirname, 'build');
+const PREVIEW_STATIC = path.join(__dirname, 'static');
+const STAND_IN_URL = '/preview/office-stand-in.js';
+const WEBPACK_CLI = path.join(REPO_ROOT, 'node_modules', 'webpack-cli', 'bin', 'cli.js');
+
+const CONTENT_TYPES = {
+  '.html': 'text/html; charset=utf-8',
+  '.js': 'text/javascript; charset=utf-8',
+  '.mjs': 'text/javascript; charset=utf-8',
+  '.json': 'application/json; charset=utf-8',
+  '.css': 'text/css; charset=utf-8',
+  '.map': 'application/json; charset=utf-8',
+  '.svg': 'image/svg+xml',
+  '.png': 'image/png',
+  '.ico': 'image/x-icon',
+  '.xml': 'application/xml; charset=utf-8',
+  '.woff2': 'font/woff2',
+  '.txt': 'text/plain; charset=utf-8',
+};
+
+/** Newest modification time (ms) of the files under `paths` (files or folders); 0 when none exist. */
+function newestMtime(paths) {
+  let newest = 0;
+  const visit = (p) => {
+    let stat;
+    try {
+      stat = fs.statSync(p);
+    } catch {
+      return;
+    }
+    if (stat.isDirectory()) {
+      if (path.basename(p) === 'node_modules' || path.basename(p) === 'build') return;
+      for (const entry of fs.readdirSync(p)) visit(path.join(p, entry));
+    } else newest = Math.max(newest, stat.mtimeMs);
+  };
+  paths.forEach(visit);
+  return newest;
+}
+
+/** Oldest modification time of `files`, or -1 when one is missing. */
+function oldestOutput(files) {
+  let oldest = Infinity;
+  for (const file of files) {
+    try {
+      oldest = Math.min(oldest, fs.statSync(file).mtimeMs);
+    } catch {
+      return -1;
+    }
+  }
+  return oldest;
+}
+
+function runWebpack(args, log) {
+  log(`Building: webpack ${args.join(' ')}`);
+  const result = spawnSync(process.execPath, [WEBPACK_CLI, ...args], { cwd: REPO_ROOT, stdio: ['ignore', 'inherit', 'inherit'] });
+  if (result.status !== 0) throw new Error(`webpack ${args.join(' ')} failed (exit ${result.status})`);
+}
+
+/**
+ * Runs the root webpack build (dist/: functions.js, functions.json, taskpane.html…) when dist/ is missing or
+ * older than its sources. Returns whether it built. Throws when the build fails; when the root
+ * webpack.config.js does not exist yet it logs that and returns false.
+ */
+function ensureAddinBuilt({ log = console.log, force = false } = {}) {
+  const outputs = ['functions.js', 'functions.json', 'taskpane.html'].map((f) => path.join(DIST, f));
+  const config = path.join(REPO_ROOT, 'webpack.config.js');
+  if (!fs.existsSync(config)) {
+    log('The add-in build (webpack.config.js) is not in this checkout yet; the preview needs dist/functions.js and dist/functions.json.');
+    return false;
+  }
+  const sources = newestMtime(['functions', 'taskpane', 'help', 'manifest', 'scripts', 'webpack.config.js'].map((p) => path.join(REPO_ROOT, p)));
+  const built = oldestOutput(outputs);
+  if (!force && built >= sources) return false;
+  runWebpack(['--mode', 'production'], log);
+  return true;
+}
+
+/** Builds the preview bundle (preview/build/) when missing or older than preview/src or its config. */
+function ensurePreviewBuilt({ log = console.log, force = false } = {}) {
+  const outputs = ['index.html', 'preview.js'].map((f) => path.join(PREVIEW_BUILD, f));
+  const sources = newestMtime([path.join(__dirname, 'src'), path.join(__dirname, 'webpack.config.js'), path.join(REPO_ROOT, 'node_modules', 'hyperformula', 'package.json')]);
+  if (!force && oldestOutput(outputs) >= sources) return false;
+  runWebpack(['--config', path.join(__dirname, 'webpack.config.js'), '--mode', 'production'], log);
+  return true;
+}
+
+/** dist/taskpane.html with the Office CDN script swapped for the preview's stand-in. */
+function rewriteTaskpane(html) {
+  const officeScript = /<script\b[^>]*\bsrc=["'][^"']*(?:appsforoffice\.microsoft\.com|\/office\.js)[^"']*["'][^>]*>\s*<\/script>/gi;
+  const tag = `<script src="${STAND_IN_URL}"></script>`;
+  if (officeScript.test(html)) return html.replace(officeScript, tag);
+  // No Office script found: still install the stand-in before anything else runs.
+  return html.replace(/<head([^>]*)>/i, `<head$1>${tag}`);
+}
+
+/** The file a URL path maps to, inside `root`; undefined for anything outside it. */
+function inside(root, urlPath) {
+  const target = path.normalize(path.join(root, urlPath));
+  return target === root || target.startsWith(root + path.sep) ? target : undefined;
+}
+
+function send(res, status, body, type) {
+  res.writeHead(status, { 'Content-Type': type, 'Cache-Control': 'no-store' });
+  res.end(body);
+}
+
+function serveFile(res, file) {
+  fs.readFile(file, (error, data) => {
+    if (error) return send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+    send(res, 200, data, CONTENT_TYPES[path.extname(file).toLowerCase()] || 'application/octet-stream');
+  });
+}
+
+function handler(req, res) {
+  let urlPath;
+  try {
+    urlPath = decodeURIComponent(new URL(req.url, 'http://localhost').pathname);
+  } catch {
+    return send(res, 400, 'Bad request', 'text/plain; charset=utf-8');
+  }
+  if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, 'Method not allowed', 'text/plain; charset=utf-8');
+  if (urlPath === '/' || urlPath === '/index.html') return serveFile(res, path.join(PREVIEW_BUILD, 'index.html'));
+  if (urlPath.startsWith('/preview/')) {
+    const rest = urlPath.slice('/preview/'.length);
+    const fromStatic = inside(PREVIEW_STATIC, rest);
+    if (fromStatic && fs.existsSync(fromStatic) && fs.statSync(fromStatic).isFile()) return serveFile(res, fromStatic);
+    const fromBuild = inside(PREVIEW_BUILD, rest);
+    return fromBuild ? serveFile(res, fromBuild) : send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+  }
+  if (urlPath === '/taskpane.html') {
+    return fs.readFile(path.join(DIST, 'taskpane.html'), 'utf8', (error, html) => {
+      if (error) {
+        return send(res, 200, '<!doctype html><meta charset="utf-8"><p style="font-family:sans-serif">The side panel is not built yet: run <code>npm run build</code>.</p>', CONTENT_TYPES['.html']);
+      }
+      send(res, 200, rewriteTaskpane(html), CONTENT_TYPES['.html']);
+    });
+  }
+  const file = inside(DIST, urlPath);
+  return file ? serveFile(res, file) : send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+}
+
+/** Resolves with `port` if it can be listened on at `host`, else with the first free port after it. */
+function findFreePort(port, host = '127.0.0.1', tries = 50) {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once('error', (error) => {
+      if (error.code === 'EADDRINUSE' && tries > 1) resolve(findFreePort(port + 1, host, tries - 1));
+      else reject(error);
+    });
+    probe.listen(port, host, () => probe.close(() => resolve(port)));
+  });
+}
+
+/**
+ * Starts the preview server. `port` 0 lets the system choose (tests); otherwise the first free port from
+ * `port` upward is used. Resolves with { url, port, close() } once listening on localhost.
+ */
+async function startPreviewServer({ port = 3100, host = '127.0.0.1' } = {}) {
+  const chosen = port === 0 ? 0 : await findFreePort(port, host);
+  const server = http.createServer(handler);
+  await new Promise((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(chosen, host, resolve);
+  });
+  const actual = server.address().port;
+  return {
+    port: actual,
+    url: `http://localhost:${actual}/`,
+    close: () => new Promise((resolve) => server.close(() => resolve())),
+    server,
+  };
+}
+
+module.exports = { startPreviewServer, ensureAddinBuilt, ensurePreviewBuilt, findFreePort, rewriteTaskpane, REPO_ROOT };

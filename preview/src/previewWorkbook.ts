@@ -1,0 +1,327 @@
+/**
+ * The preview's workbook: a HyperFormula engine plus what a spreadsheet shows around it (number formats,
+ * simple cell styles, column widths, the active sheet, the selection, charts), with change listeners for
+ * the grid and the Excel stand-in. No DOM here, so it also runs under node.
+ */
+import { DetailedCellError, HyperFormula } from 'hyperformula';
+import { columnLetters, parseA1, type DemoSheet, HYPERFORMULA_CONFIG, demoSheetsForHyperFormula } from './demoWorkbook';
+
+/** A rectangle of cells on one sheet, zero-based and inclusive. */
+export interface CellBlock {
+  readonly sheet: number;
+  readonly row: number;
+  readonly col: number;
+  readonly rows: number;
+  readonly columns: number;
+}
+
+/** Simple per-cell styles the Excel stand-in can set. */
+export interface CellStyle {
+  bold?: boolean;
+  color?: string;
+  fill?: string;
+}
+
+/** A chart drawn over the grid. */
+export interface PreviewChart {
+  readonly id: number;
+  readonly sheet: number;
+  type: 'XYScatterSmoothNoMarkers' | 'Line';
+  source: CellBlock;
+  title: string;
+  name: string;
+  /** Top-left and bottom-right cells the chart covers. */
+  position: { from: { row: number; col: number }; to: { row: number; col: number } };
+}
+
+/** What a cell shows. */
+export interface CellView {
+  /** The text drawn in the cell. */
+  readonly text: string;
+  readonly kind: 'empty' | 'number' | 'text' | 'boolean' | 'error';
+  /** The raw value: number, string, boolean, '' for blank, or the error text ('#VALUE!'). */
+  readonly value: number | string | boolean;
+  /** An error's message, for the tooltip and the formula bar. */
+  readonly message?: string;
+  /** "=…" for a formula cell, else the constant as typed, '' for blank. */
+  readonly input: string;
+  /** True when the cell holds part of a spilled result other than its formula cell. */
+  readonly spilled: boolean;
+}
+
+/** Events the workbook emits. */
+export type WorkbookEvent = 'cells' | 'selection' | 'sheet' | 'charts';
+
+/**
+ * Formats a number with an Excel-style number format code (the subset the preview needs: "0", "0.00",
+ * "0.0%", "General"). Cost: O(1). Never throws; an unknown code falls back to General.
+ *
+ * @example
+ * formatNumber(0.04321, '0.00%'); //=> '4.32%'
+ */
+export function formatNumber(value: number, format: string | undefined): string {
+  const code = (format ?? 'General').trim();
+  const fixed = /^0(?:\.(0+))?(%?)$/.exec(code);
+  if (fixed) {
+    const decimals = fixed[1]?.length ?? 0;
+    return fixed[2] === '%' ? `${(value * 100).toFixed(decimals)}%` : value.toFixed(decimals);
+  }
+  if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
+  const abs = Math.abs(value);
+  if (abs !== 0 && (abs < 1e-4 || abs >= 1e11)) return value.toExponential(4);
+  return String(Number(value.toPrecision(8)));
+}
+
+/** Quotes a sheet name the way Excel does in addresses ('Past tests'!A1; Plan!A1). */
+export function qualifiedSheetName(name: string): string {
+  return /^[A-Za-z_][A-Za-z0-9_.]*$/.test(name) ? name : `'${name.replace(/'/g, "''")}'`;
+}
+
+/** A1 text of a block without the sheet: "B2" or "B2:D4". */
+export function blockAddress(block: Omit<CellBlock, 'sheet'>): string {
+  const first = `${columnLetters(block.col)}${block.row + 1}`;
+  if (block.rows === 1 && block.columns === 1) return first;
+  return `${first}:${columnLetters(block.col + block.columns - 1)}${block.row + block.rows}`;
+}
+
+/** Parses "B2" or "B2:D4" (no sheet) into a block on `sheet`; undefined if it is not an address. */
+export function parseBlock(address: string, sheet: number): CellBlock | undefined {
+  const parts = address.trim().split(':');
+  if (parts.length < 1 || parts.length > 2) return undefined;
+  try {
+    const a = parseA1(parts[0] ?? '');
+    const b = parts.length === 2 ? parseA1(parts[1] ?? '') : a;
+    return {
+      sheet,
+      row: Math.min(a.row, b.row),
+      col: Math.min(a.col, b.col),
+      rows: Math.abs(b.row - a.row) + 1,
+      columns: Math.abs(b.col - a.col) + 1,
+    };
+  } catch {
+    return undefined;
+  }
+}
+
+/**
+ * The workbook of the preview. Create one per page (or per test) with {@link PreviewWorkbook.create};
+ * the ABTEST functions must already be registered into HyperFormula.
+ */
+export class PreviewWorkbook {
+  readonly hf: HyperFormula;
+  private readonly formats: Map<string, string>[];
+  private readonly styles: Map<string, CellStyle>[];
+  private readonly widths: Record<string, number>[];
+  private readonly listeners = new Map<WorkbookEvent, Set<() => void>>();
+  private readonly chartList: PreviewChart[] = [];
+  private nextChartId = 1;
+  private active = 0;
+  private selected: CellBlock = { sheet: 0, row: 0, col: 0, rows: 1, columns: 1 };
+
+  private constructor(sheets: readonly DemoSheet[]) {
+    this.hf = HyperFormula.buildFromSheets(demoSheetsForHyperFormula(sheets), { ...HYPERFORMULA_CONFIG });
+    this.formats = sheets.map((sheet) => {
+      const map = new Map<string, string>();
+      for (const [address, format] of Object.entries(sheet.formats)) {
+        const { row, col } = parseA1(address);
+        map.set(`${row},${col}`, format);
+      }
+      return map;
+    });
+    this.styles = sheets.map(() => new Map<string, CellStyle>());
+    this.widths = sheets.map((sheet) => ({ ...sheet.columnWidths }));
+  }
+
+  /**
+   * Builds the workbook from sheets (normally {@link buildDemoWorkbook}'s). Cost: one full HyperFormula
+   * evaluation. Throws what HyperFormula throws for malformed sheets.
+   *
+   * @example
+   * PreviewWorkbook.create(buildDemoWorkbook()).sheetNames(); //=> ['Checkout test', 'Past tests', 'Plan']
+   */
+  static create(sheets: readonly DemoSheet[]): PreviewWorkbook {
+    return new PreviewWorkbook(sheets);
+  }
+
+  /** Subscribes to an event; returns the unsubscribe function. */
+  on(event: WorkbookEvent, listener: () => void): () => void {
+    const set = this.listeners.get(event) ?? new Set<() => void>();
+    set.add(listener);
+    this.listeners.set(event, set);
+    return () => set.delete(listener);
+  }
+
+  private emit(event: WorkbookEvent): void {
+    for (const listener of [...(this.listeners.get(event) ?? [])]) listener();
+  }
+
+  sheetNames(): string[] {
+    return this.hf.getSheetNames();
+  }
+
+  sheetId(name: string): number | undefined {
+    return this.hf.getSheetId(name);
+  }
+
+  get activeSheet(): number {
+    return this.active;
+  }
+
+  /** Makes `sheet` the active sheet and selects its A1. */
+  activate(sheet: number): void {
+    if (this.hf.getSheetName(sheet) === undefined) return;
+    this.active = sheet;
+    this.selected = { sheet, row: 0, col: 0, rows: 1, columns: 1 };
+    this.emit('sheet');
+    this.emit('selection');
+  }
+
+  get selection(): CellBlock {
+    return this.selected;
+  }
+
+  /** Selects a block (switching sheets if needed) and fires the selection event. */
+  select(block: CellBlock): void {
+    if (block.sheet !== this.active) {
+      this.active = block.sheet;
+      this.emit('sheet');
+    }
+    this.selected = block;
+    this.emit('selection');
+  }
+
+  /** Used size of a sheet (rows × columns with content), at least 1 × 1. */
+  usedSize(sheet: number): { rows: number; columns: number } {
+    const { height, width } = this.hf.getSheetDimensions(sheet);
+    return { rows: Math.max(1, height), columns: Math.max(1, width) };
+  }
+
+  columnWidth(sheet: number, col: number): number | undefined {
+    return this.widths[sheet]?.[columnLetters(col)];
+  }
+
+  setColumnWidth(sheet: number, col: number, px: number): void {
+    const widths = this.widths[sheet];
+    if (widths) widths[columnLetters(col)] = px;
+  }
+
+  /** The number format of a cell: its own, or that of the formula whose spill it is part of. */
+  numberFormat(sheet: number, row: number, col: number): string | undefined {
+    const map = this.formats[sheet];
+    if (!map) return undefined;
+    const own = map.get(`${row},${col}`);
+    if (own !== undefined) return own;
+    const anchor = this.spillAnchor(sheet, row, col);
+    return anchor ? map.get(`${anchor.row},${anchor.col}`) : undefined;
+  }
+
+  setNumberFormat(sheet: number, row: number, col: number, format: string): void {
+    this.formats[sheet]?.set(`${row},${col}`, format);
+  }
+
+  style(sheet: number, row: number, col: number): CellStyle | undefined {
+    return this.styles[sheet]?.get(`${row},${col}`);
+  }
+
+  setStyle(sheet: number, row: number, col: number, style: CellStyle): void {
+    const map = this.styles[sheet];
+    if (!map) return;
+    map.set(`${row},${col}`, { ...map.get(`${row},${col}`), ...style });
+  }
+
+  /** The formula cell whose spill covers (row, col), found by walking up and left through the spill. */
+  spillAnchor(sheet: number, row: number, col: number): { row: number; col: number } | undefined {
+    const isPart = (r: number, c: number) => r >= 0 && c >= 0 && this.hf.isCellPartOfArray({ sheet, row: r, col: c });
+    if (!isPart(row, col) || this.hf.doesCellHaveFormula({ sheet, row, col })) return undefined;
+    for (let r = row; r >= 0 && isPart(r, col); r -= 1) {
+      for (let c = col; c >= 0 && isPart(r, c); c -= 1) {
+        if (this.hf.doesCellHaveFormula({ sheet, row: r, col: c })) return { row: r, col: c };
+      }
+    }
+    return undefined;
+  }
+
+  /** What a cell shows, with its formula or typed constant. */
+  cell(sheet: number, row: number, col: number): CellView {
+    const address = { sheet, row, col };
+    const value = this.hf.getCellValue(address);
+    const serialized = this.hf.getCellSerialized(address);
+    const spilled = this.hf.isCellPartOfArray(address) && !this.hf.doesCellHaveFormula(address);
+    const input = serialized === null || serialized === undefined ? '' : String(serialized);
+    if (value instanceof DetailedCellError) {
+      return { text: value.value, kind: 'error', value: value.value, message: value.message || undefined, input, spilled };
+    }
+    if (value === null || value === undefined || value === '') {
+      return { text: '', kind: value === '' ? 'text' : 'empty', value: '', input, spilled };
+    }
+    if (typeof value === 'number') {
+      return { text: formatNumber(value, this.numberFormat(sheet, row, col)), kind: 'number', value, input, spilled };
+    }
+    if (typeof value === 'boolean') return { text: value ? 'TRUE' : 'FALSE', kind: 'boolean', value, input, spilled };
+    return { text: String(value), kind: 'text', value: String(value), input, spilled };
+  }
+
+  /**
+   * Writes what a user typed: "=…" is a formula, a number-like text a number, anything else text;
+   * '' clears. Recalculates and fires 'cells'. Throws HyperFormula's error if the cell cannot be written.
+   */
+  enter(sheet: number, row: number, col: number, typed: string | number | boolean | null): void {
+    this.write(sheet, row, col, [[typed]]);
+  }
+
+  /** Writes a block of contents at (row, col), one recalculation; fires 'cells'. */
+  write(sheet: number, row: number, col: number, contents: (string | number | boolean | null)[][]): void {
+    const cleaned = contents.map((line) => line.map((v) => (v === '' ? null : v)));
+    this.hf.setCellContents({ sheet, row, col }, cleaned);
+    this.emit('cells');
+  }
+
+  /** Lets listeners know that styles or formats changed without a content change. */
+  touch(): void {
+    this.emit('cells');
+  }
+
+  /** Charts on a sheet. */
+  charts(sheet: number): PreviewChart[] {
+    return this.chartList.filter((chart) => chart.sheet === sheet);
+  }
+
+  /** Adds a chart and fires 'charts'. */
+  addChart(sheet: number, type: PreviewChart['type'], source: CellBlock): PreviewChart {
+    const id = this.nextChartId;
+    this.nextChartId += 1;
+    const chart: PreviewChart = {
+      id,
+      sheet,
+      type,
+      source,
+      title: '',
+      name: `Chart ${id}`,
+      position: { from: { row: source.row, col: source.col + source.columns + 1 }, to: { row: source.row + 14, col: source.col + source.columns + 7 } },
+    };
+    this.chartList.push(chart);
+    this.emit('charts');
+    return chart;
+  }
+
+  /** Fires 'charts' after a chart's title, name or position changed. */
+  chartsChanged(): void {
+    this.emit('charts');
+  }
+
+  /** Raw values of a block (errors as their text), for charts and the Excel stand-in. */
+  values(block: CellBlock): (number | string | boolean)[][] {
+    const out: (number | string | boolean)[][] = [];
+    for (let r = 0; r < block.rows; r += 1) {
+      const line: (number | string | boolean)[] = [];
+      for (let c = 0; c < block.columns; c += 1) line.push(this.cell(block.sheet, block.row + r, block.col + c).value);
+      out.push(line);
+    }
+    return out;
+  }
+
+  /** Sheet-qualified A1 address as Excel gives it: 'Past tests'!B2:D4. */
+  qualifiedAddress(block: CellBlock): string {
+    return `${qualifiedSheetName(this.hf.getSheetName(block.sheet) ?? '')}!${blockAddress(block)}`;
+  }
+}
