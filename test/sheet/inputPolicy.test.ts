@@ -1,0 +1,415 @@
+/**
+ * The sheet layer's input policy, by name: how ranges become checked numbers, what is rejected with which
+ * message, and how results spill. The conventions tested here are the catalogue's
+ * (/work/shared/catalogue.md, "Conventions every function follows"); the policy for text, logicals and
+ * whitespace is our own and is written down in functions/sheet/cells.ts.
+ */
+import { StatsError } from '../../functions/stats/errors';
+import {
+  COMPARISON,
+  ONE_OR_MORE,
+  readBetaPrior,
+  readChoice,
+  readConversions,
+  readGammaPrior,
+  readMeans,
+  readOptionalNumber,
+  readSplit,
+  runSheet,
+  spillBlock,
+  spillBlockVersusControl,
+  spillDensity,
+  spillPerVariant,
+  spillVersusControl,
+  LEVEL,
+  RATE_INTERVAL_METHOD,
+  POINTS,
+  readRequiredNumber,
+  MIN_LIFT,
+} from '../../functions/sheet';
+import { decisionText, defaultLabel, formatPercent, labelOf } from '../../functions/sheet/decision';
+
+/** Runs `body` through the one error mapping and returns the worksheet error it produced. */
+function sheetError(body: () => unknown): { code: string; message: string } {
+  try {
+    runSheet(body);
+  } catch (e) {
+    const err = e as { code: string; message: string };
+    return { code: err.code, message: err.message };
+  }
+  throw new Error('expected a worksheet error');
+}
+
+const col = (...xs: unknown[]): unknown[][] => xs.map((x) => [x]);
+const row = (...xs: unknown[]): unknown[][] => [xs];
+
+describe('orientation', () => {
+  test('a single column is read top to bottom and spills a column', () => {
+    const input = readConversions(col(10, 12, 9), col(100, 110, 90), COMPARISON);
+    expect(input.table.orientation).toBe('column');
+    expect(input.variants).toEqual([
+      { conversions: 10, visitors: 100 },
+      { conversions: 12, visitors: 110 },
+      { conversions: 9, visitors: 90 },
+    ]);
+    expect(spillPerVariant(input.table, [0.1, 0.2, 0.3])).toEqual([[0.1], [0.2], [0.3]]);
+  });
+
+  test('a single row is read left to right and spills a row', () => {
+    const input = readConversions(row(10, 12), row(100, 110), COMPARISON);
+    expect(input.table.orientation).toBe('row');
+    expect(spillPerVariant(input.table, [0.4, 0.6])).toEqual([[0.4, 0.6]]);
+  });
+
+  test('a single cell is a column of one', () => {
+    const input = readConversions([[3]], [[30]], ONE_OR_MORE);
+    expect(input.table.orientation).toBe('column');
+    expect(spillPerVariant(input.table, [0.125])).toEqual([[0.125]]);
+  });
+
+  test('a bare number (not wrapped by Excel) is read as a 1 × 1 range', () => {
+    expect(readConversions(3, 30, ONE_OR_MORE).variants).toEqual([{ conversions: 3, visitors: 30 }]);
+  });
+
+  test('a 2-D range is rejected, naming its shape', () => {
+    expect(sheetError(() => readConversions([[1, 2], [3, 4]], [[10, 20], [30, 40]], COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message:
+        'conversions: a range of 2 rows × 2 columns was given; use a single row or a single column (one cell per variant)',
+    });
+  });
+});
+
+describe('blank rows', () => {
+  test.each([
+    ['""', ''],
+    ['null', null],
+    ['undefined', undefined],
+    ['spaces only', '   '],
+  ])('a position blank (%s) in both ranges is no variant: skipped, its slot is ""', (_name, blank) => {
+    const input = readConversions(col(10, blank, 12), col(100, blank, 110), COMPARISON);
+    expect(input.variants).toEqual([
+      { conversions: 10, visitors: 100 },
+      { conversions: 12, visitors: 110 },
+    ]);
+    expect(input.table.positions).toEqual([0, 2]);
+    expect(spillPerVariant(input.table, [0.3, 0.7])).toEqual([[0.3], [''], [0.7]]);
+  });
+
+  test('blank positions before the control: the first non-blank position is the control', () => {
+    const input = readConversions(col('', 10, 12), col('', 100, 110), COMPARISON);
+    expect(spillVersusControl(input.table, [0.9])).toEqual([[''], [''], [0.9]]);
+  });
+
+  test('only one of the pair blank is an error naming the blank one and the position', () => {
+    expect(sheetError(() => readConversions(col(10, 12), col(100, ''), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'visitors, item 2: is blank while conversions has a value; fill in both or leave both blank',
+    });
+    expect(sheetError(() => readConversions(col(null, 12), col(100, 120), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'conversions, item 1: is blank while visitors has a value; fill in both or leave both blank',
+    });
+  });
+
+  test('every position blank: no variant at all', () => {
+    expect(sheetError(() => readConversions(col('', ''), col('', ''), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'at least 2 variants are needed to compare; every position is blank',
+    });
+  });
+});
+
+describe('cell values', () => {
+  test('text, even numeric text, is rejected with a hint', () => {
+    expect(sheetError(() => readConversions(col(10, '12'), col(100, 110), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message:
+        'conversions, item 2: "12" is text, not a number; enter a whole number, at least 0 (convert text with VALUE() if needed)',
+    });
+  });
+
+  test('logical values are rejected', () => {
+    expect(sheetError(() => readConversions(col(10, 12), col(true, 110), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'visitors, item 1: TRUE is a logical value, not a number; enter a whole number, at least 1',
+    });
+  });
+
+  test('error values and NaN are rejected', () => {
+    const errorCell = new CustomFunctions.Error(CustomFunctions.ErrorCode.notAvailable);
+    expect(sheetError(() => readConversions(col(10, errorCell), col(100, 110), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'conversions, item 2: the error value #N/A is not a number; enter a whole number, at least 0',
+    });
+    expect(sheetError(() => readConversions(col(10, 12), col(100, Number.NaN), COMPARISON)).message).toBe(
+      'visitors, item 2: NaN is not a number; enter a whole number, at least 1',
+    );
+  });
+
+  test('non-whole counts are rejected (the catalogue example message)', () => {
+    expect(sheetError(() => readConversions(col(1, 2, 3), col(10, 20, 12.5), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'visitors, item 3: 12.5 is not a whole number',
+    });
+  });
+
+  test('negative counts are rejected', () => {
+    expect(sheetError(() => readConversions(col(-3, 2), col(10, 20), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'conversions, item 1: -3 is negative; enter a whole number, at least 0',
+    });
+  });
+
+  test('visitors of 0 are rejected', () => {
+    expect(sheetError(() => readConversions(col(0, 2), col(0, 20), COMPARISON)).message).toBe(
+      'visitors, item 1: 0 is not allowed; enter a whole number, at least 1',
+    );
+  });
+
+  test('conversions above visitors are rejected', () => {
+    expect(sheetError(() => readConversions(col(10, 130), col(100, 120), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'conversions, item 2: 130 is more than the 120 visitors',
+    });
+  });
+
+  test('counts up to 2^53 are accepted, above are rejected', () => {
+    const big = 2 ** 53;
+    expect(readConversions(col(1, 2), col(big, big), COMPARISON).variants[0]).toEqual({ conversions: 1, visitors: big });
+    expect(sheetError(() => readConversions(col(1, 2), col(big * 2, 10), COMPARISON)).message).toBe(
+      `visitors, item 1: ${big * 2} is larger than 2^53, the largest count accepted`,
+    );
+  });
+});
+
+describe('shapes and counts', () => {
+  test('ranges of different shapes are rejected, naming both shapes', () => {
+    expect(sheetError(() => readConversions(col(1, 2, 3), col(10, 20, 30, 40), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'conversions and visitors must have the same shape: conversions is 3 rows × 1 column, visitors is 4 rows × 1 column',
+    });
+    expect(sheetError(() => readConversions(col(1, 2), row(10, 20), COMPARISON)).message).toBe(
+      'conversions and visitors must have the same shape: conversions is 2 rows × 1 column, visitors is 1 row × 2 columns',
+    );
+  });
+
+  test('comparisons need 2 variants', () => {
+    expect(sheetError(() => readConversions(col(1), col(10), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'at least 2 variants are needed to compare; only 1 was given',
+    });
+  });
+
+  test('comparisons accept 50 variants and reject 51', () => {
+    const fifty = Array.from({ length: 50 }, (_, i) => i);
+    expect(readConversions(col(...fifty), col(...fifty.map(() => 100)), COMPARISON).variants).toHaveLength(50);
+    const fiftyOne = Array.from({ length: 51 }, (_, i) => i);
+    expect(sheetError(() => readConversions(col(...fiftyOne), col(...fiftyOne.map(() => 100)), COMPARISON))).toEqual({
+      code: '#VALUE!',
+      message: 'at most 50 variants can be compared; 51 were given',
+    });
+  });
+
+  test('blank positions do not count towards the 50', () => {
+    const cells = Array.from({ length: 60 }, (_, i) => (i % 6 === 5 ? '' : 1));
+    expect(readConversions(col(...cells), col(...cells.map((c) => (c === '' ? '' : 10))), COMPARISON).variants).toHaveLength(50);
+  });
+});
+
+describe('priors and scalars', () => {
+  test('both prior parameters omitted give the uniform prior Beta(1, 1)', () => {
+    expect(readBetaPrior(undefined, null)).toEqual({ alpha: 1, beta: 1 });
+  });
+
+  test('both given are used', () => {
+    expect(readBetaPrior(2, 38)).toEqual({ alpha: 2, beta: 38 });
+  });
+
+  test('only one given is an error naming the missing one', () => {
+    expect(sheetError(() => readBetaPrior(2, undefined))).toEqual({
+      code: '#VALUE!',
+      message: 'prior_alpha and prior_beta: give both or neither (prior_beta is missing); leaving both out uses the uniform prior Beta(1, 1)',
+    });
+    expect(sheetError(() => readBetaPrior(null, 5)).message).toMatch(/^prior_alpha and prior_beta: give both or neither \(prior_alpha is missing\)/);
+  });
+
+  test('prior parameters must be positive', () => {
+    expect(sheetError(() => readBetaPrior(0, 1))).toEqual({
+      code: '#VALUE!',
+      message: 'prior_alpha: 0 is not allowed; enter a number greater than 0',
+    });
+  });
+
+  test('the Gamma prior takes each default on its own: shape 1, rate 0', () => {
+    expect(readGammaPrior(undefined, undefined)).toEqual({ shape: 1, rate: 0 });
+    expect(readGammaPrior(3, undefined)).toEqual({ shape: 3, rate: 0 });
+    expect(sheetError(() => readGammaPrior(1, -1)).message).toBe('prior_rate: -1 is not allowed; enter a number at least 0');
+  });
+
+  test('levels lie strictly between 0 and 1; omitted gives 0.95', () => {
+    expect(readOptionalNumber(LEVEL, null)).toBe(0.95);
+    expect(readOptionalNumber(LEVEL, 0.8)).toBe(0.8);
+    for (const bad of [0, 1, 1.5, -0.1]) {
+      expect(sheetError(() => readOptionalNumber(LEVEL, bad))).toEqual({
+        code: '#VALUE!',
+        message: `level: ${bad} is not allowed; enter a number greater than 0 and less than 1`,
+      });
+    }
+  });
+
+  test('a required scalar that is missing says so', () => {
+    expect(sheetError(() => readRequiredNumber(MIN_LIFT, undefined)).message).toBe(
+      'min_lift: is missing; enter a number greater than -1',
+    );
+  });
+
+  test('points must be a whole number from 2 to 10000', () => {
+    expect(readOptionalNumber(POINTS, undefined)).toBe(101);
+    expect(sheetError(() => readOptionalNumber(POINTS, 1)).message).toBe(
+      'points: 1 is not allowed; enter a whole number, at least 2 and at most 10000',
+    );
+    expect(sheetError(() => readOptionalNumber(POINTS, 10.5)).message).toBe('points: 10.5 is not a whole number');
+  });
+
+  test('method words are case-insensitive; others are rejected with the allowed list', () => {
+    expect(readChoice(RATE_INTERVAL_METHOD, undefined)).toBe('central');
+    expect(readChoice(RATE_INTERVAL_METHOD, ' HDI ')).toBe('hdi');
+    expect(sheetError(() => readChoice(RATE_INTERVAL_METHOD, 'widest'))).toEqual({
+      code: '#VALUE!',
+      message: 'method: "widest" is not allowed; enter "central" or "hdi"',
+    });
+    expect(sheetError(() => readChoice(RATE_INTERVAL_METHOD, 2)).message).toBe('method: 2 is not allowed; enter "central" or "hdi"');
+  });
+});
+
+describe('other families', () => {
+  test('means: count ≥ 2, sd ≥ 0, any finite mean; three ranges of one shape', () => {
+    const input = readMeans(col(10, 12), col(-1.5, 2), col(0, 3), COMPARISON);
+    expect(input.variants).toEqual([
+      { count: 10, mean: -1.5, sd: 0 },
+      { count: 12, mean: 2, sd: 3 },
+    ]);
+    expect(sheetError(() => readMeans(col(1, 12), col(1, 2), col(1, 3), COMPARISON)).message).toBe(
+      'count, item 1: 1 is not allowed; enter a whole number, at least 2',
+    );
+    expect(sheetError(() => readMeans(col(10, 12), col(1, 2), col(1, -3), COMPARISON)).message).toBe(
+      'sd, item 2: -3 is not allowed; enter a number at least 0',
+    );
+    expect(sheetError(() => readMeans(col(10, 12), col(1, ''), col(1, 3), COMPARISON)).message).toBe(
+      'mean, item 2: is blank while count has a value; fill in both or leave both blank',
+    );
+  });
+
+  test('split: planned shares line up with visitors; blank visitor positions are skipped', () => {
+    const split = readSplit(col(500, '', 520), col(1, 7, 1), COMPARISON);
+    expect(split.visitors).toEqual([500, 520]);
+    expect(split.plannedShares).toEqual([1, 1]);
+    expect(readSplit(row(5, 6), undefined, COMPARISON).plannedShares).toBeUndefined();
+    expect(sheetError(() => readSplit(col(500, 520), row(1, 1), COMPARISON)).message).toBe(
+      'planned_shares must have the same shape as visitors: planned_shares is 1 row × 2 columns, visitors is 2 rows × 1 column',
+    );
+    expect(sheetError(() => readSplit(col(500, 520), col(1, 0), COMPARISON)).message).toBe(
+      'planned_shares, item 2: 0 is not allowed; enter a number greater than 0',
+    );
+  });
+});
+
+describe('spills', () => {
+  const columnTable = readConversions(col(1, '', 2, 3), col(10, '', 20, 30), COMPARISON).table;
+  const rowTable = readConversions(row(1, '', 2, 3), row(10, '', 20, 30), COMPARISON).table;
+
+  test('blocks are one row per variant for a column input', () => {
+    expect(spillBlock(columnTable, [[1, 2], [3, 4], [5, 6]], 2)).toEqual([[1, 2], ['', ''], [3, 4], [5, 6]]);
+  });
+
+  test('blocks are one column per variant for a row input', () => {
+    expect(spillBlock(rowTable, [[1, 2], [3, 4], [5, 6]], 2)).toEqual([
+      [1, '', 3, 5],
+      [2, '', 4, 6],
+    ]);
+  });
+
+  test('versus-control blocks leave the control and blank slots empty', () => {
+    expect(spillBlockVersusControl(columnTable, [[-1, 0, 1], [-2, 0, 2]], 3)).toEqual([
+      ['', '', ''],
+      ['', '', ''],
+      [-1, 0, 1],
+      [-2, 0, 2],
+    ]);
+    expect(spillVersusControl(rowTable, [0.7, 0.8])).toEqual([['', '', 0.7, 0.8]]);
+  });
+
+  test('density tables: grid first, one column per position, "" columns for blank positions', () => {
+    const per = spillDensity(columnTable, { grid: [0.1, 0.2], densities: [[1, 2], [3, 4], [5, 6]] }, 'variant');
+    expect(per).toEqual([
+      [0.1, 1, '', 3, 5],
+      [0.2, 2, '', 4, 6],
+    ]);
+    const lift = spillDensity(columnTable, { grid: [0, 1], densities: [[3, 4], [5, 6]] }, 'challenger');
+    expect(lift).toEqual([
+      [0, '', 3, 5],
+      [1, '', 4, 6],
+    ]);
+  });
+
+  test('a non-finite number never reaches a cell', () => {
+    expect(sheetError(() => spillPerVariant(columnTable, [0.1, Number.NaN, 0.3]))).toEqual({
+      code: '#VALUE!',
+      message: 'unexpected problem while computing (please report it): the result is not a finite number (NaN)',
+    });
+  });
+});
+
+describe('the one error mapping', () => {
+  test('core invalid_argument becomes #VALUE! with its message', () => {
+    expect(sheetError(() => { throw new StatsError('invalid_argument', 'low must be below high'); })).toEqual({
+      code: '#VALUE!',
+      message: 'low must be below high',
+    });
+  });
+
+  test('core not_available becomes #N/A with its message', () => {
+    expect(sheetError(() => { throw new StatsError('not_available', 'the highest-density region is not an interval'); })).toEqual({
+      code: '#N/A',
+      message: 'the highest-density region is not an interval',
+    });
+  });
+
+  test('a raw JavaScript error becomes #VALUE! with an explanation', () => {
+    expect(sheetError(() => { throw new TypeError('x is undefined'); })).toEqual({
+      code: '#VALUE!',
+      message: 'unexpected problem while computing (please report it): x is undefined',
+    });
+  });
+
+  test('results pass through unchanged', () => {
+    expect(runSheet(() => [[1, 2]])).toEqual([[1, 2]]);
+  });
+});
+
+describe('decision text', () => {
+  test('percentages keep two significant digits and at least two decimals', () => {
+    expect(formatPercent(0.0123)).toBe('1.23%');
+    expect(formatPercent(0.003)).toBe('0.30%');
+    expect(formatPercent(0.0002)).toBe('0.020%');
+    expect(formatPercent(6.5235e-5)).toBe('0.0065%');
+    expect(formatPercent(0)).toBe('0%');
+  });
+
+  test('default labels are A, B, … Z, AA by position', () => {
+    expect([0, 1, 25, 26, 49].map(defaultLabel)).toEqual(['A', 'B', 'Z', 'AA', 'AX']);
+    expect(labelOf('  Green button ', 1)).toBe('Green button');
+    expect(labelOf(2024, 1)).toBe('2024');
+    expect(labelOf('', 2)).toBe('C');
+  });
+
+  test('choose and keep-collecting wording', () => {
+    expect(decisionText({ choose: true, label: 'B', loss: 0.0002, maxLoss: 0.0005 })).toBe(
+      'Choose B: its expected loss 0.020% is within the 0.050% allowed',
+    );
+    expect(decisionText({ choose: false, label: 'B', loss: 0.003, maxLoss: 0.0005 })).toBe(
+      'Keep collecting data: B leads, but its expected loss 0.30% is above the 0.050% allowed',
+    );
+  });
+});
