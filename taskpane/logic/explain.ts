@@ -168,7 +168,7 @@ export const SIGNATURES: Readonly<Record<string, Signature>> = {
  */
 export function itemOf(reference: string, index: number): string {
   try {
-    const parsed = parseAddress(reference.replace(/\s/g, ''));
+    const parsed = parseAddress(reference.trim());
     const isRow = parsed.start.row === parsed.end.row && parsed.start.column !== parsed.end.column;
     const cell = isRow
       ? { row: parsed.start.row, column: parsed.start.column + index }

@@ -1,0 +1,234 @@
+/**
+ * The Explain section's pure module: parsing =ABTEST. calls, the words for every catalogue function,
+ * and the built-in cross-check formulas. The cross-check formulas are evaluated with HyperFormula (an
+ * independent spreadsheet engine) on an invented checkout-test sheet and held against scipy
+ * (test/reference/taskpane_crosscheck.json, made by test/reference/taskpane_crosscheck.py) and R's
+ * power.prop.test / chisq.test values from /work/shared/check-values.md.
+ */
+import { HyperFormula } from 'hyperformula';
+import { explainFormula, itemOf, parseAbtestCall, SIGNATURES, splitArguments, type Explanation } from '../../taskpane/logic/explain';
+import reference from '../reference/taskpane_crosscheck.json';
+
+function explained(formula: string, anchor = 'Z1'): Explanation {
+  const result = explainFormula(formula, anchor);
+  if ('problem' in result) throw new Error(`not explained: ${result.problem}`);
+  return result;
+}
+
+describe('parsing', () => {
+  test('splits arguments at top-level commas only', () => {
+    expect(splitArguments('C2:C4, B2:B4, 0.9')).toEqual(['C2:C4', 'B2:B4', '0.9']);
+    expect(splitArguments('INDEX(A1:B2,1,2),"a,b",{1,2;3,4},\'Past, tests\'!B2:B9')).toEqual([
+      'INDEX(A1:B2,1,2)',
+      '"a,b"',
+      '{1,2;3,4}',
+      "'Past, tests'!B2:B9",
+    ]);
+    expect(splitArguments('C2:C4,,0.9')).toEqual(['C2:C4', '', '0.9']);
+    expect(splitArguments('')).toEqual([]);
+  });
+
+  test('finds the ABTEST call, also inside other functions, case-insensitively', () => {
+    expect(parseAbtestCall('=ABTEST.PROB_HIGHEST(C2:C4, B2:B4)')).toEqual({ name: 'PROB_HIGHEST', args: ['C2:C4', 'B2:B4'] });
+    expect(parseAbtestCall('=ROUND(abtest.posterior_mean(C2:C4,B2:B4),3)')).toEqual({ name: 'POSTERIOR_MEAN', args: ['C2:C4', 'B2:B4'] });
+    expect(parseAbtestCall('=ABTEST.DECISION(C2:C4,B2:B4,,"A (old)")')).toEqual({ name: 'DECISION', args: ['C2:C4', 'B2:B4', '', '"A (old)"'] });
+    expect(parseAbtestCall('=SUM(A1:A3)')).toBeNull();
+    expect(parseAbtestCall('ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)')).toBeNull();
+    expect(parseAbtestCall('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4')).toBeNull();
+  });
+
+  test('itemOf names the i-th cell of a row or column reference, keeping the sheet', () => {
+    expect(itemOf('C2:C4', 1)).toBe('C3');
+    expect(itemOf('C2:E2', 2)).toBe('E2');
+    expect(itemOf("'Past tests'!B2:B13", 1)).toBe("'Past tests'!B3");
+    expect(itemOf('$C$2:$C$4', 0)).toBe('C2');
+    expect(itemOf('visitors_range', 0)).toBe('INDEX(visitors_range,1)');
+  });
+
+  test('cells without an ABTEST formula, unknown functions and too many arguments are explained as such', () => {
+    expect(explainFormula('412', 'C2')).toEqual({
+      problem: 'this cell holds no =ABTEST. formula; select a cell with one (the first cell of a spilled result)',
+    });
+    expect(explainFormula('=ABTEST.NOT_A_FUNCTION(A1)', 'B1')).toEqual({ problem: "ABTEST.NOT_A_FUNCTION is not one of Lift Ledger's functions" });
+    expect(explainFormula('=ABTEST.SRM_PVALUE(B2:B4,C2:C4,D2:D4)', 'E1')).toEqual({
+      problem: 'ABTEST.SRM_PVALUE takes at most 2 arguments; this formula gives 3',
+    });
+  });
+});
+
+describe('every catalogue function is explained', () => {
+  // The 29 names of /work/shared/catalogue.md.
+  const catalogue = [
+    'POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'RATE_DIFF_INTERVAL',
+    'PROB_LIFT_ABOVE', 'EXPECTED_LOSS', 'DECISION', 'POSTERIOR_DENSITY', 'LIFT_DENSITY', 'PRIOR_FROM_MEAN',
+    'PRIOR_FROM_INTERVAL', 'PRIOR_FROM_HISTORY', 'DECISION_POWER', 'VISITORS_NEEDED', 'CLASSIC_SAMPLE_SIZE',
+    'SRM_PVALUE', 'MEAN_INTERVAL', 'MEAN_PROB_HIGHEST', 'MEAN_PROB_ABOVE_CONTROL', 'MEAN_DIFF_INTERVAL',
+    'MEAN_LIFT_INTERVAL', 'MEAN_EXPECTED_LOSS', 'EVENTS_RATE_INTERVAL', 'EVENTS_PROB_HIGHEST',
+    'EVENTS_PROB_ABOVE_CONTROL', 'EVENTS_LIFT_INTERVAL', 'EVENTS_EXPECTED_LOSS',
+  ];
+
+  test('the signature table covers exactly the catalogue', () => {
+    expect(Object.keys(SIGNATURES).sort()).toEqual([...catalogue].sort());
+  });
+
+  test.each(catalogue)('%s: summary names the argument cells, method is given', (name) => {
+    const signature = SIGNATURES[name];
+    if (signature === undefined) throw new Error(name);
+    const refs = signature.args.slice(0, signature.required).map((_, i) => `${String.fromCharCode(66 + i)}2:${String.fromCharCode(66 + i)}4`);
+    const e = explained(`=ABTEST.${name}(${refs.join(',')})`, 'K2');
+    expect(e.name).toBe(name);
+    expect(e.arguments.map((a) => a.name)).toEqual(signature.args);
+    for (const ref of refs) expect(e.summary).toContain(ref);
+    expect(e.method.length).toBeGreaterThan(40);
+    expect(e.summary).not.toMatch(/undefined|NaN/);
+  });
+
+  test('the words follow the arguments: level, prior, method', () => {
+    const central = explained('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.9)');
+    expect(central.summary).toBe(
+      "The 90% central (equal-tailed) credible interval for each variant's conversion rate, from conversions in C2:C4 out of visitors in B2:B4, with a uniform Beta(1, 1) prior (the default). It spills a lower and an upper bound per variant.",
+    );
+    const hdi = explained('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.9,2,50,"hdi")');
+    expect(hdi.summary).toContain('90% highest-density credible interval');
+    expect(hdi.summary).toContain('a Beta(2, 50) prior');
+    expect(hdi.crossCheck?.kind).toBe('brackets');
+    expect(explained('=ABTEST.PRIOR_FROM_HISTORY(B2:B13,C2:C13,"moments")').summary).toContain('by the method of moments');
+    expect(explained('=ABTEST.DECISION(C2:C4,B2:B4)').summary).toContain("1% of the control's posterior mean rate (the default)");
+  });
+});
+
+// Tolerances: HyperFormula's BETA.INV, T.INV, GAMMA.INV and BETA.DIST agree with scipy to about 1e-9
+// relative at these counts (measured here); these tests check the cross-check *formulas*, so they allow
+// 1e-7 relative (or 1e-8 absolute for probabilities), far below any mistake in a formula.
+const close = (got: number, want: number, relative = 1e-7): void => {
+  expect(Math.abs(got - want)).toBeLessThanOrEqual(relative * Math.max(Math.abs(want), 0.1));
+};
+
+describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
+  const ref = reference as unknown as Record<string, number & number[]>;
+  // An invented sheet: the garden-supply checkout test (A1:C4), revenue per visitor (E1:G3),
+  // support contacts per user-day (H1:I3), a three-way split (K1:L4), prior parameters (N2:O2), a grid value (P2).
+  const sheet: (string | number)[][] = [
+    ['Variant', 'Visitors', 'Conversions', '', 'Count', 'Mean', 'SD', 'Events', 'Exposure', '', 'Visitors', 'Share', '', 'alpha', 'beta', 'x'],
+    ['Green', 10000, 412, '', 10000, 2.31, 9.8, 380, 5200, '', 20000, 1, '', ...(ref['prior_interval_0.03_0.06_90'] as number[]), 0.04],
+    ['Orange', 10050, 455, '', 10050, 2.45, 10.4, 431, 5150, '', 20400, 1],
+    ['Blue', 9980, 430, '', '', '', '', '', '', '', 39600, 2],
+  ];
+  const hf = HyperFormula.buildFromArray(sheet, { licenseKey: 'gpl-v3', smartRounding: false, useArrayArithmetic: true });
+  afterAll(() => hf.destroy());
+
+  /** HyperFormula writes the logical constants as functions: TRUE() and FALSE(). */
+  const dialect = (formula: string): string => formula.replace(/\bTRUE\)/g, 'TRUE())').replace(/\bFALSE\)/g, 'FALSE())');
+  const evaluate = (formula: string): number => {
+    hf.setCellContents({ sheet: 0, row: 20, col: 0 }, [[dialect(formula)]]);
+    const value = hf.getCellValue({ sheet: 0, row: 20, col: 0 });
+    if (typeof value !== 'number') throw new Error(`${formula} gave ${JSON.stringify(value)}`);
+    return value;
+  };
+  const checks = (formula: string, anchor = 'Z1'): number[] => (explained(formula, anchor).crossCheck?.formulas ?? []).map(evaluate);
+
+  test('POSTERIOR_MEAN: (α+x)/(α+β+n) equals scipy beta(413, 9589).mean()', () => {
+    expect(explained('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)').crossCheck?.formulas).toEqual(['=(1+C2)/(1+1+B2)']);
+    expect(checks('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)')[0]).toBeCloseTo(ref.posterior_mean_0 as number, 14);
+  });
+
+  test('RATE_INTERVAL: BETA.INV bounds equal scipy beta.ppf (uniform prior and Beta(2, 50))', () => {
+    const [lo, hi] = checks('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.9)');
+    const [rlo, rhi] = ref.rate_interval_90_0 as number[];
+    close(lo as number, rlo as number);
+    close(hi as number, rhi as number);
+    const [plo, phi] = checks('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.95,2,50)');
+    const [qlo, qhi] = ref.rate_interval_95_prior_2_50_0 as number[];
+    close(plo as number, qlo as number);
+    close(phi as number, qhi as number);
+  });
+
+  test('RATE_INTERVAL hdi: the brackets hold scipy\'s shortest 90% interval', () => {
+    const [lowerMax, upperMin] = checks('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.9,1,1,"hdi")');
+    const [hdiLo, hdiHi] = ref.rate_hdi_90_0 as number[];
+    expect(hdiLo).toBeLessThanOrEqual(lowerMax as number);
+    expect(hdiHi).toBeGreaterThanOrEqual(upperMin as number);
+  });
+
+  test('POSTERIOR_DENSITY: BETA.DIST(x, …, FALSE) at the grid cell equals scipy beta.pdf', () => {
+    const [density] = checks('=ABTEST.POSTERIOR_DENSITY(C2:C4,B2:B4)', 'P2');
+    close(density as number, ref['posterior_density_0_at_0.04'] as number);
+  });
+
+  test('PROB_ABOVE_CONTROL: the normal approximation is within 0.002 of the exact value (scipy quadrature)', () => {
+    const [approx] = checks('=ABTEST.PROB_ABOVE_CONTROL(C2:C3,B2:B3)');
+    expect(Math.abs((approx as number) - (ref.prob_above_control_1 as number))).toBeLessThan(0.002);
+  });
+
+  test('SRM_PVALUE: CHISQ.TEST equals scipy chisquare and R chisq.test', () => {
+    expect(checks('=ABTEST.SRM_PVALUE(B2:B4)')[0]).toBeCloseTo(ref.srm_equal_pvalue as number, 12);
+    // R: chisq.test(c(20000, 20400, 39600), p = c(0.25, 0.25, 0.5)) p = 0.00247875218 (shared/check-values.md)
+    expect(checks('=ABTEST.SRM_PVALUE(K2:K4,L2:L4)')[0]).toBeCloseTo(0.00247875218, 10);
+  });
+
+  test('CLASSIC_SAMPLE_SIZE: the NORM.S.INV formula gives R power.prop.test n, rounded up', () => {
+    // R power.prop.test values from shared/check-values.md: 685.596858, 31233.43794, 1463.707305, 10877.163065
+    expect(checks('=ABTEST.CLASSIC_SAMPLE_SIZE(0.1,0.5)')).toEqual([686]);
+    expect(checks('=ABTEST.CLASSIC_SAMPLE_SIZE(0.05,0.1)')).toEqual([31234]);
+    expect(checks('=ABTEST.CLASSIC_SAMPLE_SIZE(0.2,0.25,0.05,0.9)')).toEqual([1464]);
+    expect(checks('=ABTEST.CLASSIC_SAMPLE_SIZE(0.02,0.25,0.05,0.8,1)')).toEqual([10878]);
+    // VISITORS_NEEDED is compared with the same classic size
+    expect(checks('=ABTEST.VISITORS_NEEDED(0.1,0.5)')).toEqual([686]);
+  });
+
+  test('PRIOR_FROM_MEAN: alpha = m·s, beta = (1 − m)·s', () => {
+    expect(checks('=ABTEST.PRIOR_FROM_MEAN(0.04,500)')).toEqual([20, 480]);
+  });
+
+  test('PRIOR_FROM_INTERVAL: BETA.DIST on scipy\'s fitted prior gives 5% in each tail', () => {
+    const tails = checks('=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06)', 'N2');
+    expect(tails[0]).toBeCloseTo(0.05, 9);
+    expect(tails[1]).toBeCloseTo(0.05, 9);
+  });
+
+  test('MEAN_INTERVAL: T.INV bounds equal scipy t.ppf', () => {
+    const [lo, hi] = checks('=ABTEST.MEAN_INTERVAL(E2:E3,F2:F3,G2:G3)');
+    const [rlo, rhi] = ref.mean_interval_95_0 as number[];
+    close(lo as number, rlo as number);
+    close(hi as number, rhi as number);
+  });
+
+  test('MEAN_PROB_ABOVE_CONTROL and MEAN_DIFF_INTERVAL: normal approximations within 1e-3 of scipy\'s exact Student t values', () => {
+    const [p] = checks('=ABTEST.MEAN_PROB_ABOVE_CONTROL(E2:E3,F2:F3,G2:G3)');
+    expect(Math.abs((p as number) - (ref.mean_prob_above_control_1 as number))).toBeLessThan(1e-3);
+    const [lo, hi] = checks('=ABTEST.MEAN_DIFF_INTERVAL(E2:E3,F2:F3,G2:G3)');
+    const [rlo, rhi] = ref.mean_diff_interval_95_1 as number[];
+    expect(Math.abs((lo as number) - (rlo as number))).toBeLessThan(1e-3);
+    expect(Math.abs((hi as number) - (rhi as number))).toBeLessThan(1e-3);
+  });
+
+  test('EVENTS_RATE_INTERVAL: GAMMA.INV bounds equal scipy gamma.ppf', () => {
+    const [lo, hi] = checks('=ABTEST.EVENTS_RATE_INTERVAL(H2:H3,I2:I3)');
+    const [rlo, rhi] = ref.events_rate_interval_95_0 as number[];
+    close(lo as number, rlo as number);
+    close(hi as number, rhi as number);
+  });
+
+  test('EVENTS_PROB_ABOVE_CONTROL: the BETA.DIST closed form equals scipy quadrature', () => {
+    const [p] = checks('=ABTEST.EVENTS_PROB_ABOVE_CONTROL(H2:H3,I2:I3)');
+    close(p as number, ref.events_prob_above_control_1 as number);
+  });
+
+  test('EVENTS_LIFT_INTERVAL: the beta-prime BETA.INV form equals scipy quantiles of the rate ratio', () => {
+    const got = checks('=ABTEST.EVENTS_LIFT_INTERVAL(H2:H3,I2:I3)');
+    const want = ref.events_lift_interval_95_1 as number[];
+    expect(got).toHaveLength(3);
+    got.forEach((value, i) => close(value, want[i] as number));
+  });
+
+  test('every cross-check formula of every function is valid spreadsheet syntax (no #NAME? or #ERROR!)', () => {
+    const samples = [
+      '=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)',
+      '=ABTEST.MEAN_PROB_HIGHEST(E2:E3,F2:F3,G2:G3)',
+      '=ABTEST.EVENTS_PROB_HIGHEST(H2:H3,I2:I3,2,100)',
+      '=ABTEST.EVENTS_LIFT_INTERVAL(H2:H3,I2:I3,0.9,2,100)',
+      '=ABTEST.EVENTS_RATE_INTERVAL(H2:H3,I2:I3,0.9,2,100)',
+    ];
+    for (const formula of samples) for (const value of checks(formula)) expect(Number.isFinite(value)).toBe(true);
+  });
+});
