@@ -16,6 +16,8 @@ export interface DemoSheet {
   readonly formats: Record<string, string>;
   /** Column widths in pixels by column letter. */
   readonly columnWidths: Record<string, number>;
+  /** Cells shown in bold (titles, headers), by A1 address. */
+  readonly bold?: readonly string[];
 }
 
 /** Column letters → zero-based index (A → 0, AA → 26). */
@@ -49,6 +51,7 @@ function sheetBuilder(name: string) {
   const cells: DemoCell[][] = [];
   const formats: Record<string, string> = {};
   const columnWidths: Record<string, number> = {};
+  const bold: string[] = [];
   const put = (address: string, value: DemoCell, format?: string): void => {
     const { row, col } = parseA1(address);
     while (cells.length <= row) cells.push([]);
@@ -60,8 +63,11 @@ function sheetBuilder(name: string) {
   const width = (column: string, px: number): void => {
     columnWidths[column] = px;
   };
-  const done = (): DemoSheet => ({ name, cells, formats, columnWidths });
-  return { put, width, done };
+  const strong = (...addresses: string[]): void => {
+    bold.push(...addresses);
+  };
+  const done = (): DemoSheet => ({ name, cells, formats, columnWidths, bold });
+  return { put, width, strong, done };
 }
 
 /** The words every sheet carries so nobody mistakes the demo for real results. */
@@ -101,6 +107,7 @@ function checkoutSheet(): DemoSheet {
   s.put('A2', DEMO_NOTICE);
   const headers = ['Variant', 'Visitors', 'Conversions', 'Revenue: visitors counted', 'Revenue per visitor: mean', 'Revenue per visitor: sd', 'Basket adds (events)', 'Sessions (exposure)', 'Planned share'];
   headers.forEach((h, i) => s.put(`${columnLetters(i)}3`, h));
+  s.strong('A1', ...headers.map((_, i) => `${columnLetters(i)}3`), 'A10', 'A56', 'A81', 'K10', 'K54');
   CHECKOUT_VARIANTS.forEach((variant, r) => {
     variant.forEach((value, c) => s.put(`${columnLetters(c)}${4 + r}`, value, c === 4 || c === 5 ? '0.00' : undefined));
   });
@@ -156,6 +163,7 @@ function pastTestsSheet(): DemoSheet {
   s.put('A3', 'Past test');
   s.put('B3', 'Conversions');
   s.put('C3', 'Visitors');
+  s.strong('A1', 'A3', 'B3', 'C3');
   PAST_TESTS.forEach(([name, conversions, visitors], r) => {
     s.put(`A${4 + r}`, name);
     s.put(`B${4 + r}`, conversions);
@@ -178,6 +186,7 @@ function planSheet(): DemoSheet {
   s.width('A', 430);
   s.width('B', 120);
   s.put('A1', 'Plan the next checkout test');
+  s.strong('A1');
   s.put('A2', DEMO_NOTICE);
   s.put('A4', 'Baseline conversion rate');
   s.put('B4', 0.042, '0.00%');

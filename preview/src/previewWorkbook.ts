@@ -68,7 +68,12 @@ export function formatNumber(value: number, format: string | undefined): string 
   }
   if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
   const abs = Math.abs(value);
-  if (abs !== 0 && (abs < 1e-4 || abs >= 1e11)) return value.toExponential(4);
+  if (abs !== 0 && (abs < 1e-4 || abs >= 1e11)) {
+    // Excel's General shows 1.23E-05
+    const [mantissa, exponent] = value.toExponential(4).split('e') as [string, string];
+    const e = Number(exponent);
+    return `${Number(mantissa)}E${e < 0 ? '-' : '+'}${String(Math.abs(e)).padStart(2, '0')}`;
+  }
   return String(Number(value.toPrecision(8)));
 }
 
@@ -128,7 +133,14 @@ export class PreviewWorkbook {
       }
       return map;
     });
-    this.styles = sheets.map(() => new Map<string, CellStyle>());
+    this.styles = sheets.map((sheet) => {
+      const map = new Map<string, CellStyle>();
+      for (const address of sheet.bold ?? []) {
+        const { row, col } = parseA1(address);
+        map.set(`${row},${col}`, { bold: true });
+      }
+      return map;
+    });
     this.widths = sheets.map((sheet) => ({ ...sheet.columnWidths }));
   }
 
@@ -273,7 +285,26 @@ export class PreviewWorkbook {
   write(sheet: number, row: number, col: number, contents: (string | number | boolean | null)[][]): void {
     const cleaned = contents.map((line) => line.map((v) => (v === '' ? null : v)));
     this.hf.setCellContents({ sheet, row, col }, cleaned);
+    this.respill();
     this.emit('cells');
+  }
+
+  /**
+   * Re-enters formulas showing #SPILL! so a spill comes back once its area is free again (as in Excel;
+   * HyperFormula keeps the error until the formula is entered anew). Cost: one pass over the used cells.
+   */
+  private respill(): void {
+    for (let sheet = 0; sheet < this.hf.countSheets(); sheet += 1) {
+      const { rows, columns } = this.usedSize(sheet);
+      for (let row = 0; row < rows; row += 1) {
+        for (let col = 0; col < columns; col += 1) {
+          const value = this.hf.getCellValue({ sheet, row, col });
+          if (!(value instanceof DetailedCellError) || value.type !== 'SPILL') continue;
+          const formula = this.hf.getCellFormula({ sheet, row, col });
+          if (formula !== undefined) this.hf.setCellContents({ sheet, row, col }, formula);
+        }
+      }
+    }
   }
 
   /** Lets listeners know that styles or formats changed without a content change. */

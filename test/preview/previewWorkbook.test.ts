@@ -1,0 +1,91 @@
+/**
+ * The preview's workbook model (preview/src/previewWorkbook.ts): number formats as Excel writes them,
+ * addresses as Excel gives them, spills that come back when their area is freed, formats inherited by
+ * spilled cells. Functions come from the bridge fixture; its POSTERIOR_MEAN is the closed form
+ * (1 + x)/(2 + n) of the Beta posterior mean (common practice).
+ */
+import * as path from 'path';
+import { blockAddress, formatNumber, parseBlock, PreviewWorkbook, qualifiedSheetName } from '../../preview/src/previewWorkbook';
+import { buildDemoWorkbook, DEMO_NOTICE } from '../../preview/src/demoWorkbook';
+import { loadAndRegister } from './loadBundle';
+
+loadAndRegister(path.join(__dirname, 'fixtures', 'functions.js'), path.join(__dirname, 'fixtures', 'functions.json'));
+
+describe('number formats (Excel format codes "0", "0.00", "0.0%")', () => {
+  it.each([
+    [0.04321, '0.00%', '4.32%'],
+    [0.5, '0%', '50%'],
+    [2.345, '0.00', '2.35'],
+    [686, '0', '686'],
+    [10412, undefined, '10412'],
+    [0.1 + 0.2, undefined, '0.3'],
+    [0.0000123, 'General', '1.23E-05'],
+    [-4.5e12, undefined, '-4.5E+12'],
+  ])('%p with %p shows %p', (value, format, shown) => {
+    expect(formatNumber(value, format)).toBe(shown);
+  });
+});
+
+describe('addresses', () => {
+  it('quotes sheet names with spaces as Excel does', () => {
+    expect(qualifiedSheetName('Past tests')).toBe("'Past tests'");
+    expect(qualifiedSheetName('Plan')).toBe('Plan');
+    expect(qualifiedSheetName("Bob's")).toBe("'Bob''s'");
+  });
+  it('parses and writes A1 blocks', () => {
+    expect(parseBlock('B2:D4', 1)).toEqual({ sheet: 1, row: 1, col: 1, rows: 3, columns: 3 });
+    expect(parseBlock('$C$3', 0)).toEqual({ sheet: 0, row: 2, col: 2, rows: 1, columns: 1 });
+    expect(parseBlock('not an address', 0)).toBeUndefined();
+    expect(blockAddress({ row: 1, col: 1, rows: 3, columns: 3 })).toBe('B2:D4');
+    expect(blockAddress({ row: 0, col: 26, rows: 1, columns: 1 })).toBe('AA1');
+  });
+});
+
+describe('PreviewWorkbook', () => {
+  const sheet = () => [
+    {
+      name: 'S',
+      cells: [
+        [10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2)'],
+        [20, 5],
+      ],
+      formats: { C1: '0.00%' },
+      columnWidths: {},
+    },
+  ];
+
+  it('lets spilled cells use their formula cell’s number format', () => {
+    const book = PreviewWorkbook.create(sheet());
+    // (1 + 5)/(2 + 20) = 27.27%
+    expect(book.cell(0, 1, 2)).toMatchObject({ text: '27.27%', spilled: true, kind: 'number' });
+    expect(book.spillAnchor(0, 1, 2)).toEqual({ row: 0, col: 2 });
+  });
+
+  it('brings a spill back once the cell blocking it is cleared', () => {
+    const book = PreviewWorkbook.create(sheet());
+    book.enter(0, 1, 2, 'in the way');
+    expect(book.cell(0, 0, 2)).toMatchObject({ kind: 'error', value: '#SPILL!' });
+    book.enter(0, 1, 2, null);
+    expect(book.cell(0, 0, 2).value).toBeCloseTo(4 / 12, 15);
+    expect(book.cell(0, 1, 2).value).toBeCloseTo(6 / 22, 15);
+  });
+
+  it('fires change, selection and sheet events', () => {
+    const book = PreviewWorkbook.create(buildDemoWorkbook());
+    const seen: string[] = [];
+    book.on('cells', () => seen.push('cells'));
+    book.on('selection', () => seen.push('selection'));
+    book.on('sheet', () => seen.push('sheet'));
+    book.enter(2, 3, 5, 1);
+    book.select({ sheet: 1, row: 0, col: 0, rows: 1, columns: 1 });
+    expect(seen).toEqual(['cells', 'sheet', 'selection']);
+    expect(book.activeSheet).toBe(1);
+  });
+
+  it('says on every demo sheet that the data is invented', () => {
+    const sheets = buildDemoWorkbook();
+    expect(sheets.map((s) => s.name)).toEqual(['Checkout test', 'Past tests', 'Plan']);
+    for (const s of sheets) expect(s.cells[1]?.[0]).toBe(DEMO_NOTICE);
+    expect(DEMO_NOTICE).toMatch(/invented/i);
+  });
+});
