@@ -66,7 +66,7 @@ export function formatNumber(value: number, format: string | undefined): string 
     const decimals = fixed[1]?.length ?? 0;
     return fixed[2] === '%' ? `${(value * 100).toFixed(decimals)}%` : value.toFixed(decimals);
   }
-  if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
+  if (Number.isInteger(value) && Math.abs(value) < 1e11) return String(value);
   const abs = Math.abs(value);
   if (abs !== 0 && (abs < 1e-4 || abs >= 1e11)) {
     // Excel's General shows 1.23E-05
