@@ -327,7 +327,7 @@ export function priorFromInterval(low: number, high: number, level?: number): an
  * @returns alpha and beta in one row.
  * @method "likelihood" maximises the Beta–Binomial marginal likelihood of the past counts; "moments" matches the mean and the spread of the past rates after removing the binomial noise.
  * @source Empirical Bayes Beta–Binomial: R. E. Kass and D. Steffey, JASA 84 (1989); Gelman et al., Bayesian Data Analysis, 3rd ed., §5.3.
- * @example =ABTEST.PRIOR_FROM_HISTORY({30;75;52;41;88;47}, {1000;1100;1050;900;1200;980}) returns {8.42,151.7}
+ * @example =ABTEST.PRIOR_FROM_HISTORY({30;75;52;41;88;47}, {1000;1100;1050;900;1200;980}) returns {15.064,271.14}
  * @caution Past tests only help if they resemble this one (same page, audience and season). If the past rates hardly differ, the fit is very strong; cap it with PRIOR_FROM_MEAN.
  */
 export function priorFromHistory(conversions: any[][], visitors: any[][], method?: string): any[][] {
