@@ -18,8 +18,8 @@ import { srmPValue } from './stats/srm';
 import * as sheet from './sheet';
 import { COMPARISON, ONE_OR_MORE, runSheet } from './sheet';
 
-/** Variant limits of PRIOR_FROM_HISTORY: at least two past experiments, no comparison cap. */
-const HISTORY = { min: 2, max: 100000 } as const;
+/** Variant limits of PRIOR_FROM_HISTORY: at least three past results (one gives no spread, two nearly none), no comparison cap. */
+const HISTORY = { min: 3, max: 100000, noun: 'past results' } as const;
 
 // ---------------------------------------------------------------------------------------------------
 // Conversion metrics (Beta–Binomial)
@@ -321,7 +321,7 @@ export function priorFromInterval(low: number, high: number, level?: number): an
  * A Beta prior fitted to the results of past experiments or arms (one per cell). Spills alpha and beta in one row.
  * @customfunction PRIOR_FROM_HISTORY
  * @helpurl https://localhost:3000/help/PRIOR_FROM_HISTORY.html
- * @param conversions Conversions of each past experiment (a row or a column, at least 2).
+ * @param conversions Conversions of each past experiment or arm (a row or a column, at least 3; 10 or more give a usable fit).
  * @param visitors Visitors of each past experiment, same shape as conversions.
  * @param [method] "likelihood" (Beta–Binomial maximum likelihood) or "moments" (method of moments) (optional; default "likelihood").
  * @returns alpha and beta in one row.

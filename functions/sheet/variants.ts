@@ -18,6 +18,8 @@ export const MAX_VARIANTS = 50;
 export interface VariantCount {
   readonly min: number;
   readonly max: number;
+  /** What the positions are called in messages (default "variants"). */
+  readonly noun?: string;
 }
 
 /** One variant to compare; at least one. */
@@ -131,11 +133,16 @@ export function readAlignedCells(
  * @example checkVariantCount(3, COMPARISON) // passes
  */
 export function checkVariantCount(found: number, count: VariantCount): void {
+  const noun = count.noun ?? 'variants';
+  const given = found === 0 ? 'every position is blank' : `only ${found} ${found === 1 ? 'was' : 'were'} given`;
   if (found < count.min) {
-    const what = count.min >= 2 ? `at least ${count.min} variants are needed to compare` : `at least ${count.min} variant is needed`;
-    throw new ArgumentProblem(`${what}; ${found === 0 ? 'every position is blank' : `only ${found} was given`}`);
+    const what =
+      noun === 'variants' && count.min >= 2
+        ? `at least ${count.min} variants are needed to compare`
+        : `at least ${count.min} ${count.min === 1 ? noun.replace(/s$/, '') + ' is' : noun + ' are'} needed`;
+    throw new ArgumentProblem(`${what}; ${given}`);
   }
   if (found > count.max) {
-    throw new ArgumentProblem(`at most ${count.max} variants can be compared; ${found} were given`);
+    throw new ArgumentProblem(`at most ${count.max} ${noun} can be ${noun === 'variants' ? 'compared' : 'used'}; ${found} were given`);
   }
 }
