@@ -36,17 +36,13 @@ export interface Field {
  * @example textField('plan-baseline', 'Baseline conversion rate (%)', '4') //=> { element, input, text(), set() }
  */
 export function textField(id: string, label: string, value: string, hint?: string): Field {
-  const input = el('fluent-text-input', { id, value, 'data-field': id }) as ValueElement;
+  const input = el('fluent-text-input', { id, value, slot: 'input', 'data-field': id }) as ValueElement;
   input.setAttribute('aria-label', label);
-  const field = el(
-    'fluent-field',
-    { 'label-position': 'above' },
-    el('label', { slot: 'label', for: id }, label),
-    input,
-  );
-  if (hint) field.append(el('span', { slot: 'message', class: 'hint' }, hint));
+  const field = el('fluent-field', { 'label-position': 'above' }, el('label', { slot: 'label', for: id }, label), input);
+  const wrapper = el('div', { class: 'field' }, field);
+  if (hint) wrapper.append(el('p', { class: 'hint field-hint' }, hint));
   return {
-    element: field,
+    element: wrapper,
     input,
     text: () => String(input.value ?? input.getAttribute('value') ?? ''),
     set: (text: string) => {
@@ -54,6 +50,48 @@ export function textField(id: string, label: string, value: string, hint?: strin
       input.setAttribute('value', text);
     },
   };
+}
+
+/**
+ * A Fluent radio group whose radios carry visible labels (each radio in a field, label after it).
+ * The first option is checked. Read the choice from the group's `value`. Cost O(options).
+ * @example radioGroup('prior-mode', 'How to choose', [['mean', 'From a typical rate', 'prior-mode-mean']])
+ */
+export function radioGroup(
+  id: string,
+  label: string,
+  options: readonly [value: string, text: string, radioId: string][],
+  orientation: 'vertical' | 'horizontal' = 'vertical',
+): ValueElement {
+  const group = el('fluent-radio-group', { id, orientation, name: id, 'aria-label': label }) as ValueElement;
+  options.forEach(([value, text, radioId], i) => {
+    group.append(
+      el(
+        'fluent-field',
+        { 'label-position': 'after' },
+        el('label', { slot: 'label', for: radioId }, text),
+        el('fluent-radio', { slot: 'input', id: radioId, value, ...(i === 0 ? { checked: true } : {}) }),
+      ),
+    );
+  });
+  return group;
+}
+
+/** A Fluent checkbox with a visible label; `checked` reads its state. */
+export interface Check {
+  readonly element: HTMLElement;
+  readonly box: HTMLElement;
+  checked(): boolean;
+}
+
+/**
+ * A Fluent checkbox with its label after it. Cost O(1).
+ * @example checkbox('plan-use-prior', 'Plan with the prior', false).checked() //=> false
+ */
+export function checkbox(id: string, label: string, checked: boolean): Check {
+  const box = el('fluent-checkbox', { id, slot: 'input', ...(checked ? { checked: true } : {}) });
+  const field = el('fluent-field', { 'label-position': 'after', class: 'check' }, el('label', { slot: 'label', for: id }, label), box);
+  return { element: field, box, checked: () => (box as HTMLElement & { checked?: boolean }).checked === true };
 }
 
 /**
@@ -106,4 +144,13 @@ export function select(id: string, label: string, options: readonly [string, str
 /** A zero-delay pause so the page can repaint between steps of a long computation. */
 export function nextFrame(): Promise<void> {
   return new Promise((resolve) => setTimeout(resolve, 0));
+}
+
+/**
+ * A number with at most six significant digits and no trailing zeros, for showing prior parameters.
+ * Cost O(1).
+ * @example shortNumber(8) //=> "8"; shortNumber(191.99999) //=> "192"; shortNumber(0.0123456789) //=> "0.0123457"
+ */
+export function shortNumber(x: number): string {
+  return String(Number(x.toPrecision(6)));
 }

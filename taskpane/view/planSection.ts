@@ -9,7 +9,7 @@ import { curveSizes, planNumbers, planProblems, powerCurve } from '../logic/plan
 import { parseAddress, rangeAddress } from '../workbook/address';
 import { chartSlot, drawPowerChart } from './charts';
 import { outcomeText, writeAsking, type PanelContext } from './context';
-import { button, el, nextFrame, setBusy, showMessage, textField } from './dom';
+import { button, checkbox, el, nextFrame, setBusy, showMessage, textField } from './dom';
 
 /**
  * Build the Plan section. Cost: DOM construction; "Compute" makes one visitorsNeeded call and then
@@ -26,7 +26,7 @@ export function planSection(context: PanelContext): HTMLElement {
   const daily = textField('plan-daily', 'Visitors per day to the page', '4000');
   const share = textField('plan-share', 'Share of those visitors in the test (%)', '100');
   const classicAlpha = textField('plan-alpha', 'Classic test for comparison: significance level (%)', '5');
-  const usePrior = el('fluent-checkbox', { id: 'plan-use-prior' }, 'Plan with the prior from the Prior section');
+  const usePrior = checkbox('plan-use-prior', 'Plan with the prior from the Prior section', false);
   const computeButton = button('plan-compute', 'Compute plan', 'primary');
   const insertButton = button('plan-insert', 'Insert plan');
   setBusy(insertButton, true);
@@ -52,7 +52,7 @@ export function planSection(context: PanelContext): HTMLElement {
     daily.element,
     share.element,
     classicAlpha.element,
-    usePrior,
+    usePrior.element,
     el('div', { class: 'actions' }, computeButton, insertButton),
     results,
     note,
@@ -66,7 +66,7 @@ export function planSection(context: PanelContext): HTMLElement {
   const run = { id: 0, inputs: null as PlanInputs | null };
 
   const read = (): PlanInputs => {
-    const checked = (usePrior as HTMLElement & { checked?: boolean }).checked === true;
+    const checked = usePrior.checked();
     const prior = checked && context.state.prior !== null ? context.state.prior : undefined;
     return {
       baselineRate: parsePercent(baseline.text()),

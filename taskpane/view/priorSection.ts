@@ -12,7 +12,7 @@ import { checkTable, detectTable } from '../logic/tableDetect';
 import { parseAddress, rangeAddress, referenceFrom } from '../workbook/address';
 import { chartSlot, drawPriorChart } from './charts';
 import { outcomeText, writeAsking, type PanelContext } from './context';
-import { button, el, setBusy, showMessage, textField } from './dom';
+import { button, el, radioGroup, setBusy, shortNumber, showMessage, textField } from './dom';
 
 type Mode = 'mean' | 'interval' | 'history';
 
@@ -32,13 +32,11 @@ interface History {
  */
 export function priorSection(context: PanelContext): HTMLElement {
   const root = el('section', { id: 'section-prior', class: 'section', 'aria-labelledby': 'tab-prior' });
-  const modes = el(
-    'fluent-radio-group',
-    { id: 'prior-mode', orientation: 'vertical', name: 'prior-mode', 'aria-label': 'How to choose the prior' },
-    el('fluent-radio', { value: 'mean', id: 'prior-mode-mean', checked: true }, 'From a typical rate and how many visitors that belief is worth'),
-    el('fluent-radio', { value: 'interval', id: 'prior-mode-interval' }, 'From a plausible range'),
-    el('fluent-radio', { value: 'history', id: 'prior-mode-history' }, 'Fitted to past results on the sheet'),
-  );
+  const modes = radioGroup('prior-mode', 'How to choose the prior', [
+    ['mean', 'From a typical rate and how many visitors that belief is worth', 'prior-mode-mean'],
+    ['interval', 'From a plausible range', 'prior-mode-interval'],
+    ['history', 'Fitted to past results on the sheet', 'prior-mode-history'],
+  ]);
   const mean = textField('prior-mean', 'Typical conversion rate (%)', '4');
   const strength = textField('prior-strength', 'Worth in visitors', '200', 'alpha + beta: how many visitors this belief counts for');
   const low = textField('prior-low', 'Plausible low (%)', '3');
@@ -46,11 +44,14 @@ export function priorSection(context: PanelContext): HTMLElement {
   const level = textField('prior-level', 'Chance the rate is in that range (%)', '90');
   const historyButton = button('prior-use-selection', 'Use the selected past results');
   const historyInfo = el('p', { id: 'prior-history-info', class: 'hint' }, 'Select the past results (one row per past test or arm: conversions and visitors columns, a heading row is fine), then press the button.');
-  const method = el(
-    'fluent-radio-group',
-    { id: 'prior-method', orientation: 'horizontal', name: 'prior-method', 'aria-label': 'Fitting method' },
-    el('fluent-radio', { value: 'likelihood', checked: true }, 'Maximum likelihood'),
-    el('fluent-radio', { value: 'moments' }, 'Method of moments'),
+  const method = radioGroup(
+    'prior-method',
+    'Fitting method',
+    [
+      ['likelihood', 'Maximum likelihood', 'prior-method-likelihood'],
+      ['moments', 'Method of moments', 'prior-method-moments'],
+    ],
+    'horizontal',
   );
   const planned = textField('prior-planned', 'Visitors per variant you expect', '10000', 'Filled in from the Plan section once you compute a plan');
   const groups: Record<Mode, HTMLElement> = {
@@ -89,7 +90,7 @@ export function priorSection(context: PanelContext): HTMLElement {
   const view = { mode: 'mean' as Mode, history: null as History | null };
 
   const currentMode = (): Mode => {
-    const value = (modes as HTMLElement & { value?: string }).value;
+    const value = modes.value;
     return value === 'interval' || value === 'history' ? value : 'mean';
   };
 
@@ -112,7 +113,7 @@ export function priorSection(context: PanelContext): HTMLElement {
       }
       case 'history': {
         if (view.history === null) return 'Select the past results on the sheet and press "Use the selected past results".';
-        const m = (method as HTMLElement & { value?: string }).value === 'moments' ? 'moments' : 'likelihood';
+        const m = method.value === 'moments' ? 'moments' : 'likelihood';
         return { kind: 'history', conversionsRef: view.history.conversionsRef, visitorsRef: view.history.visitorsRef, method: m };
       }
     }
@@ -146,7 +147,7 @@ export function priorSection(context: PanelContext): HTMLElement {
       const plannedValue = parseNumber(planned.text());
       const s = summarizePrior(prior, plannedValue > 0 ? plannedValue : 10000);
       summary.replaceChildren(
-        el('p', { id: 'prior-parameters' }, `Beta(alpha = ${s.alpha.toPrecision(5)}, beta = ${s.beta.toPrecision(5)})`),
+        el('p', { id: 'prior-parameters' }, `Beta(alpha = ${shortNumber(s.alpha)}, beta = ${shortNumber(s.beta)})`),
         el('p', { id: 'prior-facts' }, `Mean ${formatPercent(s.mean)}; 90% of the belief lies between ${formatPercent(s.low90)} and ${formatPercent(s.high90)}; worth about ${formatCount(s.worth)} visitors.`),
       );
       if (s.warning !== null) showMessage(warning, s.weight === 'dominant' ? 'warning' : 'info', `${s.warning} ${PRIOR_WEIGHT_RULE}`);

@@ -10,7 +10,7 @@ import { checkTable, detectTable, type TableMapping } from '../logic/tableDetect
 import { columnLetters, parseAddress, rangeAddress } from '../workbook/address';
 import type { RangeContents } from '../workbook/workbook';
 import { outcomeText, writeAsking, type PanelContext } from './context';
-import { button, el, select, setBusy, showMessage, textField } from './dom';
+import { button, checkbox, el, select, setBusy, showMessage, textField } from './dom';
 
 /** Rows of the LIFT_DENSITY table the read-out writes for its chart. */
 const DENSITY_POINTS = 61;
@@ -98,22 +98,22 @@ export function readoutSection(context: PanelContext): HTMLElement {
       const heading = mapping.hasHeader && typeof cell === 'string' && cell !== '' ? ` (${cell})` : '';
       return [String(c), `column ${columnLetters(start.column + c)}${heading}`];
     });
-    const headerBox = el('fluent-checkbox', { id: 'readout-has-header', ...(mapping.hasHeader ? { checked: true } : {}) }, 'First row is a heading');
+    const headerBox = checkbox('readout-has-header', 'First row is a heading', mapping.hasHeader);
     const names = select('readout-names', 'Names', [['none', 'no names (A, B, C…)'], ...options], mapping.namesColumn === null ? 'none' : String(mapping.namesColumn));
     const visitors = select('readout-visitors', 'Visitors', options, String(mapping.visitorsColumn));
     const conversions = select('readout-conversions', 'Conversions', options, String(mapping.conversionsColumn));
     const changed = (): void => {
       view.mapping = {
-        hasHeader: (headerBox as HTMLElement & { checked?: boolean }).checked === true,
+        hasHeader: headerBox.checked(),
         namesColumn: names.input.value === 'none' ? null : Number(names.input.value),
         visitorsColumn: Number(visitors.input.value),
         conversionsColumn: Number(conversions.input.value),
       };
       renderCheck();
     };
-    headerBox.addEventListener('change', changed);
+    headerBox.box.addEventListener('change', changed);
     for (const control of [names, visitors, conversions]) control.input.addEventListener('change', changed);
-    mappingArea.append(el('p', { class: 'hint' }, 'Which column is which (correct it if needed):'), headerBox, names.element, visitors.element, conversions.element);
+    mappingArea.append(el('p', { class: 'hint' }, 'Which column is which (correct it if needed):'), headerBox.element, names.element, visitors.element, conversions.element);
   };
 
   const useSelection = async (): Promise<void> => {
