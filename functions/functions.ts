@@ -402,7 +402,7 @@ export function visitorsNeeded(baseline_rate: number, lift: number, threshold?: 
  */
 export function classicSampleSize(baseline_rate: number, lift: number, alpha?: number, power?: number, sides?: number): number {
   return runSheet(() =>
-    sheet.finite(planning.classicSampleSize(sheet.readRequiredNumber(sheet.BASELINE_RATE, baseline_rate), sheet.readRequiredNumber(sheet.LIFT, lift), sheet.readOptionalNumber(sheet.ALPHA, alpha) as number, sheet.readOptionalNumber(sheet.POWER, power) as number, sheet.readOptionalNumber(sheet.SIDES, sides) as number)),
+    sheet.finite(planning.classicSampleSize(sheet.readRequiredNumber(sheet.BASELINE_RATE, baseline_rate), sheet.readRequiredNumber(sheet.LIFT, lift), sheet.readOptionalNumber(sheet.ALPHA, alpha) as number, sheet.readOptionalNumber(sheet.POWER, power) as number, sheet.readOptionalNumber(sheet.SIDES, sides) as 1 | 2)),
   );
 }
 
