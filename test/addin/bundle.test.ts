@@ -92,8 +92,8 @@ test('dist holds functions.json (29 functions), the side panel page loading both
   const metadata = JSON.parse(fs.readFileSync(path.join(DIST, 'functions.json'), 'utf8')) as { functions: { id: string }[] };
   expect(metadata.functions.map((f) => f.id).sort()).toEqual([...CATALOGUE_IDS].sort());
   const page = fs.readFileSync(path.join(DIST, 'taskpane.html'), 'utf8');
-  expect(page).toMatch(/<script[^>]+src="functions\.js"/);
-  expect(page).toMatch(/<script[^>]+src="taskpane\.js"/);
+  expect(page).toMatch(/<script[^>]+src="?functions\.js[" >]/);
+  expect(page).toMatch(/<script[^>]+src="?taskpane\.js[" >]/);
   for (const id of CATALOGUE_IDS) expect(fs.existsSync(path.join(DIST, 'help', `${id}.html`))).toBe(true);
   expect(fs.existsSync(path.join(DIST, 'help', 'index.html'))).toBe(true);
   for (const size of [16, 32, 64, 80]) expect(fs.existsSync(path.join(DIST, 'assets', `icon-${size}.png`))).toBe(true);
