@@ -106,9 +106,11 @@ function ensurePreviewBuilt({ log = console.log, force = false } = {}) {
 
 /** dist/taskpane.html with the Office CDN script swapped for the preview's stand-in. */
 function rewriteTaskpane(html) {
-  const officeScript = /<script\b[^>]*\bsrc=["'][^"']*(?:appsforoffice\.microsoft\.com|\/office\.js)[^"']*["'][^>]*>\s*<\/script>/gi;
+  // Matches quoted and (minified) unquoted src attributes.
+  const officeScript = () =>
+    /<script\b[^>]*?\bsrc\s*=\s*["']?[^"'\s>]*(?:appsforoffice\.microsoft\.com|\/office\.js)[^"'\s>]*["']?[^>]*>\s*<\/script>/gi;
   const tag = `<script src="${STAND_IN_URL}"></script>`;
-  if (officeScript.test(html)) return html.replace(officeScript, tag);
+  if (officeScript().test(html)) return html.replace(officeScript(), tag);
   // No Office script found: still install the stand-in before anything else runs.
   return html.replace(/<head([^>]*)>/i, `<head$1>${tag}`);
 }
