@@ -124,7 +124,13 @@ function buildPanelTables(): PanelTables {
 /** Read-only tables shared by every tabulation (no state: computed once, never written again). */
 const TABLES: PanelTables = buildPanelTables();
 
-/** log(e^a + e^b) without overflow; either may be −Infinity. */
+/** The 16 Gauss–Legendre nodes on [−1, 1] that every panel uses, ascending (read only). */
+export const PANEL_NODES: readonly number[] = TABLES.nodes;
+
+/**
+ * log(e^a + e^b) without overflow; either may be −Infinity.
+ * Cost: O(1). @example logAddExp(Math.log(1), Math.log(3)) //=> 1.3862943611198906 (log 4)
+ */
 export function logAddExp(a: number, b: number): number {
   if (a === -Infinity) return b;
   if (b === -Infinity) return a;
@@ -144,7 +150,11 @@ export function log1mExp(x: number): number {
 
 /** Options of {@link tabulate}; the defaults are what the accuracy tests were run with. */
 export interface TabulationOptions {
-  /** The window is where logDensity ≥ −logRange (default 700: tails down to ~1e-304 are kept). */
+  /**
+   * The window is where logDensity ≥ −logRange (default 230: tails down to ~1e-100 are tabulated, which
+   * keeps probabilities and losses down to ~1e-90 relatively accurate; beyond the window the
+   * exponential-tail form f/|slope| is used). 700 reaches 1e-300 at three times the cost.
+   */
   readonly logRange?: number;
   /** Panel width at most curvatureWidth/√curvature (default 2: two local standard deviations). */
   readonly curvatureWidth?: number;
@@ -152,7 +162,7 @@ export interface TabulationOptions {
    * across a panel; the trend-weighted rules keep such panels exact). */
   readonly slopeWidth?: number;
   /**
-   * Panel width at most absoluteWidth in z wherever curvature·width² > 1e-6 (default 2.5), against
+   * Panel width at most absoluteWidth in z wherever curvature·width² > 1e-6 (default 1.5), against
    * complex singularities of the density a few units from the real axis.
    */
   readonly absoluteWidth?: number;
@@ -164,10 +174,10 @@ export interface TabulationOptions {
   readonly coordinate?: string;
 }
 
-const DEFAULT_LOG_RANGE = 700;
+const DEFAULT_LOG_RANGE = 230;
 const DEFAULT_CURVATURE_WIDTH = 2;
 const DEFAULT_SLOPE_WIDTH = 24;
-const DEFAULT_ABSOLUTE_WIDTH = 2.5;
+const DEFAULT_ABSOLUTE_WIDTH = 1.5;
 const MAX_PANELS = 20000;
 
 /** Integrated cdf tables G(z) = ∫ F dx (value units), built on first use. */
@@ -232,10 +242,6 @@ export class TabulatedDistribution {
   readonly nodeLogWeight: Float64Array;
   /** log of the normalised density in z at each node. */
   readonly nodeLogDensity: Float64Array;
-  /** log F at each node. */
-  readonly nodeLogCdf: Float64Array;
-  /** log(1 − F) at each node, accumulated from the right. */
-  readonly nodeLogSf: Float64Array;
   /** log F at each edge. */
   readonly edgeLogCdf: Float64Array;
   /** log(1 − F) at each edge. */
@@ -248,6 +254,20 @@ export class TabulatedDistribution {
   readonly mean: number;
   /** A width of the value near the mode: valueJacobian(mode)/√curvature(mode). */
   readonly spread: number;
+  /**
+   * An upper bound of the log density of the value (the largest node value plus one, for the peak between
+   * nodes); +Infinity where the value density is unbounded (a Beta with a < 1).
+   */
+  readonly logMaxValueDensity: number;
+  /** Panel indices by decreasing mass (ties by index): the order compare.ts visits them in. */
+  readonly panelOrder: Int32Array;
+  /** log F at each node (filled per panel on first use; see {@link panelCdfTables}). */
+  private readonly nodeLogCdf: Float64Array;
+  /** log(1 − F) at each node, accumulated from the right (filled with nodeLogCdf). */
+  private readonly nodeLogSf: Float64Array;
+  /** 1 where a panel's node log F and log(1 − F) have been computed. */
+  private readonly panelReady: Uint8Array;
+  /** 1 for panels left of the median (log F interpolated there), 0 right of it (log(1 − F) interpolated). */
   private readonly leftSide: Uint8Array;
   private lowerMoment: LowerMomentTables | undefined;
 
@@ -303,6 +323,7 @@ export class TabulatedDistribution {
     this.edgeLogCdf = new Float64Array(panels + 1);
     this.edgeLogSf = new Float64Array(panels + 1);
     this.panelLogMass = new Float64Array(panels);
+    this.panelReady = new Uint8Array(panels);
     this.leftSide = new Uint8Array(panels);
 
     for (let p = 0; p < panels; p++) {
@@ -344,19 +365,12 @@ export class TabulatedDistribution {
     for (let p = panels - 1; p >= 0; p--) {
       this.edgeLogSf[p] = logAddExp(this.edgeLogSf[p + 1] as number, this.panelLogMass[p] as number);
     }
-    const partialLeft = new Float64Array(n);
-    const partialRight = new Float64Array(n);
-    const scratch = new Float64Array(n);
     for (let p = 0; p < panels; p++) {
-      const half = ((this.edges[p + 1] as number) - (this.edges[p] as number)) / 2;
-      inPanelPartials(this.nodeLogDensity, p * n, half, partialLeft, partialRight, scratch);
-      for (let k = 0; k < n; k++) {
-        this.nodeLogCdf[p * n + k] = logAddExp(this.edgeLogCdf[p] as number, partialLeft[k] as number);
-        this.nodeLogSf[p * n + k] = logAddExp(this.edgeLogSf[p + 1] as number, partialRight[k] as number);
-      }
-      // Interpolate log F left of the median, log(1 − F) right of it.
       this.leftSide[p] = (this.edgeLogCdf[p + 1] as number) <= (this.edgeLogSf[p] as number) ? 1 : 0;
     }
+    const order = Array.from({ length: panels }, (_, p) => p);
+    order.sort((p, q) => (this.panelLogMass[q] as number) - (this.panelLogMass[p] as number) || p - q);
+    this.panelOrder = Int32Array.from(order);
 
     let mean = source.exactMean;
     if (mean === undefined) {
@@ -366,6 +380,12 @@ export class TabulatedDistribution {
       }
     }
     this.mean = mean;
+    let maxValueDensity = -Infinity;
+    for (let i = 0; i < panels * n; i++) {
+      const v = (this.nodeLogDensity[i] as number) - Math.log(source.valueJacobian(this.nodeZ[i] as number));
+      if (v > maxValueDensity) maxValueDensity = v;
+    }
+    this.logMaxValueDensity = maxValueDensity + 1;
     this.spread = source.valueJacobian(source.mode) / Math.sqrt(source.curvature(source.mode));
     this.lowerMoment = undefined;
   }
@@ -403,22 +423,57 @@ export class TabulatedDistribution {
   }
 
   /**
-   * log F at the working value z: barycentric interpolation of log F through the panel's 16 nodes and
-   * 2 edges left of the median (log(1 − F) right of it, converted with log1mExp). Cost: ~20 flops.
+   * Computes panel p's node values of log F and log(1 − F) if not done yet: the partial integrals from
+   * the panel's edges to its nodes (trend-weighted spectral integration) added to the edge values.
+   * Deterministic: the result depends only on the panel, never on the order of use.
+   */
+  private ensurePanel(p: number): void {
+    if (this.panelReady[p] === 1) return;
+    const n = PANEL_ORDER;
+    const left = new Float64Array(n);
+    const right = new Float64Array(n);
+    const scratch = new Float64Array(n);
+    const half = ((this.edges[p + 1] as number) - (this.edges[p] as number)) / 2;
+    inPanelPartials(this.nodeLogDensity, p * n, half, left, right, scratch);
+    for (let k = 0; k < n; k++) {
+      this.nodeLogCdf[p * n + k] = logAddExp(this.edgeLogCdf[p] as number, left[k] as number);
+      this.nodeLogSf[p * n + k] = logAddExp(this.edgeLogSf[p + 1] as number, right[k] as number);
+    }
+    this.panelReady[p] = 1;
+  }
+
+  /**
+   * log F and log(1 − F) at panel p's 16 nodes (views into the tables; do not modify). log F is accurate
+   * relative to F where F is small and to ~1e-16 absolute near 1, log(1 − F) the other way round.
+   */
+  panelCdfTables(p: number): { readonly logCdf: Float64Array; readonly logSf: Float64Array } {
+    this.ensurePanel(p);
+    const n = PANEL_ORDER;
+    return { logCdf: this.nodeLogCdf.subarray(p * n, p * n + n), logSf: this.nodeLogSf.subarray(p * n, p * n + n) };
+  }
+
+  /**
+   * log F at the working value z: barycentric interpolation (Berrut & Trefethen, "Barycentric Lagrange
+   * interpolation", SIAM Review 2004) through the panel's 16 nodes and 2 edges of log F left of the
+   * median, of log(1 − F) right of it (then converted with log1mExp), so it is accurate relative to F in
+   * the lower tail and relative to 1 − F in the upper. Beyond the window the exponential-tail form
+   * f/|slope| is used. Cost: ~60 flops (+ exp and log1p right of the median).
    */
   logCdfAt(z: number): number {
     if (z <= this.windowLeft) return this.leftTail(z);
     if (z >= this.windowRight) return log1mExp(this.rightTail(z));
     const p = this.findPanel(z);
+    this.ensurePanel(p);
     if (this.leftSide[p] === 1) return Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
     return log1mExp(Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z)));
   }
 
-  /** log(1 − F) at the working value z (mirror of {@link logCdfAt}). */
+  /** log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}). */
   logSfAt(z: number): number {
     if (z <= this.windowLeft) return log1mExp(this.leftTail(z));
     if (z >= this.windowRight) return this.rightTail(z);
     const p = this.findPanel(z);
+    this.ensurePanel(p);
     if (this.leftSide[p] === 1) return log1mExp(Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z)));
     return Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
   }
@@ -568,6 +623,7 @@ export class TabulatedDistribution {
     const partialLeft = new Float64Array(n);
     const partialRight = new Float64Array(n);
     const scratch = new Float64Array(n);
+    for (let p = 0; p < panels; p++) this.ensurePanel(p);
     const z0 = this.windowLeft;
     edge[0] = (this.edgeLogCdf[0] as number) + Math.log(this.source.valueJacobian(z0)) - Math.log(Math.abs(this.source.slope(z0)) + 1);
     for (let p = 0; p < panels; p++) {
@@ -732,7 +788,7 @@ function inPanelPartials(
 }
 
 /**
- * Tabulates a log-concave working density: finds the window where logDensity ≥ −700 (by Newton from the
+ * Tabulates a log-concave working density: finds the window where logDensity ≥ −230 (by Newton from the
  * mode), steps panels of width min(2/√curvature, 24/|slope|) across it, puts 16 Gauss–Legendre nodes on
  * each (composite Gauss–Legendre quadrature; Davis & Rabinowitz, "Methods of Numerical Integration",
  * 2nd ed., §2.7), normalises numerically and accumulates log F from the left and log(1 − F) from the right.

@@ -1,0 +1,559 @@
+/**
+ * Comparisons of tabulated posteriors (grid.ts), generic over the model: P(X > Y), P(each is highest),
+ * expected losses, and the distributions of differences Y − X and ratios Y/X − 1.
+ *
+ * Every quantity is one or a few one-dimensional integrals ∫ f_B(x) Π factors(x) dx over the panels of a
+ * "base" distribution B, the factors being cdfs, survival functions, densities or integrated cdfs of the
+ * others. Three rules keep them accurate:
+ *  - both tails are kept: of a pair P(A), 1 − P(A) the smaller is integrated directly and the other is
+ *    1 − smaller, so a probability of 1e-30 is accurate relative to itself;
+ *  - panels whose upper bound (panel mass × the factors' largest values on it, from their monotonicity)
+ *    is below e^-46 of the running total are skipped — they cannot change the result;
+ *  - a base panel that holds two or more panels of a narrower factor is split at the factor's panel
+ *    edges, so a posterior of 1e9 visitors is resolved inside one of 100 visitors.
+ * All of it is deterministic.
+ */
+import { StatsError } from './errors';
+import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, log1mExp, logAddExp, panelLogIntegral } from './grid';
+
+/** Panels whose bound lies this far (in log) below the running total are skipped (e^-46 ≈ 1e-20). */
+const PRUNE = 46;
+
+/**
+ * A base panel is split at a factor's panel edges when at least this many of them fall inside it (the
+ * factor's panels are then at most about a third as wide as the base's). Measured: splitting at every
+ * factor edge instead changes P(highest) of 10 variants by ≤ 3e-11 relative (2e-15 absolute).
+ */
+const REFINE_EDGES = 3;
+
+/** What a factor contributes at a point u = scale·x + shift of its own value. */
+type FactorKind = 'cdf' | 'sf' | 'density' | 'lowerMoment';
+
+interface Factor {
+  readonly dist: TabulatedDistribution;
+  readonly kind: FactorKind;
+  readonly scale: number;
+  readonly shift: number;
+}
+
+function factor(dist: TabulatedDistribution, kind: FactorKind, scale = 1, shift = 0): Factor {
+  return { dist, kind, scale, shift };
+}
+
+/** True when the factor can be evaluated at the base's working value directly (same coordinate, u = x). */
+function isDirect(base: TabulatedDistribution, f: Factor): boolean {
+  return base.coordinate !== undefined && base.coordinate === f.dist.coordinate && f.scale === 1 && f.shift === 0;
+}
+
+/** log of the factor at the base point with working value z and value x. */
+function factorLog(f: Factor, direct: boolean, z: number, x: number): number {
+  const d = f.dist;
+  if (direct) {
+    switch (f.kind) {
+      case 'cdf':
+        return d.logCdfAt(z);
+      case 'sf':
+        return d.logSfAt(z);
+      case 'density':
+        return d.logDensityAt(z) - Math.log(d.source.valueJacobian(z));
+      case 'lowerMoment':
+        return d.logLowerMomentAt(z);
+    }
+  }
+  const u = f.scale * x + f.shift;
+  switch (f.kind) {
+    case 'cdf':
+      return d.logCdf(u);
+    case 'sf':
+      return d.logSf(u);
+    case 'density':
+      return d.logValueDensity(u);
+    case 'lowerMoment':
+      return d.logLowerMoment(u);
+  }
+}
+
+/** Where a factor is largest on [a, b] (it is monotone except for densities): 'right', 'left' or none. */
+function boundSide(kind: FactorKind): 'left' | 'right' | 'none' {
+  return kind === 'sf' ? 'left' : kind === 'density' ? 'none' : 'right';
+}
+
+/** The factor's panel edges strictly inside the base interval [za, zb], mapped to the base's z. */
+function innerEdges(base: TabulatedDistribution, f: Factor, direct: boolean, za: number, zb: number, out: number[]): void {
+  const d = f.dist;
+  let fa: number;
+  let fb: number;
+  if (direct) {
+    fa = za;
+    fb = zb;
+  } else {
+    const [lo, hi] = d.source.valueRange;
+    const ua = f.scale * base.source.toValue(za) + f.shift;
+    const ub = f.scale * base.source.toValue(zb) + f.shift;
+    fa = ua <= lo ? -Infinity : ua >= hi ? Infinity : d.source.toWorking(ua);
+    fb = ub <= lo ? -Infinity : ub >= hi ? Infinity : d.source.toWorking(ub);
+  }
+  const edges = d.edges;
+  const last = edges.length - 1;
+  if (fb <= (edges[0] as number) || fa >= (edges[last] as number)) return;
+  // First edge index > fa.
+  let first = fa < (edges[0] as number) ? 0 : d.findPanel(fa) + 1;
+  // Last edge index < fb.
+  let end = fb > (edges[last] as number) ? last : d.findPanel(fb);
+  if ((edges[end] as number) >= fb) end -= 1;
+  if (first <= last && (edges[first] as number) <= fa) first += 1;
+  if (end - first + 1 < REFINE_EDGES) return;
+  for (let i = first; i <= end; i++) {
+    const e = edges[i] as number;
+    if (direct) out.push(e);
+    else {
+      const x = (d.source.toValue(e) - f.shift) / f.scale;
+      const [lo, hi] = base.source.valueRange;
+      if (x > lo && x < hi) out.push(base.source.toWorking(x));
+    }
+  }
+}
+
+/**
+ * log ∫ f_base(x) · x^{withValue} · Π factors(x) dx over the base's window (+ logOffset), with pruning and
+ * refinement as described at the top of this file. The base's panels are visited by decreasing mass;
+ * a panel is skipped when its bound (mass × the factors' largest values on it) is below e^-46 of the
+ * running total, and the visit stops once even mass × the factors' global maxima is. Cost: two factor
+ * evaluations per visited panel for the bound, then 16 per integrated (sub)panel and factor.
+ */
+function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], withValue = false, logOffset = 0): number {
+  const n = PANEL_ORDER;
+  const panels = base.panelCount;
+  const count = factors.length;
+  const direct = factors.map((f) => isDirect(base, f));
+  const needValue = withValue || direct.some((d) => !d);
+  const src = base.source;
+  const sides = factors.map((f) => boundSide(f.kind));
+  // Global maxima of the factors over the base's window (all ≤ 0 for cdf and sf).
+  let globalBound = withValue ? Math.log(src.toValue(base.windowRight)) : 0;
+  factors.forEach((f, i) => {
+    if (f.kind === 'density') globalBound += f.dist.logMaxValueDensity;
+    else if (f.kind === 'lowerMoment') {
+      const z = base.windowRight;
+      globalBound += Math.max(0, factorLog(f, direct[i] as boolean, z, src.toValue(z)));
+    }
+  });
+  const edgeCache = new Float64Array((panels + 1) * count).fill(NaN);
+  const edgeFactor = (e: number, i: number): number => {
+    const key = e * count + i;
+    let v = edgeCache[key] as number;
+    if (Number.isNaN(v)) {
+      const z = base.edges[e] as number;
+      v = factorLog(factors[i] as Factor, direct[i] as boolean, z, direct[i] ? 0 : src.toValue(z));
+      edgeCache[key] = v;
+    }
+    return v;
+  };
+
+  let total = -Infinity;
+  const values = new Float64Array(n);
+  const breaks: number[] = [];
+  const order = base.panelOrder;
+  for (let r = 0; r < panels; r++) {
+    const p = order[r] as number;
+    const mass = base.panelLogMass[p] as number;
+    if (mass + globalBound < total - PRUNE || mass === -Infinity) break;
+    let bound = mass;
+    for (let i = 0; i < count; i++) {
+      const side = sides[i];
+      if (side === 'left') bound += edgeFactor(p, i);
+      else if (side === 'right') bound += edgeFactor(p + 1, i);
+      else bound += (factors[i] as Factor).dist.logMaxValueDensity;
+    }
+    if (withValue) bound += Math.log(src.toValue(base.edges[p + 1] as number));
+    if (bound === -Infinity || bound < total - PRUNE) continue;
+    const a = base.edges[p] as number;
+    const b = base.edges[p + 1] as number;
+    breaks.length = 0;
+    for (let i = 0; i < count; i++) innerEdges(base, factors[i] as Factor, direct[i] as boolean, a, b, breaks);
+    if (breaks.length === 0) {
+      for (let k = 0; k < n; k++) {
+        const z = base.nodeZ[p * n + k] as number;
+        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.nodeLogDensity[p * n + k] as number);
+      }
+      total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
+      continue;
+    }
+    breaks.sort((u, v) => u - v);
+    let left = a;
+    for (let s = 0; s <= breaks.length; s++) {
+      const right = s < breaks.length ? (breaks[s] as number) : b;
+      if (!(right > left)) continue;
+      if (right - left <= 1e-13 * Math.max(1, Math.abs(left)) && s < breaks.length) continue;
+      const half = (right - left) / 2;
+      const mid = (right + left) / 2;
+      for (let k = 0; k < n; k++) {
+        const z = mid + half * (PANEL_NODES[k] as number);
+        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z));
+      }
+      total = logAddExp(total, panelLogIntegral(values, 0, half));
+      left = right;
+    }
+  }
+  return total + logOffset;
+}
+
+/** log of the integrand f_base · x^{withValue} · Π factors at one point. */
+function pointLog(
+  base: TabulatedDistribution,
+  factors: readonly Factor[],
+  direct: readonly boolean[],
+  withValue: boolean,
+  needValue: boolean,
+  z: number,
+  logDensity: number,
+): number {
+  let v = logDensity;
+  if (v === -Infinity) return v;
+  const x = needValue ? base.source.toValue(z) : 0;
+  if (withValue) v += Math.log(x);
+  for (let i = 0; i < factors.length; i++) {
+    v += factorLog(factors[i] as Factor, direct[i] as boolean, z, x);
+    if (v === -Infinity) return v;
+  }
+  return v;
+}
+
+/** The complementary pair log P(A), log P(not A): the smaller computed, the larger as log1mExp(smaller). */
+interface LogTails {
+  readonly lower: number;
+  readonly upper: number;
+}
+
+function pairFromBoth(logA: number, logB: number): LogTails {
+  return logA <= logB ? { lower: logA, upper: log1mExp(logA) } : { lower: log1mExp(logB), upper: logB };
+}
+
+/** True when x should be the base of a comparison of x and y (the narrower; ties broken symmetrically). */
+function xIsBase(x: TabulatedDistribution, y: TabulatedDistribution): boolean {
+  if (x.spread !== y.spread) return x.spread < y.spread;
+  if (x.mean !== y.mean) return x.mean < y.mean;
+  return x.logNormaliser <= y.logNormaliser;
+}
+
+/**
+ * log P(X > Y) and log P(Y > X): the one expected to be smaller (that the lower-mean variable is above
+ * the other) is integrated directly and the other is log1mExp of it; if that guess gives more than ½
+ * (possible only close to ½, by skewness) the other side is integrated as well and the smaller kept.
+ */
+function greaterTails(x: TabulatedDistribution, y: TabulatedDistribution): LogTails {
+  const base = xIsBase(x, y) ? x : y;
+  const other = base === x ? y : x;
+  // log P(base > other) = ∫ f_base F_other; log P(other > base) = ∫ f_base S_other.
+  const baseAbove = () => logIntegral(base, [factor(other, 'cdf')]);
+  const otherAbove = () => logIntegral(base, [factor(other, 'sf')]);
+  const guessBaseAbove = base.mean < other.mean || (base.mean === other.mean && base === x);
+  let lBase: number;
+  let lOther: number;
+  if (guessBaseAbove) {
+    lBase = baseAbove();
+    lOther = lBase > -Math.LN2 ? otherAbove() : log1mExp(lBase);
+    if (lBase > -Math.LN2 && lOther > lBase) lOther = log1mExp(lBase);
+    else if (lBase > -Math.LN2) lBase = log1mExp(lOther);
+  } else {
+    lOther = otherAbove();
+    lBase = lOther > -Math.LN2 ? baseAbove() : log1mExp(lOther);
+    if (lOther > -Math.LN2 && lBase > lOther) lBase = log1mExp(lOther);
+    else if (lOther > -Math.LN2) lOther = log1mExp(lBase);
+  }
+  return base === x ? { lower: lBase, upper: lOther } : { lower: lOther, upper: lBase };
+}
+
+/**
+ * P(X > Y) for independent X, Y: ∫ f_X F_Y (or ∫ f_Y S_X on the narrower one's grid). Of P(X > Y) and
+ * P(Y > X) the smaller is integrated directly and the other returned as 1 − smaller, so
+ * probabilityGreater(x, y) + probabilityGreater(y, x) = 1 and a tiny value is accurate relative to itself.
+ * Method: composite Gauss–Legendre quadrature on the tabulated panels (see grid.ts).
+ * Cost: ~2 × (panels + kept panels × 16) interpolations.
+ * @example probabilityGreater(beta(6, 6), beta(4, 8)) //=> 0.8065015479876161 (= 521/646, Evan Miller 2015)
+ */
+export function probabilityGreater(x: TabulatedDistribution, y: TabulatedDistribution): number {
+  const t = greaterTails(x, y);
+  return Math.exp(t.lower);
+}
+
+/** log P(X > Y), accurate relative to itself down to ~1e-300. Same method and cost as probabilityGreater. */
+export function logProbabilityGreater(x: TabulatedDistribution, y: TabulatedDistribution): number {
+  return greaterTails(x, y).lower;
+}
+
+function checkList(ds: readonly TabulatedDistribution[]): void {
+  if (ds.length < 1) throw new StatsError('invalid_argument', 'at least one distribution is needed');
+}
+
+/**
+ * The raw integrals ∫ f_i Π_{j≠i} F_j of P(variant i is highest), before normalising. Their sum is 1
+ * up to the quadrature error (checked to 1e-10 in the tests). Exposed for that check.
+ * Cost: k × (panels + kept panels × 16) × (k − 1) interpolations.
+ */
+export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]): number[] {
+  checkList(ds);
+  return ds.map((d, i) => {
+    const factors = ds.filter((_, j) => j !== i).map((o) => factor(o, 'cdf'));
+    return Math.exp(logIntegral(d, factors));
+  });
+}
+
+/**
+ * P(X_i is the highest) for each i: ∫ f_i Π_{j≠i} F_j on i's grid (split where a narrower posterior
+ * needs it), divided by their sum so they add to 1. Identical inputs give identical outputs (1/k each).
+ * Tiny probabilities keep their relative accuracy (each is integrated directly).
+ * Cost: O(k² × nodes kept). Throws StatsError('invalid_argument') for an empty list.
+ * @example highestProbabilities([beta(4, 8), beta(6, 6)]) //=> [0.1934984520123839, 0.8065015479876161]
+ */
+export function highestProbabilities(ds: readonly TabulatedDistribution[]): number[] {
+  const raw = highestProbabilityIntegrals(ds);
+  let sum = 0;
+  for (const r of raw) sum += r;
+  if (!(sum > 0)) throw new StatsError('not_available', 'the probabilities of being highest could not be computed');
+  return raw.map((r) => r / sum);
+}
+
+/**
+ * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
+ * Method: written as Σ_{j≠i} ∫ f_j(y) Π_{l≠i,j} F_l(y) G_i(y) dy, with G_i(y) = E[(y − X_i)^+] the integrated
+ * cdf tabulated beside F (grid.ts), so every term is a positive integral against a density: no 1 − (near 1)
+ * and no difference of means, and a loss of 1e-30 is accurate relative to itself. The identity
+ * loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
+ * Cost: O(k³ × nodes kept) interpolations (k ≤ 50). Throws StatsError('invalid_argument') for an empty list.
+ * @example expectedLosses([beta(4, 8), beta(6, 6)]) // [0.1732…, 0.0065…] (Stucchio's closed form)
+ */
+export function expectedLosses(ds: readonly TabulatedDistribution[]): number[] {
+  checkList(ds);
+  if (ds.length === 1) return [0];
+  return ds.map((di, i) => {
+    let total = -Infinity;
+    ds.forEach((dj, j) => {
+      if (j === i) return;
+      const factors: Factor[] = [factor(di, 'lowerMoment')];
+      ds.forEach((dl, l) => {
+        if (l !== i && l !== j) factors.push(factor(dl, 'cdf'));
+      });
+      total = logAddExp(total, logIntegral(dj, factors));
+    });
+    return Math.exp(total);
+  });
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Difference D = Y − X
+
+/** log P(Y − X ≤ d) (upper = false) or log P(Y − X > d) (upper = true), integrated directly. */
+function differenceLogTail(y: TabulatedDistribution, x: TabulatedDistribution, d: number, upper: boolean): number {
+  if (xIsBase(x, y)) return logIntegral(x, [factor(y, upper ? 'sf' : 'cdf', 1, d)]);
+  return logIntegral(y, [factor(x, upper ? 'cdf' : 'sf', 1, -d)]);
+}
+
+function differenceTails(y: TabulatedDistribution, x: TabulatedDistribution, d: number): LogTails {
+  if (!Number.isFinite(d)) throw new StatsError('invalid_argument', `the difference must be a finite number, not ${d}`);
+  if (xIsBase(x, y)) {
+    // P(Y − X ≤ d) = ∫ f_X(s) F_Y(s + d) ds.
+    return pairFromBoth(logIntegral(x, [factor(y, 'cdf', 1, d)]), logIntegral(x, [factor(y, 'sf', 1, d)]));
+  }
+  // P(Y − X ≤ d) = P(X ≥ Y − d) = ∫ f_Y(t) S_X(t − d) dt.
+  return pairFromBoth(logIntegral(y, [factor(x, 'sf', 1, -d)]), logIntegral(y, [factor(x, 'cdf', 1, -d)]));
+}
+
+/**
+ * P(Y − X ≤ d) = ∫ f_X(s) F_Y(s + d) ds (on the narrower posterior's grid); the smaller of the two tails is
+ * integrated directly. Cost: as probabilityGreater.
+ * Throws StatsError('invalid_argument') unless d is finite.
+ * @example differenceCdf(beta(6, 6), beta(4, 8), 0) //=> 0.1934984520123839 (1 − 521/646)
+ */
+export function differenceCdf(y: TabulatedDistribution, x: TabulatedDistribution, d: number): number {
+  return Math.exp(differenceTails(y, x, d).lower);
+}
+
+/** P(Y − X > d), accurate relative to itself in the upper tail. */
+export function differenceSf(y: TabulatedDistribution, x: TabulatedDistribution, d: number): number {
+  return Math.exp(differenceTails(y, x, d).upper);
+}
+
+/**
+ * The density of D = Y − X at d: ∫ f_X(s) f_Y(s + d) ds (value units).
+ * Cost: one integral over the kept panels. Throws StatsError('invalid_argument') unless d is finite.
+ * @example differenceDensity(beta(1, 1), beta(1, 1), 0) //=> 1 (triangular density)
+ */
+export function differenceDensity(y: TabulatedDistribution, x: TabulatedDistribution, d: number): number {
+  if (!Number.isFinite(d)) throw new StatsError('invalid_argument', `the difference must be a finite number, not ${d}`);
+  const v = xIsBase(x, y) ? logIntegral(x, [factor(y, 'density', 1, d)]) : logIntegral(y, [factor(x, 'density', 1, -d)]);
+  return Math.exp(v);
+}
+
+/**
+ * The p-quantile of D = Y − X: Newton's method on log P(D ≤ d) (log P(D > d) above the median) with the
+ * density as derivative, inside a bracket from the marginal quantiles (P(D ≤ qY(p/2) − qX(1 − p/2)) ≤ p).
+ * differenceCdf(y, x, differenceQuantile(y, x, p)) = p to ~1e-13 relative.
+ * Cost: ~4–8 (cdf + density) integrals. Throws StatsError('invalid_argument') unless 0 < p < 1.
+ * @example differenceQuantile(beta(1, 1), beta(1, 1), 0.5) //=> 0
+ */
+export function differenceQuantile(y: TabulatedDistribution, x: TabulatedDistribution, p: number): number {
+  checkProbability(p);
+  const lo = y.quantile(p / 2) - x.quantileUpper(p / 2);
+  const hi = y.quantileUpper((1 - p) / 2) - x.quantile((1 - p) / 2);
+  // Start: the normal approximation from the marginal quantiles at p and 1 − p.
+  const upperHalf = p > 0.5;
+  const qy = upperHalf ? y.quantileUpper(1 - p) : y.quantile(p);
+  const qx = upperHalf ? x.quantile(1 - p) : x.quantileUpper(p);
+  const my = y.quantile(0.5);
+  const mx = x.quantile(0.5);
+  const spread = Math.hypot(qy - my, qx - mx);
+  const start = my - mx + (upperHalf ? spread : -spread);
+  return solveQuantile(
+    (d, upper) => differenceLogTail(y, x, d, upper),
+    (d) => Math.log(differenceDensity(y, x, d)),
+    p,
+    lo,
+    hi,
+    start,
+  );
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Ratio R = Y/X − 1 (X > 0)
+
+function checkPositive(x: TabulatedDistribution): void {
+  if (!(x.source.valueRange[0] >= 0)) {
+    throw new StatsError('invalid_argument', 'a ratio needs a denominator that is positive for sure');
+  }
+}
+
+function checkLift(m: number): void {
+  if (!(Number.isFinite(m) && m > -1)) {
+    throw new StatsError('invalid_argument', `a relative lift must be a finite number greater than -1, not ${m}`);
+  }
+}
+
+/** log P(Y/X − 1 ≤ m) (upper = false) or log P(Y/X − 1 > m) (upper = true), integrated directly. */
+function ratioLogTail(y: TabulatedDistribution, x: TabulatedDistribution, m: number, upper: boolean): number {
+  const s = 1 + m;
+  if (xIsBase(x, y)) return logIntegral(x, [factor(y, upper ? 'sf' : 'cdf', s, 0)]);
+  return logIntegral(y, [factor(x, upper ? 'cdf' : 'sf', 1 / s, 0)]);
+}
+
+function ratioTails(y: TabulatedDistribution, x: TabulatedDistribution, m: number): LogTails {
+  checkPositive(x);
+  checkLift(m);
+  const s = 1 + m;
+  if (xIsBase(x, y)) {
+    // P(Y ≤ (1 + m) X) = ∫ f_X(s) F_Y((1 + m)s) ds.
+    return pairFromBoth(logIntegral(x, [factor(y, 'cdf', s, 0)]), logIntegral(x, [factor(y, 'sf', s, 0)]));
+  }
+  // = P(X ≥ Y/(1 + m)) = ∫ f_Y(t) S_X(t/(1 + m)) dt.
+  return pairFromBoth(logIntegral(y, [factor(x, 'sf', 1 / s, 0)]), logIntegral(y, [factor(x, 'cdf', 1 / s, 0)]));
+}
+
+/**
+ * P(Y/X − 1 ≤ m) = ∫ f_X(s) F_Y((1 + m)s) ds for a positive X; the smaller tail integrated directly.
+ * Cost: as probabilityGreater. Throws StatsError('invalid_argument') unless m > −1 is finite and X > 0.
+ * @example ratioCdf(beta(6, 6), beta(4, 8), 0) //=> 0.1934984520123839 (P(Y ≤ X) = 1 − 521/646)
+ */
+export function ratioCdf(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+  return Math.exp(ratioTails(y, x, m).lower);
+}
+
+/** P(Y/X − 1 > m), accurate relative to itself in the upper tail. */
+export function ratioSf(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+  return Math.exp(ratioTails(y, x, m).upper);
+}
+
+function logRatioDensity(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+  checkPositive(x);
+  checkLift(m);
+  const s = 1 + m;
+  if (xIsBase(x, y)) return logIntegral(x, [factor(y, 'density', s, 0)], true);
+  // d/dm ∫ f_Y(t) S_X(t/s) dt = ∫ f_Y(t) f_X(t/s) t/s² dt.
+  return logIntegral(y, [factor(x, 'density', 1 / s, 0)], true, -2 * Math.log(s));
+}
+
+/**
+ * The density of R = Y/X − 1 at m: ∫ f_X(s) s f_Y((1 + m)s) ds.
+ * Cost: one integral over the kept panels. Throws StatsError('invalid_argument') unless m > −1 and X > 0.
+ * @example ratioDensity(beta(1, 1), beta(1, 1), 0) //=> 0.5 (Y/X of two uniforms: density 1/2 at 1)
+ */
+export function ratioDensity(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+  return Math.exp(logRatioDensity(y, x, m));
+}
+
+/**
+ * The p-quantile of R = Y/X − 1, by Newton's method in r = log(1 + m) on log P(R ≤ m) (log P(R > m)
+ * above the median), bracketed by the marginal quantiles. ratioCdf(y, x, ratioQuantile(y, x, p)) = p to
+ * ~1e-13 relative. Cost: ~4–8 (cdf + density) integrals.
+ * Throws StatsError('invalid_argument') unless 0 < p < 1 and X > 0.
+ * @example ratioQuantile(beta(1, 1), beta(1, 1), 0.5) //=> 0
+ */
+export function ratioQuantile(y: TabulatedDistribution, x: TabulatedDistribution, p: number): number {
+  checkProbability(p);
+  checkPositive(x);
+  const ratio = (a: number, b: number) => Math.log(a) - Math.log(b);
+  let lo = ratio(y.quantile(p / 2), x.quantileUpper(p / 2));
+  let hi = ratio(y.quantileUpper((1 - p) / 2), x.quantile((1 - p) / 2));
+  if (!Number.isFinite(lo)) lo = -745;
+  if (!Number.isFinite(hi)) hi = 745;
+  // Start: the normal approximation of log Y − log X from the marginal quantiles at p and 1 − p.
+  const upperHalf = p > 0.5;
+  const qy = Math.log(upperHalf ? y.quantileUpper(1 - p) : y.quantile(p));
+  const qx = Math.log(upperHalf ? x.quantile(1 - p) : x.quantileUpper(p));
+  const my = Math.log(y.quantile(0.5));
+  const mx = Math.log(x.quantile(0.5));
+  const spread = Math.hypot(qy - my, qx - mx);
+  let start = my - mx + (upperHalf ? spread : -spread);
+  if (!Number.isFinite(start)) start = (lo + hi) / 2;
+  const r = solveQuantile(
+    (v, upper) => ratioLogTail(y, x, Math.expm1(v), upper),
+    (v) => logRatioDensity(y, x, Math.expm1(v)) + v,
+    p,
+    lo,
+    hi,
+    start,
+  );
+  return Math.expm1(r);
+}
+
+// ---------------------------------------------------------------------------------------------------
+
+function checkProbability(p: number): void {
+  if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
+}
+
+/**
+ * Solves P(V ≤ v) = p, by Newton's method on the log of the smaller tail (log P(V ≤ v) for p ≤ ½,
+ * log P(V > v) above) with derivative e^{logDensity − logTail}, from `start`, kept inside [lo, hi] (which
+ * holds the root by construction) by bisection once a step leaves the bracket known so far.
+ */
+function solveQuantile(
+  logTail: (v: number, upper: boolean) => number,
+  logDensity: (v: number) => number,
+  p: number,
+  lo: number,
+  hi: number,
+  start: number,
+): number {
+  const upper = p > 0.5;
+  const target = upper ? Math.log1p(-p) : Math.log(p);
+  // residual(v) is increasing in v: log F(v) − log p, or log(1 − p) − log S(v).
+  const residual = (v: number) => (upper ? target - logTail(v, true) : logTail(v, false) - target);
+  let a = Math.min(lo, hi);
+  let b = Math.max(lo, hi);
+  let v = start > a && start < b ? start : (a + b) / 2;
+  for (let i = 0; i < 200; i++) {
+    const r = residual(v);
+    if (r === 0 || Math.abs(r) <= 1e-14) return v;
+    if (r < 0) a = v;
+    else b = v;
+    const tail = upper ? target - r : r + target;
+    const slope = Math.exp(logDensity(v) - tail);
+    let next = slope > 0 && Number.isFinite(slope) ? v - r / slope : NaN;
+    if (!(next > a && next < b)) next = (a + b) / 2;
+    if (Math.abs(next - v) <= 2 * Number.EPSILON * Math.abs(v) || b - a <= 2 * Number.EPSILON * Math.max(Math.abs(a), Math.abs(b))) {
+      return next;
+    }
+    v = next;
+  }
+  return v;
+}

@@ -1,0 +1,356 @@
+/**
+ * The conversion read-out (Beta–Binomial model): what the ABTEST conversion functions compute.
+ *
+ * Each variant's rate has the posterior Beta(α + conversions, β + visitors − conversions) under a
+ * Beta(α, β) prior (conjugate updating; Gelman et al., "Bayesian Data Analysis", 3rd ed., §2.4). The
+ * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts; the first variant is the
+ * control. Inputs are checked here with generic messages; the sheet layer adds argument names.
+ */
+import { StatsError, ensure } from './errors';
+import { betaWorkingDensity } from './betaDensity';
+import {
+  differenceQuantile,
+  expectedLosses,
+  highestProbabilities,
+  probabilityGreater,
+  ratioDensity,
+  ratioQuantile,
+  ratioSf,
+} from './compare';
+import { TabulatedDistribution, tabulate } from './grid';
+import { findRoot } from './numeric';
+import type { BetaPrior, ConversionCounts, DensityTable, Interval, IntervalWithMedian } from './types';
+import { UNIFORM_PRIOR } from './types';
+
+/** Most variants a comparison accepts (the catalogue's limit). */
+export const MAX_VARIANTS = 50;
+
+const MAX_COUNT = 2 ** 53;
+
+function checkPrior(prior: BetaPrior): void {
+  ensure(
+    Number.isFinite(prior.alpha) && prior.alpha > 0,
+    `the prior's alpha must be a number greater than 0, not ${prior.alpha}`,
+  );
+  ensure(Number.isFinite(prior.beta) && prior.beta > 0, `the prior's beta must be a number greater than 0, not ${prior.beta}`);
+}
+
+function checkCounts(variants: readonly ConversionCounts[], minimum: number, maximum: number): void {
+  ensure(Array.isArray(variants), 'the variants must be a list of conversions and visitors');
+  if (minimum >= 2) {
+    ensure(
+      variants.length >= minimum && variants.length <= maximum,
+      `a comparison needs between ${minimum} and ${maximum} variants, not ${variants.length}`,
+    );
+  } else {
+    ensure(variants.length >= 1, 'at least one variant is needed');
+  }
+  variants.forEach((v, i) => {
+    const where = `variant ${i + 1}`;
+    ensure(
+      Number.isInteger(v.visitors) && v.visitors >= 1 && v.visitors <= MAX_COUNT,
+      `${where}: visitors must be a whole number of at least 1, not ${v.visitors}`,
+    );
+    ensure(
+      Number.isInteger(v.conversions) && v.conversions >= 0,
+      `${where}: conversions must be a whole number of at least 0, not ${v.conversions}`,
+    );
+    ensure(v.conversions <= v.visitors, `${where}: conversions (${v.conversions}) cannot exceed visitors (${v.visitors})`);
+  });
+}
+
+function checkLevel(level: number): void {
+  ensure(Number.isFinite(level) && level > 0 && level < 1, `the level must be strictly between 0 and 1, not ${level}`);
+}
+
+/** Posterior Beta shapes (a, b) of one variant. */
+function shapes(v: ConversionCounts, prior: BetaPrior): [number, number] {
+  return [prior.alpha + v.conversions, prior.beta + (v.visitors - v.conversions)];
+}
+
+/**
+ * The tabulated posterior of one variant's rate (in logit, coordinate "logit").
+ * Cost: one tabulation (~60–80 panels). Throws StatsError('invalid_argument') for bad shapes.
+ * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) //=> 0.0546875 (pbeta(0.5, 8, 3))
+ */
+export function posteriorOf(v: ConversionCounts, prior: BetaPrior = UNIFORM_PRIOR): TabulatedDistribution {
+  const [a, b] = shapes(v, prior);
+  return tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' });
+}
+
+function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior): TabulatedDistribution[] {
+  return variants.map((v) => posteriorOf(v, prior));
+}
+
+/**
+ * Posterior mean rate of each variant, (α + conversions)/(α + β + visitors).
+ * Cost: O(k). Throws StatsError('invalid_argument') for bad counts or prior.
+ * @example posteriorMean([{ conversions: 3, visitors: 10 }], { alpha: 1, beta: 1 }) //=> [0.3333333333333333]
+ */
+export function posteriorMean(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+  checkPrior(prior);
+  checkCounts(variants, 1, Infinity);
+  return variants.map((v) => {
+    const [a, b] = shapes(v, prior);
+    return a / (a + b);
+  });
+}
+
+/**
+ * Credible interval of each variant's rate.
+ *  - 'central': equal tails, [Q((1 − level)/2), Q((1 + level)/2)] (the same as Excel's
+ *    BETA.INV((1 − level)/2, α + x, β + n − x) and its upper counterpart);
+ *  - 'hdi': the highest-density interval, the shortest interval holding `level` of the posterior
+ *    (J. K. Kruschke, "Doing Bayesian Data Analysis", 2nd ed., 2015, §4.3.4). Where the density only
+ *    falls (or only rises) the interval starts at 0 (ends at 1); for the flat Beta(1, 1) every interval
+ *    of that length is shortest and the central one is returned.
+ * Cost: two quantiles per variant (central), ~30 quantiles per variant (hdi).
+ * Throws StatsError('invalid_argument') for bad counts, level or prior; StatsError('not_available') for
+ * the HDI of a U-shaped posterior (both shapes below 1), which is not one interval.
+ * @example rateInterval([{ conversions: 0, visitors: 10 }], 0.95, UNIFORM_PRIOR, 'hdi') //=> [{ lower: 0, upper: 0.2384… }]
+ */
+export function rateInterval(
+  variants: readonly ConversionCounts[],
+  level: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+  method: 'central' | 'hdi' = 'central',
+): Interval[] {
+  checkPrior(prior);
+  checkCounts(variants, 1, Infinity);
+  checkLevel(level);
+  ensure(method === 'central' || method === 'hdi', `the method must be "central" or "hdi", not ${String(method)}`);
+  return variants.map((v) => {
+    const d = posteriorOf(v, prior);
+    const tail = (1 - level) / 2;
+    if (method === 'central') return { lower: d.quantile(tail), upper: d.quantileUpper(tail) };
+    const [a, b] = shapes(v, prior);
+    return highestDensityInterval(d, a, b, level);
+  });
+}
+
+function highestDensityInterval(d: TabulatedDistribution, a: number, b: number, level: number): Interval {
+  if (a < 1 && b < 1) {
+    throw new StatsError(
+      'not_available',
+      'the posterior density is U-shaped, so no single highest-density interval exists; use method "central"',
+    );
+  }
+  if (a === 1 && b === 1) return { lower: (1 - level) / 2, upper: (1 + level) / 2 };
+  if (a <= 1) return { lower: 0, upper: d.quantile(level) };
+  if (b <= 1) return { lower: d.quantileUpper(level), upper: 1 };
+  // Unimodal: the lower-tail mass t at which the density is equal at both ends (Kruschke 2015).
+  const rest = 1 - level;
+  const ends = (t: number): [number, number] => [d.quantile(t), d.quantileUpper(rest - t)];
+  const gap = (t: number): number => {
+    const [lo, hi] = ends(t);
+    const clamp = (v: number) => (Number.isFinite(v) ? v : v > 0 ? 1e300 : -1e300);
+    return clamp(d.logValueDensity(lo)) - clamp(d.logValueDensity(hi));
+  };
+  const tLo = rest * 1e-12;
+  const tHi = rest * (1 - 1e-12);
+  let t: number;
+  if (gap(tLo) >= 0) t = tLo;
+  else if (gap(tHi) <= 0) t = tHi;
+  else t = findRoot(gap, tLo, tHi, 1e-17 * rest);
+  const [lower, upper] = ends(t);
+  return { lower, upper };
+}
+
+/**
+ * Probability that each variant has the highest true rate: ∫ f_i Π_{j≠i} F_j, normalised (sums to 1).
+ * Cost: k tabulations and O(k²) one-dimensional integrals. Throws StatsError('invalid_argument') for bad
+ * counts or prior, or fewer than 2 / more than 50 variants.
+ * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.1934984520123839, 0.8065015479876161]
+ */
+export function probHighest(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  return highestProbabilities(posteriors(variants, prior));
+}
+
+/**
+ * For each challenger (variants 2…k), P(its rate > the control's rate).
+ * Cost: k tabulations and k − 1 integrals. Same errors as probHighest.
+ * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.8065015479876161] (521/646)
+ */
+export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  const ds = posteriors(variants, prior);
+  const control = ds[0] as TabulatedDistribution;
+  return ds.slice(1).map((d) => probabilityGreater(d, control));
+}
+
+/**
+ * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
+ * relative lift rate/control − 1 (quantiles of the ratio distribution, compare.ts).
+ * Cost: ~3 × 6 integrals per challenger. Errors as probHighest, plus a level outside (0, 1).
+ * @example liftInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
+ * // [{ lower: −0.10…, median: 0.29…, upper: 0.84… }]
+ */
+export function liftInterval(
+  variants: readonly ConversionCounts[],
+  level: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): IntervalWithMedian[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  checkLevel(level);
+  const ds = posteriors(variants, prior);
+  const control = ds[0] as TabulatedDistribution;
+  const tail = (1 - level) / 2;
+  return ds.slice(1).map((d) => ({
+    lower: ratioQuantile(d, control, tail),
+    median: ratioQuantile(d, control, 0.5),
+    upper: ratioQuantile(d, control, 1 - tail),
+  }));
+}
+
+/**
+ * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
+ * absolute difference rate − control's rate (quantiles of the difference distribution, compare.ts).
+ * Cost and errors as liftInterval.
+ * @example rateDiffInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
+ * // [{ lower: −0.005…, median: 0.0149…, upper: 0.035… }]
+ */
+export function rateDiffInterval(
+  variants: readonly ConversionCounts[],
+  level: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): IntervalWithMedian[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  checkLevel(level);
+  const ds = posteriors(variants, prior);
+  const control = ds[0] as TabulatedDistribution;
+  const tail = (1 - level) / 2;
+  return ds.slice(1).map((d) => ({
+    lower: differenceQuantile(d, control, tail),
+    median: differenceQuantile(d, control, 0.5),
+    upper: differenceQuantile(d, control, 1 - tail),
+  }));
+}
+
+/**
+ * For each challenger, P(rate/control − 1 > minLift); a negative minLift asks "no worse than".
+ * Cost: one ratio tail per challenger. Errors as probHighest, plus minLift ≤ −1 or not finite.
+ * @example probLiftAbove([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], 0, UNIFORM_PRIOR) //=> [0.8065015479876161]
+ */
+export function probLiftAbove(
+  variants: readonly ConversionCounts[],
+  minLift: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): number[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  ensure(Number.isFinite(minLift) && minLift > -1, `the minimum lift must be a number greater than -1, not ${minLift}`);
+  const ds = posteriors(variants, prior);
+  const control = ds[0] as TabulatedDistribution;
+  return ds.slice(1).map((d) => ratioSf(d, control, minLift));
+}
+
+/**
+ * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
+ * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
+ * Cost: O(k³) integrals (compare.ts expectedLosses). Errors as probHighest.
+ * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) // [0.1877…, 0.0210…]
+ */
+export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  return expectedLosses(posteriors(variants, prior));
+}
+
+/** What {@link decide} recommends. */
+export interface Decision {
+  /** True when the variant at `index` may be chosen: its expected loss is at most maxLoss. */
+  readonly choose: boolean;
+  /** The variant with the smallest expected loss (0-based; the current leader when choose is false). */
+  readonly index: number;
+  /** Its expected loss (a rate). */
+  readonly loss: number;
+  /** The threshold used (a rate). */
+  readonly maxLoss: number;
+}
+
+/**
+ * The decision rule "choose the variant with the smallest expected loss once that loss is at most
+ * maxLoss" (the expected-loss stopping rule, Stucchio 2015). Default maxLoss: 1% of the control's
+ * posterior mean rate. Cost: as expectedLoss.
+ * Throws StatsError('invalid_argument') for bad counts, prior or a maxLoss below 0.
+ * @example decide([{ conversions: 300, visitors: 10000 }, { conversions: 420, visitors: 10000 }], undefined, UNIFORM_PRIOR)
+ * // { choose: true, index: 1, loss: ~1e-8, maxLoss: 0.0003… }
+ */
+export function decide(
+  variants: readonly ConversionCounts[],
+  maxLoss: number | undefined,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): Decision {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  if (maxLoss !== undefined) {
+    ensure(Number.isFinite(maxLoss) && maxLoss >= 0, `the largest acceptable loss must be a number of at least 0, not ${maxLoss}`);
+  }
+  const threshold = maxLoss ?? 0.01 * (posteriorMean([variants[0] as ConversionCounts], prior)[0] as number);
+  const losses = expectedLoss(variants, prior);
+  let index = 0;
+  losses.forEach((l, i) => {
+    if (l < (losses[index] as number)) index = i;
+  });
+  const loss = losses[index] as number;
+  return { choose: loss <= threshold, index, loss, maxLoss: threshold };
+}
+
+function checkPoints(points: number): void {
+  ensure(Number.isInteger(points) && points >= 2 && points <= 1000, `points must be a whole number from 2 to 1000, not ${points}`);
+}
+
+function evenGrid(lo: number, hi: number, points: number): number[] {
+  return Array.from({ length: points }, (_, r) => (r === points - 1 ? hi : lo + ((hi - lo) * r) / (points - 1)));
+}
+
+/**
+ * A table for a chart of the posterior densities of the rates: `points` rates evenly spread over the
+ * union of the variants' central 99.9% intervals, and each variant's density there (per unit of rate).
+ * Cost: k tabulations and k × points density evaluations.
+ * Throws StatsError('invalid_argument') for bad counts, prior or points (2 … 1000).
+ * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid // [0.146…, 0.5, 0.853…]
+ */
+export function posteriorDensityTable(
+  variants: readonly ConversionCounts[],
+  points: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): DensityTable {
+  checkPrior(prior);
+  checkCounts(variants, 1, MAX_VARIANTS);
+  checkPoints(points);
+  const ds = posteriors(variants, prior);
+  const lo = Math.min(...ds.map((d) => d.quantile(0.0005)));
+  const hi = Math.max(...ds.map((d) => d.quantileUpper(0.0005)));
+  const grid = evenGrid(lo, hi, points);
+  return { grid, densities: ds.map((d) => grid.map((x) => d.density(x))) };
+}
+
+/**
+ * A table for a chart of the posterior densities of each challenger's relative lift over the control:
+ * `points` lifts evenly spread over the union of the challengers' 0.1%–99.9% lift ranges, and each
+ * challenger's lift density there (ratio density, compare.ts).
+ * Cost: (k − 1) × points one-dimensional integrals. Errors as posteriorDensityTable, and 2 … 50 variants.
+ * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
+ */
+export function liftDensityTable(
+  variants: readonly ConversionCounts[],
+  points: number,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): DensityTable {
+  checkPrior(prior);
+  checkCounts(variants, 2, MAX_VARIANTS);
+  checkPoints(points);
+  const ds = posteriors(variants, prior);
+  const control = ds[0] as TabulatedDistribution;
+  const challengers = ds.slice(1);
+  const lo = Math.min(...challengers.map((d) => ratioQuantile(d, control, 0.001)));
+  const hi = Math.max(...challengers.map((d) => ratioQuantile(d, control, 0.999)));
+  const grid = evenGrid(lo, hi, points);
+  return { grid, densities: challengers.map((d) => grid.map((m) => (m > -1 ? ratioDensity(d, control, m) : 0))) };
+}
