@@ -397,7 +397,8 @@ function fitMoments(history: History): BetaPrior {
  * StatsError('not_available') when the results vary no more than chance would explain (the maximum is at
  * infinite strength, or the moment estimate of the extra variance is ≤ 0), when no result or every visitor
  * converted, or when they look all-or-nothing (the fit runs to strength 0).
- * @example priorFromHistory([52, 61, 47, 70], [1000, 1000, 1000, 1000]) //=> { alpha: 56.2…, beta: 944.6… }
+ * @example priorFromHistory([52, 61, 47, 70], [1000, 1000, 1000, 1000]) //=> { alpha: 136.4107…, beta: 2235.949… }
+ * @example priorFromHistory([52, 61, 47, 70], [1000, 1000, 1000, 1000], "moments") //=> { alpha: 63.7258…, beta: 1044.549… }
  */
 export function priorFromHistory(
   conversions: readonly number[],
