@@ -53,6 +53,21 @@ function isBlank(value: unknown): boolean {
   return value === '' || value === null || value === undefined;
 }
 
+/**
+ * Queue the contents of a block: one broadcast clear of the whole target ([[""]], which Excel applies
+ * to every cell), then each non-blank cell as its own 1×1 write. Same batch, same all-or-nothing
+ * behaviour as one 2-D write, and robust to hosts that cannot take array objects made in another
+ * frame (the no-Excel preview runs the panel in an iframe).
+ */
+function queueContents(target: Excel.Range, cells: readonly (readonly CellValue[])[]): void {
+  target.formulas = [['']];
+  cells.forEach((row, r) =>
+    row.forEach((value, c) => {
+      if (!isBlank(value)) target.getCell(r, c).formulas = [[value as string]];
+    }),
+  );
+}
+
 /** Check a block's shapes; returns a message for a malformed block, else null. */
 function shapeProblem(block: FormulaBlock): string | null {
   const rows = block.cells.length;
@@ -77,7 +92,7 @@ function shapeProblem(block: FormulaBlock): string | null {
 /**
  * Create the Office.js implementation of Workbook.
  * Cost: one Excel.run per call; writeBlock makes two syncs (read the area, write it) and a third only
- * to restore after a failure. Methods never throw for workbook failures except readRange/readSelection,
+ * to restore after a failure; its write batch holds one operation per non-blank cell. Methods never throw for workbook failures except readRange/readSelection,
  * which reject with the Office error (bad address, unknown sheet).
  * @example const workbook = createOfficeWorkbook(); await workbook.readSelection() //=> { address: "Sheet1!B2:D4", … }
  */
@@ -158,7 +173,7 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
       try {
         await run(async (context) => {
           const target = worksheetOf(context, block.sheet).getRange(targetLocal);
-          target.formulas = block.cells.map((row) => row.slice()) as unknown as string[][];
+          queueContents(target, block.cells);
           block.numberFormats?.forEach((row, r) =>
             row.forEach((format, c) => {
               if (format !== null && format !== '') target.getCell(r, c).numberFormat = [[format]];
@@ -182,10 +197,8 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
         try {
           await run(async (context) => {
             const target = worksheetOf(context, block.sheet).getRange(targetLocal);
-            target.formulas = previous as unknown as string[][];
-            if (wasEmpty && block.numberFormats) {
-              target.numberFormat = block.cells.map((row) => row.map(() => 'General'));
-            }
+            queueContents(target, previous);
+            if (wasEmpty && block.numberFormats) target.numberFormat = [['General']];
             await context.sync();
           });
           return {

@@ -209,13 +209,16 @@ export function mockExcel(sheets: string[]): MockExcel {
       const upto = Math.floor(pending.length * fraction);
       for (const p of pending.slice(0, upto)) {
         const { proxy } = p;
+        // A 1×1 array written to a larger range goes to every cell, as in Excel.
+        const at = <T>(grid2: T[][], r: number, c: number): T | undefined =>
+          grid2.length === 1 && grid2[0]?.length === 1 ? grid2[0]?.[0] : grid2[r]?.[c];
         const each = (fn: (cell: MockCell, r: number, c: number) => void): void => {
           for (let r = 0; r < p.rows; r += 1) for (let c = 0; c < p.columns; c += 1) fn(getCell(p.sheet, p.top + r, p.left + c), r, c);
         };
         if (Array.isArray(proxy.formulas) && proxy.formulas !== p.initialFormulas) {
           const written = proxy.formulas as CellValue[][];
           each((cell, r, c) => {
-            const v = written[r]?.[c] ?? '';
+            const v = at(written, r, c) ?? '';
             cell.formula = v;
             // The mock does not calculate: a formula cell shows its formula text as its value.
             cell.value = v;
@@ -224,14 +227,14 @@ export function mockExcel(sheets: string[]): MockExcel {
         if (Array.isArray(proxy.values) && proxy.values !== p.initialValues) {
           const written = proxy.values as CellValue[][];
           each((cell, r, c) => {
-            cell.value = written[r]?.[c] ?? '';
+            cell.value = at(written, r, c) ?? '';
             cell.formula = cell.value;
           });
         }
         if (Array.isArray(proxy.numberFormat) && proxy.numberFormat !== p.initialNumberFormat) {
           const written = proxy.numberFormat as string[][];
           each((cell, r, c) => {
-            cell.numberFormat = written[r]?.[c] ?? cell.numberFormat;
+            cell.numberFormat = at(written, r, c) ?? cell.numberFormat;
           });
         }
         const font = proxy.format.font;
