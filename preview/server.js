@@ -57,17 +57,30 @@ function newestMtime(paths) {
   return newest;
 }
 
-/** Oldest modification time of `files`, or -1 when one is missing. */
-function oldestOutput(files) {
-  let oldest = Infinity;
+/**
+ * When `files` were last built: the newest of their modification times and of the stamp file written
+ * after a build (webpack leaves unchanged outputs untouched); -1 when one of them is missing.
+ */
+function builtAt(files, stamp) {
+  let newest = 0;
   for (const file of files) {
     try {
-      oldest = Math.min(oldest, fs.statSync(file).mtimeMs);
+      newest = Math.max(newest, fs.statSync(file).mtimeMs);
     } catch {
       return -1;
     }
   }
-  return oldest;
+  try {
+    newest = Math.max(newest, fs.statSync(stamp).mtimeMs);
+  } catch {
+    // no stamp: the outputs' own times decide
+  }
+  return newest;
+}
+
+function writeStamp(stamp) {
+  fs.mkdirSync(path.dirname(stamp), { recursive: true });
+  fs.writeFileSync(stamp, `${new Date().toISOString()}\n`);
 }
 
 function runWebpack(args, log) {
@@ -89,9 +102,10 @@ function ensureAddinBuilt({ log = console.log, force = false } = {}) {
     return false;
   }
   const sources = newestMtime(['functions', 'taskpane', 'help', 'manifest', 'scripts', 'webpack.config.js'].map((p) => path.join(REPO_ROOT, p)));
-  const built = oldestOutput(outputs);
-  if (!force && built >= sources) return false;
+  const stamp = path.join(DIST, '.preview-built');
+  if (!force && builtAt(outputs, stamp) >= sources) return false;
   runWebpack(['--mode', 'production'], log);
+  writeStamp(stamp);
   return true;
 }
 
@@ -99,8 +113,10 @@ function ensureAddinBuilt({ log = console.log, force = false } = {}) {
 function ensurePreviewBuilt({ log = console.log, force = false } = {}) {
   const outputs = ['index.html', 'preview.js'].map((f) => path.join(PREVIEW_BUILD, f));
   const sources = newestMtime([path.join(__dirname, 'src'), path.join(__dirname, 'webpack.config.js'), path.join(REPO_ROOT, 'node_modules', 'hyperformula', 'package.json')]);
-  if (!force && oldestOutput(outputs) >= sources) return false;
+  const stamp = path.join(PREVIEW_BUILD, '.built');
+  if (!force && builtAt(outputs, stamp) >= sources) return false;
   runWebpack(['--config', path.join(__dirname, 'webpack.config.js'), '--mode', 'production'], log);
+  writeStamp(stamp);
   return true;
 }
 
@@ -162,7 +178,7 @@ function handler(req, res) {
 }
 
 /** Resolves with `port` if it can be listened on at `host`, else with the first free port after it. */
-function findFreePort(port, host = '127.0.0.1', tries = 50) {
+function findFreePort(port, host = 'localhost', tries = 50) {
   return new Promise((resolve, reject) => {
     const probe = net.createServer();
     probe.once('error', (error) => {
@@ -177,7 +193,7 @@ function findFreePort(port, host = '127.0.0.1', tries = 50) {
  * Starts the preview server. `port` 0 lets the system choose (tests); otherwise the first free port from
  * `port` upward is used. Resolves with { url, port, close() } once listening on localhost.
  */
-async function startPreviewServer({ port = 3100, host = '127.0.0.1' } = {}) {
+async function startPreviewServer({ port = 3100, host = 'localhost' } = {}) {
   const chosen = port === 0 ? 0 : await findFreePort(port, host);
   const server = http.createServer(handler);
   await new Promise((resolve, reject) => {

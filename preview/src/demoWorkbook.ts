@@ -99,13 +99,14 @@ const PAST_TESTS = [
 
 function checkoutSheet(): DemoSheet {
   const s = sheetBuilder('Checkout test');
-  s.width('A', 330);
+  s.width('A', 520);
   for (const c of ['B', 'C', 'D', 'E', 'F', 'G', 'H', 'I']) s.width(c, 104);
   s.width('J', 24);
   for (const c of ['K', 'L', 'M', 'N']) s.width(c, 96);
   s.put('A1', 'Checkout test: which checkout button sells best?');
   s.put('A2', DEMO_NOTICE);
-  const headers = ['Variant', 'Visitors', 'Conversions', 'Revenue: visitors counted', 'Revenue per visitor: mean', 'Revenue per visitor: sd', 'Basket adds (events)', 'Sessions (exposure)', 'Planned share'];
+  // Revenue is per visitor (zeros for visitors who bought nothing); basket adds are events over sessions.
+  const headers = ['Variant', 'Visitors', 'Conversions', 'Revenue count', 'Revenue mean', 'Revenue sd', 'Basket adds', 'Sessions', 'Planned share'];
   headers.forEach((h, i) => s.put(`${columnLetters(i)}3`, h));
   s.strong('A1', ...headers.map((_, i) => `${columnLetters(i)}3`), 'A10', 'A56', 'A81', 'K10', 'K54');
   CHECKOUT_VARIANTS.forEach((variant, r) => {
