@@ -18,10 +18,33 @@
  */
 import { parseBlock, type CellBlock, type PreviewWorkbook } from './previewWorkbook';
 
-/** What the realm provides: its Error and Promise constructors. */
+/** What the realm provides: its Error, Promise and Array constructors. */
 export interface Realm {
   readonly Error: ErrorConstructor;
   readonly Promise: PromiseConstructor;
+  /** Loaded 2-D arrays are made with it, so `instanceof Array` holds in the panel's frame. */
+  readonly Array?: ArrayConstructor;
+}
+
+/**
+ * Copies a 2-D array made in another frame into this realm's arrays. HyperFormula recognises arrays
+ * with `instanceof Array`, which is false for an array made in the panel's iframe.
+ */
+function localRows(data: unknown): unknown[][] | undefined {
+  const isList = (v: unknown): v is ArrayLike<unknown> => Array.isArray(v);
+  if (!isList(data)) return undefined;
+  const rows: unknown[][] = [];
+  for (const row of Array.from(data)) {
+    if (!isList(row)) return undefined;
+    rows.push(Array.from(row));
+  }
+  return rows;
+}
+
+/** Copies a 2-D array into the realm's arrays (for loaded values read by the panel). */
+function realmRows<T>(realm: Realm, rows: T[][]): T[][] {
+  const make = realm.Array ?? Array;
+  return make.from(rows, (row) => make.from(row));
 }
 
 type Command = () => void;
@@ -82,10 +105,9 @@ type RangeProperty = (typeof RANGE_PROPERTIES)[number];
 
 /** Checks that a 2-D array matches the block (or is a single value, which Excel spreads over it). */
 function shapeFor(ctx: RequestContext, block: CellBlock, data: unknown, what: string): unknown[][] {
-  if (!Array.isArray(data) || !data.every((row) => Array.isArray(row))) {
-    ctx.fail('InvalidArgument', `${what} must be a 2-D array`);
-  }
-  const rows = data as unknown[][];
+  const local = localRows(data);
+  if (local === undefined) return ctx.fail('InvalidArgument', `${what} must be a 2-D array`);
+  const rows = local;
   if (rows.length === 1 && rows[0]?.length === 1) {
     return Array.from({ length: block.rows }, () => Array.from({ length: block.columns }, () => rows[0]?.[0]));
   }
@@ -128,15 +150,19 @@ class RangeProxy {
         if (property === 'address') this.loadedValues.address = book.qualifiedAddress(block);
         if (property === 'rowCount') this.loadedValues.rowCount = block.rows;
         if (property === 'columnCount') this.loadedValues.columnCount = block.columns;
-        if (property === 'values') this.loadedValues.values = book.values(block);
+        const realm = this.ctx.realm;
+        if (property === 'values') this.loadedValues.values = realmRows(realm, book.values(block));
         if (property === 'formulas') {
-          this.loadedValues.formulas = grid(block, (r, c) => {
-            const view = book.cell(block.sheet, r, c);
-            return view.input.startsWith('=') ? view.input : view.spilled ? view.value : view.kind === 'number' ? view.value : view.input;
-          });
+          this.loadedValues.formulas = realmRows(
+            realm,
+            grid(block, (r, c) => {
+              const view = book.cell(block.sheet, r, c);
+              return view.input.startsWith('=') ? view.input : view.spilled ? view.value : view.kind === 'number' ? view.value : view.input;
+            }),
+          );
         }
         if (property === 'numberFormat') {
-          this.loadedValues.numberFormat = grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General');
+          this.loadedValues.numberFormat = realmRows(realm, grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'));
         }
       }
     });

@@ -27,7 +27,7 @@ const sheets = (): DemoSheet[] => [
   { name: 'Past tests', cells: [['note'], [null, 1, 2], [null, 3, 4]], formats: {}, columnWidths: {} },
 ];
 
-const realm = { Error, Promise };
+const realm = { Error, Promise, Array };
 
 /** Runs a batch and returns the rejection's code (or 'resolved'). */
 async function codeOf(run: Promise<unknown>): Promise<string> {
@@ -114,6 +114,25 @@ describe('Office/Excel stand-in of the preview', () => {
     const view = book.cell(0, 1, 3);
     expect(view.value).toBe('#VALUE!');
     expect(view.message).toBe('visitors, item 2: 12.5 is not a whole number');
+  });
+
+  it('accepts 2-D arrays made in another realm (the panel’s iframe) and hands back arrays of the caller’s realm', async () => {
+    const vm = await import('vm');
+    const foreign = vm.runInNewContext('({ rows: [["=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)"]], Array })') as { rows: unknown[][]; Array: ArrayConstructor };
+    expect(foreign.rows instanceof Array).toBe(false);
+    const foreignOffice = createOfficeStandIn(book, { Error, Promise, Array: foreign.Array });
+    const loaded = await foreignOffice.Excel.run(async (context) => {
+      const range = context.workbook.worksheets.getItem('Data').getRange('D2');
+      range.formulas = foreign.rows;
+      const read = context.workbook.worksheets.getItem('Data').getRange('D2:D3').load('values');
+      await context.sync();
+      return read.values;
+    });
+    expect(loaded instanceof foreign.Array).toBe(true);
+    expect(loaded[0] instanceof foreign.Array).toBe(true);
+    // (1 + 7)/(2 + 100), (1 + 15)/(2 + 120)
+    expect(loaded[0]?.[0]).toBeCloseTo(8 / 102, 15);
+    expect(loaded[1]?.[0]).toBeCloseTo(16 / 122, 15);
   });
 
   it('rejects sync with InvalidArgument for a wrongly shaped write and ItemNotFound for a missing sheet', async () => {
