@@ -25,8 +25,7 @@ const HISTORY = { min: 3, max: 100000, noun: 'past results' } as const;
 // Conversion metrics (Beta–Binomial)
 
 /**
- * Posterior mean conversion rate of each variant: the rate you should expect after seeing the data.
- * Spills one value per variant, in the same direction as your data.
+ * Posterior mean conversion rate of each variant: the rate you should expect after seeing the data. Spills one value per variant, in the same direction as your data.
  * @customfunction POSTERIOR_MEAN
  * @helpurl https://localhost:3000/help/POSTERIOR_MEAN.html
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
@@ -47,8 +46,7 @@ export function posteriorMean(conversions: any[][], visitors: any[][], prior_alp
 }
 
 /**
- * Credible interval for each variant's conversion rate: the range that holds the true rate with the chosen probability.
- * Spills lower and upper bound per variant (one row per variant for a column of data).
+ * Credible interval for each variant's conversion rate: the range that holds the true rate with the chosen probability. Spills lower and upper bound per variant (one row per variant for a column of data).
  * @customfunction RATE_INTERVAL
  * @helpurl https://localhost:3000/help/RATE_INTERVAL.html
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
@@ -72,8 +70,7 @@ export function rateInterval(conversions: any[][], visitors: any[][], level?: nu
 }
 
 /**
- * Probability that each variant has the highest true conversion rate. The values add up to 1.
- * Spills one value per variant.
+ * Probability that each variant has the highest true conversion rate. The values add up to 1. Spills one value per variant.
  * @customfunction PROB_HIGHEST
  * @helpurl https://localhost:3000/help/PROB_HIGHEST.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -94,8 +91,7 @@ export function probHighest(conversions: any[][], visitors: any[][], prior_alpha
 }
 
 /**
- * Probability that each challenger's true conversion rate beats the control's (the first variant).
- * Spills one value per variant, with an empty cell in the control's place.
+ * Probability that each challenger's true conversion rate beats the control's (the first variant). Spills one value per variant, with an empty cell in the control's place.
  * @customfunction PROB_ABOVE_CONTROL
  * @helpurl https://localhost:3000/help/PROB_ABOVE_CONTROL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -116,8 +112,7 @@ export function probAboveControl(conversions: any[][], visitors: any[][], prior_
 }
 
 /**
- * Credible interval for each challenger's relative lift over the control (rate ÷ control's rate − 1; 0.1 is +10%).
- * Spills lower, median and upper per challenger, with empty cells in the control's place.
+ * Credible interval for each challenger's relative lift over the control (rate ÷ control's rate − 1; 0.1 is +10%). Spills lower, median and upper per challenger, with empty cells in the control's place.
  * @customfunction LIFT_INTERVAL
  * @helpurl https://localhost:3000/help/LIFT_INTERVAL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -140,8 +135,7 @@ export function liftInterval(conversions: any[][], visitors: any[][], level?: nu
 }
 
 /**
- * Credible interval for each challenger's absolute difference in conversion rate (rate − control's rate; 0.004 is 0.4 percentage points).
- * Spills lower, median and upper per challenger, with empty cells in the control's place.
+ * Credible interval for each challenger's absolute difference in conversion rate (rate − control's rate; 0.004 is 0.4 percentage points). Spills lower, median and upper per challenger, with empty cells in the control's place.
  * @customfunction RATE_DIFF_INTERVAL
  * @helpurl https://localhost:3000/help/RATE_DIFF_INTERVAL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -163,8 +157,7 @@ export function rateDiffInterval(conversions: any[][], visitors: any[][], level?
 }
 
 /**
- * Probability that each challenger's relative lift over the control is above a minimum you choose (0.02 asks "at least +2%"; -0.01 asks "no worse than −1%").
- * Spills one value per variant, with an empty cell in the control's place.
+ * Probability that each challenger's relative lift over the control is above a minimum you choose (0.02 asks "at least +2%"; -0.01 asks "no worse than −1%"). Spills one value per variant, with an empty cell in the control's place.
  * @customfunction PROB_LIFT_ABOVE
  * @helpurl https://localhost:3000/help/PROB_LIFT_ABOVE.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -186,8 +179,7 @@ export function probLiftAbove(conversions: any[][], visitors: any[][], min_lift:
 }
 
 /**
- * Expected loss of choosing each variant: the conversion rate you give up on average by picking it, if another variant is truly better. Small is good.
- * Spills one value per variant.
+ * Expected loss of choosing each variant: the conversion rate you give up on average by picking it, if another variant is truly better. Small is good. Spills one value per variant.
  * @customfunction EXPECTED_LOSS
  * @helpurl https://localhost:3000/help/EXPECTED_LOSS.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
@@ -433,8 +425,7 @@ export function srmPvalue(visitors: any[][], planned_shares?: any[][]): number {
 // Revenue and other averages (Normal model from summary statistics)
 
 /**
- * Credible interval for each variant's true average (e.g. revenue per visitor), from the count, average and standard deviation of its values.
- * Spills lower and upper bound per variant.
+ * Credible interval for each variant's true average (e.g. revenue per visitor), from the count, average and standard deviation of its values. Spills lower and upper bound per variant.
  * @customfunction MEAN_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (whole numbers, 2 or more; the first is the control).
@@ -476,8 +467,7 @@ export function meanProbHighest(count: any[][], mean: any[][], sd: any[][]): any
 }
 
 /**
- * Probability that each challenger's true average beats the control's (the first variant).
- * Spills one value per variant, with an empty cell in the control's place.
+ * Probability that each challenger's true average beats the control's (the first variant). Spills one value per variant, with an empty cell in the control's place.
  * @customfunction MEAN_PROB_ABOVE_CONTROL
  * @helpurl https://localhost:3000/help/MEAN_PROB_ABOVE_CONTROL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
@@ -497,8 +487,7 @@ export function meanProbAboveControl(count: any[][], mean: any[][], sd: any[][])
 }
 
 /**
- * Credible interval for each challenger's difference in average from the control (average − control's average, in the metric's units).
- * Spills lower, median and upper per challenger, with empty cells in the control's place.
+ * Credible interval for each challenger's difference in average from the control (average − control's average, in the metric's units). Spills lower, median and upper per challenger, with empty cells in the control's place.
  * @customfunction MEAN_DIFF_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_DIFF_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
@@ -518,8 +507,7 @@ export function meanDiffInterval(count: any[][], mean: any[][], sd: any[][], lev
 }
 
 /**
- * Credible interval for each challenger's relative lift in average over the control (average ÷ control's average − 1).
- * Spills lower, median and upper per challenger, with empty cells in the control's place.
+ * Credible interval for each challenger's relative lift in average over the control (average ÷ control's average − 1). Spills lower, median and upper per challenger, with empty cells in the control's place.
  * @customfunction MEAN_LIFT_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_LIFT_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
@@ -561,8 +549,7 @@ export function meanExpectedLoss(count: any[][], mean: any[][], sd: any[][]): an
 // Counts per exposure (Gamma–Poisson)
 
 /**
- * Credible interval for each variant's event rate per unit of exposure (e.g. add-to-cart clicks per user-day).
- * Spills lower and upper bound per variant.
+ * Credible interval for each variant's event rate per unit of exposure (e.g. add-to-cart clicks per user-day). Spills lower and upper bound per variant.
  * @customfunction EVENTS_RATE_INTERVAL
  * @helpurl https://localhost:3000/help/EVENTS_RATE_INTERVAL.html
  * @param events Events of each variant (a row or a column of whole numbers, 0 or more; the first is the control).
@@ -604,8 +591,7 @@ export function eventsProbHighest(events: any[][], exposure: any[][], prior_shap
 }
 
 /**
- * Probability that each challenger's true event rate beats the control's (the first variant).
- * Spills one value per variant, with an empty cell in the control's place.
+ * Probability that each challenger's true event rate beats the control's (the first variant). Spills one value per variant, with an empty cell in the control's place.
  * @customfunction EVENTS_PROB_ABOVE_CONTROL
  * @helpurl https://localhost:3000/help/EVENTS_PROB_ABOVE_CONTROL.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
@@ -626,8 +612,7 @@ export function eventsProbAboveControl(events: any[][], exposure: any[][], prior
 }
 
 /**
- * Credible interval for each challenger's relative lift in event rate over the control (rate ÷ control's rate − 1).
- * Spills lower, median and upper per challenger, with empty cells in the control's place.
+ * Credible interval for each challenger's relative lift in event rate over the control (rate ÷ control's rate − 1). Spills lower, median and upper per challenger, with empty cells in the control's place.
  * @customfunction EVENTS_LIFT_INTERVAL
  * @helpurl https://localhost:3000/help/EVENTS_LIFT_INTERVAL.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).

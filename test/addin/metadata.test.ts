@@ -118,6 +118,8 @@ describe.each(EXPECTED.map((f) => [f.name, f] as const))('%s', (name, expected) 
   test('descriptions are present and say something', () => {
     const f = byName(name);
     expect((f.description ?? '').length).toBeGreaterThan(40);
+    // one line: Excel shows the description as a single tooltip in formula autocomplete
+    expect(f.description).not.toMatch(/\n/);
     for (const p of f.parameters) {
       expect({ name: p.name, long: (p.description ?? '').length > 15 }).toEqual({ name: p.name, long: true });
       if (p.optional) expect({ name: p.name, saysDefault: /default/.test(p.description ?? '') }).toEqual({ name: p.name, saysDefault: true });
