@@ -47,7 +47,11 @@ function realmRows<T>(realm: Realm, rows: T[][]): T[][] {
   return make.from(rows, (row) => make.from(row));
 }
 
-type Command = () => void;
+/** A queued command; `reads` marks one that needs up-to-date values (loads, autofit). */
+interface Command {
+  readonly run: () => void;
+  readonly reads: boolean;
+}
 
 /** Makes an Error with a string `code`, as Office.js rejects `context.sync()`. */
 function officeError(realm: Realm, code: string, message: string): Error & { code: string } {
@@ -67,8 +71,8 @@ class RequestContext {
   ) {
     this.workbook = new WorkbookProxy(this);
   }
-  enqueue(command: Command): void {
-    this.queue.push(command);
+  enqueue(run: () => void, reads = false): void {
+    this.queue.push({ run, reads });
   }
   fail(code: string, message: string): never {
     throw officeError(this.realm, code, message);
@@ -80,7 +84,13 @@ class RequestContext {
       // Run after the caller's current synchronous code, as a real round trip would.
       setTimeout(() => {
         try {
-          for (const command of commands) command();
+          // One batch: HyperFormula evaluates before reads and once at the end; the grid redraws once.
+          this.book.batch(() => {
+            for (const command of commands) {
+              if (command.reads) this.book.settle();
+              command.run();
+            }
+          });
           resolve();
         } catch (error) {
           const coded = error as { code?: unknown; message?: unknown };
@@ -165,7 +175,7 @@ class RangeProxy {
           this.loadedValues.numberFormat = realmRows(realm, grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'));
         }
       }
-    });
+    }, true);
     return this;
   }
 
@@ -306,7 +316,7 @@ class RangeFormatProxy {
         book.setColumnWidth(b.sheet, b.col + c, Math.min(480, 16 + 7 * longest));
       }
       book.touch();
-    });
+    }, true);
   }
 }
 
@@ -382,7 +392,7 @@ class WorksheetProxy {
     this.ctx.enqueue(() => {
       const sheet = this.resolveSheet();
       if (wanted === undefined || wanted.includes('name')) this.loadedName = this.ctx.book.hf.getSheetName(sheet);
-    });
+    }, true);
     return this;
   }
   get name(): string {

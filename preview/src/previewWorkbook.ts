@@ -120,6 +120,8 @@ export class PreviewWorkbook {
   private readonly listeners = new Map<WorkbookEvent, Set<() => void>>();
   private readonly chartList: PreviewChart[] = [];
   private nextChartId = 1;
+  private batchDepth = 0;
+  private readonly pendingEvents = new Set<WorkbookEvent>();
   private active = 0;
   private selected: CellBlock = { sheet: 0, row: 0, col: 0, rows: 1, columns: 1 };
 
@@ -164,7 +166,43 @@ export class PreviewWorkbook {
   }
 
   private emit(event: WorkbookEvent): void {
+    if (this.batchDepth > 0) {
+      this.pendingEvents.add(event);
+      return;
+    }
     for (const listener of [...(this.listeners.get(event) ?? [])]) listener();
+  }
+
+  /**
+   * Runs `work` as one batch (the Excel stand-in's `context.sync()`): HyperFormula evaluates once at
+   * the end (or at {@link settle}), spills are restored once, and listeners hear each event once.
+   * Nested batches join the outer one. Rethrows what `work` throws, after closing the batch.
+   */
+  batch<T>(work: () => T): T {
+    if (this.batchDepth === 0) this.hf.suspendEvaluation();
+    this.batchDepth += 1;
+    try {
+      return work();
+    } finally {
+      this.batchDepth -= 1;
+      if (this.batchDepth === 0) {
+        if (this.hf.isEvaluationSuspended()) this.hf.resumeEvaluation();
+        this.respill();
+        const events = [...this.pendingEvents];
+        this.pendingEvents.clear();
+        for (const event of (['sheet', 'cells', 'charts', 'selection'] as const).filter((e) => events.includes(e))) this.emit(event);
+      }
+    }
+  }
+
+  /**
+   * Inside a batch: brings values up to date before something reads them; evaluation stays on until
+   * the next write of the batch. Cheap when nothing changed.
+   */
+  settle(): void {
+    if (this.batchDepth === 0 || !this.hf.isEvaluationSuspended()) return;
+    this.hf.resumeEvaluation();
+    this.respill();
   }
 
   sheetNames(): string[] {
@@ -284,8 +322,9 @@ export class PreviewWorkbook {
   /** Writes a block of contents at (row, col), one recalculation; fires 'cells'. */
   write(sheet: number, row: number, col: number, contents: (string | number | boolean | null)[][]): void {
     const cleaned = contents.map((line) => line.map((v) => (v === '' ? null : v)));
+    if (this.batchDepth > 0 && !this.hf.isEvaluationSuspended()) this.hf.suspendEvaluation();
     this.hf.setCellContents({ sheet, row, col }, cleaned);
-    this.respill();
+    if (this.batchDepth === 0) this.respill();
     this.emit('cells');
   }
 

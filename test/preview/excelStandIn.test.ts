@@ -135,6 +135,26 @@ describe('Office/Excel stand-in of the preview', () => {
     expect(loaded[1]?.[0]).toBeCloseTo(16 / 122, 15);
   });
 
+  it('runs a sync as one batch: many 1×1 writes, one redraw, and a load in the batch sees the writes', async () => {
+    let redraws = 0;
+    book.on('cells', () => {
+      redraws += 1;
+    });
+    const values = await office.Excel.run(async (context) => {
+      const sheet = context.workbook.worksheets.getItem('Data');
+      for (let r = 0; r < 20; r += 1) sheet.getRange(`F${r + 1}`).formulas = [[r === 0 ? '=SUM(G1:G20)' : '']];
+      for (let r = 0; r < 20; r += 1) sheet.getRange(`G${r + 1}`).values = [[r + 1]];
+      const total = sheet.getRange('F1').load('values');
+      sheet.getRange('G1').values = [[100]];
+      const after = sheet.getRange('F1').load('values');
+      await context.sync();
+      return [total.values, after.values];
+    });
+    // 1 + 2 + … + 20 = 210; with G1 = 100 instead of 1: 309
+    expect(values).toEqual([[[210]], [[309]]]);
+    expect(redraws).toBe(1);
+  });
+
   it('rejects sync with InvalidArgument for a wrongly shaped write and ItemNotFound for a missing sheet', async () => {
     expect(
       await codeOf(
