@@ -103,9 +103,13 @@ function bruteForcePower(n: number, p0: number, lift: number, threshold: number,
 }
 
 describe('decisionPower equals the brute-force sum over every outcome pair with the exact P(B beats A)', () => {
-  // One case here (each exact comparison is a full quadrature, a few ms); planning_power.json holds
-  // scipy's brute force over every pair at n = 50, 200 and 1000.
-  it.each([[50, 0.1, 0.5, 0.95, 1, 1]] as const)('n = %p, baseline %p, lift %p, threshold %p, prior Beta(%p, %p)', (n, p0, lift, t, a, b) => {
+  // Few cases here (each exact comparison is a full quadrature, a few ms); planning_power.json holds
+  // scipy's brute force over every pair at n = 50, 200 and 1000. The second prior has a whole-number
+  // beta only, so decisionPower's close calls take the closed form for 1 − p.
+  it.each([
+    [50, 0.1, 0.5, 0.95, 1, 1],
+    [20, 0.2, 1, 0.9, 0.5, 2],
+  ] as const)('n = %p, baseline %p, lift %p, threshold %p, prior Beta(%p, %p)', (n, p0, lift, t, a, b) => {
     const brute = bruteForcePower(n, p0, lift, t, a, b);
     // 1e-4 is what a plan needs; the walk reproduces the brute force up to the pairs it leaves out.
     expect(Math.abs(decisionPower(p0, lift, n, t, { alpha: a, beta: b }) - brute)).toBeLessThan(1e-10);
