@@ -229,9 +229,12 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
           const chart = sheet.charts.add(request.type as Excel.ChartType, source, 'Columns' as Excel.ChartSeriesBy);
           chart.title.text = request.title;
           chart.setPosition(request.topLeft, request.bottomRight);
-          chart.load('name');
+          // The agreed subset reads a chart's name without load(); Office.js needs load('name') first.
+          const loadable = typeof (chart as { load?: unknown }).load === 'function';
+          if (loadable) chart.load('name');
           await context.sync();
-          return { kind: 'inserted', name: chart.name } as ChartOutcome;
+          const name = loadable ? chart.name : (chart as { name?: unknown }).name;
+          return { kind: 'inserted', name: typeof name === 'string' && name !== '' ? name : request.title } as ChartOutcome;
         });
       } catch (error) {
         const { code, message } = describeError(error);

@@ -84,12 +84,13 @@ describe('side panel flows in the preview', () => {
     const visitors = (await Promise.all(Array.from({ length: 12 }, (_, i) => readCell(page, 'Past tests', `C${4 + i}`)))).map((c) => c.value as number);
     const fit = priorFromHistory(conversions, visitors, 'likelihood');
     await panel.locator('#prior-parameters').waitFor();
-    expect(await panel.locator('#prior-parameters').textContent()).toBe(`Beta(alpha = ${fit.alpha.toPrecision(5)}, beta = ${fit.beta.toPrecision(5)})`);
+    expect(await panel.locator('#prior-parameters').textContent()).toBe(`Beta(alpha = ${String(Number(fit.alpha.toPrecision(6)))}, beta = ${String(Number(fit.beta.toPrecision(6)))})`);
     await screenshot(page, 'panel-prior-history');
 
     await selectCell(page, 'E17');
     await panel.locator('#prior-write').click();
-    await panel.locator('#prior-status fluent-message-bar[intent="success"]').waitFor();
+    await panel.locator('#prior-status fluent-message-bar:not([intent="info"])').waitFor();
+    expect(await panel.locator('#prior-status fluent-message-bar').getAttribute('intent')).toBe('success');
     const written = await cellInput(page, 'Past tests', 'E17');
     expect(written.input).toBe('=ABTEST.PRIOR_FROM_HISTORY(B4:B15,C4:C15)');
     expectClose(written.value, fit.alpha, 'E17 alpha', 1e-12);
@@ -119,7 +120,8 @@ describe('side panel flows in the preview', () => {
 
     await selectCell(page, 'D4');
     await panel.locator('#plan-insert').click();
-    await panel.locator('#plan-status fluent-message-bar[intent="success"]').waitFor();
+    await panel.locator('#plan-status fluent-message-bar:not([intent="info"])').waitFor();
+    expect(await panel.locator('#plan-status fluent-message-bar').getAttribute('intent')).toBe('success');
     const { cells } = planBlock(
       { baselineRate: 0.042, lift: 0.1, threshold: 0.95, power: 0.8, variants: 2, dailyVisitors: 6000, trafficShare: 0.5, classicAlpha: 0.05 },
       'D4',
@@ -167,7 +169,8 @@ describe('side panel flows in the preview', () => {
     expect(p).toBeLessThan(0.001);
     await panel.locator('#readout-split fluent-message-bar[intent="error"]').waitFor();
     await panel.locator('#readout-insert').click();
-    await panel.locator('#readout-status fluent-message-bar[intent="success"]').waitFor({ timeout: 60_000 });
+    await panel.locator('#readout-status fluent-message-bar:not([intent="info"])').waitFor({ timeout: 60_000 });
+    expect(await panel.locator('#readout-status').textContent()).toMatch(/^Wrote the read-out to Plan!K20:T95 \(live formulas\) and a lift chart from K34:M95\./);
     await screenshot(page, 'panel-readout');
 
     const built = readoutBlock(
