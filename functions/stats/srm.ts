@@ -3,7 +3,7 @@
  *
  * A sample ratio mismatch (SRM) — say 50,410 against 49,590 visitors in a planned 50/50 test — means the
  * assignment or the logging is broken, and the read-out of such a test cannot be trusted however good its
- * numbers look (R. Fabijan et al., "Diagnosing Sample Ratio Mismatch in Online Controlled Experiments: A
+ * numbers look (A. Fabijan et al., "Diagnosing Sample Ratio Mismatch in Online Controlled Experiments: A
  * Taxonomy and Rules of Thumb for Practitioners", KDD 2019). The check is Pearson's chi-square test of
  * goodness of fit of the observed visitor counts against the planned shares. A p-value below about 0.001
  * is commonly treated as a broken split (common practice); look for the cause before reading the results.
