@@ -130,8 +130,10 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
       const columns = block.cells[0]?.length ?? 0;
       const topLeft = parseAddress(block.topLeft).start;
       const areaSize = block.area ?? { rowCount: rows, columnCount: columns };
+      // Everything is written through the area's range: its cells are cleared (so an overwritten area
+      // leaves no stale values in the spill room) and the block is placed at its top-left.
       const areaLocal = rangeAddress(topLeft, areaSize.rowCount, areaSize.columnCount);
-      const targetLocal = rangeAddress(topLeft, Math.max(rows, 1), Math.max(columns, 1));
+      const targetLocal = areaLocal;
       const problem = shapeProblem(block);
       if (problem !== null) {
         return { kind: 'failed', address: areaLocal, code: 'InvalidArgument', message: problem, restored: true };
@@ -166,7 +168,7 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
       if (occupied.length > 0 && block.overwrite !== true) {
         return { kind: 'occupied', address: before.address, occupiedCells: occupied };
       }
-      const previous = before.formulas.slice(0, rows).map((row) => row.slice(0, columns).map((v) => (isBlank(v) ? '' : v)));
+      const previous = before.formulas.map((row) => row.map((v) => (isBlank(v) ? '' : v)));
       const wasEmpty = occupied.length === 0;
 
       // 2. Write everything in one sync.

@@ -95,6 +95,15 @@ describe('side panel flows in the preview', () => {
     expect(written.input).toBe('=ABTEST.PRIOR_FROM_HISTORY(B4:B15,C4:C15)');
     expectClose(written.value, fit.alpha, 'E17 alpha', 1e-12);
     expectClose((await readCell(page, 'Past tests', 'F17')).value, fit.beta, 'F17 beta', 1e-12);
+    // writing again over it asks first; "Overwrite" replaces it with the method-of-moments fit
+    await panel.locator('#prior-method-moments').click();
+    await panel.locator('#prior-write').click();
+    await panel.locator('#prior-status fluent-message-bar[intent="warning"]').waitFor();
+    expect(await panel.locator('#prior-status fluent-message-bar').textContent()).toContain("'Past tests'!E17:F17 is not empty (E17, F17)");
+    await panel.locator('#confirm-overwrite').click();
+    await panel.locator('#prior-status fluent-message-bar[intent="success"]').waitFor();
+    expect((await cellInput(page, 'Past tests', 'E17')).input).toBe('=ABTEST.PRIOR_FROM_HISTORY(B4:B15,C4:C15,"moments")');
+    expectClose((await readCell(page, 'Past tests', 'E17')).value, priorFromHistory(conversions, visitors, 'moments').alpha, 'E17 moments alpha', 1e-12);
     await screenshot(page, 'panel-prior-written');
   });
 

@@ -297,7 +297,7 @@ export function mockExcel(sheets: string[]): MockExcel {
         for (const p of pending) await p.proxy.sync();
         for (const s of loadedSheets) await s.sync();
         for (const pc of pendingCharts) await pc.proxy.sync();
-        await new Promise((resolve) => setImmediate(resolve));
+        await new Promise((resolve) => setTimeout(resolve, 0));
         pending.length = 0;
         pendingCharts.length = 0;
       },
