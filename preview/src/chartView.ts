@@ -14,7 +14,11 @@ function svg<K extends keyof SVGElementTagNameMap>(name: K, attributes: Record<s
   return element;
 }
 
-/** The chart's series: names and (x, y) points with numeric x and y only. */
+/**
+ * The chart's series from a block of cell values (seriesBy Columns): the first column is x, each further
+ * column one series; a text first row names the series. Non-numeric points are left out. Cost O(cells).
+ * @example chartSeries([['x', 'A'], [0, 1], [1, 2]]); //=> { names: ['A'], points: [[[0, 1], [1, 2]]] }
+ */
 export function chartSeries(values: (number | string | boolean)[][]): { names: string[]; points: [number, number][][] } {
   const first = values[0] ?? [];
   const hasHeader = first.slice(1).some((v) => typeof v === 'string' && v !== '');
@@ -31,8 +35,10 @@ export function chartSeries(values: (number | string | boolean)[][]): { names: s
 }
 
 /**
- * Renders one chart into an absolutely positioned box (`left/top/width/height` in px).
- * Cost: O(points). Never throws; an empty source draws an empty frame with its title.
+ * Renders one chart into an absolutely positioned box (`left/top/width/height` in px): an SVG line per
+ * series, axis end labels, the title as caption and a legend. Cost: O(points). Never throws; an empty
+ * source draws an empty frame with its title.
+ * @example renderChart(book, chart, { left: 0, top: 0, width: 480, height: 280 }).tagName; //=> 'FIGURE'
  */
 export function renderChart(book: PreviewWorkbook, chart: PreviewChart, box: { left: number; top: number; width: number; height: number }): HTMLElement {
   const frame = document.createElement('figure');

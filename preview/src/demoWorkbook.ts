@@ -20,14 +20,20 @@ export interface DemoSheet {
   readonly bold?: readonly string[];
 }
 
-/** Column letters → zero-based index (A → 0, AA → 26). */
+/**
+ * Column letters → zero-based index. Cost O(letters). Never throws.
+ * @example columnIndex('AA'); //=> 26
+ */
 export function columnIndex(letters: string): number {
   let index = 0;
   for (const ch of letters.toUpperCase()) index = index * 26 + (ch.charCodeAt(0) - 64);
   return index - 1;
 }
 
-/** Zero-based column index → letters (0 → A). */
+/**
+ * Zero-based column index → letters. Cost O(log index). Never throws.
+ * @example columnLetters(27); //=> 'AB'
+ */
 export function columnLetters(index: number): string {
   let n = index + 1;
   let letters = '';
@@ -39,7 +45,11 @@ export function columnLetters(index: number): string {
   return letters;
 }
 
-/** Parses "B12" into zero-based { row, col }. Throws on anything else. */
+/**
+ * Parses an A1 cell address (with or without $) into zero-based { row, col }. Cost O(1).
+ * Throws an Error "not a cell address: …" on anything else.
+ * @example parseA1('B12'); //=> { row: 11, col: 1 }
+ */
 export function parseA1(address: string): { row: number; col: number } {
   const match = /^\$?([A-Za-z]{1,3})\$?([1-9][0-9]*)$/.exec(address.trim());
   if (!match || match[1] === undefined || match[2] === undefined) throw new Error(`not a cell address: ${address}`);
@@ -156,7 +166,7 @@ function checkoutSheet(): DemoSheet {
 
 function pastTestsSheet(): DemoSheet {
   const s = sheetBuilder('Past tests');
-  s.width('A', 420);
+  s.width('A', 600);
   s.width('B', 110);
   s.width('C', 110);
   s.put('A1', 'Past tests of the shop’s checkout and product pages');
@@ -184,7 +194,7 @@ function pastTestsSheet(): DemoSheet {
 
 function planSheet(): DemoSheet {
   const s = sheetBuilder('Plan');
-  s.width('A', 430);
+  s.width('A', 540);
   s.width('B', 120);
   s.put('A1', 'Plan the next checkout test');
   s.strong('A1');

@@ -56,7 +56,10 @@ export function parseFunctionsMetadata(json: unknown): FunctionsMetadataFile {
   return json as FunctionsMetadataFile;
 }
 
-/** The name a user types for a function: `ABTEST.PROB_HIGHEST`. */
+/**
+ * The name a user types for a function. Cost O(1). Never throws.
+ * @example worksheetName({ id: 'PROB_HIGHEST', name: 'PROB_HIGHEST', parameters: [] }); //=> 'ABTEST.PROB_HIGHEST'
+ */
 export function worksheetName(fn: FunctionMetadata): string {
   return `${FUNCTION_NAMESPACE}.${fn.name.toUpperCase()}`;
 }
