@@ -45,26 +45,21 @@ describe('betaCdf / betaSf against mpmath (40 digits)', () => {
     expect(Math.max(...cases.map((r) => r[2] as number))).toBeGreaterThanOrEqual(1e9);
   });
   it.each(cases.map((r) => [r[0], r[1], r[2], r[3], r[4]] as const))(
-    'I_%p(%p, %p): absolute ≤ 1e-11, each tail relative ≤ 1e-9',
+    'I_%p(%p, %p): absolute ≤ 5e-12, each tail relative ≤ 1e-10',
     (x, a, b, lower, upper) => {
       const cdf = betaCdf(x, a, b);
       const sf = betaSf(x, a, b);
-      expect(Math.abs(cdf - lower)).toBeLessThanOrEqual(1e-11);
-      expect(Math.abs(sf - upper)).toBeLessThanOrEqual(1e-11);
+      expect(Math.abs(cdf - lower)).toBeLessThanOrEqual(5e-12);
+      expect(Math.abs(sf - upper)).toBeLessThanOrEqual(5e-12);
       // the smaller tail keeps its relative accuracy (down to 1e-300 in the table)
-      if (lower < 0.5) expect(relativeError(cdf, lower)).toBeLessThanOrEqual(1e-9);
-      if (upper < 0.5) expect(relativeError(sf, upper)).toBeLessThanOrEqual(1e-9);
+      if (lower < 0.5) expect(relativeError(cdf, lower)).toBeLessThanOrEqual(1e-10);
+      if (upper < 0.5) expect(relativeError(sf, upper)).toBeLessThanOrEqual(1e-10);
     },
   );
   it.each(cases.map((r) => [r[0], r[1], r[2], r[5]] as const))(
-    'log density at %p for Beta(%p, %p): 1e-12 relative plus the condition of the problem',
+    'log density at %p for Beta(%p, %p): 1e-13 relative (1e-13 absolute near 0)',
     (x, a, b, logDensity) => {
-      // one rounding of x moves log f by |d log f / d log x|·ε = |(a − 1) − (b − 1)x/(1 − x)|·ε; at
-      // a = b = 5e8 and 30 standard deviations out that is ~3e-10, and no double-precision method does better
-      const condition = Math.abs(a - 1 - ((b - 1) * x) / (1 - x)) * Number.EPSILON;
-      expect(Math.abs(betaLogDensity(x, a, b) - logDensity)).toBeLessThanOrEqual(
-        1e-12 * Math.max(1, Math.abs(logDensity)) + 4 * condition,
-      );
+      expect(Math.abs(betaLogDensity(x, a, b) - logDensity)).toBeLessThanOrEqual(1e-13 * Math.max(1, Math.abs(logDensity)));
     },
   );
 });
@@ -140,13 +135,17 @@ describe('betaQuantile / betaQuantileUpper against mpmath', () => {
   );
 });
 
-/** |F(x) − p| allowed: 1e-12·p plus what one rounding of x (and of 1 − x) can move F by (condition). */
+/**
+ * |F(x) − p| allowed: 1e-12·p plus what a few roundings of the returned x (or 1 − x, whichever is
+ * smaller) can move F by — the condition of the problem, f(x)·min(x, 1 − x)·ε, or f(x)·5e-324 where x
+ * is a subnormal double.
+ */
 function identityTolerance(p: number, x: number, y: number, a: number, b: number): number {
-  const logDensity = betaLogDensity(x, a, b);
-  const sensitivity = Math.exp(logDensity + Math.log(Math.min(x, y)));
-  return 1e-12 * p + 16 * Number.EPSILON * sensitivity;
+  const density = Math.exp(betaLogDensity(x, a, b));
+  return 1e-12 * p + 16 * Number.EPSILON * density * Math.min(x, y) + 4 * Number.MIN_VALUE * density;
 }
 
+// A fixed seed keeps CI deterministic; change it locally to explore other random cases.
 describe('identities (fast-check)', () => {
   const shape = fc.oneof(
     fc.double({ min: 0.1, max: 50, noNaN: true }),
@@ -160,7 +159,7 @@ describe('identities (fast-check)', () => {
       fc.property(inside, shape, shape, (x, a, b) => {
         expect(Math.abs(betaCdf(x, a, b) + betaSf(x, a, b) - 1)).toBeLessThanOrEqual(1e-14);
       }),
-      { numRuns: 200 },
+      { numRuns: 200, seed: 20261201 },
     );
   });
 
@@ -171,7 +170,7 @@ describe('identities (fast-check)', () => {
         const xx = 1 - y;
         expect(Math.abs(betaCdf(xx, a, b) - betaSf(y, b, a))).toBeLessThanOrEqual(1e-13);
       }),
-      { numRuns: 200 },
+      { numRuns: 200, seed: 20261201 },
     );
   });
 
@@ -182,7 +181,7 @@ describe('identities (fast-check)', () => {
         expect(betaCdf(lo, a, b)).toBeLessThanOrEqual(betaCdf(hi, a, b) + 1e-15);
         expect(betaSf(lo, a, b)).toBeGreaterThanOrEqual(betaSf(hi, a, b) - 1e-15);
       }),
-      { numRuns: 200 },
+      { numRuns: 200, seed: 20261201 },
     );
   });
 
@@ -204,7 +203,7 @@ describe('identities (fast-check)', () => {
           expect(Math.abs(value - p)).toBeLessThanOrEqual(identityTolerance(p, xu, yu, a, b));
         }
       }),
-      { numRuns: 150 },
+      { numRuns: 150, seed: 20261201 },
     );
   });
 });

@@ -73,6 +73,7 @@ describe('gammaQuantile / gammaQuantileUpper against mpmath', () => {
   });
 });
 
+// A fixed seed keeps CI deterministic; change it locally to explore other random cases.
 describe('identities (fast-check)', () => {
   const shape = fc.oneof(
     fc.double({ min: 0.1, max: 100, noNaN: true }),
@@ -85,7 +86,7 @@ describe('identities (fast-check)', () => {
         const x = a * scale;
         expect(Math.abs(gammaP(a, x) + gammaQ(a, x) - 1)).toBeLessThanOrEqual(1e-14);
       }),
-      { numRuns: 300 },
+      { numRuns: 300, seed: 20261201 },
     );
   });
   it('P(quantile(p)) = p and Q(quantileUpper(q)) = q in the smaller tail', () => {
@@ -97,12 +98,12 @@ describe('identities (fast-check)', () => {
           if (x === 0 || x === Infinity) continue;
           const value = Math.exp(gammaTailLog(a, x, upper));
           // allowed: 1e-12·p plus what four roundings of x move the tail by (the condition of the problem)
-          const step = x * (1 + 4 * Number.EPSILON);
+          const step = Math.max(x * (1 + 4 * Number.EPSILON), x + 4 * Number.MIN_VALUE); // also for subnormal x
           const moved = Math.abs(Math.exp(gammaTailLog(a, step, upper)) - value);
           expect(Math.abs(value - p)).toBeLessThanOrEqual(1e-12 * p + 4 * moved);
         }
       }),
-      { numRuns: 150 },
+      { numRuns: 150, seed: 20261201 },
     );
   });
 });
