@@ -160,9 +160,17 @@ export class GridView {
     active?.classList.add('active');
     active?.scrollIntoView({ block: 'nearest', inline: 'nearest' });
     this.el.nameBox.textContent = blockAddress(sel);
-    const view = this.book.cell(sel.sheet, this.anchorCell().row, this.anchorCell().col);
-    if (!this.editing?.fromFormulaBar) this.el.formulaInput.value = view.input || (view.spilled ? view.text : '');
-    this.el.formulaMessage.textContent = view.kind === 'error' ? `${view.text} ${view.message ?? ''}`.trim() : view.spilled ? 'Part of a spilled result; edit the formula in its first cell.' : '';
+    const { row, col } = this.anchorCell();
+    const view = this.book.cell(sel.sheet, row, col);
+    // A spilled cell shows its formula greyed out and read-only, as the formula lives in the first cell.
+    const source = view.spilled ? this.book.spillAnchor(sel.sheet, row, col) : undefined;
+    const shown = source ? this.book.cell(sel.sheet, source.row, source.col).input : view.input;
+    this.el.formulaInput.readOnly = view.spilled;
+    this.el.formulaInput.classList.toggle('ghost', view.spilled);
+    if (!this.editing?.fromFormulaBar) this.el.formulaInput.value = shown;
+    const first = source ? `${columnLetters(source.col)}${source.row + 1}` : 'its first cell';
+    this.el.formulaMessage.textContent =
+      view.kind === 'error' ? `${view.text} ${view.message ?? ''}`.trim() : view.spilled ? `Part of a spilled result; edit the formula in ${first}.` : '';
     this.el.formulaMessage.classList.toggle('is-error', view.kind === 'error');
   }
 
@@ -307,6 +315,7 @@ export class GridView {
 
     const bar = this.el.formulaInput;
     bar.addEventListener('focus', () => {
+      if (bar.readOnly) return;
       const { row, col } = this.anchorCell();
       this.removeEditor();
       this.editing = { row, col, fromFormulaBar: true };

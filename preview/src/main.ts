@@ -36,12 +36,25 @@ function byId<T extends HTMLElement>(id: string): T {
   return element as T;
 }
 
+/** Loads a script; rejects when it cannot be fetched or when it throws while running. */
 function loadScript(src: string): Promise<void> {
   return new Promise((resolve, reject) => {
     const script = document.createElement('script');
+    let failure: string | undefined;
+    const onError = (event: ErrorEvent) => {
+      if (event.filename && new URL(event.filename, location.href).pathname === src) failure = event.message;
+    };
+    window.addEventListener('error', onError);
     script.src = src;
-    script.onload = () => resolve();
-    script.onerror = () => reject(new Error(`could not load ${src}`));
+    script.onload = () => {
+      window.removeEventListener('error', onError);
+      if (failure) reject(new Error(`${src} failed while loading (${failure})`));
+      else resolve();
+    };
+    script.onerror = () => {
+      window.removeEventListener('error', onError);
+      reject(new Error(`could not load ${src}`));
+    };
     document.head.append(script);
   });
 }

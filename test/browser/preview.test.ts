@@ -150,7 +150,8 @@ describe('preview workbook in chromium', () => {
     expectClose(spill[0]?.[0], 10, 'alpha closed form');
     expectClose(spill[0]?.[1], 190, 'beta closed form');
     await selectCell(page, 'E6');
-    expect(await page.locator('#formula-message').innerText()).toMatch(/spilled/i);
+    expect(await page.locator('#formula-message').innerText()).toBe('Part of a spilled result; edit the formula in D6.');
+    expect(await page.locator('#formula-input').inputValue()).toBe('=ABTEST.PRIOR_FROM_MEAN(0.05, 200)');
     await screenshot(page, 'preview-new-formula');
     expect(preview.pageErrors).toEqual([]);
   });
