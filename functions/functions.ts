@@ -368,7 +368,7 @@ export function decisionPower(baseline_rate: number, lift: number, visitors_per_
  * @returns Visitors per variant (a whole number).
  * @method Search over whole numbers of visitors for the first one whose exact DECISION_POWER reaches power.
  * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, Medical Decision Making 21 (2001).
- * @example =ABTEST.VISITORS_NEEDED(0.1, 0.2) gives the visitors per variant at which =ABTEST.DECISION_POWER(0.1, 0.2, result) first reaches 0.8.
+ * @example =ABTEST.VISITORS_NEEDED(0.1, 0.2) returns 3024
  * @crosscheck Compare with =ABTEST.CLASSIC_SAMPLE_SIZE(0.1, 0.2, 0.1, 0.8, 1), the one-sided z-test size at a similar error rate.
  */
 export function visitorsNeeded(baseline_rate: number, lift: number, threshold?: number, power?: number, prior_alpha?: number, prior_beta?: number): number {

@@ -5,7 +5,8 @@
  * Reference values:
  * - test/reference/addin_values.json — scipy 1.17 (scipy.stats beta/t/gamma/betabinom distributions,
  *   integrate.quad of the textbook integrals, optimize for quantiles and fits); made by
- *   test/reference/addin_values.py, the scenario invented (a garden-supply shop's checkout buttons).
+ *   test/reference/addin_values.py, the scenario invented (a garden-supply shop's checkout buttons);
+ *   test/reference/addin_visitors_needed.json from addin_visitors_needed.py (same definitions).
  * - test/reference/srm_chisq.json — R 4.2 chisq.test (the SRM engineer's script srm_chisq.R).
  * - test/reference/planning_classic.json — R 4.2 power.prop.test (planning_classic.R).
  * - closed forms named beside each check.
@@ -70,6 +71,9 @@ const ref = readJson<{
   priorFromHistory: { conversions: number[]; visitors: number[]; likelihood: [number, number] };
   decisionPower: { baseline: number; lift: number; n: number; threshold: number; power: number }[];
 }>('addin_values.json');
+const visitorsNeededRef = readJson<{ cases: { baseline: number; lift: number; n: number; threshold: number; power: number }[] }>(
+  'addin_visitors_needed.json',
+);
 const srm = readJson<{ cases: { visitors: number[]; shares: number[]; pValue: number }[] }>('srm_chisq.json');
 
 /**
@@ -392,11 +396,12 @@ describe('planning', () => {
 
   test('VISITORS_NEEDED: the first n whose DECISION_POWER reaches the power', () => {
     const n = F.visitorsNeeded(0.1, 0.2);
-    expect(Number.isInteger(n)).toBe(true);
-    expect(F.decisionPower(0.1, 0.2, n)).toBeGreaterThanOrEqual(0.8);
-    expect(F.decisionPower(0.1, 0.2, n - 1)).toBeLessThan(0.8);
-    // DECISION_POWER(0.1, 0.2, 1000) = 0.413 (scipy above), so the answer is well above 1000
-    expect(n).toBeGreaterThan(1000);
+    expect(n).toBe(3024);
+    // scipy's exact decision power on both sides of the answer (addin_visitors_needed.py):
+    // 3023 visitors give 0.79988 < 0.8, 3024 give 0.800001 ≥ 0.8
+    for (const c of visitorsNeededRef.cases) close(F.decisionPower(c.baseline, c.lift, c.n, c.threshold), c.power, 1e-9);
+    const [below, at] = visitorsNeededRef.cases;
+    expect([below?.n, below && below.power < 0.8, at?.n, at && at.power >= 0.8]).toEqual([n - 1, true, n, true]);
   });
 
   test('CLASSIC_SAMPLE_SIZE equals R\'s power.prop.test n rounded up', () => {

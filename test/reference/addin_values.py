@@ -178,28 +178,29 @@ def decision_power(p0, lift, n, threshold, a=1.0, b=1.0):
     return total
 
 
-out = {
-    "source": "scipy 1.17 (stats.beta/t/gamma/betabinom, integrate.quad, optimize); made by addin_values.py",
-    # Invented scenario: checkout buttons of an online garden-supply shop (grey, green, large green).
-    "conversionTwo": conversion_block([120, 150], [2400, 2380], min_lift=0.05),
-    "conversionThree": conversion_block([120, 150, 138], [2400, 2380, 2410], level=0.9, a=2.0, b=38.0, min_lift=-0.02),
-    "meanTwo": mean_block([1200, 1180], [3.10, 3.42], [9.8, 10.4]),
-    "meanThree": mean_block([800, 820, 790], [12.5, 13.4, 12.9], [20.0, 21.5, 19.0], level=0.9),
-    "eventsTwo": events_block([340, 395], [1000.0, 1010.0]),
-    "eventsThree": events_block([52, 61, 70], [400.0, 410.0, 395.0], level=0.9, shape=2.0, rate=10.0),
-    "priorFromMean": {"meanRate": 0.05, "strength": 200, "alpha": 10.0, "beta": 190.0},
-    "priorFromInterval": {"low": 0.03, "high": 0.07, "level": 0.9,
-                          "ab": prior_from_interval(0.03, 0.07, 0.9)},
-    "priorFromIntervalLevel95": {"low": 0.04, "high": 0.06, "level": 0.95,
-                                 "ab": prior_from_interval(0.04, 0.06, 0.95)},
-    "priorFromHistory": {"conversions": [30, 75, 52, 41, 88, 47], "visitors": [1000, 1100, 1050, 900, 1200, 980],
-                         "likelihood": prior_from_history_likelihood([30, 75, 52, 41, 88, 47],
-                                                                     [1000, 1100, 1050, 900, 1200, 980])},
-    "decisionPower": [
-        {"baseline": 0.10, "lift": 0.20, "n": 1000, "threshold": 0.95,
-         "power": decision_power(0.10, 0.20, 1000, 0.95)},
-        {"baseline": 0.10, "lift": 0.0, "n": 1000, "threshold": 0.95,
-         "power": decision_power(0.10, 0.0, 1000, 0.95)},
-    ],
-}
-print(json.dumps(out, indent=1))
+if __name__ == "__main__":
+    out = {
+        "source": "scipy 1.17 (stats.beta/t/gamma/betabinom, integrate.quad, optimize); made by addin_values.py",
+        # Invented scenario: checkout buttons of an online garden-supply shop (grey, green, large green).
+        "conversionTwo": conversion_block([120, 150], [2400, 2380], min_lift=0.05),
+        "conversionThree": conversion_block([120, 150, 138], [2400, 2380, 2410], level=0.9, a=2.0, b=38.0, min_lift=-0.02),
+        "meanTwo": mean_block([1200, 1180], [3.10, 3.42], [9.8, 10.4]),
+        "meanThree": mean_block([800, 820, 790], [12.5, 13.4, 12.9], [20.0, 21.5, 19.0], level=0.9),
+        "eventsTwo": events_block([340, 395], [1000.0, 1010.0]),
+        "eventsThree": events_block([52, 61, 70], [400.0, 410.0, 395.0], level=0.9, shape=2.0, rate=10.0),
+        "priorFromMean": {"meanRate": 0.05, "strength": 200, "alpha": 10.0, "beta": 190.0},
+        "priorFromInterval": {"low": 0.03, "high": 0.07, "level": 0.9,
+                              "ab": prior_from_interval(0.03, 0.07, 0.9)},
+        "priorFromIntervalLevel95": {"low": 0.04, "high": 0.06, "level": 0.95,
+                                     "ab": prior_from_interval(0.04, 0.06, 0.95)},
+        "priorFromHistory": {"conversions": [30, 75, 52, 41, 88, 47], "visitors": [1000, 1100, 1050, 900, 1200, 980],
+                             "likelihood": prior_from_history_likelihood([30, 75, 52, 41, 88, 47],
+                                                                         [1000, 1100, 1050, 900, 1200, 980])},
+        "decisionPower": [
+            {"baseline": 0.10, "lift": 0.20, "n": 1000, "threshold": 0.95,
+             "power": decision_power(0.10, 0.20, 1000, 0.95)},
+            {"baseline": 0.10, "lift": 0.0, "n": 1000, "threshold": 0.95,
+             "power": decision_power(0.10, 0.0, 1000, 0.95)},
+        ],
+    }
+    print(json.dumps(out, indent=1))
