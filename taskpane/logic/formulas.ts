@@ -174,6 +174,8 @@ export interface ReadoutSource {
   readonly namesRef: string | null;
   readonly visitorsRef: string;
   readonly conversionsRef: string;
+  /** Local address of the planned shares column's data cells, or null for equal shares. */
+  readonly sharesRef: string | null;
   /** Number of variants (data rows). */
   readonly variants: number;
 }
@@ -296,8 +298,9 @@ export function readoutBlock(
   names.maxLoss = put(settingsRow + 3, 1, `=0.01*${controlMean}`, '0.000%');
   put(settingsRow + 4, 0, 'Decision');
   names.decision = put(settingsRow + 4, 1, `=ABTEST.DECISION(${conv},${vis},${names.maxLoss},${labels}${prior})`);
-  put(settingsRow + 5, 0, 'Split check: SRM p-value');
-  names.srmPValue = put(settingsRow + 5, 1, `=ABTEST.SRM_PVALUE(${vis})`, '0.0000');
+  put(settingsRow + 5, 0, source.sharesRef === null ? 'Split check: SRM p-value (equal shares)' : 'Split check: SRM p-value (planned shares)');
+  const shares = source.sharesRef === null ? '' : `,${source.sharesRef}`;
+  names.srmPValue = put(settingsRow + 5, 1, `=ABTEST.SRM_PVALUE(${vis}${shares})`, '0.0000');
   names.srmVerdict = put(
     settingsRow + 5,
     2,

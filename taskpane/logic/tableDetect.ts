@@ -12,6 +12,8 @@
  * - Visitors and conversions: header words decide when they are clear ("visitors", "users",
  *   "sessions", "trials" / "conversions", "orders", "purchases", "sign-ups", "successes"); otherwise the
  *   pair of count columns in which one is at least the other in every row, visitors being the larger.
+ * - Planned shares (for the split check): a further column of positive numbers whose heading says
+ *   "share", "split", "weight" or "allocation"; without one the split is taken as planned equal.
  */
 import type { CellValue } from '../workbook/workbook';
 
@@ -21,6 +23,8 @@ export interface TableMapping {
   readonly namesColumn: number | null;
   readonly visitorsColumn: number;
   readonly conversionsColumn: number;
+  /** Planned traffic shares (any positive weights), or null for equal shares. */
+  readonly sharesColumn: number | null;
 }
 
 /** A mapping with the data rows it covers, or the reason none was found. */
@@ -35,6 +39,8 @@ export type CheckedTable =
       readonly names: string[];
       readonly visitors: number[];
       readonly conversions: number[];
+      /** Planned shares per variant, or null for equal shares. */
+      readonly shares: number[] | null;
       /** 0-based row offsets (within the selection) of the first and last data rows. */
       readonly firstRow: number;
       readonly lastRow: number;
@@ -43,6 +49,7 @@ export type CheckedTable =
 
 const VISITOR_WORDS = /visit|user|session|trial|traffic|exposure|sample|^n$/i;
 const CONVERSION_WORDS = /conver|order|purchas|sign.?up|success|click|checkout|sale|buyer/i;
+const SHARE_WORDS = /share|split|weight|allocation/i;
 
 function isNumber(v: CellValue | undefined): v is number {
   return typeof v === 'number' && Number.isFinite(v);
@@ -68,7 +75,7 @@ export function usedRows(values: readonly (readonly CellValue[])[]): number {
  * Guess the table's mapping from its values. Cost O(rows · columns²).
  * Never throws; returns { ok: false, problem } when the selection is not a variant table.
  * @example detectTable([["Variant","Visitors","Conversions"],["A",1000,50],["B",1000,61]]).mapping
- * //=> { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2 }
+ * //=> { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null }
  */
 export function detectTable(values: readonly (readonly CellValue[])[]): Detection {
   const rows = usedRows(values);
@@ -107,13 +114,26 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
   const dominates = (big: number, small: number): boolean =>
     column(big).every((v, r) => (v as number) >= (column(small)[r] as number));
 
+  const sharesFor = (visitorsColumn: number, conversionsColumn: number): number | null => {
+    if (!hasHeader) return null;
+    for (let c = 0; c < columns; c += 1) {
+      if (c === visitorsColumn || c === conversionsColumn || !SHARE_WORDS.test(header(c))) continue;
+      if (column(c).every((v) => isNumber(v) && v > 0)) return c;
+    }
+    return null;
+  };
   const v0 = visitorHeaders[0];
   const c0 = conversionHeaders[0];
   if (visitorHeaders.length === 1 && conversionHeaders.length === 1 && v0 !== undefined && c0 !== undefined) {
     const note = dominates(v0, c0)
       ? `columns chosen by their headings ("${header(v0)}", "${header(c0)}")`
       : `columns chosen by their headings, but some rows have more conversions than visitors: check the mapping`;
-    return { ok: true, mapping: { hasHeader, namesColumn, visitorsColumn: v0, conversionsColumn: c0 }, dataRows, note };
+    return {
+      ok: true,
+      mapping: { hasHeader, namesColumn, visitorsColumn: v0, conversionsColumn: c0, sharesColumn: sharesFor(v0, c0) },
+      dataRows,
+      note,
+    };
   }
   // No clear headings: the first pair of count columns, left to right, where one dominates the other.
   for (let i = 0; i < countColumns.length; i += 1) {
@@ -127,7 +147,7 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
         const conversionsColumn = aBig ? b : a;
         return {
           ok: true,
-          mapping: { hasHeader, namesColumn, visitorsColumn, conversionsColumn },
+          mapping: { hasHeader, namesColumn, visitorsColumn, conversionsColumn, sharesColumn: sharesFor(visitorsColumn, conversionsColumn) },
           dataRows,
           note: 'visitors taken as the column that is at least the other in every row',
         };
@@ -143,8 +163,8 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
 /**
  * Check a mapping (detected or set by the user) against the values and pull out the variants.
  * Cost O(rows). Never throws; lists every problem found (row numbers counted within the selection, from 1).
- * @example checkTable([["A",1000,50],["B",1000,61]], { hasHeader: false, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2 })
- * //=> { ok: true, names: ["A","B"], visitors: [1000,1000], conversions: [50,61], firstRow: 0, lastRow: 1 }
+ * @example checkTable([["A",1000,50],["B",1000,61]], { hasHeader: false, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null })
+ * //=> { ok: true, names: ["A","B"], visitors: [1000,1000], conversions: [50,61], shares: null, firstRow: 0, lastRow: 1 }
  */
 export function checkTable(values: readonly (readonly CellValue[])[], mapping: TableMapping): CheckedTable {
   const rows = usedRows(values);
@@ -154,6 +174,7 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
   const names: string[] = [];
   const visitors: number[] = [];
   const conversions: number[] = [];
+  const shares: number[] = [];
   for (let r = start; r < rows; r += 1) {
     const row = values[r] ?? [];
     const n = row[mapping.visitorsColumn];
@@ -163,6 +184,11 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
     if (!isNumber(x) || !Number.isInteger(x) || x < 0) problems.push(`${label}: conversions ${JSON.stringify(x ?? '')} is not a whole number ≥ 0`);
     if (isNumber(n) && isNumber(x) && x > n) problems.push(`${label}: ${x} conversions is more than ${n} visitors`);
     const rawName = mapping.namesColumn === null ? undefined : row[mapping.namesColumn];
+    if (mapping.sharesColumn !== null) {
+      const share = row[mapping.sharesColumn];
+      if (!isNumber(share) || share <= 0) problems.push(`${label}: planned share ${JSON.stringify(share ?? '')} is not a number above 0`);
+      shares.push(isNumber(share) ? share : NaN);
+    }
     names.push(rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName));
     visitors.push(isNumber(n) ? n : NaN);
     conversions.push(isNumber(x) ? x : NaN);
@@ -170,5 +196,13 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
   if (visitors.length < 2) problems.push('a read-out needs at least two variants');
   if (visitors.length > 50) problems.push('at most 50 variants');
   if (problems.length > 0) return { ok: false, problems };
-  return { ok: true, names, visitors, conversions, firstRow: start, lastRow: rows - 1 };
+  return {
+    ok: true,
+    names,
+    visitors,
+    conversions,
+    shares: mapping.sharesColumn === null ? null : shares,
+    firstRow: start,
+    lastRow: rows - 1,
+  };
 }

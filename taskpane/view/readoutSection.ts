@@ -73,13 +73,13 @@ export function readoutSection(context: PanelContext): HTMLElement {
       list.append(el('li', {}, `${i === 0 ? 'Control ' : ''}${name}: ${formatCount(checked.conversions[i] ?? NaN)} conversions of ${formatCount(checked.visitors[i] ?? NaN)} visitors`)),
     );
     tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
-    const p = srmPValue(checked.visitors);
+    const p = srmPValue(checked.visitors, checked.shares ?? undefined);
     showMessage(
       splitArea,
       p < SRM_ALARM ? 'error' : 'info',
       p < SRM_ALARM
         ? `Split check: SRM p-value ${p.toExponential(2)} is below 0.001 — the split looks broken. Find out why before trusting any read-out.`
-        : `Split check: SRM p-value ${p.toPrecision(3)} (equal shares planned); no sign of a broken split.`,
+        : `Split check: SRM p-value ${p.toPrecision(3)} (${checked.shares === null ? 'equal shares planned' : 'against the planned shares'}); no sign of a broken split.`,
     );
     if (checked.names.length > 4) {
       tableInfo.append(el('p', { class: 'hint' }, 'Many variants: the best-looking one is often lucky. See the cautions.'));
@@ -102,18 +102,20 @@ export function readoutSection(context: PanelContext): HTMLElement {
     const names = select('readout-names', 'Names', [['none', 'no names (A, B, C…)'], ...options], mapping.namesColumn === null ? 'none' : String(mapping.namesColumn));
     const visitors = select('readout-visitors', 'Visitors', options, String(mapping.visitorsColumn));
     const conversions = select('readout-conversions', 'Conversions', options, String(mapping.conversionsColumn));
+    const shares = select('readout-shares', 'Planned shares (split check)', [['none', 'equal shares'], ...options], mapping.sharesColumn === null ? 'none' : String(mapping.sharesColumn));
     const changed = (): void => {
       view.mapping = {
         hasHeader: headerBox.checked(),
         namesColumn: names.input.value === 'none' ? null : Number(names.input.value),
         visitorsColumn: Number(visitors.input.value),
         conversionsColumn: Number(conversions.input.value),
+        sharesColumn: shares.input.value === 'none' ? null : Number(shares.input.value),
       };
       renderCheck();
     };
     headerBox.box.addEventListener('change', changed);
-    for (const control of [names, visitors, conversions]) control.input.addEventListener('change', changed);
-    mappingArea.append(el('p', { class: 'hint' }, 'Which column is which (correct it if needed):'), headerBox.element, names.element, visitors.element, conversions.element);
+    for (const control of [names, visitors, conversions, shares]) control.input.addEventListener('change', changed);
+    mappingArea.append(el('p', { class: 'hint' }, 'Which column is which (correct it if needed):'), headerBox.element, names.element, visitors.element, conversions.element, shares.element);
   };
 
   const useSelection = async (): Promise<void> => {
@@ -165,9 +167,15 @@ export function readoutSection(context: PanelContext): HTMLElement {
           namesRef: mapping.namesColumn === null ? null : column(mapping.namesColumn),
           visitorsRef: column(mapping.visitorsColumn),
           conversionsRef: column(mapping.conversionsColumn),
+          sharesRef: mapping.sharesColumn === null ? null : column(mapping.sharesColumn),
           variants: k,
         },
-        { level: lv, prior: { alpha: a, beta: b }, densityPoints: DENSITY_POINTS, currentSrmPValue: srmPValue(checked.visitors) },
+        {
+          level: lv,
+          prior: { alpha: a, beta: b },
+          densityPoints: DENSITY_POINTS,
+          currentSrmPValue: srmPValue(checked.visitors, checked.shares ?? undefined),
+        },
         besideTable(selection.localAddress),
         selection.sheet,
       );

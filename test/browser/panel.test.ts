@@ -183,7 +183,7 @@ describe('side panel flows in the preview', () => {
     await screenshot(page, 'panel-readout');
 
     const built = readoutBlock(
-      { namesRef: 'G21:G23', visitorsRef: 'H21:H23', conversionsRef: 'I21:I23', variants: 3 },
+      { namesRef: 'G21:G23', visitorsRef: 'H21:H23', conversionsRef: 'I21:I23', sharesRef: null, variants: 3 },
       { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: p },
       'K20',
     );

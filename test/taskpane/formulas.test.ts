@@ -142,7 +142,7 @@ describe('plan block', () => {
 });
 
 describe('read-out block', () => {
-  const source = { namesRef: 'A2:A4', visitorsRef: 'B2:B4', conversionsRef: 'C2:C4', variants: 3 };
+  const source = { namesRef: 'A2:A4', visitorsRef: 'B2:B4', conversionsRef: 'C2:C4', sharesRef: null, variants: 3 };
   const settings = { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: 0.4 };
 
   test('one row per variant of spilling formulas, then inputs, decision, split check and the density table', () => {
@@ -189,6 +189,11 @@ describe('read-out block', () => {
     expect(built.block.cells).toHaveLength(15 + 61);
     expect(built.chartSource).toBe('E15:G76');
     expect(built.block.styles?.some((s) => s.style.fillColor !== undefined)).toBe(false);
+  });
+
+  test('with planned shares the split check tests against them', () => {
+    const built = readoutBlock({ ...source, sharesRef: 'D2:D4' }, settings, 'F1');
+    expect(built.block.cells[11]?.slice(0, 2)).toEqual(['Split check: SRM p-value (planned shares)', '=ABTEST.SRM_PVALUE(B2:B4,D2:D4)']);
   });
 
   test('without a names column the variants are called A, B, C…', () => {

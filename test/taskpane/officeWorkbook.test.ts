@@ -99,7 +99,7 @@ describe('writing a block', () => {
     excel.set('Checkout test', 'E30', [['notes']]);
     const workbook = createOfficeWorkbook(excel.run);
     const built = readoutBlock(
-      { namesRef: 'A2:A4', visitorsRef: 'B2:B4', conversionsRef: 'C2:C4', variants: 3 },
+      { namesRef: 'A2:A4', visitorsRef: 'B2:B4', conversionsRef: 'C2:C4', sharesRef: null, variants: 3 },
       { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 11, currentSrmPValue: 0.5 },
       'E1',
       'Checkout test',
@@ -159,7 +159,7 @@ describe('writing a block', () => {
     const excel = mockExcel(['Sheet1']);
     const workbook = createOfficeWorkbook(excel.run);
     const built = readoutBlock(
-      { namesRef: null, visitorsRef: 'B2:B3', conversionsRef: 'C2:C3', variants: 2 },
+      { namesRef: null, visitorsRef: 'B2:B3', conversionsRef: 'C2:C3', sharesRef: null, variants: 2 },
       { level: 0.9, prior: { alpha: 1, beta: 1 }, densityPoints: 5, currentSrmPValue: 1e-6 },
       'E1',
       'Sheet1',

@@ -13,7 +13,7 @@ describe('detectTable', () => {
     ]);
     expect(result).toEqual({
       ok: true,
-      mapping: { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2 },
+      mapping: { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null },
       dataRows: 2,
       note: 'columns chosen by their headings ("Visitors", "Conversions")',
     });
@@ -25,7 +25,7 @@ describe('detectTable', () => {
       [412, 10000, 'A'],
       [455, 10050, 'B'],
     ]);
-    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: 2, visitorsColumn: 1, conversionsColumn: 0 });
+    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: 2, visitorsColumn: 1, conversionsColumn: 0, sharesColumn: null });
   });
 
   test('no header: visitors is the column at least the other in every row', () => {
@@ -36,7 +36,7 @@ describe('detectTable', () => {
     ]);
     expect(result).toEqual({
       ok: true,
-      mapping: { hasHeader: false, namesColumn: 0, visitorsColumn: 2, conversionsColumn: 1 },
+      mapping: { hasHeader: false, namesColumn: 0, visitorsColumn: 2, conversionsColumn: 1, sharesColumn: null },
       dataRows: 3,
       note: 'visitors taken as the column that is at least the other in every row',
     });
@@ -52,7 +52,7 @@ describe('detectTable', () => {
     ];
     expect(usedRows(values)).toBe(3);
     const result = detectTable(values);
-    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2 });
+    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null });
   });
 
   test('past results without names (two count columns) for PRIOR_FROM_HISTORY', () => {
@@ -62,7 +62,7 @@ describe('detectTable', () => {
       [51, 1200],
       [29, 900],
     ]);
-    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: null, visitorsColumn: 1, conversionsColumn: 0 });
+    expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: null, visitorsColumn: 1, conversionsColumn: 0, sharesColumn: null });
   });
 
   test('problems the user is told about', () => {
@@ -83,8 +83,23 @@ describe('detectTable', () => {
   });
 });
 
+test('a planned-shares column is found by its heading (for the split check)', () => {
+  const values = [
+    ['Variant', 'Visitors', 'Conversions', 'Revenue: mean', 'Planned share'],
+    ['Green', 10000, 412, 2.41, 0.25],
+    ['Orange', 20100, 855, 2.63, 0.5],
+    ['Blue', 9980, 430, 2.5, 0.25],
+  ];
+  const result = detectTable(values);
+  expect(result.ok && result.mapping).toEqual({ hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: 4 });
+  const checked = result.ok ? checkTable(values, result.mapping) : null;
+  expect(checked?.ok === true && checked.shares).toEqual([0.25, 0.5, 0.25]);
+  const bad = checkTable([['V', 'Visitors', 'Conversions', 'Share'], ['A', 10, 1, 0], ['B', 10, 2, 1]], { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: 3 });
+  expect(bad).toEqual({ ok: false, problems: ['row 2: planned share 0 is not a number above 0'] });
+});
+
 describe('checkTable', () => {
-  const mapping = { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2 };
+  const mapping = { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null };
 
   test('pulls names and counts out of a good table', () => {
     expect(
@@ -97,7 +112,7 @@ describe('checkTable', () => {
         ],
         mapping,
       ),
-    ).toEqual({ ok: true, names: ['Green', 'Orange'], visitors: [10000, 10050], conversions: [412, 455], firstRow: 1, lastRow: 2 });
+    ).toEqual({ ok: true, names: ['Green', 'Orange'], visitors: [10000, 10050], conversions: [412, 455], shares: null, firstRow: 1, lastRow: 2 });
   });
 
   test('a mapping the user got wrong is reported row by row', () => {
@@ -116,7 +131,7 @@ describe('checkTable', () => {
   });
 
   test('same column for both is refused', () => {
-    const result = checkTable([['A', 10, 1], ['B', 10, 2]], { hasHeader: false, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 1 });
+    const result = checkTable([['A', 10, 1], ['B', 10, 2]], { hasHeader: false, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 1, sharesColumn: null });
     expect(result.ok === false && result.problems[0]).toBe('visitors and conversions must be different columns');
   });
 });
