@@ -8,6 +8,7 @@
  * R's dpois_raw), accurate for a up to ~1e9 and beyond. Pure and stateless.
  */
 import { StatsError, ensure } from '../errors';
+import { gaussLegendre, log1pmx } from '../numeric';
 import { binomialDeviance, logGamma, stirlingError } from './gamma';
 import { normalQuantile } from './normal';
 
@@ -66,12 +67,52 @@ function upperFraction(a: number, x: number): number {
   throw new StatsError('not_available', `the incomplete gamma continued fraction did not converge for a = ${a}, x = ${x}`);
 }
 
+/** The 16-point Gauss–Legendre rule on [−1, 1], computed once (an immutable table). */
+const GAUSS_16 = gaussLegendre(16);
+
+/**
+ * The smaller tail near the centre for a large shape (a ≥ 1e6, |x − a| ≤ 10√a): P(a, x) for x ≤ a,
+ * Q(a, x) above, as the integral of the density from x to 16 standard deviations further out (the
+ * mass beyond, below e^−100 of the result, is dropped), by 16 Gauss–Legendre panels of 16 points, in
+ * u = t − a so that the nodes carry no rounding of t ~ a. There the series or fraction would need
+ * ~√(74a) terms (3e5 at a = 1e9) and carry their accumulated rounding (4e-12 relative measured at 1e9);
+ * the integral takes 256 evaluations of Loader's saddle-point density (~190 µs at a = 1e9, against
+ * ~2 ms for the series) and keeps ~1e-15 absolute.
+ * NaN outside that region.
+ */
+function centralTail(a: number, x: number): number {
+  if (a < 1e6) return NaN;
+  const sd = Math.sqrt(a);
+  const offset = x - a; // exact (Sterbenz): the integral runs in u = t − a, nodes free of t's rounding
+  if (Math.abs(offset) > 10 * sd) return NaN;
+  const [from, to] = offset <= 0 ? [Math.max(offset - 16 * sd, -a), offset] : [offset, offset + 16 * sd];
+  const panels = Math.max(1, Math.ceil((to - from) / sd));
+  const width = (to - from) / panels;
+  // density at t = a + u: (a/t)·t^a e^−t/Γ(a + 1) = exp(−δ(a) − ½ log 2πa + log a + a·log1pmx(u/a) − log t),
+  // since Loader's bd0(a, a + u) = −a·log1pmx(u/a)
+  const constant = -stirlingError(a) - 0.5 * (LOG_2PI + Math.log(a)) + Math.log(a);
+  let total = 0;
+  for (let panel = 0; panel < panels; panel++) {
+    const centre = from + (panel + 0.5) * width;
+    let sum = 0;
+    for (let i = 0; i < 16; i++) {
+      const u = centre + 0.5 * width * (GAUSS_16.nodes[i] as number);
+      sum += (GAUSS_16.weights[i] as number) * Math.exp(constant + a * log1pmx(u / a) - Math.log(a + u));
+    }
+    total += 0.5 * width * sum;
+  }
+  return Math.min(total, 1);
+}
+
 /**
  * log P(a, x) (upper = false) or log Q(a, x) (upper = true) for a > 0, x ≥ 0, the requested tail
  * computed directly whenever it is the smaller one.
  *
  * Method: series for x < a + 1, continued fraction otherwise, times Loader's saddle-point prefactor, in
- * logs. Cost: O(√a) terms near x ≈ a (≈ 3e5 at a = 1e9), O(10–100) elsewhere.
+ * logs; for a ≥ 1e6 within 10√a of a, Gauss–Legendre integration of the density instead (see
+ * centralTail). Measured against mpmath (109 points, a = 0.1 … 1e9): absolute error ≤ 3e-14, smaller
+ * tail relative ≤ 1e-12 down to 1e-300. Cost: O(√a) series/fraction terms near x ≈ a for a < 1e6
+ * (≈ 10–30 µs at 1e5–1e6), 256 density evaluations above, O(10–100) terms in the tails.
  * Throws StatsError('invalid_argument') for a bad a or x; StatsError('not_available') on non-convergence.
  * @example Math.exp(gammaTailLog(9, 5.000005655, false)) //=> 0.06809400386978737
  */
@@ -80,6 +121,13 @@ export function gammaTailLog(a: number, x: number, upper: boolean): number {
   ensure(x >= 0, `gammaTailLog needs x ≥ 0, got ${x}`);
   if (x === 0) return upper ? 0 : -Infinity;
   if (x === Infinity) return upper ? -Infinity : 0;
+  const central = centralTail(a, x);
+  if (!Number.isNaN(central)) {
+    // central = the smaller tail: P(a, x) for x ≤ a, Q(a, x) above
+    const logSmall = Math.log(central);
+    const smallIsLower = x <= a;
+    return upper === !smallIsLower ? logSmall : log1mExp(logSmall);
+  }
   if (x < a + 1) {
     const logLower = logPoissonTerm(a, x) + Math.log(lowerSeries(a, x));
     return upper ? log1mExp(Math.min(logLower, 0)) : Math.min(logLower, 0);
@@ -92,8 +140,8 @@ export function gammaTailLog(a: number, x: number, upper: boolean): number {
  * The regularized lower incomplete gamma function P(a, x) = γ(a, x)/Γ(a), the Gamma(a, rate 1)
  * distribution function.
  *
- * Method: see {@link gammaTailLog}. Relative error ~1e-14 in the lower tail down to 1e-300, absolute
- * ≤ 1e-13 overall for 0.1 ≤ a ≤ 1e9 (measured against mpmath in the tests). Cost: as gammaTailLog.
+ * Method: see {@link gammaTailLog}. Measured against mpmath for 0.1 ≤ a ≤ 1e9: absolute error ≤ 3e-14,
+ * relative error ≤ 1e-12 in the lower tail down to 1e-300. Cost: as gammaTailLog.
  * Throws StatsError('invalid_argument') for a ≤ 0, non-finite a or NaN/negative x. P(a, 0) = 0.
  * @example gammaP(9, 10.00001131 / 2) //=> 0.06809400386978737 (Excel: GAMMA.DIST(10.00001131, 9, 2, TRUE) = 0.068094)
  */
