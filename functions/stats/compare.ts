@@ -26,6 +26,9 @@ const PRUNE = 46;
  */
 const REFINE_EDGES = 3;
 
+/** A panel with `active` changing factors is split into ⌈√(1 + active)/SPLIT_SCALE⌉ equal parts. */
+const SPLIT_SCALE = 3.2;
+
 /** What a factor contributes at a point u = scale·x + shift of its own value. */
 type FactorKind = 'cdf' | 'sf' | 'density' | 'lowerMoment';
 
@@ -153,6 +156,7 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
   let total = -Infinity;
   const values = new Float64Array(n);
   const breaks: number[] = [];
+  const skip = new Uint8Array(count);
   const order = base.panelOrder;
   for (let r = 0; r < panels; r++) {
     const p = order[r] as number;
@@ -171,10 +175,31 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
     const b = base.edges[p + 1] as number;
     breaks.length = 0;
     for (let i = 0; i < count; i++) innerEdges(base, factors[i] as Factor, direct[i] as boolean, a, b, breaks);
+    // Many factors changing on this panel add their curvatures to the integrand's: with `active` of them
+    // it is ~√(1 + active) times narrower than the base density, so split the panel into equal parts
+    // keeping it within ~4.5 of its own standard deviations (measured: P(highest) of 50 close variants
+    // then sums to 1 within 1e-13 before normalising, against 1e-8 unsplit).
+    if (count >= 4) {
+      let active = 0;
+      for (let i = 0; i < count; i++) {
+        if ((factors[i] as Factor).kind === 'density') active += 1;
+        else if (Math.abs(edgeFactor(p + 1, i) - edgeFactor(p, i)) > 0.01) active += 1;
+      }
+      const parts = Math.ceil(Math.sqrt(1 + active) / SPLIT_SCALE);
+      for (let j = 1; j < parts; j++) breaks.push(a + ((b - a) * j) / parts);
+    }
+    // A cdf or survival factor that is 1 to double precision on the whole panel (its smallest value, at
+    // one edge, has log > −1e-18) is left out there: it cannot change the integrand.
+    for (let i = 0; i < count; i++) {
+      const side = sides[i];
+      const least = side === 'right' ? edgeFactor(p, i) : side === 'left' ? edgeFactor(p + 1, i) : -Infinity;
+      const kind = (factors[i] as Factor).kind;
+      skip[i] = (kind === 'cdf' || kind === 'sf') && least > -1e-18 ? 1 : 0;
+    }
     if (breaks.length === 0) {
       for (let k = 0; k < n; k++) {
         const z = base.nodeZ[p * n + k] as number;
-        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.nodeLogDensity[p * n + k] as number);
+        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.nodeLogDensity[p * n + k] as number, skip);
       }
       total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
       continue;
@@ -189,7 +214,7 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
       const mid = (right + left) / 2;
       for (let k = 0; k < n; k++) {
         const z = mid + half * (PANEL_NODES[k] as number);
-        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z));
+        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z), skip);
       }
       total = logAddExp(total, panelLogIntegral(values, 0, half));
       left = right;
@@ -207,12 +232,14 @@ function pointLog(
   needValue: boolean,
   z: number,
   logDensity: number,
+  skip: Uint8Array,
 ): number {
   let v = logDensity;
   if (v === -Infinity) return v;
   const x = needValue ? base.source.toValue(z) : 0;
   if (withValue) v += Math.log(x);
   for (let i = 0; i < factors.length; i++) {
+    if (skip[i] === 1) continue;
     v += factorLog(factors[i] as Factor, direct[i] as boolean, z, x);
     if (v === -Infinity) return v;
   }

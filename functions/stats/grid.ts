@@ -298,15 +298,18 @@ export class TabulatedDistribution {
     let z = zLeft;
     while (z < zRight) {
       // The width rule at the start, the middle, the end and (if inside) the mode, until it holds on all.
+      // Halving towards the local rule where it is stricter further on (never cutting below it at once,
+      // which would make a panel far from a narrow region as short as the region needs).
       let w = width(z);
-      for (let pass = 0; pass < 4; pass++) {
-        let next = Math.min(w, width(z + w), width(z + w / 2));
-        if (z < source.mode && source.mode < z + next) next = Math.min(next, width(source.mode));
-        if (next >= w) break;
-        w = next;
+      for (let pass = 0; pass < 80; pass++) {
+        let need = Math.min(width(z + w), width(z + w / 2));
+        if (z < source.mode && source.mode < z + w) need = Math.min(need, width(source.mode));
+        if (need >= w) break;
+        w = Math.max(need, w / 2);
       }
       if (!(w > 0)) throw failure('a panel has no width');
-      if (zRight - (z + w) < 0.25 * w) w = zRight - z;
+      // Only rounding dust is absorbed into the last panel (a longer panel could swallow the bulk).
+      if (zRight - (z + w) < 1e-9 * w) w = zRight - z;
       z = w === zRight - z ? zRight : z + w;
       edgeList.push(z);
       if (edgeList.length > MAX_PANELS) throw failure('too many panels');
@@ -693,8 +696,8 @@ export class TabulatedDistribution {
       const d = slope(z);
       let next = d > 0 && Number.isFinite(d) ? z - fz / d : NaN;
       if (!(next > lo && next < hi)) next = (lo + hi) / 2;
-      if (Math.abs(next - z) <= 4 * Number.EPSILON * Math.max(1, Math.abs(z)) || Math.abs(fz) <= 1e-16) return next;
-      if (hi - lo <= 4 * Number.EPSILON * Math.max(1, Math.abs(z))) return z;
+      if (Math.abs(next - z) <= Number.EPSILON * Math.abs(z) || Math.abs(fz) <= 1e-16) return next;
+      if (hi - lo <= 2 * Number.EPSILON * Math.max(Math.abs(lo), Math.abs(hi))) return z;
       z = next;
     }
     return z;

@@ -1,0 +1,374 @@
+#!/usr/bin/python3
+"""Reference values for the conversion (Beta-Binomial) read-out, computed with mpmath at 30+ digits.
+
+Run with Debian's python3 (which has mpmath):  /usr/bin/python3 test/reference/conversion_reference.py
+It prints JSON; the committed copy is test/reference/conversion_values.json (the tests read that file and
+never run python).
+
+Method (independent of the TypeScript code): each posterior Beta(a, b) is written in z = logit(p), whose
+density exp(a z - (a+b) log(1 + e^z) - log B(a, b)) is evaluated with mpmath's loggamma at 40 digits.
+Its cdf F and survival S are accumulated over anchors a quarter of a standard deviation apart (F from the
+left, S from the right, so both tails keep their relative accuracy), each step and each partial step by
+12-point Gauss-Legendre at 40 digits (anchors at most half a standard deviation and 2/|slope| apart, so
+each step is exact to ~1e-31 relative). The comparison integrals (P(B > A) = int f_B F_A, P(highest),
+expected loss = int F_i (1 - prod F_j) dx, the cdf of a difference or a ratio) use the same composite rule
+over the union of the posteriors' anchors; quantiles are mpmath.findroot (secant) on those integrals.
+(mpmath.quad's tanh-sinh gives the same digits but took minutes per value at these anchor counts.)
+Self-checks printed beside the values: P(B > A) + P(A > B) = 1, sum of P(highest) = 1, the cdf against
+mpmath.betainc where betainc converges (small counts), and P(B > A) against Evan Miller's exact sum
+(2015) for integer shapes.
+"""
+import json
+import sys
+
+import mpmath as mp
+
+mp.mp.dps = 40
+LOG_RANGE = 130  # anchors reach log density -130 (e^-130 ~ 1e-57) on each side
+GL_NODES, GL_WEIGHTS = None, None
+
+
+def gauss_legendre(n):
+    """n-point Gauss-Legendre nodes/weights on [-1, 1] at the working precision (Newton on P_n)."""
+    nodes, weights = [], []
+    for i in range(1, n + 1):
+        x = mp.cos(mp.pi * (i - mp.mpf(1) / 4) / (n + mp.mpf(1) / 2))
+        for _ in range(100):
+            p0, p1 = mp.mpf(1), x
+            for k in range(2, n + 1):
+                p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
+            dp = n * (x * p1 - p0) / (x * x - 1)
+            dx = p1 / dp
+            x -= dx
+            if abs(dx) < mp.mpf(10) ** (-mp.mp.dps - 2):
+                break
+        nodes.append(x)
+        weights.append(2 / ((1 - x * x) * dp * dp))
+    return nodes, weights
+
+
+GL_NODES, GL_WEIGHTS = gauss_legendre(12)
+
+
+def gl(f, a, b):
+    half = (b - a) / 2
+    mid = (a + b) / 2
+    return half * mp.fsum(w * f(mid + half * t) for t, w in zip(GL_NODES, GL_WEIGHTS))
+
+
+class BetaZ:
+    """Beta(a, b) in z = logit(p) with cumulative F and S at anchors."""
+
+    def __init__(self, a, b):
+        self.a = mp.mpf(a)
+        self.b = mp.mpf(b)
+        n = self.a + self.b
+        self.lbeta = mp.loggamma(self.a) + mp.loggamma(self.b) - mp.loggamma(n)
+        self.mode = mp.log(self.a / self.b)
+        p0 = self.a / n
+        self.sd = 1 / mp.sqrt(n * p0 * (1 - p0))
+        self.peak = self.logdens(self.mode)
+        # Steps of at most half a standard deviation and at most 2/|slope| (the density changes by at most
+        # e^2 across a step), so the 12-point rule is exact to ~1e-31 relative on every step.
+        step = lambda z: min(self.sd / 2, 2 / max(abs(self.slope(z)), mp.mpf(10) ** -30))
+        left = [self.mode]
+        while self.logdens(left[-1]) - self.peak > -LOG_RANGE:
+            left.append(left[-1] - step(left[-1]))
+        right = [self.mode]
+        while self.logdens(right[-1]) - self.peak > -LOG_RANGE:
+            right.append(right[-1] + step(right[-1]))
+        self.anchors = list(reversed(left))[:-1] + right
+        dens = lambda z: mp.exp(self.logdens(z))
+        pieces = [gl(dens, self.anchors[i], self.anchors[i + 1]) for i in range(len(self.anchors) - 1)]
+        # Tails beyond the outer anchors: the exponential-tail value f/|slope| (below 1e-55 relative).
+        z0, z1 = self.anchors[0], self.anchors[-1]
+        tail_left = dens(z0) / abs(self.slope(z0))
+        tail_right = dens(z1) / abs(self.slope(z1))
+        self.F = [tail_left]
+        for piece in pieces:
+            self.F.append(self.F[-1] + piece)
+        self.S = [tail_right]
+        for piece in reversed(pieces):
+            self.S.append(self.S[-1] + piece)
+        self.S.reverse()
+        self.total = self.F[-1] + tail_right  # should be 1
+
+    def logdens(self, z):
+        return self.a * z - (self.a + self.b) * mp.log1p(mp.exp(z)) - self.lbeta
+
+    def slope(self, z):
+        return self.a - (self.a + self.b) / (1 + mp.exp(-z))
+
+    def dens(self, z):
+        return mp.exp(self.logdens(z))
+
+    def _index(self, z):
+        lo, hi = 0, len(self.anchors) - 1
+        if z <= self.anchors[0]:
+            return -1
+        if z >= self.anchors[-1]:
+            return len(self.anchors) - 1
+        while hi - lo > 1:
+            mid = (lo + hi) // 2
+            if self.anchors[mid] <= z:
+                lo = mid
+            else:
+                hi = mid
+        return lo
+
+    def lower(self, z):
+        """F(z) accumulated from the left."""
+        i = self._index(z)
+        if i < 0:
+            return self.dens(z) / abs(self.slope(z))
+        if i >= len(self.anchors) - 1:
+            return 1 - self.upper(z)
+        return self.F[i] + gl(self.dens, self.anchors[i], z)
+
+    def upper(self, z):
+        """S(z) = 1 - F(z) accumulated from the right."""
+        i = self._index(z)
+        if i >= len(self.anchors) - 1:
+            return self.dens(z) / abs(self.slope(z))
+        if i < 0:
+            return 1 - self.lower(z)
+        return self.S[i + 1] + gl(self.dens, z, self.anchors[i + 1])
+
+    def cdf_value(self, x):
+        return self.lower(mp.log(x) - mp.log1p(-x))
+
+    def quantile(self, p):
+        p = mp.mpf(p)
+        f = lambda z: mp.log(self.lower(z)) - mp.log(p) if p <= 0.5 else mp.log(p if False else 1 - p) - mp.log(self.upper(z))
+        z = mp.findroot(f, (self.mode - self.sd, self.mode + self.sd), solver='anderson', tol=mp.mpf(10) ** -30)
+        return 1 / (1 + mp.exp(-z))
+
+
+def posterior(conversions, visitors, prior=(1, 1)):
+    return BetaZ(prior[0] + conversions, prior[1] + visitors - conversions)
+
+
+def breakpoints(dists, base):
+    """The base's anchors where its log density is within the range, refined by the others' anchors."""
+    lo, hi = base.anchors[0], base.anchors[-1]
+    pts = set(base.anchors)
+    for d in dists:
+        if d is base:
+            continue
+        for z in d.anchors:
+            if lo < z < hi:
+                pts.add(z)
+    return sorted(pts)
+
+
+def integrate(base, integrand, others):
+    pts = breakpoints(others, base)
+    return mp.fsum(gl(integrand, pts[i], pts[i + 1]) for i in range(len(pts) - 1))
+
+
+def prob_greater(x, y):
+    """P(X > Y) = int f_X F_Y and P(Y > X) = int f_X S_Y (both computed; they must add to 1)."""
+    gt = integrate(x, lambda z: x.dens(z) * y.lower(z), [y])
+    lt = integrate(x, lambda z: x.dens(z) * y.upper(z), [y])
+    return gt, lt
+
+
+def prob_highest(ds):
+    out = []
+    for i, d in enumerate(ds):
+        others = [o for j, o in enumerate(ds) if j != i]
+
+        def integrand(z, d=d, others=others):
+            v = d.dens(z)
+            for o in others:
+                v *= o.lower(z)
+            return v
+
+        out.append(integrate(d, integrand, others))
+    return out
+
+
+def expected_loss(ds):
+    """loss_i = int F_i(x) (1 - prod_{j != i} F_j(x)) dx with x = logistic(z), dx = x(1 - x) dz."""
+    out = []
+    allpts = sorted(set(z for d in ds for z in d.anchors))
+    for i, d in enumerate(ds):
+        others = [o for j, o in enumerate(ds) if j != i]
+
+        def integrand(z, d=d, others=others):
+            if len(others) == 1:
+                s = others[0].upper(z)
+            else:
+                prod = mp.mpf(1)
+                for o in others:
+                    prod *= o.lower(z)
+                s = 1 - prod
+            x = 1 / (1 + mp.exp(-z))
+            return d.lower(z) * s * x * (1 - x)
+
+        lo = min(dd.anchors[0] for dd in ds)
+        hi = max(dd.anchors[-1] for dd in ds)
+        pts = [z for z in allpts if lo <= z <= hi]
+        out.append(mp.fsum(gl(integrand, pts[k], pts[k + 1]) for k in range(len(pts) - 1)))
+    return out
+
+
+def logistic(z):
+    return 1 / (1 + mp.exp(-z))
+
+
+def logit(x):
+    return mp.log(x) - mp.log1p(-x)
+
+
+def diff_tails(y, x, d):
+    """P(Y - X <= d) and P(Y - X > d) = int f_X(s) F_Y(s + d) ds, int f_X(s) S_Y(s + d) ds."""
+
+    def at(z, upper):
+        u = logistic(z) + d
+        if u <= 0:
+            return mp.mpf(0) if not upper else mp.mpf(1)
+        if u >= 1:
+            return mp.mpf(1) if not upper else mp.mpf(0)
+        zu = logit(u)
+        return y.upper(zu) if upper else y.lower(zu)
+
+    lo = integrate(x, lambda z: x.dens(z) * at(z, False), [])
+    up = integrate(x, lambda z: x.dens(z) * at(z, True), [])
+    return lo, up
+
+
+def ratio_tails(y, x, m):
+    """P(Y/X - 1 <= m) and its complement: int f_X(s) F_Y((1 + m)s) ds."""
+
+    def at(z, upper):
+        u = (1 + m) * logistic(z)
+        if u >= 1:
+            return mp.mpf(1) if not upper else mp.mpf(0)
+        zu = logit(u)
+        return y.upper(zu) if upper else y.lower(zu)
+
+    lo = integrate(x, lambda z: x.dens(z) * at(z, False), [])
+    up = integrate(x, lambda z: x.dens(z) * at(z, True), [])
+    return lo, up
+
+
+def quantile_of(tails, p, start):
+    p = mp.mpf(p)
+
+    def f(v):
+        lo, up = tails(v)
+        return mp.log(lo) - mp.log(p) if p <= 0.5 else mp.log(1 - p) - mp.log(up)
+
+    return mp.findroot(f, start, solver='secant', tol=mp.mpf(10) ** -30)
+
+
+def s(v):
+    return mp.nstr(v, 30, min_fixed=-1000, max_fixed=1000) if False else mp.nstr(v, 30)
+
+
+def main():
+    out = {
+        'source': 'mpmath ' + mp.__version__ + ' at 40 digits: test/reference/conversion_reference.py',
+        'checks': {},
+        'probGreater': [],
+        'probHighest': [],
+        'expectedLoss': [],
+        'liftQuantile': [],
+        'diffQuantile': [],
+        'rateQuantile': [],
+    }
+    # Self-check of the cdf against mpmath.betainc where the hypergeometric series converges.
+    worst = mp.mpf(0)
+    for a, b, x in [(8, 10, 0.5), (3, 50, 0.02), (20, 200, 0.12), (0.5, 0.5, 0.3), (1, 1001, 0.001)]:
+        d = BetaZ(a, b)
+        ref = mp.betainc(a, b, 0, x, regularized=True)
+        worst = max(worst, abs(d.cdf_value(mp.mpf(x)) / ref - 1))
+    out['checks']['cdfVsBetaincWorstRelative'] = s(worst)
+
+    pairs = [
+        # (control conversions, visitors), (challenger conversions, visitors)
+        ((10, 100), (15, 100)),
+        ((50, 1000), (65, 1000)),
+        ((500, 10000), (560, 10000)),
+        ((5000, 100000), (5150, 100000)),
+        ((50000, 1000000), (50300, 1000000)),
+        ((5000000, 100000000), (5003000, 100000000)),
+        ((50000000, 1000000000), (50010000, 1000000000)),
+        ((0, 1000), (3, 1000)),
+        ((1000, 1000), (998, 1000)),
+        ((0, 1), (1, 1)),
+        ((100, 1000), (300, 1000)),
+        ((50, 1000), (200, 1000)),
+        ((0, 1000000000), (2, 1000000000)),
+        ((60, 1000), (50000000, 1000000000)),
+        ((1000000000, 1000000000), (999999995, 1000000000)),
+    ]
+    worst_sum = mp.mpf(0)
+    for control, challenger in pairs:
+        a = posterior(*control)
+        b = posterior(*challenger)
+        gt, lt = prob_greater(b, a)
+        worst_sum = max(worst_sum, abs(gt + lt - 1))
+        out['probGreater'].append({'control': list(control), 'challenger': list(challenger),
+                                   'pChallengerAbove': s(gt), 'pControlAbove': s(lt)})
+        print('probGreater', control, challenger, mp.nstr(gt, 15), file=sys.stderr)
+    out['checks']['probGreaterSumWorst'] = s(worst_sum)
+    # Evan Miller (2015): P(p_B > p_A) = sum_{i<a_B} B(a_A+i, b_A+b_B) / ((b_B+i) B(1+i, b_B) B(a_A, b_A)).
+    worst = mp.mpf(0)
+    for control, challenger in [pairs[0], pairs[1], pairs[7], pairs[9]]:
+        aA, bA = 1 + control[0], 1 + control[1] - control[0]
+        aB, bB = 1 + challenger[0], 1 + challenger[1] - challenger[0]
+        exact = mp.fsum(mp.beta(aA + i, bA + bB) / ((bB + i) * mp.beta(1 + i, bB) * mp.beta(aA, bA)) for i in range(aB))
+        gt, _ = prob_greater(posterior(*challenger), posterior(*control))
+        worst = max(worst, abs(gt / exact - 1))
+    out['checks']['probGreaterVsEvanMillerWorstRelative'] = s(worst)
+
+    groups = [
+        [(50, 1000), (60, 1000), (55, 1000)],
+        [(500, 10000), (520, 10000), (480, 10000), (530, 10000), (510, 10000)],
+        [(5000000, 100000000), (5001000, 100000000), (4999000, 100000000), (5002000, 100000000)],
+        [(100, 1000), (300, 1000), (120, 1000)],
+        [(50000000, 1000000000), (50005000, 1000000000), (49995000, 1000000000)],
+        [(0, 10), (1, 10), (0, 1), (2, 10)],
+    ]
+    worst_sum = mp.mpf(0)
+    for g in groups:
+        ds = [posterior(*v) for v in g]
+        ph = prob_highest(ds)
+        worst_sum = max(worst_sum, abs(mp.fsum(ph) - 1))
+        out['probHighest'].append({'variants': [list(v) for v in g], 'pHighest': [s(v) for v in ph]})
+        print('probHighest', g, [mp.nstr(v, 10) for v in ph], file=sys.stderr)
+    out['checks']['probHighestSumWorst'] = s(worst_sum)
+
+    for g in [pairs[0], pairs[1], pairs[3], pairs[6], pairs[7], pairs[10], pairs[13], groups[0], groups[5]]:
+        g = list(g)
+        ds = [posterior(*v) for v in g]
+        loss = expected_loss(ds)
+        out['expectedLoss'].append({'variants': [list(v) for v in g], 'loss': [s(v) for v in loss]})
+        print('loss', g, [mp.nstr(v, 10) for v in loss], file=sys.stderr)
+
+    for control, challenger in [pairs[0], pairs[1], pairs[7]]:
+        x = posterior(*control)
+        y = posterior(*challenger)
+        mx = x.a / (x.a + x.b)
+        my = y.a / (y.a + y.b)
+        for p in ['0.025', '0.975']:
+            guess = my / mx - 1
+            q = quantile_of(lambda m: ratio_tails(y, x, m), p, (guess, guess * 1.1 + 0.01))
+            out['liftQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p), 'lift': s(q)})
+            guess_d = my - mx
+            qd = quantile_of(lambda d: diff_tails(y, x, d), p, (guess_d, guess_d * 1.1 + 0.001))
+            out['diffQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p), 'difference': s(qd)})
+            print('quantiles', control, challenger, p, mp.nstr(q, 12), mp.nstr(qd, 12), file=sys.stderr)
+
+    for v in [(0, 1000), (50, 1000), (1000, 1000), (0, 1), (50000000, 1000000000), (1000000000, 1000000000)]:
+        d = posterior(*v)
+        for p in ['0.025', '0.5', '0.975']:
+            out['rateQuantile'].append({'variant': list(v), 'p': float(p), 'rate': s(d.quantile(p))})
+
+    print(json.dumps(out, indent=1))
+
+
+if __name__ == '__main__':
+    main()
