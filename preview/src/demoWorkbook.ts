@@ -110,7 +110,7 @@ const PAST_TESTS = [
 function checkoutSheet(): DemoSheet {
   const s = sheetBuilder('Checkout test');
   s.width('A', 520);
-  for (const c of ['B', 'C', 'D', 'E', 'F', 'G', 'H', 'I']) s.width(c, 104);
+  for (const c of ['B', 'C', 'D', 'E', 'F', 'G', 'H', 'I']) s.width(c, 116);
   s.width('J', 24);
   for (const c of ['K', 'L', 'M', 'N']) s.width(c, 96);
   s.put('A1', 'Checkout test: which checkout button sells best?');

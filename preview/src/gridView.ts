@@ -152,7 +152,7 @@ export class GridView {
   private showSelection(): void {
     const sel = this.book.selection;
     if (sel.sheet !== this.book.activeSheet) return;
-    for (const td of Array.from(this.table.querySelectorAll('td.selected, td.active'))) td.classList.remove('selected', 'active');
+    for (const td of Array.from(this.table.querySelectorAll('td.selected, td.active, td.in-spill'))) td.classList.remove('selected', 'active', 'in-spill');
     for (let r = sel.row; r < sel.row + sel.rows; r += 1) {
       for (let c = sel.col; c < sel.col + sel.columns; c += 1) this.cellElement(r, c)?.classList.add('selected');
     }
@@ -162,6 +162,14 @@ export class GridView {
     this.el.nameBox.textContent = blockAddress(sel);
     const { row, col } = this.anchorCell();
     const view = this.book.cell(sel.sheet, row, col);
+    // Tint the whole spill of the selected formula (or of the spill the selected cell belongs to).
+    const spillFrom = view.spilled ? this.book.spillAnchor(sel.sheet, row, col) : { row, col };
+    const spill = spillFrom ? this.book.spillRange(sel.sheet, spillFrom.row, spillFrom.col) : undefined;
+    if (spill) {
+      for (let r = spill.row; r < spill.row + spill.rows; r += 1) {
+        for (let c = spill.col; c < spill.col + spill.columns; c += 1) this.cellElement(r, c)?.classList.add('in-spill');
+      }
+    }
     // A spilled cell shows its formula greyed out and read-only, as the formula lives in the first cell.
     const source = view.spilled ? this.book.spillAnchor(sel.sheet, row, col) : undefined;
     const shown = source ? this.book.cell(sel.sheet, source.row, source.col).input : view.input;

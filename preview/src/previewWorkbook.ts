@@ -300,6 +300,26 @@ export class PreviewWorkbook {
     return undefined;
   }
 
+  /**
+   * The block a spilled result covers, given its formula cell; undefined when that cell does not spill.
+   * Cost: O(spill size).
+   */
+  spillRange(sheet: number, row: number, col: number): CellBlock | undefined {
+    const at = (r: number, c: number) => ({ sheet, row: r, col: c });
+    if (!this.hf.doesCellHaveFormula(at(row, col)) || !this.hf.isCellPartOfArray(at(row, col))) return undefined;
+    const child = (r: number, c: number) => this.hf.isCellPartOfArray(at(r, c)) && !this.hf.doesCellHaveFormula(at(r, c)) && this.spillAnchorIs(sheet, r, c, row, col);
+    let columns = 1;
+    while (child(row, col + columns)) columns += 1;
+    let rows = 1;
+    while (child(row + rows, col)) rows += 1;
+    return rows * columns > 1 ? { sheet, row, col, rows, columns } : undefined;
+  }
+
+  private spillAnchorIs(sheet: number, r: number, c: number, row: number, col: number): boolean {
+    const anchor = this.spillAnchor(sheet, r, c);
+    return anchor !== undefined && anchor.row === row && anchor.col === col;
+  }
+
   /** What a cell shows, with its formula or typed constant. */
   cell(sheet: number, row: number, col: number): CellView {
     const address = { sheet, row, col };

@@ -89,3 +89,14 @@ describe('PreviewWorkbook', () => {
     expect(DEMO_NOTICE).toMatch(/invented/i);
   });
 });
+
+describe('spill ranges', () => {
+  it('finds the block a formula spills into, from its formula cell', () => {
+    const book = PreviewWorkbook.create([
+      { name: 'S', cells: [[10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B3, A1:A3)', '=1+1'], [20, 5], [30, 6]], formats: {}, columnWidths: {} },
+    ]);
+    expect(book.spillRange(0, 0, 2)).toEqual({ sheet: 0, row: 0, col: 2, rows: 3, columns: 1 });
+    expect(book.spillRange(0, 0, 3)).toBeUndefined();
+    expect(book.spillRange(0, 1, 2)).toBeUndefined();
+  });
+});
