@@ -17,7 +17,7 @@ const path = require('path');
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const { sources, Compilation } = require('webpack');
-const { DEV_BASE_URL, normaliseBaseUrl, productionManifest } = require('./manifest/writeManifest');
+const { DEV_BASE_URL, normaliseBaseUrl, productionManifest, rewriteMetadata } = require('./manifest/writeManifest');
 const { ICON_SIZES, drawIcon } = require('./manifest/icons');
 const { buildHelpPages, SOURCE: FUNCTIONS_SOURCE, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
 
@@ -48,7 +48,7 @@ class AddinAssetsPlugin {
         () => {
           const asset = compilation.getAsset('functions.json');
           if (!asset || this.baseUrl === DEV_BASE_URL) return;
-          const json = asset.source.source().toString().split(DEV_BASE_URL).join(this.baseUrl);
+          const json = rewriteMetadata(asset.source.source().toString(), this.baseUrl);
           compilation.updateAsset('functions.json', new sources.RawSource(json));
         },
       );

@@ -53,6 +53,18 @@ function rewriteManifest(xml, baseUrl) {
 }
 
 /**
+ * The generated functions.json with its help URLs moved from the development base to `baseUrl`.
+ * @param {string} metadataJson text of functions.json
+ * @param {string} baseUrl
+ * @returns {string}
+ * @throws {Error} on a bad base URL.
+ * @example rewriteMetadata('{"helpUrl": "https://localhost:3000/help/A.html"}', 'https://a.example/x') //=> '{"helpUrl": "https://a.example/x/help/A.html"}'
+ */
+function rewriteMetadata(metadataJson, baseUrl) {
+  return metadataJson.split(DEV_BASE_URL).join(normaliseBaseUrl(baseUrl));
+}
+
+/**
  * Reads manifest/manifest.xml and returns it rewritten for `baseUrl`.
  * @param {string} baseUrl
  * @returns {string}
@@ -61,7 +73,7 @@ function productionManifest(baseUrl) {
   return rewriteManifest(fs.readFileSync(path.join(__dirname, 'manifest.xml'), 'utf8'), baseUrl);
 }
 
-module.exports = { DEV_BASE_URL, normaliseBaseUrl, rewriteManifest, productionManifest };
+module.exports = { DEV_BASE_URL, normaliseBaseUrl, rewriteManifest, rewriteMetadata, productionManifest };
 
 if (require.main === module) {
   const base = process.argv[2] || process.env.ADDIN_BASE_URL || DEV_BASE_URL;

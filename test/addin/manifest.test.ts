@@ -14,6 +14,7 @@ const writer = require('../../manifest/writeManifest') as {
   DEV_BASE_URL: string;
   normaliseBaseUrl(raw: string): string;
   rewriteManifest(xml: string, baseUrl: string): string;
+  rewriteMetadata(json: string, baseUrl: string): string;
 };
 
 const XML = fs.readFileSync(path.join(__dirname, '..', '..', 'manifest', 'manifest.xml'), 'utf8');
@@ -180,6 +181,16 @@ describe('production manifest', () => {
     const rewritten = parseOrdered(out).find((n) => tagOf(n) === 'OfficeApp') as Node;
     expect(allNodes([rewritten]).map(tagOf)).toEqual(allNodes([officeApp]).map(tagOf));
   });
+
+  test('help URLs in functions.json move to the base URL too', async () => {
+    const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
+    const generated = await generateCustomFunctionsMetadata(path.join(__dirname, '..', '..', 'functions', 'functions.ts'), false);
+    const moved = JSON.parse(writer.rewriteMetadata(generated.metadataJson, 'https://addins.example.org/lift-ledger')) as {
+      functions: { id: string; helpUrl: string }[];
+    };
+    expect(moved.functions).toHaveLength(29);
+    for (const f of moved.functions) expect(f.helpUrl).toBe(`https://addins.example.org/lift-ledger/help/${f.id}.html`);
+  }, 60000);
 
   test('the dev URL gives the manifest back unchanged', () => {
     expect(writer.rewriteManifest(XML, writer.DEV_BASE_URL)).toBe(XML);
