@@ -139,7 +139,10 @@ describe('preview workbook in chromium', () => {
     const { page } = preview;
     await switchSheet(page, 'Plan');
     // R: power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) gives n = 685.596858 → 686 (shared/check-values.md)
-    await enterCell(page, 'D4', '=ABTEST.CLASSIC_SAMPLE_SIZE(0.1, 0.5)');
+    // typing into a selected cell starts an edit that replaces it; Enter commits
+    await selectCell(page, 'D4');
+    await page.keyboard.type('=ABTEST.CLASSIC_SAMPLE_SIZE(0.1, 0.5)');
+    await page.keyboard.press('Enter');
     expect((await readCell(page, 'Plan', 'D4')).value).toBe(686);
     await enterCell(page, 'D6', '=ABTEST.PRIOR_FROM_MEAN(0.05, 200)');
     const prior = priorFromMean(0.05, 200);
