@@ -162,6 +162,11 @@ const ALL_OR_NOTHING =
   'the past results are spread as if every visitor in an experiment did the same thing, so no Beta prior ' +
   'worth a positive number of visitors fits them';
 
+/** B_2j / (2j) for j = 1 … 8: the coefficients of the asymptotic series of ψ (Abramowitz & Stegun 6.3.18). */
+const DIGAMMA_SERIES: readonly number[] = Object.freeze([
+  1 / 12, -1 / 120, 1 / 252, -1 / 240, 1 / 132, -691 / 32760, 1 / 12, -3617 / 8160,
+]);
+
 /** ψ(a + k) − ψ(a) for a > 0 and a whole k ≥ 0, without the cancellation of the two digammas at large a. */
 function digammaIncrement(a: number, k: number): number {
   if (k === 0) return 0;
@@ -176,12 +181,10 @@ function digammaIncrement(a: number, k: number): number {
   const b = a + k;
   const x = 1 / (a * a);
   const y = 1 / (b * b);
-  // B_2j / (2j) for j = 1 … 8.
-  const coefficients = [1 / 12, -1 / 120, 1 / 252, -1 / 240, 1 / 132, -691 / 32760, 1 / 12, -3617 / 8160];
   let series = 0;
   let px = x;
   let py = y;
-  for (const c of coefficients) {
+  for (const c of DIGAMMA_SERIES) {
     series += c * (py - px);
     px *= x;
     py *= y;
