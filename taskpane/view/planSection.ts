@@ -85,6 +85,7 @@ export function planSection(context: PanelContext): HTMLElement {
     const myRun = (run.id += 1);
     const inputs = read();
     const problems = planProblems(inputs);
+    if (usePrior.checked() && context.state.prior === null) problems.push('choose a prior in the Prior section first, or untick "Plan with the prior"');
     showMessage(status, 'info', null);
     if (problems.length > 0) {
       results.replaceChildren(el('p', { class: 'error-text' }, `Check the inputs: ${problems.join('; ')}.`));
