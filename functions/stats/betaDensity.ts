@@ -4,14 +4,20 @@
 import { ensure } from './errors';
 import type { WorkingDensity } from './types';
 
-/** The stable logistic function 1/(1 + e^{−z}). */
+/**
+ * The logistic function 1/(1 + e^{−z}), written so that neither branch overflows. Cost: O(1).
+ * @example logistic(-800) //=> 0 (e^-800 underflows), logistic(0) //=> 0.5
+ */
 export function logistic(z: number): number {
   if (z >= 0) return 1 / (1 + Math.exp(-z));
   const e = Math.exp(z);
   return e / (1 + e);
 }
 
-/** log(p/(1 − p)), the inverse of {@link logistic}. */
+/**
+ * log(p/(1 − p)), the inverse of {@link logistic}, as log(p) − log1p(−p) (no cancellation for p near 0).
+ * Cost: O(1). @example logit(0.5) //=> 0
+ */
 export function logit(p: number): number {
   return Math.log(p) - Math.log1p(-p);
 }

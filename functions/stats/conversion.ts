@@ -71,7 +71,7 @@ function shapes(v: ConversionCounts, prior: BetaPrior): [number, number] {
 /**
  * The tabulated posterior of one variant's rate (in logit, coordinate "logit").
  * Cost: one tabulation (~60–80 panels). Throws StatsError('invalid_argument') for bad shapes.
- * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) //=> 0.0546875 (pbeta(0.5, 8, 3))
+ * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) // 0.05468749999999… (pbeta(0.5, 8, 3) = 0.0546875)
  */
 export function posteriorOf(v: ConversionCounts, prior: BetaPrior = UNIFORM_PRIOR): TabulatedDistribution {
   const [a, b] = shapes(v, prior);
@@ -200,7 +200,7 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
  * relative lift rate/control − 1 (quantiles of the ratio distribution, compare.ts).
  * Cost: ~3 × 6 integrals per challenger. Errors as probHighest, plus a level outside (0, 1).
  * @example liftInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
- * // [{ lower: −0.10…, median: 0.29…, upper: 0.84… }]
+ * // [{ lower: -0.0900…, median: 0.2960…, upper: 0.8571… }] (mpmath: -0.0900205695, 0.857069957)
  */
 export function liftInterval(
   variants: readonly ConversionCounts[],
@@ -293,7 +293,7 @@ export interface Decision {
  * posterior mean rate. Cost: as expectedLoss.
  * Throws StatsError('invalid_argument') for bad counts, prior or a maxLoss below 0.
  * @example decide([{ conversions: 300, visitors: 10000 }, { conversions: 420, visitors: 10000 }], undefined, UNIFORM_PRIOR)
- * // { choose: true, index: 1, loss: ~1e-8, maxLoss: 0.0003… }
+ * // { choose: true, index: 1, loss: 1.355…e-9, maxLoss: 0.000300939… }
  */
 export function decide(
   variants: readonly ConversionCounts[],
@@ -328,7 +328,7 @@ function evenGrid(lo: number, hi: number, points: number): number[] {
  * union of the variants' central 99.9% intervals, and each variant's density there (per unit of rate).
  * Cost: k tabulations and k × points density evaluations.
  * Throws StatsError('invalid_argument') for bad counts, prior or points (2 … 1000).
- * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid // [0.146…, 0.5, 0.853…]
+ * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid // [0.1100…, 0.5000…, 0.8899…]
  */
 export function posteriorDensityTable(
   variants: readonly ConversionCounts[],

@@ -265,6 +265,10 @@ export class TabulatedDistribution {
   private readonly nodeLogCdf: Float64Array;
   /** log(1 − F) at each node, accumulated from the right (filled with nodeLogCdf). */
   private readonly nodeLogSf: Float64Array;
+  /** Working space of {@link ensurePanel} (its contents never outlive one call). */
+  private readonly scratchLeft = new Float64Array(PANEL_ORDER);
+  private readonly scratchRight = new Float64Array(PANEL_ORDER);
+  private readonly scratchWork = new Float64Array(PANEL_ORDER);
   /** 1 where a panel's node log F and log(1 − F) have been computed. */
   private readonly panelReady: Uint8Array;
   /** 1 for panels left of the median (log F interpolated there), 0 right of it (log(1 − F) interpolated). */
@@ -408,7 +412,10 @@ export class TabulatedDistribution {
     return this.edges[this.edges.length - 1] as number;
   }
 
-  /** Index of the panel containing z (clamped to the window). Binary search, O(log panels). */
+  /**
+   * Index of the panel containing z (clamped to the window). Binary search, O(log panels).
+   * @example tabulate(betaWorkingDensity(8, 10)).findPanel(-1e9) //=> 0
+   */
   findPanel(z: number): number {
     let lo = 0;
     let hi = this.edges.length - 2;
@@ -420,7 +427,10 @@ export class TabulatedDistribution {
     return lo;
   }
 
-  /** log of the normalised density in z at any z (direct evaluation of the source density). */
+  /**
+   * log of the normalised density in z at any z (direct evaluation of the source density). O(1).
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logDensityAt(0)) // 0.25 (p(1 − p) at p = ½)
+   */
   logDensityAt(z: number): number {
     return this.source.logDensity(z) - this.logNormaliser;
   }
@@ -433,11 +443,11 @@ export class TabulatedDistribution {
   private ensurePanel(p: number): void {
     if (this.panelReady[p] === 1) return;
     const n = PANEL_ORDER;
-    const left = new Float64Array(n);
-    const right = new Float64Array(n);
-    const scratch = new Float64Array(n);
+    const left = this.scratchLeft;
+    const right = this.scratchRight;
+    const work = this.scratchWork;
     const half = ((this.edges[p + 1] as number) - (this.edges[p] as number)) / 2;
-    inPanelPartials(this.nodeLogDensity, p * n, half, left, right, scratch);
+    inPanelPartials(this.nodeLogDensity, p * n, half, left, right, work);
     for (let k = 0; k < n; k++) {
       this.nodeLogCdf[p * n + k] = logAddExp(this.edgeLogCdf[p] as number, left[k] as number);
       this.nodeLogSf[p * n + k] = logAddExp(this.edgeLogSf[p + 1] as number, right[k] as number);
@@ -448,6 +458,8 @@ export class TabulatedDistribution {
   /**
    * log F and log(1 − F) at panel p's 16 nodes (views into the tables; do not modify). log F is accurate
    * relative to F where F is small and to ~1e-16 absolute near 1, log(1 − F) the other way round.
+   * Cost: one panel's partial integrals on first use, then O(1).
+   * @example tabulate(betaWorkingDensity(8, 10)).panelCdfTables(0).logCdf.length //=> 16
    */
   panelCdfTables(p: number): { readonly logCdf: Float64Array; readonly logSf: Float64Array } {
     this.ensurePanel(p);
@@ -461,6 +473,7 @@ export class TabulatedDistribution {
    * median, of log(1 − F) right of it (then converted with log1mExp), so it is accurate relative to F in
    * the lower tail and relative to 1 − F in the upper. Beyond the window the exponential-tail form
    * f/|slope| is used. Cost: ~60 flops (+ exp and log1p right of the median).
+   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logCdfAt(0)) // 0.685470581054… (pbeta(0.5, 8, 10))
    */
   logCdfAt(z: number): number {
     if (z <= this.windowLeft) return this.leftTail(z);
@@ -471,7 +484,10 @@ export class TabulatedDistribution {
     return log1mExp(Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z)));
   }
 
-  /** log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}). */
+  /**
+   * log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}).
+   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) // 0.314529418945… (1 − pbeta(0.5, 8, 10))
+   */
   logSfAt(z: number): number {
     if (z <= this.windowLeft) return log1mExp(this.leftTail(z));
     if (z >= this.windowRight) return this.rightTail(z);
@@ -507,12 +523,18 @@ export class TabulatedDistribution {
     return Math.exp(this.logCdf(x));
   }
 
-  /** P(X > x), accurate relative to itself in the upper tail. */
+  /**
+   * P(X > x), accurate relative to itself in the upper tail.
+   * @example tabulate(betaWorkingDensity(8, 10)).sf(0.5) // 0.3145294189453… (1 − pbeta(0.5, 8, 10))
+   */
   sf(x: number): number {
     return Math.exp(this.logSf(x));
   }
 
-  /** log of the density of the value at x (per unit of value). */
+  /**
+   * log of the density of the value at x (per unit of value); −Infinity outside the value range. O(1).
+   * @example tabulate(betaWorkingDensity(1, 1)).logValueDensity(0.3) // ≈ 0 (the uniform density is 1)
+   */
   logValueDensity(x: number): number {
     const [lo, hi] = this.source.valueRange;
     if (!(x > lo && x < hi)) return -Infinity;
@@ -531,6 +553,8 @@ export class TabulatedDistribution {
   /**
    * The working value z with F(z) = p. Newton on the interpolated log F with the exact density as
    * derivative, safeguarded by bisection inside the panel found from the edge values. Cost: ~5 steps.
+   * Throws StatsError('invalid_argument') unless 0 < p < 1.
+   * @example tabulate(betaWorkingDensity(8, 10)).workingQuantile(0.685470581054688) // ≈ 0 (logit of 0.5)
    */
   workingQuantile(p: number): number {
     if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
@@ -553,7 +577,10 @@ export class TabulatedDistribution {
     );
   }
 
-  /** The working value z with 1 − F(z) = q (for small q without forming 1 − q). */
+  /**
+   * The working value z with 1 − F(z) = q (for small q without forming 1 − q). Same method and errors as
+   * workingQuantile. @example tabulate(betaWorkingDensity(1, 1)).workingQuantileUpper(0.5) // ≈ 0
+   */
   workingQuantileUpper(q: number): number {
     if (!(q > 0 && q < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${q}`);
     if (q > 0.5) return this.workingQuantile(1 - q);
@@ -586,7 +613,10 @@ export class TabulatedDistribution {
     return this.source.toValue(this.workingQuantile(p));
   }
 
-  /** The value x with P(X > x) = q, accurate for tiny q. */
+  /**
+   * The value x with P(X > x) = q, accurate for tiny q (no 1 − q is formed).
+   * @example tabulate(betaWorkingDensity(1, 11)).quantileUpper(1e-30) // 0.9982… (1 − 1e-30^(1/11))
+   */
   quantileUpper(q: number): number {
     return this.source.toValue(this.workingQuantileUpper(q));
   }
@@ -594,7 +624,8 @@ export class TabulatedDistribution {
   /**
    * log G(z) with G(x) = ∫_{lo}^{x} F(u) du = E[(x − X)^+], the integrated cdf (lower partial moment),
    * in value units, accurate relative to itself in the left tail. Built on first use. Used for
-   * expected losses: E[(Y − X)^+] = ∫ f_Y(y) G_X(y) dy.
+   * expected losses: E[(Y − X)^+] = ∫ f_Y(y) G_X(y) dy. Cost: all panels' tables on first use, then O(1).
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMomentAt(0)) // 0.125 (x²/2 at x = ½)
    */
   logLowerMomentAt(z: number): number {
     const tables = this.lowerMomentTables();
@@ -608,7 +639,10 @@ export class TabulatedDistribution {
     return this.interpolate(tables.edge, tables.node, this.findPanel(z), z);
   }
 
-  /** log E[(x − X)^+] at the value x; −Infinity at or below the lowest value. */
+  /**
+   * log E[(x − X)^+] at the value x; −Infinity at or below the lowest value.
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMoment(0.3)) // 0.045 (x²/2)
+   */
   logLowerMoment(x: number): number {
     const [lo, hi] = this.source.valueRange;
     if (x <= lo) return -Infinity;

@@ -17,8 +17,8 @@ import mpmath as mp
 
 sys.argv = sys.argv[:1]
 HERE = __file__.rsplit('/', 1)[0]
-source = open(HERE + '/conversion_reference.py').read().replace("if __name__ == '__main__':\n    main()", '')
-exec(source)  # defines BetaZ, mp settings (40 digits)
+source = open(HERE + '/conversion_reference.py').read().split('\nSECTIONS = ')[0]
+exec(source)  # the definitions only: BetaZ, mp settings (40 digits)
 # Reach log density -300 (the default 130 is enough for the comparisons): the exponential-tail value
 # used beyond the last anchor is then far below every tabulated point (those are kept above -150).
 LOG_RANGE = 300

@@ -221,44 +221,42 @@ def logit(x):
     return mp.log(x) - mp.log1p(-x)
 
 
-def diff_tails(y, x, d):
-    """P(Y - X <= d) and P(Y - X > d) = int f_X(s) F_Y(s + d) ds, int f_X(s) S_Y(s + d) ds."""
+def diff_tail(y, x, d, upper):
+    """P(Y - X <= d) (upper False) or P(Y - X > d) (upper True) = int f_X(s) F_Y(s + d) ds or with S_Y."""
 
-    def at(z, upper):
+    def at(z):
         u = logistic(z) + d
         if u <= 0:
-            return mp.mpf(0) if not upper else mp.mpf(1)
+            return mp.mpf(1) if upper else mp.mpf(0)
         if u >= 1:
-            return mp.mpf(1) if not upper else mp.mpf(0)
+            return mp.mpf(0) if upper else mp.mpf(1)
         zu = logit(u)
         return y.upper(zu) if upper else y.lower(zu)
 
-    lo = integrate(x, lambda z: x.dens(z) * at(z, False), [])
-    up = integrate(x, lambda z: x.dens(z) * at(z, True), [])
-    return lo, up
+    return integrate(x, lambda z: x.dens(z) * at(z), [])
 
 
-def ratio_tails(y, x, m):
-    """P(Y/X - 1 <= m) and its complement: int f_X(s) F_Y((1 + m)s) ds."""
+def ratio_tail(y, x, r, upper):
+    """P(log(Y/X) <= r) or P(log(Y/X) > r) = int f_X(s) F_Y(e^r s) ds (lift = e^r - 1)."""
+    k = mp.exp(r)
 
-    def at(z, upper):
-        u = (1 + m) * logistic(z)
+    def at(z):
+        u = k * logistic(z)
         if u >= 1:
-            return mp.mpf(1) if not upper else mp.mpf(0)
+            return mp.mpf(0) if upper else mp.mpf(1)
         zu = logit(u)
         return y.upper(zu) if upper else y.lower(zu)
 
-    lo = integrate(x, lambda z: x.dens(z) * at(z, False), [])
-    up = integrate(x, lambda z: x.dens(z) * at(z, True), [])
-    return lo, up
+    return integrate(x, lambda z: x.dens(z) * at(z), [])
 
 
-def quantile_of(tails, p, start):
+def quantile_of(tail, p, start):
+    """Root of log P(V <= v) = log p (p <= 1/2) or log P(V > v) = log(1 - p), by the secant method."""
     p = mp.mpf(p)
+    upper = p > 0.5
 
     def f(v):
-        lo, up = tails(v)
-        return mp.log(lo) - mp.log(p) if p <= 0.5 else mp.log(1 - p) - mp.log(up)
+        return mp.log(1 - p) - mp.log(tail(v, True)) if upper else mp.log(tail(v, False)) - mp.log(p)
 
     return mp.findroot(f, start, solver='secant', tol=mp.mpf(10) ** -30)
 
@@ -267,25 +265,8 @@ def s(v):
     return mp.nstr(v, 30, min_fixed=-1000, max_fixed=1000) if False else mp.nstr(v, 30)
 
 
-def main():
-    out = {
-        'source': 'mpmath ' + mp.__version__ + ' at 40 digits: test/reference/conversion_reference.py',
-        'checks': {},
-        'probGreater': [],
-        'probHighest': [],
-        'expectedLoss': [],
-        'liftQuantile': [],
-        'diffQuantile': [],
-        'rateQuantile': [],
-    }
-    # Self-check of the cdf against mpmath.betainc where the hypergeometric series converges.
-    worst = mp.mpf(0)
-    for a, b, x in [(8, 10, 0.5), (3, 50, 0.02), (20, 200, 0.12), (0.5, 0.5, 0.3), (1, 1001, 0.001)]:
-        d = BetaZ(a, b)
-        ref = mp.betainc(a, b, 0, x, regularized=True)
-        worst = max(worst, abs(d.cdf_value(mp.mpf(x)) / ref - 1))
-    out['checks']['cdfVsBetaincWorstRelative'] = s(worst)
-
+def main(section):
+    out = {}
     pairs = [
         # (control conversions, visitors), (challenger conversions, visitors)
         ((10, 100), (15, 100)),
@@ -304,26 +285,6 @@ def main():
         ((60, 1000), (50000000, 1000000000)),
         ((1000000000, 1000000000), (999999995, 1000000000)),
     ]
-    worst_sum = mp.mpf(0)
-    for control, challenger in pairs:
-        a = posterior(*control)
-        b = posterior(*challenger)
-        gt, lt = prob_greater(b, a)
-        worst_sum = max(worst_sum, abs(gt + lt - 1))
-        out['probGreater'].append({'control': list(control), 'challenger': list(challenger),
-                                   'pChallengerAbove': s(gt), 'pControlAbove': s(lt)})
-        print('probGreater', control, challenger, mp.nstr(gt, 15), file=sys.stderr)
-    out['checks']['probGreaterSumWorst'] = s(worst_sum)
-    # Evan Miller (2015): P(p_B > p_A) = sum_{i<a_B} B(a_A+i, b_A+b_B) / ((b_B+i) B(1+i, b_B) B(a_A, b_A)).
-    worst = mp.mpf(0)
-    for control, challenger in [pairs[0], pairs[1], pairs[7], pairs[9]]:
-        aA, bA = 1 + control[0], 1 + control[1] - control[0]
-        aB, bB = 1 + challenger[0], 1 + challenger[1] - challenger[0]
-        exact = mp.fsum(mp.beta(aA + i, bA + bB) / ((bB + i) * mp.beta(1 + i, bB) * mp.beta(aA, bA)) for i in range(aB))
-        gt, _ = prob_greater(posterior(*challenger), posterior(*control))
-        worst = max(worst, abs(gt / exact - 1))
-    out['checks']['probGreaterVsEvanMillerWorstRelative'] = s(worst)
-
     groups = [
         [(50, 1000), (60, 1000), (55, 1000)],
         [(500, 10000), (520, 10000), (480, 10000), (530, 10000), (510, 10000)],
@@ -332,43 +293,94 @@ def main():
         [(50000000, 1000000000), (50005000, 1000000000), (49995000, 1000000000)],
         [(0, 10), (1, 10), (0, 1), (2, 10)],
     ]
-    worst_sum = mp.mpf(0)
-    for g in groups:
-        ds = [posterior(*v) for v in g]
-        ph = prob_highest(ds)
-        worst_sum = max(worst_sum, abs(mp.fsum(ph) - 1))
-        out['probHighest'].append({'variants': [list(v) for v in g], 'pHighest': [s(v) for v in ph]})
-        print('probHighest', g, [mp.nstr(v, 10) for v in ph], file=sys.stderr)
-    out['checks']['probHighestSumWorst'] = s(worst_sum)
+    if section == 'probGreater':
+        out['checks'] = {}
+        # Self-check of the cdf against mpmath.betainc where the hypergeometric series converges.
+        worst = mp.mpf(0)
+        for a, b, x in [(8, 10, 0.5), (3, 50, 0.02), (20, 200, 0.12), (0.5, 0.5, 0.3), (1, 1001, 0.001)]:
+            d = BetaZ(a, b)
+            ref = mp.betainc(a, b, 0, x, regularized=True)
+            worst = max(worst, abs(d.cdf_value(mp.mpf(x)) / ref - 1))
+        out['checks']['cdfVsBetaincWorstRelative'] = s(worst)
+        out['probGreater'] = []
+        worst_sum = mp.mpf(0)
+        for control, challenger in pairs:
+            a = posterior(*control)
+            b = posterior(*challenger)
+            gt, lt = prob_greater(b, a)
+            worst_sum = max(worst_sum, abs(gt + lt - 1))
+            out['probGreater'].append({'control': list(control), 'challenger': list(challenger),
+                                       'pChallengerAbove': s(gt), 'pControlAbove': s(lt)})
+            print('probGreater', control, challenger, mp.nstr(gt, 15), file=sys.stderr)
+        out['checks']['probGreaterSumWorst'] = s(worst_sum)
+        # Evan Miller (2015): P(p_B > p_A) = sum_{i<a_B} B(a_A+i, b_A+b_B) / ((b_B+i) B(1+i, b_B) B(a_A, b_A)).
+        worst = mp.mpf(0)
+        for control, challenger in [pairs[0], pairs[1], pairs[7], pairs[9]]:
+            aA, bA = 1 + control[0], 1 + control[1] - control[0]
+            aB, bB = 1 + challenger[0], 1 + challenger[1] - challenger[0]
+            exact = mp.fsum(mp.beta(aA + i, bA + bB) / ((bB + i) * mp.beta(1 + i, bB) * mp.beta(aA, bA)) for i in range(aB))
+            gt, _ = prob_greater(posterior(*challenger), posterior(*control))
+            worst = max(worst, abs(gt / exact - 1))
+        out['checks']['probGreaterVsEvanMillerWorstRelative'] = s(worst)
+        out['rateQuantile'] = []
+        for v in [(0, 1000), (50, 1000), (1000, 1000), (0, 1), (50000000, 1000000000), (1000000000, 1000000000)]:
+            d = posterior(*v)
+            for p in ['0.025', '0.5', '0.975']:
+                out['rateQuantile'].append({'variant': list(v), 'p': float(p), 'rate': s(d.quantile(p))})
+    elif section == 'probHighest':
+        out['probHighest'] = []
+        worst_sum = mp.mpf(0)
+        for g in groups:
+            ds = [posterior(*v) for v in g]
+            ph = prob_highest(ds)
+            worst_sum = max(worst_sum, abs(mp.fsum(ph) - 1))
+            out['probHighest'].append({'variants': [list(v) for v in g], 'pHighest': [s(v) for v in ph]})
+            print('probHighest', g, [mp.nstr(v, 10) for v in ph], file=sys.stderr)
+        out['checks'] = {'probHighestSumWorst': s(worst_sum)}
+    elif section == 'expectedLoss':
+        out['expectedLoss'] = []
+        for g in [pairs[0], pairs[1], pairs[3], pairs[6], pairs[7], pairs[10], pairs[13], groups[0], groups[5]]:
+            g = list(g)
+            ds = [posterior(*v) for v in g]
+            loss = expected_loss(ds)
+            out['expectedLoss'].append({'variants': [list(v) for v in g], 'loss': [s(v) for v in loss]})
+            print('loss', g, [mp.nstr(v, 10) for v in loss], file=sys.stderr)
+    elif section == 'quantiles':
+        out['liftQuantile'] = []
+        out['diffQuantile'] = []
+        for control, challenger in [pairs[0], pairs[1], pairs[7]]:
+            x = posterior(*control)
+            y = posterior(*challenger)
+            mx = x.a / (x.a + x.b)
+            my = y.a / (y.a + y.b)
+            sx = mp.sqrt(mx * (1 - mx) / (x.a + x.b))
+            sy = mp.sqrt(my * (1 - my) / (y.a + y.b))
+            for p in ['0.025', '0.975']:
+                zq = -1.96 if p == '0.025' else 1.96
+                # Starting points from the normal approximations (delta method for the log ratio).
+                r0 = mp.log(my / mx) + zq * mp.sqrt((sx / mx) ** 2 + (sy / my) ** 2)
+                r = quantile_of(lambda v, upper: ratio_tail(y, x, v, upper), p, (r0, r0 * 1.02 + 0.01))
+                out['liftQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p),
+                                            'lift': s(mp.expm1(r))})
+                d0 = my - mx + zq * mp.sqrt(sx ** 2 + sy ** 2)
+                d = quantile_of(lambda v, upper: diff_tail(y, x, v, upper), p, (d0, d0 * 1.02 + 0.001))
+                out['diffQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p),
+                                            'difference': s(d)})
+                print('quantiles', control, challenger, p, mp.nstr(mp.expm1(r), 12), mp.nstr(d, 12), file=sys.stderr)
+    return out
 
-    for g in [pairs[0], pairs[1], pairs[3], pairs[6], pairs[7], pairs[10], pairs[13], groups[0], groups[5]]:
-        g = list(g)
-        ds = [posterior(*v) for v in g]
-        loss = expected_loss(ds)
-        out['expectedLoss'].append({'variants': [list(v) for v in g], 'loss': [s(v) for v in loss]})
-        print('loss', g, [mp.nstr(v, 10) for v in loss], file=sys.stderr)
 
-    for control, challenger in [pairs[0], pairs[1], pairs[7]]:
-        x = posterior(*control)
-        y = posterior(*challenger)
-        mx = x.a / (x.a + x.b)
-        my = y.a / (y.a + y.b)
-        for p in ['0.025', '0.975']:
-            guess = my / mx - 1
-            q = quantile_of(lambda m: ratio_tails(y, x, m), p, (guess, guess * 1.1 + 0.01))
-            out['liftQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p), 'lift': s(q)})
-            guess_d = my - mx
-            qd = quantile_of(lambda d: diff_tails(y, x, d), p, (guess_d, guess_d * 1.1 + 0.001))
-            out['diffQuantile'].append({'control': list(control), 'challenger': list(challenger), 'p': float(p), 'difference': s(qd)})
-            print('quantiles', control, challenger, p, mp.nstr(q, 12), mp.nstr(qd, 12), file=sys.stderr)
-
-    for v in [(0, 1000), (50, 1000), (1000, 1000), (0, 1), (50000000, 1000000000), (1000000000, 1000000000)]:
-        d = posterior(*v)
-        for p in ['0.025', '0.5', '0.975']:
-            out['rateQuantile'].append({'variant': list(v), 'p': float(p), 'rate': s(d.quantile(p))})
-
-    print(json.dumps(out, indent=1))
-
+SECTIONS = ['probGreater', 'probHighest', 'expectedLoss', 'quantiles']
 
 if __name__ == '__main__':
-    main()
+    # With no argument: every section, merged (what conversion_values.json holds). With section names:
+    # just those (the committed file was made by running the four sections in parallel and merging).
+    chosen = sys.argv[1:] or SECTIONS
+    result = {'source': 'mpmath ' + mp.__version__ + ' at 40 digits: test/reference/conversion_reference.py'}
+    checks = {}
+    for name in chosen:
+        part = main(name)
+        checks.update(part.pop('checks', {}))
+        result.update(part)
+    result['checks'] = checks
+    print(json.dumps(result, indent=1))
