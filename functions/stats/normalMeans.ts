@@ -94,7 +94,7 @@ function quantileOf(p: MeanPosterior, prob: number): number {
  * Throws StatsError('invalid_argument') for a count below 2 or not whole, a negative sd, a non-finite
  * mean or a level outside (0, 1); 1 to 50 variants.
  * @example meanInterval([{ count: 100, mean: 48, sd: 20 }], 0.95)
- * //=> [{ lower: 44.031…, upper: 51.968… }] (scipy: 48 + 2·t.ppf(0.025, 99) = 44.0316…)
+ * //=> [{ lower: 44.031566096827…, upper: 51.968433903172… }] (scipy: 48 + 2·t.ppf(0.025, 99))
  */
 export function meanInterval(variants: readonly MeanSummary[], level = 0.95): Interval[] {
   checkLevel(level);
@@ -134,7 +134,7 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') when some but not all variants have sd = 0.
  * @example meanProbHighest([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
- * //=> [0.0899…, 0.9100…]
+ * //=> [0.091129888005…, 0.908870111994…]
  */
 export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
@@ -156,7 +156,7 @@ export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
  * Cost: one tabulation per variant plus O(panels) per challenger.
  * Throws StatsError('invalid_argument') for bad input; 2 to 50 variants.
  * @example meanProbAboveControl([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
- * //=> [0.9100…]
+ * //=> [0.908870111994…]
  */
 export function meanProbAboveControl(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
@@ -181,7 +181,7 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
  * Cost: tabulation plus a root search of O(panels) integrals per challenger.
  * Throws StatsError('invalid_argument') for bad input; 2 to 50 variants.
  * @example meanDiffInterval([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0.95)
- * //=> [{ lower: -1.86…, median: 4, upper: 9.86… }]
+ * //=> [{ lower: -1.893549289701…, median: 4, upper: 9.893549289701… }]
  */
 export function meanDiffInterval(variants: readonly MeanSummary[], level = 0.95): IntervalWithMedian[] {
   checkLevel(level);
@@ -262,11 +262,18 @@ class SignedRatio {
   private readonly xAboveZero: number;
   private readonly rule = gaussLegendre(PANEL_ORDER);
 
+  /** Posterior scales (s/√n) of Y and X: the widths that decide the base. */
+  private readonly yScale: number;
+  private readonly xScale: number;
+
   constructor(
     private readonly y: TabulatedDistribution,
     private readonly x: TabulatedDistribution,
+    challenger: MeanPosterior,
     control: MeanPosterior,
   ) {
+    this.yScale = challenger.scale;
+    this.xScale = control.scale;
     this.yNodes = nodeMasses(y);
     this.xNodes = nodeMasses(x);
     // Exact tails of the control at zero, from the t distribution function.
@@ -276,7 +283,9 @@ class SignedRatio {
 
   /** P(Y/X ≤ k). */
   cdf(k: number): number {
-    return this.y.spread <= Math.abs(k) * this.x.spread ? this.overY(k) : this.overX(k);
+    // The posterior scale, not the tabulation's spread: in u the t is flat-topped (curvature 1/ν at the
+    // mode), so the spread overstates a large-count posterior's width by √ν.
+    return this.yScale <= Math.abs(k) * this.xScale ? this.overY(k) : this.overX(k);
   }
 
   private overY(k: number): number {
@@ -363,7 +372,7 @@ function percent(p: number): string {
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') naming the control when its mean could plausibly be ≤ 0.
  * @example meanLiftInterval([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0.95)
- * //=> [{ lower: -0.037…, median: 0.083…, upper: 0.211… }]
+ * //=> [{ lower: -0.037394058659…, median: 0.083333333333…, upper: 0.218941375262… }]
  */
 export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95): IntervalWithMedian[] {
   checkLevel(level);
@@ -388,7 +397,7 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
     } else if (isPoint(p)) {
       q = probs.map((prob) => pointOverControlLift(p.centre, control, prob, belowZero));
     } else {
-      const ratio = new SignedRatio(tabulateOne(p), controlTable, control);
+      const ratio = new SignedRatio(tabulateOne(p), controlTable, p, control);
       const guess = p.centre / control.centre - 1;
       const width = 4 * ((p.scale + Math.abs(p.centre) * (control.scale / control.centre)) / control.centre);
       q = probs.map((prob) => ratio.liftQuantile(prob, guess, width));
@@ -410,7 +419,7 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') for a variant with count 2 or a mix of sd = 0 and sd > 0.
  * @example meanExpectedLoss([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
- * //=> [4.08…, 0.08…]
+ * //=> [4.128290345207…, 0.128290345207…]
  */
 export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
