@@ -50,11 +50,14 @@ function sech2(u: number): number {
  *   curvature = sech²u·(ν + (ν−1)·tanh²u·(3ν + 1 − (ν−1)·tanh²u)) / (ν·sech²u + tanh²u)²,
  * derived by hand from the t density (standard; the posterior of a Normal mean under the reference prior
  * is this t with ν = n − 1, centre x̄, scale s/√n: Gelman et al., Bayesian Data Analysis, 3rd ed., §3.2).
- * At ν = 1 (Cauchy) these reduce to −log cosh u, −tanh u and sech²u.
+ * At ν = 1 (Cauchy) these reduce to −log cosh u, −tanh u and sech²u. The curvature at the mode is 1/ν:
+ * for large ν the density in u is flat-topped (≈ exp(−u⁴/4) near 0, the asinh of a near-normal), so a
+ * width taken from the mode's curvature (the tabulation's `spread`) overstates the posterior's width by
+ * √ν; compare posteriors by their `scale` instead.
  *
  * Cost: O(1) to build, O(1) per evaluation. Throws StatsError('invalid_argument') unless df ≥ 1,
  * centre is finite and scale > 0 is finite.
- * @example studentTWorkingDensity(1, 0, 1).logDensity(1) //=> -0.4337808304830272 (−log cosh 1)
+ * @example studentTWorkingDensity(1, 0, 1).logDensity(1) //=> -0.433780830483027 (−log cosh 1)
  * @example studentTWorkingDensity(9, 25, 2).toValue(Math.asinh(1)) //=> 27
  */
 export function studentTWorkingDensity(df: number, centre: number, scale: number): WorkingDensity {
