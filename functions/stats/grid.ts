@@ -124,6 +124,9 @@ function buildPanelTables(): PanelTables {
 /** Read-only tables shared by every tabulation (no state: computed once, never written again). */
 const TABLES: PanelTables = buildPanelTables();
 
+/** log of the 16 Gauss–Legendre weights. */
+const LOG_WEIGHTS: readonly number[] = TABLES.weights.map((w) => Math.log(w));
+
 /** The 16 Gauss–Legendre nodes on [−1, 1] that every panel uses, ascending (read only). */
 export const PANEL_NODES: readonly number[] = TABLES.nodes;
 
@@ -254,11 +257,8 @@ export class TabulatedDistribution {
   readonly mean: number;
   /** A width of the value near the mode: valueJacobian(mode)/√curvature(mode). */
   readonly spread: number;
-  /**
-   * An upper bound of the log density of the value (the largest node value plus one, for the peak between
-   * nodes); +Infinity where the value density is unbounded (a Beta with a < 1).
-   */
-  readonly logMaxValueDensity: number;
+  /** Cache of {@link logMaxValueDensity}. */
+  private maxValueDensity: number | undefined;
   /** Panel indices by decreasing mass (ties by index): the order compare.ts visits them in. */
   readonly panelOrder: Int32Array;
   /** log F at each node (filled per panel on first use; see {@link panelCdfTables}). */
@@ -320,7 +320,7 @@ export class TabulatedDistribution {
     }
     const panels = edgeList.length - 1;
     const n = PANEL_ORDER;
-    const { nodes, weights } = TABLES;
+    const { nodes } = TABLES;
     this.edges = Float64Array.from(edgeList);
     this.nodeZ = new Float64Array(panels * n);
     this.nodeLogWeight = new Float64Array(panels * n);
@@ -337,6 +337,7 @@ export class TabulatedDistribution {
       const a = this.edges[p] as number;
       const b = this.edges[p + 1] as number;
       const half = (b - a) / 2;
+      const logHalf = Math.log(half);
       const mid = (a + b) / 2;
       let max = -Infinity;
       for (let k = 0; k < n; k++) {
@@ -344,7 +345,7 @@ export class TabulatedDistribution {
         const phi = source.logDensity(zk);
         if (Number.isNaN(phi)) throw failure(`the log density is NaN at ${zk}`);
         this.nodeZ[p * n + k] = zk;
-        this.nodeLogWeight[p * n + k] = Math.log(half * (weights[k] as number));
+        this.nodeLogWeight[p * n + k] = logHalf + (LOG_WEIGHTS[k] as number);
         this.nodeLogDensity[p * n + k] = phi;
         if (phi > max) max = phi;
       }
@@ -387,14 +388,26 @@ export class TabulatedDistribution {
       }
     }
     this.mean = mean;
-    let maxValueDensity = -Infinity;
-    for (let i = 0; i < panels * n; i++) {
-      const v = (this.nodeLogDensity[i] as number) - Math.log(source.valueJacobian(this.nodeZ[i] as number));
-      if (v > maxValueDensity) maxValueDensity = v;
-    }
-    this.logMaxValueDensity = maxValueDensity + 1;
+    this.maxValueDensity = undefined;
     this.spread = source.valueJacobian(source.mode) / Math.sqrt(source.curvature(source.mode));
     this.lowerMoment = undefined;
+  }
+
+  /**
+   * An upper bound of the log density of the value (the largest node value plus one, for the peak between
+   * nodes); +Infinity where the value density is unbounded (a Beta with a < 1). Computed on first use.
+   * @example tabulate(betaWorkingDensity(1, 1)).logMaxValueDensity // ≈ 1 (log of the uniform density, plus 1)
+   */
+  get logMaxValueDensity(): number {
+    if (this.maxValueDensity === undefined) {
+      let max = -Infinity;
+      for (let i = 0; i < this.nodeZ.length; i++) {
+        const v = (this.nodeLogDensity[i] as number) - Math.log(this.source.valueJacobian(this.nodeZ[i] as number));
+        if (v > max) max = v;
+      }
+      this.maxValueDensity = max + 1;
+    }
+    return this.maxValueDensity;
   }
 
   /** Number of panels. */
