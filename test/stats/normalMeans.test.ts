@@ -7,6 +7,7 @@
  */
 import reference from '../reference/means_values.json';
 import signedRatio from '../reference/means_signed_ratio.json';
+import heavyTails from '../reference/means_heavy_tails.json';
 import { StatsError } from '../../functions/stats/errors';
 import {
   meanDiffInterval,
@@ -166,6 +167,13 @@ describe('normalMeans against 50-digit mpmath', () => {
     const c = byName(name);
     const [got = NaN] = meanProbAboveControl(c.variants.slice(0, 2));
     expect(Math.abs(got - entry.probAboveControl)).toBeLessThanOrEqual(1e-10);
+  });
+
+  test('expected losses with 2 degrees of freedom (mpmath, closed-form t cdf; means_heavy_tails.py)', () => {
+    // scipy's quadrature of this slowly decaying integrand (tiny_3 above) is good only to ~3e-8, so the
+    // heavy-tailed losses are held to mpmath at 30 digits instead: 1e-11 relative.
+    const got = meanExpectedLoss(heavyTails.variants);
+    heavyTails.expectedLoss.forEach((want, i) => expect(Math.abs((got[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-11 * want));
   });
 
   test('t quantiles at 1 and 2 degrees of freedom (closed forms in mpmath)', () => {
