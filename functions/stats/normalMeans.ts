@@ -11,8 +11,9 @@
  * A variant with sd = 0 (every value equal, e.g. no sales at all) is treated as a point mass at its mean
  * (the limit of the t posterior as the scale goes to 0): its interval is [mean, mean]; comparisons with
  * it go through the other variant's t distribution exactly; ties between two point masses count half
- * each way. P(highest) and expected loss are computed when no variant or every variant has sd = 0; a mix
- * of the two is reported as not available.
+ * each way. P(highest) and expected loss are computed when no variant, every variant, or all but one
+ * variant has sd = 0; two or more variants with spread beside one with sd = 0 are reported as not
+ * available.
  */
 import { differenceQuantile, expectedLosses, highestProbabilities, probabilityGreater } from './compare';
 import { ensure, StatsError } from './errors';
@@ -129,10 +130,11 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
  *
  * Method: quadrature P(i highest) = ∫ f_i ∏_{j≠i} F_j over the t posteriors tabulated in the asinh
  * working variable (compare.ts), which turns the heavy t tails (count 2 is a Cauchy) into exponential
- * ones. When every variant has sd = 0 the highest mean wins (ties share equally). Accuracy 1e-9 absolute
+ * ones. When every variant has sd = 0 the highest mean wins (ties share equally); when all but one have
+ * sd = 0 the one with spread wins with its t probability of exceeding the largest exact mean. Accuracy 1e-9 absolute
  * or better against scipy.integrate.quad. Cost: one tabulation per variant plus O(k²) panel sums.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
- * StatsError('not_available') when some but not all variants have sd = 0.
+ * StatsError('not_available') when two or more variants with spread sit beside one with sd = 0.
  * @example meanProbHighest([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
  * //=> [0.091129888005…, 0.908870111994…]
  */
@@ -140,10 +142,25 @@ export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
   const points = ps.filter(isPoint).length;
   if (points === 0) return highestProbabilities(ps.map(tabulateOne));
+  const only = singleSpread(ps);
+  if (only !== undefined) {
+    // One uncertain mean X against exact ones with largest value M: X wins with P(X > M) (exact, through
+    // the t); the point masses at M share P(X ≤ M); the others cannot win.
+    const top = Math.max(...ps.filter(isPoint).map((p) => p.centre));
+    const wins = studentTCdf((only.centre - top) / only.scale, only.df);
+    const ties = ps.filter((p) => isPoint(p) && p.centre === top).length;
+    return ps.map((p) => (!isPoint(p) ? wins : p.centre === top ? (1 - wins) / ties : 0));
+  }
   if (points < ps.length) throw mixedPointMassError(ps, 'a probability of being highest');
   const best = Math.max(...ps.map((p) => p.centre));
   const ties = ps.filter((p) => p.centre === best).length;
   return ps.map((p) => (p.centre === best ? 1 / ties : 0));
+}
+
+/** The one variant with spread among point masses, or undefined when there are two or more. */
+function singleSpread(ps: readonly MeanPosterior[]): MeanPosterior | undefined {
+  const spread = ps.filter((p) => !isPoint(p));
+  return spread.length === 1 ? spread[0] : undefined;
 }
 
 /**
@@ -414,10 +431,11 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
  * Method: quadrature loss_i = ∫ F_i(x)·(1 − ∏_{j≠i} F_j(x)) dx of the tabulated t posteriors
  * (compare.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
  * is infinite: that is reported as not available. When every variant has sd = 0 the loss is
- * max mean − mean. Accuracy 1e-9 relative to the scale of the means (against scipy.integrate.quad).
+ * max mean − mean; when all but one have sd = 0 it comes from that one's integrated cdf E[(M − X)^+]. Accuracy 1e-9 relative to the scale of the means (against scipy.integrate.quad).
  * Cost: one tabulation per variant plus O(k²) panel sums.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
- * StatsError('not_available') for a variant with count 2 or a mix of sd = 0 and sd > 0.
+ * StatsError('not_available') for a variant with count 2, or two or more variants with spread beside one
+ * with sd = 0.
  * @example meanExpectedLoss([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
  * //=> [4.128290345207…, 0.128290345207…]
  */
@@ -428,8 +446,7 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
     const best = Math.max(...ps.map((p) => p.centre));
     return ps.map((p) => best - p.centre);
   }
-  if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
-  const cauchy = ps.flatMap((p, i) => (p.df === 1 ? [String(i + 1)] : []));
+  const cauchy = ps.flatMap((p, i) => (p.df === 1 && !isPoint(p) ? [String(i + 1)] : []));
   if (cauchy.length > 0) {
     throw new StatsError(
       'not_available',
@@ -437,5 +454,14 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
         'that its average, and so every expected loss, is infinite; collect more data (at least 3 values per variant)',
     );
   }
+  const only = singleSpread(ps);
+  if (points > 0 && only !== undefined) {
+    // One uncertain mean X against exact ones with largest value M: choosing X loses E[(M − X)^+], the
+    // integrated cdf G_X(M) (grid.ts); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
+    const top = Math.max(...ps.filter(isPoint).map((p) => p.centre));
+    const lowerMoment = Math.exp(tabulateOne(only).logLowerMoment(top));
+    return ps.map((p) => (isPoint(p) ? only.centre + lowerMoment - p.centre : lowerMoment));
+  }
+  if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
   return expectedLosses(ps.map(tabulateOne));
 }

@@ -8,6 +8,7 @@
 import reference from '../reference/means_values.json';
 import signedRatio from '../reference/means_signed_ratio.json';
 import heavyTails from '../reference/means_heavy_tails.json';
+import pointMassHighest from '../reference/means_point_mass.json';
 import { StatsError } from '../../functions/stats/errors';
 import {
   meanDiffInterval,
@@ -252,10 +253,23 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
     ]);
   });
 
-  test('a mix of point masses and spread in P(highest) or expected loss is not available, naming the items', () => {
+  test.each(pointMassHighest.cases.map((c) => [c.name, c]))(
+    '%s: all but one exact — P(highest) and losses through that one t (scipy.stats.t, partial expectation)',
+    (_n, c) => {
+      const kase = c as (typeof pointMassHighest.cases)[number];
+      const highest = meanProbHighest(kase.variants);
+      kase.probHighest.forEach((want, i) => expectProbability(highest[i] ?? NaN, want));
+      expect(Math.abs(highest.reduce((a, b) => a + b, 0) - 1)).toBeLessThanOrEqual(1e-12);
+      const losses = meanExpectedLoss(kase.variants);
+      kase.expectedLoss.forEach((want, i) => expect(Math.abs((losses[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * Math.max(1, want)));
+    },
+  );
+
+  test('two variants with spread beside an exact one: P(highest) and loss are not available, naming the items', () => {
     const v: MeanSummary[] = [
       { count: 50, mean: 0, sd: 0 },
       { count: 50, mean: 0.4, sd: 2 },
+      { count: 60, mean: 0.5, sd: 2 },
     ];
     const tail =
       'a standard deviation of 0 (every value equal) makes that mean exact; ' +
