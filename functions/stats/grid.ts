@@ -259,8 +259,8 @@ export class TabulatedDistribution {
   readonly spread: number;
   /** Cache of {@link logMaxValueDensity}. */
   private maxValueDensity: number | undefined;
-  /** Panel indices by decreasing mass (ties by index): the order compare.ts visits them in. */
-  readonly panelOrder: Int32Array;
+  /** Cache of {@link panelOrder}. */
+  private order: Int32Array | undefined;
   /** log F at each node (filled per panel on first use; see {@link panelCdfTables}). */
   private readonly nodeLogCdf: Float64Array;
   /** log(1 − F) at each node, accumulated from the right (filled with nodeLogCdf). */
@@ -376,9 +376,7 @@ export class TabulatedDistribution {
     for (let p = 0; p < panels; p++) {
       this.leftSide[p] = (this.edgeLogCdf[p + 1] as number) <= (this.edgeLogSf[p] as number) ? 1 : 0;
     }
-    const order = Array.from({ length: panels }, (_, p) => p);
-    order.sort((p, q) => (this.panelLogMass[q] as number) - (this.panelLogMass[p] as number) || p - q);
-    this.panelOrder = Int32Array.from(order);
+    this.order = undefined;
 
     let mean = source.exactMean;
     if (mean === undefined) {
@@ -408,6 +406,20 @@ export class TabulatedDistribution {
       this.maxValueDensity = max + 1;
     }
     return this.maxValueDensity;
+  }
+
+  /**
+   * Panel indices by decreasing mass (ties by index): the order compare.ts visits them in. Sorted on
+   * first use. @example tabulate(betaWorkingDensity(8, 10)).panelOrder.length //=> its panelCount
+   */
+  get panelOrder(): Int32Array {
+    if (this.order === undefined) {
+      const mass = this.panelLogMass;
+      const order = Array.from({ length: mass.length }, (_, p) => p);
+      order.sort((p, q) => (mass[q] as number) - (mass[p] as number) || p - q);
+      this.order = Int32Array.from(order);
+    }
+    return this.order;
   }
 
   /** Number of panels. */
