@@ -5,7 +5,7 @@
  * functions (C. Loader, "Fast and Accurate Computation of Binomial Probabilities", 2000). Pure and
  * stateless; every function is O(1) apart from a short recurrence for small arguments.
  */
-import { ensure } from '../errors';
+import { ensure, StatsError } from '../errors';
 import { log1pmx } from '../numeric';
 
 /** ½·log(2π). */
@@ -213,7 +213,8 @@ export function logBeta(a: number, b: number): number {
  * @example digamma(1) //=> -0.5772156649015324 (−γ = −0.5772156649015329)
  */
 export function digamma(x: number): number {
-  ensure(x > 0, `digamma needs x > 0, got ${x}`);
+  // The condition first: the message is built only on failure (digamma sits in inner loops).
+  if (!(x > 0)) throw new StatsError('invalid_argument', `digamma needs x > 0, got ${x}`);
   if (x === Infinity) return Infinity;
   let shift = 0;
   let y = x;
@@ -240,7 +241,7 @@ export function digamma(x: number): number {
  * @example trigamma(1) //=> 1.6449340668482264 (π²/6)
  */
 export function trigamma(x: number): number {
-  ensure(x > 0, `trigamma needs x > 0, got ${x}`);
+  if (!(x > 0)) throw new StatsError('invalid_argument', `trigamma needs x > 0, got ${x}`);
   if (x === Infinity) return 0;
   let shift = 0;
   let y = x;
