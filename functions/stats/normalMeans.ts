@@ -22,7 +22,7 @@ import type { TabulatedDistribution } from './grid';
 import { findRoot, gaussLegendre } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';
 import { studentTWorkingDensity } from './studentTDensity';
-import type { Interval, IntervalWithMedian, MeanSummary } from './types';
+import type { Interval, IntervalWithMedian, MeanSummary, WorkingDensity } from './types';
 
 const MAX_VARIANTS = 50;
 const MAX_COUNT = 2 ** 53;
@@ -71,6 +71,148 @@ const isPoint = (p: MeanPosterior): boolean => p.scale === 0;
 
 function tabulateOne(p: MeanPosterior): TabulatedDistribution {
   return tabulate(studentTWorkingDensity(p.df, p.centre, p.scale));
+}
+
+/** Beyond |w| = FAR_W the shared-coordinate t is written by its exponential tail (sinh would overflow). */
+const FAR_W = 300;
+/** The shared coordinate's scale is at least this multiple of the widest posterior scale (see below). */
+const SHARED_SCALE_MIN = 2;
+
+/** log cosh w for any w, accurate near 0 (log1p(2 sinh²(w/2))) and without overflow for large |w|. */
+function logCosh(w: number): number {
+  const a = Math.abs(w);
+  if (a < 20) {
+    const h = Math.sinh(a / 2);
+    return Math.log1p(2 * h * h);
+  }
+  return a - Math.LN2 + Math.log1p(Math.exp(-2 * a));
+}
+
+/**
+ * One t posterior as a WorkingDensity in a coordinate w shared by every variant of a comparison:
+ * value x = C + S·sinh(w) with a common centre C and scale S. With t = (x − centre)/scale =
+ * A + B·sinh w (A = (C − centre)/scale and B = S/scale formed once, so t never goes through x and no
+ * digits are lost to a large mean), the density in w is f_t(t)·dx/dw, so
+ *   log g(w) = −((ν+1)/2)·log1p(t²/ν) + log cosh w,
+ *   slope     = −(ν+1)·t·t′/(ν + t²) + tanh w,                                   t′ = B cosh w,
+ *   curvature = (ν+1)·[t′²(ν − t²)/(ν + t²)² + t·t″/(ν + t²)] − sech² w,         t″ = B sinh w
+ * (differentiated by hand; at C = centre, S = scale this is studentTWorkingDensity's u). Unlike that one,
+ * it is log-concave only when S and C suit the posterior (S well above its scale, C within a few S of its
+ * centre, and for small ν not far above it either); tabulateShared checks the curvature at every node and
+ * falls back otherwise. The tails are exponential, e^(−ν|w|), as in u. The mode is found by Brent's method
+ * on the slope (from t = 0 towards where tanh w points).
+ */
+function sharedTDensity(p: MeanPosterior, centre: number, scale: number): WorkingDensity {
+  const nu = p.df;
+  const n1 = nu + 1;
+  const a = (centre - p.centre) / p.scale;
+  const b = scale / p.scale;
+  const logNu = Math.log(nu);
+  const logB = Math.log(b);
+  const raw = (w: number): number => {
+    const aw = Math.abs(w);
+    if (aw > FAR_W) return -(n1 / 2) * (2 * (logB + aw - Math.LN2) - logNu) + aw - Math.LN2;
+    const t = a + b * Math.sinh(w);
+    const q = Math.abs(t) > 1e100 ? 2 * Math.log(Math.abs(t)) - logNu + Math.log1p(nu / t / t) : Math.log1p((t * t) / nu);
+    return -(n1 / 2) * q + logCosh(w);
+  };
+  const slope = (w: number): number => {
+    if (Math.abs(w) > FAR_W) return -nu * Math.sign(w);
+    const t = a + b * Math.sinh(w);
+    const tp = b * Math.cosh(w);
+    const big = Math.abs(t) > 1e100;
+    const tOverD = big ? 1 / (t * (1 + nu / t / t)) : t / (nu + t * t);
+    return -n1 * tp * tOverD + Math.tanh(w);
+  };
+  const curvature = (w: number): number => {
+    if (Math.abs(w) > FAR_W) return 0;
+    const t = a + b * Math.sinh(w);
+    const tp = b * Math.cosh(w);
+    const tpp = b * Math.sinh(w);
+    const big = Math.abs(t) > 1e100;
+    const tOverD = big ? 1 / (t * (1 + nu / t / t)) : t / (nu + t * t);
+    const t2OverD = big ? 1 / (1 + nu / t / t) : (t * t) / (nu + t * t);
+    const nuOverD = big ? nu / t / t / (1 + nu / t / t) : nu / (nu + t * t);
+    const tpOverD = big ? tp / t / t / (1 + nu / t / t) : tp / (nu + t * t);
+    const c = Math.cosh(w);
+    return n1 * (tpOverD * tp * (nuOverD - t2OverD) + tpp * tOverD) - 1 / (c * c);
+  };
+  // The mode: from w0 (t = 0), where the slope is tanh w0, step towards its sign until the slope turns.
+  const w0 = Math.asinh(-a / b);
+  let mode = w0;
+  const s0 = slope(w0);
+  if (s0 !== 0) {
+    const direction = s0 > 0 ? 1 : -1;
+    let step = 1 / (b * Math.cosh(w0));
+    let far = w0 + direction * step;
+    for (let i = 0; i < 200 && direction * slope(far) > 0; i++) {
+      step *= 2;
+      far = w0 + direction * step;
+    }
+    mode = findRoot(slope, Math.min(w0, far), Math.max(w0, far));
+  }
+  const top = raw(mode);
+  const density: WorkingDensity = {
+    logDensity: (w: number): number => raw(w) - top,
+    slope,
+    curvature,
+    mode,
+    toValue: (w: number): number => centre + scale * Math.sinh(w),
+    toWorking: (x: number): number => Math.asinh((x - centre) / scale),
+    valueJacobian: (w: number): number => scale * Math.cosh(w),
+    valueRange: [-Infinity, Infinity] as const,
+  };
+  return nu > 1 ? { ...density, exactMean: p.centre } : density;
+}
+
+/** True when a shared-coordinate table is usable: inside |w| ≤ FAR_W and log-concave at every node and edge. */
+function sharedTableHolds(t: TabulatedDistribution): boolean {
+  if (!(t.windowLeft > -FAR_W && t.windowRight < FAR_W)) return false;
+  const curvature = t.source.curvature;
+  for (let i = 0; i < t.nodeZ.length; i++) if (!(curvature(t.nodeZ[i] as number) > 0)) return false;
+  for (let i = 0; i < t.edges.length; i++) if (!(curvature(t.edges[i] as number) > 0)) return false;
+  return true;
+}
+
+/**
+ * The posteriors (none a point mass) tabulated in one shared coordinate w, x = C + S·sinh(w), with C the
+ * middle of the centres and S = max(2 × the widest scale, a quarter of the centres' range), so that
+ * compare.ts evaluates every cdf at every node directly and takes the O(k²) shared-grid expected loss
+ * (instead of O(k³)) and direct P(highest) factors. In the normal limit the t is log-concave in w when
+ * S > √2·scale and |C − centre| < 2S (worked out by hand from the curvature above), which this choice
+ * gives; heavy tails (small ν) far narrower than S are not, so every table is checked (sharedTableHolds)
+ * and undefined is returned when any fails, for the caller to use each posterior's own coordinate.
+ */
+function tabulateShared(ps: readonly MeanPosterior[]): TabulatedDistribution[] | undefined {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let widest = 0;
+  for (const p of ps) {
+    lo = Math.min(lo, p.centre);
+    hi = Math.max(hi, p.centre);
+    widest = Math.max(widest, p.scale);
+  }
+  const centre = lo + (hi - lo) / 2;
+  const scale = Math.max(SHARED_SCALE_MIN * widest, (hi - lo) / 4);
+  if (!(Number.isFinite(centre) && Number.isFinite(scale) && scale > 0)) return undefined;
+  const coordinate = `asinh((x - ${centre})/${scale})`;
+  const tables: TabulatedDistribution[] = [];
+  try {
+    for (const p of ps) {
+      const t = tabulate(sharedTDensity(p, centre, scale), { coordinate });
+      if (!sharedTableHolds(t)) return undefined;
+      tables.push(t);
+    }
+  } catch (error) {
+    if (error instanceof StatsError) return undefined;
+    throw error;
+  }
+  return tables;
+}
+
+/** The posteriors tabulated for a comparison of all of them: shared coordinate where it holds, else each its own. */
+function tabulateForComparison(ps: readonly MeanPosterior[]): TabulatedDistribution[] {
+  return tabulateShared(ps) ?? ps.map(tabulateOne);
 }
 
 /** P(μ ≤ x) for one posterior (a step for a point mass), through the t distribution function. */
@@ -141,7 +283,7 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
 export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
   const points = ps.filter(isPoint).length;
-  if (points === 0) return highestProbabilities(ps.map(tabulateOne));
+  if (points === 0) return highestProbabilities(tabulateForComparison(ps));
   const only = singleSpread(ps);
   if (only !== undefined) {
     // One uncertain mean X against exact ones with largest value M: X wins with P(X > M) (exact, through
@@ -463,5 +605,5 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
     return ps.map((p) => (isPoint(p) ? only.centre + lowerMoment - p.centre : lowerMoment));
   }
   if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
-  return expectedLosses(ps.map(tabulateOne));
+  return expectedLosses(tabulateForComparison(ps));
 }
