@@ -6,6 +6,7 @@
  */
 import { betaCdf } from '../../../functions/stats/special/incompleteBeta';
 import reference from '../../reference/special_values.json';
+import { relativeError } from '../../helpers/assertions';
 
 // jStat ships no types; its shape is declared here for the few functions compared.
 // eslint-disable-next-line @typescript-eslint/no-require-imports
@@ -29,7 +30,6 @@ const find = (name: string, pick: (r: Row) => boolean): Row => {
   if (!row) throw new Error(`no reference row in ${name}`);
   return row;
 };
-const relativeError = (v: number, t: number): number => Math.abs(v - t) / Math.abs(t);
 
 describe('jStat 1.9.6 where it is accurate', () => {
   it('ibeta for small shapes: absolute error below 1e-8', () => {
