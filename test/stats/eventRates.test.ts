@@ -6,7 +6,6 @@
  * (a garden-supply shop's store visits per user-day).
  */
 import reference from '../reference/events_values.json';
-import { StatsError } from '../../functions/stats/errors';
 import {
   eventsExpectedLoss,
   eventsLiftInterval,
@@ -16,6 +15,7 @@ import {
 } from '../../functions/stats/eventRates';
 import { FLAT_GAMMA_PRIOR } from '../../functions/stats/types';
 import type { EventCounts, GammaPrior } from '../../functions/stats/types';
+import { expectProbability, expectStatsErrorExact } from '../helpers/assertions';
 
 interface Case {
   name: string;
@@ -40,23 +40,6 @@ const byName = (name: string): Case => {
 
 /** Posterior mean rate of each variant: (shape + events)/(rate + exposure). */
 const means = (c: Case): number[] => c.variants.map((v) => (c.prior.shape + v.events) / (c.prior.rate + v.exposure));
-
-/** The 1e-9 bar on probabilities, with tails held to 1e-6 relative (and never looser than 1e-9). */
-function expectProbability(got: number, want: number): void {
-  expect(Math.abs(got - want)).toBeLessThanOrEqual(Math.min(1e-9, 1e-12 + 1e-6 * want + 1e-6 * (1 - want)));
-}
-
-function expectCode(run: () => unknown, code: string, message: string): void {
-  let caught: unknown;
-  try {
-    run();
-  } catch (e) {
-    caught = e;
-  }
-  expect(caught).toBeInstanceOf(StatsError);
-  expect((caught as StatsError).code).toBe(code);
-  expect((caught as StatsError).message).toBe(message);
-}
 
 describe.each(cases.map((c) => [c.name, c]))('eventRates against scipy/mpmath: %s', (_name, kase) => {
   const c = kase as Case;
@@ -189,26 +172,26 @@ describe('eventRates: bad input gets a clear error', () => {
     [[ok[0], { events: NaN, exposure: 1 }], 'events, item 2: NaN is not a number'],
     [[ok[0]], 'at least 2 variants are needed (the first is the control), got 1'],
   ])('%j', (variants, message) => {
-    expectCode(() => eventsProbAboveControl(variants as EventCounts[], FLAT_GAMMA_PRIOR), 'invalid_argument', message);
+    expectStatsErrorExact(() => eventsProbAboveControl(variants as EventCounts[], FLAT_GAMMA_PRIOR), 'invalid_argument', message);
   });
 
   test('more than 50 variants', () => {
     const many = Array.from({ length: 51 }, () => ({ events: 1, exposure: 1 }));
-    expectCode(() => eventsProbHighest(many), 'invalid_argument', 'at most 50 variants are allowed, got 51');
+    expectStatsErrorExact(() => eventsProbHighest(many), 'invalid_argument', 'at most 50 variants are allowed, got 51');
   });
 
   test('bad prior and level', () => {
-    expectCode(
+    expectStatsErrorExact(
       () => eventsRateInterval(ok, 0.95, { shape: 0, rate: 0 }),
       'invalid_argument',
       "prior_shape: 0 is not allowed; the prior's shape must be a number greater than 0",
     );
-    expectCode(
+    expectStatsErrorExact(
       () => eventsLiftInterval(ok, 0.95, { shape: 1, rate: -1 }),
       'invalid_argument',
       "prior_rate: -1 is not allowed; the prior's rate must be a number of at least 0",
     );
-    expectCode(
+    expectStatsErrorExact(
       () => eventsLiftInterval(ok, 1),
       'invalid_argument',
       'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)',

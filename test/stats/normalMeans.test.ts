@@ -9,7 +9,6 @@ import reference from '../reference/means_values.json';
 import signedRatio from '../reference/means_signed_ratio.json';
 import heavyTails from '../reference/means_heavy_tails.json';
 import pointMassHighest from '../reference/means_point_mass.json';
-import { StatsError } from '../../functions/stats/errors';
 import {
   meanDiffInterval,
   meanExpectedLoss,
@@ -19,6 +18,7 @@ import {
   meanProbHighest,
 } from '../../functions/stats/normalMeans';
 import type { MeanSummary } from '../../functions/stats/types';
+import { expectProbability, expectStatsErrorExact, thrownStatsError } from '../helpers/assertions';
 
 interface Case {
   name: string;
@@ -40,27 +40,6 @@ const byName = (name: string): Case => {
   if (found === undefined) throw new Error(`no reference case ${name}`);
   return found;
 };
-
-/** The 1e-9 bar on probabilities, with tails held to 1e-6 relative (and never looser than 1e-9). */
-function expectProbability(got: number, want: number): void {
-  expect(Math.abs(got - want)).toBeLessThanOrEqual(Math.min(1e-9, 1e-12 + 1e-6 * want + 1e-6 * (1 - want)));
-}
-
-function caught(run: () => unknown): StatsError {
-  try {
-    run();
-  } catch (e) {
-    if (e instanceof StatsError) return e;
-    throw e;
-  }
-  throw new Error('expected a StatsError');
-}
-
-function expectCode(run: () => unknown, code: string, message: string): void {
-  const e = caught(run);
-  expect(e.code).toBe(code);
-  expect(e.message).toBe(message);
-}
 
 /** Scale of the metric in a case, for absolute tolerances on amounts (interval ends, differences, losses). */
 const amountScale = (c: Case): number => Math.max(1, ...c.variants.map((v) => Math.abs(v.mean)));
@@ -116,7 +95,7 @@ describe.each(cases.map((c) => [c.name, c]))('normalMeans against scipy: %s', (_
 
   test('lift intervals match scipy quadrature of the ratio over both signs, or are refused', () => {
     if (c.controlBelowZero > 1e-6) {
-      const e = caught(() => meanLiftInterval(c.variants, 0.95));
+      const e = thrownStatsError(() => meanLiftInterval(c.variants, 0.95));
       expect(e.code).toBe('not_available');
       const pct = 100 * c.controlBelowZero;
       const shown = pct >= 0.1 ? `${pct.toFixed(1)}%` : `${pct.toPrecision(2)}%`;
@@ -139,7 +118,7 @@ describe.each(cases.map((c) => [c.name, c]))('normalMeans against scipy: %s', (_
 
   test('expected losses match scipy quadrature; differences are mean differences (or count 2 is refused)', () => {
     if (c.expectedLoss === undefined) {
-      const e = caught(() => meanExpectedLoss(c.variants));
+      const e = thrownStatsError(() => meanExpectedLoss(c.variants));
       expect(e.code).toBe('not_available');
       expect(e.message).toMatch(/^count, item 1, 2: with only 2 values the mean's posterior has such heavy tails/);
       return;
@@ -229,7 +208,7 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
   });
 
   test('a control with mean 0 and sd 0 has no relative lift', () => {
-    expectCode(
+    expectStatsErrorExact(
       () => meanLiftInterval(pm.zero_control?.variants ?? []),
       'not_available',
       "the control's mean could plausibly be zero or negative (100.0%), so a relative lift is undefined; " +
@@ -275,8 +254,8 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
       'a standard deviation of 0 (every value equal) makes that mean exact; ' +
       'a probability of being highest mixing exact and uncertain means is not computed. Check the data, or compare ' +
       'variants pairwise with MEAN_PROB_ABOVE_CONTROL or MEAN_DIFF_INTERVAL';
-    expectCode(() => meanProbHighest(v), 'not_available', `sd, item 1: ${tail}`);
-    expect(caught(() => meanExpectedLoss(v)).code).toBe('not_available');
+    expectStatsErrorExact(() => meanProbHighest(v), 'not_available', `sd, item 1: ${tail}`);
+    expect(thrownStatsError(() => meanExpectedLoss(v)).code).toBe('not_available');
   });
 });
 
@@ -289,11 +268,11 @@ describe('normalMeans: bad input gets a clear error', () => {
     [[ok, { count: 10, mean: Infinity, sd: 1 }], 'mean, item 2: Infinity is not a finite number'],
     [[ok], 'at least 2 variants are needed (the first is the control), got 1'],
   ])('%j', (variants, message) => {
-    expectCode(() => meanProbAboveControl(variants as MeanSummary[]), 'invalid_argument', message);
+    expectStatsErrorExact(() => meanProbAboveControl(variants as MeanSummary[]), 'invalid_argument', message);
   });
 
   test('level outside (0, 1)', () => {
-    expectCode(
+    expectStatsErrorExact(
       () => meanInterval([ok], 0),
       'invalid_argument',
       'level: 0 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)',
@@ -301,7 +280,7 @@ describe('normalMeans: bad input gets a clear error', () => {
   });
 
   test('more than 50 variants', () => {
-    expectCode(
+    expectStatsErrorExact(
       () => meanProbHighest(Array.from({ length: 51 }, () => ok)),
       'invalid_argument',
       'at most 50 variants are allowed, got 51',

@@ -1,5 +1,4 @@
 import { probAboveControl } from '../../functions/stats/conversion';
-import { StatsError } from '../../functions/stats/errors';
 import {
   classicSampleSize,
   classicSampleSizeExact,
@@ -9,16 +8,7 @@ import {
 import { betaLogDensity } from '../../functions/stats/special/incompleteBeta';
 import classic from '../reference/planning_classic.json';
 import power from '../reference/planning_power.json';
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
-}
+import { thrownStatsError } from '../helpers/assertions';
 
 describe('classicSampleSize against R power.prop.test (shared/check-values.md)', () => {
   // R 4.2 power.prop.test solves with uniroot (tol = .Machine$double.eps^0.25 ≈ 1.2e-4 in n), so the
@@ -61,7 +51,7 @@ describe('classicSampleSize input checks', () => {
     [0.1, 0.1, 0.05, 0.8, 3, 'sides must be 1 or 2, got 3'],
     [0.1, 0.1, 0.05, 0.01, 2, 'the power (0.01) must be above the false-alarm rate alpha/sides (0.025)'],
   ])('rejects baseline %p, lift %p, alpha %p, power %p, sides %p', (p, lift, alpha, pw, sides, message) => {
-    const error = thrown(() => classicSampleSize(p, lift, alpha, pw, sides as 1 | 2));
+    const error = thrownStatsError(() => classicSampleSize(p, lift, alpha, pw, sides as 1 | 2));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
@@ -163,13 +153,13 @@ describe('decisionPower input checks', () => {
     [1.5, 0.2, 100, 0.95, 'the baseline rate must be between 0 and 1 (exclusive), got 1.5'],
     [0.1, Number.NaN, 100, 0.95, 'the lift must be a number, got NaN'],
   ])('rejects baseline %p, lift %p, visitors %p, threshold %p', (p, lift, n, t, message) => {
-    const error = thrown(() => decisionPower(p, lift, n, t));
+    const error = thrownStatsError(() => decisionPower(p, lift, n, t));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
 
   it('rejects a prior with a shape of 0', () => {
-    const error = thrown(() => decisionPower(0.1, 0.2, 100, 0.95, { alpha: 0, beta: 1 }));
+    const error = thrownStatsError(() => decisionPower(0.1, 0.2, 100, 0.95, { alpha: 0, beta: 1 }));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe("the prior's alpha and beta must both be greater than 0, got 0 and 1");
   });
@@ -205,7 +195,7 @@ describe('visitorsNeeded against scipy (planning_power.json "needed")', () => {
   });
 
   it('says when the lift is too small to plan for within 1e10 visitors', () => {
-    const error = thrown(() => visitorsNeeded(0.01, 1e-6));
+    const error = thrownStatsError(() => visitorsNeeded(0.01, 1e-6));
     expect(error.code).toBe('not_available');
     expect(error.message).toBe(
       'more than 1e10 visitors per variant would be needed to detect a lift of 0.000001 on a rate of 0.01',
@@ -217,7 +207,7 @@ describe('visitorsNeeded against scipy (planning_power.json "needed")', () => {
     [0.1, -0.1, 0.95, 0.8, 'the lift must be greater than 0 to plan for detecting it, got -0.1'],
     [0.1, 0.1, 0.95, 1, 'the power must be between 0 and 1 (exclusive), got 1'],
   ])('rejects baseline %p, lift %p, threshold %p, power %p', (p, lift, t, pw, message) => {
-    const error = thrown(() => visitorsNeeded(p, lift, t, pw));
+    const error = thrownStatsError(() => visitorsNeeded(p, lift, t, pw));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });

@@ -1,22 +1,8 @@
-import { StatsError } from '../../functions/stats/errors';
 import { priorFromHistory, priorFromInterval, priorFromMean } from '../../functions/stats/prior';
 import { betaCdf, betaSf } from '../../functions/stats/special/incompleteBeta';
 import { logBeta } from '../../functions/stats/special/gamma';
 import reference from '../reference/prior_fits.json';
-
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.abs(expected);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
-}
+import { relativeError, thrownStatsError } from '../helpers/assertions';
 
 /** Beta–Binomial log likelihood without the binomial coefficients. */
 function logLikelihood(x: readonly number[], n: readonly number[], a: number, b: number): number {
@@ -39,7 +25,7 @@ describe('priorFromMean', () => {
     [Number.NaN, 3, 'the mean rate must be a number, got NaN'],
     [0.5, Infinity, 'the strength must be a finite number, got Infinity'],
   ])('rejects mean %p with strength %p', (mean, strength, message) => {
-    const error = thrown(() => priorFromMean(mean, strength));
+    const error = thrownStatsError(() => priorFromMean(mean, strength));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
@@ -74,7 +60,7 @@ describe('priorFromInterval against scipy (test/reference/prior_fits.py, prior_f
   });
 
   it('says when the range is too narrow to fit', () => {
-    const error = thrown(() => priorFromInterval(0.5, 0.500001, 0.9));
+    const error = thrownStatsError(() => priorFromInterval(0.5, 0.500001, 0.9));
     expect(error.code).toBe('not_available');
     expect(error.message).toBe(
       'the range 0.5 to 0.500001 is too narrow for a Beta prior at level 0.9: it would be worth more than 1e9 visitors',
@@ -95,7 +81,7 @@ describe('priorFromInterval against scipy (test/reference/prior_fits.py, prior_f
     [0.1, 0.2, 1, 'the level must be between 0 and 1 (exclusive), got 1'],
     [0.1, 0.2, 0, 'the level must be between 0 and 1 (exclusive), got 0'],
   ])('rejects [%p, %p] at level %p', (low, high, level, message) => {
-    const error = thrown(() => priorFromInterval(low, high, level));
+    const error = thrownStatsError(() => priorFromInterval(low, high, level));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
@@ -118,7 +104,7 @@ describe('priorFromHistory, maximum likelihood, against scipy.stats.betabinom an
   it('throws the agreed message when the results vary no more than chance', () => {
     // Tarone's numerator Σ(x − np)² − pqΣn is −188 here (prior_fits.json "flat"): no extra spread.
     expect(reference.flat.taroneNumerator).toBeLessThan(0);
-    const error = thrown(() => priorFromHistory(reference.flat.conversions, reference.flat.visitors));
+    const error = thrownStatsError(() => priorFromHistory(reference.flat.conversions, reference.flat.visitors));
     expect(error.code).toBe('not_available');
     expect(error.message).toBe(
       'the past results vary no more than chance would explain, so they do not pin down a prior strength; use PRIOR_FROM_MEAN with a strength you can defend',
@@ -126,13 +112,13 @@ describe('priorFromHistory, maximum likelihood, against scipy.stats.betabinom an
   });
 
   it('throws when no past result had a conversion', () => {
-    const error = thrown(() => priorFromHistory([0, 0, 0], [100, 200, 300]));
+    const error = thrownStatsError(() => priorFromHistory([0, 0, 0], [100, 200, 300]));
     expect(error.code).toBe('not_available');
     expect(error.message).toMatch(/^none of the past results had a conversion/);
   });
 
   it('throws when the results look all-or-nothing (single-visitor results cannot show spread)', () => {
-    const error = thrown(() => priorFromHistory([1, 0, 1, 0, 0], [1, 1, 1, 1, 1]));
+    const error = thrownStatsError(() => priorFromHistory([1, 0, 1, 0, 0], [1, 1, 1, 1, 1]));
     expect(error.code).toBe('not_available');
     expect(error.message).toMatch(/^the past results vary no more than chance would explain/);
   });
@@ -147,7 +133,7 @@ describe('priorFromHistory, method of moments (Kleinman 1973, weights n_i), agai
   });
 
   it('throws the agreed message when the moment estimate of the extra variance is not positive', () => {
-    const error = thrown(() => priorFromHistory(reference.flat.conversions, reference.flat.visitors, 'moments'));
+    const error = thrownStatsError(() => priorFromHistory(reference.flat.conversions, reference.flat.visitors, 'moments'));
     expect(error.code).toBe('not_available');
     expect(error.message).toMatch(/^the past results vary no more than chance would explain/);
   });
@@ -170,13 +156,13 @@ describe('priorFromHistory input checks', () => {
     [[1, 12, 3], [10, 10, 10], '12 conversions is more than the 10 visitors'],
     [[0, 0, 3], [10, 0, 10], '0 visitors is too few; each past result needs at least 1 visitor'],
   ])('rejects %j of %j', (x, n, message) => {
-    const error = thrown(() => priorFromHistory(x, n));
+    const error = thrownStatsError(() => priorFromHistory(x, n));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
 
   it('rejects an unknown method', () => {
-    const error = thrown(() => priorFromHistory([1, 2, 3], [10, 10, 10], 'median' as 'moments'));
+    const error = thrownStatsError(() => priorFromHistory([1, 2, 3], [10, 10, 10], 'median' as 'moments'));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe('the method must be "likelihood" or "moments", got "median"');
   });

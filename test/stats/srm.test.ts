@@ -1,22 +1,7 @@
-import { StatsError } from '../../functions/stats/errors';
 import { srmPValue, srmTest } from '../../functions/stats/srm';
 import { chiSquareSf } from '../../functions/stats/special/chiSquare';
 import reference from '../reference/srm_chisq.json';
-
-/** Relative difference, with an absolute floor for values that are exactly zero. */
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
-}
+import { relativeErrorFloored, thrownStatsError } from '../helpers/assertions';
 
 describe('srmTest against the values in shared/check-values.md', () => {
   it('matches R chisq.test(c(50410, 49590), p = c(.5, .5)): p = 0.00951240487', () => {
@@ -24,14 +9,14 @@ describe('srmTest against the values in shared/check-values.md', () => {
     const result = srmTest([50410, 49590]);
     expect(result.statistic).toBeCloseTo(6.724, 12);
     expect(result.degreesOfFreedom).toBe(1);
-    expect(relativeError(result.pValue, 0.00951240487)).toBeLessThan(1e-9);
+    expect(relativeErrorFloored(result.pValue, 0.00951240487)).toBeLessThan(1e-9);
   });
 
   it('matches R chisq.test(c(20000, 20400, 39600), p = c(.25, .25, .5)): X² = 12, p = 0.00247875218', () => {
     const result = srmTest([20000, 20400, 39600], [0.25, 0.25, 0.5]);
     expect(result.statistic).toBeCloseTo(12, 10);
     expect(result.degreesOfFreedom).toBe(2);
-    expect(relativeError(result.pValue, 0.00247875218)).toBeLessThan(1e-8);
+    expect(relativeErrorFloored(result.pValue, 0.00247875218)).toBeLessThan(1e-8);
   });
 
   it("gives the p-value of Excel's CHISQ.TEST worked example through the same chi-square tail", () => {
@@ -47,17 +32,17 @@ describe('srmTest against R chisq.test (test/reference/srm_chisq.R, srm_chisq.js
     const result = srmTest(c.visitors, weights);
     expect(result.degreesOfFreedom).toBe(c.df);
     if (c.statistic === 0) expect(result.statistic).toBe(0);
-    else expect(relativeError(result.statistic, c.statistic)).toBeLessThan(1e-10);
+    else expect(relativeErrorFloored(result.statistic, c.statistic)).toBeLessThan(1e-10);
     // Far into the tail (down to 1e-85) the p-value keeps at least 6 correct digits; the statistic itself
     // carries a relative error of ~1e-13 at 250 million visitors, which the tail multiplies by X²/2.
-    expect(relativeError(result.pValue, c.pValue)).toBeLessThan(1e-6);
+    expect(relativeErrorFloored(result.pValue, c.pValue)).toBeLessThan(1e-6);
     expect(srmPValue(c.visitors, c.shares)).toBe(result.pValue);
   });
 
   it.each(reference.upperTails.map((t) => [t.x, t.df, t.p] as const))(
     'chi-square tail at %d with df %d equals R pchisq(lower.tail = FALSE)',
     (x, df, p) => {
-      expect(relativeError(chiSquareSf(x, df), p)).toBeLessThan(1e-6);
+      expect(relativeErrorFloored(chiSquareSf(x, df), p)).toBeLessThan(1e-6);
     },
   );
 });
@@ -66,8 +51,8 @@ describe('srmTest identities', () => {
   it('does not depend on the scale of the planned shares', () => {
     const a = srmTest([900, 2100, 7000], [1, 2, 7]);
     const b = srmTest([900, 2100, 7000], [0.1, 0.2, 0.7]);
-    expect(relativeError(a.statistic, b.statistic)).toBeLessThan(1e-12);
-    expect(relativeError(a.pValue, b.pValue)).toBeLessThan(1e-10);
+    expect(relativeErrorFloored(a.statistic, b.statistic)).toBeLessThan(1e-12);
+    expect(relativeErrorFloored(a.pValue, b.pValue)).toBeLessThan(1e-10);
   });
 
   it('equals the two-sided normal test for two groups: X² is z² (common practice)', () => {
@@ -94,7 +79,7 @@ describe('srmTest input checks', () => {
     [[10, 20], [1, Infinity], 'Infinity is not a number'],
     [[10, 20], [1, 1, 1], 'there are 3 planned shares for 2 groups; give one share per group'],
   ] as const)('rejects %j with shares %j', (visitors, shares, message) => {
-    const error = thrown(() => srmTest(visitors as readonly number[], shares as readonly number[] | undefined));
+    const error = thrownStatsError(() => srmTest(visitors as readonly number[], shares as readonly number[] | undefined));
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });
