@@ -3,8 +3,8 @@
  * log densities (test/reference/events_density.py → events_density.json).
  */
 import reference from '../reference/events_density.json';
-import { StatsError } from '../../functions/stats/errors';
 import { gammaWorkingDensity } from '../../functions/stats/gammaDensity';
+import { expectStatsErrorExact } from '../helpers/assertions';
 
 interface Row {
   shape: number;
@@ -66,15 +66,7 @@ describe('gammaWorkingDensity', () => {
       [0, 1, 'gamma shape must be a finite number > 0, got 0'],
       [2, 0, 'gamma rate must be a finite number > 0, got 0'],
     ] as const) {
-      let caught: unknown;
-      try {
-        gammaWorkingDensity(a, b);
-      } catch (e) {
-        caught = e;
-      }
-      expect(caught).toBeInstanceOf(StatsError);
-      expect((caught as StatsError).code).toBe('invalid_argument');
-      expect((caught as StatsError).message).toBe(message);
+      expectStatsErrorExact(() => gammaWorkingDensity(a, b), 'invalid_argument', message);
     }
   });
 });

@@ -4,8 +4,8 @@
  * against differences of its own log density.
  */
 import reference from '../reference/means_density.json';
-import { StatsError } from '../../functions/stats/errors';
 import { studentTWorkingDensity } from '../../functions/stats/studentTDensity';
+import { expectStatsErrorExact } from '../helpers/assertions';
 
 interface Row {
   df: number;
@@ -78,15 +78,7 @@ describe('studentTWorkingDensity', () => {
       [3, 0, 0, 'the scale must be a finite number > 0, got 0'],
     ];
     for (const [df, c, s, message] of cases) {
-      let caught: unknown;
-      try {
-        studentTWorkingDensity(df, c, s);
-      } catch (e) {
-        caught = e;
-      }
-      expect(caught).toBeInstanceOf(StatsError);
-      expect((caught as StatsError).code).toBe('invalid_argument');
-      expect((caught as StatsError).message).toBe(message);
+      expectStatsErrorExact(() => studentTWorkingDensity(df, c, s), 'invalid_argument', message);
     }
   });
 });
