@@ -14,6 +14,7 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import * as F from '../../functions/functions';
+import { thrownWorksheetError } from '../helpers/assertions';
 
 const REF = path.join(__dirname, '..', 'reference');
 const readJson = <T>(name: string): T => JSON.parse(fs.readFileSync(path.join(REF, name), 'utf8')) as T;
@@ -110,13 +111,7 @@ function expectSpill(actual: unknown[][], expected: (number | string)[][], rel =
 
 /** The worksheet error a call raises. */
 function sheetError(call: () => unknown): { code: string; message: string } {
-  try {
-    call();
-  } catch (e) {
-    const err = e as { code?: string; message: string };
-    return { code: err.code ?? '(raw error)', message: err.message };
-  }
-  throw new Error('expected a worksheet error');
+  return thrownWorksheetError(call, '(raw error)');
 }
 
 const vsControl = (values: number[]): (number | string)[][] => [[''], ...values.map((v) => [v])];

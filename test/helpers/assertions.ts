@@ -90,3 +90,19 @@ export function expectInvalidArgument(run: () => unknown, message: RegExp): void
   }
   throw new Error('expected a StatsError');
 }
+
+/**
+ * Runs `run` and returns the `code` and `message` of what it threw (worksheet errors carry both). With
+ * `codeIfMissing`, a thrown value without a code (a raw Error) reports that text as its code, so a raw
+ * failure shows up by name in a failed comparison; without it, the code is returned exactly as thrown.
+ * If `run` returns normally, throws Error('expected a worksheet error').
+ */
+export function thrownWorksheetError(run: () => unknown, codeIfMissing?: string): { code: string; message: string } {
+  try {
+    run();
+  } catch (e) {
+    const err = e as { code?: string; message: string };
+    return { code: codeIfMissing === undefined ? (err.code as string) : (err.code ?? codeIfMissing), message: err.message };
+  }
+  throw new Error('expected a worksheet error');
+}

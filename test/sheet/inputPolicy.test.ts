@@ -28,16 +28,11 @@ import {
   MIN_LIFT,
 } from '../../functions/sheet';
 import { decisionText, defaultLabel, formatPercent, labelOf } from '../../functions/sheet/decision';
+import { thrownWorksheetError } from '../helpers/assertions';
 
 /** Runs `body` through the one error mapping and returns the worksheet error it produced. */
 function sheetError(body: () => unknown): { code: string; message: string } {
-  try {
-    runSheet(body);
-  } catch (e) {
-    const err = e as { code: string; message: string };
-    return { code: err.code, message: err.message };
-  }
-  throw new Error('expected a worksheet error');
+  return thrownWorksheetError(() => runSheet(body));
 }
 
 const col = (...xs: unknown[]): unknown[][] => xs.map((x) => [x]);
