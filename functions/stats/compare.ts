@@ -156,8 +156,12 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
     return v;
   };
 
+  // Only direct cdf and survival factors (P(highest), P(greater)): evaluated a panel's 16 nodes at a time
+  // per factor (grid.ts addLogTailsAt), the same sums in the same order as pointLog.
+  const batched = !withValue && factors.every((f, i) => direct[i] && (f.kind === 'cdf' || f.kind === 'sf'));
   let total = -Infinity;
   const values = new Float64Array(n);
+  const points = new Float64Array(n);
   const breaks: number[] = [];
   const skip = new Uint8Array(count);
   const order = base.panelOrder;
@@ -199,6 +203,15 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
       const kind = (factors[i] as Factor).kind;
       skip[i] = (kind === 'cdf' || kind === 'sf') && least > -1e-18 ? 1 : 0;
     }
+    if (breaks.length === 0 && batched) {
+      for (let k = 0; k < n; k++) values[k] = base.nodeLogDensity[p * n + k] as number;
+      for (let i = 0; i < count; i++) {
+        if (skip[i] === 1) continue;
+        (factors[i] as Factor).dist.addLogTailsAt(base.nodeZ, p * n, n, values, (factors[i] as Factor).kind === 'sf');
+      }
+      total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
+      continue;
+    }
     if (breaks.length === 0) {
       for (let k = 0; k < n; k++) {
         const z = base.nodeZ[p * n + k] as number;
@@ -215,9 +228,21 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
       if (right - left <= 1e-13 * Math.max(1, Math.abs(left)) && s < breaks.length) continue;
       const half = (right - left) / 2;
       const mid = (right + left) / 2;
-      for (let k = 0; k < n; k++) {
-        const z = mid + half * (PANEL_NODES[k] as number);
-        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z), skip);
+      if (batched) {
+        for (let k = 0; k < n; k++) {
+          const z = mid + half * (PANEL_NODES[k] as number);
+          points[k] = z;
+          values[k] = base.logDensityAt(z);
+        }
+        for (let i = 0; i < count; i++) {
+          if (skip[i] === 1) continue;
+          (factors[i] as Factor).dist.addLogTailsAt(points, 0, n, values, (factors[i] as Factor).kind === 'sf');
+        }
+      } else {
+        for (let k = 0; k < n; k++) {
+          const z = mid + half * (PANEL_NODES[k] as number);
+          values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z), skip);
+        }
       }
       total = logAddExp(total, panelLogIntegral(values, 0, half));
       left = right;

@@ -516,6 +516,42 @@ export class TabulatedDistribution {
   }
 
   /**
+   * Adds log F (upper = false) or log(1 − F) (upper = true) at each of `count` ascending working values
+   * zs[offset … offset + count − 1] to out[0 … count − 1], skipping entries of out that are already −Infinity. The same
+   * values as {@link logCdfAt} / {@link logSfAt} point by point, with the panel found once by binary
+   * search and then by stepping forward (the points are ascending). Cost: per point one interpolation
+   * (+ log1mExp on the far side of the median). Used by compare.ts for the nodes of one base panel.
+   * @example tabulate(betaWorkingDensity(8, 10)).addLogTailsAt(Float64Array.of(0), 0, 1, new Float64Array(1), false) // out[0] = log 0.6854705810546875
+   */
+  addLogTailsAt(zs: ArrayLike<number>, offset: number, count: number, out: Float64Array, upper: boolean): void {
+    const left = this.windowLeft;
+    const right = this.windowRight;
+    const last = this.panelCount - 1;
+    let p = -1;
+    for (let k = 0; k < count; k++) {
+      const before = out[k] as number;
+      if (before === -Infinity) continue;
+      const z = zs[offset + k] as number;
+      let v: number;
+      if (z <= left) v = upper ? log1mExp(this.leftTail(z)) : this.leftTail(z);
+      else if (z >= right) v = upper ? this.rightTail(z) : log1mExp(this.rightTail(z));
+      else {
+        if (p < 0) p = this.findPanel(z);
+        else while (p < last && (this.edges[p + 1] as number) <= z) p++;
+        this.ensurePanel(p);
+        if (this.leftSide[p] === 1) {
+          const lc = Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
+          v = upper ? log1mExp(lc) : lc;
+        } else {
+          const ls = Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
+          v = upper ? ls : log1mExp(ls);
+        }
+      }
+      out[k] = before + v;
+    }
+  }
+
+  /**
    * log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}).
    * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) // 0.314529418945… (1 − pbeta(0.5, 8, 10))
    */
