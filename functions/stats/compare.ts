@@ -353,9 +353,16 @@ function checkList(ds: readonly TabulatedDistribution[]): void {
  */
 export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]): number[] {
   checkList(ds);
+  // The integral depends only on d and the multiset of the others, so a distribution listed twice (the
+  // same object) is integrated once and both get the identical value.
+  const done = new Map<TabulatedDistribution, number>();
   return ds.map((d, i) => {
+    const known = done.get(d);
+    if (known !== undefined) return known;
     const factors = ds.filter((_, j) => j !== i).map((o) => factor(o, 'cdf'));
-    return Math.exp(logIntegral(d, factors));
+    const value = Math.exp(logIntegral(d, factors));
+    done.set(d, value);
+    return value;
   });
 }
 

@@ -78,8 +78,22 @@ export function posteriorOf(v: ConversionCounts, prior: BetaPrior = UNIFORM_PRIO
   return tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' });
 }
 
+/**
+ * The variants' posteriors, each distinct (conversions, visitors) pair tabulated once: variants with the
+ * same counts share one TabulatedDistribution (a table is read-only apart from its deterministic lazy
+ * parts, so sharing it changes no value), which compare.ts also uses to integrate once per distinct one.
+ */
 function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior): TabulatedDistribution[] {
-  return variants.map((v) => posteriorOf(v, prior));
+  const seen = new Map<string, TabulatedDistribution>();
+  return variants.map((v) => {
+    const key = `${v.conversions}/${v.visitors}`;
+    let d = seen.get(key);
+    if (d === undefined) {
+      d = posteriorOf(v, prior);
+      seen.set(key, d);
+    }
+    return d;
+  });
 }
 
 /**
@@ -192,7 +206,15 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
   checkCounts(variants, 2, MAX_VARIANTS);
   const ds = posteriors(variants, prior);
   const control = ds[0] as TabulatedDistribution;
-  return ds.slice(1).map((d) => probabilityGreater(d, control));
+  const done = new Map<TabulatedDistribution, number>();
+  return ds.slice(1).map((d) => {
+    let v = done.get(d);
+    if (v === undefined) {
+      v = probabilityGreater(d, control);
+      done.set(d, v);
+    }
+    return v;
+  });
 }
 
 /**
