@@ -478,10 +478,16 @@ export class TabulatedDistribution {
     const right = this.scratchRight;
     const work = this.scratchWork;
     const half = ((this.edges[p + 1] as number) - (this.edges[p] as number)) / 2;
-    inPanelPartials(this.nodeLogDensity, p * n, half, left, right, work);
+    // log(e^edge + e^logScale · partial) for each node, with e^{logScale − edge} formed once per panel:
+    // edge + log1p(ratio) while the edge's term dominates, else the partial's log plus log1p(1/ratio).
+    const logScale = inPanelSums(this.nodeLogDensity, p * n, half, left, right, work);
+    const edgeCdf = this.edgeLogCdf[p] as number;
+    const edgeSf = this.edgeLogSf[p + 1] as number;
+    const scaleCdf = Math.exp(logScale - edgeCdf);
+    const scaleSf = Math.exp(logScale - edgeSf);
     for (let k = 0; k < n; k++) {
-      this.nodeLogCdf[p * n + k] = logAddExp(this.edgeLogCdf[p] as number, left[k] as number);
-      this.nodeLogSf[p * n + k] = logAddExp(this.edgeLogSf[p + 1] as number, right[k] as number);
+      this.nodeLogCdf[p * n + k] = addPartial(edgeCdf, scaleCdf, logScale, left[k] as number);
+      this.nodeLogSf[p * n + k] = addPartial(edgeSf, scaleSf, logScale, right[k] as number);
     }
     this.panelReady[p] = 1;
   }
@@ -859,6 +865,62 @@ export function panelLogIntegral(logValues: ArrayLike<number>, offset: number, h
     sum += (w[j] as number) * Math.exp((logValues[offset + j] as number) - max - beta * (nodes[j] as number));
   }
   return sum > 0 ? max + Math.log(half * sum) : -Infinity;
+}
+
+/**
+ * log(e^edge + e^logScale · partial), given scale = e^{logScale − edge} (+Infinity when edge is −Infinity
+ * or far below): the edge's log plus log1p of the ratio while that is at most 1, else the partial's log
+ * plus log1p of the inverse ratio; the edge alone when the partial is 0.
+ */
+function addPartial(edge: number, scale: number, logScale: number, partial: number): number {
+  if (!(partial > 0)) return edge;
+  const ratio = partial * scale;
+  if (ratio <= 1) return edge + Math.log1p(ratio);
+  return logScale + Math.log(partial) + Math.log1p(1 / ratio);
+}
+
+/**
+ * The linear form of {@link inPanelPartials}: the partial integrals from the panel's left edge to each
+ * node (out `left`) and from each node to its right edge (out `right`) as multiples of e^{returned
+ * value}, with the same trend-weighted matrices; returns −Infinity (and zeros) when every value is −Infinity.
+ */
+function inPanelSums(
+  logValues: ArrayLike<number>,
+  offset: number,
+  half: number,
+  left: Float64Array,
+  right: Float64Array,
+  scratch: Float64Array,
+): number {
+  const n = PANEL_ORDER;
+  const { nodes } = TABLES;
+  let max = -Infinity;
+  for (let j = 0; j < n; j++) {
+    const v = logValues[offset + j] as number;
+    if (v > max) max = v;
+  }
+  if (max === -Infinity) {
+    left.fill(0);
+    right.fill(0);
+    return -Infinity;
+  }
+  const beta = panelTrend(logValues, offset);
+  const h = scratch;
+  for (let j = 0; j < n; j++) h[j] = Math.exp((logValues[offset + j] as number) - max - beta * (nodes[j] as number));
+  const lm = TABLES.left[beta + MAX_TREND] as Float64Array;
+  const rm = TABLES.right[beta + MAX_TREND] as Float64Array;
+  for (let k = 0; k < n; k++) {
+    let sl = 0;
+    let sr = 0;
+    for (let j = 0; j < n; j++) {
+      const hj = h[j] as number;
+      sl += (lm[n * k + j] as number) * hj;
+      sr += (rm[n * k + j] as number) * hj;
+    }
+    left[k] = sl;
+    right[k] = sr;
+  }
+  return max + Math.log(half);
 }
 
 /**
