@@ -524,9 +524,11 @@ export class TabulatedDistribution {
   /**
    * Adds log F (upper = false) or log(1 − F) (upper = true) at each of `count` ascending working values
    * zs[offset … offset + count − 1] to out[0 … count − 1], skipping entries of out that are already −Infinity. The same
-   * values as {@link logCdfAt} / {@link logSfAt} point by point, with the panel found once by binary
-   * search and then by stepping forward (the points are ascending). Cost: per point one interpolation
-   * (+ log1mExp on the far side of the median). Used by compare.ts for the nodes of one base panel.
+   * values as {@link logCdfAt} / {@link logSfAt} point by point to ~1e-16 absolute (the asked-for table is
+   * interpolated on both sides of the median: accurate relative to F where F is small and absolutely
+   * near 1, as a factor of a product needs; not for 1 − F near 0), with the panel found once by binary
+   * search and then by stepping forward (the points are ascending). Cost: one interpolation a point.
+   * Used by compare.ts for the nodes of one base panel.
    * @example tabulate(betaWorkingDensity(8, 10)).addLogTailsAt(Float64Array.of(0), 0, 1, new Float64Array(1), false) // out[0] = log 0.6854705810546875
    */
   addLogTailsAt(zs: ArrayLike<number>, offset: number, count: number, out: Float64Array, upper: boolean): void {
@@ -545,13 +547,11 @@ export class TabulatedDistribution {
         if (p < 0) p = this.findPanel(z);
         else while (p < last && (this.edges[p + 1] as number) <= z) p++;
         this.ensurePanel(p);
-        if (this.leftSide[p] === 1) {
-          const lc = Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
-          v = upper ? log1mExp(lc) : lc;
-        } else {
-          const ls = Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
-          v = upper ? ls : log1mExp(ls);
-        }
+        // The asked-for table directly on both sides of the median: on the far side it holds values near
+        // 0 accurate to ~1e-16 absolute, which is what a factor of a product needs (no log1mExp).
+        v = upper
+          ? Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z))
+          : Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
       }
       out[k] = before + v;
     }
