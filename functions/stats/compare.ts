@@ -297,6 +297,9 @@ function xIsBase(x: TabulatedDistribution, y: TabulatedDistribution): boolean {
  * (possible only close to ½, by skewness) the other side is integrated as well and the smaller kept.
  */
 function greaterTails(x: TabulatedDistribution, y: TabulatedDistribution): LogTails {
+  // One table twice (two variants with the same counts share one): X and Y are independent draws of one
+  // continuous distribution, so P(X > Y) = P(Y > X) = 1/2 exactly by exchangeability (common practice).
+  if (x === y) return { lower: -Math.LN2, upper: -Math.LN2 };
   const base = xIsBase(x, y) ? x : y;
   const other = base === x ? y : x;
   // log P(base > other) = ∫ f_base F_other; log P(other > base) = ∫ f_base S_other.
@@ -323,8 +326,9 @@ function greaterTails(x: TabulatedDistribution, y: TabulatedDistribution): LogTa
  * P(X > Y) for independent X, Y: ∫ f_X F_Y (or ∫ f_Y S_X on the narrower one's grid). Of P(X > Y) and
  * P(Y > X) the smaller is integrated directly and the other returned as 1 − smaller, so
  * probabilityGreater(x, y) + probabilityGreater(y, x) = 1 and a tiny value is accurate relative to itself.
- * Method: composite Gauss–Legendre quadrature on the tabulated panels (see grid.ts).
- * Cost: ~2 × (panels + kept panels × 16) interpolations.
+ * Method: composite Gauss–Legendre quadrature on the tabulated panels (see grid.ts); for one table passed
+ * twice (the same object) exactly 1/2, by exchangeability.
+ * Cost: ~2 × (panels + kept panels × 16) interpolations; O(1) for the same table twice.
  * @example probabilityGreater(beta(6, 6), beta(4, 8)) //=> 0.8065015479876161 (= 521/646, Evan Miller 2015)
  */
 export function probabilityGreater(x: TabulatedDistribution, y: TabulatedDistribution): number {
