@@ -282,6 +282,19 @@ describe('edge cases', () => {
     }
   });
 
+  it('one table listed twice (variants with equal counts share it) gives what two separate tables give', () => {
+    // Exchangeability (common practice): P(X > Y) = 1/2 for two independent draws of one continuous
+    // distribution; the shared-table shortcut must agree with the quadrature on separate tables.
+    const shared = beta(13, 988);
+    const other = beta(17, 984);
+    expect(probabilityGreater(shared, shared)).toBe(0.5);
+    expect(Math.abs(probabilityGreater(beta(13, 988), beta(13, 988)) - 0.5)).toBeLessThan(1e-14);
+    const once = highestProbabilities([shared, other, shared]);
+    const separate = highestProbabilities([beta(13, 988), other, beta(13, 988)]);
+    expect(once[0]).toBe(once[2]);
+    for (let i = 0; i < 3; i++) expect(Math.abs((once[i] as number) - (separate[i] as number))).toBeLessThan(1e-14);
+  });
+
   it('50 different posteriors: P(highest) sums to 1, the raw integrals within 1e-10', () => {
     const ds = Array.from({ length: 50 }, (_, i) => beta(1 + 50 + i, 1 + 950 - i));
     const raw = highestProbabilityIntegrals(ds);
