@@ -229,6 +229,19 @@ export function liftInterval(
   level: number,
   prior: BetaPrior = UNIFORM_PRIOR,
 ): IntervalWithMedian[] {
+  return challengerIntervals(variants, level, prior, ratioQuantile);
+}
+
+/**
+ * Lower, median and upper `quantile` of each challenger against the control, at the equal-tailed `level`:
+ * the shared body of liftInterval (ratio quantiles) and rateDiffInterval (difference quantiles).
+ */
+function challengerIntervals(
+  variants: readonly ConversionCounts[],
+  level: number,
+  prior: BetaPrior,
+  quantile: (y: TabulatedDistribution, x: TabulatedDistribution, p: number) => number,
+): IntervalWithMedian[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   checkLevel(level);
@@ -236,9 +249,9 @@ export function liftInterval(
   const control = ds[0] as TabulatedDistribution;
   const tail = (1 - level) / 2;
   return ds.slice(1).map((d) => ({
-    lower: ratioQuantile(d, control, tail),
-    median: ratioQuantile(d, control, 0.5),
-    upper: ratioQuantile(d, control, 1 - tail),
+    lower: quantile(d, control, tail),
+    median: quantile(d, control, 0.5),
+    upper: quantile(d, control, 1 - tail),
   }));
 }
 
@@ -254,17 +267,7 @@ export function rateDiffInterval(
   level: number,
   prior: BetaPrior = UNIFORM_PRIOR,
 ): IntervalWithMedian[] {
-  checkPrior(prior);
-  checkCounts(variants, 2, MAX_VARIANTS);
-  checkLevel(level);
-  const ds = posteriors(variants, prior);
-  const control = ds[0] as TabulatedDistribution;
-  const tail = (1 - level) / 2;
-  return ds.slice(1).map((d) => ({
-    lower: differenceQuantile(d, control, tail),
-    median: differenceQuantile(d, control, 0.5),
-    upper: differenceQuantile(d, control, 1 - tail),
-  }));
+  return challengerIntervals(variants, level, prior, differenceQuantile);
 }
 
 /**

@@ -11,7 +11,7 @@
  */
 import { StatsError, ensure } from '../errors';
 import { gaussLegendre } from '../numeric';
-import { binomialDeviance, digamma, logBeta, stirlingError, trigamma } from './gamma';
+import { binomialDeviance, binomialDevianceSeries, digamma, logBeta, stirlingError, trigamma } from './gamma';
 import { normalQuantile } from './normal';
 
 const LOG_2PI = 1.8378770664093454836;
@@ -42,18 +42,7 @@ function devianceTo(k: number, M: Double2): number {
   const total = M[0] + M[1];
   if (Math.abs(k - total) >= 0.1 * (k + total)) return binomialDeviance(k, total);
   const difference = add2([k, 0], [-M[0], -M[1]]);
-  const d = difference[0] + difference[1];
-  const v = d / (k + total);
-  let sum = d * v;
-  let term = 2 * k * v;
-  const vv = v * v;
-  for (let j = 1; j < 1000; j++) {
-    term *= vv;
-    const next = sum + term / (2 * j + 1);
-    if (next === sum) return next;
-    sum = next;
-  }
-  return sum;
+  return binomialDevianceSeries(difference[0] + difference[1], k, k + total);
 }
 
 /**
