@@ -3,9 +3,11 @@
  *
  * Each variant's rate has the posterior Beta(α + conversions, β + visitors − conversions) under a
  * Beta(α, β) prior (conjugate updating; Gelman et al., "Bayesian Data Analysis", 3rd ed., §2.4). The
- * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts; the first variant is the
- * control. Inputs are checked here with generic messages; the sheet layer adds argument names.
+ * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts (P(above the control) by
+ * Evan Miller's exact sum, betaComparison.ts, where it applies); the first variant is the control.
+ * Inputs are checked here with generic messages; the sheet layer adds argument names.
  */
+import { closedFormLogProbGreater } from './betaComparison';
 import { StatsError, ensure } from './errors';
 import { betaWorkingDensity } from './betaDensity';
 import {
@@ -196,18 +198,40 @@ export function probHighest(variants: readonly ConversionCounts[], prior: BetaPr
   return highestProbabilities(posteriors(variants, prior));
 }
 
+/** Longest closed-form sum probAboveControl uses: 20 000 terms (~35 µs measured) cost less than one tabulation and integral (~70 µs). */
+const MAX_CLOSED_FORM_TERMS = 20000;
+
 /**
  * For each challenger (variants 2…k), P(its rate > the control's rate).
- * Cost: k tabulations and k − 1 integrals. Same errors as probHighest.
+ * Method: Evan Miller's exact sum ("Formulas for Bayesian A/B Testing", 2015; betaComparison.ts) when a
+ * posterior shape is a whole number (always, under a prior with whole-number α or β) that gives at most
+ * 20 000 terms and the shapes are small enough for it to keep 1e-12 relative accuracy (log-betas of at
+ * most 3000 in size: up to ~45 000 visitors a variant at 1% rates, ~3 000 at 50%); otherwise the
+ * quadrature of the tabulated posteriors (compare.ts probabilityGreater). A challenger with the control's
+ * counts gets exactly 1/2.
+ * Cost: per challenger a sum of at most 20 000 terms (a few ns each) where the closed form applies, else
+ * one tabulation (the control's once) and one integral. Same errors as probHighest.
  * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.8065015479876161] (521/646)
  */
 export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
-  const ds = posteriors(variants, prior);
+  const [aC, bC] = shapes(variants[0] as ConversionCounts, prior);
+  const challengers = variants.slice(1);
+  const closed = challengers.map((v) => {
+    const [a, b] = shapes(v, prior);
+    // The same counts as the control: two draws of one distribution, 1/2 by exchangeability.
+    if (a === aC && b === bC) return 0.5;
+    const log = closedFormLogProbGreater(a, b, aC, bC, MAX_CLOSED_FORM_TERMS);
+    return log === undefined ? undefined : Math.exp(log);
+  });
+  const rest = challengers.filter((_, i) => closed[i] === undefined);
+  if (rest.length === 0) return closed as number[];
+  // Tabulate only the control and the challengers the closed form left.
+  const ds = posteriors([variants[0] as ConversionCounts, ...rest], prior);
   const control = ds[0] as TabulatedDistribution;
   const done = new Map<TabulatedDistribution, number>();
-  return ds.slice(1).map((d) => {
+  const quadrature = ds.slice(1).map((d) => {
     let v = done.get(d);
     if (v === undefined) {
       v = probabilityGreater(d, control);
@@ -215,6 +239,8 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
     }
     return v;
   });
+  let next = 0;
+  return closed.map((v) => v ?? (quadrature[next++] as number));
 }
 
 /**

@@ -7,9 +7,10 @@
  * is planned here (peeking). With many variants each comparison has its own chance of a false alarm.
  * For regulated or health-related decisions, have a qualified statistician check the plan.
  */
+import { closedFormLogProbGreater } from './betaComparison';
 import { ensure, StatsError } from './errors';
 import { probAboveControl } from './conversion';
-import { digamma, logBeta, trigamma } from './special/gamma';
+import { digamma, trigamma } from './special/gamma';
 import { betaCdf, betaLogDensity, betaSf } from './special/incompleteBeta';
 import { normalCdf, normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
@@ -223,45 +224,21 @@ function approximateProbAbove(a: LogitCumulants, i: number, b: LogitCumulants, j
 
 const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
 
-/** Longest sum the closed form below is used for (each term costs a few multiplications). */
+/** Longest sum the closed form is used for (each term costs a few nanoseconds). */
 const MAX_CLOSED_FORM_TERMS = 20000;
 
 /**
- * P(p_B > p_A) for p_A ~ Beta(aA, bA), p_B ~ Beta(aB, bB) with a whole-number aB, by Evan Miller's closed
- * form ("Formulas for Bayesian A/B Testing", 2015): Σ_{i<aB} B(aA+i, bA+bB) / ((bB+i) B(1+i, bB) B(aA, bA)).
- * The terms follow t_0 = B(aA, bA+bB)/B(aA, bA) and t_{i+1}/t_i = (aA+i)(bB+i)/((aA+bA+bB+i)(1+i)); all are
- * positive, so the sum keeps its relative precision (~1e-13 for 1e4 terms). Kept rescaled against overflow.
- */
-function closedFormProbAbove(aA: number, bA: number, aB: number, bB: number): number {
-  let logScale = logBeta(aA, bA + bB) - logBeta(aA, bA);
-  let term = 1;
-  let sum = 0;
-  const total = aA + bA + bB;
-  for (let i = 0; i < aB; i++) {
-    sum += term;
-    term *= ((aA + i) * (bB + i)) / ((total + i) * (1 + i));
-    if (term > 1e250) {
-      term *= 1e-250;
-      sum *= 1e-250;
-      logScale += 250 * Math.LN10;
-    }
-  }
-  return Math.min(Math.exp(logScale + Math.log(sum)), 1);
-}
-
-/**
- * The exact P(B beats A) after x_A and x_B conversions out of n each: the closed form when a whole-number
- * shape keeps it short (the prior's α whole: sum over a_B; else β whole: the same form for 1 − p, summed
- * over b_A), otherwise the quadrature of {@link probAboveControl}.
+ * The exact P(B beats A) after x_A and x_B conversions out of n each: Evan Miller's closed form
+ * (betaComparison.ts) when a whole-number shape keeps it short and accurate, otherwise the quadrature of
+ * {@link probAboveControl}.
  */
 function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior): number {
   const aA = prior.alpha + xA;
   const bA = prior.beta + n - xA;
   const aB = prior.alpha + xB;
   const bB = prior.beta + n - xB;
-  if (Number.isInteger(aB) && aB <= MAX_CLOSED_FORM_TERMS) return closedFormProbAbove(aA, bA, aB, bB);
-  // p_B > p_A ⇔ 1 − p_A > 1 − p_B, with 1 − p_A ~ Beta(bA, aA) and 1 − p_B ~ Beta(bB, aB).
-  if (Number.isInteger(bA) && bA <= MAX_CLOSED_FORM_TERMS) return closedFormProbAbove(bB, aB, bA, aA);
+  const closed = closedFormLogProbGreater(aB, bB, aA, bA, MAX_CLOSED_FORM_TERMS);
+  if (closed !== undefined) return Math.exp(closed);
   return probAboveControl(
     [
       { conversions: xA, visitors: n },
@@ -366,8 +343,9 @@ function upperTails(range: PmfRange, n: number, p: number): Float64Array {
  * power = Σ_{x_A} Bin(x_A; n, p₀)·P(X_B ≥ c(x_A)), with c walked upwards once. Each comparison uses a
  * second-order Edgeworth expansion of logit p_B − logit p_A with exact digamma-family cumulants, and
  * only where that falls within its measured error of the threshold (or a shape is below 3) an exact
- * value decides: Evan Miller's closed form (2015) when the prior's α or β is a whole number and the sum
- * has at most 20 000 terms (the default uniform prior), else the quadrature of {@link probAboveControl}. The binomial pmf comes from Loader's saddle-point density
+ * value decides: Evan Miller's closed form (2015, betaComparison.ts) when the prior's α or β is a whole
+ * number (the default uniform prior), the sum has at most 20 000 terms and the shapes are small enough for
+ * 1e-12 accuracy, else the quadrature of {@link probAboveControl}. The binomial pmf comes from Loader's saddle-point density
  * ({@link betaLogDensity}); outcomes below 1e-14 of the peak pmf are skipped (their mass is below 1e-12),
  * the tails are summed directly with the ends from the incomplete beta. The result equals the brute-force
  * sum over every (x_A, x_B) with the exact P to about 1e-12 (tested at n = 50 and against scipy at 200,
