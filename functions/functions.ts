@@ -15,8 +15,17 @@ import * as normalMeans from './stats/normalMeans';
 import * as planning from './stats/planning';
 import * as prior from './stats/prior';
 import { srmPValue } from './stats/srm';
+import { TableMemo } from './stats/tableMemo';
 import * as sheet from './sheet';
 import { COMPARISON, ONE_OR_MORE, runSheet } from './sheet';
+
+/**
+ * The add-in's one piece of state: the conversion posteriors tabulated by recent calls, so that the
+ * several functions of one read-out (interval, P(highest), lift, loss, decision on the same ranges) tabulate
+ * each posterior once. A table from the memo gives bit-for-bit the values of a fresh one (stats/tableMemo.ts
+ * and its tests); the memo is bounded (~20 MB) and lives as long as the shared runtime.
+ */
+const POSTERIOR_TABLES = new TableMemo();
 
 /** Variant limits of PRIOR_FROM_HISTORY: at least three past results (one gives no spread, two nearly none), no comparison cap. */
 const HISTORY = { min: 3, max: 100000, noun: 'past results' } as const;
@@ -64,7 +73,7 @@ export function posteriorMean(conversions: any[][], visitors: any[][], prior_alp
 export function rateInterval(conversions: any[][], visitors: any[][], level?: number, prior_alpha?: number, prior_beta?: number, method?: string): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, ONE_OR_MORE);
-    const found = conversion.rateInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta), sheet.readChoice(sheet.RATE_INTERVAL_METHOD, method));
+    const found = conversion.rateInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta), sheet.readChoice(sheet.RATE_INTERVAL_METHOD, method), POSTERIOR_TABLES);
     return sheet.spillBlock(input.table, sheet.intervalRows(found), 2);
   });
 }
@@ -86,7 +95,7 @@ export function rateInterval(conversions: any[][], visitors: any[][], level?: nu
 export function probHighest(conversions: any[][], visitors: any[][], prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    return sheet.spillPerVariant(input.table, conversion.probHighest(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta)));
+    return sheet.spillPerVariant(input.table, conversion.probHighest(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES));
   });
 }
 
@@ -107,7 +116,7 @@ export function probHighest(conversions: any[][], visitors: any[][], prior_alpha
 export function probAboveControl(conversions: any[][], visitors: any[][], prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    return sheet.spillVersusControl(input.table, conversion.probAboveControl(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta)));
+    return sheet.spillVersusControl(input.table, conversion.probAboveControl(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES));
   });
 }
 
@@ -129,7 +138,7 @@ export function probAboveControl(conversions: any[][], visitors: any[][], prior_
 export function liftInterval(conversions: any[][], visitors: any[][], level?: number, prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    const found = conversion.liftInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.liftInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.spillBlockVersusControl(input.table, sheet.medianRows(found), 3);
   });
 }
@@ -151,7 +160,7 @@ export function liftInterval(conversions: any[][], visitors: any[][], level?: nu
 export function rateDiffInterval(conversions: any[][], visitors: any[][], level?: number, prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    const found = conversion.rateDiffInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.rateDiffInterval(input.variants, sheet.readOptionalNumber(sheet.LEVEL, level) as number, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.spillBlockVersusControl(input.table, sheet.medianRows(found), 3);
   });
 }
@@ -173,7 +182,7 @@ export function rateDiffInterval(conversions: any[][], visitors: any[][], level?
 export function probLiftAbove(conversions: any[][], visitors: any[][], min_lift: number, prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    const found = conversion.probLiftAbove(input.variants, sheet.readRequiredNumber(sheet.MIN_LIFT, min_lift), sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.probLiftAbove(input.variants, sheet.readRequiredNumber(sheet.MIN_LIFT, min_lift), sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.spillVersusControl(input.table, found);
   });
 }
@@ -195,7 +204,7 @@ export function probLiftAbove(conversions: any[][], visitors: any[][], min_lift:
 export function expectedLoss(conversions: any[][], visitors: any[][], prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    return sheet.spillPerVariant(input.table, conversion.expectedLoss(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta)));
+    return sheet.spillPerVariant(input.table, conversion.expectedLoss(input.variants, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES));
   });
 }
 
@@ -218,7 +227,7 @@ export function expectedLoss(conversions: any[][], visitors: any[][], prior_alph
 export function decision(conversions: any[][], visitors: any[][], max_loss?: number, labels?: any[][], prior_alpha?: number, prior_beta?: number): string {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    const found = conversion.decide(input.variants, sheet.readOptionalNumber(sheet.MAX_LOSS, max_loss), sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.decide(input.variants, sheet.readOptionalNumber(sheet.MAX_LOSS, max_loss), sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.decisionCell(input.table, sheet.readAlignedCells('labels', labels, input.table, 'conversions'), found);
   });
 }
@@ -241,7 +250,7 @@ export function decision(conversions: any[][], visitors: any[][], max_loss?: num
 export function posteriorDensity(conversions: any[][], visitors: any[][], points?: number, prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, ONE_OR_MORE);
-    const found = conversion.posteriorDensityTable(input.variants, sheet.readOptionalNumber(sheet.POINTS, points) as number, sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.posteriorDensityTable(input.variants, sheet.readOptionalNumber(sheet.POINTS, points) as number, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.spillDensity(input.table, found, 'variant');
   });
 }
@@ -263,7 +272,7 @@ export function posteriorDensity(conversions: any[][], visitors: any[][], points
 export function liftDensity(conversions: any[][], visitors: any[][], points?: number, prior_alpha?: number, prior_beta?: number): any[][] {
   return runSheet(() => {
     const input = sheet.readConversions(conversions, visitors, COMPARISON);
-    const found = conversion.liftDensityTable(input.variants, sheet.readOptionalNumber(sheet.POINTS, points) as number, sheet.readBetaPrior(prior_alpha, prior_beta));
+    const found = conversion.liftDensityTable(input.variants, sheet.readOptionalNumber(sheet.POINTS, points) as number, sheet.readBetaPrior(prior_alpha, prior_beta), POSTERIOR_TABLES);
     return sheet.spillDensity(input.table, found, 'challenger');
   });
 }

@@ -21,6 +21,8 @@ import {
 } from './compare';
 import { TabulatedDistribution, tabulate } from './grid';
 import { findRoot } from './numeric';
+import { NO_MEMO } from './tableMemo';
+import type { TableSource } from './tableMemo';
 import type { BetaPrior, ConversionCounts, DensityTable, Interval, IntervalWithMedian } from './types';
 import { UNIFORM_PRIOR } from './types';
 
@@ -75,9 +77,18 @@ function shapes(v: ConversionCounts, prior: BetaPrior): [number, number] {
  * Cost: one tabulation (~60–80 panels). Throws StatsError('invalid_argument') for bad shapes.
  * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) // 0.05468749999999… (pbeta(0.5, 8, 3) = 0.0546875)
  */
-export function posteriorOf(v: ConversionCounts, prior: BetaPrior = UNIFORM_PRIOR): TabulatedDistribution {
+export function posteriorOf(
+  v: ConversionCounts,
+  prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
+): TabulatedDistribution {
   const [a, b] = shapes(v, prior);
-  return tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' });
+  return betaTable(a, b, tables);
+}
+
+/** The tabulated Beta(a, b) in logit, from `tables` (the key holds both shapes in full precision). */
+function betaTable(a: number, b: number, tables: TableSource): TabulatedDistribution {
+  return tables.table(`beta-logit:${a}:${b}`, () => tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' }));
 }
 
 /**
@@ -85,13 +96,13 @@ export function posteriorOf(v: ConversionCounts, prior: BetaPrior = UNIFORM_PRIO
  * same counts share one TabulatedDistribution (a table is read-only apart from its deterministic lazy
  * parts, so sharing it changes no value), which compare.ts also uses to integrate once per distinct one.
  */
-function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior): TabulatedDistribution[] {
+function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior, tables: TableSource): TabulatedDistribution[] {
   const seen = new Map<string, TabulatedDistribution>();
   return variants.map((v) => {
     const key = `${v.conversions}/${v.visitors}`;
     let d = seen.get(key);
     if (d === undefined) {
-      d = posteriorOf(v, prior);
+      d = posteriorOf(v, prior, tables);
       seen.set(key, d);
     }
     return d;
@@ -130,13 +141,14 @@ export function rateInterval(
   level: number,
   prior: BetaPrior = UNIFORM_PRIOR,
   method: 'central' | 'hdi' = 'central',
+  tables: TableSource = NO_MEMO,
 ): Interval[] {
   checkPrior(prior);
   checkCounts(variants, 1, Infinity);
   checkLevel(level);
   ensure(method === 'central' || method === 'hdi', `the method must be "central" or "hdi", not ${String(method)}`);
   return variants.map((v) => {
-    const d = posteriorOf(v, prior);
+    const d = posteriorOf(v, prior, tables);
     const tail = (1 - level) / 2;
     if (method === 'central') return { lower: d.quantile(tail), upper: d.quantileUpper(tail) };
     const [a, b] = shapes(v, prior);
@@ -192,10 +204,10 @@ function hdiOf(d: TabulatedDistribution, a: number, b: number, level: number): I
  * counts or prior, or fewer than 2 / more than 50 variants.
  * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.1934984520123839, 0.8065015479876161]
  */
-export function probHighest(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+export function probHighest(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
-  return highestProbabilities(posteriors(variants, prior));
+  return highestProbabilities(posteriors(variants, prior, tables));
 }
 
 /** Longest closed-form sum probAboveControl uses: 20 000 terms (~35 µs measured) cost less than one tabulation and integral (~70 µs). */
@@ -213,7 +225,7 @@ const MAX_CLOSED_FORM_TERMS = 20000;
  * one tabulation (the control's once) and one integral. Same errors as probHighest.
  * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.8065015479876161] (521/646)
  */
-export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   const [aC, bC] = shapes(variants[0] as ConversionCounts, prior);
@@ -228,7 +240,7 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
   const rest = challengers.filter((_, i) => closed[i] === undefined);
   if (rest.length === 0) return closed as number[];
   // Tabulate only the control and the challengers the closed form left.
-  const ds = posteriors([variants[0] as ConversionCounts, ...rest], prior);
+  const ds = posteriors([variants[0] as ConversionCounts, ...rest], prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const done = new Map<TabulatedDistribution, number>();
   const quadrature = ds.slice(1).map((d) => {
@@ -254,8 +266,9 @@ export function liftInterval(
   variants: readonly ConversionCounts[],
   level: number,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): IntervalWithMedian[] {
-  return challengerIntervals(variants, level, prior, ratioQuantile);
+  return challengerIntervals(variants, level, prior, tables, ratioQuantile);
 }
 
 /**
@@ -266,12 +279,13 @@ function challengerIntervals(
   variants: readonly ConversionCounts[],
   level: number,
   prior: BetaPrior,
+  tables: TableSource,
   quantile: (y: TabulatedDistribution, x: TabulatedDistribution, p: number) => number,
 ): IntervalWithMedian[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   checkLevel(level);
-  const ds = posteriors(variants, prior);
+  const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const tail = (1 - level) / 2;
   return ds.slice(1).map((d) => ({
@@ -292,8 +306,9 @@ export function rateDiffInterval(
   variants: readonly ConversionCounts[],
   level: number,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): IntervalWithMedian[] {
-  return challengerIntervals(variants, level, prior, differenceQuantile);
+  return challengerIntervals(variants, level, prior, tables, differenceQuantile);
 }
 
 /**
@@ -305,11 +320,12 @@ export function probLiftAbove(
   variants: readonly ConversionCounts[],
   minLift: number,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   ensure(Number.isFinite(minLift) && minLift > -1, `the minimum lift must be a number greater than -1, not ${minLift}`);
-  const ds = posteriors(variants, prior);
+  const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   return ds.slice(1).map((d) => ratioSf(d, control, minLift));
 }
@@ -320,10 +336,10 @@ export function probLiftAbove(
  * Cost: O(k³) integrals (compare.ts expectedLosses). Errors as probHighest.
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) // [0.1877…, 0.0210…]
  */
-export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR): number[] {
+export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
-  return expectedLosses(posteriors(variants, prior));
+  return expectedLosses(posteriors(variants, prior, tables));
 }
 
 /** What {@link decide} recommends. */
@@ -350,6 +366,7 @@ export function decide(
   variants: readonly ConversionCounts[],
   maxLoss: number | undefined,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): Decision {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
@@ -357,7 +374,7 @@ export function decide(
     ensure(Number.isFinite(maxLoss) && maxLoss >= 0, `the largest acceptable loss must be a number of at least 0, not ${maxLoss}`);
   }
   const threshold = maxLoss ?? 0.01 * (posteriorMean([variants[0] as ConversionCounts], prior)[0] as number);
-  const losses = expectedLoss(variants, prior);
+  const losses = expectedLoss(variants, prior, tables);
   let index = 0;
   losses.forEach((l, i) => {
     if (l < (losses[index] as number)) index = i;
@@ -385,11 +402,12 @@ export function posteriorDensityTable(
   variants: readonly ConversionCounts[],
   points: number,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): DensityTable {
   checkPrior(prior);
   checkCounts(variants, 1, MAX_VARIANTS);
   checkPoints(points);
-  const ds = posteriors(variants, prior);
+  const ds = posteriors(variants, prior, tables);
   const lo = Math.min(...ds.map((d) => d.quantile(0.0005)));
   const hi = Math.max(...ds.map((d) => d.quantileUpper(0.0005)));
   const grid = evenGrid(lo, hi, points);
@@ -407,11 +425,12 @@ export function liftDensityTable(
   variants: readonly ConversionCounts[],
   points: number,
   prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
 ): DensityTable {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   checkPoints(points);
-  const ds = posteriors(variants, prior);
+  const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);
   const lo = Math.min(...challengers.map((d) => ratioQuantile(d, control, 0.001)));
