@@ -141,5 +141,8 @@ export function betaWorkingDensity(a: number, b: number): WorkingDensity {
     valueJacobian(z: number): number {
       return logistic(z) * logistic(-z);
     },
+    logJacobianAtValue(x: number): number {
+      return Math.log(x) + Math.log1p(-x);
+    },
   };
 }

@@ -280,6 +280,11 @@ export class TabulatedDistribution {
   /** 1 for panels left of the median (log F interpolated there), 0 right of it (log(1 − F) interpolated). */
   private readonly leftSide: Uint8Array;
   private lowerMoment: LowerMomentTables | undefined;
+  /** Caches of {@link nodeValue} and {@link nodeLogValue}. */
+  private nodeValues: Float64Array | undefined;
+  private nodeLogValues: Float64Array | undefined;
+  /** Cache of {@link median}. */
+  private medianValue: number | undefined;
 
   /** @internal Use {@link tabulate}. */
   constructor(source: WorkingDensity, options: TabulationOptions = {}) {
@@ -558,6 +563,48 @@ export class TabulatedDistribution {
   }
 
   /**
+   * log F (upper = false) or log(1 − F) (upper = true) at z as a factor of a product needs it: the
+   * asked-for table interpolated on both sides of the median, so accurate relative to the value where it
+   * is small and to ~1e-16 absolute near 1 (not for 1 − F near 0: use {@link logCdfAt} / {@link logSfAt}
+   * for that). Point by point the same value as {@link addLogTailsAt}. Cost: one interpolation.
+   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logTailAt(0, false)) // 0.685470581054… (pbeta(0.5, 8, 10))
+   */
+  logTailAt(z: number, upper: boolean): number {
+    if (z <= this.windowLeft) return upper ? log1mExp(this.leftTail(z)) : this.leftTail(z);
+    if (z >= this.windowRight) return upper ? this.rightTail(z) : log1mExp(this.rightTail(z));
+    const p = this.findPanel(z);
+    this.ensurePanel(p);
+    return upper
+      ? Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z))
+      : Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
+  }
+
+  /**
+   * The value toValue(z) at every node (computed on first use; read only): the same numbers as calling
+   * source.toValue on nodeZ, kept for integrals that visit the nodes many times (quantile searches).
+   * @example tabulate(betaWorkingDensity(8, 10)).nodeValue.length //=> 16 × its panelCount
+   */
+  get nodeValue(): Float64Array {
+    if (this.nodeValues === undefined) {
+      const values = new Float64Array(this.nodeZ.length);
+      for (let i = 0; i < values.length; i++) values[i] = this.source.toValue(this.nodeZ[i] as number);
+      this.nodeValues = values;
+    }
+    return this.nodeValues;
+  }
+
+  /** log of {@link nodeValue} at every node (computed on first use; read only; NaN where the value is negative). */
+  get nodeLogValue(): Float64Array {
+    if (this.nodeLogValues === undefined) {
+      const values = this.nodeValue;
+      const logs = new Float64Array(values.length);
+      for (let i = 0; i < logs.length; i++) logs[i] = Math.log(values[i] as number);
+      this.nodeLogValues = logs;
+    }
+    return this.nodeLogValues;
+  }
+
+  /**
    * log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}).
    * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) // 0.314529418945… (1 − pbeta(0.5, 8, 10))
    */
@@ -684,6 +731,15 @@ export class TabulatedDistribution {
    */
   quantile(p: number): number {
     return this.source.toValue(this.workingQuantile(p));
+  }
+
+  /**
+   * The median, quantile(0.5), computed on first use and kept (quantile searches start from it).
+   * @example tabulate(betaWorkingDensity(1, 1)).median // 0.5
+   */
+  get median(): number {
+    if (this.medianValue === undefined) this.medianValue = this.quantile(0.5);
+    return this.medianValue;
   }
 
   /**

@@ -56,6 +56,11 @@ export interface WorkingDensity {
   toWorking(x: number): number;
   /** d toValue / dz, used to turn densities in z into densities in x and to integrate in x. */
   valueJacobian(z: number): number;
+  /**
+   * Optional: log valueJacobian(toWorking(x)) computed from the value x directly, where that is cheaper
+   * (for a rate in logit it is log x + log(1 − x)). Integrals that map a value into this density use it.
+   */
+  logJacobianAtValue?(x: number): number;
   /** Smallest and largest value the quantity can take (e.g. 0 and 1 for a rate). */
   readonly valueRange: readonly [number, number];
   /** The exact mean of the value, when known in closed form. */
