@@ -6,6 +6,10 @@
  * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts (P(above the control) by
  * Evan Miller's exact sum, betaComparison.ts, where it applies); the first variant is the control.
  * Inputs are checked here with generic messages; the sheet layer adds argument names.
+ *
+ * Every read-out that tabulates takes an optional last argument `tables` (tableMemo.ts): by default each
+ * call tabulates afresh; a TableMemo passed by the caller (the add-in keeps one) lets several calls on the
+ * same variants share their tables without changing any result.
  */
 import { closedFormLogProbGreater } from './betaComparison';
 import { StatsError, ensure } from './errors';
