@@ -263,9 +263,8 @@ interface TailAndDensity {
  * The two integrals a Newton step of a quantile needs (the tail and its derivative), with the mapped
  * point, its panel and the factor found once per node for both: the same panels, pruning (a panel is kept
  * while either integrand's bound is within e^-46 of its running total) and refinement as logIntegral. The
- * tail factor is read as a factor of a product (grid.ts logTailAt: relative where small, ~1e-16 absolute
- * near 1), the base's values and their logs from its node caches, the other's log Jacobian from the value
- * where its density offers that. Same values as the two separate integrals to ~1e-15 relative.
+ * base's values and their logs come from its node caches, the other's log Jacobian from the value where
+ * its density offers that. Same values as the two separate integrals to ~1e-15 relative.
  * Cost: about 1.2 times one logIntegral instead of 2.
  */
 function logTailAndDensity(
@@ -324,7 +323,7 @@ function logTailAndDensity(
         zu = os.toWorking(u);
         logJacobian = os.logJacobianAtValue !== undefined ? os.logJacobianAtValue(u) : Math.log(os.valueJacobian(zu));
       }
-      tailValues[k] = f + other.logTailAt(zu, upperTail);
+      tailValues[k] = f + (upperTail ? other.logSfAt(zu) : other.logCdfAt(zu));
       const logX = withValue ? (fromTable ? (nodeLogValue[nodeOffset + k] as number) : Math.log(x)) : 0;
       densityValues[k] = f + other.logDensityAt(zu) - logJacobian + logX;
     }

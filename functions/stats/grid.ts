@@ -529,10 +529,9 @@ export class TabulatedDistribution {
   /**
    * Adds log F (upper = false) or log(1 − F) (upper = true) at each of `count` ascending working values
    * zs[offset … offset + count − 1] to out[0 … count − 1], skipping entries of out that are already −Infinity. The same
-   * values as {@link logCdfAt} / {@link logSfAt} point by point to ~1e-16 absolute (the asked-for table is
-   * interpolated on both sides of the median: accurate relative to F where F is small and absolutely
-   * near 1, as a factor of a product needs; not for 1 − F near 0), with the panel found once by binary
-   * search and then by stepping forward (the points are ascending). Cost: one interpolation a point.
+   * values as {@link logCdfAt} / {@link logSfAt} point by point (bit for bit), with the panel found once by
+   * binary search and then by stepping forward (the points are ascending). Cost: one interpolation a
+   * point (plus a log1mExp on the far side of the median).
    * Used by compare.ts for the nodes of one base panel.
    * @example tabulate(betaWorkingDensity(8, 10)).addLogTailsAt(Float64Array.of(0), 0, 1, new Float64Array(1), false) // out[0] = log 0.6854705810546875
    */
@@ -552,31 +551,22 @@ export class TabulatedDistribution {
         if (p < 0) p = this.findPanel(z);
         else while (p < last && (this.edges[p + 1] as number) <= z) p++;
         this.ensurePanel(p);
-        // The asked-for table directly on both sides of the median: on the far side it holds values near
-        // 0 accurate to ~1e-16 absolute, which is what a factor of a product needs (no log1mExp).
-        v = upper
-          ? Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z))
-          : Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
+        // As logCdfAt / logSfAt: the table of the smaller tail, converted with log1mExp on the far side.
+        // (Interpolating the far table directly saves the log1mExp but is not accurate enough where a
+        // slow tail makes the panels wide: 8e-9 absolute for Beta(0.1, 10), measured against mpmath.)
+        const near = this.leftSide[p] === 1;
+        if (upper) {
+          v = near
+            ? log1mExp(Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z)))
+            : Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
+        } else {
+          v = near
+            ? Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z))
+            : log1mExp(Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z)));
+        }
       }
       out[k] = before + v;
     }
-  }
-
-  /**
-   * log F (upper = false) or log(1 − F) (upper = true) at z as a factor of a product needs it: the
-   * asked-for table interpolated on both sides of the median, so accurate relative to the value where it
-   * is small and to ~1e-16 absolute near 1 (not for 1 − F near 0: use {@link logCdfAt} / {@link logSfAt}
-   * for that). Point by point the same value as {@link addLogTailsAt}. Cost: one interpolation.
-   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logTailAt(0, false)) // 0.685470581054… (pbeta(0.5, 8, 10))
-   */
-  logTailAt(z: number, upper: boolean): number {
-    if (z <= this.windowLeft) return upper ? log1mExp(this.leftTail(z)) : this.leftTail(z);
-    if (z >= this.windowRight) return upper ? this.rightTail(z) : log1mExp(this.rightTail(z));
-    const p = this.findPanel(z);
-    this.ensurePanel(p);
-    return upper
-      ? Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z))
-      : Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
   }
 
   /**
