@@ -108,8 +108,8 @@ export function probHighest(conversions: any[][], visitors: any[][], prior_alpha
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns For each challenger, P(its rate > the control's rate); empty text for the control.
- * @method P(B > A) = ∫ f_B(x) F_A(x) dx for the Beta posteriors, by quadrature; the smaller of P(B > A) and P(A > B) is computed directly so tiny probabilities keep their digits.
- * @source E. Miller, "Formulas for Bayesian A/B Testing" (2015), closed form for integer parameters.
+ * @method P(B > A) for the Beta posteriors: Evan Miller's exact sum when a posterior parameter is a whole number and the sum is short (the default prior, up to tens of thousands of visitors), otherwise the integral ∫ f_B(x) F_A(x) dx by quadrature, with the smaller of P(B > A) and P(A > B) computed directly so tiny probabilities keep their digits.
+ * @source E. Miller, "Formulas for Bayesian A/B Testing" (2015), closed form for whole-number parameters.
  * @example =ABTEST.PROB_ABOVE_CONTROL({120;150}, {2400;2380}) returns {"";0.974322}
  * @caution Checking this value every day and stopping the first time it passes 95% makes false wins much more likely (peeking). Fix the sample size or the decision rule in advance.
  */
