@@ -379,11 +379,20 @@ section('addin', () => {
       call('SRM_PVALUE', vis);
     }
   };
+  // The same calls one function at a time over all experiments (a sheet recalculated column by column):
+  // 3,000 posteriors are more than the add-in's table memo keeps (~900), so each function tabulates anew.
+  const NAMES = ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'EXPECTED_LOSS', 'DECISION'];
+  const readOutByColumn = () => {
+    for (const name of NAMES) for (const { conv, vis } of experiments) call(name, conv, vis);
+    for (const { vis } of experiments) call('SRM_PVALUE', vis);
+  };
   const t = medianMs(readOut, 1, 3);
+  const tColumns = medianMs(readOutByColumn, 1, 3);
   const size = fs.statSync(bundlePath).size;
   const gz = zlib.gzipSync(fs.readFileSync(bundlePath)).length;
   printTable('The add-in bundle', ['measure', 'value', 'target'], [
     ['read-out of 1,000 experiments × 8 functions through dist/functions.js', mark(t, 2000), '≤ 2 s'],
+    ['the same, one function at a time over all 1,000 (few table-memo hits)', fmtMs(tColumns), ''],
     ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
     ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
   ]);
