@@ -518,12 +518,30 @@ export class TabulatedDistribution {
    * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logCdfAt(0)) // 0.685470581054… (pbeta(0.5, 8, 10))
    */
   logCdfAt(z: number): number {
-    if (z <= this.windowLeft) return this.leftTail(z);
-    if (z >= this.windowRight) return log1mExp(this.rightTail(z));
-    const p = this.findPanel(z);
+    if (z <= this.windowLeft || z >= this.windowRight) return this.tailOutside(z, false);
+    return this.tailInPanel(this.findPanel(z), z, false);
+  }
+
+  /**
+   * log F (upper = false) or log(1 − F) (upper = true) at z inside panel p: the smaller tail's table (log F
+   * left of the median, log(1 − F) right of it), converted with log1mExp on the far side. Interpolating
+   * the far side's own table instead is not accurate enough where a slow tail makes the panels wide
+   * (8e-9 absolute for Beta(0.1, 10), measured against mpmath).
+   */
+  private tailInPanel(p: number, z: number, upper: boolean): number {
     this.ensurePanel(p);
-    if (this.leftSide[p] === 1) return Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
-    return log1mExp(Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z)));
+    if (this.leftSide[p] === 1) {
+      const v = Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z));
+      return upper ? log1mExp(v) : v;
+    }
+    const v = Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
+    return upper ? v : log1mExp(v);
+  }
+
+  /** The same beyond the window (z at or outside its ends): the exponential-tail form f/|slope|. */
+  private tailOutside(z: number, upper: boolean): number {
+    if (z <= this.windowLeft) return upper ? log1mExp(this.leftTail(z)) : this.leftTail(z);
+    return upper ? this.rightTail(z) : log1mExp(this.rightTail(z));
   }
 
   /**
@@ -545,25 +563,11 @@ export class TabulatedDistribution {
       if (before === -Infinity) continue;
       const z = zs[offset + k] as number;
       let v: number;
-      if (z <= left) v = upper ? log1mExp(this.leftTail(z)) : this.leftTail(z);
-      else if (z >= right) v = upper ? this.rightTail(z) : log1mExp(this.rightTail(z));
+      if (z <= left || z >= right) v = this.tailOutside(z, upper);
       else {
         if (p < 0) p = this.findPanel(z);
         else while (p < last && (this.edges[p + 1] as number) <= z) p++;
-        this.ensurePanel(p);
-        // As logCdfAt / logSfAt: the table of the smaller tail, converted with log1mExp on the far side.
-        // (Interpolating the far table directly saves the log1mExp but is not accurate enough where a
-        // slow tail makes the panels wide: 8e-9 absolute for Beta(0.1, 10), measured against mpmath.)
-        const near = this.leftSide[p] === 1;
-        if (upper) {
-          v = near
-            ? log1mExp(Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z)))
-            : Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
-        } else {
-          v = near
-            ? Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z))
-            : log1mExp(Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z)));
-        }
+        v = this.tailInPanel(p, z, upper);
       }
       out[k] = before + v;
     }
@@ -599,12 +603,8 @@ export class TabulatedDistribution {
    * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) // 0.314529418945… (1 − pbeta(0.5, 8, 10))
    */
   logSfAt(z: number): number {
-    if (z <= this.windowLeft) return log1mExp(this.leftTail(z));
-    if (z >= this.windowRight) return this.rightTail(z);
-    const p = this.findPanel(z);
-    this.ensurePanel(p);
-    if (this.leftSide[p] === 1) return log1mExp(Math.min(0, this.interpolate(this.edgeLogCdf, this.nodeLogCdf, p, z)));
-    return Math.min(0, this.interpolate(this.edgeLogSf, this.nodeLogSf, p, z));
+    if (z <= this.windowLeft || z >= this.windowRight) return this.tailOutside(z, true);
+    return this.tailInPanel(this.findPanel(z), z, true);
   }
 
   /**
