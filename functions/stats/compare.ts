@@ -220,14 +220,7 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
       total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
       continue;
     }
-    breaks.sort((u, v) => u - v);
-    let left = a;
-    for (let s = 0; s <= breaks.length; s++) {
-      const right = s < breaks.length ? (breaks[s] as number) : b;
-      if (!(right > left)) continue;
-      if (right - left <= 1e-13 * Math.max(1, Math.abs(left)) && s < breaks.length) continue;
-      const half = (right - left) / 2;
-      const mid = (right + left) / 2;
+    forEachPiece(a, b, breaks, (mid, half) => {
       if (batched) {
         for (let k = 0; k < n; k++) {
           const z = mid + half * (PANEL_NODES[k] as number);
@@ -245,10 +238,25 @@ function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], wi
         }
       }
       total = logAddExp(total, panelLogIntegral(values, 0, half));
-      left = right;
-    }
+    });
   }
   return total + logOffset;
+}
+
+/**
+ * Visits the pieces of the base panel [a, b] cut at `breaks` (sorted here, in place), left to right, as
+ * (middle, half-width); pieces shorter than 1e-13 of their position are merged into the next.
+ */
+function forEachPiece(a: number, b: number, breaks: number[], visit: (mid: number, half: number) => void): void {
+  breaks.sort((u, v) => u - v);
+  let left = a;
+  for (let s = 0; s <= breaks.length; s++) {
+    const right = s < breaks.length ? (breaks[s] as number) : b;
+    if (!(right > left)) continue;
+    if (right - left <= 1e-13 * Math.max(1, Math.abs(left)) && s < breaks.length) continue;
+    visit((right + left) / 2, (right - left) / 2);
+    left = right;
+  }
 }
 
 /** A tail integral and the matching density integral, from one pass over the base's nodes. */
@@ -297,15 +305,15 @@ function logTailAndDensity(
   const nodeLogValue = withValue ? base.nodeLogValue : base.nodeZ;
   // Both integrands at the 16 points mid + half·t_k (base log density from the node table when given).
   const fill = (mid: number, half: number, nodeOffset: number): void => {
+    const fromTable = nodeOffset >= 0;
     for (let k = 0; k < n; k++) {
-      const z = nodeOffset >= 0 ? (base.nodeZ[nodeOffset + k] as number) : mid + half * (PANEL_NODES[k] as number);
-      const f = nodeOffset >= 0 ? (base.nodeLogDensity[nodeOffset + k] as number) : base.logDensityAt(z);
+      const z = fromTable ? (base.nodeZ[nodeOffset + k] as number) : mid + half * (PANEL_NODES[k] as number);
+      const f = fromTable ? (base.nodeLogDensity[nodeOffset + k] as number) : base.logDensityAt(z);
       if (f === -Infinity) {
         tailValues[k] = -Infinity;
         densityValues[k] = -Infinity;
         continue;
       }
-      const fromTable = nodeOffset >= 0;
       const x = direct && !withValue ? 0 : fromTable ? (nodeValue[nodeOffset + k] as number) : src.toValue(z);
       let zu: number;
       let logJacobian: number;
@@ -348,18 +356,11 @@ function logTailAndDensity(
       density = logAddExp(density, panelLogIntegral(densityValues, 0, half));
       continue;
     }
-    breaks.sort((u, v) => u - v);
-    let left = a;
-    for (let s = 0; s <= breaks.length; s++) {
-      const right = s < breaks.length ? (breaks[s] as number) : b;
-      if (!(right > left)) continue;
-      if (right - left <= 1e-13 * Math.max(1, Math.abs(left)) && s < breaks.length) continue;
-      const half = (right - left) / 2;
-      fill((right + left) / 2, half, -1);
+    forEachPiece(a, b, breaks, (mid, half) => {
+      fill(mid, half, -1);
       tail = logAddExp(tail, panelLogIntegral(tailValues, 0, half));
       density = logAddExp(density, panelLogIntegral(densityValues, 0, half));
-      left = right;
-    }
+    });
   }
   return { logTail: tail, logDensity: density };
 }
@@ -596,6 +597,7 @@ function sharedGridLosses(ds: readonly TabulatedDistribution[]): number[] {
   const edgeCdf = new Float64Array(edges.length * k);
   const edgeOthersSf = new Float64Array(edges.length * k);
   const sfScaled = new Float64Array(k);
+  const sfSuffix = new Float64Array(k + 1);
   for (let e = 0; e < edges.length; e++) {
     const z = edges[e] as number;
     let top = -Infinity;
@@ -606,13 +608,13 @@ function sharedGridLosses(ds: readonly TabulatedDistribution[]): number[] {
       sfScaled[j] = ls;
       if (ls > top) top = ls;
     }
-    // log Σ_{j≠i} S_j by prefix and suffix sums of e^{log S_j − top}.
+    // log Σ_{j≠i} S_j by prefix and suffix sums of e^{log S_j − top} (never a total minus one term).
     for (let j = 0; j < k; j++) sfScaled[j] = top === -Infinity ? 0 : Math.exp((sfScaled[j] as number) - top);
+    sfSuffix[k] = 0;
+    for (let j = k - 1; j >= 0; j--) sfSuffix[j] = (sfSuffix[j + 1] as number) + (sfScaled[j] as number);
     let prefix = 0;
     for (let i = 0; i < k; i++) {
-      let suffix = 0;
-      for (let j = i + 1; j < k; j++) suffix += sfScaled[j] as number;
-      const sum = prefix + suffix;
+      const sum = prefix + (sfSuffix[i + 1] as number);
       edgeOthersSf[e * k + i] = sum > 0 ? top + Math.log(sum) : -Infinity;
       prefix += sfScaled[i] as number;
     }
@@ -881,8 +883,8 @@ const FIRST_STEP_K = 1000;
  * log P(V > v) above) with derivative e^{logDensity − logTail}, both from one `evaluate`, from `start`.
  * The bracket known so far (points with residual below and above 0) guards each step; when a step leaves
  * it (or gives no number) before both sides are known, `bracket()` supplies ends that hold the root by
- * construction, and the step is replaced by bisection. Once the residual is below ACCEPT_STEP the last
- * Newton step is returned without another evaluation.
+ * construction, and the step is replaced by bisection. Once the error estimate of a Newton step is below
+ * ACCEPT_ERROR that step is returned without another evaluation.
  */
 function solveQuantile(
   evaluate: (v: number, upper: boolean) => TailAndDensity,
