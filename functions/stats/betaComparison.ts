@@ -19,6 +19,12 @@ import { logBeta } from './special/gamma';
  */
 export const CLOSED_FORM_MAX_LOG_BETA = 3000;
 
+/**
+ * The longest sum the read-outs and planning use (maxTerms): 20 000 terms take ~35 µs (measured), less
+ * than one tabulation and integral (~70 µs).
+ */
+export const CLOSED_FORM_MAX_TERMS = 20000;
+
 /** Complement sums (P(Y > X) = 1 − P(X > Y)) are used only for a result of at least this. */
 const COMPLEMENT_FLOOR = 1e-3;
 

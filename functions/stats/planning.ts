@@ -7,7 +7,7 @@
  * is planned here (peeking). With many variants each comparison has its own chance of a false alarm.
  * For regulated or health-related decisions, have a qualified statistician check the plan.
  */
-import { closedFormLogProbGreater } from './betaComparison';
+import { CLOSED_FORM_MAX_TERMS, closedFormLogProbGreater } from './betaComparison';
 import { ensure, StatsError } from './errors';
 import { probAboveControl } from './conversion';
 import { digamma, trigamma } from './special/gamma';
@@ -224,9 +224,6 @@ function approximateProbAbove(a: LogitCumulants, i: number, b: LogitCumulants, j
 
 const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
 
-/** Longest sum the closed form is used for (each term costs a few nanoseconds). */
-const MAX_CLOSED_FORM_TERMS = 20000;
-
 /**
  * The exact P(B beats A) after x_A and x_B conversions out of n each: Evan Miller's closed form
  * (betaComparison.ts) when a whole-number shape keeps it short and accurate, otherwise the quadrature of
@@ -237,7 +234,7 @@ function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior): nu
   const bA = prior.beta + n - xA;
   const aB = prior.alpha + xB;
   const bB = prior.beta + n - xB;
-  const closed = closedFormLogProbGreater(aB, bB, aA, bA, MAX_CLOSED_FORM_TERMS);
+  const closed = closedFormLogProbGreater(aB, bB, aA, bA, CLOSED_FORM_MAX_TERMS);
   if (closed !== undefined) return Math.exp(closed);
   return probAboveControl(
     [
