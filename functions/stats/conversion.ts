@@ -259,7 +259,8 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
 /**
  * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
  * relative lift rate/control − 1 (quantiles of the ratio distribution, compare.ts).
- * Cost: ~3 × 6 integrals per challenger. Errors as probHighest, plus a level outside (0, 1).
+ * Cost: three quantiles per challenger, each 2–4 passes (a tail and its density). Errors as probHighest,
+ * plus a level outside (0, 1).
  * @example liftInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
  * // [{ lower: -0.0900…, median: 0.2960…, upper: 0.8571… }] (mpmath: -0.0900205695, 0.857069957)
  */
@@ -334,7 +335,8 @@ export function probLiftAbove(
 /**
  * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
  * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
- * Cost: O(k³) integrals (compare.ts expectedLosses). Errors as probHighest.
+ * Cost: O(k²) node evaluations on one shared grid for 3 or more variants, two integrals for two
+ * (compare.ts expectedLosses). Errors as probHighest.
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) // [0.1877…, 0.0210…]
  */
 export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
