@@ -19,7 +19,7 @@ step. Beyond the outer anchors F (or S) is f/|slope| (below 1e-108, too small to
 The loss integral is the same composite rule in z (dx = x(1 - x) dz) over the union of all the
 posteriors' anchors, gaps between windows cut into steps of at most 1/2, with
 1 - prod F_j = -expm1(sum log F_j) and log F_j = log1p(-S_j) where S_j is the smaller tail, so a loss of
-1e-40 keeps its relative digits. (This is the construction of conversion_reference.py, written again here.)
+1e-40 keeps its relative digits. (The construction of conversion_reference.py; its Gauss-Legendre rule and logit functions are imported.)
 
 Checks printed under "checks" (not used by the tests, read by a person):
  - 'halving': the cases marked HALVING again with every integration step cut in two; worst relative change.
@@ -30,32 +30,19 @@ Checks printed under "checks" (not used by the tests, read by a person):
  - 'meanIdentity': worst |(loss_i - loss_j) - (mean_j - mean_i)| with the means exact rationals.
 """
 import json
+import os
 import sys
 
 import mpmath as mp
 
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+# The rule and the logit pair are conversion_reference.py's (its main() does not run on import); the
+# working precision is set after the import, which sets its own.
+from conversion_reference import gauss_legendre, logistic, logit  # noqa: E402
+
 mp.mp.dps = 38
 LOG_RANGE = 250
 GAP_STEP = mp.mpf(1) / 2
-
-
-def gauss_legendre(n):
-    """n-point Gauss-Legendre nodes and weights on [-1, 1] (Newton on P_n at the working precision)."""
-    nodes, weights = [], []
-    for i in range(1, n + 1):
-        x = mp.cos(mp.pi * (i - mp.mpf(1) / 4) / (n + mp.mpf(1) / 2))
-        for _ in range(100):
-            p0, p1 = mp.mpf(1), x
-            for k in range(2, n + 1):
-                p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
-            dp = n * (x * p1 - p0) / (x * x - 1)
-            dx = p1 / dp
-            x -= dx
-            if abs(dx) < mp.mpf(10) ** (-mp.mp.dps - 2):
-                break
-        nodes.append(x)
-        weights.append(2 / ((1 - x * x) * dp * dp))
-    return nodes, weights
 
 
 GL_NODES, GL_WEIGHTS = gauss_legendre(12)
@@ -65,14 +52,6 @@ def gl(f, a, b):
     half = (b - a) / 2
     mid = (a + b) / 2
     return half * mp.fsum(w * f(mid + half * t) for t, w in zip(GL_NODES, GL_WEIGHTS))
-
-
-def logistic(z):
-    return 1 / (1 + mp.exp(-z))
-
-
-def logit(x):
-    return mp.log(x) - mp.log1p(-x)
 
 
 class BetaZ:
