@@ -367,21 +367,16 @@ section('addin', () => {
     const conv = [0, 1, 2].map((i) => [Math.round(visitors * (0.04 + 0.001 * ((e + i) % 7)))]);
     return { conv, vis: [[visitors], [visitors], [visitors]] };
   });
+  // The seven functions of (conversions, visitors), then SRM_PVALUE of the visitors.
+  const NAMES = ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'EXPECTED_LOSS', 'DECISION'];
   const readOut = () => {
     for (const { conv, vis } of experiments) {
-      call('POSTERIOR_MEAN', conv, vis);
-      call('RATE_INTERVAL', conv, vis);
-      call('PROB_HIGHEST', conv, vis);
-      call('PROB_ABOVE_CONTROL', conv, vis);
-      call('LIFT_INTERVAL', conv, vis);
-      call('EXPECTED_LOSS', conv, vis);
-      call('DECISION', conv, vis);
+      for (const name of NAMES) call(name, conv, vis);
       call('SRM_PVALUE', vis);
     }
   };
   // The same calls one function at a time over all experiments (a sheet recalculated column by column):
   // 3,000 posteriors are more than the add-in's table memo keeps (~900), so each function tabulates anew.
-  const NAMES = ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'EXPECTED_LOSS', 'DECISION'];
   const readOutByColumn = () => {
     for (const name of NAMES) for (const { conv, vis } of experiments) call(name, conv, vis);
     for (const { vis } of experiments) call('SRM_PVALUE', vis);
