@@ -34,7 +34,7 @@ export const DEFAULT_NODE_BUDGET = 400_000;
 /**
  * A least-recently-used memo of tables, bounded by the total number of quadrature nodes it holds (about
  * 64 bytes a node once a table's lazy parts are filled: the default 400 000 nodes held 961 conversion
- * posteriors of ~27 panels in 25 MB, measured with node 20). A table larger than the whole budget is
+ * posteriors of ~27 panels in 24 MB, measured with node 20). A table larger than the whole budget is
  * returned but not kept.
  * Cost: O(1) per lookup (a Map in recency order) plus the build on a miss.
  * Throws RangeError for a budget that is not a positive whole number.
