@@ -10,19 +10,28 @@ let ts;
 try {
   ts = require('typescript');
 } catch {
-  process.stderr.write('lift-ledger: the project\'s dependencies are not installed: run `npm install` in the project folder first\n');
+  process.stderr.write(
+    "lift-ledger: the project's dependencies are not installed: run `npm install` in the project folder first\n",
+  );
   process.exit(2);
 }
 require.extensions['.ts'] = function compileTypeScript(module, filename) {
   const source = require('fs').readFileSync(filename, 'utf8');
   const { outputText } = ts.transpileModule(source, {
-    compilerOptions: { module: ts.ModuleKind.CommonJS, target: ts.ScriptTarget.ES2020, esModuleInterop: true },
+    compilerOptions: {
+      module: ts.ModuleKind.CommonJS,
+      target: ts.ScriptTarget.ES2020,
+      esModuleInterop: true,
+    },
     fileName: filename,
   });
   module._compile(outputText, filename);
 };
 
 const { main } = require(path.join(__dirname, '..', 'cli', 'main.ts'));
-main(process.argv.slice(2), { stdout: process.stdout, stderr: process.stderr }).then((code) => {
+main(process.argv.slice(2), {
+  stdout: process.stdout,
+  stderr: process.stderr,
+}).then((code) => {
   process.exitCode = code;
 });

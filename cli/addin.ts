@@ -24,7 +24,13 @@ export class SetupError extends Error {
 /** The loaded functions. */
 export interface AddinFunctions {
   readonly folder: string;
-  readonly byName: ReadonlyMap<string, { readonly metadata: FunctionMetadata; readonly run: (...args: unknown[]) => unknown }>;
+  readonly byName: ReadonlyMap<
+    string,
+    {
+      readonly metadata: FunctionMetadata;
+      readonly run: (...args: unknown[]) => unknown;
+    }
+  >;
 }
 
 /** Newest modification time (ms) of the files under `dir` whose names end in one of `extensions`. */
@@ -63,7 +69,9 @@ export function buildAddin(say: (line: string) => void): void {
   const env = { ...process.env };
   const manifest = path.join(REPO_ROOT, 'dist', 'manifest.xml');
   if (!env.ADDIN_BASE_URL && fs.existsSync(manifest)) {
-    const m = /<bt:Url id="Functions\.Script\.Url" DefaultValue="([^"]+)functions\.js"/.exec(fs.readFileSync(manifest, 'utf8'));
+    const m = /<bt:Url id="Functions\.Script\.Url" DefaultValue="([^"]+)functions\.js"/.exec(
+      fs.readFileSync(manifest, 'utf8'),
+    );
     if (m && !m[1]?.startsWith('https://localhost:3000/')) env.ADDIN_BASE_URL = m[1];
   }
   let cli: string;
@@ -72,9 +80,16 @@ export function buildAddin(say: (line: string) => void): void {
   } catch {
     throw new SetupError('webpack is not installed: run `npm install` in the project folder first');
   }
-  say(`building the add-in into dist/ (npm run build${env.ADDIN_BASE_URL ? `, ADDIN_BASE_URL=${env.ADDIN_BASE_URL}` : ''}); this takes about half a minute…`);
-  const run = spawnSync(process.execPath, [cli, '--mode', 'production'], { cwd: REPO_ROOT, env, stdio: ['ignore', process.stderr, process.stderr] });
-  if (run.status !== 0) throw new SetupError('the add-in build failed (see the messages above); fix it or run `npm run build` yourself');
+  say(
+    `building the add-in into dist/ (npm run build${env.ADDIN_BASE_URL ? `, ADDIN_BASE_URL=${env.ADDIN_BASE_URL}` : ''}); this takes about half a minute…`,
+  );
+  const run = spawnSync(process.execPath, [cli, '--mode', 'production'], {
+    cwd: REPO_ROOT,
+    env,
+    stdio: ['ignore', process.stderr, process.stderr],
+  });
+  if (run.status !== 0)
+    throw new SetupError('the add-in build failed (see the messages above); fix it or run `npm run build` yourself');
 }
 
 /**
@@ -84,15 +99,25 @@ export function buildAddin(say: (line: string) => void): void {
 export function loadAddin(folder: string): AddinFunctions {
   const js = path.join(folder, 'functions.js');
   const jsonFile = path.join(folder, 'functions.json');
-  for (const file of [js, jsonFile]) if (!fs.existsSync(file)) throw new SetupError(`${file} is missing: run \`npm run build\` first`);
+  for (const file of [js, jsonFile])
+    if (!fs.existsSync(file)) throw new SetupError(`${file} is missing: run \`npm run build\` first`);
   const host = createCustomFunctionsStandIn();
-  const office = { onReady: () => Promise.resolve({ host: 'Excel', platform: 'PC' }), actions: { associate: () => undefined } };
-  const context = vm.createContext({ CustomFunctions: host.api, Office: office, console });
+  const office = {
+    onReady: () => Promise.resolve({ host: 'Excel', platform: 'PC' }),
+    actions: { associate: () => undefined },
+  };
+  const context = vm.createContext({
+    CustomFunctions: host.api,
+    Office: office,
+    console,
+  });
   const sandbox = context as Record<string, unknown>;
   sandbox.self = context;
   sandbox.window = context;
   sandbox.globalThis = context;
-  vm.runInContext(fs.readFileSync(js, 'utf8'), context, { filename: 'functions.js' });
+  vm.runInContext(fs.readFileSync(js, 'utf8'), context, {
+    filename: 'functions.js',
+  });
   let metadata;
   try {
     metadata = parseFunctionsMetadata(JSON.parse(fs.readFileSync(jsonFile, 'utf8')));
@@ -102,7 +127,10 @@ export function loadAddin(folder: string): AddinFunctions {
   const byName = new Map<string, { metadata: FunctionMetadata; run: (...args: unknown[]) => unknown }>();
   for (const fn of metadata.functions) {
     const run = host.associations.get(fn.id.toUpperCase());
-    if (!run) throw new SetupError(`${jsonFile} describes ${fn.id}, but functions.js never registers it: rebuild with \`npm run build\``);
+    if (!run)
+      throw new SetupError(
+        `${jsonFile} describes ${fn.id}, but functions.js never registers it: rebuild with \`npm run build\``,
+      );
     byName.set(fn.name.toUpperCase(), { metadata: fn, run });
   }
   return { folder, byName };

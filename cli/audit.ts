@@ -55,7 +55,12 @@ export interface AuditReport {
   readonly tolerance: number;
   readonly addinFolder: string;
   readonly entries: readonly AuditEntry[];
-  readonly summary: { readonly formulas: number; readonly agree: number; readonly differ: number; readonly notCheckable: number };
+  readonly summary: {
+    readonly formulas: number;
+    readonly agree: number;
+    readonly differ: number;
+    readonly notCheckable: number;
+  };
 }
 
 /** Options of {@link auditWorkbook}. */
@@ -66,14 +71,31 @@ export interface AuditOptions {
 }
 
 type ArgPlan =
-  | { readonly kind: 'value'; readonly value: CellValue; readonly matrix: boolean }
+  | {
+      readonly kind: 'value';
+      readonly value: CellValue;
+      readonly matrix: boolean;
+    }
   | { readonly kind: 'array'; readonly rows: readonly (readonly CellValue[])[] }
-  | { readonly kind: 'range'; readonly sheet: SheetInfo; readonly range: CellRange; readonly matrix: boolean }
+  | {
+      readonly kind: 'range';
+      readonly sheet: SheetInfo;
+      readonly range: CellRange;
+      readonly matrix: boolean;
+    }
   | { readonly kind: 'missing' };
 
 type Plan =
-  | { readonly ok: true; readonly functionName: string; readonly args: readonly ArgPlan[] }
-  | { readonly ok: false; readonly functionName?: string; readonly reason: string };
+  | {
+      readonly ok: true;
+      readonly functionName: string;
+      readonly args: readonly ArgPlan[];
+    }
+  | {
+      readonly ok: false;
+      readonly functionName?: string;
+      readonly reason: string;
+    };
 
 /** Saved results Excel writes when it could not compute the formula itself. */
 const NOT_COMPUTED: Readonly<Record<string, string>> = {
@@ -88,7 +110,8 @@ function describeRef(node: RefNode): string | undefined {
   if (node.sheet?.external !== undefined) return `argument refers to another workbook (${node.text})`;
   if (node.sheet?.lastName !== undefined) return `argument spans several sheets (${node.text})`;
   const ends = [node.first, node.last ?? node.first];
-  if (ends.some((e) => e.row === undefined || e.col === undefined)) return `argument is a whole column or row (${node.text}); give the cells of the data instead`;
+  if (ends.some((e) => e.row === undefined || e.col === undefined))
+    return `argument is a whole column or row (${node.text}); give the cells of the data instead`;
   return undefined;
 }
 
@@ -104,21 +127,44 @@ class Planner {
 
   plan(cell: AbtestCell): Plan {
     const parsed = parseFormula(cell.formula);
-    if (!parsed.ok) return { ok: false, reason: `the formula could not be read: ${parsed.problem}` };
+    if (!parsed.ok)
+      return {
+        ok: false,
+        reason: `the formula could not be read: ${parsed.problem}`,
+      };
     const top = parsed.node;
     const name = top.kind === 'call' ? abtestFunctionName(top.name) : undefined;
-    if (top.kind !== 'call' || name === undefined) return { ok: false, reason: 'the ABTEST call is part of a larger formula; only a formula that is one ABTEST call is recomputed' };
+    if (top.kind !== 'call' || name === undefined)
+      return {
+        ok: false,
+        reason: 'the ABTEST call is part of a larger formula; only a formula that is one ABTEST call is recomputed',
+      };
     const fn = this.addin.byName.get(name);
-    if (!fn) return { ok: false, functionName: name, reason: `ABTEST.${name} is not a function of this build of the add-in` };
+    if (!fn)
+      return {
+        ok: false,
+        functionName: name,
+        reason: `ABTEST.${name} is not a function of this build of the add-in`,
+      };
     const params = fn.metadata.parameters;
-    if (top.args.length > params.length) return { ok: false, functionName: name, reason: `ABTEST.${name} takes at most ${params.length} arguments; the formula gives ${top.args.length}` };
+    if (top.args.length > params.length)
+      return {
+        ok: false,
+        functionName: name,
+        reason: `ABTEST.${name} takes at most ${params.length} arguments; the formula gives ${top.args.length}`,
+      };
     const args: ArgPlan[] = [];
     for (let i = 0; i < params.length; i += 1) {
       const param = params[i] as (typeof params)[number];
       const node = top.args[i];
       const label = `argument ${i + 1} (${param.name})`;
       if (node === undefined || node.kind === 'missing') {
-        if (!param.optional) return { ok: false, functionName: name, reason: `${label} is required but missing` };
+        if (!param.optional)
+          return {
+            ok: false,
+            functionName: name,
+            reason: `${label} is required but missing`,
+          };
         args.push({ kind: 'missing' });
         continue;
       }
@@ -129,12 +175,19 @@ class Planner {
     return { ok: true, functionName: name, args };
   }
 
-  private argument(node: FormulaNode, matrix: boolean, sheet: SheetInfo, label: string, depth: number): ArgPlan | string {
+  private argument(
+    node: FormulaNode,
+    matrix: boolean,
+    sheet: SheetInfo,
+    label: string,
+    depth: number,
+  ): ArgPlan | string {
     switch (node.kind) {
       case 'constant':
         return { kind: 'value', value: node.value, matrix };
       case 'array':
-        if (!matrix) return `${label} is an array constant where one value is expected (Excel would compute the function once per item)`;
+        if (!matrix)
+          return `${label} is an array constant where one value is expected (Excel would compute the function once per item)`;
         return { kind: 'array', rows: node.rows };
       case 'ref': {
         const problem = describeRef(node);
@@ -149,8 +202,10 @@ class Planner {
           bottom: Math.max(a.row as number, b.row as number),
           right: Math.max(a.col as number, b.col as number),
         };
-        if (rangeSize(range) > MAX_ARGUMENT_CELLS) return `${label} covers ${rangeSize(range)} cells, more than the ${MAX_ARGUMENT_CELLS} the audit reads`;
-        if (!matrix && rangeSize(range) > 1) return `${label} is a range (${node.text}) where one value is expected (Excel would compute the function once per cell)`;
+        if (rangeSize(range) > MAX_ARGUMENT_CELLS)
+          return `${label} covers ${rangeSize(range)} cells, more than the ${MAX_ARGUMENT_CELLS} the audit reads`;
+        if (!matrix && rangeSize(range) > 1)
+          return `${label} is a range (${node.text}) where one value is expected (Excel would compute the function once per cell)`;
         return { kind: 'range', sheet: target, range, matrix };
       }
       case 'name': {
@@ -158,8 +213,14 @@ class Planner {
         const scope = node.sheet ? this.sheetsByName.get(node.sheet.name.toLowerCase()) : sheet;
         const lower = node.name.toLowerCase();
         const found =
-          this.structure.definedNames.find((d) => d.name.toLowerCase() === lower && scope !== undefined && d.localSheetIndex === scope.index) ??
-          (node.sheet ? undefined : this.structure.definedNames.find((d) => d.name.toLowerCase() === lower && d.localSheetIndex === undefined));
+          this.structure.definedNames.find(
+            (d) => d.name.toLowerCase() === lower && scope !== undefined && d.localSheetIndex === scope.index,
+          ) ??
+          (node.sheet
+            ? undefined
+            : this.structure.definedNames.find(
+                (d) => d.name.toLowerCase() === lower && d.localSheetIndex === undefined,
+              ));
         if (!found) return `${label} uses the name ${node.text}, which the workbook does not define`;
         const inner = parseFormula(found.formula);
         if (!inner.ok || !['ref', 'constant', 'array'].includes(inner.node.kind)) {
@@ -193,9 +254,15 @@ function recompute(run: (...args: unknown[]) => unknown, args: unknown[]): Recom
     result = run(...args);
   } catch (thrown) {
     if (isCustomFunctionsError(thrown)) return { error: thrown.code, message: thrown.message };
-    return { error: '#VALUE!', message: `unexpected failure inside the function: ${(thrown as Error)?.message ?? String(thrown)}` };
+    return {
+      error: '#VALUE!',
+      message: `unexpected failure inside the function: ${(thrown as Error)?.message ?? String(thrown)}`,
+    };
   }
-  if (Array.isArray(result)) return { matrix: (result as unknown[]).map((row) => (Array.isArray(row) ? row.map(resultValue) : [resultValue(row)])) };
+  if (Array.isArray(result))
+    return {
+      matrix: (result as unknown[]).map((row) => (Array.isArray(row) ? row.map(resultValue) : [resultValue(row)])),
+    };
   return { matrix: [[resultValue(result)]] };
 }
 
@@ -203,7 +270,11 @@ function recompute(run: (...args: unknown[]) => unknown, args: unknown[]): Recom
  * Audits the workbook `file` with the functions of `addin`.
  * @throws {WorkbookFileError} when the file cannot be read as a workbook.
  */
-export async function auditWorkbook(file: string, addin: AddinFunctions, options: AuditOptions = {}): Promise<AuditReport> {
+export async function auditWorkbook(
+  file: string,
+  addin: AddinFunctions,
+  options: AuditOptions = {},
+): Promise<AuditReport> {
   const tolerance = options.tolerance ?? DEFAULT_TOLERANCE;
   const pkg = await ZipPackage.open(file);
   try {
@@ -219,7 +290,10 @@ export async function auditWorkbook(file: string, addin: AddinFunctions, options
     const cells: AbtestCell[] = [];
     const values = new Map<number, Map<number, StoredValue>>(); // sheet index → cell key → stored value
     for (const sheet of structure.sheets) {
-      const scan = await scanSheet(pkg, sheet, { withSpillValues: true, onBytes: onBytes(sheet.part.name) });
+      const scan = await scanSheet(pkg, sheet, {
+        withSpillValues: true,
+        onBytes: onBytes(sheet.part.name),
+      });
       cells.push(...scan.cells);
       values.set(sheet.index, scan.values);
     }
@@ -230,14 +304,20 @@ export async function auditWorkbook(file: string, addin: AddinFunctions, options
     const needed = new Map<number, CellRange[]>();
     for (const plan of plans) {
       if (!plan.ok) continue;
-      for (const arg of plan.args) if (arg.kind === 'range') needed.set(arg.sheet.index, [...(needed.get(arg.sheet.index) ?? []), arg.range]);
+      for (const arg of plan.args)
+        if (arg.kind === 'range') needed.set(arg.sheet.index, [...(needed.get(arg.sheet.index) ?? []), arg.range]);
     }
 
     // Pass 2: the argument cells.
     const pass2 = structure.sheets.filter((s) => needed.has(s.index));
-    total += pass2.reduce((s, sh) => s + sh.part.uncompressedSize, 0) + (structure.sharedStrings?.uncompressedSize ?? 0);
+    total +=
+      pass2.reduce((s, sh) => s + sh.part.uncompressedSize, 0) + (structure.sharedStrings?.uncompressedSize ?? 0);
     for (const sheet of pass2) {
-      const scan = await scanSheet(pkg, sheet, { withSpillValues: false, extra: needed.get(sheet.index) ?? [], onBytes: onBytes(sheet.part.name) });
+      const scan = await scanSheet(pkg, sheet, {
+        withSpillValues: false,
+        extra: needed.get(sheet.index) ?? [],
+        onBytes: onBytes(sheet.part.name),
+      });
       const into = values.get(sheet.index) as Map<number, StoredValue>;
       for (const [key, value] of scan.values) into.set(key, value);
     }
@@ -250,7 +330,12 @@ export async function auditWorkbook(file: string, addin: AddinFunctions, options
     cells.forEach((c) => want(c.saved));
     values.forEach((m) => m.forEach(want));
     const sst = structure.sharedStrings
-      ? await readSharedStrings(await pkg.stream(structure.sharedStrings), structure.sharedStrings.name, wanted, onBytes(structure.sharedStrings.name))
+      ? await readSharedStrings(
+          await pkg.stream(structure.sharedStrings),
+          structure.sharedStrings.name,
+          wanted,
+          onBytes(structure.sharedStrings.name),
+        )
       : new Map<number, string>();
 
     const valueAt = (sheet: SheetInfo, row: number, col: number): ReturnType<typeof decodeStored> =>
@@ -262,7 +347,12 @@ export async function auditWorkbook(file: string, addin: AddinFunctions, options
       tolerance,
       addinFolder: addin.folder,
       entries,
-      summary: { formulas: entries.length, agree: count('agrees'), differ: count('differs'), notCheckable: count('not-checkable') },
+      summary: {
+        formulas: entries.length,
+        agree: count('agrees'),
+        differ: count('differs'),
+        notCheckable: count('not-checkable'),
+      },
     };
   } finally {
     pkg.close();
@@ -284,7 +374,13 @@ function judge(
     ...(plan.functionName ? { function: plan.functionName } : {}),
     ...(cell.spill ? { spill: rangeName(cell.spill) } : {}),
   };
-  const notCheckable = (reason: string): AuditEntry => ({ ...base, status: 'not-checkable', reason, compared: 0, differences: [] });
+  const notCheckable = (reason: string): AuditEntry => ({
+    ...base,
+    status: 'not-checkable',
+    reason,
+    compared: 0,
+    differences: [],
+  });
   if (!plan.ok) return notCheckable(plan.reason);
   const saved = decodeStored(cell.saved, sst);
   if (isUnreadable(saved)) return notCheckable(`the saved result cannot be read: ${saved.unreadable}`);
@@ -309,7 +405,10 @@ function judge(
         const row: CellValue[] = [];
         for (let c = arg.range.left; c <= arg.range.right; c += 1) {
           const v = valueAt(arg.sheet, r, c);
-          if (isUnreadable(v)) return notCheckable(`argument ${i + 1}: cell ${arg.sheet.name}!${cellName({ row: r, col: c })} holds ${v.unreadable}`);
+          if (isUnreadable(v))
+            return notCheckable(
+              `argument ${i + 1}: cell ${arg.sheet.name}!${cellName({ row: r, col: c })} holds ${v.unreadable}`,
+            );
           row.push(note(v === null ? '' : v));
         }
         rows.push(row);
@@ -324,7 +423,13 @@ function judge(
 
   const fn = addin.byName.get(plan.functionName);
   if (!fn) return notCheckable(`ABTEST.${plan.functionName} is not a function of this build of the add-in`);
-  const result: Recomputed = passedError !== undefined ? { error: passedError, message: `an argument holds ${passedError}, which Excel returns without calling the function` } : recompute(fn.run, args);
+  const result: Recomputed =
+    passedError !== undefined
+      ? {
+          error: passedError,
+          message: `an argument holds ${passedError}, which Excel returns without calling the function`,
+        }
+      : recompute(fn.run, args);
 
   if ('error' in result) {
     const recomputed: CellValue = { error: result.error };
@@ -341,7 +446,12 @@ function judge(
   const matrix = result.matrix;
   const height = matrix.length;
   const width = Math.max(1, ...matrix.map((r) => r.length));
-  const area = cell.spill ?? { top: cell.row, left: cell.col, bottom: cell.row, right: cell.col };
+  const area = cell.spill ?? {
+    top: cell.row,
+    left: cell.col,
+    bottom: cell.row,
+    right: cell.col,
+  };
   const differences: CellDifference[] = [];
   let compared = 0;
   for (let r = area.top; r <= area.bottom; r += 1) {
@@ -352,16 +462,33 @@ function judge(
       const here = r === cell.row && c === cell.col ? saved : valueAt(cell.sheet, r, c);
       compared += 1;
       if (isUnreadable(here)) {
-        differences.push({ cell: cellName({ row: r, col: c }), saved: `(unreadable: ${here.unreadable})`, recomputed });
+        differences.push({
+          cell: cellName({ row: r, col: c }),
+          saved: `(unreadable: ${here.unreadable})`,
+          recomputed,
+        });
         continue;
       }
-      if (!valuesAgree(here, recomputed, tolerance)) differences.push({ cell: cellName({ row: r, col: c }), saved: here, recomputed });
+      if (!valuesAgree(here, recomputed, tolerance))
+        differences.push({
+          cell: cellName({ row: r, col: c }),
+          saved: here,
+          recomputed,
+        });
     }
   }
   let reason: string | undefined;
   const bigger = height > area.bottom - area.top + 1 || width > area.right - area.left + 1;
-  if (bigger && cell.spill) reason = `the function now returns ${height}×${width} cells, but the saved result covers ${rangeName(cell.spill)}`;
-  else if (bigger) reason = `the function returns ${height}×${width} cells, but the file stores it in one cell; only the first value was compared`;
+  if (bigger && cell.spill)
+    reason = `the function now returns ${height}×${width} cells, but the saved result covers ${rangeName(cell.spill)}`;
+  else if (bigger)
+    reason = `the function returns ${height}×${width} cells, but the file stores it in one cell; only the first value was compared`;
   const status: AuditStatus = differences.length > 0 || (bigger && cell.spill !== undefined) ? 'differs' : 'agrees';
-  return { ...base, status, ...(reason ? { reason } : {}), compared, differences };
+  return {
+    ...base,
+    status,
+    ...(reason ? { reason } : {}),
+    compared,
+    differences,
+  };
 }

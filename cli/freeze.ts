@@ -24,8 +24,23 @@ import { cellName, parseRange, rangeName, rangeSize, type CellRange } from './co
 import { NOTE_AUTHOR, frozenHeaderLine, howComputedNote } from './core/frozenCopy';
 import { containsAbtestCall } from './core/formula';
 import { RangeSweep, cellFormula, cellKey, isAbtestFormula } from './scan';
-import { REL, readRelationships, readWorkbookStructure, relsPartName, type Relationship, type SheetInfo } from './xlsx/package';
-import { extendCommentsPart, extendVmlPart, newCommentsPart, newVmlPart, notedCells, vmlBlocks, type NoteToAdd } from './xlsx/notes';
+import {
+  REL,
+  readRelationships,
+  readWorkbookStructure,
+  relsPartName,
+  type Relationship,
+  type SheetInfo,
+} from './xlsx/package';
+import {
+  extendCommentsPart,
+  extendVmlPart,
+  newCommentsPart,
+  newVmlPart,
+  notedCells,
+  vmlBlocks,
+  type NoteToAdd,
+} from './xlsx/notes';
 import { createSheetParser, type RawCell } from './xlsx/sheetScan';
 import { StreamEditor } from './xlsx/streamEdit';
 import { escapeXml, feedXml } from './xlsx/xml';
@@ -43,7 +58,11 @@ export interface FreezeOptions {
 /** What a freeze did. */
 export interface FreezeResult {
   readonly frozen: number;
-  readonly sheets: readonly { readonly name: string; readonly frozen: number; readonly notes: number }[];
+  readonly sheets: readonly {
+    readonly name: string;
+    readonly frozen: number;
+    readonly notes: number;
+  }[];
   readonly warnings: readonly string[];
 }
 
@@ -54,7 +73,17 @@ const COMMENTS_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheet
 const VML_TYPE = 'application/vnd.openxmlformats-officedocument.vmlDrawing';
 
 /** Worksheet children that come after `legacyDrawing` (ECMA-376 Part 1 §18.3.1.99, CT_Worksheet order). */
-const AFTER_LEGACY_DRAWING = new Set(['legacyDrawingHF', 'drawingHF', 'picture', 'oleObjects', 'controls', 'webPublishItems', 'tableParts', 'extLst', 'AlternateContent']);
+const AFTER_LEGACY_DRAWING = new Set([
+  'legacyDrawingHF',
+  'drawingHF',
+  'picture',
+  'oleObjects',
+  'controls',
+  'webPublishItems',
+  'tableParts',
+  'extLst',
+  'AlternateContent',
+]);
 
 interface FoundCell {
   readonly row: number;
@@ -96,7 +125,8 @@ function startTagEnd(xml: string): number {
 export function frozenCellXml(raw: string, cell: RawCell): string {
   const edits: [number, number, string][] = [];
   const type = cell.attributes.t;
-  if (cell.formula && cell.formula.start >= 0) edits.push([cell.formula.start - cell.start, cell.formula.end - cell.start, '']);
+  if (cell.formula && cell.formula.start >= 0)
+    edits.push([cell.formula.start - cell.start, cell.formula.end - cell.start, '']);
   const hasValue = cell.valueStart !== undefined && cell.valueStart >= 0 && cell.valueEnd !== undefined;
   if (type === 'str' && hasValue) {
     const from = (cell.valueStart as number) - cell.start;
@@ -111,7 +141,10 @@ export function frozenCellXml(raw: string, cell: RawCell): string {
   for (const [from, to, text] of edits.sort((a, b) => b[0] - a[0])) out = out.slice(0, from) + text + out.slice(to);
   const end = startTagEnd(out);
   let tag = out.slice(0, end + 1).replace(/\s+cm\s*=\s*("[^"]*"|'[^']*')/, '');
-  if (type === 'str') tag = hasValue ? tag.replace(/(\st\s*=\s*)("str"|'str')/, '$1"inlineStr"') : tag.replace(/\s+t\s*=\s*("str"|'str')/, '');
+  if (type === 'str')
+    tag = hasValue
+      ? tag.replace(/(\st\s*=\s*)("str"|'str')/, '$1"inlineStr"')
+      : tag.replace(/\s+t\s*=\s*("str"|'str')/, '');
   return tag + out.slice(end + 1);
 }
 
@@ -126,7 +159,8 @@ export function pruneCalcChain(xml: string, frozen: ReadonlyMap<string, Readonly
     if (i !== undefined) actual = i;
     if (actual !== undefined && frozen.get(actual)?.has(r.toUpperCase())) return '';
     kept += 1;
-    const text = i === undefined && actual !== emitted && actual !== undefined ? `<${prefix}c${attrs} i="${actual}"/>` : whole;
+    const text =
+      i === undefined && actual !== emitted && actual !== undefined ? `<${prefix}c${attrs} i="${actual}"/>` : whole;
     emitted = actual;
     return text;
   });
@@ -153,7 +187,11 @@ function relativeTarget(fromPart: string, toPart: string): string {
 }
 
 /** Reads a sheet once: its ABTEST cells and the r:id of its `<legacyDrawing>`. */
-async function findCells(pkg: ZipPackage, sheet: SheetInfo, onBytes: (n: number) => void): Promise<{ cells: FoundCell[]; legacyDrawingId?: string }> {
+async function findCells(
+  pkg: ZipPackage,
+  sheet: SheetInfo,
+  onBytes: (n: number) => void,
+): Promise<{ cells: FoundCell[]; legacyDrawingId?: string }> {
   const cells: FoundCell[] = [];
   const masters = new Map<string, { text: string; row: number; col: number }>();
   let legacyDrawingId: string | undefined;
@@ -175,11 +213,14 @@ async function findCells(pkg: ZipPackage, sheet: SheetInfo, onBytes: (n: number)
     },
     onTopLevelElement(local, attributes) {
       if (local === 'legacyDrawing') {
-        for (const [name, value] of Object.entries(attributes)) if (name === 'r:id' || name.endsWith(':id')) legacyDrawingId = value;
+        for (const [name, value] of Object.entries(attributes))
+          if (name === 'r:id' || name.endsWith(':id')) legacyDrawingId = value;
       }
     },
   });
-  await feedXml(await pkg.stream(sheet.part), parser, sheet.part.name, { onBytes });
+  await feedXml(await pkg.stream(sheet.part), parser, sheet.part.name, {
+    onBytes,
+  });
   return { cells, ...(legacyDrawingId ? { legacyDrawingId } : {}) };
 }
 
@@ -202,7 +243,8 @@ export async function freezeWorkbook(input: string, output: string, options: Fre
     };
     const warnings: string[] = [];
     const taken = new Set<number>();
-    for (const part of pkg.parts) if (part.name.toLowerCase().endsWith('.vml')) vmlBlocks(await pkg.text(part)).forEach((b) => taken.add(b));
+    for (const part of pkg.parts)
+      if (part.name.toLowerCase().endsWith('.vml')) vmlBlocks(await pkg.text(part)).forEach((b) => taken.add(b));
     const usedNames = new Set(pkg.parts.map((p) => p.name.toLowerCase()));
     const freshName = (pattern: (n: number) => string): string => {
       let n = 1;
@@ -223,14 +265,24 @@ export async function freezeWorkbook(input: string, output: string, options: Fre
       frozenBySheetId.set(sheet.sheetId, new Set(found.cells.map((c) => cellName(c).toUpperCase())));
       for (const c of found.cells) {
         if (!c.hasSaved) warnings.push(`${sheet.name}!${cellName(c)} had no saved value; its frozen cell is empty`);
-        else if (c.savedError === '#NAME?') warnings.push(`${sheet.name}!${cellName(c)} was saved as #NAME? (calculated without the add-in); the copy keeps #NAME?`);
+        else if (c.savedError === '#NAME?')
+          warnings.push(
+            `${sheet.name}!${cellName(c)} was saved as #NAME? (calculated without the add-in); the copy keeps #NAME?`,
+          );
       }
       const plan = await planSheet(pkg, sheet, found.cells, found.legacyDrawingId, options, taken, freshName, warnings);
       plans.set(sheet.part.name, plan);
-      summary.push({ name: sheet.name, frozen: found.cells.length, notes: plan.notes });
+      summary.push({
+        name: sheet.name,
+        frozen: found.cells.length,
+        notes: plan.notes,
+      });
     }
     for (const d of structure.definedNames) {
-      if (containsAbtestCall(d.formula)) warnings.push(`the defined name ${d.name} uses ABTEST (${d.formula}); names are left as they are and show #NAME? without the add-in`);
+      if (containsAbtestCall(d.formula))
+        warnings.push(
+          `the defined name ${d.name} uses ABTEST (${d.formula}); names are left as they are and show #NAME? without the add-in`,
+        );
     }
     for (const part of pkg.parts) {
       if (/^xl\/tables\/[^/]+\.xml$/i.test(part.name) && /abtest/i.test(await pkg.text(part))) {
@@ -259,10 +311,14 @@ export async function freezeWorkbook(input: string, output: string, options: Fre
       if (!typesPart) throw new Error('the package has no [Content_Types].xml');
       let types = await pkg.text(typesPart);
       let insert = '';
-      if (newTypes.some((p) => p.name.toLowerCase().endsWith('.vml')) && !/<Default\s[^>]*Extension="vml"/i.test(types)) {
+      if (
+        newTypes.some((p) => p.name.toLowerCase().endsWith('.vml')) &&
+        !/<Default\s[^>]*Extension="vml"/i.test(types)
+      ) {
         insert += `<Default Extension="vml" ContentType="${VML_TYPE}"/>`;
       }
-      for (const p of newTypes) if (p.contentType) insert += `<Override PartName="/${p.name}" ContentType="${p.contentType}"/>`;
+      for (const p of newTypes)
+        if (p.contentType) insert += `<Override PartName="/${p.name}" ContentType="${p.contentType}"/>`;
       if (dropChain && structure.calcChain) {
         const chainName = escapeRegExp(structure.calcChain.name);
         types = types.replace(new RegExp(`<Override\\s[^>]*PartName="/${chainName}"[^>]*/>`, 'i'), '');
@@ -276,7 +332,10 @@ export async function freezeWorkbook(input: string, output: string, options: Fre
         const rels = await readRelationships(pkg, structure.workbookPart);
         const chainRel = rels.find((r) => r.type.endsWith(REL.calcChain));
         if (chainRel) {
-          const text = (await pkg.text(relsPart)).replace(new RegExp(`<Relationship\\s[^>]*Id="${escapeRegExp(chainRel.id)}"[^>]*/>`), '');
+          const text = (await pkg.text(relsPart)).replace(
+            new RegExp(`<Relationship\\s[^>]*Id="${escapeRegExp(chainRel.id)}"[^>]*/>`),
+            '',
+          );
           replaced.set(relsPart.name, text);
         }
       }
@@ -354,13 +413,26 @@ async function planSheet(
 
   // The notes: one per ABTEST cell, and the header on A1 (merged when A1 is itself a result).
   const byRef = new Map<string, NoteToAdd>();
-  const header = frozenHeaderLine({ frozenAt: options.frozenAt, source: options.source, results: cells.length });
+  const header = frozenHeaderLine({
+    frozenAt: options.frozenAt,
+    source: options.source,
+    results: cells.length,
+  });
   byRef.set('A1', { row: 0, col: 0, ref: 'A1', text: header });
   for (const c of cells) {
     const ref = cellName(c);
-    const text = howComputedNote({ formula: c.formula, ...(c.spill ? { spill: rangeName(c.spill) } : {}), frozenAt: options.frozenAt });
+    const text = howComputedNote({
+      formula: c.formula,
+      ...(c.spill ? { spill: rangeName(c.spill) } : {}),
+      frozenAt: options.frozenAt,
+    });
     const existing = byRef.get(ref);
-    byRef.set(ref, { row: c.row, col: c.col, ref, text: existing ? `${existing.text}\n\n${text}` : text });
+    byRef.set(ref, {
+      row: c.row,
+      col: c.col,
+      ref,
+      text: existing ? `${existing.text}\n\n${text}` : text,
+    });
   }
   let notes = [...byRef.values()].sort((a, b) => a.row - b.row || a.col - b.col);
   if (threaded) {
@@ -377,7 +449,8 @@ async function planSheet(
   const newRels: string[] = [];
   let legacyDrawing: string | undefined;
 
-  if (commentsXml !== undefined && commentsPart) parts.set(commentsPart.name, extendCommentsPart(commentsXml, notes, NOTE_AUTHOR));
+  if (commentsXml !== undefined && commentsPart)
+    parts.set(commentsPart.name, extendCommentsPart(commentsXml, notes, NOTE_AUTHOR));
   else {
     const name = freshName((n) => `xl/comments${n}.xml`);
     parts.set(name, newCommentsPart(notes, NOTE_AUTHOR));
@@ -387,7 +460,10 @@ async function planSheet(
   const fresh = notes.filter((n) => !noted.has(n.ref));
   if (vmlPart) parts.set(vmlPart.name, extendVmlPart(await pkg.text(vmlPart), fresh, taken));
   else {
-    if (legacyDrawingId) throw new Error(`${sheet.part.name} names a legacy drawing ${legacyDrawingId} that its relationships do not hold`);
+    if (legacyDrawingId)
+      throw new Error(
+        `${sheet.part.name} names a legacy drawing ${legacyDrawingId} that its relationships do not hold`,
+      );
     const name = freshName((n) => `xl/drawings/vmlDrawing${n}.vml`);
     parts.set(name, newVmlPart(fresh, taken));
     newParts.push({ name });
@@ -396,15 +472,35 @@ async function planSheet(
     legacyDrawing = rid;
   }
   if (newRels.length > 0) {
-    if (relsPart) parts.set(relsPart.name, (await pkg.text(relsPart)).replace('</Relationships>', `${newRels.join('')}</Relationships>`));
-    else parts.set(relsName, `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${RELS_NS}">${newRels.join('')}</Relationships>`);
+    if (relsPart)
+      parts.set(
+        relsPart.name,
+        (await pkg.text(relsPart)).replace('</Relationships>', `${newRels.join('')}</Relationships>`),
+      );
+    else
+      parts.set(
+        relsName,
+        `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${RELS_NS}">${newRels.join('')}</Relationships>`,
+      );
   }
   const anchors = new Map(cells.map((c) => [cellKey(c.row, c.col), c]));
-  return { sheet, anchors, ...(legacyDrawing ? { legacyDrawing } : {}), parts, newParts, notes: notes.length };
+  return {
+    sheet,
+    anchors,
+    ...(legacyDrawing ? { legacyDrawing } : {}),
+    parts,
+    newParts,
+    notes: notes.length,
+  };
 }
 
 /** Streams a sheet through the editor: frozen cells rewritten, a legacyDrawing element added if needed. */
-async function rewriteSheet(pkg: ZipPackage, plan: SheetPlan, out: PassThrough, onBytes: (n: number) => void): Promise<void> {
+async function rewriteSheet(
+  pkg: ZipPackage,
+  plan: SheetPlan,
+  out: PassThrough,
+  onBytes: (n: number) => void,
+): Promise<void> {
   const queue: string[] = [];
   const editor = new StreamEditor((text) => queue.push(text));
   const spills = new RangeSweep([]);
@@ -416,43 +512,41 @@ async function rewriteSheet(pkg: ZipPackage, plan: SheetPlan, out: PassThrough, 
     rPrefix !== undefined
       ? `<${rootPrefix}legacyDrawing ${rPrefix}:id="${plan.legacyDrawing}"/>`
       : `<${rootPrefix}legacyDrawing xmlns:r="${R_NS}" r:id="${plan.legacyDrawing}"/>`;
-  const parser = createSheetParser(
-    {
-      onRoot(name, attributes) {
-        const colon = name.indexOf(':');
-        rootPrefix = colon < 0 ? '' : name.slice(0, colon + 1);
-        for (const [attr, value] of Object.entries(attributes)) if (attr.startsWith('xmlns:') && value === R_NS) rPrefix = attr.slice(6);
-      },
-      onCellStart(start) {
-        openCell = start;
-      },
-      onCell(cell) {
-        openCell = -1;
-        const anchor = plan.anchors.get(cellKey(cell.row, cell.col));
-        if (anchor) {
-          editor.replace(cell.start, cell.end, frozenCellXml(editor.text(cell.start, cell.end), cell));
-          if (anchor.spill) spills.add(anchor.spill);
-          return;
-        }
-        if (cell.attributes.t === 'str' && !cell.formula && spills.contains(cell.row, cell.col)) {
-          editor.replace(cell.start, cell.end, frozenCellXml(editor.text(cell.start, cell.end), cell));
-        }
-      },
-      onTopLevel(local, start) {
-        if (!inserted && AFTER_LEGACY_DRAWING.has(local)) {
-          editor.insert(start, legacyTag());
-          inserted = true;
-        }
-      },
-      onWorksheetEnd(start) {
-        if (!inserted) {
-          editor.insert(start, legacyTag());
-          inserted = true;
-        }
-      },
+  const parser = createSheetParser({
+    onRoot(name, attributes) {
+      const colon = name.indexOf(':');
+      rootPrefix = colon < 0 ? '' : name.slice(0, colon + 1);
+      for (const [attr, value] of Object.entries(attributes))
+        if (attr.startsWith('xmlns:') && value === R_NS) rPrefix = attr.slice(6);
     },
-    (position) => editor.tagStart(position),
-  );
+    onCellStart(start) {
+      openCell = start;
+    },
+    onCell(cell) {
+      openCell = -1;
+      const anchor = plan.anchors.get(cellKey(cell.row, cell.col));
+      if (anchor) {
+        editor.replace(cell.start, cell.end, frozenCellXml(editor.text(cell.start, cell.end), cell));
+        if (anchor.spill) spills.add(anchor.spill);
+        return;
+      }
+      if (cell.attributes.t === 'str' && !cell.formula && spills.contains(cell.row, cell.col)) {
+        editor.replace(cell.start, cell.end, frozenCellXml(editor.text(cell.start, cell.end), cell));
+      }
+    },
+    onTopLevel(local, start) {
+      if (!inserted && AFTER_LEGACY_DRAWING.has(local)) {
+        editor.insert(start, legacyTag());
+        inserted = true;
+      }
+    },
+    onWorksheetEnd(start) {
+      if (!inserted) {
+        editor.insert(start, legacyTag());
+        inserted = true;
+      }
+    },
+  });
   const drain = async (): Promise<void> => {
     for (const text of queue.splice(0)) {
       if (!out.write(Buffer.from(text, 'utf8'))) await once(out, 'drain');
@@ -461,7 +555,7 @@ async function rewriteSheet(pkg: ZipPackage, plan: SheetPlan, out: PassThrough, 
   await feedXml(await pkg.stream(plan.sheet.part), parser, plan.sheet.part.name, {
     onChunk: (text) => editor.append(text),
     afterChunk: async () => {
-      editor.flush(openCell);
+      editor.flush(openCell >= 0 ? Math.min(openCell, parser.consumed) : parser.consumed);
       await drain();
     },
     onByteOrderMark: () => queue.push('\uFEFF'),

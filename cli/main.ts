@@ -64,7 +64,13 @@ interface Parsed {
 }
 
 function parseArgs(argv: readonly string[]): Parsed {
-  const out: Parsed = { command: argv[0] ?? 'help', json: false, tolerance: DEFAULT_TOLERANCE, build: true, force: false };
+  const out: Parsed = {
+    command: argv[0] ?? 'help',
+    json: false,
+    tolerance: DEFAULT_TOLERANCE,
+    build: true,
+    force: false,
+  };
   const value = (i: number, flag: string): string => {
     const v = argv[i + 1];
     if (v === undefined || v.startsWith('--')) throw new UsageError(`${flag} needs a value`);
@@ -77,7 +83,8 @@ function parseArgs(argv: readonly string[]): Parsed {
     else if (arg === '--force') out.force = true;
     else if (arg === '--tolerance') {
       const v = Number(value(i, arg));
-      if (!Number.isFinite(v) || v < 0 || v >= 1) throw new UsageError('--tolerance must be a number from 0 to below 1, e.g. 1e-9');
+      if (!Number.isFinite(v) || v < 0 || v >= 1)
+        throw new UsageError('--tolerance must be a number from 0 to below 1, e.g. 1e-9');
       out.tolerance = v;
       i += 1;
     } else if (arg === '--addin') {
@@ -108,7 +115,10 @@ async function runAudit(args: Parsed, io: CliIo): Promise<number> {
     folder = path.join(REPO_ROOT, 'dist');
     const state = builtState(folder);
     if (state) {
-      const why = state === 'missing' ? 'dist/functions.js is missing' : 'dist/functions.js is older than the sources in functions/';
+      const why =
+        state === 'missing'
+          ? 'dist/functions.js is missing'
+          : 'dist/functions.js is older than the sources in functions/';
       if (!args.build) throw new SetupError(`${why}: run \`npm run build\` (or leave out --no-build to build it now)`);
       io.stderr.write(`lift-ledger: ${why}.\n`);
       buildAddin((line) => io.stderr.write(`lift-ledger: ${line}\n`));
@@ -118,7 +128,10 @@ async function runAudit(args: Parsed, io: CliIo): Promise<number> {
   const bar = new ProgressBar(io.stderr, 'auditing');
   let report;
   try {
-    report = await auditWorkbook(file, addin, { tolerance: args.tolerance, onProgress: (d, t, part) => bar.update(d, t, part) });
+    report = await auditWorkbook(file, addin, {
+      tolerance: args.tolerance,
+      onProgress: (d, t, part) => bar.update(d, t, part),
+    });
   } finally {
     bar.clear();
   }
@@ -129,12 +142,14 @@ async function runAudit(args: Parsed, io: CliIo): Promise<number> {
 
 async function runFreeze(args: Parsed, io: CliIo): Promise<number> {
   const file = args.file as string;
-  if (!args.output) throw new UsageError('freeze needs the copy to write: lift-ledger freeze <book.xlsx> -o <copy.xlsx>');
+  if (!args.output)
+    throw new UsageError('freeze needs the copy to write: lift-ledger freeze <book.xlsx> -o <copy.xlsx>');
   const input = path.resolve(file);
   const output = path.resolve(args.output);
   if (!fs.existsSync(input)) throw new WorkbookFileError(`${file}: no such file`);
   const same = fs.existsSync(output) && fs.realpathSync(output) === fs.realpathSync(input);
-  if (same || output === input) throw new UsageError('the copy must be a different file from the workbook: freeze never changes its input');
+  if (same || output === input)
+    throw new UsageError('the copy must be a different file from the workbook: freeze never changes its input');
   if (fs.existsSync(output) && !args.force) throw new UsageError(`${args.output} exists; use --force to replace it`);
   const bar = new ProgressBar(io.stderr, 'freezing');
   let result;
@@ -147,8 +162,13 @@ async function runFreeze(args: Parsed, io: CliIo): Promise<number> {
   } finally {
     bar.clear();
   }
-  const lines = [`Wrote ${args.output}: ${result.frozen} ABTEST ${result.frozen === 1 ? 'result' : 'results'} frozen as values on ${result.sheets.length} ${result.sheets.length === 1 ? 'sheet' : 'sheets'}.`];
-  for (const s of result.sheets) lines.push(`  ${s.name}: ${s.frozen} ${s.frozen === 1 ? 'result' : 'results'}, ${s.notes} ${s.notes === 1 ? 'note' : 'notes'} added`);
+  const lines = [
+    `Wrote ${args.output}: ${result.frozen} ABTEST ${result.frozen === 1 ? 'result' : 'results'} frozen as values on ${result.sheets.length} ${result.sheets.length === 1 ? 'sheet' : 'sheets'}.`,
+  ];
+  for (const s of result.sheets)
+    lines.push(
+      `  ${s.name}: ${s.frozen} ${s.frozen === 1 ? 'result' : 'results'}, ${s.notes} ${s.notes === 1 ? 'note' : 'notes'} added`,
+    );
   for (const w of result.warnings) lines.push(`  note: ${w}`);
   io.stdout.write(`${lines.join('\n')}\n`);
   return 0;
@@ -166,7 +186,8 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
       io.stdout.write(`${USAGE}\n`);
       return 0;
     }
-    if (args.command !== 'audit' && args.command !== 'freeze') throw new UsageError(`unknown command "${args.command}"`);
+    if (args.command !== 'audit' && args.command !== 'freeze')
+      throw new UsageError(`unknown command "${args.command}"`);
     if (args.file === undefined) throw new UsageError(`${args.command} needs a workbook file (.xlsx)`);
     return args.command === 'audit' ? await runAudit(args, io) : await runFreeze(args, io);
   } catch (error) {
@@ -178,7 +199,9 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
       io.stderr.write(`lift-ledger: ${error.message}\n`);
       return 2;
     }
-    io.stderr.write(`lift-ledger: unexpected problem (please report it): ${(error as Error)?.stack ?? String(error)}\n`);
+    io.stderr.write(
+      `lift-ledger: unexpected problem (please report it): ${(error as Error)?.stack ?? String(error)}\n`,
+    );
     return 2;
   }
 }

@@ -7,7 +7,11 @@ import type { AuditReport } from './audit';
 /** Differences listed per formula in the text report (all of them are in the JSON). */
 const SHOWN_DIFFERENCES = 5;
 
-const STATUS_WORD = { agrees: 'agrees', differs: 'DIFFERS', 'not-checkable': 'not checkable' } as const;
+const STATUS_WORD = {
+  agrees: 'agrees',
+  differs: 'DIFFERS',
+  'not-checkable': 'not checkable',
+} as const;
 
 /**
  * The text report: one line per ABTEST formula, the differing cells under it, and a summary.
@@ -26,7 +30,8 @@ export function textReport(report: AuditReport, addinLabel: string): string {
     for (const d of e.differences.slice(0, SHOWN_DIFFERENCES)) {
       lines.push(`      ${d.cell}: saved ${showValue(d.saved)}, recomputed ${showValue(d.recomputed)}`);
     }
-    if (e.differences.length > SHOWN_DIFFERENCES) lines.push(`      … and ${e.differences.length - SHOWN_DIFFERENCES} more cells (see --json)`);
+    if (e.differences.length > SHOWN_DIFFERENCES)
+      lines.push(`      … and ${e.differences.length - SHOWN_DIFFERENCES} more cells (see --json)`);
     if (e.errorMessage && e.status !== 'not-checkable') lines.push(`      the function's message: ${e.errorMessage}`);
   }
   const s = report.summary;

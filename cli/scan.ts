@@ -85,7 +85,10 @@ export interface SheetScan {
 }
 
 /** The formula of a cell, resolving shared formulas; masters are remembered in `masters`. */
-export function cellFormula(cell: RawCell, masters: Map<string, { text: string; row: number; col: number }>): string | undefined {
+export function cellFormula(
+  cell: RawCell,
+  masters: Map<string, { text: string; row: number; col: number }>,
+): string | undefined {
   const f = cell.formula;
   if (!f) return undefined;
   if (f.attributes.t !== 'shared') return f.text;
@@ -110,7 +113,11 @@ export function isAbtestFormula(formula: string | undefined): formula is string 
 export async function scanSheet(
   pkg: ZipPackage,
   sheet: SheetInfo,
-  options: { withSpillValues: boolean; extra?: readonly CellRange[]; onBytes?: (n: number) => void },
+  options: {
+    withSpillValues: boolean;
+    extra?: readonly CellRange[];
+    onBytes?: (n: number) => void;
+  },
 ): Promise<SheetScan> {
   const cells: AbtestCell[] = [];
   const values = new Map<number, StoredValue>();
@@ -137,13 +144,17 @@ export async function scanSheet(
         if (range && rangeSize(range) > 1 && options.withSpillValues) spills.add(range);
         return;
       }
-      const wanted = (options.withSpillValues && spills.contains(cell.row, cell.col)) || (!extra.done && extra.contains(cell.row, cell.col));
+      const wanted =
+        (options.withSpillValues && spills.contains(cell.row, cell.col)) ||
+        (!extra.done && extra.contains(cell.row, cell.col));
       if (wanted) {
         const stored = storedValueOf(cell.attributes.t, cell.value, cell.inline);
         if (stored) values.set(cellKey(cell.row, cell.col), stored);
       }
     },
   });
-  await feedXml(await pkg.stream(sheet.part), parser, sheet.part.name, { ...(options.onBytes ? { onBytes: options.onBytes } : {}) });
+  await feedXml(await pkg.stream(sheet.part), parser, sheet.part.name, {
+    ...(options.onBytes ? { onBytes: options.onBytes } : {}),
+  });
   return { cells, values };
 }

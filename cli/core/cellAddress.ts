@@ -124,6 +124,9 @@ export function inRange(range: CellRange, row: number, col: number): boolean {
  * @example sheetPrefix('Data') //=> 'Data!'
  */
 export function sheetPrefix(sheet: string): string {
-  const plain = /^[A-Za-z_\u00C0-\uFFFF][A-Za-z0-9_.\u00C0-\uFFFF]*$/.test(sheet) && !parseCell(sheet) && !/^R\d*C\d*$/i.test(sheet);
+  const plain =
+    /^[A-Za-z_\u00C0-\uFFFF][A-Za-z0-9_.\u00C0-\uFFFF]*$/.test(sheet) &&
+    !parseCell(sheet) &&
+    !/^R\d*C\d*$/i.test(sheet);
   return plain ? `${sheet}!` : `'${sheet.replace(/'/g, "''")}'!`;
 }

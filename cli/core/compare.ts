@@ -38,7 +38,9 @@ export function valuesAgree(saved: CellValue, recomputed: CellValue, tolerance =
     return Math.abs(saved - recomputed) <= tolerance * Math.max(Math.abs(saved), Math.abs(recomputed));
   }
   if (isErrorValue(saved) || isErrorValue(recomputed)) {
-    return isErrorValue(saved) && isErrorValue(recomputed) && saved.error.toUpperCase() === recomputed.error.toUpperCase();
+    return (
+      isErrorValue(saved) && isErrorValue(recomputed) && saved.error.toUpperCase() === recomputed.error.toUpperCase()
+    );
   }
   return saved === recomputed;
 }

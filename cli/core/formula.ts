@@ -40,10 +40,31 @@ export interface RefEnd {
 
 /** A token of a formula; `start` and `end` index the formula text. */
 export type Token =
-  | { readonly type: 'number'; readonly start: number; readonly end: number; readonly value: number }
-  | { readonly type: 'string'; readonly start: number; readonly end: number; readonly value: string }
-  | { readonly type: 'bool'; readonly start: number; readonly end: number; readonly value: boolean }
-  | { readonly type: 'error'; readonly start: number; readonly end: number; readonly value: string; readonly sheet?: SheetPart }
+  | {
+      readonly type: 'number';
+      readonly start: number;
+      readonly end: number;
+      readonly value: number;
+    }
+  | {
+      readonly type: 'string';
+      readonly start: number;
+      readonly end: number;
+      readonly value: string;
+    }
+  | {
+      readonly type: 'bool';
+      readonly start: number;
+      readonly end: number;
+      readonly value: boolean;
+    }
+  | {
+      readonly type: 'error';
+      readonly start: number;
+      readonly end: number;
+      readonly value: string;
+      readonly sheet?: SheetPart;
+    }
   | {
       readonly type: 'ref';
       readonly start: number;
@@ -53,15 +74,28 @@ export type Token =
       readonly first: RefEnd;
       readonly last?: RefEnd;
     }
-  | { readonly type: 'func'; readonly start: number; readonly end: number; readonly name: string }
-  | { readonly type: 'name'; readonly start: number; readonly end: number; readonly name: string; readonly sheet?: SheetPart }
   | {
-      readonly type: 'structured' | 'op' | 'lparen' | 'rparen' | 'comma' | 'semicolon' | 'lbrace' | 'rbrace' | 'space' | 'other';
+      readonly type: 'func';
+      readonly start: number;
+      readonly end: number;
+      readonly name: string;
+    }
+  | {
+      readonly type: 'name';
+      readonly start: number;
+      readonly end: number;
+      readonly name: string;
+      readonly sheet?: SheetPart;
+    }
+  | {
+      readonly type:
+        'structured' | 'op' | 'lparen' | 'rparen' | 'comma' | 'semicolon' | 'lbrace' | 'rbrace' | 'space' | 'other';
       readonly start: number;
       readonly end: number;
     };
 
-const ERROR_LITERAL = /^#(?:NULL!|DIV\/0!|VALUE!|REF!|NAME\?|NUM!|N\/A|GETTING_DATA|SPILL!|CALC!|BUSY!|FIELD!|BLOCKED!|CONNECT!|UNKNOWN!)/i;
+const ERROR_LITERAL =
+  /^#(?:NULL!|DIV\/0!|VALUE!|REF!|NAME\?|NUM!|N\/A|GETTING_DATA|SPILL!|CALC!|BUSY!|FIELD!|BLOCKED!|CONNECT!|UNKNOWN!)/i;
 const NUMBER = /^(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?/;
 const IDENT_CHAR = /[A-Za-z0-9_.\\?\u00A1-\uFFFF]/;
 const IDENT = /^[A-Za-z0-9_.\\?\u00A1-\uFFFF]+/;
@@ -88,8 +122,12 @@ function readRef(text: string, at: number): { end: number; first: RefEnd; last?:
   const cells = CELLS.exec(rest);
   if (cells && endOk(text, at + cells[0].length)) {
     const first = cellEnd(cells[1] as string, cells[2] as string, cells[3] as string, cells[4] as string);
-    const last = cells[6] === undefined ? undefined : cellEnd(cells[5] as string, cells[6], cells[7] as string, cells[8] as string);
-    if (first && (cells[6] === undefined || last)) return { end: at + cells[0].length, first, ...(last ? { last } : {}) };
+    const last =
+      cells[6] === undefined
+        ? undefined
+        : cellEnd(cells[5] as string, cells[6], cells[7] as string, cells[8] as string);
+    if (first && (cells[6] === undefined || last))
+      return { end: at + cells[0].length, first, ...(last ? { last } : {}) };
   }
   const cols = COLUMNS.exec(rest);
   if (cols && endOk(text, at + cols[0].length)) {
@@ -121,7 +159,11 @@ function readRef(text: string, at: number): { end: number; first: RefEnd; last?:
 function sheetPartOf(raw: string, lastRaw: string | undefined): SheetPart {
   const ext = /^\[([^\]]*)\](.*)$/.exec(raw);
   const name = ext ? (ext[2] as string) : raw;
-  return { name, ...(lastRaw !== undefined ? { lastName: lastRaw } : {}), ...(ext ? { external: ext[1] as string } : {}) };
+  return {
+    name,
+    ...(lastRaw !== undefined ? { lastName: lastRaw } : {}),
+    ...(ext ? { external: ext[1] as string } : {}),
+  };
 }
 
 /**
@@ -166,14 +208,26 @@ export function tokenize(text: string): Token[] {
       const m = ERROR_LITERAL.exec(text.slice(i, i + 16));
       if (m) {
         i += m[0].length;
-        tokens.push({ type: 'error', start, end: i, value: m[0].toUpperCase() });
+        tokens.push({
+          type: 'error',
+          start,
+          end: i,
+          value: m[0].toUpperCase(),
+        });
       } else {
         i += 1;
         tokens.push({ type: 'other', start, end: i });
       }
       continue;
     }
-    const single: Record<string, Token['type']> = { '(': 'lparen', ')': 'rparen', ',': 'comma', ';': 'semicolon', '{': 'lbrace', '}': 'rbrace' };
+    const single: Record<string, Token['type']> = {
+      '(': 'lparen',
+      ')': 'rparen',
+      ',': 'comma',
+      ';': 'semicolon',
+      '{': 'lbrace',
+      '}': 'rbrace',
+    };
     if (single[ch]) {
       i += 1;
       tokens.push({ type: single[ch], start, end: i } as Token);
@@ -216,13 +270,27 @@ export function tokenize(text: string): Token[] {
       const ref = readRef(text, afterSheet);
       if (ref) {
         i = ref.end;
-        tokens.push({ type: 'ref', start, end: i, sheet, sheetText, first: ref.first, ...(ref.last ? { last: ref.last } : {}) });
+        tokens.push({
+          type: 'ref',
+          start,
+          end: i,
+          sheet,
+          sheetText,
+          first: ref.first,
+          ...(ref.last ? { last: ref.last } : {}),
+        });
         continue;
       }
       const err = ERROR_LITERAL.exec(text.slice(afterSheet, afterSheet + 16));
       if (err) {
         i = afterSheet + err[0].length;
-        tokens.push({ type: 'error', start, end: i, value: err[0].toUpperCase(), sheet });
+        tokens.push({
+          type: 'error',
+          start,
+          end: i,
+          value: err[0].toUpperCase(),
+          sheet,
+        });
         continue;
       }
       const ident = IDENT.exec(text.slice(afterSheet, afterSheet + 300));
@@ -239,7 +307,14 @@ export function tokenize(text: string): Token[] {
       const ref = readRef(text, i);
       if (ref) {
         i = ref.end;
-        tokens.push({ type: 'ref', start, end: i, sheetText: '', first: ref.first, ...(ref.last ? { last: ref.last } : {}) });
+        tokens.push({
+          type: 'ref',
+          start,
+          end: i,
+          sheetText: '',
+          first: ref.first,
+          ...(ref.last ? { last: ref.last } : {}),
+        });
         continue;
       }
     }
@@ -278,7 +353,13 @@ export function tokenize(text: string): Token[] {
           if (depth === 0) break;
         }
         tokens.push({ type: 'structured', start, end: i });
-      } else if (/^(TRUE|FALSE)$/i.test(word)) tokens.push({ type: 'bool', start, end: i, value: word.toUpperCase() === 'TRUE' });
+      } else if (/^(TRUE|FALSE)$/i.test(word))
+        tokens.push({
+          type: 'bool',
+          start,
+          end: i,
+          value: word.toUpperCase() === 'TRUE',
+        });
       else tokens.push({ type: 'name', start, end: i, name: word });
       continue;
     }
@@ -289,7 +370,11 @@ export function tokenize(text: string): Token[] {
       continue;
     }
     i += 1;
-    tokens.push({ type: '+-*/^&=<>%:@'.includes(ch) ? 'op' : 'other', start, end: i });
+    tokens.push({
+      type: '+-*/^&=<>%:@'.includes(ch) ? 'op' : 'other',
+      start,
+      end: i,
+    });
   }
   return tokens;
 }
@@ -322,8 +407,13 @@ export function containsAbtestCall(formula: string): boolean {
 function shiftEnd(end: RefEnd, dRow: number, dCol: number): RefEnd | undefined {
   const row = end.row === undefined || end.rowAbsolute ? end.row : end.row + dRow;
   const col = end.col === undefined || end.colAbsolute ? end.col : end.col + dCol;
-  if ((row !== undefined && (row < 0 || row > MAX_ROW)) || (col !== undefined && (col < 0 || col > MAX_COLUMN))) return undefined;
-  return { ...end, ...(row !== undefined ? { row } : {}), ...(col !== undefined ? { col } : {}) };
+  if ((row !== undefined && (row < 0 || row > MAX_ROW)) || (col !== undefined && (col < 0 || col > MAX_COLUMN)))
+    return undefined;
+  return {
+    ...end,
+    ...(row !== undefined ? { row } : {}),
+    ...(col !== undefined ? { col } : {}),
+  };
 }
 
 function endText(end: RefEnd): string {
@@ -346,7 +436,10 @@ export function shiftFormula(formula: string, dRow: number, dCol: number): strin
     if (token.type !== 'ref') continue;
     const first = shiftEnd(token.first, dRow, dCol);
     const last = token.last ? shiftEnd(token.last, dRow, dCol) : undefined;
-    const replacement = !first || (token.last && !last) ? `${token.sheetText}#REF!` : `${token.sheetText}${endText(first)}${last ? `:${endText(last)}` : ''}`;
+    const replacement =
+      !first || (token.last && !last)
+        ? `${token.sheetText}#REF!`
+        : `${token.sheetText}${endText(first)}${last ? `:${endText(last)}` : ''}`;
     out += formula.slice(at, token.start) + replacement;
     at = token.end;
   }
@@ -364,7 +457,8 @@ export function displayFormula(formula: string): string {
   for (const token of tokenize(formula)) {
     if (token.type !== 'func') continue;
     const abtest = abtestFunctionName(token.name);
-    const shown = abtest !== undefined ? `${NAMESPACE}.${abtest}` : token.name.replace(/^(?:_xlfn\.)?(?:_xlws\.)?/i, '');
+    const shown =
+      abtest !== undefined ? `${NAMESPACE}.${abtest}` : token.name.replace(/^(?:_xlfn\.)?(?:_xlws\.)?/i, '');
     out += formula.slice(at, token.start) + shown;
     at = token.end;
   }
@@ -385,16 +479,35 @@ export interface RefNode {
 
 /** A node of a parsed formula; `text` is its source text. */
 export type FormulaNode =
-  | { readonly kind: 'constant'; readonly value: ConstantValue; readonly text: string }
-  | { readonly kind: 'array'; readonly rows: readonly (readonly ConstantValue[])[]; readonly text: string }
+  | {
+      readonly kind: 'constant';
+      readonly value: ConstantValue;
+      readonly text: string;
+    }
+  | {
+      readonly kind: 'array';
+      readonly rows: readonly (readonly ConstantValue[])[];
+      readonly text: string;
+    }
   | RefNode
-  | { readonly kind: 'name'; readonly name: string; readonly sheet?: SheetPart; readonly text: string }
-  | { readonly kind: 'call'; readonly name: string; readonly args: readonly FormulaNode[]; readonly text: string }
+  | {
+      readonly kind: 'name';
+      readonly name: string;
+      readonly sheet?: SheetPart;
+      readonly text: string;
+    }
+  | {
+      readonly kind: 'call';
+      readonly name: string;
+      readonly args: readonly FormulaNode[];
+      readonly text: string;
+    }
   | { readonly kind: 'missing'; readonly text: string }
   | { readonly kind: 'expression'; readonly text: string };
 
 /** What {@link parseFormula} returns. */
-export type ParseResult = { readonly ok: true; readonly node: FormulaNode } | { readonly ok: false; readonly problem: string };
+export type ParseResult =
+  { readonly ok: true; readonly node: FormulaNode } | { readonly ok: false; readonly problem: string };
 
 class Parser {
   private at = 0;
@@ -430,7 +543,10 @@ class Parser {
     while (this.isOp(this.peek(), ['=', '<', '>', '<=', '>=', '<>'])) {
       this.at += 1;
       this.concat();
-      node = { kind: 'expression', text: this.text.slice(start, this.prevEnd()) };
+      node = {
+        kind: 'expression',
+        text: this.text.slice(start, this.prevEnd()),
+      };
     }
     return node;
   }
@@ -445,7 +561,10 @@ class Parser {
     while (this.isOp(this.peek(), ops)) {
       this.at += 1;
       next();
-      node = { kind: 'expression', text: this.text.slice(start, this.prevEnd()) };
+      node = {
+        kind: 'expression',
+        text: this.text.slice(start, this.prevEnd()),
+      };
     }
     return node;
   }
@@ -474,7 +593,11 @@ class Parser {
       const operand = this.unary();
       const text = this.text.slice((token as Token).start, this.prevEnd());
       if (sign !== '@' && operand.kind === 'constant' && typeof operand.value === 'number') {
-        return { kind: 'constant', value: sign === '-' ? -operand.value : operand.value, text };
+        return {
+          kind: 'constant',
+          value: sign === '-' ? -operand.value : operand.value,
+          text,
+        };
       }
       return { kind: 'expression', text };
     }
@@ -487,7 +610,10 @@ class Parser {
     while (this.isOp(this.peek(), ['%'])) {
       this.at += 1;
       const text = this.text.slice(start, this.prevEnd());
-      node = node.kind === 'constant' && typeof node.value === 'number' ? { kind: 'constant', value: node.value / 100, text } : { kind: 'expression', text };
+      node =
+        node.kind === 'constant' && typeof node.value === 'number'
+          ? { kind: 'constant', value: node.value / 100, text }
+          : { kind: 'expression', text };
     }
     return node;
   }
@@ -498,7 +624,10 @@ class Parser {
     while (this.isOp(this.peek(), [':'])) {
       this.at += 1;
       this.primary();
-      node = { kind: 'expression', text: this.text.slice(start, this.prevEnd()) };
+      node = {
+        kind: 'expression',
+        text: this.text.slice(start, this.prevEnd()),
+      };
     }
     return node;
   }
@@ -518,10 +647,21 @@ class Parser {
         return token.sheet ? { kind: 'expression', text } : { kind: 'constant', value: { error: token.value }, text };
       case 'ref':
         this.at += 1;
-        return { kind: 'ref', ...(token.sheet ? { sheet: token.sheet } : {}), first: token.first, ...(token.last ? { last: token.last } : {}), text };
+        return {
+          kind: 'ref',
+          ...(token.sheet ? { sheet: token.sheet } : {}),
+          first: token.first,
+          ...(token.last ? { last: token.last } : {}),
+          text,
+        };
       case 'name':
         this.at += 1;
-        return { kind: 'name', name: token.name, ...(token.sheet ? { sheet: token.sheet } : {}), text };
+        return {
+          kind: 'name',
+          name: token.name,
+          ...(token.sheet ? { sheet: token.sheet } : {}),
+          text,
+        };
       case 'structured':
         this.at += 1;
         return { kind: 'expression', text };
@@ -531,7 +671,10 @@ class Parser {
         this.at += 1;
         this.expression();
         this.expect('rparen', '")"');
-        return { kind: 'expression', text: this.text.slice(token.start, this.prevEnd()) };
+        return {
+          kind: 'expression',
+          text: this.text.slice(token.start, this.prevEnd()),
+        };
       }
       case 'lbrace':
         return this.arrayConstant(token.start);
@@ -542,7 +685,8 @@ class Parser {
 
   private expect(type: Token['type'], shown: string): void {
     const token = this.peek();
-    if (!token || token.type !== type) this.fail(`expected ${shown} at position ${(token?.start ?? this.text.length) + 1}`);
+    if (!token || token.type !== type)
+      this.fail(`expected ${shown} at position ${(token?.start ?? this.text.length) + 1}`);
     this.at += 1;
   }
 
@@ -552,7 +696,12 @@ class Parser {
     const args: FormulaNode[] = [];
     if (this.peek()?.type === 'rparen') {
       this.at += 1;
-      return { kind: 'call', name, args, text: this.text.slice(start, this.prevEnd()) };
+      return {
+        kind: 'call',
+        name,
+        args,
+        text: this.text.slice(start, this.prevEnd()),
+      };
     }
     for (;;) {
       const next = this.peek();
@@ -569,7 +718,12 @@ class Parser {
       this.expect('rparen', '"," or ")"');
       break;
     }
-    return { kind: 'call', name, args, text: this.text.slice(start, this.prevEnd()) };
+    return {
+      kind: 'call',
+      name,
+      args,
+      text: this.text.slice(start, this.prevEnd()),
+    };
   }
 
   private arrayConstant(start: number): FormulaNode {
@@ -588,7 +742,10 @@ class Parser {
       if (token.type === 'number') value = negative ? -token.value : token.value;
       else if (!negative && (token.type === 'string' || token.type === 'bool')) value = token.value;
       else if (!negative && token.type === 'error' && !token.sheet) value = { error: token.value };
-      else return this.fail(`an array constant holds "${this.text.slice(token.start, token.end)}", which is not a number, text, TRUE/FALSE or error`);
+      else
+        return this.fail(
+          `an array constant holds "${this.text.slice(token.start, token.end)}", which is not a number, text, TRUE/FALSE or error`,
+        );
       this.at += 1;
       (rows[rows.length - 1] as ConstantValue[]).push(value);
       const sep = this.peek();
@@ -603,7 +760,11 @@ class Parser {
     }
     const width = rows[0]?.length ?? 0;
     if (rows.some((r) => r.length !== width)) this.fail('the rows of an array constant differ in length');
-    return { kind: 'array', rows, text: this.text.slice(start, this.prevEnd()) };
+    return {
+      kind: 'array',
+      rows,
+      text: this.text.slice(start, this.prevEnd()),
+    };
   }
 }
 

@@ -79,7 +79,10 @@ export interface FrozenHeader {
  * //=> 'Frozen copy made 1970-01-01 00:00 UTC from q3.xlsx: 2 Lift Ledger results are plain values; each keeps the formula that computed it in a note. New data will not change them.'
  */
 export function frozenHeaderLine(header: FrozenHeader): string {
-  const what = header.results === 1 ? '1 Lift Ledger result is a plain value' : `${header.results} Lift Ledger results are plain values`;
+  const what =
+    header.results === 1
+      ? '1 Lift Ledger result is a plain value'
+      : `${header.results} Lift Ledger results are plain values`;
   return (
     `Frozen copy made ${frozenTime(header.frozenAt)} from ${header.source}: ${what}; ` +
     'each keeps the formula that computed it in a note. New data will not change them.'

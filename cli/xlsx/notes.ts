@@ -26,14 +26,17 @@ function noteRun(text: string, prefix: string): string {
 
 /** A new comments part holding `notes` by `author`. */
 export function newCommentsPart(notes: readonly NoteToAdd[], author: string): string {
-  const list = notes.map((n) => `<comment ref="${n.ref}" authorId="0"><text>${noteRun(n.text, '')}</text></comment>`).join('');
+  const list = notes
+    .map((n) => `<comment ref="${n.ref}" authorId="0"><text>${noteRun(n.text, '')}</text></comment>`)
+    .join('');
   return `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<comments xmlns="${MAIN_NS}"><authors><author>${escapeXml(author)}</author></authors><commentList>${list}</commentList></comments>`;
 }
 
 /** The cells that already have a note in an existing comments part. */
 export function notedCells(commentsXml: string): Set<string> {
   const refs = new Set<string>();
-  for (const m of commentsXml.matchAll(/<(?:\w+:)?comment\s[^>]*?\bref="([^"]+)"/g)) refs.add((m[1] as string).toUpperCase());
+  for (const m of commentsXml.matchAll(/<(?:\w+:)?comment\s[^>]*?\bref="([^"]+)"/g))
+    refs.add((m[1] as string).toUpperCase());
   return refs;
 }
 
@@ -64,7 +67,12 @@ export function extendCommentsPart(xml: string, notes: readonly NoteToAdd[], aut
     if (out.includes(`</${p}authors>`)) out = out.replace(`</${p}authors>`, `${entry}</${p}authors>`);
     else out = out.replace(new RegExp(`<${p}authors\\s*/>`), `<${p}authors>${entry}</${p}authors>`);
   }
-  const list = fresh.map((n) => `<${p}comment ref="${n.ref}" authorId="${authorId}"><${p}text>${noteRun(n.text, p)}</${p}text></${p}comment>`).join('');
+  const list = fresh
+    .map(
+      (n) =>
+        `<${p}comment ref="${n.ref}" authorId="${authorId}"><${p}text>${noteRun(n.text, p)}</${p}text></${p}comment>`,
+    )
+    .join('');
   if (out.includes(`</${p}commentList>`)) return out.replace(`</${p}commentList>`, `${list}</${p}commentList>`);
   return out.replace(new RegExp(`<${p}commentList\\s*/>`), `<${p}commentList>${list}</${p}commentList>`);
 }
@@ -108,7 +116,8 @@ function allocateIds(count: number, blocks: number[], used: Set<number>, taken: 
       blocks.push(fresh);
     }
     const block = blocks[b] as number;
-    for (let id = block * 1024 + 1; id < block * 1024 + 1024 && ids.length < count; id += 1) if (!used.has(id)) ids.push(id);
+    for (let id = block * 1024 + 1; id < block * 1024 + 1024 && ids.length < count; id += 1)
+      if (!used.has(id)) ids.push(id);
     b += 1;
   }
   return ids;
@@ -142,7 +151,11 @@ export function extendVmlPart(vml: string, notes: readonly NoteToAdd[], taken: S
   const shapes = notes.map((n, i) => noteShape(ids[i] as number, n, (zIndex += 1))).join('');
   let out = vml;
   if (blocks.length > before) {
-    if (before === 0) out = out.replace(/(<xml\b[^>]*>)/, `$1<o:shapelayout v:ext="edit"><o:idmap v:ext="edit" data="${blocks.join(',')}"/></o:shapelayout>`);
+    if (before === 0)
+      out = out.replace(
+        /(<xml\b[^>]*>)/,
+        `$1<o:shapelayout v:ext="edit"><o:idmap v:ext="edit" data="${blocks.join(',')}"/></o:shapelayout>`,
+      );
     else out = out.replace(/(<o:idmap\b[^>]*\bdata=")([^"]*)(")/, `$1${blocks.join(',')}$3`);
   }
   const type = /id="_x0000_t202"/.test(out) ? '' : SHAPE_TYPE;

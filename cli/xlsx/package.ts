@@ -79,7 +79,12 @@ export async function readRelationships(pkg: ZipPackage, sourcePart: string): Pr
   return childrenNamed(root, 'Relationship').map((r) => {
     const external = r.attributes.TargetMode === 'External';
     const raw = r.attributes.Target ?? '';
-    return { id: r.attributes.Id ?? '', type: r.attributes.Type ?? '', target: external ? raw : resolveTarget(sourcePart, raw), external };
+    return {
+      id: r.attributes.Id ?? '',
+      type: r.attributes.Type ?? '',
+      target: external ? raw : resolveTarget(sourcePart, raw),
+      external,
+    };
   });
 }
 
@@ -96,10 +101,14 @@ function requirePart(pkg: ZipPackage, name: string, what: string): ZipPart {
 export async function readWorkbookStructure(pkg: ZipPackage, fileLabel: string): Promise<WorkbookStructure> {
   const rootRels = await readRelationships(pkg, '');
   const office = rootRels.find((r) => r.type.endsWith(REL.officeDocument) && !r.external);
-  if (!office) throw new WorkbookFileError(`${fileLabel} is not a workbook file: it has no main document (is it a .xlsx saved by a spreadsheet program?)`);
+  if (!office)
+    throw new WorkbookFileError(
+      `${fileLabel} is not a workbook file: it has no main document (is it a .xlsx saved by a spreadsheet program?)`,
+    );
   const workbookPart = requirePart(pkg, office.target, 'the workbook part');
   const workbook = parseSmallXml(await pkg.text(workbookPart), workbookPart.name);
-  if (workbook.local !== 'workbook') throw new WorkbookFileError(`${fileLabel} is not a spreadsheet (its main part is <${workbook.name}>)`);
+  if (workbook.local !== 'workbook')
+    throw new WorkbookFileError(`${fileLabel} is not a spreadsheet (its main part is <${workbook.name}>)`);
   const rels = await readRelationships(pkg, workbookPart.name);
   const relById = new Map(rels.map((r) => [r.id, r]));
 
@@ -108,14 +117,23 @@ export async function readWorkbookStructure(pkg: ZipPackage, fileLabel: string):
   childrenNamed(sheetsElement ?? workbook, 'sheet').forEach((sheet: XmlElement, index: number) => {
     const rel = relById.get(attributeLocal(sheet, 'id') ?? '');
     if (!rel || !rel.type.endsWith(REL.worksheet)) return; // chart sheets, dialog and macro sheets hold no cells we read
-    sheets.push({ index, name: sheet.attributes.name ?? `Sheet${index + 1}`, sheetId: sheet.attributes.sheetId ?? String(index + 1), part: requirePart(pkg, rel.target, 'the worksheet') });
+    sheets.push({
+      index,
+      name: sheet.attributes.name ?? `Sheet${index + 1}`,
+      sheetId: sheet.attributes.sheetId ?? String(index + 1),
+      part: requirePart(pkg, rel.target, 'the worksheet'),
+    });
   });
 
   const definedNames: DefinedName[] = [];
   for (const names of childrenNamed(workbook, 'definedNames')) {
     for (const dn of childrenNamed(names, 'definedName')) {
       const local = dn.attributes.localSheetId;
-      definedNames.push({ name: dn.attributes.name ?? '', formula: dn.text, ...(local !== undefined ? { localSheetIndex: Number(local) } : {}) });
+      definedNames.push({
+        name: dn.attributes.name ?? '',
+        formula: dn.text,
+        ...(local !== undefined ? { localSheetIndex: Number(local) } : {}),
+      });
     }
   }
   const pr = childrenNamed(workbook, 'workbookPr')[0];

@@ -3,8 +3,8 @@
  * an offset) are applied as the parser reports positions, and everything before the last place an edit can
  * still touch is written out. Offsets are indexes into the whole part's text (as saxes counts them).
  *
- * What is kept: the text from the start of an open cell (the caller says where) or from the last "<" (a tag
- * not finished yet), whichever is earlier; so memory stays at about one chunk plus one cell.
+ * What is kept: the text from the start of an open cell or of a tag the tokenizer has not finished (the
+ * caller says where); so memory stays at about one chunk plus one cell.
  */
 export class StreamEditor {
   private pending = '';
@@ -15,13 +15,6 @@ export class StreamEditor {
   /** Adds the next chunk of the part's text. */
   append(text: string): void {
     this.pending += text;
-  }
-
-  /** The index of the last "<" before `position`: where the tag the parser just read begins. */
-  tagStart(position: number): number {
-    const at = this.pending.lastIndexOf('<', position - this.base - 1);
-    if (at < 0) throw new Error(`stream editor: the tag before offset ${position} was already written out`);
-    return this.base + at;
   }
 
   /** The text between two offsets (both not yet written out). */
@@ -42,11 +35,9 @@ export class StreamEditor {
     this.replace(offset, offset, text);
   }
 
-  /** Writes out what no edit can touch any more; `keepFrom` (or -1) is the start of an open cell. */
-  flush(keepFrom: number): void {
-    let cut = this.pending.lastIndexOf('<');
-    if (cut < 0) cut = this.pending.length;
-    if (keepFrom >= 0) cut = Math.min(cut, keepFrom - this.base);
+  /** Writes out the text before offset `upTo` (the earliest place an edit can still touch). */
+  flush(upTo: number): void {
+    const cut = Math.min(upTo - this.base, this.pending.length);
     if (cut <= 0) return;
     this.emit(this.pending.slice(0, cut));
     this.pending = this.pending.slice(cut);

@@ -4,8 +4,8 @@
  * shared strings part, reading only the indexes that were asked for.
  */
 import type { Readable } from 'stream';
-import { SaxesParser, type SaxesOptions } from 'saxes';
 import type { CellValue } from '../core/compare';
+import { FastXmlTokenizer } from './fastXml';
 import { feedXml, localName } from './xml';
 
 /** A cached value as stored: the cell's type and the text of `<v>` (or of the inline string). */
@@ -20,9 +20,18 @@ export interface UnreadableValue {
 }
 
 /** From a cell's attributes and children to its stored value; undefined when the cell caches nothing. */
-export function storedValueOf(type: string | undefined, value: string | undefined, inline: string | undefined): StoredValue | undefined {
+export function storedValueOf(
+  type: string | undefined,
+  value: string | undefined,
+  inline: string | undefined,
+): StoredValue | undefined {
   const t = type ?? 'n';
-  if (t === 'inlineStr') return inline === undefined ? (value === undefined ? undefined : { type: 'str', text: value }) : { type: 'str', text: inline };
+  if (t === 'inlineStr')
+    return inline === undefined
+      ? value === undefined
+        ? undefined
+        : { type: 'str', text: value }
+      : { type: 'str', text: inline };
   if (value === undefined) return undefined;
   return { type: t, text: value };
 }
@@ -31,7 +40,10 @@ export function storedValueOf(type: string | undefined, value: string | undefine
  * The value a formula sees, with shared strings looked up in `sharedStrings`.
  * @example decodeStored({ type: 'b', text: '1' }, new Map()) //=> true
  */
-export function decodeStored(stored: StoredValue | undefined, sharedStrings: ReadonlyMap<number, string>): CellValue | UnreadableValue {
+export function decodeStored(
+  stored: StoredValue | undefined,
+  sharedStrings: ReadonlyMap<number, string>,
+): CellValue | UnreadableValue {
   if (stored === undefined) return null;
   const text = stored.text ?? '';
   switch (stored.type) {
@@ -51,7 +63,9 @@ export function decodeStored(stored: StoredValue | undefined, sharedStrings: Rea
     case 'e':
       return { error: text.toUpperCase() };
     case 'd':
-      return { unreadable: `a date stored as text (${text}); save the workbook from Excel to store it as a number` };
+      return {
+        unreadable: `a date stored as text (${text}); save the workbook from Excel to store it as a number`,
+      };
     default:
       return { unreadable: `an unknown cell type "${stored.type}"` };
   }
@@ -63,38 +77,42 @@ export function isUnreadable(value: unknown): value is UnreadableValue {
 }
 
 /**
- * Reads the shared strings part (ECMA-376 Part 1 §18.4.9 `sst` › `si`) and keeps only the entries whose
- * index is in `wanted` (text of its `<t>` pieces, phonetic runs left out).
+ * Reads the shared strings part (ECMA-376 Part 1 §18.4.9 `sst` › `si`), streaming with the fast tokenizer,
+ * and keeps only the entries whose index is in `wanted` (text of its `<t>` pieces, phonetic runs left out).
  */
-export async function readSharedStrings(stream: Readable, partName: string, wanted: ReadonlySet<number>, onBytes?: (n: number) => void): Promise<Map<number, string>> {
+export async function readSharedStrings(
+  stream: Readable,
+  partName: string,
+  wanted: ReadonlySet<number>,
+  onBytes?: (n: number) => void,
+): Promise<Map<number, string>> {
   const found = new Map<number, string>();
   if (wanted.size === 0) {
     stream.destroy();
     return found;
   }
-  const parser = new SaxesParser({ position: false } as SaxesOptions);
   let index = -1;
   let text: string | undefined;
   let inT = false;
   let inPhonetic = false;
-  parser.on('opentag', (tag) => {
-    const local = localName(tag.name);
-    if (local === 'si') {
-      index += 1;
-      text = wanted.has(index) ? '' : undefined;
-    } else if (local === 'rPh') inPhonetic = true;
-    else if (local === 't' && !inPhonetic) inT = true;
-  });
-  const onText = (t: string): void => {
-    if (inT && text !== undefined) text += t;
-  };
-  parser.on('text', onText);
-  parser.on('cdata', onText);
-  parser.on('closetag', (tag) => {
-    const local = localName(tag.name);
-    if (local === 't') inT = false;
-    else if (local === 'rPh') inPhonetic = false;
-    else if (local === 'si' && text !== undefined) found.set(index, text);
+  const parser = new FastXmlTokenizer({
+    open(name) {
+      const local = localName(name);
+      if (local === 'si') {
+        index += 1;
+        text = wanted.has(index) ? '' : undefined;
+      } else if (local === 'rPh') inPhonetic = true;
+      else if (local === 't' && !inPhonetic) inT = true;
+    },
+    text(t) {
+      if (inT && text !== undefined) text += t;
+    },
+    close(name) {
+      const local = localName(name);
+      if (local === 't') inT = false;
+      else if (local === 'rPh') inPhonetic = false;
+      else if (local === 'si' && text !== undefined) found.set(index, text);
+    },
   });
   await feedXml(stream, parser, partName, { ...(onBytes ? { onBytes } : {}) });
   return found;

@@ -37,10 +37,22 @@ export interface XmlElement {
  */
 export function parseSmallXml(text: string, partName: string): XmlElement {
   const parser = new SaxesParser({ position: false } as SaxesOptions);
-  const root: XmlElement = { name: '#document', local: '#document', attributes: {}, children: [], text: '' };
+  const root: XmlElement = {
+    name: '#document',
+    local: '#document',
+    attributes: {},
+    children: [],
+    text: '',
+  };
   const stack: XmlElement[] = [root];
   parser.on('opentag', (tag) => {
-    const element: XmlElement = { name: tag.name, local: localName(tag.name), attributes: tag.attributes as Record<string, string>, children: [], text: '' };
+    const element: XmlElement = {
+      name: tag.name,
+      local: localName(tag.name),
+      attributes: tag.attributes as Record<string, string>,
+      children: [],
+      text: '',
+    };
     (stack[stack.length - 1] as XmlElement).children.push(element);
     stack.push(element);
   });
@@ -69,8 +81,15 @@ export function childrenNamed(element: XmlElement, local: string): XmlElement[] 
 
 /** Attribute by local name (ignoring any prefix), e.g. "r:id" for "id". */
 export function attributeLocal(element: XmlElement, local: string): string | undefined {
-  for (const [name, value] of Object.entries(element.attributes)) if (localName(name) === local && name !== 'xmlns') return value;
+  for (const [name, value] of Object.entries(element.attributes))
+    if (localName(name) === local && name !== 'xmlns') return value;
   return undefined;
+}
+
+/** What {@link feedXml} feeds: saxes or the fast tokenizer. */
+export interface XmlSink {
+  write(text: string): unknown;
+  close(): unknown;
 }
 
 /** Callbacks of {@link feedXml}. */
@@ -86,11 +105,17 @@ export interface FeedOptions {
 }
 
 /**
- * Streams a part's bytes as decoded text chunks into `parser`, without a byte-order mark. Resolves when
+ * Streams a part's bytes as decoded text chunks into `parser` (saxes or the fast tokenizer), without a
+ * byte-order mark. Resolves when
  * the part has been read and the parser closed.
  * @throws {WorkbookFileError} naming the part when it is not well-formed XML or is UTF-16.
  */
-export async function feedXml(stream: Readable, parser: SaxesParser, partName: string, options: FeedOptions = {}): Promise<void> {
+export async function feedXml(
+  stream: Readable,
+  parser: XmlSink,
+  partName: string,
+  options: FeedOptions = {},
+): Promise<void> {
   const decoder = new StringDecoder('utf8');
   let first = true;
   const take = async (text: string): Promise<void> => {
@@ -102,7 +127,11 @@ export async function feedXml(stream: Readable, parser: SaxesParser, partName: s
     for await (const raw of stream) {
       const bytes = raw as Buffer;
       options.onBytes?.(bytes.length);
-      if (first && bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff))) {
+      if (
+        first &&
+        bytes.length >= 2 &&
+        ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff))
+      ) {
         throw new WorkbookFileError(`part ${partName} is UTF-16 text; only UTF-8 parts are supported`);
       }
       let text = decoder.write(bytes);

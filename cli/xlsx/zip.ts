@@ -41,7 +41,11 @@ export class ZipPackage {
   static async open(file: string): Promise<ZipPackage> {
     let zip: yauzl.ZipFile;
     try {
-      zip = await yauzl.openPromise(file, { lazyEntries: true, autoClose: false, strictFileNames: false });
+      zip = await yauzl.openPromise(file, {
+        lazyEntries: true,
+        autoClose: false,
+        strictFileNames: false,
+      });
     } catch (error) {
       const code = (error as NodeJS.ErrnoException).code;
       if (code === 'ENOENT') throw new WorkbookFileError(`${file}: no such file`);
@@ -53,9 +57,14 @@ export class ZipPackage {
     try {
       for await (const entry of zip.eachEntry()) {
         if (entry.fileName.endsWith('/')) continue;
-        if (entry.isEncrypted()) throw new WorkbookFileError(`${file} is encrypted (a password-protected workbook); save it without a password first`);
+        if (entry.isEncrypted())
+          throw new WorkbookFileError(
+            `${file} is encrypted (a password-protected workbook); save it without a password first`,
+          );
         if (entry.compressionMethod !== 0 && entry.compressionMethod !== 8) {
-          throw new WorkbookFileError(`${file}: part ${entry.fileName} uses compression method ${entry.compressionMethod}, which this tool cannot read`);
+          throw new WorkbookFileError(
+            `${file}: part ${entry.fileName} uses compression method ${entry.compressionMethod}, which this tool cannot read`,
+          );
         }
         parts.push({
           name: entry.fileName,

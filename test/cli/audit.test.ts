@@ -49,15 +49,32 @@ async function run(argv: string[]): Promise<{ code: number; out: string; err: st
 describe('a workbook whose saved values are right', () => {
   let report: AuditReport;
   beforeAll(async () => {
-    report = await auditWorkbook(await write('readout.xlsx', readoutBook({ chart: true, calcChain: true })), addin, { tolerance: REFERENCE_TOLERANCE });
+    report = await auditWorkbook(await write('readout.xlsx', readoutBook({ chart: true, calcChain: true })), addin, {
+      tolerance: REFERENCE_TOLERANCE,
+    });
   });
 
   test('every checkable ABTEST formula agrees with scipy, R and the closed forms', () => {
-    expect(report.summary).toEqual({ formulas: 15, agree: 12, differ: 0, notCheckable: 3 });
+    expect(report.summary).toEqual({
+      formulas: 15,
+      agree: 12,
+      differ: 0,
+      notCheckable: 3,
+    });
   });
   test('spills are compared cell by cell, including the empty control slots', () => {
-    expect(entry(report, 'D2')).toMatchObject({ status: 'agrees', spill: 'D2:F3', compared: 6, function: 'LIFT_INTERVAL' });
-    expect(entry(report, 'B2')).toMatchObject({ status: 'agrees', spill: 'B2:B3', compared: 2, formula: '=ABTEST.PROB_HIGHEST(Counts!C2:C3,Counts!B2:B3)' });
+    expect(entry(report, 'D2')).toMatchObject({
+      status: 'agrees',
+      spill: 'D2:F3',
+      compared: 6,
+      function: 'LIFT_INTERVAL',
+    });
+    expect(entry(report, 'B2')).toMatchObject({
+      status: 'agrees',
+      spill: 'B2:B3',
+      compared: 2,
+      formula: '=ABTEST.PROB_HIGHEST(Counts!C2:C3,Counts!B2:B3)',
+    });
   });
   test('all three spellings are recognised', () => {
     expect(entry(report, 'B2').function).toBe('PROB_HIGHEST'); // _xldudf_ABTEST_PROB_HIGHEST(
@@ -72,11 +89,17 @@ describe('a workbook whose saved values are right', () => {
     expect(entry(report, 'B20').reason).toBe(
       'argument 1 (conversions) is an expression (Counts!C2:C3*1); only cell ranges, defined names and constants are recomputed',
     );
-    expect(entry(report, 'B22').reason).toBe('the ABTEST call is part of a larger formula; only a formula that is one ABTEST call is recomputed');
-    expect(entry(report, 'B24').reason).toBe('the saved result is #NAME?: the workbook was last calculated where the add-in was not loaded');
+    expect(entry(report, 'B22').reason).toBe(
+      'the ABTEST call is part of a larger formula; only a formula that is one ABTEST call is recomputed',
+    );
+    expect(entry(report, 'B24').reason).toBe(
+      'the saved result is #NAME?: the workbook was last calculated where the add-in was not loaded',
+    );
   });
   test('with no tolerance at all the scipy references differ in the last digits: the comparison is real', async () => {
-    const strict = await auditWorkbook(path.join(dir, 'readout.xlsx'), addin, { tolerance: 0 });
+    const strict = await auditWorkbook(path.join(dir, 'readout.xlsx'), addin, {
+      tolerance: 0,
+    });
     // Closed forms and R agree exactly or to the last bits; scipy's quadrature does not.
     expect(strict.summary.differ).toBeGreaterThan(0);
     expect(entry(strict, 'B8').status).toBe('agrees'); // PRIOR_FROM_MEAN: 10, 190 exactly
@@ -86,7 +109,9 @@ describe('a workbook whose saved values are right', () => {
 describe('a workbook whose argument changed after it was calculated', () => {
   let report: AuditReport;
   beforeAll(async () => {
-    report = await auditWorkbook(await write('changed.xlsx', readoutBook({ visitorsB: 2000 })), addin, { tolerance: REFERENCE_TOLERANCE });
+    report = await auditWorkbook(await write('changed.xlsx', readoutBook({ visitorsB: 2000 })), addin, {
+      tolerance: REFERENCE_TOLERANCE,
+    });
   });
   test('the formulas that read Counts!B3 differ, with both values', () => {
     const mean = entry(report, 'C2');
@@ -94,7 +119,9 @@ describe('a workbook whose argument changed after it was calculated', () => {
     // Closed form with the changed input: (1 + 150) / (2 + 2000).
     expect(mean.differences).toEqual([{ cell: 'C3', saved: MEAN_B, recomputed: 151 / 2002 }]);
     expect(entry(report, 'B2').differences.map((d) => d.cell)).toEqual(['B2', 'B3']);
-    expect(entry(report, 'B23').differences[0]?.saved).toBe('Choose B: its expected loss 0.0065% is within the 0.050% allowed');
+    expect(entry(report, 'B23').differences[0]?.saved).toBe(
+      'Choose B: its expected loss 0.0065% is within the 0.050% allowed',
+    );
   });
   test('formulas that do not read B3 still agree', () => {
     expect(entry(report, 'G5').status).toBe('agrees');
@@ -105,13 +132,17 @@ describe('a workbook whose argument changed after it was calculated', () => {
     const file = path.join(dir, 'changed.xlsx');
     const text = await run(['audit', file, '--tolerance', String(REFERENCE_TOLERANCE), '--no-build']);
     expect(text.code).toBe(1);
-    expect(text.out).toContain('Read-out!C2  =ABTEST.POSTERIOR_MEAN(Counts!$C$2:$C$3,Counts!$B$2:$B$3)  DIFFERS (2 cells, C2:C3)');
+    expect(text.out).toContain(
+      'Read-out!C2  =ABTEST.POSTERIOR_MEAN(Counts!$C$2:$C$3,Counts!$B$2:$B$3)  DIFFERS (2 cells, C2:C3)',
+    );
     expect(text.out).toContain(`C3: saved ${MEAN_B}, recomputed ${151 / 2002}`);
     const json = await run(['audit', file, '--json', '--tolerance', String(REFERENCE_TOLERANCE), '--no-build']);
     expect(json.code).toBe(1);
     const parsed = JSON.parse(json.out);
     expect(parsed.summary).toEqual(report.summary);
-    expect(parsed.formulas.find((f: AuditEntry) => f.cell === 'C2').differences).toEqual([{ cell: 'C3', saved: MEAN_B, recomputed: 151 / 2002 }]);
+    expect(parsed.formulas.find((f: AuditEntry) => f.cell === 'C2').differences).toEqual([
+      { cell: 'C3', saved: MEAN_B, recomputed: 151 / 2002 },
+    ]);
   });
 });
 
@@ -130,28 +161,57 @@ describe('cell types: shared and inline strings, booleans, errors', () => {
           { ref: 'D1', value: 'central', stringAs: 's' },
           { ref: 'D2', value: 'hdi', stringAs: 'inlineStr' },
           // TRUE among the visitors: the function's own #VALUE! (the sheet layer's input policy).
-          { ref: 'F1', formula: 'ABTEST.POSTERIOR_MEAN(B1:B2,A1:A2)', array: 'F1:F2', dynamic: true, value: { error: '#VALUE!' } },
+          {
+            ref: 'F1',
+            formula: 'ABTEST.POSTERIOR_MEAN(B1:B2,A1:A2)',
+            array: 'F1:F2',
+            dynamic: true,
+            value: { error: '#VALUE!' },
+          },
           // An error in an argument: Excel passes it on without calling the function (as the preview does).
-          { ref: 'G1', formula: 'ABTEST.POSTERIOR_MEAN(B1:B2,C1:C2)', value: { error: '#N/A' } },
+          {
+            ref: 'G1',
+            formula: 'ABTEST.POSTERIOR_MEAN(B1:B2,C1:C2)',
+            value: { error: '#N/A' },
+          },
           // The method from a shared string and from an inline string.
-          { ref: 'H1', formula: 'ABTEST.RATE_INTERVAL(B1,A1,0.95,,,D1)', array: 'H1:I1', dynamic: true, value: addinRate('central', 0) },
+          {
+            ref: 'H1',
+            formula: 'ABTEST.RATE_INTERVAL(B1,A1,0.95,,,D1)',
+            array: 'H1:I1',
+            dynamic: true,
+            value: addinRate('central', 0),
+          },
           { ref: 'I1', value: addinRate('central', 1) },
-          { ref: 'H2', formula: 'ABTEST.RATE_INTERVAL(B1,A1,0.95,,,D2)', array: 'H2:I2', dynamic: true, value: addinRate('hdi', 0) },
+          {
+            ref: 'H2',
+            formula: 'ABTEST.RATE_INTERVAL(B1,A1,0.95,,,D2)',
+            array: 'H2:I2',
+            dynamic: true,
+            value: addinRate('hdi', 0),
+          },
           { ref: 'I2', value: addinRate('hdi', 1) },
         ],
       },
     ],
   };
   function addinRate(method: 'central' | 'hdi', end: 0 | 1): number {
-    const refs = JSON.parse(fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8')).conversionTwo;
+    const refs = JSON.parse(
+      fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8'),
+    ).conversionTwo;
     return (method === 'central' ? refs.rateIntervalCentral : refs.rateIntervalHdi)[0][end];
   }
   test('each is read as the function sees it', async () => {
-    const report = await auditWorkbook(await write('odd.xlsx', book), addin, { tolerance: REFERENCE_TOLERANCE });
+    const report = await auditWorkbook(await write('odd.xlsx', book), addin, {
+      tolerance: REFERENCE_TOLERANCE,
+    });
     const f1 = entry(report, 'F1', 'Odd cells');
     expect(f1.status).toBe('agrees');
     expect(f1.errorMessage).toMatch(/^visitors, item 2: TRUE/);
-    expect(entry(report, 'G1', 'Odd cells')).toMatchObject({ status: 'agrees', errorMessage: 'an argument holds #N/A, which Excel returns without calling the function' });
+    expect(entry(report, 'G1', 'Odd cells')).toMatchObject({
+      status: 'agrees',
+      errorMessage: 'an argument holds #N/A, which Excel returns without calling the function',
+    });
     expect(entry(report, 'H1', 'Odd cells').status).toBe('agrees');
     expect(entry(report, 'H2', 'Odd cells').status).toBe('agrees');
   });
@@ -159,31 +219,86 @@ describe('cell types: shared and inline strings, booleans, errors', () => {
 
 describe('files the audit must refuse or handle', () => {
   test('a prefixed SpreadsheetML (x:c cells) reads the same', async () => {
-    const file = await write('prefixed.xlsx', { ...readoutBook(), prefixed: true });
-    const report = await auditWorkbook(file, addin, { tolerance: REFERENCE_TOLERANCE });
-    expect(report.summary).toEqual({ formulas: 15, agree: 12, differ: 0, notCheckable: 3 });
+    const file = await write('prefixed.xlsx', {
+      ...readoutBook(),
+      prefixed: true,
+    });
+    const report = await auditWorkbook(file, addin, {
+      tolerance: REFERENCE_TOLERANCE,
+    });
+    expect(report.summary).toEqual({
+      formulas: 15,
+      agree: 12,
+      differ: 0,
+      notCheckable: 3,
+    });
   });
   test('a workbook without ABTEST formulas agrees trivially (exit 0) and says so', async () => {
-    const file = await write('plain.xlsx', { sheets: [{ name: 'S', cells: [{ ref: 'A1', value: 1 }, { ref: 'A2', formula: 'A1*2', value: 2 }] }] });
+    const file = await write('plain.xlsx', {
+      sheets: [
+        {
+          name: 'S',
+          cells: [
+            { ref: 'A1', value: 1 },
+            { ref: 'A2', formula: 'A1*2', value: 2 },
+          ],
+        },
+      ],
+    });
     const result = await run(['audit', file, '--no-build']);
     expect(result.code).toBe(0);
     expect(result.out).toContain('no ABTEST formulas found');
   });
   test('a spill saved larger or smaller than the result differs with a reason', async () => {
     const file = await write('spill.xlsx', {
-      sheets: [{ name: 'S', cells: [{ ref: 'A1', formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)', array: 'A1:A1', value: 10 }, { ref: 'B5', formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)', array: 'B5:D5', dynamic: true, value: 10 }, { ref: 'C5', value: 190 }] }],
+      sheets: [
+        {
+          name: 'S',
+          cells: [
+            {
+              ref: 'A1',
+              formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)',
+              array: 'A1:A1',
+              value: 10,
+            },
+            {
+              ref: 'B5',
+              formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)',
+              array: 'B5:D5',
+              dynamic: true,
+              value: 10,
+            },
+            { ref: 'C5', value: 190 },
+          ],
+        },
+      ],
     });
     const report = await auditWorkbook(file, addin);
-    expect(entry(report, 'A1', 'S')).toMatchObject({ status: 'agrees', reason: 'the function returns 1×2 cells, but the file stores it in one cell; only the first value was compared' });
+    expect(entry(report, 'A1', 'S')).toMatchObject({
+      status: 'agrees',
+      reason: 'the function returns 1×2 cells, but the file stores it in one cell; only the first value was compared',
+    });
     // D5 lies in the saved range but the result has two columns: Excel shows #N/A there for a legacy array.
     expect(entry(report, 'B5', 'S').differences).toEqual([{ cell: 'D5', saved: null, recomputed: { error: '#N/A' } }]);
   });
   test('usage and file problems: exit code 2 with a message', async () => {
-    expect(await run(['audit'])).toMatchObject({ code: 2, err: expect.stringContaining('audit needs a workbook file (.xlsx)') });
-    expect(await run(['frobnicate', 'x.xlsx'])).toMatchObject({ code: 2, err: expect.stringContaining('unknown command "frobnicate"') });
-    expect(await run(['audit', 'x.xlsx', '--tolerance', 'lots'])).toMatchObject({ code: 2, err: expect.stringContaining('--tolerance must be a number') });
+    expect(await run(['audit'])).toMatchObject({
+      code: 2,
+      err: expect.stringContaining('audit needs a workbook file (.xlsx)'),
+    });
+    expect(await run(['frobnicate', 'x.xlsx'])).toMatchObject({
+      code: 2,
+      err: expect.stringContaining('unknown command "frobnicate"'),
+    });
+    expect(await run(['audit', 'x.xlsx', '--tolerance', 'lots'])).toMatchObject({
+      code: 2,
+      err: expect.stringContaining('--tolerance must be a number'),
+    });
     const missing = path.join(dir, 'nope.xlsx');
-    expect(await run(['audit', missing, '--no-build'])).toMatchObject({ code: 2, err: `lift-ledger: ${missing}: no such file\n` });
+    expect(await run(['audit', missing, '--no-build'])).toMatchObject({
+      code: 2,
+      err: `lift-ledger: ${missing}: no such file\n`,
+    });
     const notZip = path.join(dir, 'text.xlsx');
     fs.writeFileSync(notZip, 'visitors,conversions\n2400,120\n');
     const res = await run(['audit', notZip, '--no-build']);
@@ -193,16 +308,23 @@ describe('files the audit must refuse or handle', () => {
     parts.delete('xl/workbook.xml');
     const broken = path.join(dir, 'broken.xlsx');
     fs.writeFileSync(broken, await zipParts(parts));
-    expect((await run(['audit', broken, '--no-build'])).err).toBe('lift-ledger: the package names the workbook part xl/workbook.xml, but it is missing\n');
+    expect((await run(['audit', broken, '--no-build'])).err).toBe(
+      'lift-ledger: the package names the workbook part xl/workbook.xml, but it is missing\n',
+    );
   });
   test('--addin with a folder that holds no build', async () => {
     const res = await run(['audit', path.join(dir, 'plain.xlsx'), '--addin', dir]);
-    expect(res).toMatchObject({ code: 2, err: `lift-ledger: ${path.join(dir, 'functions.js')} is missing: run \`npm run build\` first\n` });
+    expect(res).toMatchObject({
+      code: 2,
+      err: `lift-ledger: ${path.join(dir, 'functions.js')} is missing: run \`npm run build\` first\n`,
+    });
   });
 });
 
 test('the closed forms the books use match scipy (BDA3 §2.4 posterior mean with a uniform prior)', () => {
-  const refs = JSON.parse(fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8')).conversionTwo;
+  const refs = JSON.parse(
+    fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8'),
+  ).conversionTwo;
   expect(MEAN_A).toBeCloseTo(refs.posteriorMean[0], 15);
   expect(MEAN_B).toBeCloseTo(refs.posteriorMean[1], 15);
   expect(two.probHighest[0]! + two.probHighest[1]!).toBeCloseTo(1, 12);

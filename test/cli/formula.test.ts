@@ -9,7 +9,14 @@
  */
 import { columnIndex, columnLetters, parseRange, rangeName, sheetPrefix } from '../../cli/core/cellAddress';
 import { DEFAULT_TOLERANCE, showValue, valuesAgree } from '../../cli/core/compare';
-import { abtestFunctionName, containsAbtestCall, displayFormula, parseFormula, shiftFormula, tokenize } from '../../cli/core/formula';
+import {
+  abtestFunctionName,
+  containsAbtestCall,
+  displayFormula,
+  parseFormula,
+  shiftFormula,
+  tokenize,
+} from '../../cli/core/formula';
 import { frozenHeaderLine, frozenTime, howComputedNote, isAbtestResult } from '../../cli/core/frozenCopy';
 
 describe('A1 addresses (ECMA-376 ST_Ref)', () => {
@@ -20,13 +27,18 @@ describe('A1 addresses (ECMA-376 ST_Ref)', () => {
     expect(columnLetters(701)).toBe('ZZ');
   });
   test('ranges are normalised; rows past 1048576 are not cells', () => {
-    expect(parseRange('D4:B2')).toEqual({ top: 1, left: 1, bottom: 3, right: 3 });
+    expect(parseRange('D4:B2')).toEqual({
+      top: 1,
+      left: 1,
+      bottom: 3,
+      right: 3,
+    });
     expect(rangeName({ top: 0, left: 0, bottom: 0, right: 0 })).toBe('A1');
     expect(parseRange('A1048577')).toBeUndefined();
   });
   test('sheet names are quoted when they need it', () => {
     expect(sheetPrefix('Counts')).toBe('Counts!');
-    expect(sheetPrefix("Read-out")).toBe("'Read-out'!");
+    expect(sheetPrefix('Read-out')).toBe("'Read-out'!");
     expect(sheetPrefix("Bob's tests")).toBe("'Bob''s tests'!");
     expect(sheetPrefix('A1')).toBe("'A1'!");
   });
@@ -50,7 +62,9 @@ describe('ABTEST names in a file', () => {
 
 describe('tokenizer and parser (ECMA-376 §18.17 formula grammar)', () => {
   test('references with sheets, quoted sheets, whole columns and rows', () => {
-    const refs = tokenize("SUM('Bob''s tests'!$A$1:B2,Data!C:C,3:4,[1]Other!A1,Jan:Mar!B2)").filter((t) => t.type === 'ref');
+    const refs = tokenize("SUM('Bob''s tests'!$A$1:B2,Data!C:C,3:4,[1]Other!A1,Jan:Mar!B2)").filter(
+      (t) => t.type === 'ref',
+    );
     expect(refs.map((t) => (t.type === 'ref' ? t.sheet : undefined))).toEqual([
       { name: "Bob's tests" },
       { name: 'Data' },
@@ -59,7 +73,12 @@ describe('tokenizer and parser (ECMA-376 §18.17 formula grammar)', () => {
       { name: 'Jan', lastName: 'Mar' },
     ]);
     const first = refs[0];
-    expect(first?.type === 'ref' && first.first).toEqual({ row: 0, col: 0, rowAbsolute: true, colAbsolute: true });
+    expect(first?.type === 'ref' && first.first).toEqual({
+      row: 0,
+      col: 0,
+      rowAbsolute: true,
+      colAbsolute: true,
+    });
   });
   test('a name that looks like a cell followed by "(" is a function (LOG10)', () => {
     expect(tokenize('LOG10(A1)').map((t) => t.type)).toEqual(['func', 'lparen', 'ref', 'rparen']);
@@ -69,7 +88,17 @@ describe('tokenizer and parser (ECMA-376 §18.17 formula grammar)', () => {
     expect(parsed.ok).toBe(true);
     if (!parsed.ok || parsed.node.kind !== 'call') throw new Error('expected a call');
     const kinds = parsed.node.args.map((a) => a.kind);
-    expect(kinds).toEqual(['constant', 'constant', 'array', 'missing', 'name', 'expression', 'constant', 'constant', 'constant']);
+    expect(kinds).toEqual([
+      'constant',
+      'constant',
+      'array',
+      'missing',
+      'name',
+      'expression',
+      'constant',
+      'constant',
+      'constant',
+    ]);
     const [pct, neg, arr] = parsed.node.args;
     expect(pct?.kind === 'constant' && pct.value).toBe(0.05);
     expect(neg?.kind === 'constant' && neg.value).toBe(-0.05);
@@ -107,7 +136,9 @@ describe('shared formulas (ECMA-376 §18.3.1.40)', () => {
 describe('formulas as a user sees them', () => {
   test('file prefixes are dropped, ABTEST spelled as typed', () => {
     expect(displayFormula('_xldudf_ABTEST_PROB_HIGHEST(C2:C4,B2:B4)')).toBe('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)');
-    expect(displayFormula('_xlfn.STDEV.S(A1:A3)+_xll.ABTEST.SRM_PVALUE(B1:B2)')).toBe('=STDEV.S(A1:A3)+ABTEST.SRM_PVALUE(B1:B2)');
+    expect(displayFormula('_xlfn.STDEV.S(A1:A3)+_xll.ABTEST.SRM_PVALUE(B1:B2)')).toBe(
+      '=STDEV.S(A1:A3)+ABTEST.SRM_PVALUE(B1:B2)',
+    );
   });
 });
 
@@ -117,13 +148,23 @@ describe('frozen-copy wording (our own)', () => {
     expect(frozenTime(at)).toBe('2025-03-14 09:26 UTC');
   });
   test('the note names the formula and its spill', () => {
-    expect(howComputedNote({ formula: '_xldudf_ABTEST_PROB_HIGHEST(C2:C3,B2:B3)', spill: 'D2:D3', frozenAt: at })).toBe(
+    expect(
+      howComputedNote({
+        formula: '_xldudf_ABTEST_PROB_HIGHEST(C2:C3,B2:B3)',
+        spill: 'D2:D3',
+        frozenAt: at,
+      }),
+    ).toBe(
       'Computed by =ABTEST.PROB_HIGHEST(C2:C3,B2:B3) (its result filled D2:D3).\nFrozen 2025-03-14 09:26 UTC: a plain value now, it no longer updates.',
     );
   });
   test('the header says when, from what and how many', () => {
-    expect(frozenHeaderLine({ frozenAt: at, source: 'q3.xlsx', results: 1 })).toMatch(/^Frozen copy made 2025-03-14 09:26 UTC from q3\.xlsx: 1 Lift Ledger result is a plain value;/);
-    expect(frozenHeaderLine({ frozenAt: at, source: 'q3.xlsx', results: 4 })).toContain('4 Lift Ledger results are plain values');
+    expect(frozenHeaderLine({ frozenAt: at, source: 'q3.xlsx', results: 1 })).toMatch(
+      /^Frozen copy made 2025-03-14 09:26 UTC from q3\.xlsx: 1 Lift Ledger result is a plain value;/,
+    );
+    expect(frozenHeaderLine({ frozenAt: at, source: 'q3.xlsx', results: 4 })).toContain(
+      '4 Lift Ledger results are plain values',
+    );
   });
 });
 

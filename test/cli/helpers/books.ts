@@ -64,44 +64,117 @@ export function readoutCells(): TestCell[] {
   return [
     { ref: 'A1', value: 'Read-out of the checkout test (invented demo data)' },
     // The user-defined-function spelling, a dynamic array spilling down.
-    { ref: 'B2', formula: `_xldudf_ABTEST_PROB_HIGHEST(${C},${V})`, array: 'B2:B3', dynamic: true, value: two.probHighest[0] as number, style: 1 },
+    {
+      ref: 'B2',
+      formula: `_xldudf_ABTEST_PROB_HIGHEST(${C},${V})`,
+      array: 'B2:B3',
+      dynamic: true,
+      value: two.probHighest[0] as number,
+      style: 1,
+    },
     { ref: 'B3', value: two.probHighest[1] as number, style: 1 },
     // The worksheet spelling with absolute references; closed form.
-    { ref: 'C2', formula: 'ABTEST.POSTERIOR_MEAN(Counts!$C$2:$C$3,Counts!$B$2:$B$3)', array: 'C2:C3', dynamic: true, value: MEAN_A, style: 2 },
+    {
+      ref: 'C2',
+      formula: 'ABTEST.POSTERIOR_MEAN(Counts!$C$2:$C$3,Counts!$B$2:$B$3)',
+      array: 'C2:C3',
+      dynamic: true,
+      value: MEAN_A,
+      style: 2,
+    },
     { ref: 'C3', value: MEAN_B, style: 2 },
     // A 2×3 spill with empty text in the control's row.
-    { ref: 'D2', formula: `ABTEST.LIFT_INTERVAL(${C},${V},0.95)`, array: 'D2:F3', dynamic: true, value: '' },
+    {
+      ref: 'D2',
+      formula: `ABTEST.LIFT_INTERVAL(${C},${V},0.95)`,
+      array: 'D2:F3',
+      dynamic: true,
+      value: '',
+    },
     { ref: 'E2', value: '', stringAs: 'str' },
     { ref: 'F2', value: '', stringAs: 'str' },
     { ref: 'D3', value: two.liftInterval[0]?.[0] as number },
     { ref: 'E3', value: two.liftInterval[0]?.[1] as number },
     { ref: 'F3', value: two.liftInterval[0]?.[2] as number },
     // A percent constant; the _xll. spelling.
-    { ref: 'B5', formula: `_xll.ABTEST.PROB_LIFT_ABOVE(${C},${V},5%)`, array: 'B5:B6', dynamic: true, value: '' },
+    {
+      ref: 'B5',
+      formula: `_xll.ABTEST.PROB_LIFT_ABOVE(${C},${V},5%)`,
+      array: 'B5:B6',
+      dynamic: true,
+      value: '',
+    },
     { ref: 'B6', value: two.probLiftAbove[0] as number },
     // A prior from constants, then used from its spilled cells.
-    { ref: 'B8', formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)', array: 'B8:C8', dynamic: true, value: 10 },
+    {
+      ref: 'B8',
+      formula: 'ABTEST.PRIOR_FROM_MEAN(0.05,200)',
+      array: 'B8:C8',
+      dynamic: true,
+      value: 10,
+    },
     { ref: 'C8', value: 190 },
-    { ref: 'B10', formula: `ABTEST.POSTERIOR_MEAN(${C},${V},B8,C8)`, array: 'B10:B11', dynamic: true, value: 130 / 2600 },
+    {
+      ref: 'B10',
+      formula: `ABTEST.POSTERIOR_MEAN(${C},${V},B8,C8)`,
+      array: 'B10:B11',
+      dynamic: true,
+      value: 130 / 2600,
+    },
     { ref: 'B11', value: 160 / 2580 },
     // An array constant, no spill.
-    { ref: 'B13', formula: 'ABTEST.SRM_PVALUE({50410;49590})', value: srmPValue },
+    {
+      ref: 'B13',
+      formula: 'ABTEST.SRM_PVALUE({50410;49590})',
+      value: srmPValue,
+    },
     // Omitted optional arguments.
-    { ref: 'B14', formula: `ABTEST.EXPECTED_LOSS(${C},${V},,)`, array: 'B14:B15', dynamic: true, value: two.expectedLoss[0] as number },
+    {
+      ref: 'B14',
+      formula: `ABTEST.EXPECTED_LOSS(${C},${V},,)`,
+      array: 'B14:B15',
+      dynamic: true,
+      value: two.expectedLoss[0] as number,
+    },
     { ref: 'B15', value: two.expectedLoss[1] as number },
     // Defined names.
-    { ref: 'B17', formula: 'ABTEST.POSTERIOR_MEAN(conv,visits)', array: 'B17:B18', dynamic: true, value: MEAN_A },
+    {
+      ref: 'B17',
+      formula: 'ABTEST.POSTERIOR_MEAN(conv,visits)',
+      array: 'B17:B18',
+      dynamic: true,
+      value: MEAN_A,
+    },
     { ref: 'B18', value: MEAN_B },
     // Not checkable: an expression, a nested call, a result saved without the add-in.
-    { ref: 'B20', formula: `ABTEST.POSTERIOR_MEAN(${C}*1,${V})`, array: 'B20:B21', dynamic: true, value: MEAN_A },
+    {
+      ref: 'B20',
+      formula: `ABTEST.POSTERIOR_MEAN(${C}*1,${V})`,
+      array: 'B20:B21',
+      dynamic: true,
+      value: MEAN_A,
+    },
     { ref: 'B21', value: MEAN_B },
-    { ref: 'B22', formula: 'ROUND(ABTEST.POSTERIOR_MEAN(Counts!C2,Counts!B2),4)', value: 0.0504 },
+    {
+      ref: 'B22',
+      formula: 'ROUND(ABTEST.POSTERIOR_MEAN(Counts!C2,Counts!B2),4)',
+      value: 0.0504,
+    },
     { ref: 'B23', formula: `ABTEST.DECISION(${C},${V})`, value: DECISION_TEXT },
-    { ref: 'B24', formula: `ABTEST.PROB_HIGHEST(${C},${V})`, value: { error: '#NAME?' } },
+    {
+      ref: 'B24',
+      formula: `ABTEST.PROB_HIGHEST(${C},${V})`,
+      value: { error: '#NAME?' },
+    },
     // A plain formula that is not ours.
     { ref: 'E10', formula: `SUM(${V})`, value: 4780 },
     // A shared formula filled down (master G5, dependent G6) on a quoted sheet name.
-    { ref: 'G5', formula: "ABTEST.POSTERIOR_MEAN('Counts'!C2,'Counts'!B2)", shared: { si: 0, ref: 'G5:G6' }, value: MEAN_A },
+    {
+      ref: 'G5',
+      formula: "ABTEST.POSTERIOR_MEAN('Counts'!C2,'Counts'!B2)",
+      shared: { si: 0, ref: 'G5:G6' },
+      value: MEAN_A,
+    },
     { ref: 'G6', shared: { si: 0 }, value: MEAN_B },
   ];
 }
@@ -111,7 +184,14 @@ export function readoutBook(options: { visitorsB?: number; chart?: boolean; calc
   const readout: TestSheet = {
     name: 'Read-out',
     cells: readoutCells(),
-    ...(options.chart ? { chart: { seriesRef: "'Read-out'!$B$2:$B$3", cached: [two.probHighest[0] as number, two.probHighest[1] as number] } } : {}),
+    ...(options.chart
+      ? {
+          chart: {
+            seriesRef: "'Read-out'!$B$2:$B$3",
+            cached: [two.probHighest[0] as number, two.probHighest[1] as number],
+          },
+        }
+      : {}),
   };
   return {
     sheets: [readout, countsSheet(options.visitorsB ?? 2380)],

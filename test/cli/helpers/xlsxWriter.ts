@@ -39,7 +39,10 @@ export interface TestSheet {
   readonly name: string;
   readonly cells: readonly TestCell[];
   /** Adds a chart (drawing + chart part) whose series reads `seriesRef` (e.g. "'Read-out'!$D$2:$D$3"). */
-  readonly chart?: { readonly seriesRef: string; readonly cached: readonly number[] };
+  readonly chart?: {
+    readonly seriesRef: string;
+    readonly cached: readonly number[];
+  };
   /** Existing notes (legacy comments + VML drawing), keyed by cell. */
   readonly notes?: Readonly<Record<string, string>>;
   /** Extra worksheet children written after sheetData (raw XML, e.g. conditional formatting). */
@@ -49,11 +52,19 @@ export interface TestSheet {
 /** A workbook to write. */
 export interface TestBook {
   readonly sheets: readonly TestSheet[];
-  readonly definedNames?: readonly { readonly name: string; readonly formula: string; readonly localSheetId?: number }[];
+  readonly definedNames?: readonly {
+    readonly name: string;
+    readonly formula: string;
+    readonly localSheetId?: number;
+  }[];
   /** Writes xl/calcChain.xml listing every formula cell. */
   readonly calcChain?: boolean;
   /** Parts added as they are (name → content), with their content type; e.g. an unknown custom part. */
-  readonly extraParts?: readonly { readonly name: string; readonly content: string; readonly contentType: string }[];
+  readonly extraParts?: readonly {
+    readonly name: string;
+    readonly content: string;
+    readonly contentType: string;
+  }[];
   /** Use the x: prefix for SpreadsheetML elements in worksheets. */
   readonly prefixed?: boolean;
 }
@@ -63,7 +74,8 @@ const REL_NS = 'http://schemas.openxmlformats.org/officeDocument/2006/relationsh
 const PKG_REL = 'http://schemas.openxmlformats.org/package/2006/relationships';
 const RT = 'http://schemas.openxmlformats.org/officeDocument/2006/relationships';
 
-const esc = (s: string): string => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+const esc = (s: string): string =>
+  s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 /** Zero-based row and column of "B3". */
 function position(ref: string): { row: number; col: number } {
@@ -112,7 +124,8 @@ export function xlsxParts(book: TestBook): Map<string, string> {
       if (cell.formula !== undefined || cell.shared) {
         let fAttrs = '';
         if (cell.array) fAttrs += ` t="array" ref="${cell.array}"`;
-        if (cell.shared) fAttrs += ` t="shared"${cell.shared.ref ? ` ref="${cell.shared.ref}"` : ''} si="${cell.shared.si}"`;
+        if (cell.shared)
+          fAttrs += ` t="shared"${cell.shared.ref ? ` ref="${cell.shared.ref}"` : ''} si="${cell.shared.si}"`;
         inner += cell.formula ? `<${p}f${fAttrs}>${esc(cell.formula)}</${p}f>` : `<${p}f${fAttrs}/>`;
         chain.push(`<c r="${cell.ref}" i="${s + 1}"/>`);
       }
@@ -144,15 +157,23 @@ export function xlsxParts(book: TestBook): Map<string, string> {
       const xml = inner ? `<${p}c${attrs}>${inner}</${p}c>` : `<${p}c${attrs}/>`;
       rows.set(row, [...(rows.get(row) ?? []), xml]);
     }
-    const rowXml = [...rows.entries()].sort((a, b) => a[0] - b[0]).map(([r, cs]) => `<${p}row r="${r + 1}">${cs.join('')}</${p}row>`).join('');
+    const rowXml = [...rows.entries()]
+      .sort((a, b) => a[0] - b[0])
+      .map(([r, cs]) => `<${p}row r="${r + 1}">${cs.join('')}</${p}row>`)
+      .join('');
     let tail = sheet.afterSheetData ?? '';
     if (sheet.chart) {
       drawingCount += 1;
       const d = drawingCount;
-      sheetRels.push(`<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/drawing" Target="../drawings/drawing${d}.xml"/>`);
+      sheetRels.push(
+        `<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/drawing" Target="../drawings/drawing${d}.xml"/>`,
+      );
       tail += `<${p}drawing r:id="rId${sheetRels.length}"/>`;
       parts.set(`xl/drawings/drawing${d}.xml`, drawingXml());
-      parts.set(`xl/drawings/_rels/drawing${d}.xml.rels`, `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}"><Relationship Id="rId1" Type="${RT}/chart" Target="../charts/chart${d}.xml"/></Relationships>`);
+      parts.set(
+        `xl/drawings/_rels/drawing${d}.xml.rels`,
+        `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}"><Relationship Id="rId1" Type="${RT}/chart" Target="../charts/chart${d}.xml"/></Relationships>`,
+      );
       parts.set(`xl/charts/chart${d}.xml`, chartXml(sheet.chart.seriesRef, sheet.chart.cached));
       overrides.push([`/xl/drawings/drawing${d}.xml`, 'application/vnd.openxmlformats-officedocument.drawing+xml']);
       overrides.push([`/xl/charts/chart${d}.xml`, 'application/vnd.openxmlformats-officedocument.drawingml.chart+xml']);
@@ -160,15 +181,25 @@ export function xlsxParts(book: TestBook): Map<string, string> {
     if (sheet.notes) {
       commentCount += 1;
       const c = commentCount;
-      sheetRels.push(`<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/comments" Target="../comments${c}.xml"/>`);
-      sheetRels.push(`<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/vmlDrawing" Target="../drawings/vmlDrawing${c}.vml"/>`);
+      sheetRels.push(
+        `<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/comments" Target="../comments${c}.xml"/>`,
+      );
+      sheetRels.push(
+        `<Relationship Id="rId${sheetRels.length + 1}" Type="${RT}/vmlDrawing" Target="../drawings/vmlDrawing${c}.vml"/>`,
+      );
       tail += `<${p}legacyDrawing r:id="rId${sheetRels.length}"/>`;
       const list = Object.entries(sheet.notes)
         .map(([ref, text]) => `<comment ref="${ref}" authorId="0"><text><t>${esc(text)}</t></text></comment>`)
         .join('');
-      parts.set(`xl/comments${c}.xml`, `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<comments xmlns="${MAIN}"><authors><author>A. Analyst</author></authors><commentList>${list}</commentList></comments>`);
+      parts.set(
+        `xl/comments${c}.xml`,
+        `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<comments xmlns="${MAIN}"><authors><author>A. Analyst</author></authors><commentList>${list}</commentList></comments>`,
+      );
       parts.set(`xl/drawings/vmlDrawing${c}.vml`, vmlXml(c, Object.keys(sheet.notes)));
-      overrides.push([`/xl/comments${c}.xml`, 'application/vnd.openxmlformats-officedocument.spreadsheetml.comments+xml']);
+      overrides.push([
+        `/xl/comments${c}.xml`,
+        'application/vnd.openxmlformats-officedocument.spreadsheetml.comments+xml',
+      ]);
     }
     const ns = book.prefixed ? `xmlns:x="${MAIN}"` : `xmlns="${MAIN}"`;
     parts.set(
@@ -177,10 +208,16 @@ export function xlsxParts(book: TestBook): Map<string, string> {
         `<${p}sheetFormatPr defaultRowHeight="15"/><${p}sheetData>${rowXml}</${p}sheetData><${p}pageMargins left="0.7" right="0.7" top="0.75" bottom="0.75" header="0.3" footer="0.3"/>${tail}</${p}worksheet>`,
     );
     if (sheetRels.length > 0) {
-      parts.set(`xl/worksheets/_rels/sheet${s + 1}.xml.rels`, `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}">${sheetRels.join('')}</Relationships>`);
+      parts.set(
+        `xl/worksheets/_rels/sheet${s + 1}.xml.rels`,
+        `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}">${sheetRels.join('')}</Relationships>`,
+      );
     }
     workbookRels.push(`<Relationship Id="rId${s + 1}" Type="${RT}/worksheet" Target="worksheets/sheet${s + 1}.xml"/>`);
-    overrides.push([`/xl/worksheets/sheet${s + 1}.xml`, 'application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml']);
+    overrides.push([
+      `/xl/worksheets/sheet${s + 1}.xml`,
+      'application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml',
+    ]);
   });
 
   let nextRel = book.sheets.length + 1;
@@ -189,28 +226,42 @@ export function xlsxParts(book: TestBook): Map<string, string> {
   parts.set('xl/styles.xml', stylesXml());
   if (shared.length > 0) {
     workbookRels.push(`<Relationship Id="rId${nextRel++}" Type="${RT}/sharedStrings" Target="sharedStrings.xml"/>`);
-    overrides.push(['/xl/sharedStrings.xml', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sharedStrings+xml']);
+    overrides.push([
+      '/xl/sharedStrings.xml',
+      'application/vnd.openxmlformats-officedocument.spreadsheetml.sharedStrings+xml',
+    ]);
     parts.set(
       'xl/sharedStrings.xml',
       `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<sst xmlns="${MAIN}" count="${shared.length}" uniqueCount="${shared.length}">${shared.map((s) => `<si><t xml:space="preserve">${esc(s)}</t></si>`).join('')}</sst>`,
     );
   }
   if (anyDynamic) {
-    workbookRels.push(`<Relationship Id="rId${nextRel++}" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/sheetMetadata" Target="metadata.xml"/>`);
-    overrides.push(['/xl/metadata.xml', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheetMetadata+xml']);
+    workbookRels.push(
+      `<Relationship Id="rId${nextRel++}" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/sheetMetadata" Target="metadata.xml"/>`,
+    );
+    overrides.push([
+      '/xl/metadata.xml',
+      'application/vnd.openxmlformats-officedocument.spreadsheetml.sheetMetadata+xml',
+    ]);
     parts.set('xl/metadata.xml', metadataXml());
   }
   if (book.calcChain && chain.length > 0) {
     workbookRels.push(`<Relationship Id="rId${nextRel++}" Type="${RT}/calcChain" Target="calcChain.xml"/>`);
     overrides.push(['/xl/calcChain.xml', 'application/vnd.openxmlformats-officedocument.spreadsheetml.calcChain+xml']);
-    parts.set('xl/calcChain.xml', `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<calcChain xmlns="${MAIN}">${chain.join('')}</calcChain>`);
+    parts.set(
+      'xl/calcChain.xml',
+      `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<calcChain xmlns="${MAIN}">${chain.join('')}</calcChain>`,
+    );
   }
   for (const extra of book.extraParts ?? []) {
     parts.set(extra.name, extra.content);
     overrides.push([`/${extra.name}`, extra.contentType]);
   }
   const names = (book.definedNames ?? [])
-    .map((d) => `<definedName name="${esc(d.name)}"${d.localSheetId !== undefined ? ` localSheetId="${d.localSheetId}"` : ''}>${esc(d.formula)}</definedName>`)
+    .map(
+      (d) =>
+        `<definedName name="${esc(d.name)}"${d.localSheetId !== undefined ? ` localSheetId="${d.localSheetId}"` : ''}>${esc(d.formula)}</definedName>`,
+    )
     .join('');
   parts.set(
     'xl/workbook.xml',
@@ -218,17 +269,25 @@ export function xlsxParts(book: TestBook): Map<string, string> {
       book.sheets.map((sh, i) => `<sheet name="${esc(sh.name)}" sheetId="${i + 1}" r:id="rId${i + 1}"/>`).join('') +
       `</sheets>${names ? `<definedNames>${names}</definedNames>` : ''}<calcPr calcId="191029"/></workbook>`,
   );
-  parts.set('xl/_rels/workbook.xml.rels', `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}">${workbookRels.join('')}</Relationships>`);
+  parts.set(
+    'xl/_rels/workbook.xml.rels',
+    `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}">${workbookRels.join('')}</Relationships>`,
+  );
   overrides.unshift(['/xl/workbook.xml', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml']);
   const types =
     `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">` +
     '<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="xml" ContentType="application/xml"/>' +
-    (commentCount > 0 ? '<Default Extension="vml" ContentType="application/vnd.openxmlformats-officedocument.vmlDrawing"/>' : '') +
+    (commentCount > 0
+      ? '<Default Extension="vml" ContentType="application/vnd.openxmlformats-officedocument.vmlDrawing"/>'
+      : '') +
     overrides.map(([n, t]) => `<Override PartName="${n}" ContentType="${t}"/>`).join('') +
     '</Types>';
   const ordered = new Map<string, string>();
   ordered.set('[Content_Types].xml', types);
-  ordered.set('_rels/.rels', `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}"><Relationship Id="rId1" Type="${RT}/officeDocument" Target="xl/workbook.xml"/></Relationships>`);
+  ordered.set(
+    '_rels/.rels',
+    `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Relationships xmlns="${PKG_REL}"><Relationship Id="rId1" Type="${RT}/officeDocument" Target="xl/workbook.xml"/></Relationships>`,
+  );
   ordered.set('xl/workbook.xml', parts.get('xl/workbook.xml') as string);
   ordered.set('xl/_rels/workbook.xml.rels', parts.get('xl/_rels/workbook.xml.rels') as string);
   for (const [name, xml] of parts) if (!ordered.has(name)) ordered.set(name, xml);
@@ -306,7 +365,9 @@ export async function buildXlsx(book: TestBook): Promise<Buffer> {
 export async function zipParts(parts: ReadonlyMap<string, string | Buffer>): Promise<Buffer> {
   const zip = new yazl.ZipFile();
   for (const [name, content] of parts) {
-    zip.addBuffer(typeof content === 'string' ? Buffer.from(content, 'utf8') : content, name, { mtime: new Date(Date.UTC(2024, 0, 2, 3, 4, 6)) });
+    zip.addBuffer(typeof content === 'string' ? Buffer.from(content, 'utf8') : content, name, {
+      mtime: new Date(Date.UTC(2024, 0, 2, 3, 4, 6)),
+    });
   }
   zip.end();
   const chunks: Buffer[] = [];
