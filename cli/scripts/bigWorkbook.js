@@ -2,7 +2,7 @@
 /**
  * Writes a large invented workbook for measuring `lift-ledger audit` and `freeze` (time, memory):
  *
- *   node cli/scripts/bigWorkbook.js big.xlsx [--rows N]     (default 1 300 000 rows ≈ 50 MB)
+ *   node cli/scripts/bigWorkbook.js big.xlsx [--rows N]     (default 1 150 000 rows ≈ 52 MB)
  *
  * Sheet "Log" holds N rows of invented daily counts (8 numeric columns; a deterministic generator, no
  * real data), streamed into the zip so the generator itself stays small in memory. Sheet "Read-out" holds
@@ -153,10 +153,10 @@ module.exports = { writeBigWorkbook, readoutCount, logRow };
 if (require.main === module) {
   const file = process.argv[2];
   const rowsAt = process.argv.indexOf('--rows');
-  const rows = rowsAt > 0 ? Number(process.argv[rowsAt + 1]) : 1300000;
+  const rows = rowsAt > 0 ? Number(process.argv[rowsAt + 1]) : 1150000;
   if (!file || !Number.isInteger(rows) || rows < 2) {
     process.stderr.write(
-      'usage: node cli/scripts/bigWorkbook.js <out.xlsx> [--rows N]   (N ≥ 2; default 1300000 ≈ 50 MB)\n',
+      'usage: node cli/scripts/bigWorkbook.js <out.xlsx> [--rows N]   (N ≥ 2; default 1150000 ≈ 52 MB)\n',
     );
     process.exit(2);
   }
