@@ -71,6 +71,12 @@ export class RangeSweep {
     return false;
   }
 
+  /** True when a range covers row `row` (any column); rows must not decrease between calls. */
+  coversRow(row: number): boolean {
+    this.contains(row, -1);
+    return this.active.some((r) => r.top <= row);
+  }
+
   /** True when no range is open or still to come. */
   get done(): boolean {
     return this.active.length === 0 && this.next >= this.pending.length;
@@ -126,6 +132,8 @@ export async function scanSheet(
   const extra = new RangeSweep(options.extra ?? []);
   const findFormulas = options.extra === undefined;
   const parser = createSheetParser({
+    // Only the rows of the ranges asked for are read when looking up argument cells.
+    ...(findFormulas ? {} : { wantRow: (row: number) => extra.coversRow(row) }),
     onCell(cell) {
       const formula = findFormulas ? cellFormula(cell, masters) : undefined;
       if (isAbtestFormula(formula)) {

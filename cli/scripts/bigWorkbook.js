@@ -2,9 +2,9 @@
 /**
  * Writes a large invented workbook for measuring `lift-ledger audit` and `freeze` (time, memory):
  *
- *   node cli/scripts/bigWorkbook.js big.xlsx [--rows N]     (default 1 150 000 rows ≈ 52 MB)
+ *   node cli/scripts/bigWorkbook.js big.xlsx [--rows N]     (default 600 000 rows of 16 numbers ≈ 57 MB)
  *
- * Sheet "Log" holds N rows of invented daily counts (8 numeric columns; a deterministic generator, no
+ * Sheet "Log" holds N rows of invented daily counts (16 numeric columns; a deterministic generator, no
  * real data), streamed into the zip so the generator itself stays small in memory. Sheet "Read-out" holds
  * ABTEST formulas reading pairs of Log rows, with cached values from the closed form of the posterior mean
  * (alpha + conversions) / (alpha + beta + visitors) (Gelman et al., BDA3 §2.4) and of PRIOR_FROM_MEAN, so
@@ -33,7 +33,7 @@ function col(i) {
   return s;
 }
 
-/** Deterministic invented counts for row r: visitors A, B, conversions A, B, and four extra columns. */
+/** Deterministic invented counts for row r: visitors A, B, conversions A, B, and twelve extra columns. */
 function logRow(r) {
   let x = (r * 2654435761) >>> 0;
   const next = () => {
@@ -44,21 +44,17 @@ function logRow(r) {
   const visitorsB = 1000 + Math.floor(next() * 9000);
   const conversionsA = Math.floor(visitorsA * (0.02 + next() * 0.06));
   const conversionsB = Math.floor(visitorsB * (0.02 + next() * 0.06));
-  return [
-    visitorsA,
-    visitorsB,
-    conversionsA,
-    conversionsB,
-    Math.round(next() * 1e6) / 100,
-    Math.round(next() * 1e4),
-    Math.round(next() * 1e5) / 1e3,
-    r % 7,
-  ];
+  const extra = [];
+  for (let i = 0; i < 12; i += 1) extra.push(i % 3 === 0 ? Math.round(next() * 1e6) / 100 : Math.round(next() * 1e4));
+  return [visitorsA, visitorsB, conversionsA, conversionsB, ...extra];
 }
+
+/** Excel's last row is 1 048 576: the log keeps below it (header, rows, a blank row and one spill). */
+const MAX_ROWS = 1048570;
 
 /** The number of ABTEST formulas on the Read-out sheet for `rows` log rows. */
 function readoutCount(rows) {
-  return Math.max(1, Math.min(5000, Math.floor(rows / 260)));
+  return Math.max(1, Math.min(5000, Math.floor(rows / 130)));
 }
 
 function* logSheetXml(rows) {
@@ -114,6 +110,8 @@ function readoutSheetXml(rows) {
  * @returns {Promise<number>}
  */
 async function writeBigWorkbook(file, rows) {
+  if (!Number.isInteger(rows) || rows < 2 || rows > MAX_ROWS)
+    throw new RangeError(`rows must be a whole number from 2 to ${MAX_ROWS}`);
   const zip = new yazl.ZipFile();
   const when = new Date(Date.UTC(2024, 0, 2));
   const add = (name, text) => zip.addBuffer(Buffer.from(text, 'utf8'), name, { mtime: when });
@@ -148,15 +146,15 @@ async function writeBigWorkbook(file, rows) {
   return fs.statSync(file).size;
 }
 
-module.exports = { writeBigWorkbook, readoutCount, logRow };
+module.exports = { writeBigWorkbook, readoutCount, logRow, MAX_ROWS };
 
 if (require.main === module) {
   const file = process.argv[2];
   const rowsAt = process.argv.indexOf('--rows');
-  const rows = rowsAt > 0 ? Number(process.argv[rowsAt + 1]) : 1150000;
-  if (!file || !Number.isInteger(rows) || rows < 2) {
+  const rows = rowsAt > 0 ? Number(process.argv[rowsAt + 1]) : 600000;
+  if (!file || !Number.isInteger(rows) || rows < 2 || rows > MAX_ROWS) {
     process.stderr.write(
-      'usage: node cli/scripts/bigWorkbook.js <out.xlsx> [--rows N]   (N ≥ 2; default 1150000 ≈ 52 MB)\n',
+      'usage: node cli/scripts/bigWorkbook.js <out.xlsx> [--rows N]   (2 ≤ N ≤ 1048570; default 600000 ≈ 57 MB)\n',
     );
     process.exit(2);
   }

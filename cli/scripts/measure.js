@@ -2,7 +2,7 @@
 /**
  * Time and peak memory of `lift-ledger audit` and `freeze` on one workbook (for the README's table):
  *
- *   node cli/scripts/bigWorkbook.js /tmp/big.xlsx      # ≈ 50 MB of invented data
+ *   node cli/scripts/bigWorkbook.js /tmp/big.xlsx      # ≈ 57 MB of invented data
  *   node cli/scripts/measure.js /tmp/big.xlsx
  *
  * Each command runs in its own node process, as a user runs it; the peak resident memory is that

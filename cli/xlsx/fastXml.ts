@@ -72,8 +72,18 @@ export class FastXmlTokenizer {
   private base = 0;
   private readonly stack: string[] = [];
   private rootSeen = false;
+  private skipping: string | undefined;
 
   constructor(private readonly handlers: TokenHandlers) {}
+
+  /**
+   * Called from `open`: skips the content of the element just opened, up to its end tag, without
+   * tokenizing it (no events for it; `close` follows). Only for elements that never contain an element of
+   * their own name nor that end tag inside a comment or CDATA — a worksheet's `row`, for example.
+   */
+  skipContent(): void {
+    this.skipping = this.stack[this.stack.length - 1];
+  }
 
   /** Offset up to which the text has been tokenized: nothing before it is needed any more. */
   get consumed(): number {
@@ -106,6 +116,15 @@ export class FastXmlTokenizer {
     const n = s.length;
     let i = 0;
     while (i < n) {
+      if (this.skipping !== undefined) {
+        const end = s.indexOf(`</${this.skipping}`, i);
+        if (end < 0) {
+          i = Math.max(i, n - this.skipping.length - 2);
+          break;
+        }
+        this.skipping = undefined;
+        i = end;
+      }
       const lt = s.indexOf('<', i);
       if (lt < 0) {
         if (!final) break;
@@ -195,9 +214,9 @@ export class FastXmlTokenizer {
       }
       const start = this.base + lt;
       const end = this.base + j + 1;
+      if (!selfClosing) this.stack.push(name);
       this.handlers.open(name, attributes, start, end, selfClosing);
       if (selfClosing) this.handlers.close(name, end, end);
-      else this.stack.push(name);
       i = j + 1;
     }
     this.buffer = s.slice(i);

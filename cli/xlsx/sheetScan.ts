@@ -48,6 +48,8 @@ export interface SheetScanHooks {
   onRoot?(name: string, attributes: Readonly<Record<string, string>>): void;
   /** A child of <worksheet> with its attributes, e.g. legacyDrawing r:id="rId2". */
   onTopLevelElement?(local: string, attributes: Readonly<Record<string, string>>): void;
+  /** When given and false for a row (zero-based), that row's cells are skipped unread. */
+  wantRow?(row: number): boolean;
 }
 
 interface OpenCell {
@@ -82,8 +84,8 @@ export function createSheetParser(hooks: SheetScanHooks): FastXmlTokenizer {
   let collect = 0; // 1 formula, 2 value, 3 inline text
   let inPhonetic = false;
 
-  return new FastXmlTokenizer({
-    open(name, attributes, start) {
+  const tokenizer: FastXmlTokenizer = new FastXmlTokenizer({
+    open(name, attributes, start, _end, selfClosing) {
       depth += 1;
       const local = localName(name);
       if (depth === 1) hooks.onRoot?.(name, attributes);
@@ -95,6 +97,7 @@ export function createSheetParser(hooks: SheetScanHooks): FastXmlTokenizer {
         const r = Number(attributes.r);
         row = Number.isInteger(r) && r >= 1 ? r - 1 : row + 1;
         lastCol = -1;
+        if (hooks.wantRow && !selfClosing && !hooks.wantRow(row)) tokenizer.skipContent();
       } else if (inSheetData && depth === 4 && local === 'c') {
         const at = attributes.r !== undefined ? parseCell(attributes.r) : undefined;
         const position = at ?? { row: Math.max(row, 0), col: lastCol + 1 };
@@ -146,4 +149,5 @@ export function createSheetParser(hooks: SheetScanHooks): FastXmlTokenizer {
       depth -= 1;
     },
   });
+  return tokenizer;
 }

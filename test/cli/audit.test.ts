@@ -7,7 +7,7 @@ import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
 import { PassThrough } from 'stream';
-import { REPO_ROOT, loadAddin, type AddinFunctions } from '../../cli/addin';
+import { REPO_ROOT, builtState, loadAddin, type AddinFunctions } from '../../cli/addin';
 import { auditWorkbook, type AuditEntry, type AuditReport } from '../../cli/audit';
 import { main } from '../../cli/main';
 import { MEAN_A, MEAN_B, REFERENCE_TOLERANCE, readoutBook, two } from './helpers/books';
@@ -328,4 +328,24 @@ test('the closed forms the books use match scipy (BDA3 §2.4 posterior mean with
   expect(MEAN_A).toBeCloseTo(refs.posteriorMean[0], 15);
   expect(MEAN_B).toBeCloseTo(refs.posteriorMean[1], 15);
   expect(two.probHighest[0]! + two.probHighest[1]!).toBeCloseTo(1, 12);
+});
+
+describe('the add-in build the audit runs', () => {
+  test('dist/ older than the function sources is stale; --no-build then stops with a clear message', async () => {
+    const js = path.join(REPO_ROOT, 'dist', 'functions.js');
+    const { atime, mtime } = fs.statSync(js);
+    fs.utimesSync(js, new Date(0), new Date(0));
+    try {
+      expect(builtState(path.join(REPO_ROOT, 'dist'))).toBe('stale');
+      const res = await run(['audit', path.join(dir, 'plain.xlsx'), '--no-build']);
+      expect(res).toMatchObject({
+        code: 2,
+        err: 'lift-ledger: dist/functions.js is older than the sources in functions/: run `npm run build` (or leave out --no-build to build it now)\n',
+      });
+    } finally {
+      fs.utimesSync(js, atime, mtime);
+    }
+    expect(builtState(path.join(REPO_ROOT, 'dist'))).toBeUndefined();
+    expect(builtState(dir)).toBe('missing');
+  });
 });

@@ -172,3 +172,42 @@ describe('what it refuses, as saxes does', () => {
     expect(() => decodeEntities('a & b')).toThrow(new XmlSyntaxError('"&" is not a complete entity reference'));
   });
 });
+
+describe('skipping an element unread', () => {
+  test('the rows asked to be skipped give no events; the others are read as usual, in any chunking', () => {
+    const rows = Array.from(
+      { length: 30 },
+      (_, r) =>
+        `<row r="${r + 1}"><c r="A${r + 1}"><v>${r}</v></c><c r="B${r + 1}" t="str"><v>x&amp;${r}</v></c></row>`,
+    );
+    const xml = `<worksheet><sheetData>${rows.join('')}</sheetData><tail a="1"/></worksheet>`;
+    fc.assert(
+      fc.property(fc.array(fc.nat({ max: xml.length }), { maxLength: 8 }), (cuts) => {
+        const texts: string[] = [];
+        const closes: string[] = [];
+        const tokenizer: FastXmlTokenizer = new FastXmlTokenizer({
+          open(name, attributes) {
+            if (name === 'row' && Number(attributes.r) % 3 !== 0) tokenizer.skipContent();
+          },
+          close(name) {
+            closes.push(name);
+          },
+          text(t) {
+            texts.push(t);
+          },
+        });
+        let at = 0;
+        for (const cut of [...cuts].sort((a, b) => a - b)) {
+          tokenizer.write(xml.slice(at, cut));
+          at = cut;
+        }
+        tokenizer.write(xml.slice(at)).close();
+        const kept = Array.from({ length: 10 }, (_, k) => 3 * k + 2); // rows 3, 6, … 30 hold r - 1 = 2, 5, …
+        expect(texts).toEqual(kept.flatMap((r) => [String(r), `x&${r}`]));
+        expect(closes.filter((c) => c === 'row')).toHaveLength(30);
+        expect(closes.slice(-3)).toEqual(['sheetData', 'tail', 'worksheet']);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
