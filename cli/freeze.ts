@@ -20,10 +20,10 @@ import * as path from 'path';
 import { PassThrough } from 'stream';
 import { once } from 'events';
 import * as yazl from 'yazl';
-import { cellName, parseRange, rangeName, rangeSize, type CellRange } from './core/cellAddress';
+import { cellName, rangeName, type CellRange } from './core/cellAddress';
 import { NOTE_AUTHOR, frozenHeaderLine, howComputedNote } from './core/frozenCopy';
 import { containsAbtestCall } from './core/formula';
-import { RangeSweep, cellFormula, cellKey, isAbtestFormula } from './scan';
+import { RangeSweep, cellKey, scanSheet } from './scan';
 import {
   REL,
   readRelationships,
@@ -192,35 +192,24 @@ async function findCells(
   sheet: SheetInfo,
   onBytes: (n: number) => void,
 ): Promise<{ cells: FoundCell[]; legacyDrawingId?: string }> {
-  const cells: FoundCell[] = [];
-  const masters = new Map<string, { text: string; row: number; col: number }>();
   let legacyDrawingId: string | undefined;
-  const parser = createSheetParser({
-    onCell(cell) {
-      const formula = cellFormula(cell, masters);
-      if (!isAbtestFormula(formula)) return;
-      const ref = cell.formula?.attributes.t === 'array' ? cell.formula.attributes.ref : undefined;
-      const range = ref ? parseRange(ref) : undefined;
-      const spill = range && rangeSize(range) > 1 ? range : undefined;
-      cells.push({
-        row: cell.row,
-        col: cell.col,
-        formula,
-        ...(spill ? { spill } : {}),
-        hasSaved: cell.value !== undefined || cell.inline !== undefined,
-        ...(cell.attributes.t === 'e' && cell.value !== undefined ? { savedError: cell.value } : {}),
-      });
-    },
-    onTopLevelElement(local, attributes) {
-      if (local === 'legacyDrawing') {
-        for (const [name, value] of Object.entries(attributes))
-          if (name === 'r:id' || name.endsWith(':id')) legacyDrawingId = value;
-      }
-    },
-  });
-  await feedXml(await pkg.stream(sheet.part), parser, sheet.part.name, {
+  const scan = await scanSheet(pkg, sheet, {
+    withSpillValues: false,
     onBytes,
+    onTopLevelElement(local, attributes) {
+      if (local !== 'legacyDrawing') return;
+      for (const [name, value] of Object.entries(attributes))
+        if (name === 'r:id' || name.endsWith(':id')) legacyDrawingId = value;
+    },
   });
+  const cells = scan.cells.map((c) => ({
+    row: c.row,
+    col: c.col,
+    formula: c.formula,
+    ...(c.spill ? { spill: c.spill } : {}),
+    hasSaved: c.saved !== undefined,
+    ...(c.saved?.type === 'e' ? { savedError: c.saved.text ?? '' } : {}),
+  }));
   return { cells, ...(legacyDrawingId ? { legacyDrawingId } : {}) };
 }
 

@@ -123,6 +123,8 @@ export async function scanSheet(
     withSpillValues: boolean;
     extra?: readonly CellRange[];
     onBytes?: (n: number) => void;
+    /** Each child of <worksheet> with its attributes (e.g. legacyDrawing). */
+    onTopLevelElement?: (local: string, attributes: Readonly<Record<string, string>>) => void;
   },
 ): Promise<SheetScan> {
   const cells: AbtestCell[] = [];
@@ -134,6 +136,7 @@ export async function scanSheet(
   const parser = createSheetParser({
     // Only the rows of the ranges asked for are read when looking up argument cells.
     ...(findFormulas ? {} : { wantRow: (row: number) => extra.coversRow(row) }),
+    ...(options.onTopLevelElement ? { onTopLevelElement: options.onTopLevelElement } : {}),
     onCell(cell) {
       const formula = findFormulas ? cellFormula(cell, masters) : undefined;
       if (isAbtestFormula(formula)) {

@@ -13,6 +13,9 @@ import { main } from '../../cli/main';
 import { MEAN_A, MEAN_B, REFERENCE_TOLERANCE, readoutBook, two } from './helpers/books';
 import { buildXlsx, xlsxParts, zipParts, type TestBook } from './helpers/xlsxWriter';
 
+// Reading and writing packages and running the add-in take seconds on a busy machine; jest's 5 s default is too tight.
+jest.setTimeout(120_000);
+
 let dir: string;
 let addin: AddinFunctions;
 

@@ -123,6 +123,8 @@ const element: fc.Memo<string> = fc.memo((n) =>
     }),
 );
 
+jest.setTimeout(60_000);
+
 describe('the fast tokenizer gives what saxes gives', () => {
   test('on generated documents fed in random chunks', () => {
     fc.assert(

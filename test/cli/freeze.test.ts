@@ -17,6 +17,9 @@ import { parseSmallXml } from '../../cli/xlsx/xml';
 import { readoutBook } from './helpers/books';
 import { buildXlsx, readParts, type TestBook } from './helpers/xlsxWriter';
 
+// Reading and writing packages and running the add-in take seconds on a busy machine; jest's 5 s default is too tight.
+jest.setTimeout(120_000);
+
 let dir: string;
 const AT = new Date(Date.UTC(2025, 5, 30, 14, 5));
 

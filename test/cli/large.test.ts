@@ -16,6 +16,9 @@ import { freezeWorkbook } from '../../cli/freeze';
 import { ProgressBar } from '../../cli/report';
 import { readParts } from './helpers/xlsxWriter';
 
+// Reading and writing packages and running the add-in take seconds on a busy machine; jest's 5 s default is too tight.
+jest.setTimeout(120_000);
+
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const generator = require('../../cli/scripts/bigWorkbook.js') as {
   writeBigWorkbook(file: string, rows: number): Promise<number>;
