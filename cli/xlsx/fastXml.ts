@@ -3,7 +3,7 @@
  *
  * saxes reads every part that is small (relationships, content types, workbook.xml) with its full
  * conformance checks; for the parts that make up nearly all of a large workbook it runs at about 10 MB/s
- * on our machines, while a 50 MB workbook holds some 300 MB of worksheet XML. This tokenizer does only
+ * on our machines, while a 57 MB workbook can hold some 300 MB of worksheet XML. This tokenizer does only
  * what those parts need — start and end tags with attributes, text with the five predefined entities and
  * character references, CDATA, comments and processing instructions skipped — at several times the speed,
  * and reports each tag's exact start and end offsets for the streaming editor.

@@ -18,6 +18,9 @@ const { checkRelease, manifestUrls } = require('../../scripts/releaseCheck.js') 
   manifestUrls(xml: string): string[];
 };
 
+// Reading the package and the site take seconds on a busy machine; jest's 5 s default is too tight.
+jest.setTimeout(120_000);
+
 const ROOT = path.join(__dirname, '..', '..');
 const SCRIPT = path.join(ROOT, 'scripts', 'release.js');
 const BASE = 'https://addins.example.org/lift-ledger/';
