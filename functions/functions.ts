@@ -609,7 +609,7 @@ export function eventsProbHighest(events: any[][], exposure: any[][], prior_shap
  * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
  * @returns For each challenger, P(its rate > the control's rate); empty text for the control.
  * @method Closed form P(λ_B > λ_A) = I_z(a_A, a_B) with z = b_A/(b_A + b_B), the regularised incomplete beta function of the posterior shapes a and rates b.
- * @source Gamma–Poisson comparison via the Beta distribution of λ_A/(λ_A + λ_B) (common practice; see check-values in the developer notes).
+ * @source Gamma–Poisson comparison via the Beta distribution of λ_A/(λ_A + λ_B) (common practice; docs/check-values.md).
  * @example =ABTEST.EVENTS_PROB_ABOVE_CONTROL({340;395}, {1000;1010}) returns {"";0.970827}
  * @crosscheck =BETA.DIST(b_A/(b_A+b_B), a_A, a_B, TRUE) with a = prior_shape + events and b = prior_rate + exposure.
  */

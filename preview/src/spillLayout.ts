@@ -4,7 +4,7 @@
  * HyperFormula fixes an array formula's size when the formula is entered (from the formula text, not from
  * cell values), and turns a result that is larger than the reserved size into an error. The custom-function
  * metadata does not say how large a spill will be, so the preview keeps the catalogue's layout rules here
- * (/work/shared/catalogue.md, "Spills follow the input"): only the SHAPE of each result, never how it is
+ * (docs/catalogue.md, "Spills follow the input"): only the SHAPE of each result, never how it is
  * computed. The reserved size is an upper bound: a smaller result (blank "no variant" rows) leaves the
  * rest of the block empty.
  */

@@ -124,7 +124,7 @@ interface Signature {
   readonly required: number;
 }
 
-/** The catalogue's argument lists (shared/catalogue.md), required first. */
+/** The catalogue's argument lists (docs/catalogue.md), required first. */
 export const SIGNATURES: Readonly<Record<string, Signature>> = {
   POSTERIOR_MEAN: { args: ['conversions', 'visitors', 'prior_alpha', 'prior_beta'], required: 2 },
   RATE_INTERVAL: { args: ['conversions', 'visitors', 'level', 'prior_alpha', 'prior_beta', 'method'], required: 2 },

@@ -147,7 +147,7 @@ describe('calls with Excel-shaped arguments (scipy and R references)', () => {
   });
 
   test('CLASSIC_SAMPLE_SIZE equals R power.prop.test rounded up', () => {
-    // power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (check-values.md)
+    // power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (docs/check-values.md)
     expect(call('CLASSIC_SAMPLE_SIZE', 0.1, 0.5, null, null, null)).toBe(686);
   });
 

@@ -2,7 +2,7 @@
  * The metadata Excel reads (functions.json), generated build-free from functions/functions.ts by
  * custom-functions-metadata's own generator — the same one the webpack plugin runs.
  *
- * EXPECTED mirrors the function catalogue (/work/shared/catalogue.md, kept outside the repository): names,
+ * EXPECTED mirrors the function catalogue (docs/catalogue.md): names,
  * argument order and which arguments are optional. It is written out here on purpose so the test does
  * not depend on a file outside the clone; a change to the catalogue must be copied here by hand.
  */

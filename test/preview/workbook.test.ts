@@ -5,7 +5,7 @@
  *
  * Every ABTEST cell of the workbook is compared with the statistics core called directly
  * (functions/stats/…), and a few with values from outside the project: closed forms, scipy
- * (test/reference/preview_workbook.py → preview_workbook.json) and R (shared/check-values.md).
+ * (test/reference/preview_workbook.py → preview_workbook.json) and R (docs/check-values.md).
  */
 import * as fs from 'fs';
 import * as path from 'path';
@@ -187,7 +187,7 @@ describe('preview demo workbook with the built add-in', () => {
     expect(loaded.definition.names).toHaveLength(ids.length);
     const matrixWithoutRule = loaded.metadata.functions.filter((f) => f.result?.dimensionality === 'matrix' && !SPILL_RULES[f.id.toUpperCase()]);
     expect(matrixWithoutRule.map((f) => f.id)).toEqual([]);
-    // the catalogue has 29 functions (/work/shared/catalogue.md)
+    // the catalogue has 29 functions (docs/catalogue.md)
     expect(ids).toHaveLength(29);
   });
 
@@ -253,14 +253,14 @@ describe('preview demo workbook with the built add-in', () => {
       expectNumber(num('Checkout test', `B${82 + i}`), lo as number, `events interval lower ${i + 1}`, 1e-9);
       expectNumber(num('Checkout test', `C${82 + i}`), hi as number, `events interval upper ${i + 1}`, 1e-9);
     });
-    // P(λ_B > λ_A) = I_z(a_A, a_B), z = b_A/(b_A + b_B) (shared/check-values.md), scipy.special.betainc
+    // P(λ_B > λ_A) = I_z(a_A, a_B), z = b_A/(b_A + b_B) (docs/check-values.md), scipy.special.betainc
     reference.events_prob_above_control.forEach((p, i) => expectNumber(num('Checkout test', `B${91 + i}`), p, `events P(beats control) ${i + 2}`, 1e-9));
     // PRIOR_FROM_MEAN(0.04, 500): alpha = 0.04·500 = 20, beta = 480 (closed form; a Beta(a, b) is worth a + b visitors, common practice)
     expectNumber(num('Past tests', 'B20'), 20, 'prior alpha', 1e-12);
     expectNumber(num('Past tests', 'C20'), 480, 'prior beta', 1e-12);
   });
 
-  it('recalculates after edits, and matches R on the classic size and the split check (shared/check-values.md)', () => {
+  it('recalculates after edits, and matches R on the classic size and the split check (docs/check-values.md)', () => {
     const plan = sheetOf('Plan');
     const checkoutSheet = sheetOf('Checkout test');
     const savedPlan = read('Plan', 'B4', 5, 1);

@@ -3,7 +3,7 @@
  * and the built-in cross-check formulas. The cross-check formulas are evaluated with HyperFormula (an
  * independent spreadsheet engine) on an invented checkout-test sheet and held against scipy
  * (test/reference/taskpane_crosscheck.json, made by test/reference/taskpane_crosscheck.py) and R's
- * power.prop.test / chisq.test values from /work/shared/check-values.md.
+ * power.prop.test / chisq.test values from docs/check-values.md.
  */
 import { HyperFormula } from 'hyperformula';
 import { explainFormula, itemOf, parseAbtestCall, SIGNATURES, splitArguments, type Explanation } from '../../taskpane/logic/explain';
@@ -57,7 +57,7 @@ describe('parsing', () => {
 });
 
 describe('every catalogue function is explained', () => {
-  // The 29 names of /work/shared/catalogue.md.
+  // The 29 names of the function catalogue (docs/catalogue.md).
   const catalogue = [
     'POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'RATE_DIFF_INTERVAL',
     'PROB_LIFT_ABOVE', 'EXPECTED_LOSS', 'DECISION', 'POSTERIOR_DENSITY', 'LIFT_DENSITY', 'PRIOR_FROM_MEAN',
