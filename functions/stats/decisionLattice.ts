@@ -37,19 +37,19 @@ const ANCHOR_EVERY = 16384;
 const HALF_LOG_2PI = 0.5 * Math.log(2 * Math.PI);
 
 /**
- * The Binomial(n, p) pmf on the window of counts where it is at least 1e-16 of its peak (the mass outside
- * is below ~1e-15). Values from Loader's saddle-point density ({@link betaLogDensity}) every 16384 counts
+ * The Binomial(n, p) pmf on the window of counts where it is at least `cutoff` (default 1e-16) of its peak
+ * (the mass outside is below ~1e-15 at the default). Values from Loader's saddle-point density ({@link betaLogDensity}) every 16384 counts
  * and the ratio pmf(k + 1)/pmf(k) = (n − k)/(k + 1)·p/(1 − p) in between (a relative drift below 1e-11).
  * Cost: O(√(n p (1 − p)) + 1) values. Needs a whole n ≥ 1 and 0 < p < 1 (checked by the callers).
  * @example binomialWindow(4, 0.5).pmf //=> Float64Array [0.0625, 0.25, 0.375, 0.25, 0.0625] (the binomial coefficients over 16)
  */
-export function binomialWindow(n: number, p: number): BinomialWindow {
+export function binomialWindow(n: number, p: number, cutoff = WINDOW_CUTOFF): BinomialWindow {
   const logScale = Math.log(n + 1);
   const logPmf = (k: number): number => betaLogDensity(p, k + 1, n - k + 1) - logScale;
   const odds = p / (1 - p);
   const mode = Math.min(n, Math.floor((n + 1) * p));
   const peak = Math.exp(logPmf(mode));
-  const floor = peak * WINDOW_CUTOFF;
+  const floor = peak * cutoff;
   // Each side fits in 9 standard deviations plus 40 counts (a Poisson(1) pmf is below 1e-16 of its peak
   // from 19 on); the buffers grow if a side is ever longer.
   let room = Math.min(n + 1, Math.ceil(9 * Math.sqrt(n * p * (1 - p))) + 40);

@@ -111,7 +111,7 @@ export function smallestDetectableLift(
   const okPrior = (v: number): boolean => typeof v === 'number' && v >= MIN_LIFT_PRIOR && v <= MAX_LIFT_PRIOR;
   ensure(
     typeof prior === 'object' && prior !== null && okPrior(prior.alpha) && okPrior(prior.beta),
-    `the prior's alpha and beta must each be between ${MIN_LIFT_PRIOR} and ${MAX_LIFT_PRIOR}, got ${String(prior?.alpha)} and ${String(prior?.beta)}`,
+    `prior_alpha and prior_beta must each be between ${MIN_LIFT_PRIOR} and ${MAX_LIFT_PRIOR} for planning, got ${String(prior?.alpha)} and ${String(prior?.beta)}`,
   );
   const p0 = baselineRate;
   const windowA = binomialWindow(n, p0);

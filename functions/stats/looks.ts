@@ -25,7 +25,7 @@
 import { ensure, StatsError } from './errors';
 import { brownianCrossing } from './brownianCrossing';
 import { type BinomialWindow, binomialWindow, lookPower, upperTails } from './decisionLattice';
-import { exactCrossing, exactWork, type LookLattice, lookLattices } from './looksExact';
+import { type CrossingMemo, crossingMemo, exactCrossing, exactWork, type LookLattice, lookLattices } from './looksExact';
 import { normalCdf, normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
 
@@ -43,20 +43,25 @@ export const MIN_PRIOR = 1e-3;
 export const MAX_PRIOR = 1e7;
 
 /**
- * Estimated multiply-adds one run of the exact programme may take (3e7 + 1e6 per look: ~11–22 ms measured
- * at ~0.36 ns each); above it the calibrated normal method is used. With more looks the normal method's
- * error grows, so the budget grows with the looks.
+ * Estimated multiply-adds one run of the exact programme may take (3e7 + 1.5e6 per look: ~11–65 ms
+ * measured at ~0.36 ns each); above it the calibrated normal method is used. With more looks the normal
+ * method's error grows, so the budget grows with the looks.
  */
 const EXACT_BUDGET_BASE = 3e7;
-const EXACT_BUDGET_PER_LOOK = 1e6;
+const EXACT_BUDGET_PER_LOOK = 1.5e6;
 /** Building the lattices costs about ten multiply-adds per step of the decision walk. */
 const SETUP_WEIGHT = 10;
 /** Steps of the lattice walks (all looks together) one evaluation of the normal method may take (~40 ms). */
 const WALK_BUDGET = 6e6;
 /** The same for THRESHOLD_FOR_LOOKS, which evaluates several times. */
 const THRESHOLD_WALK_BUDGET = 2.5e6;
-/** Runs THRESHOLD_FOR_LOOKS may spend, in units of one run at the budget of its method. */
+/** Runs THRESHOLD_FOR_LOOKS may spend with the normal method, in units of one run at its walk budget. */
 const THRESHOLD_RUNS = 6;
+/**
+ * Multiply-adds THRESHOLD_FOR_LOOKS may spend on runs of the exact programme after the two it always takes
+ * (the predicted root and its correction): at the largest exact plans that is about two more runs.
+ */
+const THRESHOLD_EXACT_WORK = 6e7;
 /**
  * THRESHOLD_FOR_LOOKS solves to this width on the Φ⁻¹(threshold) scale (a threshold to ~3e-6 near 0.99;
  * the rate moves by ~1e-5 over it, less than the normal method's own error).
@@ -93,7 +98,7 @@ function checkPrior(prior: BetaPrior): void {
   const ok = (v: number): boolean => typeof v === 'number' && v >= MIN_PRIOR && v <= MAX_PRIOR;
   ensure(
     typeof prior === 'object' && prior !== null && ok(prior.alpha) && ok(prior.beta),
-    `the prior's alpha and beta must each be between ${MIN_PRIOR} and ${MAX_PRIOR}, got ${String(prior?.alpha)} and ${String(prior?.beta)}`,
+    `prior_alpha and prior_beta must each be between ${MIN_PRIOR} and ${MAX_PRIOR} for planning, got ${String(prior?.alpha)} and ${String(prior?.beta)}`,
   );
 }
 
@@ -165,6 +170,18 @@ function makePlan(
   if (method === 'exact' || (method === 'auto' && exactFits)) {
     return { looks, pA, pB, prior, method: 'exact', lattices: lookLattices(looks, pA, pB, prior), runCost: work.perRun };
   }
+  return normalPlan(looks, pA, pB, prior, what, walkBudget);
+}
+
+/** The calibrated normal method's plan (windows of each look); throws when its walks exceed the budget. */
+function normalPlan(
+  looks: readonly number[],
+  pA: number,
+  pB: number,
+  prior: BetaPrior,
+  what: string,
+  walkBudget: number,
+): Plan {
   const steps = walkSteps(looks, pA, pB);
   if (steps > walkBudget) {
     throw new StatsError(
@@ -205,7 +222,7 @@ export function crossingWithLooks(
   checkSides(sides);
   ensure(sides === 1 || challengerRate === rate, 'two sides are planned with no true difference only');
   checkPrior(prior);
-  return evaluate(makePlan(looks, rate, challengerRate, prior, 'the visitors at looks', method), threshold, sides);
+  return evaluate(makePlan(looks, rate, challengerRate, prior, 'visitors_at_looks', method), threshold, sides);
 }
 
 /** Bound on the standardised statistic with P(Z ≥ bound) = p. */
@@ -229,9 +246,9 @@ function calibratedCrossing(looks: readonly number[], marginals: readonly number
 }
 
 /** Evaluates a plan at a threshold: the probability that some look declares. */
-function evaluate(plan: Plan, threshold: number, sides: 1 | 2): LooksResult {
+function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMemo): LooksResult {
   if (plan.method === 'exact') {
-    const r = exactCrossing(plan.lattices as readonly LookLattice[], threshold, sides);
+    const r = exactCrossing(plan.lattices as readonly LookLattice[], threshold, sides, memo);
     return { ...r, method: 'exact' };
   }
   // Each look alone: the exact decision power there. With two sides and no difference between the
@@ -276,7 +293,7 @@ export function falseAlarmWithLooks(
   checkThreshold(threshold);
   checkSides(sides);
   checkPrior(prior);
-  return evaluate(makePlan(looks, baselineRate, baselineRate, prior, 'the visitors at looks'), threshold, sides);
+  return evaluate(makePlan(looks, baselineRate, baselineRate, prior, 'visitors_at_looks'), threshold, sides);
 }
 
 /**
@@ -302,20 +319,24 @@ export function powerWithLooks(
   const looks = checkLooks(visitorsAtLooks);
   checkThreshold(threshold);
   checkPrior(prior);
-  return evaluate(makePlan(looks, baselineRate, challenger, prior, 'the visitors at looks'), threshold, 1);
+  return evaluate(makePlan(looks, baselineRate, challenger, prior, 'visitors_at_looks'), threshold, 1);
 }
 
 /**
  * The one threshold to use at every look so that the false-alarm rate of {@link falseAlarmWithLooks} is at
  * most `falseAlarm`: the smallest such threshold to within 1e-4 on the Φ⁻¹(threshold) scale. Where the rate
  * moves in steps (small tests, exact method) the value returned is the middle of the step's interval of
- * thresholds, all of which give the same rate (then at most falseAlarm, possibly below it).
+ * thresholds, all of which give the same rate (then at most falseAlarm, possibly below it). For the
+ * largest plans of the exact method the search stops after the runs its budget allows: the threshold still
+ * keeps the rate at or below falseAlarm (checked by an exact run) but may lie a little above the smallest.
  *
  * Method: the same method as falseAlarmWithLooks for the same looks (so falseAlarmWithLooks at the result
- * is ≤ falseAlarm). A first guess from the normal limit (equal bounds z at every look, Pocock 1977), then
- * secant steps on Φ⁻¹(threshold) kept inside a bracket, guided by the calibrated normal method; in the
- * exact method the last step picks among the few read-out probabilities at which the rate changes.
- * Cost: up to 8 runs of the chosen method plus ~20 recursive integrations.
+ * is ≤ falseAlarm). Normal method: a first guess from the normal limit (equal bounds z at every look,
+ * Pocock 1977), then secant steps on Φ⁻¹(threshold) inside a bracket. Exact method: the root of the
+ * calibrated normal method, corrected by its offset from the exact rate there, then secant steps and, once
+ * few read-out probabilities lie in the bracket, a bisection over the steps of the rate.
+ * Cost: 4–10 runs of the normal method, or 2 + up to 6e7 multiply-adds of exact runs, plus up to ~20
+ * recursive integrations.
  * Throws StatsError('invalid_argument') as falseAlarmWithLooks, or for falseAlarm outside [1e-6, 0.5];
  * StatsError('not_available') when even the threshold 0.999999 gives more false alarms than asked.
  * @example thresholdForLooks(0.05, [1e6, 2e6, 3e6, 4e6, 5e6], 0.05, 2) //=> 0.99209… (Φ(2.413), Pocock's z for 5 looks)
@@ -327,6 +348,21 @@ export function thresholdForLooks(
   sides: 1 | 2 = 1,
   prior: BetaPrior = UNIFORM_PRIOR,
 ): number {
+  return thresholdForLooksDetails(baselineRate, visitorsAtLooks, falseAlarm, sides, prior).threshold;
+}
+
+/**
+ * THRESHOLD_FOR_LOOKS with the details of its solution (the threshold and its rate, a threshold just below
+ * it whose rate is above the target, the runs it took, the method): for tests and the side panel.
+ * Throws as thresholdForLooks.
+ */
+export function thresholdForLooksDetails(
+  baselineRate: number,
+  visitorsAtLooks: readonly number[],
+  falseAlarm = 0.05,
+  sides: 1 | 2 = 1,
+  prior: BetaPrior = UNIFORM_PRIOR,
+): ThresholdSolution & { readonly method: 'exact' | 'normal' } {
   checkRate(baselineRate, 'the baseline rate');
   const looks = checkLooks(visitorsAtLooks);
   ensure(
@@ -335,8 +371,8 @@ export function thresholdForLooks(
   );
   checkSides(sides);
   checkPrior(prior);
-  const plan = makePlan(looks, baselineRate, baselineRate, prior, 'the visitors at looks', 'auto', THRESHOLD_WALK_BUDGET);
-  return solveThreshold(plan, falseAlarm, sides).threshold;
+  const plan = makePlan(looks, baselineRate, baselineRate, prior, 'visitors_at_looks', 'auto', THRESHOLD_WALK_BUDGET);
+  return { ...solveThreshold(plan, falseAlarm, sides), method: plan.method };
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -345,16 +381,19 @@ export function thresholdForLooks(
 const U_MIN = 1e-9; // threshold just above ½
 const U_MAX = normalQuantile(MAX_THRESHOLD);
 
+/** The grid of the recursive integration for starting points and slopes only (errors ~1e-5 at 30 looks). */
+const COARSE_GRID = 6;
+
 /** Normal-limit guess: the z with P(some |Z_k| ≥ z) (or Z_k ≥ z) = target for equal bounds. */
 function normalLimitGuess(looks: readonly number[], target: number, sides: 1 | 2): number {
   const rate = (z: number): number =>
-    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined).probability;
+    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined, COARSE_GRID).probability;
   // Secant on log(rate) against z, from the one-look value, kept in [U_MIN, 8].
   let z0 = -normalQuantile(target / sides);
   let f0 = Math.log(rate(z0) / target);
   let z1 = z0 + 0.3;
   let f1 = Math.log(rate(z1) / target);
-  for (let i = 0; i < 30 && Math.abs(z1 - z0) > 1e-7; i++) {
+  for (let i = 0; i < 8 && Math.abs(z1 - z0) > 1e-5; i++) {
     if (f1 === f0) break;
     const z2 = Math.min(Math.max(z1 - (f1 * (z1 - z0)) / (f1 - f0), U_MIN), 8);
     z0 = z1;
@@ -375,9 +414,13 @@ export interface ThresholdSolution {
 }
 
 function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolution {
-  const budget = plan.method === 'exact' ? exactBudget(plan.looks.length) : THRESHOLD_WALK_BUDGET;
-  const allowed = Math.min(60, Math.max(6, Math.floor((THRESHOLD_RUNS * budget) / Math.max(plan.runCost, 1))));
+  const cost = Math.max(plan.runCost, 1);
+  const allowed =
+    plan.method === 'exact'
+      ? Math.min(60, 2 + Math.floor(THRESHOLD_EXACT_WORK / cost))
+      : Math.min(60, Math.max(6, Math.floor((THRESHOLD_RUNS * THRESHOLD_WALK_BUDGET) / cost)));
   let runsLeft = allowed;
+  const memo = plan.method === 'exact' ? crossingMemo() : undefined;
   // The bracket: lo has a rate above alpha, hi a rate at most alpha (u is Φ⁻¹ of the threshold).
   let lo = -Infinity;
   let loRate = NaN;
@@ -385,7 +428,7 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
   let hiRate = NaN;
   const visit = (u: number): number => {
     runsLeft--;
-    const r = evaluate(plan, normalCdf(u), sides).probability;
+    const r = evaluate(plan, normalCdf(u), sides, memo).probability;
     if (r > alpha && u > lo) {
       lo = u;
       loRate = r;
@@ -395,14 +438,32 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
     }
     return r;
   };
-  // A first guess from the normal limit, then one step by the normal limit's slope there.
-  const u0 = normalLimitGuess(plan.looks, alpha, sides);
-  const r0 = visit(u0);
-  const u1 = clampU(u0 + (alpha - r0) / normalLimitSlope(plan.looks, u0, sides), u0);
-  let last = { u: u1, r: visit(u1) };
-  let before = { u: u0, r: r0 };
-  // Widen until bracketed: secant steps pointing the right way, at least doubling each time.
-  let step = Math.max(Math.abs(u1 - u0), 1e-3);
+  let before: { u: number; r: number };
+  let last: { u: number; r: number };
+  if (plan.method === 'exact') {
+    // Predict with the calibrated normal method (cheap at these sizes), then correct it by its offset
+    // from the exact rate: the offset changes little over a small change of threshold.
+    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity);
+    const modelAt = (u: number): number => evaluate(model, normalCdf(u), sides).probability;
+    const guess = normalLimitGuess(plan.looks, alpha, sides);
+    const slope = normalLimitSlope(plan.looks, guess, sides);
+    const first = solveModel(modelAt, alpha, guess, slope);
+    const u0 = first.u;
+    const r0 = visit(u0);
+    const u1 = clampU(solveModel(modelAt, alpha - (r0 - first.rate), u0, slope, first.rate).u, u0);
+    before = { u: u0, r: r0 };
+    last = { u: u1, r: visit(u1) };
+  } else {
+    // A first guess from the normal limit, then one step by the normal limit's slope there.
+    const u0 = normalLimitGuess(plan.looks, alpha, sides);
+    const r0 = visit(u0);
+    const u1 = clampU(u0 + (alpha - r0) / normalLimitSlope(plan.looks, u0, sides), u0);
+    before = { u: u0, r: r0 };
+    last = { u: u1, r: visit(u1) };
+  }
+  // Widen until bracketed (whatever the budget: a threshold whose rate is at most alpha must be found):
+  // secant steps pointing the right way, at least doubling each time.
+  let step = Math.max(Math.abs(last.u - before.u), 1e-3);
   while (hi === Infinity || lo === -Infinity) {
     if (hi === Infinity && lo >= U_MAX) {
       throw new StatsError('not_available', `even the threshold ${MAX_THRESHOLD} gives a false-alarm rate above ${alpha} with these looks`);
@@ -422,11 +483,12 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
     last = { u, r: visit(u) };
   }
   // Narrow the bracket: regula falsi in u with the Illinois halving; in the exact method, once few
-  // read-out probabilities lie inside, pick the step directly.
+  // read-out probabilities lie inside, pick the step directly. Every run counts against the budget; when
+  // it is spent, the upper end of the bracket (a threshold whose rate is at most alpha) is returned.
   let stale = 0; // +1 / −1: the same end moved last time
   while (hi - lo > THRESHOLD_TOLERANCE && runsLeft > 0) {
     if (plan.method === 'exact') {
-      const picked = pickAmongSteps(plan, lo, hi, loRate, hiRate, alpha, sides);
+      const picked = pickAmongSteps(plan, lo, hi, loRate, hiRate, alpha, sides, memo as CrossingMemo, runsLeft);
       if (picked !== undefined) return { ...picked, runs: allowed - runsLeft + picked.runs };
     }
     let weightLo = loRate - alpha;
@@ -443,27 +505,30 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
 }
 
 /**
- * THRESHOLD_FOR_LOOKS with the details of its solution (the threshold, its rate, a threshold just below
- * with a rate above the target, the runs it took): for tests and the side panel.
- * Throws as thresholdForLooks.
+ * The root of model(u) = target by secant steps from `start` (the model is the calibrated normal method:
+ * smooth apart from small steps), started with the normal limit's `slope`: at most 5 evaluations, to
+ * within THRESHOLD_TOLERANCE (the exact runs that follow correct the rest). Returns the last point and the
+ * model's rate there.
  */
-export function thresholdForLooksDetails(
-  baselineRate: number,
-  visitorsAtLooks: readonly number[],
-  falseAlarm = 0.05,
-  sides: 1 | 2 = 1,
-  prior: BetaPrior = UNIFORM_PRIOR,
-): ThresholdSolution & { readonly method: 'exact' | 'normal' } {
-  checkRate(baselineRate, 'the baseline rate');
-  const looks = checkLooks(visitorsAtLooks);
-  ensure(
-    typeof falseAlarm === 'number' && falseAlarm >= MIN_FALSE_ALARM && falseAlarm <= MAX_FALSE_ALARM,
-    `the false-alarm rate must be between ${MIN_FALSE_ALARM} and ${MAX_FALSE_ALARM}, got ${String(falseAlarm)}`,
-  );
-  checkSides(sides);
-  checkPrior(prior);
-  const plan = makePlan(looks, baselineRate, baselineRate, prior, 'the visitors at looks', 'auto', THRESHOLD_WALK_BUDGET);
-  return { ...solveThreshold(plan, falseAlarm, sides), method: plan.method };
+function solveModel(
+  model: (u: number) => number,
+  target: number,
+  start: number,
+  slope: number,
+  startRate = model(start),
+): { u: number; rate: number } {
+  let u0 = start;
+  let r0 = startRate;
+  let u1 = clampU(u0 + (target - r0) / slope, u0);
+  let r1 = model(u1);
+  for (let i = 0; i < 4 && Math.abs(u1 - u0) >= THRESHOLD_TOLERANCE && r1 !== r0; i++) {
+    const next = clampU(u1 + ((target - r1) * (u1 - u0)) / (r1 - r0), u1);
+    u0 = u1;
+    r0 = r1;
+    u1 = Math.min(Math.max(next, u0 - 0.5), u0 + 0.5);
+    r1 = model(u1);
+  }
+  return { u: u1, rate: r1 };
 }
 
 function clampU(u: number, from: number): number {
@@ -475,7 +540,7 @@ function clampU(u: number, from: number): number {
 /** d(rate)/du of the normal limit with equal bounds u at every look (negative). */
 function normalLimitSlope(looks: readonly number[], u: number, sides: 1 | 2): number {
   const rate = (z: number): number =>
-    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined).probability;
+    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined, COARSE_GRID).probability;
   const d = 1e-3;
   return (rate(u + d) - rate(u - d)) / (2 * d);
 }
@@ -495,6 +560,8 @@ function pickAmongSteps(
   hiRate: number,
   alpha: number,
   sides: 1 | 2,
+  memo: CrossingMemo,
+  runsLeft: number,
 ): ThresholdSolution | undefined {
   const tLo = normalCdf(lo);
   const tHi = normalCdf(hi);
@@ -508,6 +575,7 @@ function pickAmongSteps(
   }
   // Interval j is (edges[j], edges[j + 1]]; the last ends at tHi, whose rate (hiRate) is ≤ alpha.
   const edges = [tLo, ...[...found].sort((a, b) => a - b), tHi];
+  if (Math.ceil(Math.log2(edges.length)) > runsLeft) return undefined;
   const middle = (j: number): number => ((edges[j] as number) + (edges[j + 1] as number)) / 2;
   let above = -1; // largest interval known to have a rate above alpha (−1: the point tLo)
   let aboveRate = loRate;
@@ -517,7 +585,7 @@ function pickAmongSteps(
   while (atMost - above > 1) {
     const j = (above + atMost) >> 1;
     runs++;
-    const r = evaluate(plan, middle(j), sides).probability;
+    const r = evaluate(plan, middle(j), sides, memo).probability;
     if (r > alpha) {
       above = j;
       aboveRate = r;

@@ -6,8 +6,9 @@
  * State after look k: the probability of every (x_A, x_B) reached without a declaration so far. Between
  * looks each count grows by an independent Binomial(Δn, p) increment (a convolution along each axis);
  * at the look, the points where P(B beats A) ≥ threshold (and, two-sided, P(A beats B) ≥ threshold) are
- * declared: their mass is added to the answer and removed. Counts whose binomial pmf is below 1e-16 of
- * its peak are left out (a mass below ~1e-14 in all), otherwise the sum is exact to rounding.
+ * declared: their mass is added to the answer and removed. Counts whose binomial pmf is below 1e-12 of
+ * its peak are left out (beyond ~7.4 standard deviations: a mass below 1e-10 over 100 looks), otherwise the
+ * sum is exact to rounding.
  */
 import { type BinomialWindow, binomialWindow, DecisionCursor } from './decisionLattice';
 import type { BetaPrior } from './types';
@@ -25,7 +26,9 @@ export interface LookLattice {
   readonly stepB?: BinomialWindow;
 }
 
-const WINDOW_WIDTH_PER_SD = 17.2; // a 1e-16-of-peak window spans about ±8.6 standard deviations
+/** The programme's windows keep counts whose pmf is at least this fraction of the peak. */
+const DP_CUTOFF = 1e-12;
+const WINDOW_WIDTH_PER_SD = 14.9; // a 1e-12-of-peak window spans about ±7.4 standard deviations
 
 /** Length of a binomial window, estimated without computing it (for work budgets). */
 export function estimatedWindow(n: number, p: number): number {
@@ -50,7 +53,8 @@ export function exactWork(looks: readonly number[], pA: number, pB: number): { p
       const dn = n - prevN;
       perRun += prevA * prevB * estimatedWindow(dn, pB) + prevA * estimatedWindow(dn, pA) * wB;
     }
-    setup += wA * (wB + Math.abs(n * (pB - pA)) + 8 * Math.sqrt(n));
+    // Each row is walked from its diagonal: across B's window, plus the gap between the two windows.
+    setup += wA * (wB + Math.abs(n * (pB - pA)));
     prevA = wA;
     prevB = wB;
     prevN = n;
@@ -92,11 +96,15 @@ export function lookLattices(looks: readonly number[], pA: number, pB: number, p
   const out: LookLattice[] = [];
   let prev = 0;
   for (const n of looks) {
-    const windowA = binomialWindow(n, pA);
-    const windowB = binomialWindow(n, pB);
+    const windowA = binomialWindow(n, pA, DP_CUTOFF);
+    const windowB = pB === pA ? windowA : binomialWindow(n, pB, DP_CUTOFF);
     const probability = decisionTable(n, windowA, windowB, prior);
     if (prev === 0) out.push({ n, windowA, windowB, probability });
-    else out.push({ n, windowA, windowB, probability, stepA: binomialWindow(n - prev, pA), stepB: binomialWindow(n - prev, pB) });
+    else {
+      const stepA = binomialWindow(n - prev, pA, DP_CUTOFF);
+      const stepB = pB === pA ? stepA : binomialWindow(n - prev, pB, DP_CUTOFF);
+      out.push({ n, windowA, windowB, probability, stepA, stepB });
+    }
     prev = n;
   }
   return out;
@@ -127,66 +135,128 @@ function lastAtMost(table: Float64Array, row: number, width: number, level: numb
 }
 
 /**
+ * What a run leaves behind for the next one at another threshold: per look, its declaring columns and the
+ * undeclared mass after it. A run whose first k looks declare at the same lattice points starts from the
+ * stored state after look k (nearby thresholds usually differ only at a few looks).
+ */
+export interface CrossingMemo {
+  sides?: 1 | 2;
+  cuts: Int32Array[];
+  lows: Int32Array[];
+  states: Float64Array[];
+  firsts: Int32Array[];
+  lasts: Int32Array[];
+  byLook: number[];
+}
+
+/** An empty memo for {@link exactCrossing}. */
+export function crossingMemo(): CrossingMemo {
+  return { cuts: [], lows: [], states: [], firsts: [], lasts: [], byLook: [] };
+}
+
+function sameColumns(a: Int32Array | undefined, b: Int32Array): boolean {
+  if (a === undefined || a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/**
  * The exact probability that some look declares a winner: the challenger when P(B beats A) ≥ threshold,
  * and with two sides also the control when P(A beats B) = 1 − P(B beats A) ≥ threshold. Also the
- * probability of a first declaration at each look.
- * Cost: the `perRun` of {@link exactWork} multiply-adds.
+ * probability of a first declaration at each look. With a `memo`, the looks before the first one whose
+ * declaring points differ from the memo's are not recomputed (and the memo is updated).
+ * Cost: up to the `perRun` of {@link exactWork} multiply-adds.
  */
 export function exactCrossing(
   lattices: readonly LookLattice[],
   threshold: number,
   sides: 1 | 2,
+  memo?: CrossingMemo,
 ): { probability: number; byLook: number[] } {
-  const byLook: number[] = [];
-  let state: Float64Array = new Float64Array(0);
-  let first = new Int32Array(0); // per row: first column that may hold mass
-  let last = new Int32Array(0); // per row: last column that may hold mass
-  let prev: LookLattice | undefined;
+  // The declaring columns of every row at every look for this threshold: binary searches only.
+  const cuts: Int32Array[] = [];
+  const lows: Int32Array[] = [];
   for (const look of lattices) {
+    const rows = look.windowA.hi - look.windowA.lo + 1;
+    const width = look.windowB.hi - look.windowB.lo + 1;
+    const cut = new Int32Array(rows);
+    const low = new Int32Array(rows).fill(-1);
+    for (let i = 0; i < rows; i++) {
+      cut[i] = firstAtLeast(look.probability, i * width, width, threshold);
+      if (sides === 2) low[i] = lastAtMost(look.probability, i * width, width, 1 - threshold);
+    }
+    cuts.push(cut);
+    lows.push(low);
+  }
+  let start = 0;
+  if (memo !== undefined && memo.sides === sides) {
+    while (start < lattices.length && sameColumns(memo.cuts[start], cuts[start] as Int32Array) && sameColumns(memo.lows[start], lows[start] as Int32Array)) {
+      start++;
+    }
+  }
+  const byLook: number[] = memo !== undefined && start > 0 ? memo.byLook.slice(0, start) : [];
+  let state: Float64Array = start > 0 ? ((memo as CrossingMemo).states[start - 1] as Float64Array) : new Float64Array(0);
+  let first: Int32Array = start > 0 ? ((memo as CrossingMemo).firsts[start - 1] as Int32Array) : new Int32Array(0);
+  let last: Int32Array = start > 0 ? ((memo as CrossingMemo).lasts[start - 1] as Int32Array) : new Int32Array(0);
+  for (let k = start; k < lattices.length; k++) {
+    const look = lattices[k] as LookLattice;
     const { windowA, windowB } = look;
     const rows = windowA.hi - windowA.lo + 1;
     const width = windowB.hi - windowB.lo + 1;
     let next: Float64Array;
-    if (prev === undefined) {
+    if (k === 0) {
       next = new Float64Array(rows * width);
       for (let i = 0; i < rows; i++) {
         const a = windowA.pmf[i] as number;
         for (let j = 0; j < width; j++) next[i * width + j] = a * (windowB.pmf[j] as number);
       }
     } else {
-      next = propagate(state, first, last, prev, look);
+      next = propagate(state, first, last, lattices[k - 1] as LookLattice, look);
     }
     // Declarations at this look.
     let declared = 0;
     first = new Int32Array(rows);
     last = new Int32Array(rows);
-    const { probability } = look;
+    const cut = cuts[k] as Int32Array;
+    const low = lows[k] as Int32Array;
     for (let i = 0; i < rows; i++) {
       const row = i * width;
-      const cut = firstAtLeast(probability, row, width, threshold);
-      for (let j = cut; j < width; j++) {
+      for (let j = cut[i] as number; j < width; j++) {
         declared += next[row + j] as number;
         next[row + j] = 0;
       }
-      let low = -1;
-      if (sides === 2) {
-        low = lastAtMost(probability, row, width, 1 - threshold);
-        for (let j = 0; j <= low; j++) {
-          declared += next[row + j] as number;
-          next[row + j] = 0;
-        }
+      for (let j = 0; j <= (low[i] as number); j++) {
+        declared += next[row + j] as number;
+        next[row + j] = 0;
       }
-      first[i] = low + 1;
-      last[i] = cut - 1;
+      first[i] = (low[i] as number) + 1;
+      last[i] = (cut[i] as number) - 1;
     }
     byLook.push(declared);
     state = next;
-    prev = look;
+    if (memo !== undefined) {
+      memo.states[k] = next;
+      memo.firsts[k] = first;
+      memo.lasts[k] = last;
+    }
+  }
+  if (memo !== undefined) {
+    memo.sides = sides;
+    memo.cuts = cuts;
+    memo.lows = lows;
+    memo.byLook = byLook.slice();
+    memo.states.length = lattices.length;
   }
   let total = 0;
   for (const p of byLook) total += p;
   return { probability: Math.min(Math.max(total, 0), 1), byLook };
 }
+
+/**
+ * States below this probability are not carried to the next look: at most ~1e6 states, so at most 1e-14
+ * of probability is dropped per look (the corners of the windows hold ~1e-24 each).
+ */
+const NEGLIGIBLE_STATE = 1e-20;
 
 /** Moves the undeclared mass of look `from` to look `to`: convolution along x_B, then along x_A. */
 function propagate(state: Float64Array, first: Int32Array, last: Int32Array, from: LookLattice, to: LookLattice): Float64Array {
@@ -210,7 +280,7 @@ function propagate(state: Float64Array, first: Int32Array, last: Int32Array, fro
     const dst = i * widthTo;
     for (let j = first[i] as number; j <= (last[i] as number); j++) {
       const v = state[src + j] as number;
-      if (v === 0) continue;
+      if (v < NEGLIGIBLE_STATE) continue;
       const base = j + shiftB;
       const m0 = Math.max(0, -base);
       const m1 = Math.min(lenB - 1, widthTo - 1 - base);
