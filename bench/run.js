@@ -6,7 +6,7 @@
 // of the same quantity, its time, and its error against ours. The scenario is invented: a control
 // converting at 5% and challengers a few percent better, at 1e2 … 1e9 visitors per variant.
 //
-// Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, models, addin).
+// Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, looks, models, addin).
 'use strict';
 require('../scripts/tsRequire');
 const fs = require('fs');
@@ -286,6 +286,60 @@ section('planning', () => {
     rows.push([`VISITORS_NEEDED(${p}, ${lift})`, String(needed), mark(t, 200)]);
   }
   printTable('Planning', ['call', 'value', 'time (power ≤20 ms, needed ≤200 ms)'], rows);
+});
+
+section('looks', () => {
+  // Planning with several looks, many variants, the fixed-budget lift and a running test day by day. The
+  // scenarios are invented: daily looks of a shop converting at 2-50%, up to 1e7 visitors per variant.
+  const looks = require('../functions/stats/looks');
+  const many = require('../functions/stats/manyVariants');
+  const lift = require('../functions/stats/detectableLift');
+  const byDay = require('../functions/stats/byDay');
+  const rows = [];
+  const spaced = (k, last) => Array.from({ length: k }, (_, i) => Math.round(((i + 1) * last) / k));
+  const lookCases = [
+    ['30 daily looks to 9,000 (2%)', 0.02, spaced(30, 9000)],
+    ['10 looks to 2,000 (5%)', 0.05, spaced(10, 2000)],
+    ['30 looks to 1e5 (5%)', 0.05, spaced(30, 1e5)],
+    ['30 looks to 1e6 (10%)', 0.1, spaced(30, 1e6)],
+    ['30 looks to 1e7 (5%)', 0.05, spaced(30, 1e7)],
+    ['30 looks to 1e7 (50%)', 0.5, spaced(30, 1e7)],
+  ];
+  for (const [name, p, at] of lookCases) {
+    const falseAlarm = looks.falseAlarmWithLooks(p, at, 0.95, 1);
+    const tFalse = medianMs(() => looks.falseAlarmWithLooks(p, at, 0.95, 1), 300, 20);
+    const tTwo = medianMs(() => looks.falseAlarmWithLooks(p, at, 0.975, 2), 300, 20);
+    const tPower = medianMs(() => looks.powerWithLooks(p, 0.1, at), 300, 20);
+    rows.push([`FALSE_ALARM / POWER_WITH_LOOKS, ${name}`, `${falseAlarm.probability.toFixed(4)} (${falseAlarm.method})`,
+      `${mark(tFalse, 100)} / 2 sides ${mark(tTwo, 100)} / power ${mark(tPower, 100)}`]);
+  }
+  for (const [name, p, at] of [lookCases[1], lookCases[0], lookCases[3], lookCases[5]]) {
+    for (const sides of [1, 2]) {
+      const t = looks.thresholdForLooks(p, at, 0.05, sides);
+      const time = medianMs(() => looks.thresholdForLooks(p, at, 0.05, sides), 600, 5);
+      rows.push([`THRESHOLD_FOR_LOOKS, ${name}, ${sides} side${sides === 2 ? 's' : ''}`, t.toFixed(6), mark(time, 200)]);
+    }
+  }
+  for (const v of [3, 11, 50]) {
+    const t = many.thresholdForVariants(v);
+    rows.push([`THRESHOLD_FOR_VARIANTS(${v})`, t.toFixed(6), mark(medianMs(() => many.thresholdForVariants(v), 300, 50), 200)]);
+  }
+  for (const [p, n] of [[0.1, 3000], [0.05, 1e5], [0.02, 1e7], [0.5, 1e9]]) {
+    const l = lift.smallestDetectableLift(p, n);
+    rows.push([`SMALLEST_DETECTABLE_LIFT(${p}, ${fmtN(n)})`, l.toPrecision(6), mark(medianMs(() => lift.smallestDetectableLift(p, n), 300, 20), 100)]);
+  }
+  // 60 days of a control and three challengers, ~1,000 visitors a day each (invented).
+  const days = Array.from({ length: 60 }, (_, d) => [0, 1, 2, 3].map((i) => {
+    const visitors = 950 + ((d * 37 + i * 11) % 100);
+    return { visitors, conversions: Math.round(visitors * (0.05 + 0.002 * i)) };
+  }));
+  const cells = days.length * 3;
+  const tDays = medianMs(() => byDay.probAboveControlByDay(days), 300, 20);
+  rows.push([`PROB_ABOVE_CONTROL_BY_DAY, 60 days × 3 challengers`, `${fmtMs(tDays / cells)} per cell`, mark(tDays / cells, 1)]);
+  const visitors = days.map((d) => d.map((v) => v.visitors));
+  const tSplit = medianMs(() => byDay.srmPValueByDay(visitors), 300, 50);
+  rows.push([`SRM_PVALUE_BY_DAY, 60 days × 4 variants`, `${fmtMs(tSplit / (days.length * 4))} per cell`, mark(tSplit / (days.length * 4), 1)]);
+  printTable('Looks, many variants, fixed budgets, day by day', ['call', 'value', 'time (looks ≤100 ms, thresholds ≤200 ms, lift ≤100 ms, by day ≤1 ms a cell)'], rows);
 });
 
 section('models', () => {

@@ -16,8 +16,11 @@ import {
   alignedCells,
   alignedNumbers,
   choice,
+  days,
   entry,
+  list,
   optional,
+  optionalList,
   priorPart,
   range,
   required,
@@ -25,13 +28,14 @@ import {
   type FunctionEntry,
 } from './sheet/entry';
 import * as rules from './sheet/rules';
-import { COMPARISON, ONE_OR_MORE, PAST_RESULTS } from './sheet/variants';
+import { COMPARISON, ONE_OR_MORE, PAST_RESULTS, type VariantCount } from './sheet/variants';
 
 /** The families, in the order of the README and the help index; each has its wrappers in functions/wrappers/<id>.ts. */
 export const FAMILIES: readonly { readonly id: FamilyId; readonly title: string }[] = [
   { id: 'conversion', title: 'Conversion rates (Beta–Binomial)' },
   { id: 'prior', title: 'Choosing a prior' },
   { id: 'planning', title: 'Planning' },
+  { id: 'looks', title: 'Looking at a running test' },
   { id: 'checking', title: 'Checking the experiment' },
   { id: 'means', title: 'Revenue and other averages (Normal model)' },
   { id: 'events', title: 'Counts per exposure (Gamma–Poisson)' },
@@ -44,6 +48,11 @@ const EVENT_DATA = [range(rules.EVENTS), range(rules.EXPOSURE)] as const;
 const BETA_PRIOR = [priorPart(rules.PRIOR_ALPHA, 'beta'), priorPart(rules.PRIOR_BETA, 'beta')] as const;
 const GAMMA_PRIOR = [priorPart(rules.PRIOR_SHAPE, 'gamma'), priorPart(rules.PRIOR_RATE, 'gamma')] as const;
 const LEVEL = optional(rules.LEVEL);
+/** Looks of a test: 1 to 100 (the statistics core's bound, functions/stats/looks.ts). */
+const LOOKS: VariantCount = { min: 1, max: 100, noun: 'looks' };
+/** Planned shares of the variants of a day table: one per column, 2 to 50. */
+const SHARES: VariantCount = { min: 2, max: 50, noun: 'shares' };
+const VISITORS_AT_LOOKS = list(rules.VISITORS_AT_LOOKS, LOOKS, true);
 
 // Spill shapes.
 const PER_VARIANT = { kind: 'perVariant', width: 1, versusControl: false } as const;
@@ -53,6 +62,8 @@ const INTERVAL_PER_CHALLENGER = { kind: 'perVariant', width: 3, versusControl: t
 const PRIOR_ROW = { kind: 'fixed', rows: 1, columns: 2 } as const;
 const NUMBER = { kind: 'one', of: 'number' } as const;
 const TEXT = { kind: 'one', of: 'text' } as const;
+const PER_DAY_PER_CHALLENGER = { kind: 'byDay', per: 'challenger' } as const;
+const PER_DAY = { kind: 'byDay', per: 'day' } as const;
 
 const ENTRIES = [
   // Conversion rates (Beta–Binomial)
@@ -191,6 +202,74 @@ const ENTRIES = [
       optional(rules.SIDES),
     ],
     spill: NUMBER,
+  }),
+  entry({
+    id: 'SMALLEST_DETECTABLE_LIFT',
+    family: 'planning',
+    params: [
+      required(rules.BASELINE_RATE),
+      required(rules.LIFT_VISITORS),
+      optional(rules.DECLARE_THRESHOLD),
+      optional(rules.POWER),
+      ...BETA_PRIOR,
+    ],
+    spill: NUMBER,
+  }),
+  entry({
+    id: 'THRESHOLD_FOR_VARIANTS',
+    family: 'planning',
+    params: [required(rules.VARIANTS), optional(rules.FALSE_ALARM)],
+    spill: NUMBER,
+  }),
+
+  // Looking at a running test
+  entry({
+    id: 'FALSE_ALARM_WITH_LOOKS',
+    family: 'looks',
+    params: [
+      required(rules.BASELINE_RATE),
+      VISITORS_AT_LOOKS,
+      optional(rules.DECLARE_THRESHOLD),
+      optional(rules.LOOK_SIDES),
+      ...BETA_PRIOR,
+    ],
+    spill: NUMBER,
+  }),
+  entry({
+    id: 'POWER_WITH_LOOKS',
+    family: 'looks',
+    params: [
+      required(rules.BASELINE_RATE),
+      required(rules.LIFT),
+      VISITORS_AT_LOOKS,
+      optional(rules.DECLARE_THRESHOLD),
+      ...BETA_PRIOR,
+    ],
+    spill: NUMBER,
+  }),
+  entry({
+    id: 'THRESHOLD_FOR_LOOKS',
+    family: 'looks',
+    params: [
+      required(rules.BASELINE_RATE),
+      VISITORS_AT_LOOKS,
+      optional(rules.FALSE_ALARM),
+      optional(rules.LOOK_SIDES),
+      ...BETA_PRIOR,
+    ],
+    spill: NUMBER,
+  }),
+  entry({
+    id: 'PROB_ABOVE_CONTROL_BY_DAY',
+    family: 'looks',
+    params: [days(rules.CONVERSIONS_BY_DAY, COMPARISON), days(rules.VISITORS_BY_DAY, COMPARISON), ...BETA_PRIOR],
+    spill: PER_DAY_PER_CHALLENGER,
+  }),
+  entry({
+    id: 'SRM_PVALUE_BY_DAY',
+    family: 'looks',
+    params: [days(rules.VISITORS_BY_DAY, COMPARISON), optionalList(rules.PLANNED_SHARES, SHARES)],
+    spill: PER_DAY,
   }),
 
   // Checking the experiment

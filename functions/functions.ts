@@ -9,6 +9,7 @@
 export * from './wrappers/conversion';
 export * from './wrappers/prior';
 export * from './wrappers/planning';
+export * from './wrappers/looks';
 export * from './wrappers/checking';
 export * from './wrappers/means';
 export * from './wrappers/events';

@@ -27,6 +27,7 @@ import {
   type OutputCell,
 } from './spill';
 import { readAlignedCells, readVariants, type VariantTable } from './variants';
+import { readDays, readList, spillByDay, type DayTable } from './days';
 
 type ParamOf<E extends FunctionEntry> = E['params'][number];
 type OfKind<E extends FunctionEntry, K extends Param['kind']> = Extract<ParamOf<E>, { readonly kind: K }>;
@@ -49,6 +50,12 @@ type AlignedArgs<E extends FunctionEntry> = {
     ? number[] | undefined
     : unknown[] | undefined;
 };
+type ListArgs<E extends FunctionEntry> = {
+  readonly [P in OfKind<E, 'list'> as P['name']]: P extends { readonly optional: false } ? number[] : number[] | undefined;
+};
+type DaysArgs<E extends FunctionEntry> = [OfKind<E, 'days'>] extends [never]
+  ? unknown
+  : { readonly days: DayTable; readonly dayColumns: { readonly [P in OfKind<E, 'days'> as P['name']]: readonly (readonly number[])[] } };
 type PriorArgs<E extends FunctionEntry> = [OfKind<E, 'prior'>] extends [never]
   ? unknown
   : OfKind<E, 'prior'> extends { readonly prior: 'beta' }
@@ -65,6 +72,8 @@ type TableArgs<E extends FunctionEntry> = [OfKind<E, 'range'>] extends [never]
 export type Args<E extends FunctionEntry> = NumberArgs<E> &
   ChoiceArgs<E> &
   AlignedArgs<E> &
+  ListArgs<E> &
+  DaysArgs<E> &
   PriorArgs<E> &
   TableArgs<E>;
 
@@ -79,7 +88,11 @@ export type SpillValues<S extends SpillShape> = S extends { readonly kind: 'one'
         ? readonly (readonly number[])[]
         : S extends { readonly kind: 'densityTable' }
           ? DensityTable
-          : never;
+          : S extends { readonly kind: 'byDay'; readonly per: 'challenger' }
+            ? readonly (readonly (number | null)[])[]
+            : S extends { readonly kind: 'byDay'; readonly per: 'day' }
+              ? readonly (number | null)[]
+              : never;
 
 /** What the cell receives: one number or text, or a spill. */
 export type SpillResult<S extends SpillShape> = S extends { readonly kind: 'one'; readonly of: 'number' }
@@ -114,9 +127,19 @@ export function readArgs<const E extends FunctionEntry>(fn: E, input: ArgInput<E
       Object.fromEntries(ranges.map((p) => [p.name, found.columns[p.name]?.[i]])),
     );
   }
+  const dayParams = fn.params.filter((p) => p.kind === 'days');
+  if (dayParams.length > 0) {
+    const found = readDays(dayParams, dayParams.map((p) => given[p.name]));
+    out.days = found;
+    out.dayColumns = found.columns;
+  }
   for (const p of fn.params) {
     switch (p.kind) {
       case 'range':
+      case 'days':
+        break;
+      case 'list':
+        out[p.name] = readList(p, given[p.name]);
         break;
       case 'number':
         out[p.name] = p.optional
@@ -173,8 +196,14 @@ export function shapeResult(
   fn: FunctionEntry,
   table: VariantTable | undefined,
   values: unknown,
+  days?: DayTable,
 ): number | string | OutputCell[][] {
   const spill = fn.spill;
+  if (spill.kind === 'byDay') {
+    if (days === undefined) throw new Error(`internal: ${fn.id} spills by day but reads no day tables`);
+    if (spill.per === 'day') return spillByDay(days, (values as readonly (number | null)[]).map((v) => [v]), 1);
+    return spillByDay(days, values as readonly (readonly (number | null)[])[], days.width - 1);
+  }
   if (spill.kind === 'one') {
     if (spill.of === 'number' && typeof values === 'number') return finite(values);
     if (spill.of === 'text' && typeof values === 'string') return values;
@@ -215,7 +244,7 @@ export function runFunction<const E extends FunctionEntry>(
 ): SpillResult<E['spill']> {
   return runSheet(() => {
     const args = readArgs(fn, input);
-    const table = (args as { readonly table?: VariantTable }).table;
-    return shapeResult(fn, table, compute(args)) as SpillResult<E['spill']>;
+    const { table, days } = args as { readonly table?: VariantTable; readonly days?: DayTable };
+    return shapeResult(fn, table, compute(args), days) as SpillResult<E['spill']>;
   });
 }

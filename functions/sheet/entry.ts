@@ -55,8 +55,42 @@ export interface PriorParam<R extends NumberRule = NumberRule, F extends PriorFa
   readonly optional: true;
 }
 
+/**
+ * A row or a column of numbers that is a list of its own, not one cell per variant (`visitors_at_looks`, or
+ * `planned_shares` for the columns of a day table). Blank cells are skipped; `increasing` asks each value
+ * to be more than the one before.
+ */
+export interface ListParam<R extends NumberRule = NumberRule, O extends boolean = boolean> {
+  readonly kind: 'list';
+  readonly name: R['name'];
+  readonly rule: R;
+  readonly optional: O;
+  /** Bounds on the number of values given, and what they are called. */
+  readonly count: VariantCount;
+  readonly increasing: boolean;
+}
+
+/**
+ * A table with one row per day and one column per variant, the control first (`visitors_by_day`). All of
+ * an entry's day tables are read together (sheet/days.ts) into `days`; a row blank in every table is a day
+ * without data and is skipped.
+ */
+export interface DaysParam<R extends NumberRule = NumberRule> {
+  readonly kind: 'days';
+  readonly name: R['name'];
+  readonly rule: R;
+  readonly optional: false;
+  /** Bounds on the number of columns (variants). */
+  readonly variants: VariantCount;
+}
+
 /** Any parameter of a catalogue entry. */
-export type Param = RangeParam | AlignedParam | NumberParam | ChoiceParam | PriorParam;
+export type Param = RangeParam | AlignedParam | NumberParam | ChoiceParam | PriorParam | ListParam | DaysParam;
+
+/** Whether Excel passes the parameter as a range (a matrix) rather than one value. */
+export function takesRange(p: Param): boolean {
+  return p.kind === 'range' || p.kind === 'aligned' || p.kind === 'list' || p.kind === 'days';
+}
 
 /**
  * How a result is laid out on the sheet.
@@ -66,15 +100,18 @@ export type Param = RangeParam | AlignedParam | NumberParam | ChoiceParam | Prio
  *   variants, columns for a row. `versusControl`: only the challengers have values; the control's slot is `""`.
  * - `fixed`: always `rows` × `columns` cells (a prior's alpha and beta).
  * - `densityTable`: a chart table, `points` rows; a grid column, then one column per variant or per challenger.
+ * - `byDay`: one row per row of the day tables (blank days give a row of `""`), with one column per
+ *   challenger (`per: 'challenger'`) or a single column (`per: 'day'`).
  */
 export type SpillShape =
   | { readonly kind: 'one'; readonly of: 'number' | 'text' }
   | { readonly kind: 'perVariant'; readonly width: number; readonly versusControl: boolean }
   | { readonly kind: 'fixed'; readonly rows: number; readonly columns: number }
-  | { readonly kind: 'densityTable'; readonly series: 'variant' | 'challenger' };
+  | { readonly kind: 'densityTable'; readonly series: 'variant' | 'challenger' }
+  | { readonly kind: 'byDay'; readonly per: 'challenger' | 'day' };
 
 /** The families of functions, in the order the README and the help index list them. */
-export type FamilyId = 'conversion' | 'prior' | 'planning' | 'checking' | 'means' | 'events';
+export type FamilyId = 'conversion' | 'prior' | 'planning' | 'looks' | 'checking' | 'means' | 'events';
 
 /** One worksheet function as the catalogue declares it. */
 export interface FunctionEntry {
@@ -119,6 +156,25 @@ export function optional<const R extends NumberRule>(rule: R): NumberParam<R, tr
 /** An optional one-word text. */
 export function choice<const R extends ChoiceRule<string>>(rule: R): ChoiceParam<R> {
   return { kind: 'choice', name: rule.name, rule, optional: true };
+}
+
+/** A required list of numbers (a row or a column; blank cells skipped). */
+export function list<const R extends NumberRule>(
+  rule: R,
+  count: VariantCount,
+  increasing = false,
+): ListParam<R, false> {
+  return { kind: 'list', name: rule.name, rule, optional: false, count, increasing };
+}
+
+/** An optional list of numbers (a row or a column; blank cells skipped). */
+export function optionalList<const R extends NumberRule>(rule: R, count: VariantCount): ListParam<R, true> {
+  return { kind: 'list', name: rule.name, rule, optional: true, count, increasing: false };
+}
+
+/** A table of one row per day and one column per variant. */
+export function days<const R extends NumberRule>(rule: R, variants: VariantCount): DaysParam<R> {
+  return { kind: 'days', name: rule.name, rule, optional: false, variants };
 }
 
 /** One number of a prior pair. */
@@ -166,6 +222,20 @@ export function describeParam(p: Param, fn: FunctionEntry): string {
       return `${shape}; ${p.rule === undefined ? 'any text or numbers' : `each ${describeAllowed(p.rule)}`}; optional`;
     case 'choice':
       return `${p.rule.choices.map((c) => `"${c}"`).join(' or ')}; default "${p.rule.default}"`;
+    case 'list': {
+      const order = p.increasing ? ', each more than the one before' : '';
+      const how = `a row or a column of ${describeVariantCount(p.count)}; each ${describeAllowed(p.rule)}${order}`;
+      return `${how}; blank cells are skipped${p.optional ? '; optional' : ''}`;
+    }
+    case 'days': {
+      const firstDays = fn.params.find((q) => q.kind === 'days');
+      const layout =
+        firstDays === p
+          ? `one row per day and one column per variant (${describeVariantCount(p.variants)}, the control first)`
+          : `same shape as ${firstDays?.name}`;
+      const most = p.rule.atMost === undefined ? '' : `, at most the same cell's ${p.rule.atMost}`;
+      return `${layout}; each ${describeAllowed(p.rule)}${most}; a row left blank is a day without data and is skipped`;
+    }
     case 'number':
     case 'prior': {
       const allowed = describeAllowed(p.rule);

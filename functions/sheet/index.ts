@@ -12,3 +12,4 @@ export * from './run';
 export * from './decision';
 export * from './entry';
 export * from './args';
+export * from './days';

@@ -199,6 +199,43 @@ export const ALPHA = { name: 'alpha', kind: 'real', above: 0, below: 1, default:
 /** `sides`: 1 or 2, default 2. */
 export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 } as const satisfies NumberRule;
 
+// Planning with looks, many variants, a fixed budget and day-by-day tables (issue #14). The bounds are
+// the statistics core's declared domain (functions/stats/looks.ts, manyVariants.ts, detectableLift.ts, byDay.ts).
+
+/** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9. */
+export const LIFT_VISITORS = { name: 'visitors_per_variant', kind: 'count', min: 1, max: 1e9 } as const satisfies NumberRule;
+/** `threshold` where a declaration needs P(beats control) above ½: in (0.5, 0.999999], default 0.95. */
+export const DECLARE_THRESHOLD = {
+  name: 'threshold',
+  kind: 'real',
+  above: 0.5,
+  max: 0.999999,
+  default: 0.95,
+} as const satisfies NumberRule;
+/** `visitors_at_looks`: cumulative visitors per variant at each look, whole numbers 1 … 1e9, increasing. */
+export const VISITORS_AT_LOOKS = { name: 'visitors_at_looks', kind: 'count', min: 1, max: 1e9 } as const satisfies NumberRule;
+/** `sides` of the look planners: 1 or 2, default 1 (only the challenger is declared). */
+export const LOOK_SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 1 } as const satisfies NumberRule;
+/** `false_alarm`: the overall chance of a false declaration, in [0.000001, 0.5], default 0.05. */
+export const FALSE_ALARM = {
+  name: 'false_alarm',
+  kind: 'real',
+  min: 0.000001,
+  max: 0.5,
+  default: 0.05,
+} as const satisfies NumberRule;
+/** `variants` of THRESHOLD_FOR_VARIANTS: the control and its challengers, whole number 2 … 50. */
+export const VARIANTS = { name: 'variants', kind: 'count', min: 2, max: 50 } as const satisfies NumberRule;
+/** `conversions_by_day`: conversions of each day and variant, whole number ≥ 0, at most that cell's visitors. */
+export const CONVERSIONS_BY_DAY = {
+  name: 'conversions_by_day',
+  kind: 'count',
+  min: 0,
+  atMost: 'visitors_by_day',
+} as const satisfies NumberRule;
+/** `visitors_by_day`: visitors of each day and variant, whole number ≥ 0 (a day without traffic is 0). */
+export const VISITORS_BY_DAY = { name: 'visitors_by_day', kind: 'count', min: 0 } as const satisfies NumberRule;
+
 /** `method` of RATE_INTERVAL. */
 export const RATE_INTERVAL_METHOD = {
   name: 'method',

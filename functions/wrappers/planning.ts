@@ -1,5 +1,6 @@
 /**
- * The worksheet functions of the family "planning": decision power and sizes.
+ * The worksheet functions of the family "planning": decision power, sizes, the smallest detectable lift
+ * and the threshold for many variants.
  *
  * Each wrapper is one runFunction call: its catalogue entry (functions/catalogue.ts) says how to read the
  * arguments and how the result spills; the body only calls the statistics core. The JSDoc is the one home
@@ -12,6 +13,8 @@
 import { CATALOGUE } from '../catalogue';
 import { runFunction } from '../sheet';
 import * as planning from '../stats/planning';
+import { smallestDetectableLift as detectableLift } from '../stats/detectableLift';
+import { thresholdForVariants as variantsThreshold } from '../stats/manyVariants';
 
 /**
  * Chance that a two-variant test with this many visitors per variant ends with the challenger declared better (PROB_ABOVE_CONTROL at or above the threshold), if its true rate is baseline × (1 + lift). With lift 0 it is the false-alarm rate.
@@ -100,5 +103,56 @@ export function classicSampleSize(
 ): number {
   return runFunction(CATALOGUE.CLASSIC_SAMPLE_SIZE, { baseline_rate, lift, alpha, power, sides }, (a) =>
     planning.classicSampleSize(a.baseline_rate, a.lift, a.alpha, a.power, a.sides === 1 ? 1 : 2),
+  );
+}
+
+/**
+ * The smallest relative lift a test of this size detects with the power you want: the fixed-budget question ("what can we detect in four weeks?").
+ * @customfunction SMALLEST_DETECTABLE_LIFT
+ * @helpurl https://localhost:3000/help/SMALLEST_DETECTABLE_LIFT.html
+ * @param baseline_rate The control's conversion rate, between 0 and 1.
+ * @param visitors_per_variant Visitors in each of the two variants (whole number, at least 1 and at most 1000000000).
+ * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, greater than 0.5 and at most 0.999999 (optional; default 0.95).
+ * @param [power] Chance of declaring the winner, between 0 and 1 (optional; default 0.8).
+ * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
+ * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
+ * @returns A relative lift (0.2 is +20%).
+ * @method The lift at which DECISION_POWER at exactly this size equals power (decision power rises strictly with the lift, so there is one): the read-out's declaring outcomes are found once, then the power at a lift is a sum over the challenger's binomial outcomes, solved by Brent's method to about 1e-10.
+ * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, Medical Decision Making 21 (2001); the inverse of DECISION_POWER.
+ * @example =ABTEST.SMALLEST_DETECTABLE_LIFT(0.1, 3000) returns 0.20072
+ * @crosscheck =ABTEST.DECISION_POWER(baseline_rate, result, visitors_per_variant, threshold) returns power.
+ * @caution Decision power is slightly saw-toothed in the number of visitors (the outcomes are whole numbers), so a test a few visitors larger can need a marginally larger lift. The answer holds for one look at the end: with daily looks use POWER_WITH_LOOKS at the threshold from THRESHOLD_FOR_LOOKS.
+ */
+export function smallestDetectableLift(
+  baseline_rate: number,
+  visitors_per_variant: number,
+  threshold?: number,
+  power?: number,
+  prior_alpha?: number,
+  prior_beta?: number,
+): number {
+  return runFunction(
+    CATALOGUE.SMALLEST_DETECTABLE_LIFT,
+    { baseline_rate, visitors_per_variant, threshold, power, prior_alpha, prior_beta },
+    (a) => detectableLift(a.baseline_rate, a.visitors_per_variant, a.threshold, a.power, a.prior),
+  );
+}
+
+/**
+ * The PROB_ABOVE_CONTROL threshold each challenger must reach so that, with no true difference, the chance of declaring any of them is false_alarm.
+ * @customfunction THRESHOLD_FOR_VARIANTS
+ * @helpurl https://localhost:3000/help/THRESHOLD_FOR_VARIANTS.html
+ * @param variants The number of variants, the control included (whole number, at least 2 and at most 50).
+ * @param [false_alarm] The chance of any false declaration to keep, at least 0.000001 and at most 0.5 (optional; default 0.05).
+ * @returns A threshold between 0.5 and 1; with 2 variants it is 1 − false_alarm.
+ * @method Dunnett's one-sided many-to-one comparison with a shared control, equal sizes, in the large-sample limit: Φ(c) with P(max Z_i ≥ c) = false_alarm for variants − 1 normal statistics of correlation ½, solved by Brent's method with a 640-point quadrature.
+ * @source C. W. Dunnett, "A multiple comparison procedure for comparing several treatments with a control", Journal of the American Statistical Association 50 (1955).
+ * @example =ABTEST.THRESHOLD_FOR_VARIANTS(3) returns 0.97234
+ * @crosscheck =NORM.S.INV(result) gives Dunnett's critical value: 1.645, 1.92, 2.06, 2.16 for 2, 3, 4, 5 variants at 0.05.
+ * @caution Holds for one look at the end and equal traffic per variant; with few visitors or uneven traffic it is an approximation. Looking often as well needs both corrections (THRESHOLD_FOR_LOOKS too).
+ */
+export function thresholdForVariants(variants: number, false_alarm?: number): number {
+  return runFunction(CATALOGUE.THRESHOLD_FOR_VARIANTS, { variants, false_alarm }, (a) =>
+    variantsThreshold(a.variants, a.false_alarm),
   );
 }

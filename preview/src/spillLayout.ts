@@ -22,7 +22,9 @@ export type SpillKind =
   /** a fixed number of rows and columns (a fitted prior's alpha, beta) */
   | 'fixed'
   /** a chart table: `points` rows; a grid column plus one column per variant (or per challenger) */
-  | 'densityTable';
+  | 'densityTable'
+  /** one row per row of the day table (the first range); one column per challenger, or one column */
+  | 'byDay';
 
 /** The layout rule of one function. */
 export interface SpillRule {
@@ -33,6 +35,8 @@ export interface SpillRule {
   readonly height?: number;
   /** densityTable: columns beyond the grid column, counted from the number of variants k (k or k − 1). */
   readonly seriesLessThanVariants?: number;
+  /** byDay: one column per challenger (true) or a single column (false). */
+  readonly perChallenger?: boolean;
 }
 
 /** The preview's layout rule for a catalogue spill shape; undefined for a single-cell result. */
@@ -46,6 +50,8 @@ export function spillRuleOf(shape: SpillShape): SpillRule | undefined {
       return { kind: 'fixed', height: shape.rows, width: shape.columns };
     case 'densityTable':
       return { kind: 'densityTable', seriesLessThanVariants: shape.series === 'variant' ? 0 : 1 };
+    case 'byDay':
+      return { kind: 'byDay', perChallenger: shape.per === 'challenger' };
   }
 }
 
@@ -105,5 +111,8 @@ export function spillSize(fn: FunctionMetadata, shapes: ArgumentShapes): SpillSi
       const points = shapes.points !== undefined && Number.isInteger(shapes.points) && shapes.points > 0 ? shapes.points : DEFAULT_POINTS;
       return { rows: points, columns: 1 + Math.max(1, variants - (rule.seriesLessThanVariants ?? 0)) };
     }
+    case 'byDay':
+      // The day table is rows × columns (days × variants): a row per day, a column per challenger or one.
+      return { rows: range.rows, columns: rule.perChallenger === true ? Math.max(1, range.columns - 1) : 1 };
   }
 }

@@ -8,7 +8,7 @@ import * as fs from 'fs';
 import * as path from 'path';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import { CATALOGUE_LIST } from '../../functions/catalogue';
-import type { FunctionEntry } from '../../functions/sheet/entry';
+import { takesRange, type FunctionEntry } from '../../functions/sheet/entry';
 
 /* eslint-disable-next-line @typescript-eslint/no-require-imports */
 const help = require('../../help/build') as { wrapperFiles(): string[] };
@@ -26,7 +26,7 @@ const EXPECTED: readonly ExpectedFunction[] = CATALOGUE_LIST.map((f) => ({
 }));
 
 /** Arguments that take a range (a row or column of cells); all others are single values. */
-const RANGES = new Set(CATALOGUE_LIST.flatMap((f) => f.params.filter((p) => p.kind === 'range' || p.kind === 'aligned').map((p) => p.name)));
+const RANGES = new Set(CATALOGUE_LIST.flatMap((f) => f.params.filter(takesRange).map((p) => p.name)));
 
 /** Functions that answer in one cell (a number or a text) instead of a spill. */
 const SCALAR_RESULT = new Set(CATALOGUE_LIST.filter((f) => f.spill.kind === 'one').map((f) => f.id));
@@ -133,7 +133,7 @@ describe('the built dist/functions.json', () => {
   const shape = (f: { id: string; parameters: MetadataParameter[] } | FunctionEntry): string[] =>
     'parameters' in f
       ? f.parameters.map((p) => `${p.name}${p.optional ? '?' : ''}${p.dimensionality === 'matrix' ? '[]' : ''}`)
-      : f.params.map((p) => `${p.name}${p.optional ? '?' : ''}${p.kind === 'range' || p.kind === 'aligned' ? '[]' : ''}`);
+      : f.params.map((p) => `${p.name}${p.optional ? '?' : ''}${takesRange(p) ? '[]' : ''}`);
 
   test('has exactly the catalogue ids, in its order, with its parameters', () => {
     const metadata = built();
