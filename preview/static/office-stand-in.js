@@ -4,7 +4,7 @@
  * preview's workbook in the parent page (same origin). See preview/src/excelStandIn.ts.
  */
 (function () {
-  var parentPreview = null;
+  var parentPreview;
   try {
     parentPreview = window.parent && window.parent !== window ? window.parent.liftLedgerPreview : null;
   } catch (e) {
