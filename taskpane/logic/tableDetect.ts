@@ -163,20 +163,30 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
   let columns = 0;
   for (let r = 0; r < rows; r += 1) columns = Math.max(columns, (values[r] ?? []).length);
   if (columns > MAX_TABLE_COLUMNS) {
-    return { ok: false, problem: `the selection has more than ${MAX_TABLE_COLUMNS} columns; select only the table's columns` };
+    return {
+      ok: false,
+      problem: `the selection has more than ${MAX_TABLE_COLUMNS} columns; select only the table's columns`,
+    };
   }
   if (rows === 0 || columns < 2) {
-    return { ok: false, problem: 'select the variant table: one row per variant with visitors and conversions columns' };
+    return {
+      ok: false,
+      problem: 'select the variant table: one row per variant with visitors and conversions columns',
+    };
   }
   const first = values[0] ?? [];
   const firstHasNumber = first.some((v) => isNumber(v));
   let laterHaveNumbers = false;
-  for (let r = 1; r < rows && !laterHaveNumbers; r += 1) laterHaveNumbers = (values[r] ?? []).some((v) => isNumber(v) || isCountText(v));
+  for (let r = 1; r < rows && !laterHaveNumbers; r += 1)
+    laterHaveNumbers = (values[r] ?? []).some((v) => isNumber(v) || isCountText(v));
   const hasHeader = !firstHasNumber && first.some((v) => isText(v) && !isCountText(v)) && laterHaveNumbers;
   const start = hasHeader ? 1 : 0;
   const dataRows = rows - start;
   if (dataRows < 2) {
-    return { ok: false, problem: 'a read-out needs at least two variants (two data rows): the control first, then the challengers' };
+    return {
+      ok: false,
+      problem: 'a read-out needs at least two variants (two data rows): the control first, then the challengers',
+    };
   }
   // Each column once, as counts (NaN where not count-like) and as a summary: O(rows · columns).
   const counts: Float64Array[] = [];
@@ -252,7 +262,13 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
     const { flags, count } = flagsFor(visitorsColumn, conversionsColumn);
     return {
       ok: true,
-      mapping: { hasHeader, namesColumn, visitorsColumn, conversionsColumn, sharesColumn: sharesFor(visitorsColumn, conversionsColumn) },
+      mapping: {
+        hasHeader,
+        namesColumn,
+        visitorsColumn,
+        conversionsColumn,
+        sharesColumn: sharesFor(visitorsColumn, conversionsColumn),
+      },
       dataRows,
       note,
       basis,
@@ -277,7 +293,8 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
   if (countColumns.length < 2) {
     return {
       ok: false,
-      problem: 'found fewer than two columns of whole numbers ≥ 0; the table needs a visitors column and a conversions column',
+      problem:
+        'found fewer than two columns of whole numbers ≥ 0; the table needs a visitors column and a conversions column',
     };
   }
   // No clear headings: the first pair of count columns, left to right, where one dominates the other.
@@ -288,7 +305,8 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
       const aBig = dominates(a, b);
       const bBig = dominates(b, a);
       if (aBig !== bBig) {
-        const others = countColumns.length > 2 ? `; ${countColumns.length} columns hold counts, so check which is which` : '';
+        const others =
+          countColumns.length > 2 ? `; ${countColumns.length} columns hold counts, so check which is which` : '';
         return found(
           aBig ? a : b,
           aBig ? b : a,
@@ -300,7 +318,8 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
   }
   return {
     ok: false,
-    problem: 'could not tell the visitors column from the conversions column (neither is at least the other in every row); set them below',
+    problem:
+      'could not tell the visitors column from the conversions column (neither is at least the other in every row); set them below',
   };
 }
 
@@ -313,7 +332,10 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
  */
 export function checkTable(values: readonly (readonly CellValue[])[], mapping: TableMapping): CheckedTable {
   if (values.length > MAX_TABLE_ROWS) {
-    return { ok: false, problems: [`the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table`] };
+    return {
+      ok: false,
+      problems: [`the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table`],
+    };
   }
   const rows = usedRows(values);
   const start = mapping.hasHeader ? 1 : 0;
@@ -323,7 +345,8 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
     problemCount += 1;
     if (problems.length < MAX_LISTED) problems.push(text);
   };
-  if (mapping.visitorsColumn === mapping.conversionsColumn) problem('visitors and conversions must be different columns');
+  if (mapping.visitorsColumn === mapping.conversionsColumn)
+    problem('visitors and conversions must be different columns');
   const names: string[] = [];
   const visitors: number[] = [];
   const conversions: number[] = [];
@@ -341,15 +364,19 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
     const rawName = mapping.namesColumn === null ? undefined : row[mapping.namesColumn];
     if (mapping.sharesColumn !== null) {
       const share = row[mapping.sharesColumn];
-      if (!isNumber(share) || share <= 0) problem(`${label}: planned share ${isNumber(share) ? share : describeCell(share)} is not a number above 0`);
+      if (!isNumber(share) || share <= 0)
+        problem(`${label}: planned share ${isNumber(share) ? share : describeCell(share)} is not a number above 0`);
       shares.push(isNumber(share) ? share : NaN);
     }
-    names.push(rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName));
+    names.push(
+      rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName),
+    );
     visitors.push(isNumber(n) ? n : NaN);
     conversions.push(isNumber(x) ? x : NaN);
   }
   if (visitors.length < 2) problem('a read-out needs at least two variants');
-  if (visitors.length > 50) problem(`at most 50 variants (the selection has ${visitors.length.toLocaleString('en-US')} data rows)`);
+  if (visitors.length > 50)
+    problem(`at most 50 variants (the selection has ${visitors.length.toLocaleString('en-US')} data rows)`);
   if (problemCount > 0) return { ok: false, problems: cut(problems, problemCount, 'problems of the same kinds') };
   return {
     ok: true,
