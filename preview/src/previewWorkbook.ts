@@ -401,21 +401,25 @@ export class PreviewWorkbook {
     return this.formats[sheet]?.get(`${row},${col}`);
   }
 
+  /** Sets a cell's number format; "General" (Excel's default) removes it. */
   setNumberFormat(sheet: number, row: number, col: number, format: string): void {
-    this.formats[sheet]?.set(`${row},${col}`, format);
+    if (format === 'General') this.formats[sheet]?.delete(`${row},${col}`);
+    else this.formats[sheet]?.set(`${row},${col}`, format);
   }
 
   style(sheet: number, row: number, col: number): CellStyle | undefined {
     return this.styles[sheet]?.get(`${row},${col}`);
   }
 
-  /** Merges `style` into a cell's style; a fill of '' removes the fill. */
+  /** Merges `style` into a cell's style; a fill of '' removes the fill, bold false is the default (not kept). */
   setStyle(sheet: number, row: number, col: number, style: CellStyle): void {
     const map = this.styles[sheet];
     if (!map) return;
     const merged: CellStyle = { ...map.get(`${row},${col}`), ...style };
     if (merged.fill === '') delete merged.fill;
-    map.set(`${row},${col}`, merged);
+    if (merged.bold === false) delete merged.bold;
+    if (Object.keys(merged).length === 0) map.delete(`${row},${col}`);
+    else map.set(`${row},${col}`, merged);
   }
 
   /** The formula cell whose spill covers (row, col), found by walking up and left through the spill. */
