@@ -207,6 +207,43 @@ describe('the side panel keeps the user’s data safe', () => {
     expect(await messageText(panel, 'readout-status')).toMatch(/^Wrote the read-out to Plan!H20:Q95/);
   });
 
+  it('writes on a new sheet named after the table’s, or at a selected cell only after listing what is there', async () => {
+    await switchSheet(page, 'Checkout test');
+    await selectRange(page, 'A3', 'C6');
+    await panel.locator('#readout-use-selection').click();
+    await panel.locator('label[for="readout-place-sheet"]', { hasText: 'Checkout test read-out' }).waitFor();
+    await panel.locator('#readout-place-sheet').click();
+    expect(await panel.locator('#readout-place-target').textContent()).toBe(
+      'It will fill a new sheet "Checkout test read-out", cells A1:K77 (77 rows × 11 columns); nothing else is touched.',
+    );
+    await panel.locator('#readout-insert').click();
+    expect(await messageText(panel, 'readout-status')).toMatch(/^Wrote the read-out to 'Checkout test read-out'!A1:K77 \(live formulas\)/);
+    await page.locator('#tabs button[data-sheet-name="Checkout test read-out"][aria-selected="true"]').waitFor();
+    const mean = await readBlock(page, 'Checkout test read-out', 'B3', 1, 1);
+    expect(typeof mean[0]?.[0]).toBe('number');
+
+    // At a cell the user selects: the cells there that hold something (the demo's metrics, chart tables and
+    // the read-out inserted above) are listed before anything is written.
+    await switchSheet(page, 'Checkout test');
+    await selectRange(page, 'A3', 'C6');
+    await panel.locator('#readout-use-selection').click();
+    await panel.locator('#readout-place-cell').click();
+    await selectCell(page, 'H5');
+    await panel.locator('#readout-place-use-selection').click();
+    await panel.locator('#readout-place-target fluent-message-bar[intent="warning"]').waitFor();
+    expect(await panel.locator('#readout-place-target').textContent()).toMatch(
+      /^It will fill 'Checkout test'!H5:R81 \(77 rows × 11 columns\)\. \d+ of those cells hold something \(H5, I5, P5, Q5, R5, H6 and \d+ more\): you will be asked before anything is written over\.$/,
+    );
+    const before = await sheetLook(page, 'Checkout test', 100, 20);
+    await panel.locator('#readout-insert').click();
+    await panel.locator('#readout-status fluent-message-bar[intent="warning"]').waitFor();
+    expect(await panel.locator('#readout-status').textContent()).toMatch(/^'Checkout test'!H5:R81 is not empty \(H5, I5, P5, Q5, R5, H6 and \d+ more\)\. Write the read-out over it\?/);
+    await panel.locator('#cancel-overwrite').click();
+    expect(await panel.locator('#readout-status').textContent()).toBe('Nothing was written.');
+    expect(await sheetLook(page, 'Checkout test', 100, 20)).toEqual(before);
+    await panel.locator('#readout-place-right').click();
+  });
+
   it('shows the mapping with its headings, flags a count typed as text, and refuses to compute on it', async () => {
     await switchSheet(page, 'Past tests');
     await typeTable(page, 'Past tests', 'E3', [
