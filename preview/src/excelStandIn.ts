@@ -220,7 +220,8 @@ class RangeProxy {
             realm,
             grid(block, (r, c) => {
               const view = book.cell(block.sheet, r, c);
-              return view.input.startsWith('=') ? view.input : view.spilled ? view.value : view.kind === 'number' ? view.value : view.input;
+              // A formula's text; for a constant its value, as Excel gives it (text without its apostrophe).
+              return view.input.startsWith('=') ? view.input : view.value;
             }),
           );
         }

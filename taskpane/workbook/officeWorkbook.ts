@@ -116,6 +116,21 @@ function shapeProblem(block: FormulaBlock): string | null {
   return null;
 }
 
+/**
+ * A text constant as it must be written back through `formulas` to stay text: with Excel's apostrophe
+ * prefix when Excel would otherwise read it as a formula, a number, a percentage, a date or a logical
+ * ("00123", "=x", "1/2", "TRUE"); as it is in a cell formatted as Text ("@"). Cost O(length).
+ */
+export function keepText(text: string, numberFormat: string): string {
+  if (text === '' || numberFormat === '@') return text;
+  const misread =
+    /^[=+\-@']/.test(text) ||
+    /^\s*[-+]?[\d.,\s]*\d[\d.,\s]*(%|[eE][-+]?\d+)?\s*$/.test(text) ||
+    /^\s*\d{1,4}[/.-]\d{1,2}([/.-]\d{1,4})?\s*$/.test(text) ||
+    /^\s*(true|false)\s*$/i.test(text);
+  return misread ? `'${text}` : text;
+}
+
 /** The look of one cell that a write can change. */
 interface CellLook {
   readonly bold: boolean;
@@ -450,13 +465,19 @@ export function createOfficeWorkbook(
     } else {
       const styled = styledCells(block);
       const restoreFormulas = before.formulas.map((row, r) =>
-        row.map((f, c) => (before.spilled.has(`${r},${c}`) ? '' : f)),
+        row.map((f, c) => {
+          if (before.spilled.has(`${r},${c}`)) return '';
+          // A text constant reads the same through formulas and values; keep it text when written back.
+          const text = typeof f === 'string' && f === before.values[r]?.[c];
+          return text ? keepText(f, before.numberFormat[r]?.[c] ?? 'General') : f;
+        }),
       );
-      await step('contents', (_context, target) => {
-        target.formulas = restoreFormulas;
-      });
+      // Number formats first: a cell formatted as Text takes its text back as text.
       await step('number formats', (_context, target) => {
         target.numberFormat = before.numberFormat;
+      });
+      await step('contents', (_context, target) => {
+        target.formulas = restoreFormulas;
       });
       if (styled.size > 0) {
         // Only what differs now is set back, so untouched properties stay as they were (not made explicit).

@@ -153,9 +153,19 @@ export function mockExcel(sheets: string[]): MockExcel {
   /** What Excel reports as a cell's formula and value (a cleared spilled cell shows its spill again). */
   const shownFormula = (cell: MockCell): CellValue => (cell.formula !== '' ? cell.formula : (cell.spill?.value ?? ''));
   const shownValue = (cell: MockCell): CellValue => (cell.formula !== '' ? cell.value : (cell.spill?.value ?? ''));
-  const writeContent = (cell: MockCell, v: CellValue): void => {
-    cell.formula = v;
-    cell.value = v;
+  /**
+   * What Excel makes of a value written through `formulas`/`values` (from memory of Excel's behaviour,
+   * the subset the tests need): a leading apostrophe keeps text as text (and is dropped); in a cell not
+   * formatted as Text, a string that reads as a plain number becomes that number.
+   */
+  const writeContent = (cell: MockCell, v: CellValue, parse = false): void => {
+    let stored = v;
+    if (parse && typeof v === 'string') {
+      if (v.startsWith("'")) stored = v.slice(1);
+      else if (cell.numberFormat !== '@' && /^\s*[-+]?\d+(\.\d+)?\s*$/.test(v)) stored = Number(v);
+    }
+    cell.formula = stored;
+    cell.value = stored;
     delete cell.json;
   };
 
@@ -319,7 +329,7 @@ export function mockExcel(sheets: string[]): MockExcel {
             steps.push(() => {
               const written = checkSize(data, rows, columns);
               log(`${property} ${sheet}!${local}`);
-              each((cell, r, c) => writeContent(cell, (written[r]?.[c] ?? '') as CellValue));
+              each((cell, r, c) => writeContent(cell, (written[r]?.[c] ?? '') as CellValue, true));
             });
           }
           if (assigned(proxy.numberFormat, initial.numberFormat)) {

@@ -21,7 +21,7 @@ jest.mock('office-addin-manifest', () => ({
   },
 }));
 
-import { createOfficeWorkbook } from '../../taskpane/workbook/officeWorkbook';
+import { createOfficeWorkbook, keepText } from '../../taskpane/workbook/officeWorkbook';
 import { firstFreeRun, newSheetName } from '../../taskpane/workbook/placement';
 import { planBlock, priorBlock, readoutBlock } from '../../taskpane/logic/formulas';
 import * as fs from 'fs';
@@ -230,6 +230,8 @@ describe('writing a block', () => {
       excel.set('Checkout test', 'A1:C4', table);
       // the user's own cells inside the area they agreed to write over, formatted
       excel.set('Checkout test', 'F2:F3', [['notes'], [0.125]]);
+      // text that Excel would read as a number or a date if written back plainly
+      excel.set('Checkout test', 'G2:H2', [['00123', '1/2']]);
       excel.style('Checkout test', 'F3', {
         numberFormat: '0.0%',
         bold: true,
@@ -248,6 +250,8 @@ describe('writing a block', () => {
         ...built.block,
         overwrite: [
           { address: 'F2', content: 'notes' },
+          { address: 'G2', content: '00123' },
+          { address: 'H2', content: '1/2' },
           { address: 'F3', content: 0.125 },
         ],
       };
@@ -280,6 +284,7 @@ describe('writing a block', () => {
         fontColor: '#1F4E79',
         fillColor: '#FFF2CC',
       });
+      expect(excel.formulas('Checkout test', 'G2:H2')).toEqual([['00123', '1/2']]);
     },
   );
 
@@ -288,11 +293,11 @@ describe('writing a block', () => {
     excel.style('Sheet1', 'A1:B1', { numberFormat: '#,##0' });
     const workbook = workbookOn(excel);
     const block = priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, 'A1', 'Sheet1');
-    // syncs: 1 read, 2 write (its contents and number formats land, then it fails), 3 contents back,
-    // 4 number formats back (fails), 5 check
+    // syncs: 1 read, 2 write (its contents and number formats land, then it fails), 3 number formats
+    // back (fails), 4 contents back, 5 check
     excel.failures = [
       { call: excel.syncCalls + 2, code: 'InvalidArgument', message: 'bad write', partial: 2 },
-      { call: excel.syncCalls + 4, code: 'GeneralException', message: 'lost connection', partial: false },
+      { call: excel.syncCalls + 3, code: 'GeneralException', message: 'lost connection', partial: false },
     ];
     const outcome = await workbook.writeBlock(block);
     expect(outcome).toEqual({
@@ -370,6 +375,12 @@ describe('writing a block', () => {
     expect(outcome).toMatchObject({ kind: 'failed', code: 'NotSupported', restored: true });
     expect(outcome.kind === 'failed' && outcome.message).toMatch(/ExcelApi|JavaScript API 1\.12.*nothing was written$/);
     expect(excel.syncCalls).toBe(0);
+  });
+
+  test('text written back stays text: the apostrophe where Excel would read it as something else', () => {
+    const texts = ['00123', '1/2', '=A1', '-note', '12%', 'TRUE', 'Green button', '1e5'];
+    expect(texts.map((t) => keepText(t, 'General'))).toEqual(["'00123", "'1/2", "'=A1", "'-note", "'12%", "'TRUE", 'Green button', "'1e5"]);
+    expect(keepText('00123', '@')).toBe('00123');
   });
 
   test('the manifest declares the requirement set the workbook layer checks', () => {
