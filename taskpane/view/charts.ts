@@ -209,7 +209,7 @@ export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSumm
             pointRadius: 0,
             parsing: false,
           },
-          { label: 'Prior belief', data: points, borderColor: colours.line, pointRadius: 0, borderWidth: 2, parsing: false },
+          { label: 'Prior belief', data: points, borderColor: colours.line, backgroundColor: colours.line, pointRadius: 0, borderWidth: 2, parsing: false },
         ],
       },
       options: {
@@ -309,11 +309,10 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
       pointRadius: 0,
       parsing: false,
     });
-    datasets.push({ label: s.name, data: points, borderColor: colour, pointRadius: 0, borderWidth: 2, parsing: false });
+    datasets.push({ label: s.name, data: points, borderColor: colour, backgroundColor: colour, pointRadius: 0, borderWidth: 2, parsing: false });
   });
   const all = series.flatMap((s) => s.lift.map((x) => x * 100));
-  const min = Math.min(0, ...all);
-  const max = Math.max(0, ...all);
+  const { min, max, step } = niceRange(Math.min(0, ...all), Math.max(0, ...all));
   const description =
     'Lift over the control: ' +
     series.map((s) => `${s.name}, 90% between ${signedPercent(s.low90, locale)} and ${signedPercent(s.high90, locale)}`).join('; ') +
@@ -328,7 +327,11 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
         responsive: true,
         maintainAspectRatio: false,
         scales: {
-          x: axis(colours, 'lift over the control', (v) => (v > 0 ? `+${tickPercent(v, locale)}` : tickPercent(v, locale)), { min, max }),
+          x: axis(colours, 'lift over the control', (v) => (v > 0 ? `+${tickPercent(v, locale)}` : tickPercent(v, locale)), {
+            min,
+            max,
+            ticks: { color: colours.text, stepSize: step, callback: (v: number | string) => (Number(v) > 0 ? `+${tickPercent(Number(v), locale)}` : tickPercent(Number(v), locale)) },
+          }),
           y: plausibilityAxis(colours),
         },
         plugins: {
@@ -340,6 +343,19 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
     } as ChartConfiguration,
     description,
   );
+}
+
+/**
+ * Axis bounds on round steps (1, 2 or 5 × a power of ten) that take in [low, high], about 4–6 steps.
+ * Cost O(1).
+ * @example niceRange(-15.4, 38.3) //=> { min: -20, max: 40, step: 10 }
+ */
+export function niceRange(low: number, high: number): { min: number; max: number; step: number } {
+  const span = high - low > 0 ? high - low : Math.max(1, Math.abs(high));
+  const raw = span / 5;
+  const power = 10 ** Math.floor(Math.log10(raw));
+  const step = ([1, 2, 5, 10].map((m) => m * power).find((s) => s >= raw) ?? 10 * power);
+  return { min: Math.floor(low / step) * step, max: Math.ceil(high / step) * step, step };
 }
 
 /** "+12.3%" / "−4.10%" for a lift given as a fraction. */
