@@ -169,7 +169,7 @@ describe('side panel flows in the preview', () => {
     await panel.locator('#readout-use-selection').click();
     await panel.locator('#readout-variants').waitFor();
     expect(await panel.locator('#readout-variants li').allTextContents()).toEqual([
-      'Control Green button: 412 conversions of 10,000 visitors',
+      'Green button (control): 412 conversions of 10,000 visitors',
       'Orange button: 486 conversions of 10,900 visitors',
       'Blue button: 430 conversions of 9,800 visitors',
     ]);
