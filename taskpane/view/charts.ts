@@ -30,24 +30,25 @@ export function registerChartParts(): void {
 /** The colours of the current theme, read from Fluent's CSS tokens with fallbacks. */
 interface Colours {
   readonly line: string;
-  readonly band: string;
   readonly text: string;
   readonly grid: string;
   readonly accent: string;
   readonly strong: string;
+  readonly background: string;
   readonly series: readonly string[];
 }
 
 function themeColours(canvas: HTMLCanvasElement): Colours {
-  const style = getComputedStyle(canvas);
+  // The theme's tokens live on the document; a canvas not yet placed in the page has no computed style.
+  const style = getComputedStyle(canvas.isConnected ? canvas : document.documentElement);
   const token = (name: string, fallback: string): string => style.getPropertyValue(name).trim() || fallback;
   return {
     line: token('--colorBrandForeground1', '#0f6cbd'),
-    band: token('--colorBrandStroke2', '#77b7f7'),
     text: token('--colorNeutralForeground2', '#424242'),
     grid: token('--colorNeutralStroke2', '#e0e0e0'),
     accent: token('--colorPaletteDarkOrangeForeground1', '#c43501'),
     strong: token('--colorNeutralForeground1', '#242424'),
+    background: token('--colorNeutralBackground1', '#ffffff'),
     series: [
       token('--colorBrandForeground1', '#0f6cbd'),
       token('--colorPaletteDarkOrangeForeground1', '#c43501'),
@@ -111,7 +112,7 @@ export interface Marker {
 }
 
 /** A chart.js plugin that draws the markers over the datasets, labels at the top (x) or at the left (y). */
-function markerPlugin(markers: readonly Marker[], textColour: string): Plugin {
+function markerPlugin(markers: readonly Marker[], textColour: string, background: string): Plugin {
   return {
     id: 'liftLedgerMarkers',
     afterDatasetsDraw(chart) {
@@ -134,16 +135,22 @@ function markerPlugin(markers: readonly Marker[], textColour: string): Plugin {
           ctx.stroke();
           const width = ctx.measureText(marker.label).width;
           const right = x + 4 + width <= chartArea.right;
+          const left = right ? x + 3 : x - 5 - width;
+          ctx.fillStyle = withAlpha(background, 0.85);
+          ctx.fillRect(left, chartArea.top + 1, width + 2, 14);
           ctx.fillStyle = textColour;
-          ctx.textAlign = right ? 'left' : 'right';
+          ctx.textAlign = 'left';
           ctx.textBaseline = 'top';
-          ctx.fillText(marker.label, right ? x + 4 : x - 4, chartArea.top + 2);
+          ctx.fillText(marker.label, left + 1, chartArea.top + 2);
         } else {
           const y = yScale.getPixelForValue(marker.at);
           if (y < chartArea.top - 0.5 || y > chartArea.bottom + 0.5) continue;
           ctx.moveTo(chartArea.left, y);
           ctx.lineTo(chartArea.right, y);
           ctx.stroke();
+          const width = ctx.measureText(marker.label).width;
+          ctx.fillStyle = withAlpha(background, 0.85);
+          ctx.fillRect(chartArea.left + 3, y - 15, width + 2, 13);
           ctx.fillStyle = textColour;
           ctx.textAlign = 'left';
           ctx.textBaseline = 'bottom';
@@ -204,7 +211,7 @@ export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSumm
             label: `Middle 90%: ${range}`,
             data: inRange,
             borderColor: 'transparent',
-            backgroundColor: withAlpha(colours.band, 0.55),
+            backgroundColor: withAlpha(colours.line, 0.35),
             fill: 'origin',
             pointRadius: 0,
             parsing: false,
@@ -225,7 +232,7 @@ export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSumm
           tooltip: { enabled: false },
         },
       },
-      plugins: [markerPlugin([{ axis: 'x', at: summary.mean * 100, label: `mean ${mean}`, colour: colours.accent, dash: [4, 3] }], colours.strong)],
+      plugins: [markerPlugin([{ axis: 'x', at: summary.mean * 100, label: `mean ${mean}`, colour: colours.accent, dash: [4, 3] }], colours.strong, colours.background)],
     } as ChartConfiguration,
     description,
   );
@@ -272,6 +279,7 @@ export function drawPowerChart(
             { axis: 'x', at: planned, label: 'planned', colour: colours.text, dash: [2, 3], width: 1 },
           ],
           colours.strong,
+          colours.background,
         ),
       ],
     } as ChartConfiguration,
@@ -304,7 +312,7 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
       label: `${s.name}: middle 90% ${signedPercent(s.low90, locale)} to ${signedPercent(s.high90, locale)}`,
       data: points.filter((pt) => pt.x >= s.low90 * 100 && pt.x <= s.high90 * 100),
       borderColor: 'transparent',
-      backgroundColor: withAlpha(colour, 0.3),
+      backgroundColor: withAlpha(colour, 0.35),
       fill: 'origin',
       pointRadius: 0,
       parsing: false,
@@ -339,7 +347,7 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
           tooltip: { enabled: false },
         },
       },
-      plugins: [markerPlugin([{ axis: 'x', at: 0, label: 'no lift', colour: colours.strong, width: 2 }], colours.strong)],
+      plugins: [markerPlugin([{ axis: 'x', at: 0, label: 'no lift', colour: colours.strong, width: 2 }], colours.strong, colours.background)],
     } as ChartConfiguration,
     description,
   );

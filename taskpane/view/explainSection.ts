@@ -304,7 +304,7 @@ export function explainSection(context: PanelContext): ExplainSection {
       if (showChart) {
         parts.push(
           el('h4', {}, 'Lift over the control'),
-          el('p', { class: 'hint', id: 'explain-chart-note' }, 'Each curve shows how plausible each lift of a challenger is; the shaded part holds the middle 90%. Right of the black line is better than the control.'),
+          el('p', { class: 'hint', id: 'explain-chart-note' }, 'Each curve shows how plausible each lift of a challenger is; the shaded part holds the middle 90%. Right of the "no lift" line is better than the control.'),
           chartBox,
         );
       }
