@@ -7,61 +7,25 @@
 import type { CellValue } from '../workbook/workbook';
 import { parseAddress, type CellPosition } from '../workbook/address';
 import { parseAbtestCall } from './explain';
+import { findFunction } from '../../functions/catalogue';
+import type { SpillShape } from '../../functions/sheet/entry';
+import { POINTS } from '../../functions/sheet/rules';
 import { DEFAULT_LOCALE, formatCount, formatPercent, type NumberLocale } from './inputs';
 
-/** How a function's result fills the sheet (the catalogue's spill shapes). */
-export type ResultShape =
-  /** One block of `width` values per variant (or per challenger, the control's slot empty), along the input. */
-  | { readonly kind: 'perVariant'; readonly width: number; readonly versusControl: boolean }
-  /** A fixed block (a prior's alpha, beta). */
-  | { readonly kind: 'fixed'; readonly rows: number; readonly columns: number }
-  /** One value. */
-  | { readonly kind: 'one' }
-  /** A chart table: `points` rows, a grid column and one column per variant or challenger. */
-  | { readonly kind: 'densityTable'; readonly series: 'variant' | 'challenger' };
+/** How a function's result fills the sheet: the function catalogue's spill shape. */
+export type ResultShape = SpillShape;
 
-const PER_VARIANT: ResultShape = { kind: 'perVariant', width: 1, versusControl: false };
-const PER_CHALLENGER: ResultShape = { kind: 'perVariant', width: 1, versusControl: true };
-const INTERVAL: ResultShape = { kind: 'perVariant', width: 2, versusControl: false };
-const CHALLENGER_INTERVAL: ResultShape = { kind: 'perVariant', width: 3, versusControl: true };
-const ONE: ResultShape = { kind: 'one' };
-const PRIOR: ResultShape = { kind: 'fixed', rows: 1, columns: 2 };
-
-/** Result shapes by function (as the function catalogue states them). */
-export const RESULT_SHAPES: Readonly<Record<string, ResultShape>> = Object.freeze({
-  POSTERIOR_MEAN: PER_VARIANT,
-  RATE_INTERVAL: INTERVAL,
-  PROB_HIGHEST: PER_VARIANT,
-  PROB_ABOVE_CONTROL: PER_CHALLENGER,
-  LIFT_INTERVAL: CHALLENGER_INTERVAL,
-  RATE_DIFF_INTERVAL: CHALLENGER_INTERVAL,
-  PROB_LIFT_ABOVE: PER_CHALLENGER,
-  EXPECTED_LOSS: PER_VARIANT,
-  DECISION: ONE,
-  POSTERIOR_DENSITY: { kind: 'densityTable', series: 'variant' },
-  LIFT_DENSITY: { kind: 'densityTable', series: 'challenger' },
-  PRIOR_FROM_MEAN: PRIOR,
-  PRIOR_FROM_INTERVAL: PRIOR,
-  PRIOR_FROM_HISTORY: PRIOR,
-  DECISION_POWER: ONE,
-  VISITORS_NEEDED: ONE,
-  CLASSIC_SAMPLE_SIZE: ONE,
-  SRM_PVALUE: ONE,
-  MEAN_INTERVAL: INTERVAL,
-  MEAN_PROB_HIGHEST: PER_VARIANT,
-  MEAN_PROB_ABOVE_CONTROL: PER_CHALLENGER,
-  MEAN_DIFF_INTERVAL: CHALLENGER_INTERVAL,
-  MEAN_LIFT_INTERVAL: CHALLENGER_INTERVAL,
-  MEAN_EXPECTED_LOSS: PER_VARIANT,
-  EVENTS_RATE_INTERVAL: INTERVAL,
-  EVENTS_PROB_HIGHEST: PER_VARIANT,
-  EVENTS_PROB_ABOVE_CONTROL: PER_CHALLENGER,
-  EVENTS_LIFT_INTERVAL: CHALLENGER_INTERVAL,
-  EVENTS_EXPECTED_LOSS: PER_VARIANT,
-});
+/**
+ * The result shape of a function, from the function catalogue; undefined for a name it does not have.
+ * Cost O(functions).
+ * @example resultShapeOf('LIFT_INTERVAL') //=> { kind: 'perVariant', width: 3, versusControl: true }
+ */
+export function resultShapeOf(name: string): ResultShape | undefined {
+  return findFunction(name)?.spill;
+}
 
 /** The default number of rows of a chart table (the catalogue's `points` default). */
-export const DEFAULT_POINTS = 101;
+export const DEFAULT_POINTS: number = POINTS.default;
 
 /** The size in cells of a result, from its shape and the size of its first data range. */
 export interface ResultSize {
@@ -358,7 +322,7 @@ export function errorMeaning(value: CellValue | undefined): string | null {
 export function resultSizeOf(formula: string): ResultSize | null {
   const call = parseAbtestCall(formula);
   if (call === null) return null;
-  const shape = RESULT_SHAPES[call.name];
+  const shape = resultShapeOf(call.name);
   if (shape === undefined) return null;
   if (shape.kind === 'one' || shape.kind === 'fixed') return resultSize(shape, { rows: 1, columns: 1 });
   try {

@@ -6,12 +6,14 @@
  * while the section is open.
  */
 import type { BetaPrior, ConversionCounts } from '../../functions/stats/types';
-import { explainFormula, parseAbtestCall, SIGNATURES } from '../logic/explain';
+import { explainFormula, mathPieces, parseAbtestCall, SIGNATURES } from '../logic/explain';
 import { liftCurves, MAX_CHART_CHALLENGERS } from '../logic/liftCurves';
+import { argumentSource, recheckArguments, type Recheck } from '../logic/recheck';
+import { findFunction } from '../../functions/catalogue';
 import {
   errorMeaning,
   findSpillOwner,
-  RESULT_SHAPES,
+  resultShapeOf,
   resultSizeOf,
   resultWords,
   type ResultShape,
@@ -201,6 +203,30 @@ export function explainSection(context: PanelContext): ExplainSection {
     return typeof anchorValue === 'string' && anchorValue.toUpperCase() === '#SPILL!' ? null : owner;
   };
 
+  /**
+   * Check a formula's inputs as its function does: each argument from the formula (a literal) or from its
+   * cells (ranges as rows of values, a single cell to a single-value argument as its value).
+   */
+  const recheck = async (name: string, args: readonly string[], sheet: string): Promise<Recheck> => {
+    const fn = findFunction(name);
+    if (fn === undefined) return { kind: 'cannot check' };
+    const values: Record<string, unknown> = {};
+    for (const [i, param] of fn.params.entries()) {
+      const source = argumentSource(args[i] ?? '');
+      if (source.kind === 'unknown') return { kind: 'cannot check' };
+      if (source.kind === 'absent') values[param.name] = null;
+      else if (source.kind === 'literal') values[param.name] = source.value;
+      else {
+        const block = await readOrNull(source.address, source.sheet || sheet);
+        if (block === null) return { kind: 'cannot check' };
+        const manyCells = param.kind === 'range' || param.kind === 'aligned';
+        if (!manyCells && block.rowCount * block.columnCount !== 1) return { kind: 'cannot check' };
+        values[param.name] = manyCells ? block.values : (block.values[0]?.[0] ?? '');
+      }
+    }
+    return recheckArguments(name, values);
+  };
+
   /** The lift chart for a conversion comparison, or null when it does not apply or cannot be drawn. */
   const drawLift = async (name: string, args: readonly string[], labels: readonly string[], sheet: string): Promise<boolean> => {
     if (!LIFT_CHART_FUNCTIONS.has(name)) return false;
@@ -262,7 +288,7 @@ export function explainSection(context: PanelContext): ExplainSection {
       const signature = SIGNATURES[explanation.name];
       const argument = (argName: string): string => args[signature?.args.indexOf(argName) ?? -1] ?? '';
       const dataText = args[0] ?? '';
-      const shape = RESULT_SHAPES[explanation.name];
+      const shape = resultShapeOf(explanation.name);
       const needsNames = shape?.kind === 'perVariant' || shape?.kind === 'densityTable' || explanation.name === 'DECISION';
       const labels = needsNames ? await namesFor(dataText, argument('labels'), variantsIn(dataText), sheet) : [];
       const numbers = { level: await numberOf(argument('level'), sheet), min_lift: await numberOf(argument('min_lift'), sheet) };
@@ -282,11 +308,19 @@ export function explainSection(context: PanelContext): ExplainSection {
         );
       }
       if (error !== null) {
+        const found = await recheck(explanation.name, args, sheet);
+        if (myRun !== run.id) return;
+        const detail =
+          found.kind === 'problem'
+            ? ` Checking the inputs the way the function does: ${found.message}.`
+            : found.kind === 'inputs fine'
+              ? ' The inputs pass the function\'s own checks, so the trouble arose while computing or around the function.'
+              : ' In Excel, point at the cell to read its own message; it names the argument and the item.';
         parts.push(
           el(
             'fluent-message-bar',
             { intent: 'error', layout: 'multiline', id: 'explain-error' },
-            `${qualified(sheet, anchorAddress)} shows ${String(anchorValue)}. ${error} In Excel, point at the cell to read its own message; it names the argument and the item.`,
+            `${qualified(sheet, anchorAddress)} shows ${String(anchorValue)}. ${error}${detail}`,
           ),
         );
       } else {
@@ -313,7 +347,11 @@ export function explainSection(context: PanelContext): ExplainSection {
         if (arg.text === '' && arg.optional) continue;
         argumentList.append(el('li', {}, el('code', {}, arg.name), ` = ${arg.text}`));
       }
-      parts.push(el('h4', {}, 'Arguments'), argumentList, el('h4', {}, 'Method'), el('p', { id: 'explain-method' }, explanation.method));
+      const method = el('p', { id: 'explain-method' });
+      for (const piece of mathPieces(explanation.method)) method.append(piece.subscript ? el('sub', {}, piece.text) : piece.text);
+      parts.push(el('h4', {}, 'Arguments'), argumentList, el('h4', {}, 'Method'));
+      if (explanation.plainMethod !== null) parts.push(el('p', { id: 'explain-method-words' }, explanation.plainMethod));
+      parts.push(method);
       if (explanation.crossCheck !== null) {
         const formulas = el('ul', { id: 'explain-formulas' });
         for (const f of explanation.crossCheck.formulas) formulas.append(el('li', {}, el('code', { class: 'formula' }, f)));

@@ -10,7 +10,7 @@ import type { Frame, Page } from 'playwright-core';
 import { probHighest } from '../../functions/stats/conversion';
 import { visitorsNeeded } from '../../functions/stats/planning';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import { openPreview, panelFrame, readCell, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import { enterCell, openPreview, panelFrame, readCell, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
 
 async function fill(frame: Frame, id: string, text: string): Promise<void> {
   await frame.locator(`#${id} input`).fill(text);
@@ -167,6 +167,23 @@ describe('the side panel, clear to a marketer', () => {
     await panel.locator('#explain-chart-box:not([hidden])').waitFor();
     expect(await panel.locator('#explain-chart').getAttribute('aria-label')).toMatch(/^Lift over the control: Orange button, 90% between \+1\.00% and \+25\.6%; Big basket icon, 90% between /);
     expect(preview.pageErrors).toEqual([]);
+  });
+
+  it('explains an error cell by its error, in the worksheet function\'s own words', async () => {
+    await switchSheet(page, 'Checkout test');
+    await enterCell(page, 'D23', '=ABTEST.PROB_HIGHEST(C4:C6, B4:B5)');
+    await panel.locator('#tab-explain').click();
+    await selectCell(page, 'D23');
+    await panel.locator('#explain-error').waitFor();
+    const cell = await readCell(page, 'Checkout test', 'D23');
+    expect(cell.value).toBe('#VALUE!');
+    expect(cell.message).toBeTruthy();
+    const text = await panel.locator('#explain-error').textContent();
+    expect(text).toMatch(/^'Checkout test'!D23 shows #VALUE!\. An argument holds something the function cannot use/);
+    expect(text).toContain(`Checking the inputs the way the function does: ${cell.message}.`);
+    // the method is shown with subscripts, not raw notation
+    expect(await panel.locator('#explain-method').textContent()).not.toContain('_{');
+    expect(await panel.locator('#explain-method sub').count()).toBeGreaterThan(0);
   });
 
   it('a 350 px pane: tab names on one line, every field as wide as the pane', async () => {

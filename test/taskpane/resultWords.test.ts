@@ -123,7 +123,7 @@ describe('result sizes and the formula a spilled cell belongs to', () => {
     expect(resultSizeOf('=ABTEST.POSTERIOR_DENSITY(C4:C6, B4:B6)')).toEqual({ rows: 101, columns: 4, alongRow: false });
     expect(resultSizeOf("=ABTEST.PRIOR_FROM_HISTORY('Past tests'!B4:B15,'Past tests'!C4:C15)")).toEqual({ rows: 1, columns: 2, alongRow: false });
     expect(resultSizeOf('=SUM(A1:A3)')).toBeNull();
-    expect(resultSize({ kind: 'one' }, { rows: 3, columns: 1 })).toEqual({ rows: 1, columns: 1, alongRow: false });
+    expect(resultSize({ kind: 'one', of: 'number' }, { rows: 3, columns: 1 })).toEqual({ rows: 1, columns: 1, alongRow: false });
   });
 
   test('a cell inside a spill finds its formula; a cell beside it does not', () => {
