@@ -83,7 +83,8 @@ export function readNumber(text: string, locale: NumberLocale = DEFAULT_LOCALE):
   if (!/^[\d.,]+$/.test(compact) || !/\d/.test(compact)) return none;
   const dots = compact.split('.').length - 1;
   const commas = compact.split(',').length - 1;
-  const toNumber = (integerPart: string, fraction: string): number => Number(`${sign}${integerPart || '0'}.${fraction || '0'}`);
+  const toNumber = (integerPart: string, fraction: string): number =>
+    Number(`${sign}${integerPart || '0'}.${fraction || '0'}`);
   if (dots === 0 && commas === 0) return { value: Number(sign + compact), ambiguity: null };
   if (dots > 0 && commas > 0) {
     const decimalMark = compact.lastIndexOf('.') > compact.lastIndexOf(',') ? '.' : ',';
@@ -105,7 +106,10 @@ export function readNumber(text: string, locale: NumberLocale = DEFAULT_LOCALE):
   // Neither the language's decimal mark nor its group separator: read as thousands, and say so.
   const shown = `${sign}${whole}${mark}${fraction}`;
   const other = `${sign}${whole}${locale.decimal}${fraction}`;
-  return { value, ambiguity: `"${shown}" is read as ${formatCount(value, locale)} (thousands); if you meant a decimal, type ${other}` };
+  return {
+    value,
+    ambiguity: `"${shown}" is read as ${formatCount(value, locale)} (thousands); if you meant a decimal, type ${other}`,
+  };
 }
 
 /**
@@ -171,21 +175,30 @@ export function readPercent(text: string, rule: PercentRule, locale: NumberLocal
   const value = typedNumber / 100;
   const low = rule.minIncluded ? value >= rule.min : value > rule.min;
   const high = rule.maxIncluded ? value <= rule.max : value < rule.max;
-  const range = `${rule.minIncluded ? 'from' : 'above'} ${percentWords(rule.min, locale)} ${rule.maxIncluded ? 'up to' : 'and below'} ${percentWords(rule.max, locale)}`;
+  const range =
+    `${rule.minIncluded ? 'from' : 'above'} ${percentWords(rule.min, locale)} ` +
+    `${rule.maxIncluded ? 'up to' : 'and below'} ${percentWords(rule.max, locale)}`;
   if (!low && typedNumber > 0 && typedNumber < 1 && rule.min >= 0.01) {
     return {
       ok: false,
-      message: `${rule.name}: ${withoutSign} here means ${percentWords(value, locale)}, because this field takes a percent. For ${percentWords(typedNumber, locale)} type ${formatDecimal(Number((typedNumber * 100).toPrecision(6)), locale)}, not ${withoutSign}.`,
+      message:
+        `${rule.name}: ${withoutSign} here means ${percentWords(value, locale)}, because this field takes a ` +
+        `percent. For ${percentWords(typedNumber, locale)} type ` +
+        `${formatDecimal(Number((typedNumber * 100).toPrecision(6)), locale)}, not ${withoutSign}.`,
     };
   }
   if (!high && typedNumber > 100 && rule.max <= 1) {
     return { ok: false, message: `${rule.name}: ${percentWords(value, locale)} is not possible; it must be ${range}.` };
   }
-  if (!low || !high) return { ok: false, message: `${rule.name}: it must be ${range}; you typed ${percentWords(value, locale)}.` };
+  if (!low || !high)
+    return { ok: false, message: `${rule.name}: it must be ${range}; you typed ${percentWords(value, locale)}.` };
   const notes: string[] = [];
   if (reading.ambiguity !== null) notes.push(reading.ambiguity);
   if (typedNumber > 0 && typedNumber < 1 && !typed.endsWith('%')) {
-    notes.push(`read as ${percentWords(value, locale)}; if you meant ${percentWords(typedNumber, locale)}, type ${formatDecimal(Number((typedNumber * 100).toPrecision(6)), locale)}`);
+    notes.push(
+      `read as ${percentWords(value, locale)}; if you meant ${percentWords(typedNumber, locale)}, type ` +
+        `${formatDecimal(Number((typedNumber * 100).toPrecision(6)), locale)}`,
+    );
   }
   return { ok: true, value, note: notes.length > 0 ? `${notes.join('; ')}.` : null };
 }
@@ -211,18 +224,28 @@ export function readCount(text: string, rule: CountRule, locale: NumberLocale = 
   const typed = text.trim();
   if (typed === '') return { ok: false, message: `${rule.name}: type a number, e.g. ${rule.example}.` };
   if (typed.endsWith('%')) {
-    return { ok: false, message: `${rule.name}: this field takes a plain number, not a percent (e.g. ${rule.example}).` };
+    return {
+      ok: false,
+      message: `${rule.name}: this field takes a plain number, not a percent (e.g. ${rule.example}).`,
+    };
   }
   const reading = readNumber(typed, locale);
   const value = reading.value;
-  if (!Number.isFinite(value)) return { ok: false, message: `${rule.name}: "${typed}" is not a number. Type a number such as ${rule.example}.` };
+  if (!Number.isFinite(value))
+    return { ok: false, message: `${rule.name}: "${typed}" is not a number. Type a number such as ${rule.example}.` };
   if (rule.whole && !Number.isInteger(value)) {
-    return { ok: false, message: `${rule.name}: it must be a whole number; you typed ${formatDecimal(value, locale)}.` };
+    return {
+      ok: false,
+      message: `${rule.name}: it must be a whole number; you typed ${formatDecimal(value, locale)}.`,
+    };
   }
   const low = rule.minIncluded ? value >= rule.min : value > rule.min;
   if (!low || value > rule.max) {
     const lowWords = `${rule.minIncluded ? 'at least' : 'above'} ${formatDecimal(rule.min, locale)}`;
-    const words = Number.isFinite(rule.max) ? `${rule.minIncluded ? 'from' : 'above'} ${formatDecimal(rule.min, locale)} to ${formatDecimal(rule.max, locale)}` : lowWords;
+    const words = Number.isFinite(rule.max)
+      ? `${rule.minIncluded ? 'from' : 'above'} ${formatDecimal(rule.min, locale)} to ` +
+        `${formatDecimal(rule.max, locale)}`
+      : lowWords;
     return { ok: false, message: `${rule.name}: it must be ${words}; you typed ${formatDecimal(value, locale)}.` };
   }
   return { ok: true, value, note: reading.ambiguity === null ? null : `${reading.ambiguity}.` };
@@ -254,7 +277,11 @@ export function formatPercent(fraction: number, locale: NumberLocale = DEFAULT_L
   const pct = fraction * 100;
   const abs = Math.abs(pct);
   const digits = abs === 0 ? 0 : abs >= 10 ? 1 : abs >= 1 ? 2 : Math.min(6, 1 - Math.floor(Math.log10(abs)) + 1);
-  const text = formatter(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits, useGrouping: false }).format(pct);
+  const text = formatter(locale, {
+    minimumFractionDigits: digits,
+    maximumFractionDigits: digits,
+    useGrouping: false,
+  }).format(pct);
   return `${text}%`;
 }
 

@@ -63,7 +63,8 @@ export const BONFERRONI_SPLIT: ThresholdSource = Object.freeze({
     return (
       `With ${challengers} challengers, each one gets a chance to win by luck. To keep the overall chance of a false ` +
       `winner at ${falseAlarm}, the ${falseAlarm} is split evenly: each challenger must reach P(beats control) ≥ ` +
-      `${perChallenger} (${each} each; the Bonferroni split, slightly stricter than needed). That is why each variant ` +
+      `${perChallenger} (${each} each; the Bonferroni split, slightly stricter than needed). That is why each ` +
+      `variant ` +
       `needs more visitors than in a test of two.`
     );
   },
@@ -148,17 +149,22 @@ function spanWords(weeks: number): string {
 export function durationCheck(days: number, locale: NumberLocale = DEFAULT_LOCALE): DurationCheck {
   const weeks = Math.ceil(days / 7);
   const shorten =
-    'To shorten it: plan for a larger smallest lift worth detecting, put more of the traffic into the test, test fewer variants, or accept a lower threshold or power.';
+    'To shorten it: plan for a larger smallest lift worth detecting, put more of the traffic into the test, test ' +
+    'fewer variants, or accept a lower threshold or power.';
   if (weeks > UNREALISTIC_TEST_WEEKS) {
     return {
       level: 'unrealistic',
-      text: `${formatCount(days, locale)} days (${spanWords(weeks)}) is not a realistic test: visitors, prices and seasons change long before it ends, and the result would describe a shop that no longer exists. ${shorten}`,
+      text:
+        `${formatCount(days, locale)} days (${spanWords(weeks)}) is not a realistic test: visitors, prices and ` +
+        `seasons change long before it ends, and the result would describe a shop that no longer exists. ${shorten}`,
     };
   }
   if (weeks > LONG_TEST_WEEKS) {
     return {
       level: 'long',
-      text: `${weeks} weeks is a long test: over ${LONG_TEST_WEEKS} weeks returning visitors clear their cookies and count twice, and seasons and other launches get in the way. ${shorten}`,
+      text:
+        `${weeks} weeks is a long test: over ${LONG_TEST_WEEKS} weeks returning visitors clear their cookies and ` +
+        `count twice, and seasons and other launches get in the way. ${shorten}`,
     };
   }
   return { level: 'fine', text: null };
@@ -178,16 +184,62 @@ export interface PlanTexts {
 
 /** What each Plan field accepts. Percent fields take percents (4 for 4%). */
 export const PLAN_RULES: {
-  readonly [K in keyof PlanTexts]: { readonly kind: 'percent'; readonly rule: PercentRule } | { readonly kind: 'count'; readonly rule: CountRule };
+  readonly [K in keyof PlanTexts]:
+    { readonly kind: 'percent'; readonly rule: PercentRule } | { readonly kind: 'count'; readonly rule: CountRule };
 } = Object.freeze({
-  baselineRate: { kind: 'percent', rule: { name: 'Baseline conversion rate', min: 0, minIncluded: false, max: 1, maxIncluded: false, example: '4' } },
-  lift: { kind: 'percent', rule: { name: 'Smallest lift worth detecting', min: 0, minIncluded: false, max: 10, maxIncluded: true, example: '10' } },
-  threshold: { kind: 'percent', rule: { name: 'Decision threshold', min: 0.5, minIncluded: false, max: 1, maxIncluded: false, example: '95' } },
-  power: { kind: 'percent', rule: { name: 'Target decision power', min: 0.5, minIncluded: true, max: 1, maxIncluded: false, example: '80' } },
-  variants: { kind: 'count', rule: { name: 'Variants', min: 2, minIncluded: true, max: MAX_VARIANTS, whole: true, example: '2' } },
-  dailyVisitors: { kind: 'count', rule: { name: 'Visitors per day', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '4000' } },
-  trafficShare: { kind: 'percent', rule: { name: 'Share of visitors in the test', min: 0, minIncluded: false, max: 1, maxIncluded: true, example: '100' } },
-  classicAlpha: { kind: 'percent', rule: { name: 'Significance level', min: 0, minIncluded: false, max: 0.5, maxIncluded: true, example: '5' } },
+  baselineRate: {
+    kind: 'percent',
+    rule: { name: 'Baseline conversion rate', min: 0, minIncluded: false, max: 1, maxIncluded: false, example: '4' },
+  },
+  lift: {
+    kind: 'percent',
+    rule: {
+      name: 'Smallest lift worth detecting',
+      min: 0,
+      minIncluded: false,
+      max: 10,
+      maxIncluded: true,
+      example: '10',
+    },
+  },
+  threshold: {
+    kind: 'percent',
+    rule: { name: 'Decision threshold', min: 0.5, minIncluded: false, max: 1, maxIncluded: false, example: '95' },
+  },
+  power: {
+    kind: 'percent',
+    rule: { name: 'Target decision power', min: 0.5, minIncluded: true, max: 1, maxIncluded: false, example: '80' },
+  },
+  variants: {
+    kind: 'count',
+    rule: { name: 'Variants', min: 2, minIncluded: true, max: MAX_VARIANTS, whole: true, example: '2' },
+  },
+  dailyVisitors: {
+    kind: 'count',
+    rule: {
+      name: 'Visitors per day',
+      min: 0,
+      minIncluded: false,
+      max: Number.POSITIVE_INFINITY,
+      whole: false,
+      example: '4000',
+    },
+  },
+  trafficShare: {
+    kind: 'percent',
+    rule: {
+      name: 'Share of visitors in the test',
+      min: 0,
+      minIncluded: false,
+      max: 1,
+      maxIncluded: true,
+      example: '100',
+    },
+  },
+  classicAlpha: {
+    kind: 'percent',
+    rule: { name: 'Significance level', min: 0, minIncluded: false, max: 0.5, maxIncluded: true, example: '5' },
+  },
 });
 
 /** The Plan fields read: the inputs when all are good, each field's message or note, and cross-field problems. */
@@ -207,7 +259,8 @@ export function readPlan(texts: PlanTexts, locale: NumberLocale = DEFAULT_LOCALE
   const fields = {} as Record<keyof PlanTexts, FieldReading>;
   for (const key of Object.keys(PLAN_RULES) as (keyof PlanTexts)[]) {
     const spec = PLAN_RULES[key];
-    fields[key] = spec.kind === 'percent' ? readPercent(texts[key], spec.rule, locale) : readCount(texts[key], spec.rule, locale);
+    fields[key] =
+      spec.kind === 'percent' ? readPercent(texts[key], spec.rule, locale) : readCount(texts[key], spec.rule, locale);
   }
   const values = Object.values(fields);
   if (!values.every((f) => f.ok)) return { inputs: null, fields, problems: [] };
@@ -239,7 +292,8 @@ export function planProblems(inputs: PlanInputs): string[] {
   if (!Number.isFinite(inputs.lift) || inputs.lift <= 0) out.push('smallest lift worth detecting must be above 0%');
   else if (inOpen(inputs.baselineRate) && inputs.baselineRate * (1 + inputs.lift) >= 1) {
     out.push(
-      `baseline rate × (1 + lift) must stay below 100%: ${formatPercent(inputs.baselineRate)} raised by ${formatPercent(inputs.lift)} would be ${formatPercent(inputs.baselineRate * (1 + inputs.lift))}`,
+      `baseline rate × (1 + lift) must stay below 100%: ${formatPercent(inputs.baselineRate)} raised by ` +
+        `${formatPercent(inputs.lift)} would be ${formatPercent(inputs.baselineRate * (1 + inputs.lift))}`,
     );
   }
   if (!inOpen(inputs.threshold)) out.push('decision threshold must be between 0% and 100%');
@@ -261,7 +315,16 @@ export function planProblems(inputs: PlanInputs): string[] {
  * @example samePlan(a, { ...a }) //=> true
  */
 export function samePlan(a: PlanInputs, b: PlanInputs): boolean {
-  const keys: (keyof PlanInputs)[] = ['baselineRate', 'lift', 'threshold', 'power', 'variants', 'dailyVisitors', 'trafficShare', 'classicAlpha'];
+  const keys: (keyof PlanInputs)[] = [
+    'baselineRate',
+    'lift',
+    'threshold',
+    'power',
+    'variants',
+    'dailyVisitors',
+    'trafficShare',
+    'classicAlpha',
+  ];
   if (!keys.every((key) => a[key] === b[key])) return false;
   return a.prior?.alpha === b.prior?.alpha && a.prior?.beta === b.prior?.beta;
 }

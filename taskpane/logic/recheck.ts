@@ -41,8 +41,13 @@ export function argumentSource(text: string): ArgumentSource {
   const single = literalValue(t);
   if (single !== undefined) return { kind: 'literal', value: single };
   if (t.startsWith('{') && t.endsWith('}')) {
-    const rows = t.slice(1, -1).split(';').map((row) => row.split(',').map(literalValue));
-    return rows.every((row) => row.every((v) => v !== undefined)) ? { kind: 'literal', value: rows } : { kind: 'unknown' };
+    const rows = t
+      .slice(1, -1)
+      .split(';')
+      .map((row) => row.split(',').map(literalValue));
+    return rows.every((row) => row.every((v) => v !== undefined))
+      ? { kind: 'literal', value: rows }
+      : { kind: 'unknown' };
   }
   try {
     const parsed = parseAddress(t);

@@ -45,7 +45,9 @@ export function resultSize(shape: ResultShape, data: { rows: number; columns: nu
   const variants = data.rows * data.columns;
   switch (shape.kind) {
     case 'perVariant':
-      return alongRow ? { rows: shape.width, columns: variants, alongRow } : { rows: variants, columns: shape.width, alongRow };
+      return alongRow
+        ? { rows: shape.width, columns: variants, alongRow }
+        : { rows: variants, columns: shape.width, alongRow };
     case 'fixed':
       return { rows: shape.rows, columns: shape.columns, alongRow: false };
     case 'one':
@@ -184,7 +186,12 @@ export function resultWords(input: ResultInput): string[] {
       if (top === undefined) return [];
       return [
         `${top.label} has ${chancePhrase(top.p as number, locale)} of having the highest ${noun}.`,
-        ...(rest.length > 0 ? [`The others: ${rest.map((c) => `${c.label} ${chanceText(c.p as number, locale)}`).join(', ')}. The chances add up to 100%.`] : []),
+        ...(rest.length > 0
+          ? [
+              `The others: ${rest.map((c) => `${c.label} ${chanceText(c.p as number, locale)}`).join(', ')}. The ` +
+                `chances add up to 100%.`,
+            ]
+          : []),
       ];
     }
     case 'PROB_ABOVE_CONTROL':
@@ -192,7 +199,9 @@ export function resultWords(input: ResultInput): string[] {
     case 'EVENTS_PROB_ABOVE_CONTROL': {
       const rows = each(1).slice(1);
       if (!rows.every((v) => isNumber(v[0]))) return [];
-      return rows.map((v, j) => `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of a higher ${noun} than ${control}.`);
+      return rows.map(
+        (v, j) => `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of a higher ${noun} than ${control}.`,
+      );
     }
     case 'PROB_LIFT_ABOVE': {
       const rows = each(1).slice(1);
@@ -200,8 +209,10 @@ export function resultWords(input: ResultInput): string[] {
       if (!rows.every((v) => isNumber(v[0])) || minLift === undefined) return [];
       return rows.map((v, j) =>
         minLift >= 0
-          ? `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of a lift over the control above ${signed(minLift, locale)}.`
-          : `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of being no worse than ${signed(minLift, locale)} against the control.`,
+          ? `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of a lift over the control above ` +
+            `${signed(minLift, locale)}.`
+          : `${labels[j + 1]} has ${chancePhrase(v[0] as number, locale)} of being no worse than ` +
+            `${signed(minLift, locale)} against the control.`,
       );
     }
     case 'LIFT_INTERVAL':
@@ -212,7 +223,12 @@ export function resultWords(input: ResultInput): string[] {
       const rows = each(3).slice(1);
       if (!rows.every((v) => v.every(isNumber))) return [];
       const lift = name.includes('LIFT');
-      const show = (x: number): string => (lift ? signed(x, locale) : family === 'conversion' ? points(x, locale) : `${x > 0 ? '+' : x < 0 ? '−' : ''}${plain(Math.abs(x), locale)}`);
+      const show = (x: number): string =>
+        lift
+          ? signed(x, locale)
+          : family === 'conversion'
+            ? points(x, locale)
+            : `${x > 0 ? '+' : x < 0 ? '−' : ''}${plain(Math.abs(x), locale)}`;
       const what = lift ? `lift in ${noun} over the control` : `difference in ${noun} from the control`;
       return rows.map((v, j) => {
         const [low, median, high] = v as number[];
@@ -222,7 +238,10 @@ export function resultWords(input: ResultInput): string[] {
             : (high as number) < 0
               ? 'the whole range is below no change: it is likely worse.'
               : 'the range includes no change, so the data cannot yet tell better from worse.';
-        return `${labels[j + 1]}: the ${what} is most likely about ${show(median as number)}; with ${levelText} probability it lies between ${show(low as number)} and ${show(high as number)}, and ${side}`;
+        return (
+          `${labels[j + 1]}: the ${what} is most likely about ${show(median as number)}; with ${levelText} ` +
+          `probability it lies between ${show(low as number)} and ${show(high as number)}, and ${side}`
+        );
       });
     }
     case 'RATE_INTERVAL':
@@ -231,23 +250,32 @@ export function resultWords(input: ResultInput): string[] {
       const rows = each(2);
       if (!rows.every((v) => v.every(isNumber))) return [];
       const show = (x: number): string => (family === 'conversion' ? formatPercent(x, locale) : plain(x, locale));
-      return rows.map((v, i) => `${labels[i]}: ${levelText} probability that its ${noun} lies between ${show(v[0] as number)} and ${show(v[1] as number)}.`);
+      return rows.map(
+        (v, i) =>
+          `${labels[i]}: ${levelText} probability that its ${noun} lies between ${show(v[0] as number)} and ` +
+          `${show(v[1] as number)}.`,
+      );
     }
     case 'POSTERIOR_MEAN': {
       const rows = each(1);
       if (!rows.every((v) => isNumber(v[0]))) return [];
-      return [`Expected ${noun} of each variant: ${rows.map((v, i) => `${labels[i]} ${formatPercent(v[0] as number, locale)}`).join(', ')}.`];
+      return [
+        `Expected ${noun} of each variant: ` +
+          `${rows.map((v, i) => `${labels[i]} ${formatPercent(v[0] as number, locale)}`).join(', ')}.`,
+      ];
     }
     case 'EXPECTED_LOSS':
     case 'MEAN_EXPECTED_LOSS':
     case 'EVENTS_EXPECTED_LOSS': {
       const rows = each(1);
       if (!rows.every((v) => isNumber(v[0]))) return [];
-      const show = (x: number): string => (family === 'conversion' ? points(x, locale, false) : `${plain(x, locale)} (in the units of the ${noun})`);
+      const show = (x: number): string =>
+        family === 'conversion' ? points(x, locale, false) : `${plain(x, locale)} (in the units of the ${noun})`;
       const losses = rows.map((v, i) => ({ label: labels[i] ?? '', loss: v[0] as number }));
       const best = losses.reduce((a, b) => (b.loss < a.loss ? b : a));
       return [
-        `Choosing ${best.label} is the least risky: if it is not the best, it gives up ${show(best.loss)} of ${noun} on average.`,
+        `Choosing ${best.label} is the least risky: if it is not the best, it gives up ${show(best.loss)} of ${noun} ` +
+          `on average.`,
         `Expected loss of each choice: ${losses.map((l) => `${l.label} ${show(l.loss)}`).join(', ')}.`,
       ];
     }
@@ -256,15 +284,23 @@ export function resultWords(input: ResultInput): string[] {
     case 'SRM_PVALUE':
       if (!isNumber(first)) return [];
       return first < 0.001
-        ? [`The split check gives p = ${first.toExponential(1)}, below 0.001: the visitors are not split as planned. Find out why (bots, redirects, a variant that fails) before trusting any read-out.`]
+        ? [
+            `The split check gives p = ${first.toExponential(1)}, below 0.001: the visitors are not split as ` +
+              `planned. Find out why (bots, redirects, a variant that fails) before trusting any read-out.`,
+          ]
         : [`The split check gives p = ${plain(first, locale)}: no sign of a broken split.`];
     case 'VISITORS_NEEDED':
-      return isNumber(first) ? [`Each variant needs ${formatCount(first, locale)} visitors for that decision power.`] : [];
+      return isNumber(first)
+        ? [`Each variant needs ${formatCount(first, locale)} visitors for that decision power.`]
+        : [];
     case 'CLASSIC_SAMPLE_SIZE':
       return isNumber(first) ? [`The classic z-test needs ${formatCount(first, locale)} visitors per variant.`] : [];
     case 'DECISION_POWER': {
       if (!isNumber(first)) return [];
-      return [`A test of that size ends with a decision for the challenger ${chanceText(first, locale)} of the time (when its lift is as given; with lift 0 this is the false-alarm rate).`];
+      return [
+        `A test of that size ends with a decision for the challenger ${chanceText(first, locale)} of the time (when ` +
+          `its lift is as given; with lift 0 this is the false-alarm rate).`,
+      ];
     }
     case 'PRIOR_FROM_MEAN':
     case 'PRIOR_FROM_INTERVAL':
@@ -272,7 +308,9 @@ export function resultWords(input: ResultInput): string[] {
       const [alpha, beta] = input.values[0] ?? [];
       if (!isNumber(alpha) || !isNumber(beta)) return [];
       return [
-        `A Beta(${plain(alpha, locale)}, ${plain(beta, locale)}) prior: its mean rate is ${formatPercent(alpha / (alpha + beta), locale)} and it counts like ${formatCount(alpha + beta, locale)} visitors in every variant.`,
+        `A Beta(${plain(alpha, locale)}, ${plain(beta, locale)}) prior: its mean rate is ` +
+          `${formatPercent(alpha / (alpha + beta), locale)} and it counts like ${formatCount(alpha + beta, locale)} ` +
+          `visitors in every variant.`,
       ];
     }
     case 'POSTERIOR_DENSITY':
@@ -281,7 +319,9 @@ export function resultWords(input: ResultInput): string[] {
       if (grid.length < 2) return [];
       const ends = (x: number): string => (name === 'LIFT_DENSITY' ? signed(x, locale) : formatPercent(x, locale));
       return [
-        `A table for a chart: ${grid.length} rows from ${ends(grid[0] as number)} to ${ends(grid[grid.length - 1] as number)}; a taller value means a more plausible ${name === 'LIFT_DENSITY' ? 'lift' : 'rate'}.`,
+        `A table for a chart: ${grid.length} rows from ${ends(grid[0] as number)} to ` +
+          `${ends(grid[grid.length - 1] as number)}; a taller value means a more plausible ` +
+          `${name === 'LIFT_DENSITY' ? 'lift' : 'rate'}.`,
       ];
     }
     default:
@@ -292,11 +332,18 @@ export function resultWords(input: ResultInput): string[] {
 /** What an error value in a cell means, in words, for the error codes Excel shows. */
 export const ERROR_MEANINGS: Readonly<Record<string, string>> = Object.freeze({
   '#VALUE!':
-    'An argument holds something the function cannot use: text where a number belongs (even "120" typed as text), a blank on only one side of a pair, or a number outside its range (more conversions than visitors, a level of 95 where the function takes 0.95).',
-  '#N/A': 'The result does not exist for these inputs (for example a relative lift over a control whose rate could be zero or below, or a prior the past results cannot pin down).',
+    'An argument holds something the function cannot use: text where a number belongs (even "120" typed as text), a ' +
+    'blank on only one side of a pair, or a number outside its range (more conversions than visitors, a level of ' +
+    '95 where the function takes 0.95).',
+  '#N/A':
+    'The result does not exist for these inputs (for example a relative lift over a control whose rate could be zero ' +
+    'or below, or a prior the past results cannot pin down).',
   '#NUM!': 'A number is outside what the function can compute, for example a lift too small to plan for.',
-  '#SPILL!': 'The result needs more cells than the one holding the formula, and some of them are not empty. Clear the cells below or to the right.',
-  '#NAME?': 'Excel does not know the function: the Lift Ledger add-in is not loaded in this workbook, or the name is misspelt.',
+  '#SPILL!':
+    'The result needs more cells than the one holding the formula, and some of them are not empty. Clear the cells ' +
+    'below or to the right.',
+  '#NAME?':
+    'Excel does not know the function: the Lift Ledger add-in is not loaded in this workbook, or the name is misspelt.',
   '#BUSY!': 'The function is still computing. Wait a moment.',
   '#CALC!': 'Excel could not compute the formula as a whole (for example an empty array).',
   '#REF!': 'The formula refers to cells that no longer exist (a deleted row, column or sheet).',
@@ -329,7 +376,11 @@ export function resultSizeOf(formula: string): ResultSize | null {
     const data = parseAddress(call.args[0] ?? '');
     const pointsText = shape.kind === 'densityTable' ? (call.args[2] ?? '') : '';
     const points = /^\d+$/.test(pointsText.trim()) ? Number(pointsText) : undefined;
-    return resultSize(shape, { rows: data.end.row - data.start.row + 1, columns: data.end.column - data.start.column + 1 }, points);
+    return resultSize(
+      shape,
+      { rows: data.end.row - data.start.row + 1, columns: data.end.column - data.start.column + 1 },
+      points,
+    );
   } catch {
     return null;
   }

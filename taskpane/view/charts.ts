@@ -163,7 +163,12 @@ function markerPlugin(markers: readonly Marker[], textColour: string, background
 }
 
 /** Axis options shared by the charts. */
-function axis(colours: Colours, title: string, format: (value: number) => string, extra: Record<string, unknown> = {}): Record<string, unknown> {
+function axis(
+  colours: Colours,
+  title: string,
+  format: (value: number) => string,
+  extra: Record<string, unknown> = {},
+): Record<string, unknown> {
   return {
     type: 'linear',
     title: { display: title !== '', text: title, color: colours.text },
@@ -186,7 +191,9 @@ function plausibilityAxis(colours: Colours): Record<string, unknown> {
 
 /** "4%" or "4.5%" for an axis tick given in percent units. */
 function tickPercent(value: number, locale: NumberLocale): string {
-  return formatPercent(Number((value / 100).toPrecision(4)), locale).replace(/([.,]\d*?)0+%$/, '$1%').replace(/[.,]%$/, '%');
+  return formatPercent(Number((value / 100).toPrecision(4)), locale)
+    .replace(/([.,]\d*?)0+%$/, '$1%')
+    .replace(/[.,]%$/, '%');
 }
 
 /**
@@ -194,7 +201,12 @@ function tickPercent(value: number, locale: NumberLocale): string {
  * Cost O(points).
  * @example drawPriorChart(slot, curve, summary)
  */
-export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSummary, locale: NumberLocale = DEFAULT_LOCALE): void {
+export function drawPriorChart(
+  slot: ChartSlot,
+  curve: Curve,
+  summary: PriorSummary,
+  locale: NumberLocale = DEFAULT_LOCALE,
+): void {
   const colours = themeColours(slot.canvas);
   const points = curve.x.map((x, i) => ({ x: x * 100, y: curve.y[i] ?? 0 }));
   const inRange = points.filter((pt) => pt.x >= summary.low90 * 100 && pt.x <= summary.high90 * 100);
@@ -216,7 +228,15 @@ export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSumm
             pointRadius: 0,
             parsing: false,
           },
-          { label: 'Prior belief', data: points, borderColor: colours.line, backgroundColor: colours.line, pointRadius: 0, borderWidth: 2, parsing: false },
+          {
+            label: 'Prior belief',
+            data: points,
+            borderColor: colours.line,
+            backgroundColor: colours.line,
+            pointRadius: 0,
+            borderWidth: 2,
+            parsing: false,
+          },
         ],
       },
       options: {
@@ -232,7 +252,13 @@ export function drawPriorChart(slot: ChartSlot, curve: Curve, summary: PriorSumm
           tooltip: { enabled: false },
         },
       },
-      plugins: [markerPlugin([{ axis: 'x', at: summary.mean * 100, label: `mean ${mean}`, colour: colours.accent, dash: [4, 3] }], colours.strong, colours.background)],
+      plugins: [
+        markerPlugin(
+          [{ axis: 'x', at: summary.mean * 100, label: `mean ${mean}`, colour: colours.accent, dash: [4, 3] }],
+          colours.strong,
+          colours.background,
+        ),
+      ],
     } as ChartConfiguration,
     description,
   );
@@ -252,14 +278,24 @@ export function drawPowerChart(
 ): void {
   const colours = themeColours(slot.canvas);
   const data = points.map((pt) => ({ x: pt.visitorsPerVariant, y: pt.power * 100 }));
-  const description = `Decision power against visitors per variant; the plan needs ${formatCount(planned, locale)} visitors per variant for ${formatPercent(target, locale)} power.`;
+  const description =
+    `Decision power against visitors per variant; the plan needs ${formatCount(planned, locale)} ` +
+    `visitors per variant for ${formatPercent(target, locale)} power.`;
   replace(
     slot,
     {
       type: 'line',
       data: {
         datasets: [
-          { label: 'Decision power', data, borderColor: colours.line, backgroundColor: colours.line, pointRadius: 3, borderWidth: 2, parsing: false },
+          {
+            label: 'Decision power',
+            data,
+            borderColor: colours.line,
+            backgroundColor: colours.line,
+            pointRadius: 3,
+            borderWidth: 2,
+            parsing: false,
+          },
         ],
       },
       options: {
@@ -275,7 +311,13 @@ export function drawPowerChart(
       plugins: [
         markerPlugin(
           [
-            { axis: 'y', at: target * 100, label: `target ${formatPercent(target, locale)}`, colour: colours.accent, dash: [4, 3] },
+            {
+              axis: 'y',
+              at: target * 100,
+              label: `target ${formatPercent(target, locale)}`,
+              colour: colours.accent,
+              dash: [4, 3],
+            },
             { axis: 'x', at: planned, label: 'planned', colour: colours.text, dash: [2, 3], width: 1 },
           ],
           colours.strong,
@@ -302,7 +344,11 @@ export interface LiftSeries {
  * challenger's middle 90% shaded. Cost O(points × challengers).
  * @example drawLiftChart(slot, [{ name: 'Orange button', lift, height, low90: -0.02, high90: 0.25 }])
  */
-export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], locale: NumberLocale = DEFAULT_LOCALE): void {
+export function drawLiftChart(
+  slot: ChartSlot,
+  series: readonly LiftSeries[],
+  locale: NumberLocale = DEFAULT_LOCALE,
+): void {
   const colours = themeColours(slot.canvas);
   const datasets: ChartDataset<'line', { x: number; y: number }[]>[] = [];
   series.forEach((s, i) => {
@@ -317,13 +363,23 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
       pointRadius: 0,
       parsing: false,
     });
-    datasets.push({ label: s.name, data: points, borderColor: colour, backgroundColor: colour, pointRadius: 0, borderWidth: 2, parsing: false });
+    datasets.push({
+      label: s.name,
+      data: points,
+      borderColor: colour,
+      backgroundColor: colour,
+      pointRadius: 0,
+      borderWidth: 2,
+      parsing: false,
+    });
   });
   const all = series.flatMap((s) => s.lift.map((x) => x * 100));
   const { min, max, step } = niceRange(Math.min(0, ...all), Math.max(0, ...all));
   const description =
     'Lift over the control: ' +
-    series.map((s) => `${s.name}, 90% between ${signedPercent(s.low90, locale)} and ${signedPercent(s.high90, locale)}`).join('; ') +
+    series
+      .map((s) => `${s.name}, 90% between ${signedPercent(s.low90, locale)} and ${signedPercent(s.high90, locale)}`)
+      .join('; ') +
     '.';
   replace(
     slot,
@@ -335,19 +391,41 @@ export function drawLiftChart(slot: ChartSlot, series: readonly LiftSeries[], lo
         responsive: true,
         maintainAspectRatio: false,
         scales: {
-          x: axis(colours, 'lift over the control', (v) => (v > 0 ? `+${tickPercent(v, locale)}` : tickPercent(v, locale)), {
-            min,
-            max,
-            ticks: { color: colours.text, stepSize: step, callback: (v: number | string) => (Number(v) > 0 ? `+${tickPercent(Number(v), locale)}` : tickPercent(Number(v), locale)) },
-          }),
+          x: axis(
+            colours,
+            'lift over the control',
+            (v) => (v > 0 ? `+${tickPercent(v, locale)}` : tickPercent(v, locale)),
+            {
+              min,
+              max,
+              ticks: {
+                color: colours.text,
+                stepSize: step,
+                callback: (v: number | string) =>
+                  Number(v) > 0 ? `+${tickPercent(Number(v), locale)}` : tickPercent(Number(v), locale),
+              },
+            },
+          ),
           y: plausibilityAxis(colours),
         },
         plugins: {
-          legend: { labels: { color: colours.text, boxWidth: 12, filter: (item: { text: string }) => !item.text.includes('middle 90%') || series.length === 1 } },
+          legend: {
+            labels: {
+              color: colours.text,
+              boxWidth: 12,
+              filter: (item: { text: string }) => !item.text.includes('middle 90%') || series.length === 1,
+            },
+          },
           tooltip: { enabled: false },
         },
       },
-      plugins: [markerPlugin([{ axis: 'x', at: 0, label: 'no lift', colour: colours.strong, width: 2 }], colours.strong, colours.background)],
+      plugins: [
+        markerPlugin(
+          [{ axis: 'x', at: 0, label: 'no lift', colour: colours.strong, width: 2 }],
+          colours.strong,
+          colours.background,
+        ),
+      ],
     } as ChartConfiguration,
     description,
   );
@@ -362,7 +440,7 @@ export function niceRange(low: number, high: number): { min: number; max: number
   const span = high - low > 0 ? high - low : Math.max(1, Math.abs(high));
   const raw = span / 5;
   const power = 10 ** Math.floor(Math.log10(raw));
-  const step = ([1, 2, 5, 10].map((m) => m * power).find((s) => s >= raw) ?? 10 * power);
+  const step = [1, 2, 5, 10].map((m) => m * power).find((s) => s >= raw) ?? 10 * power;
   return { min: Math.floor(low / step) * step, max: Math.ceil(high / step) * step, step };
 }
 

@@ -19,7 +19,14 @@ import {
   type ResultShape,
   type ResultSize,
 } from '../logic/resultWords';
-import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress, type CellPosition } from '../workbook/address';
+import {
+  cellAddress,
+  columnLetters,
+  parseAddress,
+  quoteSheet,
+  rangeAddress,
+  type CellPosition,
+} from '../workbook/address';
 import type { CellValue, RangeContents } from '../workbook/workbook';
 import { chartSlot, drawLiftChart } from './charts';
 import type { PanelContext } from './context';
@@ -40,10 +47,22 @@ export const SPILL_SEARCH_COLUMNS = 12;
 const NAME_SEARCH_COLUMNS = 8;
 
 /** Functions whose result compares challengers with the control on conversion data: the lift chart fits them. */
-const LIFT_CHART_FUNCTIONS = new Set(['PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'RATE_DIFF_INTERVAL', 'PROB_LIFT_ABOVE', 'LIFT_DENSITY', 'PROB_HIGHEST', 'EXPECTED_LOSS', 'DECISION']);
+const LIFT_CHART_FUNCTIONS = new Set([
+  'PROB_ABOVE_CONTROL',
+  'LIFT_INTERVAL',
+  'RATE_DIFF_INTERVAL',
+  'PROB_LIFT_ABOVE',
+  'LIFT_DENSITY',
+  'PROB_HIGHEST',
+  'EXPECTED_LOSS',
+  'DECISION',
+]);
 
 /** The parts of a per-variant block, by its width. */
-const PART_NAMES: Readonly<Record<number, readonly string[]>> = { 2: ['lower end', 'upper end'], 3: ['lower end', 'median', 'upper end'] };
+const PART_NAMES: Readonly<Record<number, readonly string[]>> = {
+  2: ['lower end', 'upper end'],
+  3: ['lower end', 'median', 'upper end'],
+};
 
 /** The Explain section and the function that refreshes it from the current selection. */
 export interface ExplainSection {
@@ -62,12 +81,18 @@ function variantsIn(text: string): number {
 }
 
 /** Which part of a result a cell holds ("the median of Orange button"), or null when that is not clear. */
-function partOf(shape: ResultShape | undefined, size: ResultSize, down: number, across: number, labels: readonly string[]): string | null {
+function partOf(
+  shape: ResultShape | undefined,
+  size: ResultSize,
+  down: number,
+  across: number,
+  labels: readonly string[],
+): string | null {
   if (shape?.kind === 'perVariant') {
     const variant = labels[size.alongRow ? across : down];
     const part = PART_NAMES[shape.width]?.[size.alongRow ? down : across];
     if (variant === undefined) return null;
-    if (shape.versusControl && (size.alongRow ? across : down) === 0) return 'the control\'s slot, left empty';
+    if (shape.versusControl && (size.alongRow ? across : down) === 0) return "the control's slot, left empty";
     return part ? `the ${part} for ${variant}` : `the value for ${variant}`;
   }
   if (shape?.kind === 'densityTable') {
@@ -90,7 +115,13 @@ function qualified(sheet: string, address: string): string {
  * @example const explain = explainSection(context); await explain.refresh()
  */
 export function explainSection(context: PanelContext): ExplainSection {
-  const root = el('section', { id: 'section-explain', class: 'section', hidden: true, role: 'tabpanel', 'aria-labelledby': 'tab-explain' });
+  const root = el('section', {
+    id: 'section-explain',
+    class: 'section',
+    hidden: true,
+    role: 'tabpanel',
+    'aria-labelledby': 'tab-explain',
+  });
   const output = el('div', { id: 'explain-output', 'aria-live': 'polite' });
   const refreshButton = button('explain-refresh', 'Explain the selected cell');
   const slot = chartSlot('explain-chart', 'Lift over the control');
@@ -102,7 +133,12 @@ export function explainSection(context: PanelContext): ExplainSection {
   });
   root.append(
     el('h2', {}, 'Explain'),
-    el('p', { class: 'hint' }, 'Select a cell with an =ABTEST. result (any cell of it): what it says, how it was computed, and how to check it with Excel alone.'),
+    el(
+      'p',
+      { class: 'hint' },
+      'Select a cell with an =ABTEST. result (any cell of it): what it says, how it was computed, and how to check ' +
+        'it with Excel alone.',
+    ),
     el('div', { class: 'actions' }, refreshButton),
     output,
     cautionLink,
@@ -140,7 +176,10 @@ export function explainSection(context: PanelContext): ExplainSection {
   const numbersIn = async (text: string, sheet: string): Promise<number[] | null> => {
     try {
       const parsed = parseAddress(text.trim());
-      const block = await readOrNull(rangeAddress(parsed.start, parsed.end.row - parsed.start.row + 1, parsed.end.column - parsed.start.column + 1), parsed.sheet || sheet);
+      const block = await readOrNull(
+        rangeAddress(parsed.start, parsed.end.row - parsed.start.row + 1, parsed.end.column - parsed.start.column + 1),
+        parsed.sheet || sheet,
+      );
       const cells = block?.values.flat() ?? [];
       return cells.length > 0 && cells.every((v) => typeof v === 'number') ? (cells as number[]) : null;
     } catch {
@@ -156,11 +195,20 @@ export function explainSection(context: PanelContext): ExplainSection {
     const fallback = Array.from({ length: count }, (_, i) => columnLetters(i));
     if (count === 0) return [];
     const fromBlock = (cells: CellValue[]): string[] | null =>
-      cells.length === count && cells.every((v) => typeof v === 'string' && v.trim() !== '' && !v.startsWith('#')) ? cells.map((v) => String(v).trim()) : null;
+      cells.length === count && cells.every((v) => typeof v === 'string' && v.trim() !== '' && !v.startsWith('#'))
+        ? cells.map((v) => String(v).trim())
+        : null;
     try {
       if (labelsText.trim() !== '') {
         const parsed = parseAddress(labelsText.trim());
-        const block = await readOrNull(rangeAddress(parsed.start, parsed.end.row - parsed.start.row + 1, parsed.end.column - parsed.start.column + 1), parsed.sheet || sheet);
+        const block = await readOrNull(
+          rangeAddress(
+            parsed.start,
+            parsed.end.row - parsed.start.row + 1,
+            parsed.end.column - parsed.start.column + 1,
+          ),
+          parsed.sheet || sheet,
+        );
         const found = block === null ? null : fromBlock(block.values.flat());
         if (found !== null) return found;
       }
@@ -169,7 +217,10 @@ export function explainSection(context: PanelContext): ExplainSection {
       const alongRow = data.start.row === data.end.row && data.end.column > data.start.column;
       if (alongRow) {
         const above = Math.max(0, data.start.row - NAME_SEARCH_COLUMNS);
-        const block = await readOrNull(rangeAddress({ row: above, column: data.start.column }, data.start.row - above || 1, count), onSheet);
+        const block = await readOrNull(
+          rangeAddress({ row: above, column: data.start.column }, data.start.row - above || 1, count),
+          onSheet,
+        );
         for (let r = (block?.values.length ?? 0) - 1; r >= 0 && data.start.row > 0; r -= 1) {
           const found = fromBlock(block?.values[r] ?? []);
           if (found !== null) return found;
@@ -178,7 +229,10 @@ export function explainSection(context: PanelContext): ExplainSection {
       }
       const left = Math.max(0, data.start.column - NAME_SEARCH_COLUMNS);
       if (data.start.column === 0) return fallback;
-      const block = await readOrNull(rangeAddress({ row: data.start.row, column: left }, count, data.start.column - left), onSheet);
+      const block = await readOrNull(
+        rangeAddress({ row: data.start.row, column: left }, count, data.start.column - left),
+        onSheet,
+      );
       if (block === null) return fallback;
       for (let c = block.columnCount - 1; c >= 0; c -= 1) {
         const found = fromBlock(block.values.map((row) => row[c] ?? ''));
@@ -191,10 +245,16 @@ export function explainSection(context: PanelContext): ExplainSection {
   };
 
   /** The formula the selected cell shows a part of, looking up and left of it. */
-  const ownerOf = async (sheet: string, target: CellPosition): Promise<{ row: number; column: number; formula: string; size: ResultSize } | null> => {
+  const ownerOf = async (
+    sheet: string,
+    target: CellPosition,
+  ): Promise<{ row: number; column: number; formula: string; size: ResultSize } | null> => {
     const top = Math.max(0, target.row - SPILL_SEARCH_ROWS + 1);
     const left = Math.max(0, target.column - SPILL_SEARCH_COLUMNS + 1);
-    const block = await readOrNull(rangeAddress({ row: top, column: left }, target.row - top + 1, target.column - left + 1), sheet);
+    const block = await readOrNull(
+      rangeAddress({ row: top, column: left }, target.row - top + 1, target.column - left + 1),
+      sheet,
+    );
     if (block === null) return null;
     const owner = findSpillOwner(block.formulas, { row: top, column: left }, target);
     if (owner === null) return null;
@@ -228,19 +288,33 @@ export function explainSection(context: PanelContext): ExplainSection {
   };
 
   /** The lift chart for a conversion comparison, or null when it does not apply or cannot be drawn. */
-  const drawLift = async (name: string, args: readonly string[], labels: readonly string[], sheet: string): Promise<boolean> => {
+  const drawLift = async (
+    name: string,
+    args: readonly string[],
+    labels: readonly string[],
+    sheet: string,
+  ): Promise<boolean> => {
     if (!LIFT_CHART_FUNCTIONS.has(name)) return false;
     const signature = SIGNATURES[name];
     if (signature === undefined) return false;
     const argument = (argName: string): string => args[signature.args.indexOf(argName)] ?? '';
     const conversions = await numbersIn(argument('conversions'), sheet);
     const visitors = await numbersIn(argument('visitors'), sheet);
-    if (conversions === null || visitors === null || conversions.length !== visitors.length || conversions.length !== labels.length) return false;
+    if (
+      conversions === null ||
+      visitors === null ||
+      conversions.length !== visitors.length ||
+      conversions.length !== labels.length
+    )
+      return false;
     if (conversions.length - 1 > MAX_CHART_CHALLENGERS || conversions.length < 2) return false;
     const alpha = await numberOf(argument('prior_alpha'), sheet);
     const beta = await numberOf(argument('prior_beta'), sheet);
     const prior: BetaPrior = { alpha: alpha ?? 1, beta: beta ?? 1 };
-    const variants: ConversionCounts[] = conversions.map((x, i) => ({ conversions: x, visitors: visitors[i] as number }));
+    const variants: ConversionCounts[] = conversions.map((x, i) => ({
+      conversions: x,
+      visitors: visitors[i] as number,
+    }));
     try {
       drawLiftChart(slot, liftCurves(variants, labels, prior), locale);
       return true;
@@ -275,8 +349,18 @@ export function explainSection(context: PanelContext): ExplainSection {
       const explanation = explainFormula(anchor.formula, anchorAddress);
       if ('problem' in explanation) {
         chartBox.hidden = true;
-        const looked = selectedValue !== '' && parseAbtestCall(formulaText) === null ? ` It is not part of a result spilled from up to ${SPILL_SEARCH_ROWS} rows above or ${SPILL_SEARCH_COLUMNS} columns to the left.` : '';
-        output.replaceChildren(el('p', { id: 'explain-problem', class: 'hint' }, `${qualified(sheet, cell)}: ${explanation.problem}.${looked}`));
+        const looked =
+          selectedValue !== '' && parseAbtestCall(formulaText) === null
+            ? ` It is not part of a result spilled from up to ${SPILL_SEARCH_ROWS} rows above or ` +
+              `${SPILL_SEARCH_COLUMNS} columns to the left.`
+            : '';
+        output.replaceChildren(
+          el(
+            'p',
+            { id: 'explain-problem', class: 'hint' },
+            `${qualified(sheet, cell)}: ${explanation.problem}.${looked}`,
+          ),
+        );
         return;
       }
       const size = resultSizeOf(anchor.formula) ?? { rows: 1, columns: 1, alongRow: false };
@@ -289,21 +373,28 @@ export function explainSection(context: PanelContext): ExplainSection {
       const argument = (argName: string): string => args[signature?.args.indexOf(argName) ?? -1] ?? '';
       const dataText = args[0] ?? '';
       const shape = resultShapeOf(explanation.name);
-      const needsNames = shape?.kind === 'perVariant' || shape?.kind === 'densityTable' || explanation.name === 'DECISION';
+      const needsNames =
+        shape?.kind === 'perVariant' || shape?.kind === 'densityTable' || explanation.name === 'DECISION';
       const labels = needsNames ? await namesFor(dataText, argument('labels'), variantsIn(dataText), sheet) : [];
-      const numbers = { level: await numberOf(argument('level'), sheet), min_lift: await numberOf(argument('min_lift'), sheet) };
+      const numbers = {
+        level: await numberOf(argument('level'), sheet),
+        min_lift: await numberOf(argument('min_lift'), sheet),
+      };
       if (myRun !== run.id) return;
       const anchorValue = values[0]?.[0];
       const error = errorMeaning(anchorValue);
 
-      const parts: HTMLElement[] = [el('h3', { id: 'explain-name' }, `ABTEST.${explanation.name} in ${qualified(sheet, anchorAddress)}`)];
+      const parts: HTMLElement[] = [
+        el('h3', { id: 'explain-name' }, `ABTEST.${explanation.name} in ${qualified(sheet, anchorAddress)}`),
+      ];
       if (position !== null) {
         const part = partOf(shape, position.size, position.down, position.across, labels);
         parts.push(
           el(
             'p',
             { id: 'explain-spill' },
-            `${qualified(sheet, cell)} is part of the result of the formula in ${qualified(sheet, anchorAddress)} (${position.size.rows} × ${position.size.columns} cells)${part ? `: it holds ${part}` : ''}.`,
+            `${qualified(sheet, cell)} is part of the result of the formula in ${qualified(sheet, anchorAddress)} ` +
+              `(${position.size.rows} × ${position.size.columns} cells)${part ? `: it holds ${part}` : ''}.`,
           ),
         );
       }
@@ -314,7 +405,7 @@ export function explainSection(context: PanelContext): ExplainSection {
           found.kind === 'problem'
             ? ` Checking the inputs the way the function does: ${found.message}.`
             : found.kind === 'inputs fine'
-              ? ' The inputs pass the function\'s own checks, so the trouble arose while computing or around the function.'
+              ? " The inputs pass the function's own checks, so the trouble arose while computing or around the function."
               : ' In Excel, point at the cell to read its own message; it names the argument and the item.';
         parts.push(
           el(
@@ -338,7 +429,12 @@ export function explainSection(context: PanelContext): ExplainSection {
       if (showChart) {
         parts.push(
           el('h4', {}, 'Lift over the control'),
-          el('p', { class: 'hint', id: 'explain-chart-note' }, 'Each curve shows how plausible each lift of a challenger is; the shaded part holds the middle 90%. Right of the "no lift" line is better than the control.'),
+          el(
+            'p',
+            { class: 'hint', id: 'explain-chart-note' },
+            'Each curve shows how plausible each lift of a challenger is; the shaded part holds the middle 90%. ' +
+              'Right of the "no lift" line is better than the control.',
+          ),
           chartBox,
         );
       }
@@ -348,21 +444,43 @@ export function explainSection(context: PanelContext): ExplainSection {
         argumentList.append(el('li', {}, el('code', {}, arg.name), ` = ${arg.text}`));
       }
       const method = el('p', { id: 'explain-method' });
-      for (const piece of mathPieces(explanation.method)) method.append(piece.subscript ? el('sub', {}, piece.text) : piece.text);
+      for (const piece of mathPieces(explanation.method))
+        method.append(piece.subscript ? el('sub', {}, piece.text) : piece.text);
       parts.push(el('h4', {}, 'Arguments'), argumentList, el('h4', {}, 'Method'));
-      if (explanation.plainMethod !== null) parts.push(el('p', { id: 'explain-method-words' }, explanation.plainMethod));
+      if (explanation.plainMethod !== null)
+        parts.push(el('p', { id: 'explain-method-words' }, explanation.plainMethod));
       parts.push(method);
       if (explanation.crossCheck !== null) {
         const formulas = el('ul', { id: 'explain-formulas' });
-        for (const f of explanation.crossCheck.formulas) formulas.append(el('li', {}, el('code', { class: 'formula' }, f)));
-        parts.push(el('h4', {}, KIND_WORDS[explanation.crossCheck.kind]), el('p', { id: 'explain-crosscheck' }, `${explanation.crossCheck.what}:`), formulas);
+        for (const f of explanation.crossCheck.formulas)
+          formulas.append(el('li', {}, el('code', { class: 'formula' }, f)));
+        parts.push(
+          el('h4', {}, KIND_WORDS[explanation.crossCheck.kind]),
+          el('p', { id: 'explain-crosscheck' }, `${explanation.crossCheck.what}:`),
+          formulas,
+        );
       } else {
-        parts.push(el('p', { id: 'explain-crosscheck', class: 'hint' }, 'No built-in Excel formula computes this; the method above is how Lift Ledger does.'));
+        parts.push(
+          el(
+            'p',
+            { id: 'explain-crosscheck', class: 'hint' },
+            'No built-in Excel formula computes this; the method above is how Lift Ledger does.',
+          ),
+        );
       }
-      if (explanation.caution !== null) parts.push(el('fluent-message-bar', { intent: 'warning', layout: 'multiline', id: 'explain-caution' }, explanation.caution));
+      if (explanation.caution !== null)
+        parts.push(
+          el(
+            'fluent-message-bar',
+            { intent: 'warning', layout: 'multiline', id: 'explain-caution' },
+            explanation.caution,
+          ),
+        );
       output.replaceChildren(...parts);
     } catch (error) {
-      output.replaceChildren(el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`));
+      output.replaceChildren(
+        el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`),
+      );
     }
   };
   refreshButton.addEventListener('click', () => void refresh());

@@ -31,7 +31,13 @@ export const PLAN_DEBOUNCE_MS = 350;
  * @example section.append(planSection(context))
  */
 export function planSection(context: PanelContext): HTMLElement {
-  const root = el('section', { id: 'section-plan', class: 'section', hidden: true, role: 'tabpanel', 'aria-labelledby': 'tab-plan' });
+  const root = el('section', {
+    id: 'section-plan',
+    class: 'section',
+    hidden: true,
+    role: 'tabpanel',
+    'aria-labelledby': 'tab-plan',
+  });
   const fields: Record<keyof PlanTexts, Field> = {
     baselineRate: textField('plan-baseline', 'Baseline conversion rate', '4', { unit: '%' }),
     lift: textField('plan-lift', 'Smallest lift worth detecting (relative)', '10', { unit: '%' }),
@@ -54,7 +60,13 @@ export function planSection(context: PanelContext): HTMLElement {
   const freshness = el('p', { id: 'plan-freshness', class: 'hint' });
   const duration = el('div', { id: 'plan-duration' });
   const note = el('div', { id: 'plan-note' });
-  const progress = el('fluent-progress-bar', { id: 'plan-progress', max: '1', value: '0', hidden: true, 'aria-label': 'Computing decision power' });
+  const progress = el('fluent-progress-bar', {
+    id: 'plan-progress',
+    max: '1',
+    value: '0',
+    hidden: true,
+    'aria-label': 'Computing decision power',
+  });
   const progressText = el('p', { id: 'plan-progress-text', class: 'hint' });
   const slot = chartSlot('plan-chart', 'Decision power against visitors per variant');
   const status = el('div', { id: 'plan-status' });
@@ -65,7 +77,12 @@ export function planSection(context: PanelContext): HTMLElement {
   });
   root.append(
     el('h2', {}, 'Plan'),
-    el('p', { class: 'hint' }, 'How many visitors the test needs so that a real lift of the size you care about ends with a clear decision. Fields marked % take percents: type 5 for 5%.'),
+    el(
+      'p',
+      { class: 'hint' },
+      'How many visitors the test needs so that a real lift of the size you care about ends with a clear decision. ' +
+        'Fields marked % take percents: type 5 for 5%.',
+    ),
     ...Object.values(fields).map((field) => field.element),
     usePrior.element,
     el('h3', {}, 'The plan'),
@@ -82,7 +99,11 @@ export function planSection(context: PanelContext): HTMLElement {
   );
 
   /** The run being computed (each change starts a new one) and the inputs of the numbers on screen. */
-  const run = { id: 0, shown: null as PlanInputs | null, timer: undefined as ReturnType<typeof setTimeout> | undefined };
+  const run = {
+    id: 0,
+    shown: null as PlanInputs | null,
+    timer: undefined as ReturnType<typeof setTimeout> | undefined,
+  };
 
   const texts = (): PlanTexts => {
     const out = {} as Record<keyof PlanTexts, string>;
@@ -104,10 +125,13 @@ export function planSection(context: PanelContext): HTMLElement {
     const base = reading.fields.baselineRate;
     liftHint.textContent =
       lift.ok && base.ok
-        ? `A lift of ${formatPercent(lift.value, context.locale)} takes the rate from ${formatPercent(base.value, context.locale)} to ${formatPercent(base.value * (1 + lift.value), context.locale)}.`
+        ? `A lift of ${formatPercent(lift.value, context.locale)} takes the rate from ` +
+          `${formatPercent(base.value, context.locale)} to ` +
+          `${formatPercent(base.value * (1 + lift.value), context.locale)}.`
         : 'Relative: 10 means the rate goes from 4% to 4.4%.';
     const problems = [...reading.problems];
-    if (wantsPrior && context.state.prior === null) problems.push('choose a prior in the Prior section first, or untick "Plan with the prior"');
+    if (wantsPrior && context.state.prior === null)
+      problems.push('choose a prior in the Prior section first, or untick "Plan with the prior"');
     const fieldErrors = Object.values(reading.fields).filter((f) => !f.ok);
     return { inputs: fieldErrors.length === 0 && problems.length === 0 ? reading.inputs : null, problems };
   };
@@ -128,7 +152,11 @@ export function planSection(context: PanelContext): HTMLElement {
       run.shown = null;
       results.classList.remove('stale');
       results.replaceChildren(
-        el('p', { class: 'error-text' }, problems.length > 0 ? `Check the inputs: ${problems.join('; ')}.` : 'Check the fields marked in red above.'),
+        el(
+          'p',
+          { class: 'error-text' },
+          problems.length > 0 ? `Check the inputs: ${problems.join('; ')}.` : 'Check the fields marked in red above.',
+        ),
       );
       freshness.textContent = '';
       showMessage(duration, 'info', null);
@@ -157,18 +185,26 @@ export function planSection(context: PanelContext): HTMLElement {
         el(
           'p',
           { id: 'plan-days' },
-          `Run for ${weeksWords} (${formatCount(numbers.days, locale)} days) at ${formatCount(numbers.testVisitorsPerDay, locale)} test visitors a day. ` +
-            `The visitors alone take ${formatCount(numbers.daysOfTraffic, locale)} ${numbers.daysOfTraffic === 1 ? 'day' : 'days'}; whole weeks give every weekday its share.`,
+          `Run for ${weeksWords} (${formatCount(numbers.days, locale)} days) at ` +
+            `${formatCount(numbers.testVisitorsPerDay, locale)} test visitors a day. ` +
+            `The visitors alone take ${formatCount(numbers.daysOfTraffic, locale)} ` +
+            `${numbers.daysOfTraffic === 1 ? 'day' : 'days'}; whole weeks give every weekday its share.`,
         ),
         el(
           'p',
           { id: 'plan-classic' },
-          `Classic z-test size per variant, for comparison: ${formatCount(numbers.classicPerVariant, locale)} (two-sided, ${formatPercent(numbers.classicAlphaPerChallenger, locale)} level${inputs.variants > 2 ? ' per challenger' : ''})`,
+          `Classic z-test size per variant, for comparison: ${formatCount(numbers.classicPerVariant, locale)} ` +
+            `(two-sided, ${formatPercent(numbers.classicAlphaPerChallenger, locale)} ` +
+            `level${inputs.variants > 2 ? ' per challenger' : ''})`,
         ),
       );
       const check = durationCheck(numbers.days, locale);
       showMessage(duration, check.level === 'unrealistic' ? 'error' : 'warning', check.text);
-      showMessage(note, 'warning', inputs.variants > 2 ? PLAN_THRESHOLD_SOURCE.explain(inputs.threshold, inputs.variants, locale) : null);
+      showMessage(
+        note,
+        'warning',
+        inputs.variants > 2 ? PLAN_THRESHOLD_SOURCE.explain(inputs.threshold, inputs.variants, locale) : null,
+      );
       setBusy(insertButton, false);
       context.notify('plan');
       const sizes = curveSizes(numbers.visitorsPerVariant);
@@ -185,7 +221,9 @@ export function planSection(context: PanelContext): HTMLElement {
       });
       if (myRun === run.id) {
         progress.hidden = true;
-        progressText.textContent = `Decision power of each challenger at ¼ to 2 times the planned size (exact binomial sums${inputs.variants > 2 ? ', at the per-challenger threshold' : ''}).`;
+        progressText.textContent =
+          `Decision power of each challenger at ¼ to 2 times the planned size (exact ` +
+          `binomial sums${inputs.variants > 2 ? ', at the per-challenger threshold' : ''}).`;
       }
     } catch (error) {
       if (myRun !== run.id) return;
@@ -211,7 +249,11 @@ export function planSection(context: PanelContext): HTMLElement {
     const shown = run.shown;
     const current = read().inputs;
     if (shown === null || current === null || !samePlan(shown, current) || results.classList.contains('stale')) {
-      showMessage(status, 'warning', 'The plan on screen is not the one for the current inputs yet. Wait until it is updated, then insert it.');
+      showMessage(
+        status,
+        'warning',
+        'The plan on screen is not the one for the current inputs yet. Wait until it is updated, then insert it.',
+      );
       return;
     }
     setBusy(insertButton, true);

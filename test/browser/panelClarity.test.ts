@@ -10,7 +10,15 @@ import type { Frame, Page } from 'playwright-core';
 import { probHighest } from '../../functions/stats/conversion';
 import { visitorsNeeded } from '../../functions/stats/planning';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import { enterCell, openPreview, panelFrame, readCell, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  enterCell,
+  openPreview,
+  panelFrame,
+  readCell,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 async function fill(frame: Frame, id: string, text: string): Promise<void> {
   await frame.locator(`#${id} input`).fill(text);
@@ -23,7 +31,11 @@ async function focusedId(frame: Frame): Promise<string> {
 
 /** Which sections are shown. */
 async function shownSections(frame: Frame): Promise<string[]> {
-  return frame.evaluate(() => Array.from(document.querySelectorAll('main > section')).filter((s) => !(s as HTMLElement).hidden).map((s) => s.id));
+  return frame.evaluate(() =>
+    Array.from(document.querySelectorAll('main > section'))
+      .filter((s) => !(s as HTMLElement).hidden)
+      .map((s) => s.id),
+  );
 }
 
 /** Opens the preview at `query` (e.g. "?theme=dark") and returns the panel once its tabs are there. */
@@ -51,7 +63,9 @@ describe('the side panel, clear to a marketer', () => {
 
   it('tabs follow the WAI-ARIA pattern: one tab stop, arrows and Home/End show the section, Enter and Space too', async () => {
     await panel.locator('#tab-prior').click();
-    const tabIndexes = await panel.evaluate(() => Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => (t as HTMLElement).tabIndex));
+    const tabIndexes = await panel.evaluate(() =>
+      Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => (t as HTMLElement).tabIndex),
+    );
     expect(tabIndexes).toEqual([0, -1, -1, -1, -1]);
     await panel.locator('#tab-prior').focus();
     await page.keyboard.press('ArrowRight');
@@ -72,7 +86,11 @@ describe('the side panel, clear to a marketer', () => {
     expect(await shownSections(panel)).toEqual(['section-plan']);
     await page.keyboard.press('Space');
     expect(await shownSections(panel)).toEqual(['section-plan']);
-    expect(await panel.evaluate(() => Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => (t as HTMLElement).tabIndex))).toEqual([-1, 0, -1, -1, -1]);
+    expect(
+      await panel.evaluate(() =>
+        Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => (t as HTMLElement).tabIndex),
+      ),
+    ).toEqual([-1, 0, -1, -1, -1]);
     // one way to the cautions: the tab (no second Cautions button in the header)
     expect(await panel.locator('header fluent-button').count()).toBe(0);
   });
@@ -90,7 +108,9 @@ describe('the side panel, clear to a marketer', () => {
     await fill(panel, 'plan-baseline', '4,5');
     const needed = visitorsNeeded(0.045, 0.1, 0.95, 0.8, UNIFORM_PRIOR);
     await panel.locator('#plan-per-variant', { hasText: needed.toLocaleString('en-US') }).waitFor();
-    expect(await panel.locator('#plan-lift-example').textContent()).toBe('A lift of 10.0% takes the rate from 4.50% to 4.95%.');
+    expect(await panel.locator('#plan-lift-example').textContent()).toBe(
+      'A lift of 10.0% takes the rate from 4.50% to 4.95%.',
+    );
     expect(await panel.locator('#plan-threshold-message').isHidden()).toBe(true);
     // every percent field shows its unit inside it
     expect(await panel.locator('#section-plan fluent-text-input[data-unit="%"]').count()).toBe(6);
@@ -99,13 +119,19 @@ describe('the side panel, clear to a marketer', () => {
   it('never shows or inserts a plan for other inputs: old numbers are marked out of date until updated', async () => {
     await switchSheet(page, 'Plan');
     await fill(panel, 'plan-baseline', '4');
-    await panel.locator('#plan-per-variant', { hasText: visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US') }).waitFor();
+    await panel
+      .locator('#plan-per-variant', {
+        hasText: visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US'),
+      })
+      .waitFor();
     await panel.locator('#plan-results:not(.stale)').waitFor();
     await fill(panel, 'plan-baseline', '8');
     // at once: the 4% plan is marked out of date and cannot be inserted
     expect(await panel.locator('#plan-results').getAttribute('class')).toContain('stale');
     expect(await panel.locator('#plan-insert').getAttribute('disabled')).not.toBeNull();
-    expect(await panel.locator('#plan-freshness').textContent()).toMatch(/^Out of date: the inputs changed\. Updating…$|^Updating the plan for the new inputs…$/);
+    expect(await panel.locator('#plan-freshness').textContent()).toMatch(
+      /^Out of date: the inputs changed\. Updating…$|^Updating the plan for the new inputs…$/,
+    );
     const needed = visitorsNeeded(0.08, 0.1, 0.95, 0.8, UNIFORM_PRIOR);
     await panel.locator('#plan-per-variant', { hasText: needed.toLocaleString('en-US') }).waitFor();
     await panel.locator('#plan-results:not(.stale)').waitFor();
@@ -124,8 +150,12 @@ describe('the side panel, clear to a marketer', () => {
     await fill(panel, 'plan-variants', '10');
     const needed = visitorsNeeded(0.04, 0.1, 1 - 0.05 / 9, 0.8, UNIFORM_PRIOR);
     await panel.locator('#plan-per-variant', { hasText: needed.toLocaleString('en-US') }).waitFor();
-    expect(await panel.locator('#plan-note').textContent()).toContain('With 9 challengers, each one gets a chance to win by luck.');
-    expect(await panel.locator('#plan-note').textContent()).toContain('each challenger must reach P(beats control) ≥ 99.4%');
+    expect(await panel.locator('#plan-note').textContent()).toContain(
+      'With 9 challengers, each one gets a chance to win by luck.',
+    );
+    expect(await panel.locator('#plan-note').textContent()).toContain(
+      'each challenger must reach P(beats control) ≥ 99.4%',
+    );
     expect(needed).toBeGreaterThan(visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR));
   });
 
@@ -135,7 +165,9 @@ describe('the side panel, clear to a marketer', () => {
     await fill(panel, 'plan-daily', '300');
     const needed = visitorsNeeded(0.04, 0.02, 0.95, 0.8, UNIFORM_PRIOR);
     const weeks = Math.ceil((2 * needed) / 300 / 7);
-    await panel.locator('#plan-days', { hasText: `Run for ${weeks} weeks (${(7 * weeks).toLocaleString('en-US')} days)` }).waitFor();
+    await panel
+      .locator('#plan-days', { hasText: `Run for ${weeks} weeks (${(7 * weeks).toLocaleString('en-US')} days)` })
+      .waitFor();
     await panel.locator('#plan-duration fluent-message-bar[intent="error"]').waitFor();
     expect(await panel.locator('#plan-duration').textContent()).toContain('is not a realistic test');
     await fill(panel, 'plan-lift', '10');
@@ -165,11 +197,13 @@ describe('the side panel, clear to a marketer', () => {
     expect(await panel.locator('#explain-name').textContent()).toBe("ABTEST.PROB_HIGHEST in 'Checkout test'!B23");
     // the lift chart: a 'no lift' line, percent ticks, described for screen readers
     await panel.locator('#explain-chart-box:not([hidden])').waitFor();
-    expect(await panel.locator('#explain-chart').getAttribute('aria-label')).toMatch(/^Lift over the control: Orange button, 90% between \+1\.00% and \+25\.6%; Big basket icon, 90% between /);
+    expect(await panel.locator('#explain-chart').getAttribute('aria-label')).toMatch(
+      /^Lift over the control: Orange button, 90% between \+1\.00% and \+25\.6%; Big basket icon, 90% between /,
+    );
     expect(preview.pageErrors).toEqual([]);
   });
 
-  it('explains an error cell by its error, in the worksheet function\'s own words', async () => {
+  it("explains an error cell by its error, in the worksheet function's own words", async () => {
     await switchSheet(page, 'Checkout test');
     await enterCell(page, 'D23', '=ABTEST.PROB_HIGHEST(C4:C6, B4:B5)');
     await panel.locator('#tab-explain').click();
@@ -189,7 +223,9 @@ describe('the side panel, clear to a marketer', () => {
   it('a 350 px pane: tab names on one line, every field as wide as the pane', async () => {
     await page.addStyleTag({ content: '#panel { width: 350px !important; flex: 0 0 350px; }' });
     await panel.locator('#tab-plan').click();
-    const heights = await panel.evaluate(() => Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => t.getBoundingClientRect().height));
+    const heights = await panel.evaluate(() =>
+      Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => t.getBoundingClientRect().height),
+    );
     expect(new Set(heights.map((h) => Math.round(h))).size).toBe(1);
     const label = await panel.evaluate(() => {
       const tab = document.querySelector('#tab-readout') as HTMLElement;
@@ -198,7 +234,11 @@ describe('the side panel, clear to a marketer', () => {
       return range.getClientRects().length;
     });
     expect(label).toBe(1);
-    const widths = await panel.evaluate(() => Array.from(document.querySelectorAll('#section-plan fluent-text-input')).map((t) => Math.round(t.getBoundingClientRect().width)));
+    const widths = await panel.evaluate(() =>
+      Array.from(document.querySelectorAll('#section-plan fluent-text-input')).map((t) =>
+        Math.round(t.getBoundingClientRect().width),
+      ),
+    );
     expect(widths.length).toBe(8);
     expect(new Set(widths).size).toBe(1);
     expect(await panel.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).toBe(true);
@@ -225,8 +265,12 @@ describe('the side panel, clear to a marketer', () => {
     await fill(panel, 'plan-baseline', '4,5');
     await fill(panel, 'plan-daily', '12.000');
     const needed = visitorsNeeded(0.045, 0.1, 0.95, 0.8, UNIFORM_PRIOR);
-    await panel.locator('#plan-per-variant', { hasText: `Visitors per variant: ${needed.toLocaleString('de-DE')}` }).waitFor();
+    await panel
+      .locator('#plan-per-variant', { hasText: `Visitors per variant: ${needed.toLocaleString('de-DE')}` })
+      .waitFor();
     expect(await panel.locator('#plan-days').textContent()).toContain('at 12.000 test visitors a day');
-    expect(await panel.locator('#plan-lift-example').textContent()).toBe('A lift of 10,0% takes the rate from 4,50% to 4,95%.');
+    expect(await panel.locator('#plan-lift-example').textContent()).toBe(
+      'A lift of 10,0% takes the rate from 4,50% to 4,95%.',
+    );
   });
 });

@@ -6,7 +6,15 @@
  * also checks what a screenshot alone would not: nothing wider than the pane, no page errors.
  */
 import type { Frame, Page } from 'playwright-core';
-import { ARTIFACTS, cellLocator, openPreview, panelFrame, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  ARTIFACTS,
+  cellLocator,
+  openPreview,
+  panelFrame,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 import * as fs from 'fs';
 import * as path from 'path';
 
@@ -31,7 +39,9 @@ async function prepare(page: Page, frame: Frame, section: (typeof SECTIONS)[numb
       await frame.locator('#prior-parameters').waitFor();
       break;
     case 'plan':
-      await frame.locator('#plan-progress-text', { hasText: 'Decision power of each challenger' }).waitFor({ timeout: 120_000 });
+      await frame
+        .locator('#plan-progress-text', { hasText: 'Decision power of each challenger' })
+        .waitFor({ timeout: 120_000 });
       break;
     case 'readout':
       await switchSheet(page, 'Checkout test');
@@ -75,8 +85,14 @@ describe('the side panel as it looks', () => {
         for (const section of SECTIONS) {
           await prepare(page, frame, section);
           // nothing in the pane is wider than the pane, once charts have followed the new width
-          await frame.waitForFunction(() => document.documentElement.scrollWidth <= window.innerWidth, undefined, { timeout: 5_000 }).catch(() => undefined);
-          expect(await frame.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0);
+          await frame
+            .waitForFunction(() => document.documentElement.scrollWidth <= window.innerWidth, undefined, {
+              timeout: 5_000,
+            })
+            .catch(() => undefined);
+          expect(
+            await frame.evaluate(() => document.documentElement.scrollWidth - window.innerWidth),
+          ).toBeLessThanOrEqual(0);
           shots.push(await shootPanel(page, frame, `look-${theme}-${widthName}-${section}`));
         }
       }

@@ -60,14 +60,20 @@ describe('readNumber: either decimal mark, unambiguously', () => {
   });
 
   test('a mark the language uses for neither decimals nor groups is read as thousands, and said so', () => {
-    expect(readNumber('1.234', fr)).toEqual({ value: 1234, ambiguity: '"1.234" is read as 1\u202f234 (thousands); if you meant a decimal, type 1,234' });
+    expect(readNumber('1.234', fr)).toEqual({
+      value: 1234,
+      ambiguity: '"1.234" is read as 1\u202f234 (thousands); if you meant a decimal, type 1,234',
+    });
     expect(readNumber('1,234', ch).value).toBe(1234);
     expect(readNumber('1,234', ch).ambiguity).toContain('if you meant a decimal, type 1.234');
   });
 
-  test.each(['', 'abc', '1,2,3', '1,23,4', '4,5,6.7', '1.2.3,4,5', '5%', '--4', '1 2'])('"%s" is not a number', (text) => {
-    expect(readNumber(text).value).toBeNaN();
-  });
+  test.each(['', 'abc', '1,2,3', '1,23,4', '4,5,6.7', '1.2.3,4,5', '5%', '--4', '1 2'])(
+    '"%s" is not a number',
+    (text) => {
+      expect(readNumber(text).value).toBeNaN();
+    },
+  );
 
   test('parseNumber and parsePercent keep their old meaning and take a decimal comma', () => {
     expect(parseNumber('12,000')).toBe(12000);
@@ -81,8 +87,22 @@ describe('readNumber: either decimal mark, unambiguously', () => {
 });
 
 describe('readPercent: one unit, the likely slip named', () => {
-  const threshold: PercentRule = { name: 'Decision threshold', min: 0.5, minIncluded: false, max: 1, maxIncluded: false, example: '95' };
-  const rate: PercentRule = { name: 'Baseline conversion rate', min: 0, minIncluded: false, max: 1, maxIncluded: false, example: '4' };
+  const threshold: PercentRule = {
+    name: 'Decision threshold',
+    min: 0.5,
+    minIncluded: false,
+    max: 1,
+    maxIncluded: false,
+    example: '95',
+  };
+  const rate: PercentRule = {
+    name: 'Baseline conversion rate',
+    min: 0,
+    minIncluded: false,
+    max: 1,
+    maxIncluded: false,
+    example: '4',
+  };
 
   test('a percent is read as a fraction for the core', () => {
     expect(readPercent('95', threshold)).toEqual({ ok: true, value: 0.95, note: null });
@@ -92,38 +112,66 @@ describe('readPercent: one unit, the likely slip named', () => {
   test('a fraction typed into a percent field: the message says what it meant and what to type', () => {
     expect(readPercent('0.95', threshold)).toEqual({
       ok: false,
-      message: 'Decision threshold: 0.95 here means 0.95%, because this field takes a percent. For 95% type 95, not 0.95.',
+      message:
+        'Decision threshold: 0.95 here means 0.95%, because this field takes a percent. For 95% type 95, not 0.95.',
     });
     expect(readPercent('0,95', threshold, de)).toEqual({
       ok: false,
-      message: 'Decision threshold: 0,95 here means 0,95%, because this field takes a percent. For 95% type 95, not 0,95.',
+      message:
+        'Decision threshold: 0,95 here means 0,95%, because this field takes a percent. For 95% type 95, not 0,95.',
     });
   });
 
   test('out of range, empty and not a number', () => {
-    expect(readPercent('950', threshold)).toEqual({ ok: false, message: 'Decision threshold: 950% is not possible; it must be above 50% and below 100%.' });
-    expect(readPercent('40', threshold)).toEqual({ ok: false, message: 'Decision threshold: it must be above 50% and below 100%; you typed 40%.' });
+    expect(readPercent('950', threshold)).toEqual({
+      ok: false,
+      message: 'Decision threshold: 950% is not possible; it must be above 50% and below 100%.',
+    });
+    expect(readPercent('40', threshold)).toEqual({
+      ok: false,
+      message: 'Decision threshold: it must be above 50% and below 100%; you typed 40%.',
+    });
     expect(readPercent('', threshold)).toEqual({ ok: false, message: 'Decision threshold: type a percent, e.g. 95.' });
-    expect(readPercent('high', threshold)).toEqual({ ok: false, message: 'Decision threshold: "high" is not a number. Type a percent such as 95.' });
+    expect(readPercent('high', threshold)).toEqual({
+      ok: false,
+      message: 'Decision threshold: "high" is not a number. Type a percent such as 95.',
+    });
   });
 
   test('a small rate below 1 is allowed, with a note saying how it was read', () => {
-    expect(readPercent('0.04', rate)).toEqual({ ok: true, value: 0.0004, note: 'read as 0.04%; if you meant 4%, type 4.' });
+    expect(readPercent('0.04', rate)).toEqual({
+      ok: true,
+      value: 0.0004,
+      note: 'read as 0.04%; if you meant 4%, type 4.',
+    });
     expect(readPercent('0.04%', rate)).toEqual({ ok: true, value: 0.0004, note: null });
   });
 });
 
 describe('readCount', () => {
-  const visitors = { name: 'Visitors per day', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '4000' };
+  const visitors = {
+    name: 'Visitors per day',
+    min: 0,
+    minIncluded: false,
+    max: Number.POSITIVE_INFINITY,
+    whole: false,
+    example: '4000',
+  };
   test('digit groups in the language, refusals in words', () => {
     expect(readCount('12.000', visitors, de)).toEqual({ ok: true, value: 12000, note: null });
-    expect(readCount('0', visitors)).toEqual({ ok: false, message: 'Visitors per day: it must be above 0; you typed 0.' });
-    expect(readCount('40%', visitors)).toEqual({ ok: false, message: 'Visitors per day: this field takes a plain number, not a percent (e.g. 4000).' });
+    expect(readCount('0', visitors)).toEqual({
+      ok: false,
+      message: 'Visitors per day: it must be above 0; you typed 0.',
+    });
+    expect(readCount('40%', visitors)).toEqual({
+      ok: false,
+      message: 'Visitors per day: this field takes a plain number, not a percent (e.g. 4000).',
+    });
     expect(readCount('', visitors)).toEqual({ ok: false, message: 'Visitors per day: type a number, e.g. 4000.' });
   });
 });
 
-describe('showing numbers in the user\'s way', () => {
+describe("showing numbers in the user's way", () => {
   test('percents and counts', () => {
     expect(formatPercent(0.0412)).toBe('4.12%');
     expect(formatPercent(0.000123)).toBe('0.0123%');
@@ -136,7 +184,8 @@ describe('showing numbers in the user\'s way', () => {
 
   test('what the panel writes into a field reads back as the same number', () => {
     for (const locale of [en, de, fr, ch]) {
-      for (const x of [0.5, 4.5, 192.123, 12000, 10412, 1234.5]) expect(readNumber(formatDecimal(x, locale), locale).value).toBe(x);
+      for (const x of [0.5, 4.5, 192.123, 12000, 10412, 1234.5])
+        expect(readNumber(formatDecimal(x, locale), locale).value).toBe(x);
     }
   });
 });

@@ -24,8 +24,26 @@ import { normalQuantile } from '../../functions/stats/special/normal';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import manyVariants from '../reference/plan_many_variants.json';
 
-const inputs = { baselineRate: 0.1, lift: 0.5, threshold: 0.95, power: 0.8, variants: 3, dailyVisitors: 500, trafficShare: 0.4, classicAlpha: 0.05 };
-const texts = { baselineRate: '4', lift: '10', threshold: '95', power: '80', variants: '2', dailyVisitors: '4000', trafficShare: '100', classicAlpha: '5' };
+const inputs = {
+  baselineRate: 0.1,
+  lift: 0.5,
+  threshold: 0.95,
+  power: 0.8,
+  variants: 3,
+  dailyVisitors: 500,
+  trafficShare: 0.4,
+  classicAlpha: 0.05,
+};
+const texts = {
+  baselineRate: '4',
+  lift: '10',
+  threshold: '95',
+  power: '80',
+  variants: '2',
+  dailyVisitors: '4000',
+  trafficShare: '100',
+  classicAlpha: '5',
+};
 
 describe('planProblems', () => {
   test('good inputs have none; each bad input is named', () => {
@@ -44,7 +62,16 @@ describe('planProblems', () => {
 describe('readPlan: the fields take percents, in either decimal mark', () => {
   test('the defaults read as fractions for the core', () => {
     const reading = readPlan(texts);
-    expect(reading.inputs).toEqual({ baselineRate: 0.04, lift: 0.1, threshold: 0.95, power: 0.8, variants: 2, dailyVisitors: 4000, trafficShare: 1, classicAlpha: 0.05 });
+    expect(reading.inputs).toEqual({
+      baselineRate: 0.04,
+      lift: 0.1,
+      threshold: 0.95,
+      power: 0.8,
+      variants: 2,
+      dailyVisitors: 4000,
+      trafficShare: 1,
+      classicAlpha: 0.05,
+    });
     expect(reading.problems).toEqual([]);
   });
 
@@ -60,24 +87,36 @@ describe('readPlan: the fields take percents, in either decimal mark', () => {
     expect(reading.inputs).toBeNull();
     expect(reading.fields.threshold).toEqual({
       ok: false,
-      message: 'Decision threshold: 0.95 here means 0.95%, because this field takes a percent. For 95% type 95, not 0.95.',
+      message:
+        'Decision threshold: 0.95 here means 0.95%, because this field takes a percent. For 95% type 95, not 0.95.',
     });
     expect(reading.fields.power).toEqual({
       ok: false,
-      message: 'Target decision power: 0,8 here means 0.8%, because this field takes a percent. For 80% type 80, not 0,8.',
+      message:
+        'Target decision power: 0,8 here means 0.8%, because this field takes a percent. For 80% type 80, not 0,8.',
     });
   });
 
   test('a small rate typed below 1 is accepted, with a note on how it was read', () => {
     const reading = readPlan({ ...texts, baselineRate: '0.04' });
     expect(reading.inputs?.baselineRate).toBeCloseTo(0.0004, 15);
-    expect(reading.fields.baselineRate).toEqual({ ok: true, value: 0.0004, note: 'read as 0.04%; if you meant 4%, type 4.' });
+    expect(reading.fields.baselineRate).toEqual({
+      ok: true,
+      value: 0.0004,
+      note: 'read as 0.04%; if you meant 4%, type 4.',
+    });
   });
 
   test('counts refuse percents and fractions of a variant', () => {
     const reading = readPlan({ ...texts, variants: '2.5', dailyVisitors: '40%' });
-    expect(reading.fields.variants).toEqual({ ok: false, message: 'Variants: it must be a whole number; you typed 2.5.' });
-    expect(reading.fields.dailyVisitors).toEqual({ ok: false, message: 'Visitors per day: this field takes a plain number, not a percent (e.g. 4000).' });
+    expect(reading.fields.variants).toEqual({
+      ok: false,
+      message: 'Variants: it must be a whole number; you typed 2.5.',
+    });
+    expect(reading.fields.dailyVisitors).toEqual({
+      ok: false,
+      message: 'Visitors per day: this field takes a plain number, not a percent (e.g. 4000).',
+    });
   });
 });
 
@@ -91,7 +130,7 @@ describe('many variants: the threshold each challenger must reach', () => {
   });
 
   test.each(rows.map((row) => [row.challengers, row]))(
-    '%i challenger(s): the normal-limit critical value is Bonferroni\'s and never below Dunnett\'s (scipy, Dunnett 1955)',
+    "%i challenger(s): the normal-limit critical value is Bonferroni's and never below Dunnett's (scipy, Dunnett 1955)",
     (challengers, row) => {
       const z = normalQuantile(BONFERRONI_SPLIT.perChallenger(0.95, challengers + 1));
       // scipy norm.ppf(1 - 0.05/m), printed to 6 decimals
@@ -111,12 +150,15 @@ describe('many variants: the threshold each challenger must reach', () => {
     expect(ten.totalVisitors).toBe(10 * ten.visitorsPerVariant);
   });
 
-  test.each([1, 2, 4, 9])('the classic size at the split level with %i challenger(s) is R power.prop.test rounded up', (m) => {
-    const numbers = planNumbers({ ...inputs, baselineRate: 0.1, lift: 0.5, variants: m + 1 });
-    const n = manyVariants.classic_n.by_challengers[String(m) as '1' | '2' | '4' | '9'];
-    expect(numbers.classicAlphaPerChallenger).toBeCloseTo(0.05 / m, 15);
-    expect(numbers.classicPerVariant).toBe(Math.ceil(n));
-  });
+  test.each([1, 2, 4, 9])(
+    'the classic size at the split level with %i challenger(s) is R power.prop.test rounded up',
+    (m) => {
+      const numbers = planNumbers({ ...inputs, baselineRate: 0.1, lift: 0.5, variants: m + 1 });
+      const n = manyVariants.classic_n.by_challengers[String(m) as '1' | '2' | '4' | '9'];
+      expect(numbers.classicAlphaPerChallenger).toBeCloseTo(0.05 / m, 15);
+      expect(numbers.classicPerVariant).toBe(Math.ceil(n));
+    },
+  );
 
   test('the threshold source can be swapped', () => {
     const fixed: ThresholdSource = {
@@ -132,7 +174,10 @@ describe('many variants: the threshold each challenger must reach', () => {
   test('the explanation says how many challengers and what each must reach', () => {
     expect(BONFERRONI_SPLIT.explain(0.95, 2)).toBe('');
     expect(BONFERRONI_SPLIT.explain(0.95, 5)).toBe(
-      'With 4 challengers, each one gets a chance to win by luck. To keep the overall chance of a false winner at 5.00%, the 5.00% is split evenly: each challenger must reach P(beats control) ≥ 98.8% (1.25% each; the Bonferroni split, slightly stricter than needed). That is why each variant needs more visitors than in a test of two.',
+      'With 4 challengers, each one gets a chance to win by luck. To keep the overall chance of a false winner at ' +
+        '5.00%, the 5.00% is split evenly: each challenger must reach P(beats control) ≥ 98.8% (1.25% each; the ' +
+        'Bonferroni split, slightly stricter than needed). That is why each variant needs more visitors than in a ' +
+        'test of two.',
     );
   });
 });
@@ -168,7 +213,9 @@ describe('durationCheck', () => {
   test('up to 8 weeks is fine, longer is long, past half a year unrealistic', () => {
     expect(durationCheck(56)).toEqual({ level: 'fine', text: null });
     expect(durationCheck(63).level).toBe('long');
-    expect(durationCheck(63).text).toMatch(/^9 weeks is a long test: over 8 weeks returning visitors clear their cookies/);
+    expect(durationCheck(63).text).toMatch(
+      /^9 weeks is a long test: over 8 weeks returning visitors clear their cookies/,
+    );
     const far = durationCheck(1547);
     expect(far.level).toBe('unrealistic');
     expect(far.text).toMatch(/^1,547 days \(about 4\.2 years\) is not a realistic test: /);
@@ -182,7 +229,9 @@ describe('samePlan', () => {
     expect(samePlan(inputs, { ...inputs })).toBe(true);
     expect(samePlan(inputs, { ...inputs, baselineRate: 0.08 })).toBe(false);
     expect(samePlan(inputs, { ...inputs, prior: { alpha: 2, beta: 3 } })).toBe(false);
-    expect(samePlan({ ...inputs, prior: { alpha: 2, beta: 3 } }, { ...inputs, prior: { alpha: 2, beta: 3 } })).toBe(true);
+    expect(samePlan({ ...inputs, prior: { alpha: 2, beta: 3 } }, { ...inputs, prior: { alpha: 2, beta: 3 } })).toBe(
+      true,
+    );
   });
 });
 
@@ -203,7 +252,9 @@ describe('power curve', () => {
       onPoint: (so, done, total) => events.push(`point ${done}/${total} (${so.length})`),
     });
     expect(events).toEqual(['pause', 'point 1/3 (1)', 'pause', 'point 2/3 (2)', 'pause', 'point 3/3 (3)']);
-    expect(points).toEqual(sizes.map((n) => ({ visitorsPerVariant: n, power: decisionPower(0.1, 0.5, n, 0.975, UNIFORM_PRIOR) })));
+    expect(points).toEqual(
+      sizes.map((n) => ({ visitorsPerVariant: n, power: decisionPower(0.1, 0.5, n, 0.975, UNIFORM_PRIOR) })),
+    );
     // more visitors, more power (a property of the design, common practice)
     expect((points[2] as PowerPoint).power).toBeGreaterThan((points[0] as PowerPoint).power);
   });
