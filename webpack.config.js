@@ -10,7 +10,8 @@
  *   assets/icon-*.png, manifest.xml
  *
  * ADDIN_BASE_URL (default https://localhost:3000/) is the base URL the add-in is served from; it is
- * written into dist/manifest.xml and into the help URLs of dist/functions.json.
+ * written into dist/manifest.xml and into the help URLs of dist/functions.json. `npm run release`
+ * (scripts/release.js) builds with it and packages the result.
  * The preview has its own webpack config (preview/webpack.config.js) and never writes here.
  */
 'use strict';
@@ -22,7 +23,8 @@ const { DEV_BASE_URL, normaliseBaseUrl, productionManifest, rewriteMetadata } = 
 const { ICON_SIZES, drawIcon } = require('./manifest/icons');
 const { buildHelpPages, wrapperFiles, writeFunctionTexts, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
 
-const DIST = path.join(__dirname, 'dist');
+// ADDIN_DIST_DIR builds elsewhere (the release test builds into a temporary folder); default dist/.
+const DIST = process.env.ADDIN_DIST_DIR ? path.resolve(process.env.ADDIN_DIST_DIR) : path.join(__dirname, 'dist');
 const DEV_PORT = 3000;
 
 /** Emits the manifest, icons and help pages, and moves help URLs in functions.json to the base URL. */
