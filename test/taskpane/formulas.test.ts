@@ -85,7 +85,7 @@ describe('prior formulas', () => {
 describe('plan block', () => {
   const inputs = { baselineRate: 0.04, lift: 0.1, threshold: 0.95, power: 0.8, variants: 3, dailyVisitors: 4000, trafficShare: 0.5, classicAlpha: 0.05 };
 
-  test('inputs as labelled constants, results as formulas referring to them', () => {
+  test('inputs as labelled constants (rates, threshold, power and levels as percents), results as formulas referring to them', () => {
     const { block, cells } = planBlock(inputs, 'B2');
     expect(block.cells.map((row) => row[0])).toEqual([
       'Test plan (Lift Ledger)',
@@ -97,10 +97,12 @@ describe('plan block', () => {
       'Visitors per day to the page',
       'Share of those visitors in the test',
       'Classic test: significance level (two-sided)',
+      'Threshold each challenger must reach (false-alarm rate split evenly over the challengers)',
       'Visitors needed per variant',
       'Visitors needed in total',
-      'Days to run',
-      'Classic z-test size per variant (for comparison)',
+      'Weeks to run (whole weeks)',
+      'Days to run (whole weeks)',
+      'Classic z-test size per variant (for comparison, level split the same way)',
     ]);
     expect(block.cells.map((row) => row[1])).toEqual([
       '',
@@ -112,21 +114,25 @@ describe('plan block', () => {
       4000,
       0.5,
       0.05,
-      '=ABTEST.VISITORS_NEEDED(C3,C4,C5,C6)',
-      '=C11*C7',
-      '=ROUNDUP(C12/(C8*C9),0)',
-      '=ABTEST.CLASSIC_SAMPLE_SIZE(C3,C4,C10,C6,2)',
+      '=1-(1-C5)/MAX(1,C7-1)',
+      '=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)',
+      '=C12*C7',
+      '=MAX(1,ROUNDUP(C13/(C8*C9)/7,0))',
+      '=7*C14',
+      '=ABTEST.CLASSIC_SAMPLE_SIZE(C3,C4,C10/MAX(1,C7-1),C6,2)',
     ]);
-    expect(cells).toMatchObject({ baselineRate: 'C3', visitorsPerVariant: 'C11', totalVisitors: 'C12', days: 'C13', classicPerVariant: 'C14' });
+    // one unit for every probability-like input: all shown as percents
+    expect(block.numberFormats?.slice(1, 9).map((row) => row[1])).toEqual(['0.00%', '0.0%', '0.0%', '0.0%', '0', '#,##0', '0%', '0.0%']);
+    expect(cells).toMatchObject({ baselineRate: 'C3', perChallengerThreshold: 'C11', visitorsPerVariant: 'C12', totalVisitors: 'C13', weeks: 'C14', days: 'C15', classicPerVariant: 'C16' });
   });
 
   test('with a prior, its cells are inputs and VISITORS_NEEDED refers to them', () => {
     const { block, cells } = planBlock({ ...inputs, prior: { alpha: 20, beta: 480 } }, 'A1');
     expect(cells.priorAlpha).toBe('B10');
-    expect(block.cells[11]).toEqual(['Visitors needed per variant', '=ABTEST.VISITORS_NEEDED(B2,B3,B4,B5,B10,B11)']);
+    expect(block.cells[12]).toEqual(['Visitors needed per variant', '=ABTEST.VISITORS_NEEDED(B2,B3,B12,B5,B10,B11)']);
   });
 
-  test('the total and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
+  test('the threshold, total, weeks and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
     const { block, cells } = planBlock(inputs, 'A1');
     // Replace the ABTEST call (not registered in HyperFormula) by a constant, keep every other formula as written.
     const rows = block.cells.map((row) => row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? 31234 : v)));
@@ -135,8 +141,10 @@ describe('plan block', () => {
       const p = parseAddress(address).start;
       return hf.getCellValue({ sheet: 0, row: p.row, col: p.column });
     };
+    expect(value(cells.perChallengerThreshold as string)).toBeCloseTo(0.975, 15); // 1 − 0.05/2 for two challengers
     expect(value(cells.totalVisitors as string)).toBe(93702); // 31234 × 3 variants
-    expect(value(cells.days as string)).toBe(47); // ceil(93702 / (4000 × 0.5)) = ceil(46.851)
+    expect(value(cells.weeks as string)).toBe(7); // ceil(93702 / (4000 × 0.5) / 7) = ceil(6.69)
+    expect(value(cells.days as string)).toBe(49);
     hf.destroy();
   });
 });
