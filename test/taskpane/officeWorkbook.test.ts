@@ -217,9 +217,9 @@ describe('writing a block', () => {
     const workbook = workbookOn(excel);
     const { block } = plan();
     const [first, second] = await Promise.all([workbook.writeBlock(block), workbook.writeBlock(block)]);
-    expect(first).toEqual({ kind: 'written', address: 'Plan!B2:C14' });
+    expect(first).toEqual({ kind: 'written', address: 'Plan!B2:C16' });
     expect(second.kind).toBe('occupied');
-    expect(excel.writeLog.filter((w) => w.startsWith('formulas '))).toEqual(['formulas Plan!B2:C14']);
+    expect(excel.writeLog.filter((w) => w.startsWith('formulas '))).toEqual(['formulas Plan!B2:C16']);
   });
 
   test.each([
