@@ -24,16 +24,12 @@ import {
   ratioSf,
 } from './compare';
 import { TabulatedDistribution, tabulate } from './grid';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkPoints } from './limits';
 import { findRoot } from './numeric';
 import { NO_MEMO } from './tableMemo';
 import type { TableSource } from './tableMemo';
 import type { BetaPrior, ConversionCounts, DensityTable, Interval, IntervalWithMedian } from './types';
 import { UNIFORM_PRIOR } from './types';
-
-/** Most variants a comparison accepts (the catalogue's limit). */
-export const MAX_VARIANTS = 50;
-
-const MAX_COUNT = 2 ** 53;
 
 function checkPrior(prior: BetaPrior): void {
   ensure(
@@ -65,10 +61,6 @@ function checkCounts(variants: readonly ConversionCounts[], minimum: number, max
     );
     ensure(v.conversions <= v.visitors, `${where}: conversions (${v.conversions}) cannot exceed visitors (${v.visitors})`);
   });
-}
-
-function checkLevel(level: number): void {
-  ensure(Number.isFinite(level) && level > 0 && level < 1, `the level must be strictly between 0 and 1, not ${level}`);
 }
 
 /** Posterior Beta shapes (a, b) of one variant. */
@@ -384,10 +376,6 @@ export function decide(
   });
   const loss = losses[index] as number;
   return { choose: loss <= threshold, index, loss, maxLoss: threshold };
-}
-
-function checkPoints(points: number): void {
-  ensure(Number.isInteger(points) && points >= 2 && points <= 1000, `points must be a whole number from 2 to 1000, not ${points}`);
 }
 
 function evenGrid(lo: number, hi: number, points: number): number[] {

@@ -13,16 +13,12 @@ import { expectedLosses, highestProbabilities } from './compare';
 import { ensure } from './errors';
 import { gammaWorkingDensity } from './gammaDensity';
 import { tabulate } from './grid';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
 import { betaCdf, betaQuantilePair } from './special/incompleteBeta';
 import { gammaQuantile, gammaQuantileUpper } from './special/incompleteGamma';
 import type { TabulatedDistribution } from './grid';
 import { FLAT_GAMMA_PRIOR } from './types';
 import type { EventCounts, GammaPrior, Interval, IntervalWithMedian } from './types';
-
-/** Most variants a comparison accepts (the catalogue's limit). */
-const MAX_VARIANTS = 50;
-/** Largest whole number a double holds exactly (the catalogue's limit on counts). */
-const MAX_COUNT = 2 ** 53;
 
 /** The posterior Gamma(shape, rate) of one variant's event rate. */
 interface GammaPosterior {
@@ -38,13 +34,6 @@ function checkPrior(prior: GammaPrior): void {
   ensure(
     Number.isFinite(prior.rate) && prior.rate >= 0,
     `prior_rate: ${prior.rate} is not allowed; the prior's rate must be a number of at least 0`,
-  );
-}
-
-function checkLevel(level: number): void {
-  ensure(
-    Number.isFinite(level) && level > 0 && level < 1,
-    `level: ${level} is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)`,
   );
 }
 

@@ -21,13 +21,12 @@ import { differenceQuantile, expectedLosses, highestProbabilities, probabilityGr
 import { ensure, StatsError } from './errors';
 import { PANEL_ORDER, tabulate } from './grid';
 import type { TabulatedDistribution } from './grid';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
 import { findRoot, gaussLegendre } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';
 import { studentTWorkingDensity } from './studentTDensity';
 import type { Interval, IntervalWithMedian, MeanSummary, WorkingDensity } from './types';
 
-const MAX_VARIANTS = 50;
-const MAX_COUNT = 2 ** 53;
 /** Largest posterior mass the control's mean may put at or below zero for a relative lift. */
 const LIFT_ZERO_MASS = 1e-6;
 
@@ -36,13 +35,6 @@ interface MeanPosterior {
   readonly df: number;
   readonly centre: number;
   readonly scale: number;
-}
-
-function checkLevel(level: number): void {
-  ensure(
-    Number.isFinite(level) && level > 0 && level < 1,
-    `level: ${level} is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)`,
-  );
 }
 
 function posteriors(variants: readonly MeanSummary[], minimum: number): MeanPosterior[] {
