@@ -14,7 +14,8 @@
  * All of it is deterministic.
  */
 import { StatsError } from './errors';
-import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, log1mExp, logAddExp, panelLogIntegral } from './grid';
+import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, panelLogIntegral } from './grid';
+import { log1mExp, logAddExp } from './numeric';
 
 /** Panels whose bound lies this far (in log) below the running total are skipped (e^-46 ≈ 1e-20). */
 const PRUNE = 46;

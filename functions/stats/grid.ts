@@ -6,7 +6,7 @@
  * Everything here is deterministic: the same density gives the same panels, nodes and values.
  */
 import { StatsError } from './errors';
-import { gaussLegendre } from './numeric';
+import { gaussLegendre, log1mExp, logAddExp, logSumExp } from './numeric';
 import type { WorkingDensity } from './types';
 
 /** Gauss–Legendre points per panel. */
@@ -133,27 +133,6 @@ const LOG_WEIGHTS: readonly number[] = TABLES.weights.map((w) => Math.log(w));
 
 /** The 16 Gauss–Legendre nodes on [−1, 1] that every panel uses, ascending (read only). */
 export const PANEL_NODES: readonly number[] = TABLES.nodes;
-
-/**
- * log(e^a + e^b) without overflow; either may be −Infinity.
- * Cost: O(1). @example logAddExp(Math.log(1), Math.log(3)) //=> 1.3862943611198906 (log 4)
- */
-export function logAddExp(a: number, b: number): number {
-  if (a === -Infinity) return b;
-  if (b === -Infinity) return a;
-  return a > b ? a + Math.log1p(Math.exp(b - a)) : b + Math.log1p(Math.exp(a - b));
-}
-
-/**
- * log(1 − e^x) for x ≤ 0, accurate at both ends (M. Mächler, "Accurately computing log(1 − exp(−|a|))",
- * Rmpfr vignette, 2012): log(−expm1(x)) for x > −ln 2, else log1p(−exp(x)).
- * Cost: O(1). Returns −Infinity at x = 0 and 0 at x = −Infinity.
- * @example log1mExp(Math.log(0.25)) //=> -0.2876820724517809 (log 0.75)
- */
-export function log1mExp(x: number): number {
-  if (x >= 0) return -Infinity;
-  return x > -Math.LN2 ? Math.log(-Math.expm1(x)) : Math.log1p(-Math.exp(x));
-}
 
 /** Options of {@link tabulate}; the defaults are what the accuracy tests were run with. */
 export interface TabulationOptions {
@@ -362,14 +341,7 @@ export class TabulatedDistribution {
       }
       this.panelLogMass[p] = panelLogIntegral(this.nodeLogDensity, p * n, half);
     }
-    let logZ = -Infinity;
-    {
-      let top = -Infinity;
-      for (let p = 0; p < panels; p++) top = Math.max(top, this.panelLogMass[p] as number);
-      let total = 0;
-      for (let p = 0; p < panels; p++) total += Math.exp((this.panelLogMass[p] as number) - top);
-      logZ = top + Math.log(total);
-    }
+    const logZ = logSumExp(this.panelLogMass);
     if (!Number.isFinite(logZ)) throw failure('the total mass is not finite');
     this.logNormaliser = logZ;
     for (let i = 0; i < panels * n; i++) this.nodeLogDensity[i] = (this.nodeLogDensity[i] as number) - logZ;

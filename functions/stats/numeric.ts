@@ -1,6 +1,7 @@
 /**
  * Small numerical building blocks shared by the statistics core: accurate elementary functions near
- * their cancellation points, a bracketing root finder and Gauss–Legendre rules. Pure and stateless.
+ * their cancellation points, sums of exponentials kept in logs, a bracketing root finder and
+ * Gauss–Legendre rules. Pure and stateless.
  */
 import { StatsError } from './errors';
 
@@ -45,28 +46,39 @@ export function expm1mx(x: number): number {
 }
 
 /**
- * log(1 + e^x) without overflow or loss of precision (the "softplus").
+ * log(e^a + e^b) without overflow; either may be −Infinity.
  * Cost: O(1).
- * @example log1pExp(-800) //=> 0 (to double precision it is e^-800, which underflows)
- * @example log1pExp(800) //=> 800
+ * @example logAddExp(Math.log(1), Math.log(3)) //=> 1.3862943611198906 (log 4)
  */
-export function log1pExp(x: number): number {
-  if (x > 36) return x + Math.exp(-x);
-  if (x > -37) return Math.log1p(Math.exp(x));
-  return Math.exp(x);
+export function logAddExp(a: number, b: number): number {
+  if (a === -Infinity) return b;
+  if (b === -Infinity) return a;
+  return a > b ? a + Math.log1p(Math.exp(b - a)) : b + Math.log1p(Math.exp(a - b));
 }
 
 /**
- * log(Σ exp(values)) computed stably.
- * Cost: O(n). Returns −Infinity for an empty list.
+ * log(1 − e^x) for x ≤ 0, accurate at both ends (M. Mächler, "Accurately computing log(1 − exp(−|a|))",
+ * Rmpfr vignette, 2012): log(−expm1(x)) for x > −ln 2, else log1p(−exp(x)).
+ * Cost: O(1). Returns −Infinity for x ≥ 0 (1 − e^x ≤ 0 has no log; rounding can push a log probability
+ * just above 0) and 0 at x = −Infinity.
+ * @example log1mExp(Math.log(0.25)) //=> -0.2876820724517809 (log 0.75)
+ */
+export function log1mExp(x: number): number {
+  if (x >= 0) return -Infinity;
+  return x > -Math.LN2 ? Math.log(-Math.expm1(x)) : Math.log1p(-Math.exp(x));
+}
+
+/**
+ * log(Σ exp(values)) computed stably: the largest value taken out before summing.
+ * Cost: O(n). Returns −Infinity for an empty list or when every value is −Infinity.
  * @example logSumExp([Math.log(1), Math.log(3)]) //=> 1.3862943611198906 (log 4)
  */
-export function logSumExp(values: readonly number[]): number {
+export function logSumExp(values: ArrayLike<number>): number {
   let max = -Infinity;
-  for (const v of values) if (v > max) max = v;
+  for (let i = 0; i < values.length; i++) max = Math.max(max, values[i] as number);
   if (max === -Infinity) return -Infinity;
   let sum = 0;
-  for (const v of values) sum += Math.exp(v - max);
+  for (let i = 0; i < values.length; i++) sum += Math.exp((values[i] as number) - max);
   return max + Math.log(sum);
 }
 

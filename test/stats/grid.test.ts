@@ -1,7 +1,8 @@
 import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { StatsError } from '../../functions/stats/errors';
-import { PANEL_NODES, log1mExp, logAddExp, panelLogIntegral, tabulate } from '../../functions/stats/grid';
+import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/grid';
+import { log1mExp, logAddExp } from '../../functions/stats/numeric';
 import marginals from '../reference/conversion_marginals.json';
 
 const logit = { coordinate: 'logit' } as const;
