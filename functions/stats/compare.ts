@@ -14,7 +14,7 @@
  * All of it is deterministic.
  */
 import { StatsError } from './errors';
-import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, panelLogIntegral } from './grid';
+import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, panelLogIntegral } from './quadrature';
 import { log1mExp, logAddExp } from './numeric';
 
 /** Panels whose bound lies this far (in log) below the running total are skipped (e^-46 ≈ 1e-20). */

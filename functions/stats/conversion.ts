@@ -23,7 +23,7 @@ import {
   ratioQuantile,
   ratioSf,
 } from './compare';
-import { TabulatedDistribution, tabulate } from './grid';
+import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkPoints } from './limits';
 import { findRoot } from './numeric';
 import { NO_MEMO } from './tableMemo';

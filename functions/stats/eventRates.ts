@@ -12,11 +12,11 @@
 import { expectedLosses, highestProbabilities } from './compare';
 import { ensure } from './errors';
 import { gammaWorkingDensity } from './gammaDensity';
-import { tabulate } from './grid';
+import { tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
 import { betaCdf, betaQuantilePair } from './special/incompleteBeta';
 import { gammaQuantile, gammaQuantileUpper } from './special/incompleteGamma';
-import type { TabulatedDistribution } from './grid';
+import type { TabulatedDistribution } from './quadrature';
 import { FLAT_GAMMA_PRIOR } from './types';
 import type { EventCounts, GammaPrior, Interval, IntervalWithMedian } from './types';
 

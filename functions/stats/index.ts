@@ -17,5 +17,5 @@ export * as srm from './srm';
 export * as normalMeans from './normalMeans';
 export * as eventRates from './eventRates';
 export * as compare from './compare';
-export * as grid from './grid';
+export * as quadrature from './quadrature';
 export * as special from './special';

@@ -19,8 +19,8 @@
  */
 import { differenceQuantile, expectedLosses, highestProbabilities, probabilityGreater } from './compare';
 import { ensure, StatsError } from './errors';
-import { PANEL_ORDER, tabulate } from './grid';
-import type { TabulatedDistribution } from './grid';
+import { PANEL_ORDER, tabulate } from './quadrature';
+import type { TabulatedDistribution } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
 import { findRoot, gaussLegendre } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';

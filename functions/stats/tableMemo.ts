@@ -9,7 +9,7 @@
  * same variants. Nothing here is module-level state: a memo lives where the caller keeps it (the add-in
  * keeps one for its long-lived shared runtime, functions/functions.ts).
  */
-import type { TabulatedDistribution } from './grid';
+import type { TabulatedDistribution } from './quadrature';
 
 /** A source of tabulated distributions, each named by a key that determines it completely. */
 export interface TableSource {

@@ -16,7 +16,7 @@ import {
   ratioSf,
 } from '../../functions/stats/compare';
 import { StatsError } from '../../functions/stats/errors';
-import { TabulatedDistribution, tabulate } from '../../functions/stats/grid';
+import { TabulatedDistribution, tabulate } from '../../functions/stats/quadrature';
 
 /** A Beta(a, b) posterior tabulated in logit. */
 function beta(a: number, b: number, coordinate: string | undefined = 'logit'): TabulatedDistribution {

@@ -15,7 +15,7 @@ import {
   eventsRateInterval,
 } from '../../functions/stats/eventRates';
 import { gammaWorkingDensity } from '../../functions/stats/gammaDensity';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import { betaCdf } from '../../functions/stats/special/incompleteBeta';
 import { gammaP, gammaQ } from '../../functions/stats/special/incompleteGamma';
 import type { EventCounts, GammaPrior } from '../../functions/stats/types';

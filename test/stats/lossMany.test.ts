@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { expectedLosses } from '../../functions/stats/compare';
 import { expectedLoss } from '../../functions/stats/conversion';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import reference from '../reference/loss_many_values.json';
 import { relativeError } from '../helpers/assertions';

@@ -7,7 +7,7 @@
  */
 import fc from 'fast-check';
 import { differenceCdf } from '../../functions/stats/compare';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import {
   meanDiffInterval,
   meanExpectedLoss,

@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { StatsError } from '../../functions/stats/errors';
-import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/grid';
+import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/quadrature';
 import { log1mExp, logAddExp } from '../../functions/stats/numeric';
 import marginals from '../reference/conversion_marginals.json';
 
