@@ -3,7 +3,7 @@
  * sum short: Evan Miller, "Formulas for Bayesian A/B Testing" (2015),
  *   P(Y > X) = Σ_{i<aY} B(aX + i, bX + bY) / ((bY + i) B(1 + i, bY) B(aX, bX))
  * for Y ~ Beta(aY, bY), X ~ Beta(aX, bX) and a whole-number aY. The conversion read-out and the planning
- * functions use it where it applies and fall back to the quadrature of compare.ts elsewhere.
+ * functions use it where it applies and fall back to the quadrature of compare/ elsewhere.
  */
 import { ensure } from './errors';
 import { logBeta } from './special/gamma';

@@ -1,5 +1,5 @@
 /**
- * The Beta(a, b) posterior of a rate as a WorkingDensity in z = logit(p), ready for grid.ts.
+ * The Beta(a, b) posterior of a rate as a WorkingDensity in z = logit(p), ready for quadrature/ (tabulate).
  */
 import { ensure } from './errors';
 import type { WorkingDensity } from './types';

@@ -3,7 +3,7 @@
  *
  * Each variant's rate has the posterior Beta(α + conversions, β + visitors − conversions) under a
  * Beta(α, β) prior (conjugate updating; Gelman et al., "Bayesian Data Analysis", 3rd ed., §2.4). The
- * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts (P(above the control) by
+ * posteriors are tabulated in logit(rate) by quadrature/ and compared by compare/ (P(above the control) by
  * Evan Miller's exact sum, betaComparison.ts, where it applies); the first variant is the control.
  * Inputs are checked here with generic messages; the sheet layer adds argument names.
  *
@@ -90,7 +90,7 @@ function betaTable(a: number, b: number, tables: TableSource): TabulatedDistribu
 /**
  * The variants' posteriors, each distinct (conversions, visitors) pair tabulated once: variants with the
  * same counts share one TabulatedDistribution (a table is read-only apart from its deterministic lazy
- * parts, so sharing it changes no value), which compare.ts also uses to integrate once per distinct one.
+ * parts, so sharing it changes no value), which compare/ also uses to integrate once per distinct one.
  */
 function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior, tables: TableSource): TabulatedDistribution[] {
   const seen = new Map<string, TabulatedDistribution>();
@@ -212,7 +212,7 @@ export function probHighest(variants: readonly ConversionCounts[], prior: BetaPr
  * posterior shape is a whole number (always, under a prior with whole-number α or β) that gives at most
  * 20 000 terms and the shapes are small enough for it to keep 1e-12 relative accuracy (log-betas of at
  * most 3000 in size: up to ~45 000 visitors a variant at 1% rates, ~3 000 at 50%); otherwise the
- * quadrature of the tabulated posteriors (compare.ts probabilityGreater). A challenger with the control's
+ * quadrature of the tabulated posteriors (compare/ranking.ts probabilityGreater). A challenger with the control's
  * counts gets exactly 1/2.
  * Cost: per challenger a sum of at most 20 000 terms (a few ns each) where the closed form applies, else
  * one tabulation (the control's once) and one integral. Same errors as probHighest.
@@ -250,7 +250,7 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
 
 /**
  * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
- * relative lift rate/control − 1 (quantiles of the ratio distribution, compare.ts).
+ * relative lift rate/control − 1 (quantiles of the ratio distribution, compare/ratio.ts).
  * Cost: three quantiles per challenger, each 2–4 passes (a tail and its density). Errors as probHighest,
  * plus a level outside (0, 1).
  * @example liftInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
@@ -291,7 +291,7 @@ function challengerIntervals(
 
 /**
  * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
- * absolute difference rate − control's rate (quantiles of the difference distribution, compare.ts).
+ * absolute difference rate − control's rate (quantiles of the difference distribution, compare/difference.ts).
  * Cost and errors as liftInterval.
  * @example rateDiffInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
  * // [{ lower: −0.005…, median: 0.0149…, upper: 0.035… }]
@@ -328,7 +328,7 @@ export function probLiftAbove(
  * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
  * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
  * Cost: O(k²) node evaluations on one shared grid for 3 or more variants, two integrals for two
- * (compare.ts expectedLosses). Errors as probHighest.
+ * (compare/losses.ts expectedLosses). Errors as probHighest.
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) // [0.1877…, 0.0210…]
  */
 export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
@@ -408,7 +408,7 @@ export function posteriorDensityTable(
 /**
  * A table for a chart of the posterior densities of each challenger's relative lift over the control:
  * `points` lifts evenly spread over the union of the challengers' 0.1%–99.9% lift ranges, and each
- * challenger's lift density there (ratio density, compare.ts).
+ * challenger's lift density there (ratio density, compare/ratio.ts).
  * Cost: (k − 1) × points one-dimensional integrals. Errors as posteriorDensityTable, and 2 … 50 variants.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
  */

@@ -6,7 +6,7 @@
  * Data Analysis, 3rd ed., §3.2). The first variant is the control.
  *
  * Comparisons use quadrature of the t posteriors tabulated in u, value = centre + scale·sinh(u)
- * (studentTDensity.ts, grid.ts, compare.ts); P(highest) and expected loss tabulate all variants in one
+ * (studentTDensity.ts, quadrature/, compare/); P(highest) and expected loss tabulate all variants in one
  * shared coordinate x = C + S·sinh(w) where that is valid (see tabulateShared). Single-variant intervals
  * use the t quantile directly.
  *
@@ -171,7 +171,7 @@ function sharedTableHolds(t: TabulatedDistribution): boolean {
 /**
  * The posteriors (none a point mass) tabulated in one shared coordinate w, x = C + S·sinh(w), with C the
  * middle of the centres and S = max(2 × the widest scale, a quarter of the centres' range), so that
- * compare.ts evaluates every cdf at every node directly and takes the O(k²) shared-grid expected loss
+ * compare/ evaluates every cdf at every node directly and takes the O(k²) shared-grid expected loss
  * (instead of O(k³)) and direct P(highest) factors. In the normal limit the t is log-concave in w when
  * S > √2·scale and |C − centre| < 2S (worked out by hand from the curvature above), which this choice
  * gives; heavy tails (small ν) far narrower than S are not, so every table is checked (sharedTableHolds)
@@ -265,7 +265,7 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
  * Per variant: the probability that its true mean is the highest; the values sum to 1.
  *
  * Method: quadrature P(i highest) = ∫ f_i ∏_{j≠i} F_j over the t posteriors tabulated in the asinh
- * working variable (compare.ts), which turns the heavy t tails (count 2 is a Cauchy) into exponential
+ * working variable (compare/ranking.ts), which turns the heavy t tails (count 2 is a Cauchy) into exponential
  * ones. When every variant has sd = 0 the highest mean wins (ties share equally); when all but one have
  * sd = 0 the one with spread wins with its t probability of exceeding the largest exact mean. Accuracy 1e-9 absolute
  * or better against scipy.integrate.quad. The posteriors are tabulated in one shared coordinate where each
@@ -305,7 +305,7 @@ function singleSpread(ps: readonly MeanPosterior[]): MeanPosterior | undefined {
  * Per challenger (every variant after the first): P(its true mean > the control's true mean).
  *
  * Method: quadrature P(X > Y) = ∫ f_X F_Y of the tabulated t posteriors, the smaller of the pair
- * computed directly (compare.ts). Against a variant with sd = 0 (a point mass at c) it is exactly the
+ * computed directly (compare/ranking.ts). Against a variant with sd = 0 (a point mass at c) it is exactly the
  * other variant's t distribution function at c; two point masses give 1, 0 or ½ for a tie.
  * Accuracy 1e-9 absolute, tails to 1e-6 relative (against scipy.integrate.quad and mpmath).
  * Cost: one tabulation per variant plus O(panels) per challenger.
@@ -330,7 +330,7 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
  *
  * Method: the difference of two independent t posteriors is symmetric about mean_i − mean_0, so the
  * median is exactly that and the interval is mirrored about it; the lower end is the quantile of the
- * difference distribution P(D ≤ d) = ∫ f_0(x) F_i(x + d) dx by quadrature (compare.ts). With one sd = 0
+ * difference distribution P(D ≤ d) = ∫ f_0(x) F_i(x + d) dx by quadrature (compare/difference.ts). With one sd = 0
  * the difference is the other t shifted (exact quantile); with both, all three are the difference.
  * Accuracy 1e-9 absolute relative to the scale of the means (against scipy quadrature and brentq).
  * Cost: tabulation plus a root search of O(panels) integrals per challenger.
@@ -401,7 +401,7 @@ function nodeMasses(t: TabulatedDistribution): NodeMasses {
 
 /**
  * The ratio ρ = Y/X of two independent t posteriors, the control X with a small (≤ 1e-6) but nonzero
- * chance of being negative and the challenger Y of either sign. compare.ts's ratio needs X > 0 for sure,
+ * chance of being negative and the challenger Y of either sign. compare/ratio.ts needs X > 0 for sure,
  * so this one integrates the exact conditional probabilities over one posterior's tabulated nodes:
  *  - over Y (when Y is the narrower): P(ρ ≤ k | Y = y) = P(y/X ≤ k), which for k > 0 is
  *    S_X(y/k) + F_X(0) (y > 0) or S_X(0) + F_X(y/k) (y < 0), and for k < 0 is F_X(y/k) − F_X(0) (y < 0)
@@ -567,12 +567,12 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
  * choosing that variant (in the metric's units).
  *
  * Method: quadrature loss_i = ∫ F_i(x)·(1 − ∏_{j≠i} F_j(x)) dx of the tabulated t posteriors
- * (compare.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
+ * (compare/losses.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
  * is infinite: that is reported as not available. When every variant has sd = 0 the loss is
  * max mean − mean; when all but one have sd = 0 it comes from that one's integrated cdf E[(M − X)^+]. Accuracy 1e-9 relative to the scale of the means (against scipy.integrate.quad).
  * Cost: one tabulation per variant, then with three or more posteriors in the shared coordinate of
  * tabulateShared (log-concave there; in practice counts of about 100 and more) the O(k²) shared-grid
- * integral of compare.ts (20 variants ≈ 50 ms), else O(k³) pruned integrals (20 variants ≈ 0.5–1 s).
+ * integral of compare/losses.ts (20 variants ≈ 50 ms), else O(k³) pruned integrals (20 variants ≈ 0.5–1 s).
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') for a variant with count 2, or two or more variants with spread beside one
  * with sd = 0.
@@ -597,7 +597,7 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
   const only = singleSpread(ps);
   if (points > 0 && only !== undefined) {
     // One uncertain mean X against exact ones with largest value M: choosing X loses E[(M − X)^+], the
-    // integrated cdf G_X(M) (grid.ts); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
+    // integrated cdf G_X(M) (TabulatedDistribution.logLowerMoment); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
     const top = Math.max(...ps.filter(isPoint).map((p) => p.centre));
     const lowerMoment = Math.exp(tabulateOne(only).logLowerMoment(top));
     return ps.map((p) => (isPoint(p) ? only.centre + lowerMoment - p.centre : lowerMoment));

@@ -8,7 +8,7 @@ import reference from '../reference/loss_many_values.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
- * Expected loss of 3–6 conversion variants (the shared-grid path of compare.ts expectedLosses, taken for
+ * Expected loss of 3–6 conversion variants (the shared-grid path of compare/losses.ts expectedLosses, taken for
  * three or more posteriors in the 'logit' coordinate).
  *
  * Reference values: test/reference/loss_many_values.json, printed by
