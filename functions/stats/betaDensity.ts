@@ -6,7 +6,9 @@ import type { WorkingDensity } from './types';
 
 /**
  * The logistic function 1/(1 + e^{−z}), written so that neither branch overflows. Cost: O(1).
- * @example logistic(-800) //=> 0 (e^-800 underflows), logistic(0) //=> 0.5
+ * @example
+ * logistic(-800) //=> 0 (e^-800 underflows)
+ * logistic(0) //=> 0.5
  */
 export function logistic(z: number): number {
   if (z >= 0) return 1 / (1 + Math.exp(-z));

@@ -70,7 +70,11 @@ describe('checkLevel and checkPoints', () => {
       'invalid_argument',
       LEVEL_MESSAGE(1),
     );
-    expectStatsErrorExact(() => normalMeans.meanInterval([{ count: 10, mean: 1, sd: 1 }], 0), 'invalid_argument', LEVEL_MESSAGE(0));
+    expectStatsErrorExact(
+      () => normalMeans.meanInterval([{ count: 10, mean: 1, sd: 1 }], 0),
+      'invalid_argument',
+      LEVEL_MESSAGE(0),
+    );
     expectStatsErrorExact(
       () => eventRates.eventsRateInterval([{ events: 1, exposure: 10 }], 2),
       'invalid_argument',

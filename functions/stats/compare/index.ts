@@ -9,7 +9,12 @@
  *                   pruned and refined, and the fused tail-and-density pass;
  *  - factors.ts     the factors of those integrals and the piece walk inside a panel.
  */
-export { highestProbabilities, highestProbabilityIntegrals, logProbabilityGreater, probabilityGreater } from './ranking';
+export {
+  highestProbabilities,
+  highestProbabilityIntegrals,
+  logProbabilityGreater,
+  probabilityGreater,
+} from './ranking';
 export { expectedLosses } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf } from './ratio';

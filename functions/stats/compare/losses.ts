@@ -16,14 +16,16 @@ const GAP_WIDTH = 1;
 /**
  * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
  * Method: written as Σ_{j≠i} ∫ f_j(y) Π_{l≠i,j} F_l(y) G_i(y) dy, with G_i(y) = E[(y − X_i)^+] the integrated
- * cdf tabulated beside F (TabulatedDistribution.logLowerMomentAt), so every term is a positive integral against a density: no 1 − (near 1)
- * and no difference of means, and a loss of 1e-30 is accurate relative to itself. The identity
- * loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
+ * cdf tabulated beside F (TabulatedDistribution.logLowerMomentAt), so every term is a positive integral
+ * against a density: no 1 − (near 1) and no difference of means, and a loss of 1e-30 is accurate
+ * relative to itself. The identity loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
  * For three or more posteriors sharing a working coordinate the same integral is taken directly as
  * ∫ F_i (1 − Π_{j≠i} F_j) dx on the union of their panels (see sharedGridLosses), O(k²) interpolations.
  * Cost: O(k² × nodes) (shared coordinate) or O(k³ × nodes kept). Throws StatsError('invalid_argument')
  * for an empty list.
- * @example expectedLosses([beta(4, 8), beta(6, 6)]) // [0.18772154170592…, 0.02105487503926…] (Stucchio's closed form)
+ * @example
+ * expectedLosses([tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))])
+ * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form; their difference is 1/6 = 6/12 − 4/12)
  */
 export function expectedLosses(ds: readonly TabulatedDistribution[]): number[] {
   checkList(ds);
@@ -131,7 +133,10 @@ function sharedPieces(ds: readonly TabulatedDistribution[]): number[] {
  * units; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
  * variant's largest bound, best[i].
  */
-function pieceBounds(ds: readonly TabulatedDistribution[], edges: readonly number[]): { bound: Float64Array; best: Float64Array } {
+function pieceBounds(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+): { bound: Float64Array; best: Float64Array } {
   const k = ds.length;
   const pieces = edges.length - 1;
   const src = (ds[0] as TabulatedDistribution).source;

@@ -47,7 +47,9 @@ function greaterTails(x: TabulatedDistribution, y: TabulatedDistribution): LogTa
  * Method: composite Gauss–Legendre quadrature on the tabulated panels (see quadrature/); for one table passed
  * twice (the same object) exactly 1/2, by exchangeability.
  * Cost: ~2 × (panels + kept panels × 16) interpolations; O(1) for the same table twice.
- * @example probabilityGreater(beta(6, 6), beta(4, 8)) //=> 0.8065015479876161 (= 521/646, Evan Miller 2015)
+ * @example
+ * const [y, x] = [tabulate(betaWorkingDensity(6, 6)), tabulate(betaWorkingDensity(4, 8))];
+ * probabilityGreater(y, x) //=> 0.80650154798761… (521/646 = 0.8065015479876161, Evan Miller 2015)
  */
 export function probabilityGreater(x: TabulatedDistribution, y: TabulatedDistribution): number {
   const t = greaterTails(x, y);
@@ -57,7 +59,9 @@ export function probabilityGreater(x: TabulatedDistribution, y: TabulatedDistrib
 /**
  * log P(X > Y), accurate relative to itself down to ~1e-90 (the tabulation window). Same method and cost
  * as probabilityGreater.
- * @example logProbabilityGreater(beta(4, 8), beta(6, 6)) //=> -1.6424… (log(125/646))
+ * @example
+ * const [x, y] = [tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))];
+ * logProbabilityGreater(x, y) //=> -1.642485766480… (log(125/646) = -1.6424857664803008)
  */
 export function logProbabilityGreater(x: TabulatedDistribution, y: TabulatedDistribution): number {
   return greaterTails(x, y).lower;
@@ -67,7 +71,9 @@ export function logProbabilityGreater(x: TabulatedDistribution, y: TabulatedDist
  * The raw integrals ∫ f_i Π_{j≠i} F_j of P(variant i is highest), before normalising. Their sum is 1
  * up to the quadrature error (checked to 1e-10 in the tests). Exposed for that check.
  * Cost: k × (panels + kept panels × 16) × (k − 1) interpolations.
- * @example highestProbabilityIntegrals([beta(4, 8), beta(6, 6)]) // [0.19349845201238…, 0.80650154798761…]
+ * @example
+ * const [x, y] = [tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))];
+ * highestProbabilityIntegrals([x, y]) //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
  */
 export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]): number[] {
   checkList(ds);
@@ -89,7 +95,9 @@ export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]
  * needs it), divided by their sum so they add to 1. Identical inputs give identical outputs (1/k each).
  * Tiny probabilities keep their relative accuracy (each is integrated directly).
  * Cost: O(k² × nodes kept). Throws StatsError('invalid_argument') for an empty list.
- * @example highestProbabilities([beta(4, 8), beta(6, 6)]) //=> [0.1934984520123839, 0.8065015479876161]
+ * @example
+ * const [x, y] = [tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))];
+ * highestProbabilities([x, y]) //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
  */
 export function highestProbabilities(ds: readonly TabulatedDistribution[]): number[] {
   const raw = highestProbabilityIntegrals(ds);

@@ -22,7 +22,7 @@ function panelTrend(logValues: ArrayLike<number>, offset: number): number {
  * log ∫ over one panel of exp(v(t)), given v at the panel's 16 nodes (logValues[offset … offset+15]) and
  * the panel's half-width, by the trend-weighted rule ∫ ℓ_j(t) e^{βt} dt.
  * Cost: 16 exp and one log. Returns −Infinity when every value is −Infinity.
- * @example panelLogIntegral(new Float64Array(16), 0, 1) //=> 0.6931471805599453 (log ∫_{−1}^{1} 1 dt = log 2)
+ * @example panelLogIntegral(new Float64Array(16), 0, 1) //=> 0.69314718055994… (log ∫_{−1}^{1} 1 dt = log 2)
  */
 export function panelLogIntegral(logValues: ArrayLike<number>, offset: number, half: number): number {
   const n = PANEL_ORDER;
@@ -50,8 +50,8 @@ export function panelLogIntegral(logValues: ArrayLike<number>, offset: number, h
  * −Infinity (and zeros) when every value is −Infinity. Cost: 16 exp, one log and 2 × 256 multiply-adds.
  * @example
  * const left = new Float64Array(16);
- * inPanelSums(new Float64Array(16), 0, 1, left, new Float64Array(16), new Float64Array(16)) //=> 0
- * left[15] + 0 //=> 1.9894641370076… (∫ from −1 to the last node t_15 = 0.98946413700763…)
+ * inPanelSums(new Float64Array(16), 0, 1, left, new Float64Array(16), new Float64Array(16)) //=> 0 (log 1)
+ * left[15] //=> 1.98940093499164… (∫ 1 dt from −1 to the last node, 1 + t_15 = 1.9894009349916499)
  */
 export function inPanelSums(
   logValues: ArrayLike<number>,
@@ -97,7 +97,9 @@ export function inPanelSums(
  * `left`) and from each node to the right edge (out `right`), each accurate relative to itself; returns
  * the log of the whole panel's integral (−Infinity, and −Infinity everywhere, when every value is
  * −Infinity). Cost: the kernel's plus 32 logs.
- * @example inPanelLogPartials(new Float64Array(16), 0, 1, new Float64Array(16), new Float64Array(16), new Float64Array(16)) //=> 0.6931471805599453 (log 2)
+ * @example
+ * const [left, right, scratch] = [new Float64Array(16), new Float64Array(16), new Float64Array(16)];
+ * inPanelLogPartials(new Float64Array(16), 0, 1, left, right, scratch) //=> 0.69314718055994… (log 2)
  */
 export function inPanelLogPartials(
   logValues: ArrayLike<number>,
@@ -131,7 +133,7 @@ export function inPanelLogPartials(
  * or far below): the edge's log plus log1p of the ratio while that is at most 1, else the partial's log
  * plus log1p of the inverse ratio; the edge alone when the partial is 0. Turns an edge's log F and the
  * kernel's partial sums into log F at a node without forming F.
- * @example addPartial(Math.log(0.5), 2, Math.log(0.25), 1) //=> -0.2876820724517809 (log(0.5 + 0.25) = log 0.75)
+ * @example addPartial(Math.log(0.5), 0.5, Math.log(0.25), 1) //=> -0.2876820724517809 (log(0.5 + 0.25) = log 0.75)
  */
 export function addPartial(edge: number, scale: number, logScale: number, partial: number): number {
   if (!(partial > 0)) return edge;

@@ -157,7 +157,9 @@ const INTERPOLATION_WEIGHTS: Float64Array = Float64Array.from(TABLES.barycentric
  * Review 2004, §3; backward stable, Higham 2004), with the products Π_{m<j} and Π_{m>j} from one forward
  * and one backward sweep: no divisions, ~70 flops. `scratch` (18 entries) is working space whose contents
  * never outlive the call.
- * @example interpolateOnPanel(Float64Array.of(0, 2), Float64Array.of(1, 5), new Float64Array(16).fill(3), 0, 1, new Float64Array(18)) //=> 3
+ * @example
+ * const [edges, edgeValues, nodeValues] = [Float64Array.of(0, 2), Float64Array.of(1, 5), new Float64Array(16).fill(3)];
+ * interpolateOnPanel(edges, edgeValues, nodeValues, 0, 2, new Float64Array(18)) //=> 5 (the right edge's value)
  */
 export function interpolateOnPanel(
   edges: Float64Array,

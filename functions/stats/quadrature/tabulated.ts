@@ -163,7 +163,7 @@ export class TabulatedDistribution {
   /**
    * An upper bound of the log density of the value (the largest node value plus one, for the peak between
    * nodes); +Infinity where the value density is unbounded (a Beta with a < 1). Computed on first use.
-   * @example tabulate(betaWorkingDensity(1, 1)).logMaxValueDensity // ≈ 1 (log of the uniform density, plus 1)
+   * @example tabulate(betaWorkingDensity(1, 1)).logMaxValueDensity //=> 1.00000000000000… (log 1, plus 1)
    */
   get logMaxValueDensity(): number {
     if (this.maxValueDensity === undefined) {
@@ -179,7 +179,7 @@ export class TabulatedDistribution {
 
   /**
    * Panel indices by decreasing mass (ties by index): the order the comparisons visit them in. Sorted on
-   * first use. @example tabulate(betaWorkingDensity(8, 10)).panelOrder.length //=> its panelCount
+   * first use. @example tabulate(betaWorkingDensity(8, 10)).panelOrder.length //=> 34 (its panelCount)
    */
   get panelOrder(): Int32Array {
     if (this.order === undefined) {
@@ -223,7 +223,7 @@ export class TabulatedDistribution {
 
   /**
    * log of the normalised density in z at any z (direct evaluation of the source density). O(1).
-   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logDensityAt(0)) // 0.25 (p(1 − p) at p = ½)
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logDensityAt(0)) //=> 0.25000000000000… (p(1 − p), p = ½)
    */
   logDensityAt(z: number): number {
     return this.source.logDensity(z) - this.logNormaliser;
@@ -273,7 +273,8 @@ export class TabulatedDistribution {
    * median, of log(1 − F) right of it (then converted with log1mExp), so it is accurate relative to F in
    * the lower tail and relative to 1 − F in the upper. Beyond the window the exponential-tail form
    * f/|slope| is used. Cost: ~60 flops (+ exp and log1p right of the median).
-   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logCdfAt(0)) // 0.685470581054… (pbeta(0.5, 8, 10))
+   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logCdfAt(0))
+   * //=> 0.68547058105468… (R pbeta(0.5, 8, 10) = 0.685470581054688)
    */
   logCdfAt(z: number): number {
     if (z <= this.windowLeft || z >= this.windowRight) return this.tailOutside(z, false);
@@ -309,7 +310,10 @@ export class TabulatedDistribution {
    * binary search and then by stepping forward (the points are ascending). Cost: one interpolation a
    * point (plus a log1mExp on the far side of the median).
    * Used by the comparisons (compare/integrate.ts) for the nodes of one base panel.
-   * @example tabulate(betaWorkingDensity(8, 10)).addLogTailsAt(Float64Array.of(0), 0, 1, new Float64Array(1), false) // out[0] = log 0.6854705810546875
+   * @example
+   * const out = new Float64Array(1);
+   * tabulate(betaWorkingDensity(8, 10)).addLogTailsAt(Float64Array.of(0), 0, 1, out, false);
+   * out[0] //=> -0.37764969694052… (log of R pbeta(0.5, 8, 10) = log 0.685470581054688)
    */
   addLogTailsAt(zs: ArrayLike<number>, offset: number, count: number, out: Float64Array, upper: boolean): void {
     const left = this.windowLeft;
@@ -334,7 +338,7 @@ export class TabulatedDistribution {
   /**
    * The value toValue(z) at every node (computed on first use; read only): the same numbers as calling
    * source.toValue on nodeZ, kept for integrals that visit the nodes many times (quantile searches).
-   * @example tabulate(betaWorkingDensity(8, 10)).nodeValue.length //=> 16 × its panelCount
+   * @example tabulate(betaWorkingDensity(8, 10)).nodeValue.length //=> 544 (16 × its 34 panels)
    */
   get nodeValue(): Float64Array {
     if (this.nodeValues === undefined) {
@@ -358,7 +362,7 @@ export class TabulatedDistribution {
 
   /**
    * log(1 − F) at the working value z, relative to 1 − F in the upper tail (mirror of {@link logCdfAt}).
-   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) // 0.314529418945… (1 − pbeta(0.5, 8, 10))
+   * @example Math.exp(tabulate(betaWorkingDensity(8, 10)).logSfAt(0)) //=> 0.31452941894531… (1 − R pbeta(0.5,8,10))
    */
   logSfAt(z: number): number {
     if (z <= this.windowLeft || z >= this.windowRight) return this.tailOutside(z, true);
@@ -367,7 +371,7 @@ export class TabulatedDistribution {
 
   /**
    * log F(x) of the value x. Cost: one toWorking and one interpolation.
-   * @example tabulate(betaWorkingDensity(8, 10)).logCdf(0.5) //=> log(0.685470581054688) (R pbeta)
+   * @example tabulate(betaWorkingDensity(8, 10)).logCdf(0.5) //=> -0.37764969694052… (log of R pbeta(0.5, 8, 10))
    */
   logCdf(x: number): number {
     const [lo, hi] = this.source.valueRange;
@@ -393,7 +397,7 @@ export class TabulatedDistribution {
 
   /**
    * P(X > x), accurate relative to itself in the upper tail.
-   * @example tabulate(betaWorkingDensity(8, 10)).sf(0.5) // 0.3145294189453… (1 − pbeta(0.5, 8, 10))
+   * @example tabulate(betaWorkingDensity(8, 10)).sf(0.5) //=> 0.31452941894531… (1 − R pbeta(0.5, 8, 10))
    */
   sf(x: number): number {
     return Math.exp(this.logSf(x));
@@ -401,7 +405,7 @@ export class TabulatedDistribution {
 
   /**
    * log of the density of the value at x (per unit of value); −Infinity outside the value range. O(1).
-   * @example tabulate(betaWorkingDensity(1, 1)).logValueDensity(0.3) // ≈ 0 (the uniform density is 1)
+   * @example tabulate(betaWorkingDensity(1, 1)).logValueDensity(0.3) //=> 0.000000000000000… (log 1, the uniform density)
    */
   logValueDensity(x: number): number {
     const [lo, hi] = this.source.valueRange;
@@ -422,7 +426,7 @@ export class TabulatedDistribution {
    * The working value z with F(z) = p. Newton on the interpolated log F with the exact density as
    * derivative, safeguarded by bisection inside the panel found from the edge values. Cost: ~5 steps.
    * Throws StatsError('invalid_argument') unless 0 < p < 1.
-   * @example tabulate(betaWorkingDensity(8, 10)).workingQuantile(0.685470581054688) // ≈ 0 (logit of 0.5)
+   * @example tabulate(betaWorkingDensity(8, 10)).workingQuantile(0.685470581054688) //=> 0.00000000000000… (logit 0.5)
    */
   workingQuantile(p: number): number {
     if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
@@ -447,7 +451,7 @@ export class TabulatedDistribution {
 
   /**
    * The working value z with 1 − F(z) = q (for small q without forming 1 − q). Same method and errors as
-   * workingQuantile. @example tabulate(betaWorkingDensity(1, 1)).workingQuantileUpper(0.5) // ≈ 0
+   * workingQuantile. @example tabulate(betaWorkingDensity(1, 1)).workingQuantileUpper(0.5) //=> 0.000000000000000… (logit 0.5)
    */
   workingQuantileUpper(q: number): number {
     if (!(q > 0 && q < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${q}`);
@@ -475,7 +479,7 @@ export class TabulatedDistribution {
   /**
    * The value x with P(X ≤ x) = p. cdf(quantile(p)) = p to ~1e-14 relative.
    * Throws StatsError('invalid_argument') unless 0 < p < 1.
-   * @example tabulate(betaWorkingDensity(8, 10)).quantile(0.685470581054688) //=> 0.5 (R pbeta)
+   * @example tabulate(betaWorkingDensity(8, 10)).quantile(0.685470581054688) //=> 0.50000000000000… (R pbeta(0.5, 8, 10))
    */
   quantile(p: number): number {
     return this.source.toValue(this.workingQuantile(p));
@@ -483,7 +487,7 @@ export class TabulatedDistribution {
 
   /**
    * The median, quantile(0.5), computed on first use and kept (quantile searches start from it).
-   * @example tabulate(betaWorkingDensity(1, 1)).median // 0.5
+   * @example tabulate(betaWorkingDensity(1, 1)).median //=> 0.50000000000000… (the uniform's median)
    */
   get median(): number {
     if (this.medianValue === undefined) this.medianValue = this.quantile(0.5);
@@ -492,7 +496,7 @@ export class TabulatedDistribution {
 
   /**
    * The value x with P(X > x) = q, accurate for tiny q (no 1 − q is formed).
-   * @example tabulate(betaWorkingDensity(1, 11)).quantileUpper(1e-30) // 0.9982… (1 − 1e-30^(1/11))
+   * @example tabulate(betaWorkingDensity(1, 11)).quantileUpper(1e-30) //=> 0.998126182577139… (1 − 1e-30^(1/11))
    */
   quantileUpper(q: number): number {
     return this.source.toValue(this.workingQuantileUpper(q));
@@ -502,7 +506,7 @@ export class TabulatedDistribution {
    * log G(z) with G(x) = ∫_{lo}^{x} F(u) du = E[(x − X)^+], the integrated cdf (lower partial moment),
    * in value units, accurate relative to itself in the left tail. Built on first use. Used for
    * expected losses: E[(Y − X)^+] = ∫ f_Y(y) G_X(y) dy. Cost: all panels' tables on first use, then O(1).
-   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMomentAt(0)) // 0.125 (x²/2 at x = ½)
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMomentAt(0)) //=> 0.12500000000000… (x²/2 at x = ½)
    */
   logLowerMomentAt(z: number): number {
     const tables = this.lowerMomentTables();
@@ -518,7 +522,7 @@ export class TabulatedDistribution {
 
   /**
    * log E[(x − X)^+] at the value x; −Infinity at or below the lowest value.
-   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMoment(0.3)) // 0.045 (x²/2)
+   * @example Math.exp(tabulate(betaWorkingDensity(1, 1)).logLowerMoment(0.3)) //=> 0.045000000000000… (x²/2)
    */
   logLowerMoment(x: number): number {
     const [lo, hi] = this.source.valueRange;

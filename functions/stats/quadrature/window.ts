@@ -78,7 +78,7 @@ function windowEnd(density: WorkingDensity, range: number, direction: 1 | -1): n
  * inside) the mode, halving towards the local rule where it is stricter further on.
  * Cost: a few density evaluations per panel; at most 20 000 panels.
  * Throws StatsError('not_available') when the window is empty or does not converge, or the panels do not fit.
- * @example layPanels(betaWorkingDensity(8, 10)).length //=> 68
+ * @example layPanels(betaWorkingDensity(8, 10)).length //=> 35 (34 panels on logit p ∈ [−30.3, 24.2])
  */
 export function layPanels(source: WorkingDensity, options: PanelOptions = {}): Float64Array {
   const range = options.logRange ?? DEFAULT_LOG_RANGE;
