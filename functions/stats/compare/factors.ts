@@ -14,8 +14,18 @@ import type { TabulatedDistribution } from '../quadrature';
  */
 const REFINE_EDGES = 3;
 
-/** What a factor contributes at a point u = scale·x + shift of its own value. */
-export type FactorKind = 'cdf' | 'sf' | 'density' | 'lowerMoment';
+/**
+ * What a factor contributes at a point u = scale·x + shift of its own value. The signed kinds serve a
+ * ratio whose base may take either sign (ratio.ts SignedRatio): at base value x 'signedCdf' is the cdf at
+ * u for x ≥ 0 and the survival function for x < 0 (P(Y ≤ kx) against P(Y ≥ kx)), 'signedSf' the other way
+ * round.
+ */
+export type FactorKind = 'cdf' | 'sf' | 'density' | 'lowerMoment' | 'signedCdf' | 'signedSf';
+
+/** The kinds that depend on the sign of the base's value (never evaluated directly in the working variable). */
+function isSigned(kind: FactorKind): boolean {
+  return kind === 'signedCdf' || kind === 'signedSf';
+}
 
 export interface Factor {
   readonly dist: TabulatedDistribution;
@@ -30,6 +40,7 @@ export function factor(dist: TabulatedDistribution, kind: FactorKind, scale = 1,
 
 /** True when the factor can be evaluated at the base's working value directly (same coordinate, u = x). */
 export function isDirect(base: TabulatedDistribution, f: Factor): boolean {
+  if (isSigned(f.kind)) return false;
   return base.coordinate !== undefined && base.coordinate === f.dist.coordinate && f.scale === 1 && f.shift === 0;
 }
 
@@ -46,6 +57,8 @@ export function factorLog(f: Factor, direct: boolean, z: number, x: number): num
         return d.logDensityAt(z) - Math.log(d.source.valueJacobian(z));
       case 'lowerMoment':
         return d.logLowerMomentAt(z);
+      default:
+        break;
     }
   }
   const u = f.scale * x + f.shift;
@@ -58,17 +71,36 @@ export function factorLog(f: Factor, direct: boolean, z: number, x: number): num
       return d.logValueDensity(u);
     case 'lowerMoment':
       return d.logLowerMoment(u);
+    case 'signedCdf':
+      return x >= 0 ? d.logCdf(u) : d.logSf(u);
+    case 'signedSf':
+      return x >= 0 ? d.logSf(u) : d.logCdf(u);
   }
 }
 
-/** Where a factor is largest on [a, b] (it is monotone except for densities): 'right', 'left' or none. */
-export function boundSide(kind: FactorKind): 'left' | 'right' | 'none' {
+/**
+ * Where a factor is largest on [a, b]: 'right' or 'left' for the monotone kinds, 'ends' (the larger of the
+ * two ends, or 1 on a panel that holds x = 0) for the signed tails, which are monotone on each side of
+ * zero, and 'none' for densities (bounded by their largest value).
+ */
+export function boundSide(kind: FactorKind): 'left' | 'right' | 'ends' | 'none' {
+  if (kind === 'signedCdf' || kind === 'signedSf') return 'ends';
   return kind === 'sf' ? 'left' : kind === 'density' ? 'none' : 'right';
 }
 
-/** The factor's panel edges strictly inside the base interval [za, zb], mapped to the base's z. */
+/**
+ * The factor's panel edges strictly inside the base interval [za, zb], mapped to the base's z; for the
+ * signed kinds also the base's x = 0 when it lies inside (where they jump or bend).
+ */
 export function innerEdges(base: TabulatedDistribution, f: Factor, direct: boolean, za: number, zb: number, out: number[]): void {
   const d = f.dist;
+  if (isSigned(f.kind)) {
+    const [lo, hi] = base.source.valueRange;
+    if (lo < 0 && hi > 0) {
+      const zero = base.source.toWorking(0);
+      if (zero > za && zero < zb) out.push(zero);
+    }
+  }
   let fa: number;
   let fb: number;
   if (direct) {
@@ -80,6 +112,8 @@ export function innerEdges(base: TabulatedDistribution, f: Factor, direct: boole
     const ub = f.scale * base.source.toValue(zb) + f.shift;
     fa = ua <= lo ? -Infinity : ua >= hi ? Infinity : d.source.toWorking(ua);
     fb = ub <= lo ? -Infinity : ub >= hi ? Infinity : d.source.toWorking(ub);
+    // A negative scale maps the base interval backwards.
+    if (fa > fb) [fa, fb] = [fb, fa];
   }
   const edges = d.edges;
   const last = edges.length - 1;

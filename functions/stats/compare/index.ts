@@ -3,7 +3,8 @@
  *  - ranking.ts     P(X > Y) and P(each is highest);
  *  - losses.ts      expected losses (pruned integrals, or one grid shared by 3+ posteriors);
  *  - difference.ts  the distribution of Y − X: tails, density, quantiles;
- *  - ratio.ts       the distribution of Y/X − 1 (X > 0): tails, density, quantiles;
+ *  - ratio.ts       the distribution of Y/X − 1: tails, density, quantiles (X > 0), and the quantiles
+ *                   when X and Y may take either sign;
  *  - quantileSolver.ts  Newton on the log of the smaller tail, for both;
  *  - integrate.ts   the integrals all of them are made of: ∫ f_base Π factors over a base's panels,
  *                   pruned and refined, and the fused tail-and-density pass;
@@ -17,4 +18,4 @@ export {
 } from './ranking';
 export { expectedLosses } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
-export { ratioCdf, ratioDensity, ratioQuantile, ratioSf } from './ratio';
+export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';

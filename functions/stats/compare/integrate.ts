@@ -38,7 +38,7 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
   const needValue = withValue || direct.some((d) => !d);
   const src = base.source;
   const sides = factors.map((f) => boundSide(f.kind));
-  // Global maxima of the factors over the base's window (all ≤ 0 for cdf and sf).
+  // Global maxima of the factors over the base's window (all ≤ 0 for cdf and sf, signed or not).
   let globalBound = withValue ? Math.log(src.toValue(base.windowRight)) : 0;
   factors.forEach((f, i) => {
     if (f.kind === 'density') globalBound += f.dist.logMaxValueDensity;
@@ -47,6 +47,9 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       globalBound += Math.max(0, factorLog(f, direct[i] as boolean, z, src.toValue(z)));
     }
   });
+  // Whether the base's panel p holds x = 0 (where the signed factors jump).
+  const holdsZero = (p: number): boolean =>
+    src.toValue(base.edges[p] as number) < 0 && src.toValue(base.edges[p + 1] as number) > 0;
   const edgeCache = new Float64Array((panels + 1) * count).fill(NaN);
   const edgeFactor = (e: number, i: number): number => {
     const key = e * count + i;
@@ -77,6 +80,7 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       const side = sides[i];
       if (side === 'left') bound += edgeFactor(p, i);
       else if (side === 'right') bound += edgeFactor(p + 1, i);
+      else if (side === 'ends') bound += holdsZero(p) ? 0 : Math.max(edgeFactor(p, i), edgeFactor(p + 1, i));
       else bound += (factors[i] as Factor).dist.logMaxValueDensity;
     }
     if (withValue) bound += Math.log(src.toValue(base.edges[p + 1] as number));
@@ -148,9 +152,9 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
 
 /** A tail integral and the matching density integral, from one pass over the base's nodes. */
 export interface TailAndDensity {
-  /** log ∫ f_base(x) T(scale·x + shift) dx, T the other's cdf or survival function. */
+  /** log ∫ f_base(x) T(scale·x + shift) dx, T the other's cdf or survival function (or their signed kinds). */
   readonly logTail: number;
-  /** log ∫ f_base(x) · x^{withValue} · f_other(scale·x + shift) dx. */
+  /** log ∫ f_base(x) · x^{withValue} · f_other(scale·x + shift) dx (|x| with the signed kinds). */
   readonly logDensity: number;
 }
 
@@ -159,13 +163,16 @@ export interface TailAndDensity {
  * point, its panel and the factor found once per node for both: the same panels, pruning (a panel is kept
  * while either integrand's bound is within e^-46 of its running total) and refinement as logIntegral. The
  * base's values and their logs come from its node caches, the other's log Jacobian from the value where
- * its density offers that. Same values as the two separate integrals to ~1e-15 relative.
+ * its density offers that. Same values as the two separate integrals to ~1e-15 relative. With a signed
+ * tail kind (a base that may be negative, for ratio.ts SignedRatio) the tail switches between the
+ * cdf and the survival function at x = 0, where the panel is split, the density carries |x| when
+ * withValue, and a panel's tail bound is the larger end (1 on the panel holding zero).
  * Cost: about 1.2 times one logIntegral instead of 2.
  */
 export function logTailAndDensity(
   base: TabulatedDistribution,
   other: TabulatedDistribution,
-  tailKind: 'cdf' | 'sf',
+  tailKind: 'cdf' | 'sf' | 'signedCdf' | 'signedSf',
   scale: number,
   shift: number,
   withValue: boolean,
@@ -178,10 +185,24 @@ export function logTailAndDensity(
   const os = other.source;
   const [lo, hi] = os.valueRange;
   const maxDensity = other.logMaxValueDensity;
-  const densityBound = (zRight: number): number => maxDensity + (withValue ? Math.log(src.toValue(zRight)) : 0);
-  const globalDensity = densityBound(base.windowRight);
-  // The tail factor's log at a base edge (monotone in x: largest at the right edge for a cdf, left for sf).
+  const signed = tailKind === 'signedCdf' || tailKind === 'signedSf';
+  // x^{withValue} is at most its value at the right end (|x| at the farther end when signed).
+  const logValueBound = (zLeft: number, zRight: number): number => {
+    if (!signed) return Math.log(src.toValue(zRight));
+    return Math.log(Math.max(Math.abs(src.toValue(zLeft)), Math.abs(src.toValue(zRight))));
+  };
+  const densityBound = (zLeft: number, zRight: number): number =>
+    maxDensity + (withValue ? logValueBound(zLeft, zRight) : 0);
+  const globalDensity = densityBound(base.windowLeft, base.windowRight);
+  // The tail factor's log at a base edge (monotone in x: largest at the right edge for a cdf, left for sf;
+  // signed: monotone on each side of x = 0, largest at one end or, on a panel holding zero, at most 1).
   const edgeTail = (z: number): number => factorLog(tailFactor, direct, z, direct ? 0 : src.toValue(z));
+  const tailBoundOf = (za: number, zb: number): number => {
+    if (!signed) return edgeTail(tailKind === 'cdf' ? zb : za);
+    return src.toValue(za) < 0 && src.toValue(zb) > 0 ? 0 : Math.max(edgeTail(za), edgeTail(zb));
+  };
+  // Signed: the cdf is taken where x ≥ 0 for 'signedCdf' and where x < 0 for 'signedSf'.
+  const cdfWhereNonNegative = tailKind === 'signedCdf';
   const tailValues = new Float64Array(n);
   const densityValues = new Float64Array(n);
   const breaks: number[] = [];
@@ -202,6 +223,7 @@ export function logTailAndDensity(
         continue;
       }
       const x = direct && !withValue ? 0 : fromTable ? (nodeValue[nodeOffset + k] as number) : src.toValue(z);
+      const cdfHere = signed ? x >= 0 === cdfWhereNonNegative : !upperTail;
       let zu: number;
       let logJacobian: number;
       if (direct) {
@@ -211,15 +233,16 @@ export function logTailAndDensity(
         const u = scale * x + shift;
         if (u <= lo || u >= hi) {
           const below = u <= lo;
-          tailValues[k] = f + ((tailKind === 'cdf') === below ? -Infinity : 0);
+          tailValues[k] = f + (cdfHere === below ? -Infinity : 0);
           densityValues[k] = -Infinity;
           continue;
         }
         zu = os.toWorking(u);
         logJacobian = os.logJacobianAtValue !== undefined ? os.logJacobianAtValue(u) : Math.log(os.valueJacobian(zu));
       }
-      tailValues[k] = f + (upperTail ? other.logSfAt(zu) : other.logCdfAt(zu));
-      const logX = withValue ? (fromTable ? (nodeLogValue[nodeOffset + k] as number) : Math.log(x)) : 0;
+      tailValues[k] = f + (cdfHere ? other.logCdfAt(zu) : other.logSfAt(zu));
+      let logX = 0;
+      if (withValue) logX = signed ? Math.log(Math.abs(x)) : fromTable ? (nodeLogValue[nodeOffset + k] as number) : Math.log(x);
       densityValues[k] = f + other.logDensityAt(zu) - logJacobian + logX;
     }
   };
@@ -230,9 +253,9 @@ export function logTailAndDensity(
     if (mass === -Infinity || (mass < tail - PRUNE && mass + globalDensity < density - PRUNE)) break;
     const a = base.edges[p] as number;
     const b = base.edges[p + 1] as number;
-    const tailBound = mass + edgeTail(tailKind === 'cdf' ? b : a);
+    const tailBound = mass + tailBoundOf(a, b);
     const needTail = tailBound !== -Infinity && tailBound >= tail - PRUNE;
-    const needDensity = mass + densityBound(b) >= density - PRUNE;
+    const needDensity = mass + densityBound(a, b) >= density - PRUNE;
     if (!needTail && !needDensity) continue;
     breaks.length = 0;
     innerEdges(base, tailFactor, direct, a, b, breaks);

@@ -6,6 +6,7 @@
 import { StatsError } from '../errors';
 import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
+import { log1mExp, logAddExp } from '../numeric';
 import { logIntegral, logTailAndDensity, pairFromBoth, xIsBase } from './integrate';
 import type { LogTails, TailAndDensity } from './integrate';
 import { checkProbability, solveQuantile } from './quantileSolver';
@@ -120,4 +121,111 @@ function ratioTailAndDensity(y: TabulatedDistribution, x: TabulatedDistribution,
   // = P(X ≥ Y/s) = ∫ f_Y(t) S_X(t/s) dt; d/dm = ∫ f_Y(t) f_X(t/s) t/s² dt.
   const t = logTailAndDensity(y, x, upper ? 'cdf' : 'sf', 1 / s, 0, true);
   return { logTail: t.logTail, logDensity: t.logDensity - 2 * Math.log(s) + v };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Both signs: a denominator that may be negative (a little) and a numerator of either sign
+
+/**
+ * The signed ratio R = Y/X − 1 of two posteriors, integrated over the grid of the one that resolves it
+ * better: over X when Y is the wider in X's units or k = 1 + m ≤ 0, else over Y.
+ *  - Over X: P(Y/X ≤ k) = ∫_{x>0} f_X(x) F_Y(kx) dx + ∫_{x<0} f_X(x) S_Y(kx) dx (the signed factors,
+ *    split at x = 0) and its derivative in k, ∫ f_X(x) |x| f_Y(kx) dx; the upper tail likewise directly.
+ *  - Over Y (k > 0): P(Y/X ≤ k) = ∫_{y>0} f_Y(y) S_X(y/k) dy + ∫_{y<0} f_Y(y) F_X(y/k) dy + c with
+ *    c = F_X(0)·S_Y(0) + S_X(0)·F_Y(0), derivative k⁻² ∫ f_Y(y) |y| f_X(y/k) dy; the upper tail is
+ *    1 − P (accurate to ~1e-16 absolute: 4e-15 relative at a 97.5% quantile). Worked out by hand from
+ *    P(Y/X ≤ k) = P(Y ≤ kX, X > 0) + P(Y ≥ kX, X < 0).
+ */
+class SignedRatio {
+  /** log c, the mass the Y-grid form adds outside its integral. */
+  private readonly logConstant: number;
+  /** Interquartile widths of Y and X (a table's own spread misleads for heavy-tailed working variables). */
+  private readonly widthY: number;
+  private readonly widthX: number;
+
+  constructor(
+    private readonly y: TabulatedDistribution,
+    private readonly x: TabulatedDistribution,
+  ) {
+    this.logConstant = logAddExp(x.logCdf(0) + y.logSf(0), x.logSf(0) + y.logCdf(0));
+    this.widthY = y.quantileUpper(0.25) - y.quantile(0.25);
+    this.widthX = x.quantileUpper(0.25) - x.quantile(0.25);
+  }
+
+  /** log P(R ≤ m) (or > m when upper) and log of the density of R at m, in one pass. */
+  tailAndDensity(m: number, upper: boolean): TailAndDensity {
+    const k = 1 + m;
+    if (!(k > 0) || this.widthY >= k * this.widthX) {
+      return logTailAndDensity(this.x, this.y, upper ? 'signedSf' : 'signedCdf', k, 0, true);
+    }
+    const t = logTailAndDensity(this.y, this.x, 'signedSf', 1 / k, 0, true);
+    const lower = logAddExp(t.logTail, this.logConstant);
+    return { logTail: upper ? log1mExp(Math.min(lower, 0)) : lower, logDensity: t.logDensity - 2 * Math.log(k) };
+  }
+}
+
+/**
+ * P(Y/X − 1 ≤ m) for X and Y of either sign: the integral over X's grid of the signed factor (see
+ * SignedRatio). Cost: one integral over X's kept panels. Throws StatsError('invalid_argument') unless m
+ * is finite.
+ * @example
+ * const [y, x] = [tabulate(betaWorkingDensity(6, 6)), tabulate(betaWorkingDensity(4, 8))];
+ * signedRatioCdf(y, x, 0) //=> 0.19349845201238… (P(Y ≤ X) = 1 − 521/646, as ratioCdf)
+ */
+export function signedRatioCdf(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+  if (!Number.isFinite(m)) {
+    throw new StatsError('invalid_argument', `a relative lift must be a finite number, not ${m}`);
+  }
+  return Math.exp(logIntegral(x, [factor(y, 'signedCdf', 1 + m, 0)]));
+}
+
+/**
+ * The p-quantile of R = Y/X − 1 when X (the control) may be negative with a small probability and Y of
+ * either sign, so that R may lie anywhere (below −1 for a negative Y): Newton's method in m on the log of
+ * the smaller tail with its density from the same pass (SignedRatio: over X's grid or Y's, whichever
+ * resolves the ratio), started from the delta method's normal approximation with the marginal
+ * quantiles, guarded by a bracket grown from the start by doubling when a step strays. The sum over both
+ * signs of X keeps the mass of X below zero exactly; R itself is meaningful only while that mass is
+ * small (the Normal model refuses a lift above 1e-6 of it).
+ * Cost: 2–6 Newton steps of one pass over the kept panels.
+ * Throws StatsError('invalid_argument') unless 0 < p < 1.
+ * @example
+ * const [y, x] = [tabulate(betaWorkingDensity(1, 1)), tabulate(betaWorkingDensity(1, 1))]; // two uniforms
+ * signedRatioQuantile(y, x, 0.5) //=> 0.000000000000000 (the median of Y/X is 1, as ratioQuantile)
+ */
+export function signedRatioQuantile(y: TabulatedDistribution, x: TabulatedDistribution, p: number): number {
+  checkProbability(p);
+  const ratio = new SignedRatio(y, x);
+  const evaluate = (m: number, upper: boolean): TailAndDensity => ratio.tailAndDensity(m, upper);
+  // Start: the normal approximation of log Y − log X from the marginal quantiles at p and 1 − p (as
+  // ratioQuantile) where they are all positive; else R ≈ my/mx + (Y − my)/mx − my (X − mx)/mx².
+  const upperHalf = p > 0.5;
+  const my = y.median;
+  const mx = x.median;
+  const qy = upperHalf ? y.quantileUpper(1 - p) : y.quantile(p);
+  const qx = upperHalf ? x.quantile(1 - p) : x.quantileUpper(p);
+  const centre = my / mx - 1;
+  const side = upperHalf ? 1 : -1;
+  let start: number;
+  if (my > 0 && mx > 0 && qy > 0 && qx > 0) {
+    start = Math.expm1(Math.log(my) - Math.log(mx) + side * Math.hypot(Math.log(qy / my), Math.log(qx / mx)));
+  } else {
+    start = centre + side * Math.hypot((qy - my) / mx, (my * (qx - mx)) / (mx * mx));
+  }
+  if (!Number.isFinite(start)) start = 0;
+  // The bracket: from the start, out by doubling steps until the residual changes sign on each side.
+  const bracket = (): [number, number] => {
+    const target = upperHalf ? Math.log1p(-p) : Math.log(p);
+    const residual = (m: number): number => {
+      const logTail = evaluate(m, upperHalf).logTail;
+      return upperHalf ? target - logTail : logTail - target;
+    };
+    const first = Math.max(Math.abs(start - centre), 1e-6 * (1 + Math.abs(centre)));
+    let lo = start - first;
+    let hi = start + first;
+    for (let i = 0, step = first; i < 200 && residual(lo) > 0; i++, step *= 2) lo = start - 2 * step;
+    for (let i = 0, step = first; i < 200 && residual(hi) < 0; i++, step *= 2) hi = start + 2 * step;
+    return [lo, hi];
+  };
+  return solveQuantile(evaluate, p, start, bracket);
 }
