@@ -13,11 +13,11 @@ import {
   rateDiffInterval,
   rateInterval,
 } from '../../functions/stats/conversion';
-import { StatsError } from '../../functions/stats/errors';
 import { betaQuantile, betaQuantileUpper } from '../../functions/stats/special/incompleteBeta';
 import type { ConversionCounts, IntervalWithMedian } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import reference from '../reference/conversion_values.json';
+import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 /*
  * Reference values: test/reference/conversion_values.json, printed by
@@ -31,20 +31,6 @@ type Pair = [number, number];
 
 function counts(list: readonly (readonly number[])[]): ConversionCounts[] {
   return list.map(([conversions, visitors]) => ({ conversions: conversions as number, visitors: visitors as number }));
-}
-
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
 }
 
 /** A probability against its reference: 1e-11 absolute, and 1e-8 relative when it is a small tail. */
