@@ -69,10 +69,13 @@ export class TabulatedDistribution {
   readonly mean: number;
   /** A width of the value near the mode: valueJacobian(mode)/√curvature(mode). */
   readonly spread: number;
+  // The lazy caches below start as undefined in the constructor (the initialisers), so every table has
+  // the same shape from birth: adding them later gave tables of several shapes, and the property reads
+  // of the comparisons slowed by 20–60% once those had met (measured, paired CPU time).
   /** Cache of {@link logMaxValueDensity}. */
-  private maxValueDensity: number | undefined;
+  private maxValueDensity: number | undefined = undefined;
   /** Cache of {@link panelOrder}. */
-  private order: Int32Array | undefined;
+  private order: Int32Array | undefined = undefined;
   /** log F at each node (filled per panel on first use; see {@link panelCdfTables}). */
   private readonly nodeLogCdf: Float64Array;
   /** log(1 − F) at each node, accumulated from the right (filled with nodeLogCdf). */
@@ -87,12 +90,12 @@ export class TabulatedDistribution {
   private readonly panelReady: Uint8Array;
   /** 1 for panels left of the median (log F interpolated there), 0 right of it (log(1 − F) interpolated). */
   private readonly leftSide: Uint8Array;
-  private lowerMoment: LowerMomentTables | undefined;
+  private lowerMoment: LowerMomentTables | undefined = undefined;
   /** Caches of {@link nodeValue} and {@link nodeLogValue}. */
-  private nodeValues: Float64Array | undefined;
-  private nodeLogValues: Float64Array | undefined;
+  private nodeValues: Float64Array | undefined = undefined;
+  private nodeLogValues: Float64Array | undefined = undefined;
   /** Cache of {@link median}. */
-  private medianValue: number | undefined;
+  private medianValue: number | undefined = undefined;
 
   /** @internal Use {@link tabulate}. */
   constructor(source: WorkingDensity, options: TabulationOptions = {}) {
