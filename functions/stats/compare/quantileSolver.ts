@@ -6,6 +6,7 @@
 import { StatsError } from '../errors';
 import type { TailAndDensity } from './integrate';
 
+/** Throws StatsError('invalid_argument') unless 0 < p < 1. */
 export function checkProbability(p: number): void {
   if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
 }

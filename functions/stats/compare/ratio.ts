@@ -1,12 +1,14 @@
 /**
- * The ratio R = Y/X − 1 (the relative lift) of two posteriors, X positive for sure: its tails
- * P(R ≤ m) = ∫ f_X(s) F_Y((1 + m)s) ds (on the narrower posterior's grid), its density and its quantiles,
- * solved in r = log(1 + m).
+ * The ratio R = Y/X − 1 (the relative lift) of two posteriors. With X positive for sure (conversion
+ * rates, event rates): its tails P(R ≤ m) = ∫ f_X(s) F_Y((1 + m)s) ds (on the narrower posterior's grid),
+ * its density and its quantiles, solved in r = log(1 + m). With X that may be negative (a little) and Y
+ * of either sign (the Normal model's means): the quantiles over both signs (SignedRatio,
+ * signedRatioQuantile), solved in m itself.
  */
 import { StatsError } from '../errors';
+import { log1mExp, logAddExp } from '../numeric';
 import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
-import { log1mExp, logAddExp } from '../numeric';
 import { logIntegral, logTailAndDensity, pairFromBoth, xIsBase } from './integrate';
 import type { LogTails, TailAndDensity } from './integrate';
 import { checkProbability, solveQuantile } from './quantileSolver';
