@@ -9,7 +9,7 @@
  * nodes and values, and the tables a method fills on first use depend only on the panel, never on the
  * order of use.
  *
- * Why one file of ~560 lines: it is one class whose methods share its private node tables (log F and
+ * Why one file of ~590 lines: it is one class whose methods share its private node tables (log F and
  * log(1 − F) filled panel by panel on first use, the integrated cdf, scratch space); splitting the class
  * would expose those tables to other files or scatter one data structure. What does not need them lives
  * beside it (window.ts, panelRule.ts, panelIntegral.ts).
