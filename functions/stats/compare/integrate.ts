@@ -47,9 +47,6 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       globalBound += Math.max(0, factorLog(f, direct[i] as boolean, z, src.toValue(z)));
     }
   });
-  // Whether the base's panel p holds x = 0 (where the signed factors jump).
-  const holdsZero = (p: number): boolean =>
-    src.toValue(base.edges[p] as number) < 0 && src.toValue(base.edges[p + 1] as number) > 0;
   const edgeCache = new Float64Array((panels + 1) * count).fill(NaN);
   const edgeFactor = (e: number, i: number): number => {
     const key = e * count + i;
@@ -80,7 +77,11 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       const side = sides[i];
       if (side === 'left') bound += edgeFactor(p, i);
       else if (side === 'right') bound += edgeFactor(p + 1, i);
-      else if (side === 'ends') bound += holdsZero(p) ? 0 : Math.max(edgeFactor(p, i), edgeFactor(p + 1, i));
+      else if (side === 'ends') {
+        // A signed factor: monotone on each side of x = 0, so at most 1 on the panel holding zero.
+        const zero = src.toValue(base.edges[p] as number) < 0 && src.toValue(base.edges[p + 1] as number) > 0;
+        bound += zero ? 0 : Math.max(edgeFactor(p, i), edgeFactor(p + 1, i));
+      }
       else bound += (factors[i] as Factor).dist.logMaxValueDensity;
     }
     if (withValue) bound += Math.log(src.toValue(base.edges[p + 1] as number));
