@@ -3,10 +3,11 @@
  * checked by the one routine {@link checkNumber}. The style follows HyperFormula's function plugins, where
  * each parameter declares its type and bounds and one runner does the coercion and the checks.
  */
+import { MAX_COUNT, MAX_POINTS, MIN_POINTS } from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 
-/** The largest count accepted: 2^53, the largest integer a double holds exactly with all smaller ones. */
-export const MAX_COUNT = 2 ** 53;
+/** The largest count accepted (stats/limits.ts): 2^53, the largest integer a double holds exactly with all smaller ones. */
+export { MAX_COUNT };
 
 /** Bounds and kind of one numeric argument or of every cell of a numeric range. */
 export interface NumberRule {
@@ -198,8 +199,8 @@ export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0
 export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
 export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `points` of density tables: whole number 2…10000, default 101. */
-export const POINTS = { name: 'points', kind: 'count', min: 2, max: 10000, default: 101 } as const satisfies NumberRule;
+/** `points` of density tables: whole number MIN_POINTS…MAX_POINTS (2…1000, stats/limits.ts), default 101. */
+export const POINTS = { name: 'points', kind: 'count', min: MIN_POINTS, max: MAX_POINTS, default: 101 } as const satisfies NumberRule;
 /** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */
 export const MEAN_RATE = { name: 'mean_rate', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
 /** `strength` of PRIOR_FROM_MEAN: > 0 (the prior's worth in visitors). */

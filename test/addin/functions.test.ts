@@ -313,7 +313,7 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.posteriorDensity(col([1]), col([10]), 1))).toEqual({
       code: '#VALUE!',
-      message: 'points: 1 is not allowed; enter a whole number, at least 2 and at most 10000',
+      message: 'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
     });
     const fiftyOne = Array.from({ length: 51 }, () => 5);
     expect(sheetError(() => F.probHighest(col(fiftyOne), col(fiftyOne.map(() => 50))))).toEqual({

@@ -266,10 +266,10 @@ describe('priors and scalars', () => {
     );
   });
 
-  test('points must be a whole number from 2 to 10000', () => {
+  test('points must be a whole number from 2 to 1000', () => {
     expect(readOptionalNumber(POINTS, undefined)).toBe(101);
     expect(sheetError(() => readOptionalNumber(POINTS, 1)).message).toBe(
-      'points: 1 is not allowed; enter a whole number, at least 2 and at most 10000',
+      'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
     );
     expect(sheetError(() => readOptionalNumber(POINTS, 10.5)).message).toBe('points: 10.5 is not a whole number');
   });

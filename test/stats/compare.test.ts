@@ -15,7 +15,7 @@ import {
   ratioQuantile,
   ratioSf,
 } from '../../functions/stats/compare';
-import { TabulatedDistribution, tabulate } from '../../functions/stats/grid';
+import { TabulatedDistribution, tabulate } from '../../functions/stats/quadrature';
 import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 /** A Beta(a, b) posterior tabulated in logit. */

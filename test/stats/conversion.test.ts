@@ -240,7 +240,7 @@ describe('input checks', () => {
     ['no visitors', () => posteriorMean(counts([[0, 0]])), 'variant 1: visitors must be a whole number of at least 1, not 0'],
     ['one variant in a comparison', () => probAboveControl(counts([[1, 10]])), 'a comparison needs between 2 and 50 variants, not 1'],
     ['51 variants', () => probHighest(counts(Array.from({ length: 51 }, () => [1, 10]))), 'a comparison needs between 2 and 50 variants, not 51'],
-    ['a level of 1', () => rateInterval(counts([[1, 10]]), 1), 'the level must be strictly between 0 and 1, not 1'],
+    ['a level of 1', () => rateInterval(counts([[1, 10]]), 1), 'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)'],
     ['a prior of 0', () => posteriorMean(counts([[1, 10]]), { alpha: 0, beta: 1 }), "the prior's alpha must be a number greater than 0, not 0"],
     ['a lift of −1', () => probLiftAbove(counts([[1, 10], [2, 10]]), -1), 'the minimum lift must be a number greater than -1, not -1'],
     ['1 point', () => posteriorDensityTable(counts([[1, 10]]), 1), 'points must be a whole number from 2 to 1000, not 1'],

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
-import { PANEL_NODES, log1mExp, logAddExp, panelLogIntegral, tabulate } from '../../functions/stats/grid';
+import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/quadrature';
+import { log1mExp, logAddExp } from '../../functions/stats/numeric';
 import marginals from '../reference/conversion_marginals.json';
 import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
