@@ -20,6 +20,7 @@ const { sources, Compilation } = require('webpack');
 const { DEV_BASE_URL, normaliseBaseUrl, productionManifest, rewriteMetadata } = require('./manifest/writeManifest');
 const { ICON_SIZES, drawIcon } = require('./manifest/icons');
 const { buildHelpPages, SOURCE: FUNCTIONS_SOURCE, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
+const { ContentSecurityPolicyPlugin } = require('./manifest/contentSecurityPolicy');
 
 const DIST = path.join(__dirname, 'dist');
 const DEV_PORT = 3000;
@@ -120,6 +121,8 @@ module.exports = async (env = {}, argv = {}) => {
         scriptLoading: 'defer',
       }),
       new AddinAssetsPlugin(baseUrl),
+      // the hashes of the pages' own inline styles into their Content-Security-Policy
+      new ContentSecurityPolicyPlugin(),
     ],
     devServer: serving
       ? {

@@ -6,6 +6,8 @@
  *   /                      the preview page (preview/build/index.html)
  *   /preview/…             the preview bundle (preview/build/) and its static files (preview/static/)
  *   /taskpane.html         dist/taskpane.html with Office's CDN office.js replaced by the preview's stand-in
+ *                          (as built, CDN script and all, when started with `asBuilt: true`: the browser test
+ *                          of the served pages' Content-Security-Policy answers the CDN request itself)
  *   /…                     any other file of dist/ (functions.js, functions.json, taskpane.js, help/…)
  *
  * Hostile or malformed requests are answered and the server keeps serving: a method other than GET and
@@ -180,16 +182,17 @@ function requestPath(url) {
   return { path: decoded };
 }
 
-function handler(req, res) {
+/** The request handler; `asBuilt` serves dist/taskpane.html unchanged. */
+const createHandler = (asBuilt) => (req, res) => {
   try {
-    route(req, res);
+    route(req, res, asBuilt);
   } catch (error) {
     console.error(`preview server: ${req.method} ${String(req.url).slice(0, 200)} failed: ${error && error.message}`);
     send(res, 500, 'Server error', TEXT);
   }
-}
+};
 
-function route(req, res) {
+function route(req, res, asBuilt) {
   if (req.method !== 'GET' && req.method !== 'HEAD') {
     return send(res, 405, 'Method not allowed', TEXT, { Allow: 'GET, HEAD' });
   }
@@ -204,7 +207,7 @@ function route(req, res) {
     const fromBuild = inside(PREVIEW_BUILD, rest);
     return fromBuild ? serveFile(res, fromBuild) : send(res, 404, 'Not found', TEXT);
   }
-  if (urlPath === '/taskpane.html') {
+  if (urlPath === '/taskpane.html' && !asBuilt) {
     return fs.readFile(path.join(DIST, 'taskpane.html'), 'utf8', (error, html) => {
       if (error) {
         return send(res, 200, '<!doctype html><meta charset="utf-8"><p style="font-family:sans-serif">The side panel is not built yet: run <code>npm run build</code>.</p>', CONTENT_TYPES['.html']);
@@ -230,11 +233,12 @@ function findFreePort(port, host = 'localhost', tries = 50) {
 
 /**
  * Starts the preview server. `port` 0 lets the system choose (tests); otherwise the first free port from
- * `port` upward is used. Resolves with { url, port, close() } once listening on localhost.
+ * `port` upward is used. `asBuilt` serves the side panel's page exactly as built. Resolves with
+ * { url, port, close() } once listening on localhost.
  */
-async function startPreviewServer({ port = 3100, host = 'localhost' } = {}) {
+async function startPreviewServer({ port = 3100, host = 'localhost', asBuilt = false } = {}) {
   const chosen = port === 0 ? 0 : await findFreePort(port, host);
-  const server = http.createServer(handler);
+  const server = http.createServer(createHandler(asBuilt));
   await new Promise((resolve, reject) => {
     server.once('error', reject);
     server.listen(chosen, host, resolve);
