@@ -121,8 +121,9 @@ module.exports = async (env = {}, argv = {}) => {
         scriptLoading: 'defer',
       }),
       new AddinAssetsPlugin(baseUrl),
-      // the hashes of the pages' own inline styles into their Content-Security-Policy
-      new ContentSecurityPolicyPlugin(),
+      // the hashes of the pages' own inline styles into their Content-Security-Policy (and, for the
+      // development server only, its live-reload socket)
+      new ContentSecurityPolicyPlugin(serving ? { 'connect-src': ["'self'"] } : {}),
     ],
     devServer: serving
       ? {

@@ -71,8 +71,38 @@ function withInlineStyleHashes(html) {
   return html.replace(meta[0], newMeta);
 }
 
-/** Webpack plugin: applies {@link withInlineStyleHashes} to every .html asset once the pages are final. */
+/**
+ * The page with `sources` added to its CSP (directive → sources; a directive it lacks is added). A page
+ * without a CSP meta is returned unchanged.
+ * @example withSources(page, { 'connect-src': ["'self'"] })
+ */
+function withSources(html, sources) {
+  const meta = META.exec(html);
+  const content = meta && CONTENT.exec(meta[0]);
+  if (!content || Object.keys(sources).length === 0) return html;
+  const directives = (content[2] ?? content[3])
+    .split(';')
+    .map((d) => d.trim())
+    .filter(Boolean);
+  for (const [name, extra] of Object.entries(sources)) {
+    const at = directives.findIndex((d) => d.split(/\s+/)[0] === name);
+    if (at < 0) directives.push([name, ...extra].join(' '));
+    else directives[at] = [...directives[at].split(/\s+/), ...extra].join(' ');
+  }
+  const quote = content[2] !== undefined ? '"' : "'";
+  return html.replace(meta[0], meta[0].replace(content[0], `content=${quote}${directives.join('; ')}${quote}`));
+}
+
+/**
+ * Webpack plugin: applies {@link withInlineStyleHashes} to every .html asset once the pages are final.
+ * `extraSources` (directive → sources) are added too: the development server passes connect-src 'self'
+ * for its live-reload socket; the built add-in connects nowhere.
+ */
 class ContentSecurityPolicyPlugin {
+  constructor(extraSources = {}) {
+    this.extraSources = extraSources;
+  }
+
   apply(compiler) {
     const { Compilation, sources } = compiler.webpack;
     compiler.hooks.thisCompilation.tap('ContentSecurityPolicyPlugin', (compilation) => {
@@ -83,7 +113,7 @@ class ContentSecurityPolicyPlugin {
           for (const asset of compilation.getAssets()) {
             if (!asset.name.endsWith('.html')) continue;
             const html = asset.source.source().toString();
-            const updated = withInlineStyleHashes(html);
+            const updated = withSources(withInlineStyleHashes(html), this.extraSources);
             if (updated !== html) compilation.updateAsset(asset.name, new sources.RawSource(updated));
           }
         },
@@ -92,4 +122,11 @@ class ContentSecurityPolicyPlugin {
   }
 }
 
-module.exports = { ContentSecurityPolicyPlugin, withInlineStyleHashes, inlineStyleHashes, readPolicy, hashSource };
+module.exports = {
+  ContentSecurityPolicyPlugin,
+  withInlineStyleHashes,
+  withSources,
+  inlineStyleHashes,
+  readPolicy,
+  hashSource,
+};

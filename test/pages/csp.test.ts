@@ -18,6 +18,7 @@ const withPolicy = (policy: string, rest: string, before = ''): string =>
 /* eslint-disable @typescript-eslint/no-require-imports */
 const csp = require('../../manifest/contentSecurityPolicy.js') as {
   withInlineStyleHashes(html: string): string;
+  withSources(html: string, sources: Record<string, string[]>): string;
   inlineStyleHashes(html: string): string[];
   readPolicy(html: string): Record<string, string[]> | undefined;
   hashSource(text: string): string;
@@ -114,6 +115,13 @@ describe('Content-Security-Policy of the built pages', () => {
       'default-src': ["'none'"],
       'style-src': [expected('body{margin:0}'), expected('p{color:red}')],
       'base-uri': ["'none'"],
+    });
+    // the development server's extra source, into a directive the policy has or lacks
+    expect(csp.readPolicy(csp.withSources(built, { 'connect-src': ["'self'"], 'base-uri': ["'self'"] }))).toEqual({
+      'default-src': ["'none'"],
+      'style-src': [expected('body{margin:0}'), expected('p{color:red}')],
+      'base-uri': ["'none'", "'self'"],
+      'connect-src': ["'self'"],
     });
     // a page without a policy is left alone; a policy without style-src cannot take the hashes
     expect(csp.withInlineStyleHashes('<style>x{}</style>')).toBe('<style>x{}</style>');
