@@ -12,7 +12,7 @@ const REPO_ROOT = path.resolve(__dirname, '..');
 
 /** Loads a TypeScript source of the repository (transpiled in memory, as the bench does). */
 function requireSource(relativePath) {
-  require('../bench/tsRequire');
+  require('../scripts/tsRequire');
   return require(path.join(REPO_ROOT, relativePath));
 }
 
