@@ -277,7 +277,7 @@ function ordinaryDraft(model, rng) {
       scalars[p.name] = rng.chance(0.2) ? ` ${word.toUpperCase()} ` : word;
     }
   }
-  // pairs (both or neither): a Beta prior when the pair is alpha/beta, else each from its own rule
+  // pairs (both or neither): a Beta prior for a Beta pair, else each from its own rule
   const pairs = model.params.filter(
     (p) => p.role === 'scalar' && p.pair && model.params.some((q) => q.name === p.pair),
   );
@@ -286,9 +286,7 @@ function ordinaryDraft(model, rng) {
     const mate = model.params.find((q) => q.name === p.pair);
     if (rng.chance(0.5)) continue;
     const [a, b] =
-      p.name === 'prior_alpha' || mate.name === 'prior_beta'
-        ? typicalBetaPrior(rng)
-        : [genericTypical(p.rule, rng), genericTypical(mate.rule, rng)];
+      p.prior === 'beta' ? typicalBetaPrior(rng) : [genericTypical(p.rule, rng), genericTypical(mate.rule, rng)];
     scalars[p.name] = a;
     scalars[mate.name] = b;
   }
@@ -319,14 +317,14 @@ function applyExtremes(model, draft, rng) {
   const steps = rng.int(1, 3);
   for (let s = 0; s < steps; s++) {
     const what = rng.weighted({
-      prior: scalars.some((p) => p.name.startsWith('prior_')) ? 30 : 0,
+      prior: scalars.some((p) => p.prior) ? 30 : 0,
       scalar: scalars.length ? 25 : 0,
       cell: ranges.length ? 30 : 0,
       column: ranges.length ? 10 : 0,
       wide: ranges.length ? 5 : 0,
     });
     if (what === 'prior') {
-      const priors = scalars.filter((p) => p.name.startsWith('prior_'));
+      const priors = scalars.filter((p) => p.prior);
       const extremes = [1e-12, 1e-9, 1e-6, 1e-3, 1e3, 1e6, 1e9, 1e12];
       for (const p of priors)
         draft.scalars[p.name] = rng.chance(0.7) ? rng.pick(extremes) : rng.logUniform(1e-12, 1e12);

@@ -276,7 +276,9 @@ async function runFuzz(given = {}) {
       seed: options.seed,
       calls: options.calls,
       only: models.length === allModels.length ? [] : models.map((m) => m.id),
-      bundle: path.relative(REPO_ROOT, options.bundle) || options.bundle,
+      bundle: path.relative(REPO_ROOT, options.bundle).startsWith('..')
+        ? options.bundle
+        : path.relative(REPO_ROOT, options.bundle),
       jobs: options.jobs,
       budgetMs: options.budgetMs,
       slowMs: options.slowMs,

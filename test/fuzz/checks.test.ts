@@ -3,11 +3,11 @@
  * result made to break it and stays quiet on a result that keeps it. The inputs follow the input policy
  * of DEVELOPERS.md and the declared rules of functions/sheet/rules.ts; the "good" results are written by
  * hand from the function contract (P(highest) adds up to 1, intervals ordered, the control's slot "").
- * The functions' parameter lists come from the fixture metadata (copied from dist/functions.json).
+ * The functions' parameters come from the function catalogue (functions/catalogue.ts), their ids from the
+ * fixture metadata (copied from dist/functions.json).
  */
 import * as path from 'path';
-import * as rules from '../../functions/sheet/rules';
-import * as variantCounts from '../../functions/sheet/variants';
+import * as catalogue from '../../functions/catalogue';
 
 interface Finding {
   kind: string;
@@ -19,7 +19,7 @@ interface Model {
 }
 /* eslint-disable @typescript-eslint/no-require-imports */
 const { loadModels } = require('../../fuzz/models.js') as {
-  loadModels(options: { metadataPath: string; declarations: unknown }): Model[];
+  loadModels(options: { metadataPath: string; catalogue: unknown }): Model[];
 };
 const { checkResult, internalWording } = require('../../fuzz/checks.js') as {
   checkResult(model: Model, args: unknown[], result: Record<string, unknown>, limits: { memoryMb: number }): Finding[];
@@ -35,7 +35,7 @@ const { judge } = require('../../fuzz/spec.js') as {
 
 const models = loadModels({
   metadataPath: path.join(__dirname, 'fixtures', 'functions.json'),
-  declarations: { rules, variantCounts },
+  catalogue,
 });
 const model = (id: string): Model => {
   const found = models.find((m) => m.id === id);

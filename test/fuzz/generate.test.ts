@@ -7,8 +7,7 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
-import * as rules from '../../functions/sheet/rules';
-import * as variantCounts from '../../functions/sheet/variants';
+import * as catalogue from '../../functions/catalogue';
 
 interface Model {
   id: string;
@@ -23,7 +22,7 @@ interface Call {
 }
 /* eslint-disable @typescript-eslint/no-require-imports */
 const { loadModels } = require('../../fuzz/models.js') as {
-  loadModels(options: { metadataPath: string; declarations: unknown }): Model[];
+  loadModels(options: { metadataPath: string; catalogue: unknown }): Model[];
 };
 const { generateCall, nextUp, nextDown } = require('../../fuzz/generate.js') as {
   generateCall(models: Model[], seed: number | string, index: number): Call;
@@ -37,7 +36,7 @@ const { judge } = require('../../fuzz/spec.js') as {
 
 const METADATA = path.join(__dirname, '..', '..', 'dist', 'functions.json');
 if (!fs.existsSync(METADATA)) throw new Error('dist/functions.json is missing: run `npm run build` before `npm test`');
-const models = loadModels({ metadataPath: METADATA, declarations: { rules, variantCounts } });
+const models = loadModels({ metadataPath: METADATA, catalogue });
 /** A text form that keeps -0, undefined and NaN apart from 0, null and each other. */
 const serialise = (x: unknown): string =>
   JSON.stringify(x, (_key, v: unknown) =>
