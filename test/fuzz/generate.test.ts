@@ -7,7 +7,11 @@
  */
 import * as fs from 'fs';
 import * as path from 'path';
+import * as os from 'os';
 import * as catalogue from '../../functions/catalogue';
+import { entry, optional, priorPart, range } from '../../functions/sheet/entry';
+import * as rules from '../../functions/sheet/rules';
+import { COMPARISON } from '../../functions/sheet/variants';
 
 interface Model {
   id: string;
@@ -31,6 +35,14 @@ const { generateCall, nextUp, nextDown } = require('../../fuzz/generate.js') as 
 };
 const { judge } = require('../../fuzz/spec.js') as {
   judge(model: Model, args: unknown[]): { violations: { param: string; why: string }[]; countProblem: boolean };
+};
+const { checkResult } = require('../../fuzz/checks.js') as {
+  checkResult(
+    model: Model,
+    args: unknown[],
+    result: Record<string, unknown>,
+    limits: { memoryMb: number },
+  ): { kind: string }[];
 };
 /* eslint-enable @typescript-eslint/no-require-imports */
 
@@ -139,5 +151,82 @@ describe('fuzzer inputs', () => {
     expect(results.filter(([, found]) => !found).map(([what]) => what)).toEqual([]);
     const modes = new Set(list.map((c) => c.mode));
     expect([...modes].sort()).toEqual(['extreme', 'fault', 'ordinary']);
+  });
+
+  it('cover a function the fuzzer has never heard of, from its catalogue entry alone', () => {
+    // an invented function: two conversion ranges, a level and a Gamma prior; an interval per challenger
+    const invented = entry({
+      id: 'INVENTED_SPREAD',
+      family: 'conversion',
+      params: [
+        range(rules.CONVERSIONS),
+        range(rules.VISITORS),
+        optional(rules.LEVEL),
+        priorPart(rules.PRIOR_SHAPE, 'gamma'),
+        priorPart(rules.PRIOR_RATE, 'gamma'),
+      ],
+      variants: COMPARISON,
+      spill: { kind: 'perVariant', width: 2, versusControl: true },
+    });
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'lift-ledger-fuzz-model-'));
+    try {
+      const metadata = path.join(dir, 'functions.json');
+      const parameters = invented.params.map((p) => ({ name: p.name, type: 'any', optional: p.optional }));
+      fs.writeFileSync(metadata, JSON.stringify({ functions: [{ id: 'INVENTED_SPREAD', parameters }] }));
+      const catalogueWithIt = { findFunction: (id: string) => (id === 'INVENTED_SPREAD' ? invented : undefined) };
+      const [model] = loadModels({ metadataPath: metadata, catalogue: catalogueWithIt });
+      expect(model?.params.map((p) => `${p.name}:${p.role}`)).toEqual([
+        'conversions:range',
+        'visitors:range',
+        'level:scalar',
+        'prior_shape:scalar',
+        'prior_rate:scalar',
+      ]);
+      const list = Array.from({ length: 400 }, (_, i) => generateCall([model as Model], 5, i));
+      const judged = list.map((c) => judge(model as Model, c.args));
+      expect(judged.filter((j) => j.violations.length === 0 && !j.countProblem).length).toBeGreaterThan(150);
+      expect(judged.filter((j) => j.violations.some((v) => v.param === 'level')).length).toBeGreaterThan(5);
+      // its result gets the checks its spill implies: the control's slot blank, lower ≤ upper
+      const args = [
+        [[10], [12]],
+        [[100], [100]],
+      ];
+      const value = (v: unknown) => ({ outcome: 'value', value: v, heapGrowthMb: 0 });
+      expect(
+        checkResult(
+          model as Model,
+          args,
+          value([
+            ['', ''],
+            [0.1, 0.3],
+          ]),
+          { memoryMb: 50 },
+        ),
+      ).toEqual([]);
+      expect(
+        checkResult(
+          model as Model,
+          args,
+          value([
+            ['', ''],
+            [0.3, 0.1],
+          ]),
+          { memoryMb: 50 },
+        ).map((f) => f.kind),
+      ).toEqual(['order']);
+      expect(
+        checkResult(
+          model as Model,
+          args,
+          value([
+            [0, 0],
+            [0.1, 0.3],
+          ]),
+          { memoryMb: 50 },
+        ).map((f) => f.kind),
+      ).toEqual(['blank']);
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
