@@ -16,12 +16,16 @@ const os = require('os');
 const { runFuzz, runFormulas, UsageError, DEFAULTS } = require('./index');
 const { formatReport } = require('./report');
 
-const USAGE = fs
-  .readFileSync(__filename, 'utf8')
-  .split('\n')
-  .filter((l) => l.startsWith(' *   ') || l.startsWith(' *                    '))
-  .map((l) => l.slice(3))
-  .join('\n');
+const USAGE = `Seeded calls of every registered worksheet function through the built bundle (npm run build
+first), each in a child process with a watchdog; prints a report grouped by kind with reproductions.
+
+  node fuzz/run.js [--seed S] [--calls N] [--only NAME[,NAME…]] [--bundle dist/functions.js]
+                   [--jobs J] [--budget-ms 1000] [--slow-ms 250] [--memory-mb 50] [--heap-mb 256]
+                   [--no-shrink] [--shrink-seconds 120] [--json FILE] [--markdown FILE] [--quiet]
+  node fuzz/run.js --formula '=ABTEST.PROB_HIGHEST({1;2},{10;10})' [--formula …]   replay formulas
+
+Defaults: seed 1, 20000 calls, every function, one child process per core (at most 4). Same seed, same calls.
+Exit code 0: nothing found; 1: a check failed; 2: the fuzzer could not run (the message says why).`;
 
 function parseArgs(argv) {
   const options = { formulas: [] };
