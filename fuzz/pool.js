@@ -181,7 +181,9 @@ class Pool {
    * @param {{ bundle: string, jobs: number, budgetMs: number, heapMb: number, maxWallFactor?: number }} options
    */
   constructor(options) {
-    this.options = { maxWallFactor: 8, ...options };
+    // the wall-time cap only catches a call that stalls without using CPU; on a machine shared by many
+    // processes a call may get a few per cent of a core, so the cap is generous
+    this.options = { maxWallFactor: 60, ...options };
     this.queue = [];
     this.workers = [];
     this.nextId = 0;
