@@ -268,6 +268,8 @@ if (require.main === module) {
   const out = process.argv[2] || path.join(ROOT, 'dist', 'help');
   fs.mkdirSync(out, { recursive: true });
   const pages = buildHelpPages();
-  for (const [name, html] of pages) fs.writeFileSync(path.join(out, name), html);
+  // the hash of each page's own style sheet into its Content-Security-Policy (webpack does this after minifying)
+  const { withInlineStyleHashes } = require('../manifest/contentSecurityPolicy');
+  for (const [name, html] of pages) fs.writeFileSync(path.join(out, name), withInlineStyleHashes(html));
   console.log(`wrote ${pages.size} help pages to ${out}`);
 }
