@@ -10,6 +10,7 @@ export * from './inputs';
 export * from './spill';
 export * from './run';
 export * from './decision';
+export * from './labels';
 export * from './entry';
 export * from './args';
 export * from './days';

@@ -11,7 +11,8 @@
  * the one a single look suggests.
  */
 import { ensure } from './errors';
-import { MAX_VARIANTS, probAboveControl } from './conversion';
+import { probAboveControl } from './conversion';
+import { MAX_VARIANTS } from './limits';
 import { srmPValue } from './srm';
 import { NO_MEMO, type TableSource } from './tableMemo';
 import { type BetaPrior, type ConversionCounts, UNIFORM_PRIOR } from './types';

@@ -54,7 +54,7 @@ export function falseAlarmWithLooks(
  * @customfunction POWER_WITH_LOOKS
  * @helpurl https://localhost:3000/help/POWER_WITH_LOOKS.html
  * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The challenger's true relative lift, greater than -1 (0.1 is +10%).
+ * @param lift The challenger's true relative lift, as a fraction greater than -1 and at most 1 (0.1 is +10%).
  * @param visitors_at_looks Visitors per variant at each look, cumulative and increasing (a row or a column of 1 to 100 whole numbers, each 1 to 1000000000).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare the challenger at a look, greater than 0.5 and at most 0.999999 (optional; default 0.95).
  * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).

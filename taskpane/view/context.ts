@@ -4,6 +4,7 @@
  * overwriting.
  */
 import type { BetaPrior } from '../../functions/stats/types';
+import { DEFAULT_LOCALE, type NumberLocale } from '../logic/inputs';
 import type { FormulaBlock, Workbook, WriteOutcome } from '../workbook/workbook';
 import { button, showMessage } from './dom';
 
@@ -22,6 +23,8 @@ export type PanelEvent = 'prior' | 'plan' | 'selection';
 export interface PanelContext {
   readonly workbook: Workbook;
   readonly state: PanelState;
+  /** How the user writes numbers (from Office's display language): fields read both decimal marks. */
+  readonly locale: NumberLocale;
   /** Tell the other sections something changed. */
   notify(event: PanelEvent): void;
   /** Listen for changes. */
@@ -32,12 +35,13 @@ export interface PanelContext {
 
 /**
  * A panel context with fresh state and its own listener lists. Cost O(1).
- * @example const context = createContext(workbook, (id) => tabs.open('cautions', id))
+ * @example const context = createContext(workbook, (id) => tabs.open('cautions', id), localeOf('de-DE'))
  */
-export function createContext(workbook: Workbook, showCautions: (id?: string) => void): PanelContext {
+export function createContext(workbook: Workbook, showCautions: (id?: string) => void, locale: NumberLocale = DEFAULT_LOCALE): PanelContext {
   const listeners = new Map<PanelEvent, (() => void)[]>();
   return {
     workbook,
+    locale,
     state: { prior: null, plannedPerVariant: null },
     notify(event) {
       for (const listener of listeners.get(event) ?? []) listener();
@@ -51,7 +55,8 @@ export function createContext(workbook: Workbook, showCautions: (id?: string) =>
 
 /**
  * Write a block; when its area is not empty, show which cells and offer "Overwrite" or "Cancel" in
- * `status`, and write again only if the user says so. Resolves with the final outcome (null when the
+ * `status`, and write again only if the user says so, over the cells listed only (anything typed there
+ * meanwhile stops the write: outcome 'occupied'). Resolves with the final outcome (null when the
  * user cancelled). Never rejects.
  * @example await writeAsking(workbook, block, statusArea, 'the plan') //=> { kind: 'written', address: 'Plan!A1:B14' }
  */
@@ -68,11 +73,17 @@ export async function writeAsking(
   return new Promise((resolve) => {
     const overwrite = button('confirm-overwrite', 'Overwrite', 'primary');
     const cancel = button('cancel-overwrite', 'Cancel');
+    let answered = false;
     overwrite.addEventListener('click', () => {
+      // Once only (a double click writes once); only the cells listed, as they were when listed.
+      if (answered) return;
+      answered = true;
       showMessage(status, 'info', `Writing ${what}…`);
-      void workbook.writeBlock({ ...block, overwrite: true }).then(resolve);
+      void workbook.writeBlock({ ...block, overwrite: first.occupied }).then(resolve);
     });
     cancel.addEventListener('click', () => {
+      if (answered) return;
+      answered = true;
       showMessage(status, 'info', 'Nothing was written.');
       resolve(null);
     });
