@@ -9,6 +9,7 @@ import type { BetaPrior } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import { MAX_VARIANTS } from '../../functions/stats/limits';
 import { classicSampleSize, decisionPower, visitorsNeeded } from '../../functions/stats/planning';
+import { thresholdForVariants } from '../../functions/stats/manyVariants';
 import type { PlanInputs } from './formulas';
 import {
   DEFAULT_LOCALE,
@@ -70,8 +71,37 @@ export const BONFERRONI_SPLIT: ThresholdSource = Object.freeze({
   },
 });
 
+/**
+ * Dunnett's many-to-one threshold (Dunnett 1955; the worksheet's THRESHOLD_FOR_VARIANTS): the
+ * P(beats control) each of the m = variants − 1 challengers must reach so that, with no true difference,
+ * the chance of declaring any of them is exactly 1 − threshold in the large-sample limit, counting that
+ * the challengers share the control. A little less strict than Bonferroni's split, so a little smaller.
+ * Throws StatsError from the core for a false-alarm rate 1 − threshold outside [0.000001, 0.5].
+ */
+export const DUNNETT_MANY_TO_ONE: ThresholdSource = Object.freeze({
+  label: "false-alarm rate shared by the challengers, Dunnett's many-to-one threshold",
+  perChallenger(threshold: number, variants: number): number {
+    return variants <= 2 ? threshold : thresholdForVariants(variants, 1 - threshold);
+  },
+  formula(thresholdCell: string, variantsCell: string): string {
+    return `ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,${variantsCell}),1-${thresholdCell})`;
+  },
+  explain(threshold: number, variants: number, locale: NumberLocale = DEFAULT_LOCALE): string {
+    const challengers = variants - 1;
+    if (challengers <= 1) return '';
+    const falseAlarm = formatPercent(1 - threshold, locale);
+    const perChallenger = formatPercent(DUNNETT_MANY_TO_ONE.perChallenger(threshold, variants), locale);
+    return (
+      `With ${challengers} challengers, each one gets a chance to win by luck. To keep the overall chance of a false ` +
+      `winner at ${falseAlarm}, each challenger must reach P(beats control) ≥ ${perChallenger} ` +
+      `(THRESHOLD_FOR_VARIANTS: Dunnett's many-to-one threshold, which counts that all challengers are compared ` +
+      `with the same control). That is why each variant needs more visitors than in a test of two.`
+    );
+  },
+});
+
 /** The threshold source the plan uses. */
-export const PLAN_THRESHOLD_SOURCE: ThresholdSource = BONFERRONI_SPLIT;
+export const PLAN_THRESHOLD_SOURCE: ThresholdSource = DUNNETT_MANY_TO_ONE;
 
 /** Our own rule of thumb: past 8 weeks a test meets changing seasons, cookie loss and other launches. */
 export const LONG_TEST_WEEKS = 8;

@@ -17,10 +17,18 @@ import {
   samePlan,
   type PlanTexts,
 } from '../logic/plan';
+import {
+  CADENCE_WORDS,
+  detectableInWeeks,
+  maxWeeks,
+  planWithLooks,
+  type LookCadence,
+  type LooksPlanInputs,
+} from '../logic/looksPlan';
 import { parseAddress, rangeAddress } from '../workbook/address';
 import { chartSlot, drawPowerChart } from './charts';
 import { outcomeText, writeAsking, type PanelContext } from './context';
-import { button, checkbox, el, nextFrame, setBusy, showMessage, textField, type Field } from './dom';
+import { button, checkbox, el, nextFrame, select, setBusy, showMessage, textField, type Field } from './dom';
 
 /** Pause after the last keystroke before the plan is recomputed (ms). */
 export const PLAN_DEBOUNCE_MS = 350;
@@ -54,6 +62,15 @@ export function planSection(context: PanelContext): HTMLElement {
   const liftHint = el('p', { id: 'plan-lift-example', class: 'hint field-hint' });
   fields.lift.element.insertBefore(liftHint, fields.lift.element.querySelector('.field-message'));
   const usePrior = checkbox('plan-use-prior', 'Plan with the prior from the Prior section', false);
+  const cadence = select(
+    'plan-cadence',
+    'How often will you look at the read-out?',
+    (Object.keys(CADENCE_WORDS) as LookCadence[]).map((key) => [key, CADENCE_WORDS[key]]),
+    'weekly',
+  );
+  const weeksAvailable = textField('plan-weeks-available', 'Weeks you can run the test (for the smallest lift)', '4');
+  const looksResults = el('div', { id: 'plan-looks', class: 'summary', 'aria-live': 'polite' });
+  const detectable = el('div', { id: 'plan-detectable', class: 'summary', 'aria-live': 'polite' });
   const insertButton = button('plan-insert', 'Insert plan', 'primary');
   setBusy(insertButton, true);
   const results = el('div', { id: 'plan-results', class: 'summary', 'aria-live': 'polite' });
@@ -84,6 +101,8 @@ export function planSection(context: PanelContext): HTMLElement {
         'Fields marked % take percents: type 5 for 5%.',
     ),
     ...Object.values(fields).map((field) => field.element),
+    cadence.element,
+    weeksAvailable.element,
     usePrior.element,
     el('h3', {}, 'The plan'),
     freshness,
@@ -95,6 +114,9 @@ export function planSection(context: PanelContext): HTMLElement {
     progress,
     progressText,
     el('div', { class: 'chart' }, slot.canvas),
+    el('h3', {}, 'Looking while it runs'),
+    looksResults,
+    detectable,
     cautionLink,
   );
 
@@ -224,6 +246,7 @@ export function planSection(context: PanelContext): HTMLElement {
         progressText.textContent =
           `Decision power of each challenger at ¼ to 2 times the planned size (exact ` +
           `binomial sums${inputs.variants > 2 ? ', at the per-challenger threshold' : ''}).`;
+        await showLooks(inputs, myRun);
       }
     } catch (error) {
       if (myRun !== run.id) return;
@@ -234,6 +257,100 @@ export function planSection(context: PanelContext): HTMLElement {
       showMessage(duration, 'info', null);
       progress.hidden = true;
       setBusy(insertButton, true);
+    }
+  };
+
+  /** The plan with looks: the threshold for the chosen cadence, the weeks, the naive rule beside it. */
+  const showLooks = async (inputs: PlanInputs, myRun: number): Promise<void> => {
+    const locale = context.locale;
+    const chosen = cadence.input.value as LookCadence;
+    const looksInputs: LooksPlanInputs = { ...inputs, cadence: chosen };
+    const pct = (x: number): string => formatPercent(x, locale);
+    looksResults.replaceChildren(el('p', { class: 'hint' }, `Working out the threshold for looking ${CADENCE_WORDS[chosen]}…`));
+    detectable.replaceChildren();
+    try {
+      const result = await planWithLooks(looksInputs, {
+        pause: nextFrame,
+        cancelled: () => myRun !== run.id,
+        onStep: (weeks) => {
+          looksResults.replaceChildren(
+            el('p', { class: 'hint' }, `Working out the threshold for looking ${CADENCE_WORDS[chosen]}… (tried ${weeks} weeks)`),
+          );
+        },
+      });
+      if (result === null || myRun !== run.id) return;
+      const shown = result.plan ?? result.longest;
+      const lookCount = shown.looks.length;
+      const lookWords = chosen === 'once' ? 'one look at the end' : `${lookCount} looks, ${CADENCE_WORDS[chosen]}`;
+      const lines: HTMLElement[] = [];
+      lines.push(
+        el(
+          'p',
+          { id: 'plan-looks-threshold' },
+          `Looking ${CADENCE_WORDS[chosen]}: declare a challenger only when P(beats control) ≥ ${pct(shown.threshold)} ` +
+            `at a look (THRESHOLD_FOR_LOOKS${inputs.variants > 2 ? ' after THRESHOLD_FOR_VARIANTS' : ''}).`,
+        ),
+      );
+      lines.push(
+        el(
+          'p',
+          { id: 'plan-looks-weeks' },
+          result.plan !== null
+            ? `Run for ${shown.weeks} ${shown.weeks === 1 ? 'week' : 'weeks'} (${lookWords}): a real lift of ` +
+                `${pct(inputs.lift)} is then declared with a chance of ${pct(shown.power)}.`
+            : `Even ${shown.weeks} weeks (${lookWords}) reach only a ${pct(shown.power)} chance of declaring a real ` +
+                `lift of ${pct(inputs.lift)}: plan for a larger lift, more traffic or fewer variants.`,
+        ),
+      );
+      lines.push(
+        el(
+          'p',
+          { id: 'plan-looks-false-alarm' },
+          `Chance of a false winner for each challenger: ${pct(result.naiveFalseAlarm)} if you declare at ` +
+            `${pct(inputs.threshold)} at any of these looks, ${pct(result.honestFalseAlarm)} under the plan's ` +
+            `threshold (FALSE_ALARM_WITH_LOOKS).`,
+        ),
+      );
+      looksResults.replaceChildren(...lines);
+      if (myRun === run.id) showDetectable(looksInputs, myRun);
+    } catch (error) {
+      if (myRun !== run.id) return;
+      looksResults.replaceChildren(el('p', { class: 'error-text' }, `No plan with looks: ${(error as Error).message}`));
+    }
+  };
+
+  /** The other way round: what a run of the weeks available can detect. */
+  const showDetectable = (inputs: LooksPlanInputs, myRun: number): void => {
+    const locale = context.locale;
+    const text = weeksAvailable.text().trim();
+    const weeks = Number(text);
+    const top = maxWeeks(inputs.cadence);
+    if (!/^\d+$/.test(text) || weeks < 1 || weeks > top) {
+      weeksAvailable.say('error', `Weeks you can run: a whole number from 1 to ${top} when looking ${CADENCE_WORDS[inputs.cadence]}.`);
+      detectable.replaceChildren();
+      return;
+    }
+    weeksAvailable.say('note', null);
+    try {
+      const found = detectableInWeeks(inputs, weeks);
+      if (myRun !== run.id) return;
+      const from = formatPercent(inputs.baselineRate, locale);
+      detectable.replaceChildren(
+        el(
+          'p',
+          { id: 'plan-detectable-lift' },
+          found.lift === null
+            ? `With this traffic for ${weeks} ${weeks === 1 ? 'week' : 'weeks'}, no lift up to a rate of 100% reaches ` +
+                `a ${formatPercent(inputs.power, locale)} chance of being declared.`
+            : `With this traffic for ${weeks} ${weeks === 1 ? 'week' : 'weeks'} ` +
+                `(${formatCount(found.visitorsPerVariant, locale)} visitors per variant), the smallest lift you can ` +
+                `expect to detect is ${formatPercent(found.lift, locale)} (from ${from} to ` +
+                `${formatPercent(inputs.baselineRate * (1 + found.lift), locale)}), at P(beats control) ≥ ` +
+                `${formatPercent(found.threshold, locale)} (SMALLEST_DETECTABLE_LIFT, counting the last look only).`,
+        ),
+      );
+    } catch (error) {
+      detectable.replaceChildren(el('p', { class: 'error-text' }, `No smallest lift: ${(error as Error).message}`));
     }
   };
 
@@ -275,6 +392,8 @@ export function planSection(context: PanelContext): HTMLElement {
 
   for (const field of Object.values(fields)) field.input.addEventListener('input', schedule);
   usePrior.box.addEventListener('change', schedule);
+  cadence.input.addEventListener('change', schedule);
+  weeksAvailable.input.addEventListener('input', schedule);
   context.listen('prior', () => {
     const prior = context.state.prior;
     const used = run.shown?.prior;

@@ -8,6 +8,7 @@ import { HyperFormula } from 'hyperformula';
 import { numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
 import { cellAddress, columnIndex, columnLetters, parseAddress, quoteSheet, rangeAddress, referenceFrom } from '../../taskpane/workbook/address';
 import { formatCount, formatPercent, parseNumber, parsePercent } from '../../taskpane/logic/inputs';
+import { BONFERRONI_SPLIT } from '../../taskpane/logic/plan';
 import { decisionText, defaultLabel } from '../../functions/sheet/decision';
 
 describe('addresses', () => {
@@ -98,7 +99,7 @@ describe('plan block', () => {
       'Visitors per day to the page',
       'Share of those visitors in the test',
       'Classic test: significance level (two-sided)',
-      'Threshold each challenger must reach (false-alarm rate split evenly over the challengers)',
+      "Threshold each challenger must reach (false-alarm rate shared by the challengers, Dunnett's many-to-one threshold)",
       'Visitors needed per variant',
       'Visitors needed in total',
       'Weeks to run (whole weeks)',
@@ -115,7 +116,7 @@ describe('plan block', () => {
       4000,
       0.5,
       0.05,
-      '=1-(1-C5)/MAX(1,C7-1)',
+      '=ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,C7),1-C5)',
       '=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)',
       '=C12*C7',
       '=MAX(1,ROUNDUP(C13/(C8*C9)/7,0))',
@@ -134,7 +135,7 @@ describe('plan block', () => {
   });
 
   test('the threshold, total, weeks and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
-    const { block, cells } = planBlock(inputs, 'A1');
+    const { block, cells } = planBlock(inputs, 'A1', undefined, BONFERRONI_SPLIT);
     // Replace the ABTEST call (not registered in HyperFormula) by a constant, keep every other formula as written.
     const rows = block.cells.map((row) => row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? 31234 : v)));
     const hf = HyperFormula.buildFromArray(rows as (string | number)[][], { licenseKey: 'gpl-v3' });

@@ -8,6 +8,7 @@
 import {
   BONFERRONI_SPLIT,
   curveSizes,
+  DUNNETT_MANY_TO_ONE,
   durationCheck,
   PLAN_THRESHOLD_SOURCE,
   planNumbers,
@@ -142,8 +143,8 @@ describe('many variants: the threshold each challenger must reach', () => {
   );
 
   test('ten variants need more visitors each than two, and exactly the core size at the split threshold', () => {
-    const two = planNumbers({ ...inputs, variants: 2 });
-    const ten = planNumbers({ ...inputs, variants: 10 });
+    const two = planNumbers({ ...inputs, variants: 2 }, BONFERRONI_SPLIT);
+    const ten = planNumbers({ ...inputs, variants: 10 }, BONFERRONI_SPLIT);
     expect(ten.perChallengerThreshold).toBeCloseTo(1 - 0.05 / 9, 15);
     expect(ten.visitorsPerVariant).toBe(visitorsNeeded(0.1, 0.5, 1 - 0.05 / 9, 0.8, UNIFORM_PRIOR));
     expect(ten.visitorsPerVariant).toBeGreaterThan(two.visitorsPerVariant);
@@ -168,7 +169,32 @@ describe('many variants: the threshold each challenger must reach', () => {
       explain: () => 'fixed',
     };
     expect(planNumbers(inputs, fixed).visitorsPerVariant).toBe(visitorsNeeded(0.1, 0.5, 0.99, 0.8, UNIFORM_PRIOR));
-    expect(PLAN_THRESHOLD_SOURCE).toBe(BONFERRONI_SPLIT);
+    expect(PLAN_THRESHOLD_SOURCE).toBe(DUNNETT_MANY_TO_ONE);
+  });
+
+  test.each(rows.map((row) => [row.challengers, row]))(
+    "%i challenger(s): the plan's threshold is Dunnett's many-to-one value (scipy, Dunnett 1955), never stricter than Bonferroni's",
+    (challengers, row) => {
+      const threshold = DUNNETT_MANY_TO_ONE.perChallenger(0.95, challengers + 1);
+      // scipy's critical value printed to 6 decimals (plan_many_variants.json)
+      expect(Math.abs(normalQuantile(threshold) - row.dunnett_z)).toBeLessThan(2e-6);
+      expect(threshold).toBeLessThanOrEqual(BONFERRONI_SPLIT.perChallenger(0.95, challengers + 1) + 1e-12);
+      const numbers = planNumbers({ ...inputs, variants: challengers + 1 });
+      expect(numbers.perChallengerThreshold).toBe(threshold);
+      expect(numbers.visitorsPerVariant).toBe(visitorsNeeded(0.1, 0.5, threshold, 0.8, UNIFORM_PRIOR));
+    },
+  );
+
+  test("Dunnett's source writes THRESHOLD_FOR_VARIANTS and explains itself", () => {
+    expect(DUNNETT_MANY_TO_ONE.formula('B4', 'B6')).toBe('ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,B6),1-B4)');
+    expect(DUNNETT_MANY_TO_ONE.perChallenger(0.95, 2)).toBe(0.95);
+    expect(DUNNETT_MANY_TO_ONE.explain(0.95, 2)).toBe('');
+    expect(DUNNETT_MANY_TO_ONE.explain(0.95, 5)).toBe(
+      'With 4 challengers, each one gets a chance to win by luck. To keep the overall chance of a false winner at ' +
+        '5.00%, each challenger must reach P(beats control) ≥ 98.5% (THRESHOLD_FOR_VARIANTS: Dunnett\'s many-to-one ' +
+        'threshold, which counts that all challengers are compared with the same control). That is why each ' +
+        'variant needs more visitors than in a test of two.',
+    );
   });
 
   test('the explanation says how many challengers and what each must reach', () => {
@@ -185,7 +211,7 @@ describe('many variants: the threshold each challenger must reach', () => {
 describe('planNumbers: run time in whole weeks', () => {
   test('per variant from the core, total, whole weeks that cover the days of traffic', () => {
     const numbers = planNumbers(inputs);
-    const needed = visitorsNeeded(0.1, 0.5, 1 - 0.05 / 2, 0.8, UNIFORM_PRIOR);
+    const needed = visitorsNeeded(0.1, 0.5, DUNNETT_MANY_TO_ONE.perChallenger(0.95, 3), 0.8, UNIFORM_PRIOR);
     expect(numbers.visitorsPerVariant).toBe(needed);
     expect(numbers.totalVisitors).toBe(3 * needed);
     expect(numbers.testVisitorsPerDay).toBe(200);
@@ -253,7 +279,7 @@ describe('power curve', () => {
     });
     expect(events).toEqual(['pause', 'point 1/3 (1)', 'pause', 'point 2/3 (2)', 'pause', 'point 3/3 (3)']);
     expect(points).toEqual(
-      sizes.map((n) => ({ visitorsPerVariant: n, power: decisionPower(0.1, 0.5, n, 0.975, UNIFORM_PRIOR) })),
+      sizes.map((n) => ({ visitorsPerVariant: n, power: decisionPower(0.1, 0.5, n, DUNNETT_MANY_TO_ONE.perChallenger(0.95, 3), UNIFORM_PRIOR) })),
     );
     // more visitors, more power (a property of the design, common practice)
     expect((points[2] as PowerPoint).power).toBeGreaterThan((points[0] as PowerPoint).power);
