@@ -257,23 +257,73 @@ function planSheet(): DemoSheet {
   return s.done();
 }
 
+/** The invented daily counts of a running test: per day, visitors of the three variants, then conversions. */
+const DAILY_COUNTS: readonly (readonly number[])[] = [
+  [555, 608, 571, 21, 29, 27],
+  [592, 555, 608, 26, 24, 26],
+  [629, 592, 555, 25, 29, 22],
+  [576, 629, 592, 26, 29, 26],
+  [613, 576, 629, 26, 29, 26],
+  [620, 673, 636, 24, 32, 29],
+  [657, 620, 673, 29, 27, 29],
+  [634, 597, 560, 26, 29, 22],
+  [581, 634, 597, 26, 29, 27],
+  [618, 581, 634, 26, 29, 26],
+  [565, 618, 581, 22, 29, 27],
+  [602, 565, 618, 26, 25, 27],
+  [699, 662, 625, 28, 32, 25],
+  [646, 699, 662, 29, 32, 29],
+];
+
 /**
- * Builds a fresh copy of the demo workbook (three sheets: "Checkout test", "Past tests", "Plan").
+ * A running test's daily counts for the panel's "Day by day" section (select A4:G18 there). Invented.
+ */
+function dailySheet(): DemoSheet {
+  const s = sheetBuilder('Daily test');
+  s.width('A', 90);
+  for (const column of ['B', 'C', 'D', 'E', 'F', 'G']) s.width(column, 150);
+  s.put('A1', 'Delivery banner test, day by day (running)');
+  s.strong('A1');
+  s.put('A2', DEMO_NOTICE);
+  const header = [
+    'Day',
+    'Control visitors',
+    'Green banner visitors',
+    'Tall banner visitors',
+    'Control conversions',
+    'Green banner conversions',
+    'Tall banner conversions',
+  ];
+  header.forEach((text, c) => {
+    const address = `${columnLetters(c)}4`;
+    s.put(address, text);
+    s.strong(address);
+  });
+  DAILY_COUNTS.forEach((counts, d) => {
+    s.put(`A${5 + d}`, `Day ${d + 1}`);
+    counts.forEach((n, c) => s.put(`${columnLetters(c + 1)}${5 + d}`, n));
+  });
+  s.put('A20', 'Counts of each day (not running totals). The Day by day section of the panel reads this table.');
+  return s.done();
+}
+
+/**
+ * Builds a fresh copy of the demo workbook (four sheets: "Checkout test", "Past tests", "Plan", "Daily test").
  *
  * Cost: a few hundred cells. Never throws.
  *
  * @example
- * buildDemoWorkbook().map((sheet) => sheet.name); //=> ['Checkout test', 'Past tests', 'Plan']
+ * buildDemoWorkbook().map((sheet) => sheet.name); //=> ['Checkout test', 'Past tests', 'Plan', 'Daily test']
  */
 export function buildDemoWorkbook(): DemoSheet[] {
-  return [checkoutSheet(), pastTestsSheet(), planSheet()];
+  return [checkoutSheet(), pastTestsSheet(), planSheet(), dailySheet()];
 }
 
 /**
  * The demo as HyperFormula's `buildFromSheets` input: sheet name → rows of cell contents.
  *
  * @example
- * Object.keys(demoSheetsForHyperFormula()); //=> ['Checkout test', 'Past tests', 'Plan']
+ * Object.keys(demoSheetsForHyperFormula()); //=> ['Checkout test', 'Past tests', 'Plan', 'Daily test']
  */
 export function demoSheetsForHyperFormula(sheets: readonly DemoSheet[] = buildDemoWorkbook()): Record<string, DemoCell[][]> {
   return Object.fromEntries(sheets.map((sheet) => [sheet.name, sheet.cells.map((row) => [...row])]));

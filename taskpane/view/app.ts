@@ -1,5 +1,5 @@
 /**
- * The side panel: a tab list (Prior, Plan, Read-out, Explain, Cautions) over the sections, a line
+ * The side panel: a tab list (Prior, Plan, Read-out, Day by day, Explain, Cautions) over the sections, a line
  * saying what is selected, and the Cautions reachable from every section (its tab, and a link in each
  * section that opens the caution it needs).
  */
@@ -8,12 +8,13 @@ import { localeOf } from '../logic/inputs';
 import type { Workbook } from '../workbook/workbook';
 import { createContext } from './context';
 import { el } from './dom';
+import { daySection } from './daySection';
 import { explainSection } from './explainSection';
 import { planSection } from './planSection';
 import { priorSection } from './priorSection';
 import { readoutSection } from './readoutSection';
 
-type TabId = 'prior' | 'plan' | 'readout' | 'explain' | 'cautions';
+type TabId = 'prior' | 'plan' | 'readout' | 'days' | 'explain' | 'cautions';
 
 function cautionsSection(): HTMLElement {
   const accordion = el('fluent-accordion', { id: 'cautions-list' });
@@ -47,6 +48,7 @@ const TABS: readonly (readonly [TabId, string])[] = [
   ['prior', 'Prior'],
   ['plan', 'Plan'],
   ['readout', 'Read-out'],
+  ['days', 'Day by day'],
   ['explain', 'Explain'],
   ['cautions', 'Cautions'],
 ];
@@ -96,6 +98,7 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook, options:
   sectionsByTab.prior = priorSection(context);
   sectionsByTab.plan = planSection(context);
   sectionsByTab.readout = readoutSection(context);
+  sectionsByTab.days = daySection(context);
   sectionsByTab.explain = explain.element;
   sectionsByTab.cautions = cautionsSection();
   for (const [id, section] of Object.entries(sectionsByTab)) {

@@ -14,10 +14,12 @@ export interface PanelState {
   prior: BetaPrior | null;
   /** Visitors per variant from the Plan section, once computed. */
   plannedPerVariant: number | null;
+  /** The threshold the Plan section chose for the looks it planned (THRESHOLD_FOR_LOOKS), once computed. */
+  lookThreshold?: number | null;
 }
 
 /** The things sections can tell each other. */
-export type PanelEvent = 'prior' | 'plan' | 'selection';
+export type PanelEvent = 'prior' | 'plan' | 'selection' | 'looks';
 
 /** Shared by every section of one panel. */
 export interface PanelContext {

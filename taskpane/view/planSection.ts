@@ -312,6 +312,8 @@ export function planSection(context: PanelContext): HTMLElement {
         ),
       );
       looksResults.replaceChildren(...lines);
+      context.state.lookThreshold = shown.threshold;
+      context.notify('looks');
       if (myRun === run.id) showDetectable(looksInputs, myRun);
     } catch (error) {
       if (myRun !== run.id) return;

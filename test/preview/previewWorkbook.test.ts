@@ -102,15 +102,15 @@ describe('PreviewWorkbook', () => {
   it('adds and removes sheets (ids stay), and keeps each sheet’s selection', () => {
     const book = PreviewWorkbook.create(buildDemoWorkbook());
     const id = book.addSheet('Checkout test read-out');
-    expect(book.sheetNames()).toEqual(['Checkout test', 'Past tests', 'Plan', 'Checkout test read-out']);
+    expect(book.sheetNames()).toEqual(['Checkout test', 'Past tests', 'Plan', 'Daily test', 'Checkout test read-out']);
     book.select({ sheet: 0, row: 4, col: 1, rows: 2, columns: 1 });
     book.activate(id);
     expect(book.selection).toEqual({ sheet: id, row: 0, col: 0, rows: 1, columns: 1 });
     book.activate(0);
     expect(book.selection).toEqual({ sheet: 0, row: 4, col: 1, rows: 2, columns: 1 });
     book.removeSheet(1);
-    expect(book.sheetNames()).toEqual(['Checkout test', 'Plan', 'Checkout test read-out']);
-    expect(book.sheetIds()).toEqual([0, 2, id]);
+    expect(book.sheetNames()).toEqual(['Checkout test', 'Plan', 'Daily test', 'Checkout test read-out']);
+    expect(book.sheetIds()).toEqual([0, 2, 3, id]);
     expect(() => {
       for (const sheet of book.sheetIds()) book.removeSheet(sheet);
     }).toThrow(new Error('a workbook keeps at least one sheet'));
@@ -139,7 +139,7 @@ describe('PreviewWorkbook', () => {
 
   it('says on every demo sheet that the data is invented', () => {
     const sheets = buildDemoWorkbook();
-    expect(sheets.map((s) => s.name)).toEqual(['Checkout test', 'Past tests', 'Plan']);
+    expect(sheets.map((s) => s.name)).toEqual(['Checkout test', 'Past tests', 'Plan', 'Daily test']);
     for (const s of sheets) expect(s.cells[1]?.[0]).toBe(DEMO_NOTICE);
     expect(DEMO_NOTICE).toMatch(/invented/i);
   });
