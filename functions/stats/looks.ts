@@ -9,8 +9,8 @@
  * cumulative visitors per variant at each look (the same in both variants).
  *
  * Two methods, chosen by the work the exact one would take (never by the function asked):
- * - exact: a dynamic programme over both variants' conversion counts (looksExact.ts), exact to ~1e-13,
- *   used while it needs at most EXACT_BUDGET multiply-adds per run (small tests);
+ * - exact: a dynamic programme over both variants' conversion counts (looksExact.ts), exact up to rounding
+ *   (within 1e-11 of scipy's enumeration), used while it needs at most EXACT_BUDGET multiply-adds per run (small tests);
  * - calibrated normal: the chance of declaring at each look alone is computed exactly on the lattice of
  *   outcomes (decisionLattice.ts lookPower, the same number as DECISION_POWER at that size), turned into a
  *   bound z_k = Φ⁻¹(1 − P_k) on the standardised statistic, and the looks are joined by the correlation
@@ -273,8 +273,8 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
  * Method: exact enumeration of both variants' counts from look to look while its work is below a budget
  * (about 6–66 million multiply-adds, growing with the looks), else the calibrated normal method (each look's
  * own chance computed exactly, the looks joined by recursive integration); see the module comment.
- * Accuracy: exact to ~1e-13 on the first; within 1e-3 of the exact enumeration on the second (measured,
- * test/reference/looks_reference.py), and within ~1e-4 once n·p·(1 − p) ≥ 2000 at the last look.
+ * Accuracy: exact up to rounding on the first (within 1e-11 of scipy's enumeration); within 1e-3 of the
+ * exact enumeration on the second (measured, test/reference/looks_reference.py), and within ~1e-4 once n·p·(1 − p) ≥ 2000 at the last look.
  * Cost: ≤ ~30 ms (exact), or O(Σ_k √(n_k p(1 − p))) walk steps plus O(K·(12r)²) for the integration.
  * Throws StatsError('invalid_argument') for a rate outside (0, 1), looks that are not 1 … 100 increasing
  * whole numbers from 1 to 1e9, a threshold outside (0.5, 0.999999], sides other than 1 and 2, a prior
