@@ -1,3 +1,4 @@
+/* eslint-disable @typescript-eslint/no-explicit-any -- Excel passes ranges as any[][] (blanks must stay blank) */
 /**
  * The worksheet functions of the family "looks": planning a test that is looked at several times, and
  * watching a running test day by day.

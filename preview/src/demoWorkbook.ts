@@ -276,12 +276,12 @@ const DAILY_COUNTS: readonly (readonly number[])[] = [
 ];
 
 /**
- * A running test's daily counts for the panel's "Day by day" section (select A4:G18 there). Invented.
+ * A running test's daily counts for the panel's Daily section (select A4:G18 there). Invented.
  */
 function dailySheet(): DemoSheet {
   const s = sheetBuilder('Daily test');
   s.width('A', 90);
-  for (const column of ['B', 'C', 'D', 'E', 'F', 'G']) s.width(column, 150);
+  for (const column of ['B', 'C', 'D', 'E', 'F', 'G']) s.width(column, 185);
   s.put('A1', 'Delivery banner test, day by day (running)');
   s.strong('A1');
   s.put('A2', DEMO_NOTICE);
@@ -303,7 +303,7 @@ function dailySheet(): DemoSheet {
     s.put(`A${5 + d}`, `Day ${d + 1}`);
     counts.forEach((n, c) => s.put(`${columnLetters(c + 1)}${5 + d}`, n));
   });
-  s.put('A20', 'Counts of each day (not running totals). The Day by day section of the panel reads this table.');
+  s.put('A20', 'Counts of each day (not running totals). The Daily section of the panel reads this table.');
   return s.done();
 }
 

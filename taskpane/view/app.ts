@@ -1,5 +1,5 @@
 /**
- * The side panel: a tab list (Prior, Plan, Read-out, Day by day, Explain, Cautions) over the sections, a line
+ * The side panel: a tab list (Prior, Plan, Read-out, Daily, Explain, Cautions) over the sections, a line
  * saying what is selected, and the Cautions reachable from every section (its tab, and a link in each
  * section that opens the caution it needs).
  */
@@ -48,7 +48,7 @@ const TABS: readonly (readonly [TabId, string])[] = [
   ['prior', 'Prior'],
   ['plan', 'Plan'],
   ['readout', 'Read-out'],
-  ['days', 'Day by day'],
+  ['days', 'Daily'],
   ['explain', 'Explain'],
   ['cautions', 'Cautions'],
 ];

@@ -1,5 +1,5 @@
 /**
- * The "Day by day" section, for a test that is running: select a table of daily counts (a header row, the
+ * The Daily section ("Daily" tab), for a test that is running: select a table of daily counts (a header row, the
  * day, one visitors column per variant, then one conversions column per variant, the control first), and
  * the section says in words whether the test may stop today under its plan — P(beats control) on the
  * running totals against the threshold the Plan section chose for its looks, after the daily split check.
@@ -16,7 +16,7 @@ import { button, el, setBusy, showMessage, textField } from './dom';
 import { writePlace } from './writePlace';
 
 /**
- * Build the Day by day section. Cost: DOM construction; "Use the selected table" reads the selection once
+ * Build the Daily section. Cost: DOM construction; "Use the selected table" reads the selection once
  * and runs the by-day functions once over it.
  * @example section.append(daySection(context))
  */
@@ -41,7 +41,7 @@ export function daySection(context: PanelContext): HTMLElement {
     context.showCautions('peeking');
   });
   root.append(
-    el('h2', {}, 'Day by day'),
+    el('h2', {}, 'Daily: a running test'),
     el(
       'p',
       { class: 'hint' },
