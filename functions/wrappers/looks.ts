@@ -61,7 +61,7 @@ export function falseAlarmWithLooks(
  * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
  * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
  * @returns A probability between 0 and 1.
- * @method As FALSE_ALARM_WITH_LOOKS, with the challenger at baseline × (1 + lift): exact enumeration for small tests, each look's exact chance joined by recursive integration for larger ones (within 0.001 of the exact enumeration).
+ * @method The same method as the false-alarm rate with looks, with the challenger at baseline × (1 + lift): exact enumeration for small tests, each look's exact chance joined by recursive integration for larger ones (within 0.001 of the exact enumeration).
  * @source P. Armitage, C. K. McPherson and B. C. Rowe, JRSS A 132 (1969); C. Jennison and B. W. Turnbull, Group Sequential Methods (2000), ch. 19.
  * @example =ABTEST.POWER_WITH_LOOKS(0.05, 0.4873, {100;200;300;400;500}) returns 0.58764
  * @crosscheck With one look it equals =ABTEST.DECISION_POWER(baseline_rate, lift, visitors, threshold); with lift 0 it is FALSE_ALARM_WITH_LOOKS with one side.
@@ -93,7 +93,7 @@ export function powerWithLooks(
  * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
  * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
  * @returns A threshold between 0.5 and 0.999999: declare at a look only when PROB_ABOVE_CONTROL reaches it.
- * @method Solves FALSE_ALARM_WITH_LOOKS(threshold) = false_alarm by the same method (so FALSE_ALARM_WITH_LOOKS at the result is at most false_alarm), to 0.0001 on the normal-quantile scale of the threshold; for small tests the rate moves in steps and the middle of the step reached is returned. With large looks it is the constant boundary of Pocock (1977).
+ * @method Solves: the false-alarm rate with these looks at the threshold equals the rate asked, by the same method as that rate (so the rate at the result is at most the one asked), to 0.0001 on the normal-quantile scale of the threshold; for small tests the rate moves in steps and the middle of the step reached is returned. With large looks it is the constant boundary of Pocock (1977).
  * @source S. J. Pocock, "Group sequential methods in the design and analysis of clinical trials", Biometrika 64 (1977); C. Jennison and B. W. Turnbull, Group Sequential Methods (2000), ch. 2 and 19.
  * @example =ABTEST.THRESHOLD_FOR_LOOKS(0.05, {1000000;2000000;3000000;4000000;5000000}, 0.05, 2) returns 0.99209
  * @crosscheck =NORM.S.DIST(2.413, TRUE) gives 0.99209, Pocock's two-sided boundary for 5 equally spaced looks.
@@ -123,7 +123,7 @@ export function thresholdForLooks(
  * @param [prior_alpha] Prior alpha of every variant's rate, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta of every variant's rate, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns One row per day and one column per challenger; a blank day gives a blank row, and a challenger without visitors yet a blank cell.
- * @method PROB_ABOVE_CONTROL on the running totals of each day: Evan Miller's exact sum where it applies, otherwise quadrature of the Beta posteriors.
+ * @method P(beats control) as in the read-out, on the running totals of each day: Evan Miller's exact sum where it applies, otherwise quadrature of the Beta posteriors.
  * @source E. Miller, "Formulas for Bayesian A/B Testing" (2015); A. Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4.
  * @example =ABTEST.PROB_ABOVE_CONTROL_BY_DAY({21,19,27;17,22,24}, {412,398,405;388,401,377}) returns {0.41836,0.82782;0.63667,0.93615}
  * @crosscheck The last row equals =ABTEST.PROB_ABOVE_CONTROL of the column totals.

@@ -13,6 +13,7 @@ import { MAX_VARIANTS } from '../../functions/stats/limits';
 import type { CellValue, FormulaBlock, BlockStyle } from '../workbook/workbook';
 import { cellAddress, parseAddress, quoteSheet, rangeAddress } from '../workbook/address';
 import { DEFAULT_LOCALE, formatPercent, type NumberLocale } from './inputs';
+import { thresholdText } from './looksPlan';
 
 /** Below this the split check says the traffic split is broken (the read-out's own mark). */
 export const SPLIT_ALARM = 0.001;
@@ -133,11 +134,11 @@ export function dailyVerdict(table: DailyTable, threshold: number, locale: Numbe
   } else if (mayStop) {
     text =
       `Under its plan the test may stop today: ${name} has P(beats control) = ${pct(top)}, at or above the plan's ` +
-      `threshold of ${pct(threshold)} — provided today is one of the looks the plan counted.`;
+      `threshold of ${thresholdText(threshold, locale)} — provided today is one of the looks the plan counted.`;
   } else {
     text =
       `Keep the test running: the highest P(beats control) today is ${pct(top)} (${name}), below the plan's ` +
-      `threshold of ${pct(threshold)}. Stop at the planned end whatever it shows.`;
+      `threshold of ${thresholdText(threshold, locale)}. Stop at the planned end whatever it shows.`;
   }
   return { probabilities: last, splitPValue, best, mayStop, splitBroken, text };
 }

@@ -16,6 +16,16 @@ import { smallestDetectableLift } from '../../functions/stats/detectableLift';
 import { thresholdForVariants } from '../../functions/stats/manyVariants';
 import type { BetaPrior } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
+import { DEFAULT_LOCALE, formatDecimal, type NumberLocale } from './inputs';
+
+/**
+ * A threshold as the panel shows it: a percent with two decimals, rounded up, so that a P(beats control)
+ * read against the text is never declared below the true threshold. Cost O(1).
+ * @example thresholdText(0.9927064) //=> "99.28%"
+ */
+export function thresholdText(threshold: number, locale: NumberLocale = DEFAULT_LOCALE): string {
+  return `${formatDecimal(Math.ceil(threshold * 10000 - 1e-9) / 100, locale)}%`;
+}
 
 /** How often the read-out is looked at. */
 export type LookCadence = 'daily' | 'weekly' | 'once';
@@ -163,6 +173,8 @@ export async function planWithLooks(inputs: LooksPlanInputs, control: StepContro
     }
     plan = tried.get(hi)!;
   }
+  await control.pause();
+  if (control.cancelled()) return null;
   const shown = plan ?? longest;
   const naive = falseAlarmWithLooks(inputs.baselineRate, shown.looks, inputs.threshold, 1, prior).probability;
   const honest = falseAlarmWithLooks(inputs.baselineRate, shown.looks, shown.threshold, 1, prior).probability;

@@ -22,6 +22,7 @@ import {
   detectableInWeeks,
   maxWeeks,
   planWithLooks,
+  thresholdText,
   type LookCadence,
   type LooksPlanInputs,
 } from '../logic/looksPlan';
@@ -287,7 +288,7 @@ export function planSection(context: PanelContext): HTMLElement {
         el(
           'p',
           { id: 'plan-looks-threshold' },
-          `Looking ${CADENCE_WORDS[chosen]}: declare a challenger only when P(beats control) ≥ ${pct(shown.threshold)} ` +
+          `Looking ${CADENCE_WORDS[chosen]}: declare a challenger only when P(beats control) ≥ ${thresholdText(shown.threshold, locale)} ` +
             `at a look (THRESHOLD_FOR_LOOKS${inputs.variants > 2 ? ' after THRESHOLD_FOR_VARIANTS' : ''}).`,
         ),
       );
@@ -314,6 +315,7 @@ export function planSection(context: PanelContext): HTMLElement {
       looksResults.replaceChildren(...lines);
       context.state.lookThreshold = shown.threshold;
       context.notify('looks');
+      await nextFrame();
       if (myRun === run.id) showDetectable(looksInputs, myRun);
     } catch (error) {
       if (myRun !== run.id) return;
@@ -348,7 +350,7 @@ export function planSection(context: PanelContext): HTMLElement {
                 `(${formatCount(found.visitorsPerVariant, locale)} visitors per variant), the smallest lift you can ` +
                 `expect to detect is ${formatPercent(found.lift, locale)} (from ${from} to ` +
                 `${formatPercent(inputs.baselineRate * (1 + found.lift), locale)}), at P(beats control) ≥ ` +
-                `${formatPercent(found.threshold, locale)} (SMALLEST_DETECTABLE_LIFT, counting the last look only).`,
+                `${thresholdText(found.threshold, locale)} (SMALLEST_DETECTABLE_LIFT, counting the last look only).`,
         ),
       );
     } catch (error) {

@@ -10,7 +10,7 @@
 import type { Frame, Page } from 'playwright-core';
 import { probAboveControlByDay } from '../../functions/stats/byDay';
 import { formatPercent } from '../../taskpane/logic/inputs';
-import { detectableInWeeks, planWithLooks, type LooksPlanInputs } from '../../taskpane/logic/looksPlan';
+import { detectableInWeeks, planWithLooks, thresholdText, type LooksPlanInputs } from '../../taskpane/logic/looksPlan';
 import { dailyVerdict, readDailyTable } from '../../taskpane/logic/dayByDay';
 import { buildDemoWorkbook } from '../../preview/src/demoWorkbook';
 import { openPreview, panelFrame, readBlock, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
@@ -59,7 +59,7 @@ describe('planning with looks and watching a running test', () => {
     const plan = expected.plan!;
     await panel.locator('#tab-plan').click();
     await panel.locator('#plan-cadence').selectOption('daily');
-    const threshold = formatPercent(plan.threshold);
+    const threshold = thresholdText(plan.threshold);
     await panel.locator('#plan-looks-threshold', { hasText: threshold }).waitFor({ timeout: 120_000 });
     expect(await panel.locator('#plan-looks-threshold').textContent()).toBe(
       `Looking every day: declare a challenger only when P(beats control) ≥ ${threshold} at a look (THRESHOLD_FOR_LOOKS).`,

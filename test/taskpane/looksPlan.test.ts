@@ -16,6 +16,7 @@ import {
   looksAtWeeks,
   maxWeeks,
   planWithLooks,
+  thresholdText,
   type LooksPlanInputs,
 } from '../../taskpane/logic/looksPlan';
 
@@ -133,5 +134,14 @@ describe('detectableInWeeks', () => {
     const six = detectableInWeeks(base, 6).lift!;
     expect(six).toBeLessThan(two);
     expect(detectableInWeeks({ ...base, cadence: 'once' }, 6).lift!).toBeLessThan(six);
+  });
+});
+
+describe('thresholdText', () => {
+  test('two decimals, rounded up so a P read against it is never below the threshold', () => {
+    expect(thresholdText(0.9927064)).toBe('99.28%');
+    expect(thresholdText(0.95)).toBe('95%');
+    expect(thresholdText(0.9499806)).toBe('95%');
+    expect(thresholdText(0.98532)).toBe('98.54%');
   });
 });
