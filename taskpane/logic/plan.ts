@@ -84,7 +84,8 @@ export const DUNNETT_MANY_TO_ONE: ThresholdSource = Object.freeze({
     return variants <= 2 ? threshold : thresholdForVariants(variants, 1 - threshold);
   },
   formula(thresholdCell: string, variantsCell: string): string {
-    return `ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,${variantsCell}),1-${thresholdCell})`;
+    // Two variants keep the threshold itself (1 − (1 − t) is not always t in floating point).
+    return `IF(${variantsCell}<=2,${thresholdCell},ABTEST.THRESHOLD_FOR_VARIANTS(${variantsCell},1-${thresholdCell}))`;
   },
   explain(threshold: number, variants: number, locale: NumberLocale = DEFAULT_LOCALE): string {
     const challengers = variants - 1;

@@ -116,7 +116,7 @@ describe('plan block', () => {
       4000,
       0.5,
       0.05,
-      '=ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,C7),1-C5)',
+      '=IF(C7<=2,C5,ABTEST.THRESHOLD_FOR_VARIANTS(C7,1-C5))',
       '=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)',
       '=C12*C7',
       '=MAX(1,ROUNDUP(C13/(C8*C9)/7,0))',

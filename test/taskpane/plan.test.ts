@@ -186,7 +186,7 @@ describe('many variants: the threshold each challenger must reach', () => {
   );
 
   test("Dunnett's source writes THRESHOLD_FOR_VARIANTS and explains itself", () => {
-    expect(DUNNETT_MANY_TO_ONE.formula('B4', 'B6')).toBe('ABTEST.THRESHOLD_FOR_VARIANTS(MAX(2,B6),1-B4)');
+    expect(DUNNETT_MANY_TO_ONE.formula('B4', 'B6')).toBe('IF(B6<=2,B4,ABTEST.THRESHOLD_FOR_VARIANTS(B6,1-B4))');
     expect(DUNNETT_MANY_TO_ONE.perChallenger(0.95, 2)).toBe(0.95);
     expect(DUNNETT_MANY_TO_ONE.explain(0.95, 2)).toBe('');
     expect(DUNNETT_MANY_TO_ONE.explain(0.95, 5)).toBe(
