@@ -76,7 +76,7 @@ function showTheme(mode: 'dark' | 'light'): void {
 function applyTheme(): void {
   const system = window.matchMedia?.('(prefers-color-scheme: dark)');
   const apply = (): void => {
-    let office: 'dark' | 'light' | null = null;
+    let office: 'dark' | 'light' | null;
     try {
       office = officeThemeMode(Office.context?.officeTheme);
     } catch {

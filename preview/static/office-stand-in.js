@@ -8,7 +8,7 @@
  * the preview's banner flips the theme and reloads the panel, as Office shows a panel after a theme change.
  */
 (function () {
-  var parentPreview = null;
+  var parentPreview;
   try {
     parentPreview = window.parent && window.parent !== window ? window.parent.liftLedgerPreview : null;
   } catch (e) {

@@ -6,6 +6,7 @@
 import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
 import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
 import { PLAN_THRESHOLD_SOURCE, type ThresholdSource } from './plan';
+import { variantLetter } from '../../functions/sheet/labels';
 
 /** Warning fill and text colours for a split that looks broken. */
 export const WARNING_FILL = '#F4CCCC';
@@ -212,7 +213,6 @@ export interface ReadoutBlock extends LabelledBlock {
   readonly chartBottomRight: string;
 }
 
-const DEFAULT_NAMES = (index: number): string => (index < 26 ? String.fromCharCode(65 + index) : `V${index + 1}`);
 
 /** What the expected-loss column means, written under the table (the loss is a difference of rates, not a relative change). */
 export const LOSS_NOTE =
@@ -303,7 +303,7 @@ export function readoutBlock(
   for (let i = 0; i < k; i += 1) {
     const value =
       source.namesRef === null
-        ? DEFAULT_NAMES(i)
+        ? variantLetter(i)
         : `=${ref(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`;
     put(2 + i, 0, value);
   }

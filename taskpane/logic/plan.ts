@@ -7,7 +7,7 @@
  */
 import type { BetaPrior } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import { MAX_VARIANTS } from '../../functions/stats/conversion';
+import { MAX_VARIANTS } from '../../functions/stats/limits';
 import { classicSampleSize, decisionPower, visitorsNeeded } from '../../functions/stats/planning';
 import type { PlanInputs } from './formulas';
 import {

@@ -8,6 +8,7 @@ import { HyperFormula } from 'hyperformula';
 import { numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
 import { cellAddress, columnIndex, columnLetters, parseAddress, quoteSheet, rangeAddress, referenceFrom } from '../../taskpane/workbook/address';
 import { formatCount, formatPercent, parseNumber, parsePercent } from '../../taskpane/logic/inputs';
+import { decisionText, defaultLabel } from '../../functions/sheet/decision';
 
 describe('addresses', () => {
   test('column letters round-trip (bijective base 26, as Excel numbers columns)', () => {
@@ -260,5 +261,20 @@ describe('read-out block', () => {
 
   test('refuses fewer than two variants', () => {
     expect(() => readoutBlock({ ...source, variants: 1 }, settings, 'E1')).toThrow(new RangeError('a read-out needs at least two variants'));
+  });
+});
+
+describe('default variant names: the one variant-letter helper (functions/sheet/labels.ts)', () => {
+  test('a read-out without a names column names the 27th variant AA, as DECISION does', () => {
+    const settings = { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: 0.4 };
+    const source = { namesRef: null, visitorsRef: 'B2:B29', conversionsRef: 'C2:C29', sharesRef: null, variants: 28 };
+    const built = readoutBlock(source, settings, 'E1');
+    // names sit in the block's first column, one row per variant from the third row
+    const names = [2, 3, 27, 28, 29].map((row) => built.block.cells[row]?.[0]);
+    expect(names).toEqual(['A', 'B', 'Z', 'AA', 'AB']);
+    // the spreadsheet column letters after Z are AA, AB (common practice)
+    expect(decisionText({ choose: true, label: defaultLabel(26), loss: 0.0002, maxLoss: 0.0005 })).toBe(
+      'Choose AA: its expected loss 0.020% is within the 0.050% allowed',
+    );
   });
 });
