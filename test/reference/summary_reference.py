@@ -21,6 +21,16 @@ import scipy
 from scipy import stats, integrate, optimize
 
 CASES = {
+    # The preview's invented demo (preview/src/demoWorkbook.ts, a garden-supply shop's checkout buttons),
+    # as the browser test of the Share section writes its summary: uniform prior, planned shares 1:1:1.
+    "checkout_demo": {
+        "names": ["Green button (control)", "Orange button", "Big basket icon"],
+        "visitors": [10412, 10388, 10451],
+        "conversions": [412, 463, 431],
+        "prior": [1.0, 1.0],
+        "shares": [1.0, 1.0, 1.0],
+        "level": 0.95,
+    },
     # Three versions of a sign-up form, uniform prior, equal split planned.
     "signup": {
         "names": ["Short form", "Form with photo", "Two-step form"],

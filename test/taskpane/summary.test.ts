@@ -81,7 +81,7 @@ function prose(input: SummaryInput): string {
 }
 
 describe('the numbers are the core’s, and the core agrees with scipy', () => {
-  for (const name of ['signup', 'banner', 'unsettled']) {
+  for (const name of ['signup', 'banner', 'unsettled', 'checkout_demo']) {
     test(`${name}: P(best), P(beats control), lift range, expected loss, decision and split check against scipy`, () => {
       const ref = REFERENCE[name] as ReferenceCase;
       const numbers = summaryNumbers(inputOf(name));
@@ -219,7 +219,7 @@ describe('the words say the numbers', () => {
 
 describe('the printed page', () => {
   test('every line fits the page width; one page of rows; portrait, fitted to one page, the block as print area', () => {
-    for (const name of ['signup', 'banner', 'unsettled']) {
+    for (const name of ['signup', 'banner', 'unsettled', 'checkout_demo']) {
       const input = inputOf(name, {
         guardrails: [{ name: 'Revenue per visitor, the leader', threshold: -0.02, probability: 0.9, passes: true }],
       });
