@@ -296,7 +296,8 @@ export function describeCopy(plan: CopyPlan, capabilities: Capabilities): { text
     `A new sheet "${plan.newSheet}" right after "${plan.sheet}": a copy of ${what}, in which ` +
     `${plural(plan.results, 'ABTEST result becomes a plain value', 'ABTEST results become plain values')}, ${formulasGo}` +
     `${others > 0 ? `; ${plural(others, 'other formula that reads', 'other formulas that read')} cells left out ${others === 1 ? 'keeps its value' : 'keep their values'} too` : ''}. ` +
-    `Number formats come along and ${charts}. A header line says when and from which cells it was made. ` +
+    `${plan.scope.kind === 'sheet' && plan.charts === 0 ? 'Number formats come along (the sheet has no charts)' : `Number formats come along and ${charts}`}. ` +
+    'A header line says when and from which cells it was made. ' +
     `"${plan.sheet}" itself is not changed and stays live.`;
   const fallback = capabilities.notes
     ? null

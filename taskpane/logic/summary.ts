@@ -110,7 +110,7 @@ export function summaryNumbers(input: SummaryInput): SummaryNumbers {
 }
 
 /** Columns of the page and their widths in points (about 524 points: a portrait A4 or Letter page). */
-export const SUMMARY_COLUMN_WIDTHS: readonly number[] = [140, 64, 64, 64, 64, 64, 64];
+export const SUMMARY_COLUMN_WIDTHS: readonly number[] = [124, 58, 76, 72, 64, 64, 64];
 /** The longest line of running text, in characters (it runs over the empty cells to its right). */
 export const LINE_LENGTH = 92;
 

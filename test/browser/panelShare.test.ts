@@ -221,7 +221,10 @@ describe('the Share section on the demo read-out', () => {
     await openShare(page, panel);
     await panel.locator('#share-look').click();
     await panel.locator('#share-plan-text').waitFor({ timeout: 60_000 });
-    expect(await panel.locator('#share-plan-text').textContent()).toContain('each with its formula in a "How computed" column (column O)');
+    const planText = await panel.locator('#share-plan-text').textContent();
+    expect(planText).toContain('each with its formula in a "How computed" column (column O)');
+    // A fresh demo: no chart on the sheet.
+    expect(planText).toContain('Number formats come along (the sheet has no charts).');
     expect(await panel.locator('#share-fallback').textContent()).toBe(
       'This Excel cannot add notes to cells (it lacks the Excel JavaScript API 1.18), so the formulas go into a column beside the values instead.',
     );
