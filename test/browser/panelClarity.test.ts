@@ -90,7 +90,7 @@ describe('the side panel, clear to a marketer', () => {
       await panel.evaluate(() =>
         Array.from(document.querySelectorAll('#tabs fluent-tab')).map((t) => (t as HTMLElement).tabIndex),
       ),
-    ).toEqual([-1, 0, -1, -1, -1]);
+    ).toEqual([-1, 0, -1, -1, -1, -1]);
     // one way to the cautions: the tab (no second Cautions button in the header)
     expect(await panel.locator('header fluent-button').count()).toBe(0);
   });
