@@ -15,7 +15,7 @@ import { frozenHeaderLine, frozenTime, howComputedNote, isAbtestResult } from '.
 import { displayFormula, tokenize } from '../../cli/core/formula';
 import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress, type ParsedAddress } from '../workbook/address';
 import { newSheetName } from '../workbook/placement';
-import type { Capabilities, CellValue, FormulaCell, SheetCopyEdits, SheetScan } from '../workbook/workbook';
+import type { Capabilities, FormulaCell, SheetCopyEdits, SheetScan } from '../workbook/workbook';
 import { OPTIONAL_API } from '../workbook/workbook';
 
 /** What to copy: the whole sheet, or only some of its cells (a read-out), by local address. */

@@ -64,13 +64,6 @@ function inputOf(name: string, extra: Partial<SummaryInput> = {}): SummaryInput 
   };
 }
 
-/** The page as one text, a line per row (cells joined by tabs), for searching. */
-function pageText(input: SummaryInput): string {
-  return summaryLines(input, summaryNumbers(input))
-    .map((line) => line.cells.join('\t'))
-    .join('\n');
-}
-
 /** The page's running text with its lines joined back into sentences. */
 function prose(input: SummaryInput): string {
   return summaryLines(input, summaryNumbers(input))
