@@ -207,9 +207,25 @@ export function shareSection(context: PanelContext): HTMLElement {
         showMessage(copyStatus, 'error', hostProblem);
         return;
       }
-      const selection = await context.workbook.readSelection({ maxRows: 1, maxColumns: 1 });
-      const scopeNow: CopyScope = scopeValue() === 'cells' ? { kind: 'cells', range: selection.localAddress } : { kind: 'sheet' };
-      const scan = await context.workbook.scanSheet(selection.sheet);
+      let scopeNow: CopyScope = { kind: 'sheet' };
+      let sheet: string;
+      if (scopeValue() === 'cells') {
+        let selection: RangeContents;
+        try {
+          selection = await context.workbook.readSelection({ maxRows: 1, maxColumns: 1 });
+        } catch (error) {
+          // Whole rows or columns ("E:E") are not a block of cells the panel reads.
+          if (!(error instanceof RangeError)) throw error;
+          resetPlan(null);
+          showMessage(copyStatus, 'error', 'Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.');
+          return;
+        }
+        scopeNow = { kind: 'cells', range: selection.localAddress };
+        sheet = selection.sheet;
+      } else {
+        sheet = await context.workbook.activeSheetName();
+      }
+      const scan = await context.workbook.scanSheet(sheet);
       showPlan(scan, scopeNow);
     } catch (error) {
       resetPlan(null);

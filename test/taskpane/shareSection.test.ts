@@ -140,6 +140,24 @@ describe('Share section: the shareable copy', () => {
     expect(excel.formulas(COPY, 'E9')).toEqual([['']]);
   });
 
+  test('only the selected cells, with a whole column selected: asks for the read-out’s cells and copies nothing', async () => {
+    const excel = demoSheet();
+    excel.selection = { sheet: SHEET, address: 'E:E' };
+    const root = mount(excel);
+    (root.querySelector('#share-scope') as HTMLElement & { value?: string }).value = 'cells';
+    click(root, '#share-look');
+    await settle();
+    expect(text(root, '#share-status')).toBe('Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.');
+    expect(disabled(root, '#share-copy')).toBe(true);
+    expect(excel.sheetNames()).toEqual([SHEET, 'Plan']);
+    // The whole sheet needs no cells selected: it is the active sheet.
+    (root.querySelector('#share-scope') as HTMLElement & { value?: string }).value = 'sheet';
+    click(root, '#share-look');
+    await settle();
+    expect(text(root, '#share-plan-text')).toContain('a copy of the whole sheet (A1:E8)');
+    expect(disabled(root, '#share-copy')).toBe(false);
+  });
+
   test('a sheet whose formulas changed after the plan was shown is not copied; the new plan is shown', async () => {
     const excel = demoSheet();
     const root = mount(excel);
@@ -161,6 +179,7 @@ describe('Share section: the shareable copy', () => {
   test('a sheet without ABTEST results: says why, and the copy button stays off', async () => {
     const excel = demoSheet();
     excel.selection = { sheet: 'Plan', address: 'A1' };
+    excel.activeSheet = 'Plan';
     excel.set('Plan', 'A1:B1', [['Baseline', 0.04]]);
     const root = mount(excel);
     click(root, '#share-look');
