@@ -31,6 +31,10 @@
  * `PreviewWorkbook.failNextWrite` makes the next sync that writes fail part-way, on purpose (for tests).
  * Errors and promises are made in the realm of the window given (the side-panel iframe), so
  * `instanceof Error` holds there.
+ *
+ * Why one file of this size: the proxies (request context, range, format, chart, worksheet, workbook)
+ * mirror one API and share one command queue and realm; a file per proxy would have to export the
+ * queue's internals.
  */
 import { DEFAULT_COLUMN_PX, parseBlock, type CellBlock, type PreviewWorkbook } from './previewWorkbook';
 

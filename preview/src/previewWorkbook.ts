@@ -2,6 +2,10 @@
  * The preview's workbook: a HyperFormula engine plus what a spreadsheet shows around it (number formats,
  * simple cell styles, column widths, the active sheet, the selection, charts), with change listeners for
  * the grid and the Excel stand-in. No DOM here, so it also runs under node.
+ *
+ * Why one file of this size: the PreviewWorkbook class is one state (engine, formats, styles, widths,
+ * selection, charts, listeners) that every method reads; the number-format and address helpers above it
+ * are shared by the class and the grid, and are the part to move out first if the file grows.
  */
 import { DetailedCellError, HyperFormula } from 'hyperformula';
 import { columnLetters, parseA1, type DemoSheet, HYPERFORMULA_CONFIG, demoSheetsForHyperFormula } from './demoWorkbook';

@@ -22,6 +22,10 @@
  *   colour, fill, column widths, spilled cells); after a failed write it is put back step by step, read
  *   again and compared, and the outcome lists whatever differs.
  * - Writes run one at a time: a second click waits for the first write and then finds the area taken.
+ *
+ * Why one file of this size: it is one factory whose methods (reads, finding a free place, the write with
+ * its record and undo, charts, the selection listener) share the queue that runs writes one at a time,
+ * the host check and the read helpers; split, that state would have to pass between files.
  */
 import type {
   Capabilities,
