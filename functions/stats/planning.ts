@@ -10,6 +10,7 @@
 import { CLOSED_FORM_MAX_TERMS, closedFormLogProbGreater } from './betaComparison';
 import { ensure, StatsError } from './errors';
 import { probAboveControl } from './conversion';
+import { TableMemo, type TableSource } from './tableMemo';
 import { digamma, pentagamma, tetragamma, trigamma } from './special/gamma';
 import { betaCdf, betaLogDensity, betaSf } from './special/incompleteBeta';
 import { normalCdf, normalQuantile } from './special/normal';
@@ -198,20 +199,55 @@ const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
  * (betaComparison.ts) when a whole-number shape keeps it short and accurate, otherwise the quadrature of
  * {@link probAboveControl}.
  */
-function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior): number {
+function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior, work: ExactWork): number {
   const aA = prior.alpha + xA;
   const bA = prior.beta + n - xA;
   const aB = prior.alpha + xB;
   const bB = prior.beta + n - xB;
   const closed = closedFormLogProbGreater(aB, bB, aA, bA, CLOSED_FORM_MAX_TERMS);
   if (closed !== undefined) return Math.exp(closed);
+  work.quadratures += 1;
+  if (work.quadratures > EXACT_QUADRATURE_BUDGET) throw work.overBudget();
   return probAboveControl(
     [
       { conversions: xA, visitors: n },
       { conversions: xB, visitors: n },
     ],
     prior,
+    work.tables,
   )[0] as number;
+}
+
+/**
+ * Most exact comparisons by quadrature in one planning call (~0.1–1 ms each). A plan read out at a
+ * threshold up to 0.9999 with priors down to 0.001 needs at most a few hundred (the bench's worst cases);
+ * a threshold much closer to 1 makes the Edgeworth approximation's error margin wider than the distance
+ * to 1, so every outcome near the boundary is a close call, and the call stops here with a clear error
+ * instead of computing for seconds to minutes.
+ */
+export const EXACT_QUADRATURE_BUDGET = 1200;
+
+/**
+ * The exact comparisons of one planning call: their count against EXACT_QUADRATURE_BUDGET and the
+ * tables they share (a close call's posteriors recur for neighbouring outcomes and bracket steps).
+ */
+interface ExactWork {
+  quadratures: number;
+  readonly tables: TableSource;
+  overBudget(): StatsError;
+}
+
+function exactWork(what: string): ExactWork {
+  return {
+    quadratures: 0,
+    tables: new TableMemo(200_000),
+    overBudget: () =>
+      new StatsError(
+        'not_available',
+        `${what} needs more than ${EXACT_QUADRATURE_BUDGET} exact comparisons of close outcomes, more than one ` +
+          'calculation may use; a threshold this close to 1 cannot be planned here (0.9999 and below can)',
+      ),
+  };
 }
 
 /**
@@ -342,10 +378,10 @@ export function decisionPower(
   );
   checkProbability(threshold, 'the threshold');
   checkPrior(prior);
-  return powerOf(baselineRate, challenger, visitorsPerVariant, threshold, prior);
+  return powerOf(baselineRate, challenger, visitorsPerVariant, threshold, prior, exactWork('this decision power'));
 }
 
-function powerOf(p0: number, p1: number, n: number, threshold: number, prior: BetaPrior): number {
+function powerOf(p0: number, p1: number, n: number, threshold: number, prior: BetaPrior, work: ExactWork): number {
   const { alpha, beta } = prior;
   const rangeA = binomialPmfRange(n, p0);
   const rangeB = binomialPmfRange(n, p1);
@@ -366,7 +402,7 @@ function powerOf(p0: number, p1: number, n: number, threshold: number, prior: Be
       // A close call on a pair this unlikely cannot move the power by more than its probability.
       if ((rangeA.pmf[i] as number) * (rangeB.pmf[j] as number) < NEGLIGIBLE_PAIR) return approximate >= threshold;
     }
-    return exactProbAbove(xA, xB, n, prior) >= threshold;
+    return exactProbAbove(xA, xB, n, prior, work) >= threshold;
   };
 
   let power = 0;
@@ -410,7 +446,8 @@ export function visitorsNeeded(
   checkProbability(power, 'the power');
   checkPrior(prior);
   const target = power;
-  const powerAt = (n: number): number => powerOf(baselineRate, challenger, n, threshold, prior);
+  const work = exactWork('this plan');
+  const powerAt = (n: number): number => powerOf(baselineRate, challenger, n, threshold, prior, work);
   const tooMany = (): StatsError =>
     new StatsError(
       'not_available',
