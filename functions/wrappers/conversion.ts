@@ -289,7 +289,7 @@ export function posteriorDensity(
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.
- * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature.
+ * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature. The lifts are evenly spaced from the lowest to the highest challenger's 1% to 99% lift quantiles, each end kept within 3 interquartile ranges of the nearer quartile, so the long tail of a control with few conversions does not squeeze the chart into one spike.
  * @source Density of a ratio of independent variables (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.
  * @example =ABTEST.LIFT_DENSITY({120;150}, {2400;2380}) spills 101 rows × 2 columns: lift, density of B's lift.
  */
