@@ -24,7 +24,7 @@ import {
   ratioSf,
 } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
-import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkPoints } from './limits';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
 import { NO_MEMO } from './tableMemo';
 import type { TableSource } from './tableMemo';
@@ -448,8 +448,9 @@ const LIFT_CHART_FENCE = 3;
  * `points` lifts evenly spread from the lowest to the highest end of the challengers' chart ranges
  * (liftChartRange: the 1%–99% lift quantiles, kept within three interquartile ranges of the quartiles),
  * and each challenger's lift density there (ratio density, compare/ratio.ts).
- * Cost: 4 (k − 1) quantiles and (k − 1) × points one-dimensional integrals. Errors as
- * posteriorDensityTable, and 2 … 50 variants; StatsError('not_available') as liftChartRange.
+ * Cost: 4 (k − 1) quantiles and (k − 1) × points ≤ 5,000 one-dimensional integrals. Errors as
+ * posteriorDensityTable, and 2 … 50 variants, StatsError('invalid_argument') for more than 5,000 density
+ * values (limits.ts checkLiftDensityCells); StatsError('not_available') as liftChartRange.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
  */
 export function liftDensityTable(
@@ -461,6 +462,7 @@ export function liftDensityTable(
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   checkPoints(points);
+  checkLiftDensityCells(points, variants.length - 1);
   const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);

@@ -285,7 +285,7 @@ export function posteriorDensity(
  * @helpurl https://localhost:3000/help/LIFT_DENSITY.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
+ * @param [points] Number of rows of the table, 2 to 1000, and rows × challengers at most 5000 (optional; default 101, which fits 50 variants).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.

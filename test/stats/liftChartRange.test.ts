@@ -67,3 +67,26 @@ describe('LIFT_DENSITY grid ends against scipy lift quantiles (lift_chart_range.
     );
   });
 });
+
+describe('LIFT_DENSITY work budget: rows × challengers at most 5,000 (limits.ts MAX_LIFT_DENSITY_CELLS)', () => {
+  const variants = (k: number) => Array.from({ length: k }, (_, i) => ({ conversions: 50 + i, visitors: 1000 }));
+
+  it('accepts the default 101 rows for 50 variants (4,949 density values)', () => {
+    expect(liftDensityTable(variants(50), 101).densities).toHaveLength(49);
+  });
+
+  it('refuses 1000 rows for 50 variants with invalid_argument naming the rows allowed', () => {
+    let thrown: unknown;
+    try {
+      liftDensityTable(variants(50), 1000);
+    } catch (error) {
+      thrown = error;
+    }
+    expect(thrown).toBeInstanceOf(StatsError);
+    expect((thrown as StatsError).code).toBe('invalid_argument');
+    expect((thrown as StatsError).message).toBe(
+      'points: 1000 rows for 49 challengers are too many for one table; with 49 challengers at most 102 rows ' +
+        'are allowed (at most 5000 density values in all)',
+    );
+  });
+});
