@@ -81,8 +81,8 @@ const CASES = [
   ['EXPECTED_LOSS, 50 uneven variants', 'EXPECTED_LOSS', [U50.conversions, U50.visitors], true],
   ['DECISION, 50 uneven variants', 'DECISION', [U50.conversions, U50.visitors], true],
   ['MEAN_EXPECTED_LOSS, 50 uneven variants', 'MEAN_EXPECTED_LOSS', [M50.count, M50.mean, M50.sd], true],
-  ['LIFT_DENSITY, 50 uneven variants × 1000 points', 'LIFT_DENSITY', [U50.conversions, U50.visitors, 1000], true],
-  ['LIFT_DENSITY, 50 close variants × 1000 points', 'LIFT_DENSITY', [C50.conversions, C50.visitors, 1000], true],
+  ['LIFT_DENSITY, 50 uneven variants × 1000 points', 'LIFT_DENSITY', [U50.conversions, U50.visitors, 1000], false],
+  ['LIFT_DENSITY, 50 close variants × 1000 points', 'LIFT_DENSITY', [C50.conversions, C50.visitors, 1000], false],
   ['PROB_HIGHEST, 50 uneven variants', 'PROB_HIGHEST', [U50.conversions, U50.visitors], true],
   // Worst found per function inside the domain (priors down to 0.001, thresholds up to 0.9999).
   ['EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.001,1)', 'EXPECTED_LOSS',
@@ -95,6 +95,12 @@ const CASES = [
   ['PROB_LIFT_ABOVE, 50 uneven variants', 'PROB_LIFT_ABOVE', [U50.conversions, U50.visitors, 0.05], true],
   ['POSTERIOR_DENSITY, 50 uneven variants × 1000 points', 'POSTERIOR_DENSITY',
     [U50.conversions, U50.visitors, 1000], true],
+  ['LIFT_DENSITY, 50 uneven variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
+    [U50.conversions, U50.visitors, 102], true],
+  ['LIFT_DENSITY, 50 close variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
+    [C50.conversions, C50.visitors, 102], true],
+  ['LIFT_DENSITY({0;10},{1000;1000},1000) (no conversions in the control)', 'LIFT_DENSITY',
+    [col([0, 10]), col([1000, 1000]), 1000], true],
   ['LIFT_DENSITY({0;3},{1000;1000},1000,0.001,0.001)', 'LIFT_DENSITY',
     [col([0, 3]), col([1000, 1000]), 1000, 0.001, 0.001], true],
   ['MEAN_PROB_HIGHEST, 50 uneven variants', 'MEAN_PROB_HIGHEST', [M50.count, M50.mean, M50.sd], true],
@@ -105,7 +111,9 @@ const CASES = [
   ['EVENTS_LIFT_INTERVAL, 50 uneven variants', 'EVENTS_LIFT_INTERVAL', [E50.events, E50.exposure, 0.9999], true],
   ['VISITORS_NEEDED(0.001,0.01,0.9999,0.99)', 'VISITORS_NEEDED', [0.001, 0.01, 0.9999, 0.99], true],
   ['VISITORS_NEEDED(0.03,0.05,0.9999,0.9,0.001,0.001)', 'VISITORS_NEEDED', [0.03, 0.05, 0.9999, 0.9, 0.001, 0.001], true],
+  ['VISITORS_NEEDED(0.5,0.01,0.9999,0.99,0.001,0.001)', 'VISITORS_NEEDED', [0.5, 0.01, 0.9999, 0.99, 0.001, 0.001], true],
   ['DECISION_POWER(0.5,0.01,1E9,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e9, 0.9999], true],
+  ['DECISION_POWER(0.5,0.01,1E10,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e10, 0.9999], true],
   ['PRIOR_FROM_HISTORY, 50 uneven rows', 'PRIOR_FROM_HISTORY', [U50.conversions, U50.visitors], true],
 ];
 
