@@ -58,9 +58,19 @@ function unevenEvents(k) {
   return { events: col(events), exposure: col(exposure) };
 }
 
+/** k averages of an invented shop with millions of visitors each, close together (every pair overlaps). */
+function ordinaryMeans(k) {
+  return {
+    count: col(Array.from({ length: k }, (_, i) => 7000000 + 1000 * i)),
+    mean: col(Array.from({ length: k }, (_, i) => 24 * (1 + 0.001 * ((i * 7) % k)))),
+    sd: col(Array.from({ length: k }, (_, i) => 40 + (i % 5))),
+  };
+}
+
 const U50 = uneven(50);
 const C50 = close(50);
 const M50 = unevenMeans(50);
+const O50 = ordinaryMeans(50);
 const E50 = unevenEvents(50);
 
 /**
@@ -81,6 +91,8 @@ const CASES = [
   ['EXPECTED_LOSS, 50 uneven variants', 'EXPECTED_LOSS', [U50.conversions, U50.visitors], true],
   ['DECISION, 50 uneven variants', 'DECISION', [U50.conversions, U50.visitors], true],
   ['MEAN_EXPECTED_LOSS, 50 uneven variants', 'MEAN_EXPECTED_LOSS', [M50.count, M50.mean, M50.sd], true],
+  ['MEAN_EXPECTED_LOSS, 50 close variants of 7e6 values', 'MEAN_EXPECTED_LOSS', [O50.count, O50.mean, O50.sd], true],
+  ['MEAN_PROB_HIGHEST, 50 close variants of 7e6 values', 'MEAN_PROB_HIGHEST', [O50.count, O50.mean, O50.sd], true],
   ['LIFT_DENSITY, 50 uneven variants × 1000 points', 'LIFT_DENSITY', [U50.conversions, U50.visitors, 1000], false],
   ['LIFT_DENSITY, 50 close variants × 1000 points', 'LIFT_DENSITY', [C50.conversions, C50.visitors, 1000], false],
   ['PROB_HIGHEST, 50 uneven variants', 'PROB_HIGHEST', [U50.conversions, U50.visitors], true],
