@@ -234,7 +234,7 @@ function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior, wor
  * to 1, so every outcome near the boundary is a close call, and the call stops here with a clear error
  * instead of computing for seconds to minutes.
  */
-export const EXACT_QUADRATURE_BUDGET = 1200;
+export const EXACT_QUADRATURE_BUDGET = 800;
 
 /**
  * The exact comparisons of one planning call: their count against EXACT_QUADRATURE_BUDGET and the
@@ -249,7 +249,7 @@ interface ExactWork {
 function exactWork(what: string): ExactWork {
   return {
     quadratures: 0,
-    tables: new TableMemo(200_000),
+    tables: new TableMemo(50_000),
     overBudget: () =>
       new StatsError(
         'not_available',
