@@ -285,11 +285,11 @@ export function posteriorDensity(
  * @helpurl https://localhost:3000/help/LIFT_DENSITY.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
+ * @param [points] Number of rows of the table, 2 to 1000, and rows × challengers at most 5000 (optional; default 101, which fits 50 variants).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.
- * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature.
+ * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature. The lifts are evenly spaced from the lowest to the highest challenger's 1% to 99% lift quantiles, each end kept within 3 interquartile ranges of the nearer quartile, so the long tail of a control with few conversions does not squeeze the chart into one spike.
  * @source Density of a ratio of independent variables (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.
  * @example =ABTEST.LIFT_DENSITY({120;150}, {2400;2380}) spills 101 rows × 2 columns: lift, density of B's lift.
  */
