@@ -6,7 +6,8 @@
 // of the same quantity, its time, and its error against ours. The scenario is invented: a control
 // converting at 5% and challengers a few percent better, at 1e2 … 1e9 visitors per variant.
 //
-// Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, looks, models, addin).
+// Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, looks, models, addin,
+// worst, tableDetect).
 'use strict';
 require('../scripts/tsRequire');
 const fs = require('fs');
@@ -457,4 +458,15 @@ section('addin', () => {
     ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
     ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
   ]);
+});
+
+section('worst', () => {
+  const bundlePath = path.join(root, 'dist', 'functions.js');
+  if (!fs.existsSync(bundlePath)) throw new Error('dist/functions.js is missing: run `npm run build` first');
+  const { HEADERS, NOTE, worstCaseRows } = require('./worstCases');
+  printTable('Worst cases (issue #10 reproductions and the slowest call found per function)', HEADERS, worstCaseRows(fmtMs), NOTE);
+});
+
+section('tableDetect', () => {
+  require('./tableDetect');
 });

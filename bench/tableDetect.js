@@ -5,7 +5,7 @@
 // visitors and conversions per row; "text" puts every visitors cell in as text ("10,050"). Selections
 // longer than MAX_TABLE_ROWS (5,000 rows with the header) are refused before anything else is read.
 'use strict';
-require('./tsRequire');
+require('../scripts/tsRequire');
 const path = require('path');
 const { checkTable, detectTable } = require(path.join(__dirname, '..', 'taskpane', 'logic', 'tableDetect.ts'));
 

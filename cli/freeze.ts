@@ -14,6 +14,10 @@
  * Worksheets are streamed through the editor, so a large sheet is never held whole.
  *
  * The rules (which cells, the note and header wording) are in core/frozenCopy.ts, shared with the panel.
+ *
+ * Why one file of ~560 lines: the copy is one pass over the package (find the cells, plan each sheet,
+ * stream its rewrite, then add or extend the notes' parts), and the steps share the plan types and the
+ * part names; the wording rules already live apart in core/frozenCopy.ts.
  */
 import * as fs from 'fs';
 import * as path from 'path';

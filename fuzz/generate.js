@@ -11,6 +11,10 @@
  *   2-D or mismatched range, too many or too few variants, half a prior, a word that is not a choice.
  * Tagged cells: `{ $error: '#N/A' }` is an error value, `{ $entity: 12 }` a linked-data cell (child.js
  * turns them into what Excel passes); an omitted optional argument is `undefined` or `null`.
+ *
+ * Why one file of ~530 lines: the three kinds of input transform one draft, in a fixed order of random
+ * draws so that a seed's calls stay the same, and every step reads the draft format and the typical
+ * values defined at the top.
  */
 'use strict';
 const { streamFor } = require('./random');

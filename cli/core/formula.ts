@@ -9,6 +9,10 @@
  * form `_xll.ABTEST.NAME(` are all accepted, in any letter case.
  *
  * Pure: no Node APIs, no DOM, no state. The side panel may import this module.
+ *
+ * Why one file of ~790 lines: the tokenizer and the parser read one grammar and are tested together
+ * (test/cli/formula.test.ts). The parser (from "The parser" below) uses only `tokenize` and the token
+ * types, so it is the part to move into a file of its own if this one grows.
  */
 import { MAX_COLUMN, MAX_ROW, columnIndex, columnLetters } from './cellAddress';
 

@@ -106,16 +106,21 @@ export function betaWorkingDensity(a: number, b: number): WorkingDensity {
   const ratio = a / b;
   const z0 = ratio > 1e-300 && ratio < 1e300 ? Math.log(ratio) : Math.log(a) - Math.log(b);
   const mirror = p0 > 0.5;
+  // log(1 + y) − y for y = s·(e^t − 1), s = p0 or q0 (r = 1 − s the other): near y = −1 (s ≈ 1, t ≪ 0;
+  // a prior shape below ~1e-16 of the visitors) 1 + y is formed as r + s·e^t, without the cancellation
+  // that made it 0 (and the density infinite) for Beta(1e-12, 60001).
+  const log1pmxOf = (y: number, s: number, r: number, t: number): number =>
+    y < -0.99 ? Math.log(r + s * Math.exp(t)) - y : fastLog1pmx(y);
   const K = (d: number): number => {
     // Primary form: the one whose relative-rate argument stays in (−1, 1] near the mode.
     if (mirror) {
       const y = q0 * Math.expm1(-d);
-      if (y <= FORM_SWITCH) return q0 * fastExpm1mx(-d) + fastLog1pmx(y);
-      return p0 * fastExpm1mx(d) + fastLog1pmx(p0 * Math.expm1(d));
+      if (y <= FORM_SWITCH) return q0 * fastExpm1mx(-d) + log1pmxOf(y, q0, p0, -d);
+      return p0 * fastExpm1mx(d) + log1pmxOf(p0 * Math.expm1(d), p0, q0, d);
     }
     const y = p0 * Math.expm1(d);
-    if (y <= FORM_SWITCH) return p0 * fastExpm1mx(d) + fastLog1pmx(y);
-    return q0 * fastExpm1mx(-d) + fastLog1pmx(q0 * Math.expm1(-d));
+    if (y <= FORM_SWITCH) return p0 * fastExpm1mx(d) + log1pmxOf(y, p0, q0, d);
+    return q0 * fastExpm1mx(-d) + log1pmxOf(q0 * Math.expm1(-d), q0, p0, -d);
   };
   return {
     mode: z0,
@@ -128,12 +133,16 @@ export function betaWorkingDensity(a: number, b: number): WorkingDensity {
     },
     slope(z: number): number {
       const d = z - z0;
+      // The denominators 1 + p0·(e^d − 1) = q0 + p0·e^d (and its mirror), formed without cancellation
+      // where they are small.
       if (d <= 0) {
         const e = Math.expm1(d);
-        return (-n * p0 * q0 * e) / (1 + p0 * e);
+        const below = 1 + p0 * e;
+        return (-n * p0 * q0 * e) / (below < 0.01 ? q0 + p0 * Math.exp(d) : below);
       }
       const e = Math.expm1(-d);
-      return (n * p0 * q0 * e) / (1 + q0 * e);
+      const above = 1 + q0 * e;
+      return (n * p0 * q0 * e) / (above < 0.01 ? p0 + q0 * Math.exp(-d) : above);
     },
     curvature(z: number): number {
       return n * logistic(z) * logistic(-z);

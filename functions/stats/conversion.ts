@@ -24,7 +24,7 @@ import {
   ratioSf,
 } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
-import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkPoints } from './limits';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
 import { NO_MEMO } from './tableMemo';
 import type { TableSource } from './tableMemo';
@@ -411,10 +411,46 @@ export function posteriorDensityTable(
 }
 
 /**
+ * Where a lift chart's grid runs for one challenger: from its lift's 1% to its 99% quantile, each end kept
+ * within three interquartile ranges of the nearer quartile (Tukey's "far out" fences, common practice for
+ * telling a long tail from the body). A lift over a control with no conversions is heavy-tailed (its
+ * 99.9% quantile can be 1e4 times its median), and a grid out to its 99% quantile would show one spike.
+ * Cost: four lift quantiles. Throws StatsError('not_available') when the range is not finite (a prior so
+ * weak that the control's rate may lie below 1e-300).
+ */
+export function liftChartRange(challenger: TabulatedDistribution, control: TabulatedDistribution): [number, number] {
+  const [q01, q25, q75, q99] = LIFT_CHART_QUANTILES.map((p) => ratioQuantile(challenger, control, p)) as [
+    number,
+    number,
+    number,
+    number,
+  ];
+  const spread = q75 - q25;
+  const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
+  const hi = Math.min(q99, q75 + LIFT_CHART_FENCE * spread);
+  if (!(Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) {
+    throw new StatsError(
+      'not_available',
+      'the lift is spread too widely for a chart table (the prior is so weak that the control\'s rate could ' +
+        'be almost zero); use a stronger prior, such as 1 and 1',
+    );
+  }
+  return [lo, hi];
+}
+
+/** The quantiles of each challenger's lift a chart's grid is chosen from (see liftChartRange). */
+const LIFT_CHART_QUANTILES = [0.01, 0.25, 0.75, 0.99] as const;
+/** How many interquartile ranges beyond the quartiles a lift chart's grid may reach. */
+const LIFT_CHART_FENCE = 3;
+
+/**
  * A table for a chart of the posterior densities of each challenger's relative lift over the control:
- * `points` lifts evenly spread over the union of the challengers' 0.1%–99.9% lift ranges, and each
- * challenger's lift density there (ratio density, compare/ratio.ts).
- * Cost: (k − 1) × points one-dimensional integrals. Errors as posteriorDensityTable, and 2 … 50 variants.
+ * `points` lifts evenly spread from the lowest to the highest end of the challengers' chart ranges
+ * (liftChartRange: the 1%–99% lift quantiles, kept within three interquartile ranges of the quartiles),
+ * and each challenger's lift density there (ratio density, compare/ratio.ts).
+ * Cost: 4 (k − 1) quantiles and (k − 1) × points ≤ 5,000 one-dimensional integrals. Errors as
+ * posteriorDensityTable, and 2 … 50 variants, StatsError('invalid_argument') for more than 5,000 density
+ * values (limits.ts checkLiftDensityCells); StatsError('not_available') as liftChartRange.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
  */
 export function liftDensityTable(
@@ -426,11 +462,13 @@ export function liftDensityTable(
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   checkPoints(points);
+  checkLiftDensityCells(points, variants.length - 1);
   const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);
-  const lo = Math.min(...challengers.map((d) => ratioQuantile(d, control, 0.001)));
-  const hi = Math.max(...challengers.map((d) => ratioQuantile(d, control, 0.999)));
+  const ranges = challengers.map((d) => liftChartRange(d, control));
+  const lo = Math.min(...ranges.map((r) => r[0]));
+  const hi = Math.max(...ranges.map((r) => r[1]));
   const grid = evenGrid(lo, hi, points);
   return { grid, densities: challengers.map((d) => grid.map((m) => (m > -1 ? ratioDensity(d, control, m) : 0))) };
 }

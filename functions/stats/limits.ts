@@ -45,3 +45,23 @@ export function checkPoints(points: number): void {
     `points must be a whole number from ${MIN_POINTS} to ${MAX_POINTS}, not ${points}`,
   );
 }
+
+/**
+ * Most density cells (rows × challengers) of one lift density table: each is one integral (~40 µs), so
+ * this keeps a call within its time budget; the default 101 rows fit 50 variants (49 × 101 = 4,949).
+ */
+export const MAX_LIFT_DENSITY_CELLS = 5000;
+
+/**
+ * Checks the size of a lift density table: points × challengers at most MAX_LIFT_DENSITY_CELLS.
+ * Cost: O(1). Throws StatsError('invalid_argument') naming the points, the challengers and the most rows allowed.
+ * @example checkLiftDensityCells(101, 49) //=> undefined
+ */
+export function checkLiftDensityCells(points: number, challengers: number): void {
+  const most = Math.floor(MAX_LIFT_DENSITY_CELLS / challengers);
+  ensure(
+    points * challengers <= MAX_LIFT_DENSITY_CELLS,
+    `points: ${points} rows for ${challengers} challengers are too many for one table; with ${challengers} ` +
+      `challengers at most ${most} rows are allowed (at most ${MAX_LIFT_DENSITY_CELLS} density values in all)`,
+  );
+}

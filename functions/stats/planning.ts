@@ -10,6 +10,7 @@
 import { CLOSED_FORM_MAX_TERMS, closedFormLogProbGreater } from './betaComparison';
 import { ensure, StatsError } from './errors';
 import { probAboveControl } from './conversion';
+import { TableMemo, type TableSource } from './tableMemo';
 import { digamma, pentagamma, tetragamma, trigamma } from './special/gamma';
 import { betaCdf, betaLogDensity, betaSf } from './special/incompleteBeta';
 import { normalCdf, normalQuantile } from './special/normal';
@@ -113,74 +114,83 @@ export function classicSampleSize(
 // Decision power
 
 /**
- * Cumulants of logit p for the posterior Beta(α + x, β + n − x), for every x in [lo, hi]: logit of a
+ * Cumulants of logit p for the posterior Beta(α + x, β + n − x), for x = lo, lo + 1, … in turn: logit of a
  * Beta(a, b) is log G_a − log G_b for independent Gamma variates, so κ_r = ψ^(r−1)(a) + (−1)^r ψ^(r−1)(b).
- * Computed directly every 32 steps and by the recurrences ψ^(k)(a + 1) = ψ^(k)(a) + (−1)^k k!/a^(k+1)
- * in between (a rounding error of ~1e-14 absolute at most).
+ * Computed directly every 32 steps from lo and by the recurrences ψ^(k)(a + 1) = ψ^(k)(a) + (−1)^k k!/a^(k+1)
+ * in between (a rounding error of ~1e-14 absolute at most). A cursor that only moves forward (the
+ * walk of powerOf visits outcomes in increasing order), so no table of the whole range is kept: O(1)
+ * memory where a table at 1e10 visitors took ~50 MB.
  */
-interface LogitCumulants {
-  readonly k1: Float64Array;
-  readonly k2: Float64Array;
-  readonly k3: Float64Array;
-  readonly k4: Float64Array;
-}
+class LogitCumulants {
+  k1 = 0;
+  k2 = 0;
+  k3 = 0;
+  k4 = 0;
+  private index = -1;
+  private d0a = 0;
+  private d0b = 0;
+  private d1a = 0;
+  private d1b = 0;
+  private d2a = 0;
+  private d2b = 0;
+  private d3a = 0;
+  private d3b = 0;
 
-function logitCumulants(lo: number, hi: number, n: number, prior: BetaPrior): LogitCumulants {
-  const size = hi - lo + 1;
-  const k1 = new Float64Array(size);
-  const k2 = new Float64Array(size);
-  const k3 = new Float64Array(size);
-  const k4 = new Float64Array(size);
-  let d0a = 0;
-  let d0b = 0;
-  let d1a = 0;
-  let d1b = 0;
-  let d2a = 0;
-  let d2b = 0;
-  let d3a = 0;
-  let d3b = 0;
-  for (let i = 0; i < size; i++) {
-    const a = prior.alpha + lo + i;
-    const b = prior.beta + n - lo - i;
+  constructor(
+    private readonly lo: number,
+    private readonly n: number,
+    private readonly prior: BetaPrior,
+  ) {}
+
+  /** Moves to entry i (x = lo + i; never backwards) and sets k1 … k4. */
+  at(i: number): this {
+    if (i < this.index) throw new RangeError('the cumulant cursor only moves forward');
+    while (this.index < i) this.step();
+    return this;
+  }
+
+  private step(): void {
+    const i = ++this.index;
+    const a = this.prior.alpha + this.lo + i;
+    const b = this.prior.beta + this.n - this.lo - i;
     if (i % 32 === 0) {
-      d0a = digamma(a);
-      d0b = digamma(b);
-      d1a = trigamma(a);
-      d1b = trigamma(b);
-      d2a = tetragamma(a);
-      d2b = tetragamma(b);
-      d3a = pentagamma(a);
-      d3b = pentagamma(b);
+      this.d0a = digamma(a);
+      this.d0b = digamma(b);
+      this.d1a = trigamma(a);
+      this.d1b = trigamma(b);
+      this.d2a = tetragamma(a);
+      this.d2b = tetragamma(b);
+      this.d3a = pentagamma(a);
+      this.d3b = pentagamma(b);
     } else {
       // from (a − 1, b + 1) to (a, b)
       const ia = 1 / (a - 1);
       const ib = 1 / b;
-      d0a += ia;
-      d0b -= ib;
-      d1a -= ia * ia;
-      d1b += ib * ib;
-      d2a += 2 * ia * ia * ia;
-      d2b -= 2 * ib * ib * ib;
-      d3a -= 6 * ia * ia * ia * ia;
-      d3b += 6 * ib * ib * ib * ib;
+      this.d0a += ia;
+      this.d0b -= ib;
+      this.d1a -= ia * ia;
+      this.d1b += ib * ib;
+      this.d2a += 2 * ia * ia * ia;
+      this.d2b -= 2 * ib * ib * ib;
+      this.d3a -= 6 * ia * ia * ia * ia;
+      this.d3b += 6 * ib * ib * ib * ib;
     }
-    k1[i] = d0a - d0b;
-    k2[i] = d1a + d1b;
-    k3[i] = d2a - d2b;
-    k4[i] = d3a + d3b;
+    this.k1 = this.d0a - this.d0b;
+    this.k2 = this.d1a + this.d1b;
+    this.k3 = this.d2a - this.d2b;
+    this.k4 = this.d3a + this.d3b;
   }
-  return { k1, k2, k3, k4 };
 }
 
 /**
  * P(p_B > p_A) for independent posteriors by a second-order Edgeworth expansion of
- * D = logit p_B − logit p_A from its exact cumulants (entry i of `a`, entry j of `b`).
+ * D = logit p_B − logit p_A from its exact cumulants (the current entries of the cursors `a` and `b`).
  */
-function approximateProbAbove(a: LogitCumulants, i: number, b: LogitCumulants, j: number): number {
-  const k1 = (b.k1[j] as number) - (a.k1[i] as number);
-  const k2 = (b.k2[j] as number) + (a.k2[i] as number);
-  const k3 = (b.k3[j] as number) - (a.k3[i] as number);
-  const k4 = (b.k4[j] as number) + (a.k4[i] as number);
+function approximateProbAbove(a: LogitCumulants, b: LogitCumulants): number {
+  const k1 = b.k1 - a.k1;
+  const k2 = b.k2 + a.k2;
+  const k3 = b.k3 - a.k3;
+  const k4 = b.k4 + a.k4;
   const sd = Math.sqrt(k2);
   const z = -k1 / sd; // P(D ≤ 0) = F(z) in standard units
   const g1 = k3 / (k2 * sd);
@@ -198,20 +208,55 @@ const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
  * (betaComparison.ts) when a whole-number shape keeps it short and accurate, otherwise the quadrature of
  * {@link probAboveControl}.
  */
-function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior): number {
+function exactProbAbove(xA: number, xB: number, n: number, prior: BetaPrior, work: ExactWork): number {
   const aA = prior.alpha + xA;
   const bA = prior.beta + n - xA;
   const aB = prior.alpha + xB;
   const bB = prior.beta + n - xB;
   const closed = closedFormLogProbGreater(aB, bB, aA, bA, CLOSED_FORM_MAX_TERMS);
   if (closed !== undefined) return Math.exp(closed);
+  work.quadratures += 1;
+  if (work.quadratures > EXACT_QUADRATURE_BUDGET) throw work.overBudget();
   return probAboveControl(
     [
       { conversions: xA, visitors: n },
       { conversions: xB, visitors: n },
     ],
     prior,
+    work.tables,
   )[0] as number;
+}
+
+/**
+ * Most exact comparisons by quadrature in one planning call (~0.1–1 ms each). A plan read out at a
+ * threshold up to 0.9999 with priors down to 0.001 needs at most a few hundred (the bench's worst cases);
+ * a threshold much closer to 1 makes the Edgeworth approximation's error margin wider than the distance
+ * to 1, so every outcome near the boundary is a close call, and the call stops here with a clear error
+ * instead of computing for seconds to minutes.
+ */
+export const EXACT_QUADRATURE_BUDGET = 800;
+
+/**
+ * The exact comparisons of one planning call: their count against EXACT_QUADRATURE_BUDGET and the
+ * tables they share (a close call's posteriors recur for neighbouring outcomes and bracket steps).
+ */
+interface ExactWork {
+  quadratures: number;
+  readonly tables: TableSource;
+  overBudget(): StatsError;
+}
+
+function exactWork(what: string): ExactWork {
+  return {
+    quadratures: 0,
+    tables: new TableMemo(50_000),
+    overBudget: () =>
+      new StatsError(
+        'not_available',
+        `${what} needs more than ${EXACT_QUADRATURE_BUDGET} exact comparisons of close outcomes, more than one ` +
+          'calculation may use; a threshold this close to 1 cannot be planned here (0.9999 and below can)',
+      ),
+  };
 }
 
 /**
@@ -342,31 +387,31 @@ export function decisionPower(
   );
   checkProbability(threshold, 'the threshold');
   checkPrior(prior);
-  return powerOf(baselineRate, challenger, visitorsPerVariant, threshold, prior);
+  return powerOf(baselineRate, challenger, visitorsPerVariant, threshold, prior, exactWork('this decision power'));
 }
 
-function powerOf(p0: number, p1: number, n: number, threshold: number, prior: BetaPrior): number {
+function powerOf(p0: number, p1: number, n: number, threshold: number, prior: BetaPrior, work: ExactWork): number {
   const { alpha, beta } = prior;
   const rangeA = binomialPmfRange(n, p0);
   const rangeB = binomialPmfRange(n, p1);
   const tailsB = upperTails(rangeB, n, p1);
 
-  const cumulantsA = logitCumulants(rangeA.lo, rangeA.hi, n, prior);
-  const cumulantsB = logitCumulants(rangeB.lo, rangeB.hi, n, prior);
+  const cumulantsA = new LogitCumulants(rangeA.lo, n, prior);
+  const cumulantsB = new LogitCumulants(rangeB.lo, n, prior);
 
   const accepted = (xA: number, xB: number): boolean => {
     const i = xA - rangeA.lo;
     const j = xB - rangeB.lo;
     const smallest = Math.min(alpha + xA, beta + n - xA, alpha + xB, beta + n - xB);
     if (smallest >= EXACT_BELOW_SHAPE) {
-      const approximate = approximateProbAbove(cumulantsA, i, cumulantsB, j);
+      const approximate = approximateProbAbove(cumulantsA.at(i), cumulantsB.at(j));
       const margin = approximationMargin(smallest);
       if (approximate >= threshold + margin) return true;
       if (approximate < threshold - margin) return false;
       // A close call on a pair this unlikely cannot move the power by more than its probability.
       if ((rangeA.pmf[i] as number) * (rangeB.pmf[j] as number) < NEGLIGIBLE_PAIR) return approximate >= threshold;
     }
-    return exactProbAbove(xA, xB, n, prior) >= threshold;
+    return exactProbAbove(xA, xB, n, prior, work) >= threshold;
   };
 
   let power = 0;
@@ -410,7 +455,8 @@ export function visitorsNeeded(
   checkProbability(power, 'the power');
   checkPrior(prior);
   const target = power;
-  const powerAt = (n: number): number => powerOf(baselineRate, challenger, n, threshold, prior);
+  const work = exactWork('this plan');
+  const powerAt = (n: number): number => powerOf(baselineRate, challenger, n, threshold, prior, work);
   const tooMany = (): StatsError =>
     new StatsError(
       'not_available',

@@ -78,7 +78,7 @@ export function rateInterval(
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, the probability (0 to 1) that its rate is the highest.
- * @method P(variant i is highest) = ∫ f_i(x) ∏_{j≠i} F_j(x) dx over the Beta posteriors, computed deterministically by Gauss–Legendre quadrature (no simulation).
+ * @method P(variant i is highest) = ∫ f_i(x) · Π F_j(x) dx (the product over every other variant j) over the Beta posteriors, computed deterministically by Gauss–Legendre quadrature (no simulation).
  * @source Closed form for two variants: E. Miller, "Formulas for Bayesian A/B Testing" (2015); the integral is the definition of the probability.
  * @example =ABTEST.PROB_HIGHEST({120;150}, {2400;2380}) returns {0.025678;0.974322}
  * @caution With many variants the best-looking one is often lucky: expect its lead to shrink on new data. Decide the number of variants before the test starts.
@@ -207,7 +207,7 @@ export function probLiftAbove(
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, E[highest rate − its rate], in rate units (0.001 is 0.1 percentage points).
- * @method Expected loss = E[max_j p_j] − E[p_i], with E[max] = ∫ (1 − ∏_j F_j(x)) dx over the Beta posteriors, by quadrature.
+ * @method Expected loss = E[max_j p_j] − E[p_i], with E[max] = ∫ (1 − Π F_j(x)) dx (the product over all variants) over the Beta posteriors, by quadrature.
  * @source C. Stucchio, "Bayesian A/B Testing at VWO" (2015), expected-loss decision rule.
  * @example =ABTEST.EXPECTED_LOSS({120;150}, {2400;2380}) returns {0.013083;0.00006524}
  * @caution The loss depends on the prior when data are few; check that a reasonable other prior gives the same choice.
@@ -285,11 +285,11 @@ export function posteriorDensity(
  * @helpurl https://localhost:3000/help/LIFT_DENSITY.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
+ * @param [points] Number of rows of the table, 2 to 1000, and rows × challengers at most 5000 (optional; default 101, which fits 50 variants).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.
- * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature.
+ * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature. The lifts are evenly spaced from the lowest to the highest challenger's 1% to 99% lift quantiles, each end kept within 3 interquartile ranges of the nearer quartile, so the long tail of a control with few conversions does not squeeze the chart into one spike.
  * @source Density of a ratio of independent variables (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.
  * @example =ABTEST.LIFT_DENSITY({120;150}, {2400;2380}) spills 101 rows × 2 columns: lift, density of B's lift.
  */

@@ -1,5 +1,5 @@
 /**
- * The side panel: a tab list (Prior, Plan, Read-out, Daily, Explain, Cautions) over the sections, a line
+ * The side panel: a tab list (Prior, Plan, Read-out, Daily, Explain, Share, Cautions) over the sections, a line
  * saying what is selected, and the Cautions reachable from every section (its tab, and a link in each
  * section that opens the caution it needs).
  */
@@ -13,8 +13,9 @@ import { explainSection } from './explainSection';
 import { planSection } from './planSection';
 import { priorSection } from './priorSection';
 import { readoutSection } from './readoutSection';
+import { shareSection } from './shareSection';
 
-type TabId = 'prior' | 'plan' | 'readout' | 'days' | 'explain' | 'cautions';
+type TabId = 'prior' | 'plan' | 'readout' | 'days' | 'explain' | 'share' | 'cautions';
 
 function cautionsSection(): HTMLElement {
   const accordion = el('fluent-accordion', { id: 'cautions-list' });
@@ -50,6 +51,7 @@ const TABS: readonly (readonly [TabId, string])[] = [
   ['readout', 'Read-out'],
   ['days', 'Daily'],
   ['explain', 'Explain'],
+  ['share', 'Share'],
   ['cautions', 'Cautions'],
 ];
 
@@ -100,6 +102,7 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook, options:
   sectionsByTab.readout = readoutSection(context);
   sectionsByTab.days = daySection(context);
   sectionsByTab.explain = explain.element;
+  sectionsByTab.share = shareSection(context);
   sectionsByTab.cautions = cautionsSection();
   for (const [id, section] of Object.entries(sectionsByTab)) {
     section.setAttribute('role', 'tabpanel');

@@ -231,7 +231,7 @@ describe('conversion metrics against scipy', () => {
     }
   });
 
-  test('LIFT_DENSITY: grid then one column per challenger; integrates to 1', () => {
+  test('LIFT_DENSITY: grid then one column per challenger; holds at least its central 98% (1%–99% quantiles)', () => {
     const table = F.liftDensity(...args3, 201, 2, 38);
     expect(table).toHaveLength(201);
     expect(table.every((r) => r.length === 3)).toBe(true);
@@ -240,7 +240,9 @@ describe('conversion metrics against scipy', () => {
       for (let i = 1; i < table.length; i++) {
         area += 0.5 * ((table[i]?.[c] as number) + (table[i - 1]?.[c] as number)) * ((table[i]?.[0] as number) - (table[i - 1]?.[0] as number));
       }
-      expect(Math.abs(area - 1)).toBeLessThan(5e-3);
+      // The grid spans every challenger's 1%–99% lift quantiles (the union over challengers may hold more).
+      expect(area).toBeGreaterThan(0.98 - 5e-3);
+      expect(area).toBeLessThan(1 + 5e-3);
     }
   });
 });

@@ -1,11 +1,12 @@
-#!/usr/bin/python3
+#!/usr/bin/env python3
 """Reference values for the conversion (Beta-Binomial) read-out, computed with mpmath at 30+ digits.
 
-Run with Debian's python3 (which has mpmath):  /usr/bin/python3 test/reference/conversion_reference.py
+Run with a python3 that has mpmath, from the repository root:  python3 test/reference/conversion_reference.py
 It prints JSON; the committed copy is test/reference/conversion_values.json (the tests read that file and
 never run python).
 
-Method (independent of the TypeScript code): each posterior Beta(a, b) is written in z = logit(p), whose
+Method (independent of the TypeScript code; the posterior class BetaZ and the rule are in mpref.py, shared
+with conversion_marginals.py and loss_many_reference.py): each posterior Beta(a, b) is written in z = logit(p), whose
 density exp(a z - (a+b) log(1 + e^z) - log B(a, b)) is evaluated with mpmath's loggamma at 40 digits.
 Its cdf F and survival S are accumulated over anchors a quarter of a standard deviation apart (F from the
 left, S from the right, so both tails keep their relative accuracy), each step and each partial step by
@@ -23,129 +24,14 @@ import sys
 
 import mpmath as mp
 
-mp.mp.dps = 40
+from mpref import BetaZ, gl, logistic, logit, set_precision
+
+set_precision(40)
 LOG_RANGE = 130  # anchors reach log density -130 (e^-130 ~ 1e-57) on each side
-GL_NODES, GL_WEIGHTS = None, None
-
-
-def gauss_legendre(n):
-    """n-point Gauss-Legendre nodes/weights on [-1, 1] at the working precision (Newton on P_n)."""
-    nodes, weights = [], []
-    for i in range(1, n + 1):
-        x = mp.cos(mp.pi * (i - mp.mpf(1) / 4) / (n + mp.mpf(1) / 2))
-        for _ in range(100):
-            p0, p1 = mp.mpf(1), x
-            for k in range(2, n + 1):
-                p0, p1 = p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k
-            dp = n * (x * p1 - p0) / (x * x - 1)
-            dx = p1 / dp
-            x -= dx
-            if abs(dx) < mp.mpf(10) ** (-mp.mp.dps - 2):
-                break
-        nodes.append(x)
-        weights.append(2 / ((1 - x * x) * dp * dp))
-    return nodes, weights
-
-
-GL_NODES, GL_WEIGHTS = gauss_legendre(12)
-
-
-def gl(f, a, b):
-    half = (b - a) / 2
-    mid = (a + b) / 2
-    return half * mp.fsum(w * f(mid + half * t) for t, w in zip(GL_NODES, GL_WEIGHTS))
-
-
-class BetaZ:
-    """Beta(a, b) in z = logit(p) with cumulative F and S at anchors."""
-
-    def __init__(self, a, b):
-        self.a = mp.mpf(a)
-        self.b = mp.mpf(b)
-        n = self.a + self.b
-        self.lbeta = mp.loggamma(self.a) + mp.loggamma(self.b) - mp.loggamma(n)
-        self.mode = mp.log(self.a / self.b)
-        p0 = self.a / n
-        self.sd = 1 / mp.sqrt(n * p0 * (1 - p0))
-        self.peak = self.logdens(self.mode)
-        # Steps of at most half a standard deviation and at most 2/|slope| (the density changes by at most
-        # e^2 across a step), so the 12-point rule is exact to ~1e-31 relative on every step.
-        step = lambda z: min(self.sd / 2, 2 / max(abs(self.slope(z)), mp.mpf(10) ** -30))
-        left = [self.mode]
-        while self.logdens(left[-1]) - self.peak > -LOG_RANGE:
-            left.append(left[-1] - step(left[-1]))
-        right = [self.mode]
-        while self.logdens(right[-1]) - self.peak > -LOG_RANGE:
-            right.append(right[-1] + step(right[-1]))
-        self.anchors = list(reversed(left))[:-1] + right
-        dens = lambda z: mp.exp(self.logdens(z))
-        pieces = [gl(dens, self.anchors[i], self.anchors[i + 1]) for i in range(len(self.anchors) - 1)]
-        # Tails beyond the outer anchors: the exponential-tail value f/|slope| (below 1e-55 relative).
-        z0, z1 = self.anchors[0], self.anchors[-1]
-        tail_left = dens(z0) / abs(self.slope(z0))
-        tail_right = dens(z1) / abs(self.slope(z1))
-        self.F = [tail_left]
-        for piece in pieces:
-            self.F.append(self.F[-1] + piece)
-        self.S = [tail_right]
-        for piece in reversed(pieces):
-            self.S.append(self.S[-1] + piece)
-        self.S.reverse()
-        self.total = self.F[-1] + tail_right  # should be 1
-
-    def logdens(self, z):
-        return self.a * z - (self.a + self.b) * mp.log1p(mp.exp(z)) - self.lbeta
-
-    def slope(self, z):
-        return self.a - (self.a + self.b) / (1 + mp.exp(-z))
-
-    def dens(self, z):
-        return mp.exp(self.logdens(z))
-
-    def _index(self, z):
-        lo, hi = 0, len(self.anchors) - 1
-        if z <= self.anchors[0]:
-            return -1
-        if z >= self.anchors[-1]:
-            return len(self.anchors) - 1
-        while hi - lo > 1:
-            mid = (lo + hi) // 2
-            if self.anchors[mid] <= z:
-                lo = mid
-            else:
-                hi = mid
-        return lo
-
-    def lower(self, z):
-        """F(z) accumulated from the left."""
-        i = self._index(z)
-        if i < 0:
-            return self.dens(z) / abs(self.slope(z))
-        if i >= len(self.anchors) - 1:
-            return 1 - self.upper(z)
-        return self.F[i] + gl(self.dens, self.anchors[i], z)
-
-    def upper(self, z):
-        """S(z) = 1 - F(z) accumulated from the right."""
-        i = self._index(z)
-        if i >= len(self.anchors) - 1:
-            return self.dens(z) / abs(self.slope(z))
-        if i < 0:
-            return 1 - self.lower(z)
-        return self.S[i + 1] + gl(self.dens, z, self.anchors[i + 1])
-
-    def cdf_value(self, x):
-        return self.lower(mp.log(x) - mp.log1p(-x))
-
-    def quantile(self, p):
-        p = mp.mpf(p)
-        f = lambda z: mp.log(self.lower(z)) - mp.log(p) if p <= 0.5 else mp.log(p if False else 1 - p) - mp.log(self.upper(z))
-        z = mp.findroot(f, (self.mode - self.sd, self.mode + self.sd), solver='anderson', tol=mp.mpf(10) ** -30)
-        return 1 / (1 + mp.exp(-z))
 
 
 def posterior(conversions, visitors, prior=(1, 1)):
-    return BetaZ(prior[0] + conversions, prior[1] + visitors - conversions)
+    return BetaZ(prior[0] + conversions, prior[1] + visitors - conversions, LOG_RANGE)
 
 
 def breakpoints(dists, base):
@@ -211,14 +97,6 @@ def expected_loss(ds):
         pts = [z for z in allpts if lo <= z <= hi]
         out.append(mp.fsum(gl(integrand, pts[k], pts[k + 1]) for k in range(len(pts) - 1)))
     return out
-
-
-def logistic(z):
-    return 1 / (1 + mp.exp(-z))
-
-
-def logit(x):
-    return mp.log(x) - mp.log1p(-x)
 
 
 def diff_tail(y, x, d, upper):
@@ -298,7 +176,7 @@ def main(section):
         # Self-check of the cdf against mpmath.betainc where the hypergeometric series converges.
         worst = mp.mpf(0)
         for a, b, x in [(8, 10, 0.5), (3, 50, 0.02), (20, 200, 0.12), (0.5, 0.5, 0.3), (1, 1001, 0.001)]:
-            d = BetaZ(a, b)
+            d = BetaZ(a, b, LOG_RANGE)
             ref = mp.betainc(a, b, 0, x, regularized=True)
             worst = max(worst, abs(d.cdf_value(mp.mpf(x)) / ref - 1))
         out['checks']['cdfVsBetaincWorstRelative'] = s(worst)

@@ -6,7 +6,7 @@ Run with a python3 that has mpmath (1.3.0 here), from the repository root:
     python3 test/reference/lift_quantiles_more.py > test/reference/lift_quantiles_more.json
 (a few minutes on one core). test/stats/liftQuantilesMore.test.ts reads the JSON; it never runs python.
 
-Method: the posteriors are the BetaZ of loss_many_reference.py (density in z = logit(x) from
+Method: the posteriors are the BetaZ of mpref.py as loss_many_reference.py builds them (density in z = logit(x) from
 mpmath.loggamma; F from the left and S from the right by composite 12-point Gauss-Legendre between anchors
 at most half a standard deviation and 2/|slope| apart). With X = p_A, Y = p_B and u the other variable's
 value at a node of the base (the posterior narrower in z):
@@ -36,7 +36,7 @@ BASE_RANGE = 60
 
 
 def posterior(conversions, visitors):
-    return base_module.BetaZ(1 + conversions, 1 + visitors - conversions)
+    return base_module.posterior(conversions, visitors)
 
 
 def dens_x(d, u):

@@ -19,7 +19,8 @@ step. Beyond the outer anchors F (or S) is f/|slope| (below 1e-108, too small to
 The loss integral is the same composite rule in z (dx = x(1 - x) dz) over the union of all the
 posteriors' anchors, gaps between windows cut into steps of at most 1/2, with
 1 - prod F_j = -expm1(sum log F_j) and log F_j = log1p(-S_j) where S_j is the smaller tail, so a loss of
-1e-40 keeps its relative digits. (The construction of conversion_reference.py; its Gauss-Legendre rule and logit functions are imported.)
+1e-40 keeps its relative digits. (The construction of conversion_reference.py: BetaZ, the Gauss-Legendre
+rule and the logit pair come from mpref.py.)
 
 Checks printed under "checks" (not used by the tests, read by a person):
  - 'halving': the cases marked HALVING again with every integration step cut in two; worst relative change.
@@ -36,100 +37,18 @@ import sys
 import mpmath as mp
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-# The rule and the logit pair are conversion_reference.py's (its main() does not run on import); the
-# working precision is set after the import, which sets its own.
-from conversion_reference import gauss_legendre, logistic, logit  # noqa: E402
+# The rule, the logit pair and BetaZ are mpref.py's (shared with conversion_reference.py).
+from mpref import BetaZ, logistic, logit, rule, set_precision  # noqa: E402
 
-mp.mp.dps = 38
+set_precision(38)
 LOG_RANGE = 250
 GAP_STEP = mp.mpf(1) / 2
-
-
-GL_NODES, GL_WEIGHTS = gauss_legendre(12)
-
-
-def gl(f, a, b):
-    half = (b - a) / 2
-    mid = (a + b) / 2
-    return half * mp.fsum(w * f(mid + half * t) for t, w in zip(GL_NODES, GL_WEIGHTS))
-
-
-class BetaZ:
-    """Beta(a, b) in z = logit(x): log density, anchors, F from the left and S from the right."""
-
-    def __init__(self, a, b):
-        self.a = mp.mpf(a)
-        self.b = mp.mpf(b)
-        n = self.a + self.b
-        self.lbeta = mp.loggamma(self.a) + mp.loggamma(self.b) - mp.loggamma(n)
-        self.mode = mp.log(self.a / self.b)
-        p0 = self.a / n
-        self.sd = 1 / mp.sqrt(n * p0 * (1 - p0))
-        self.peak = self.logdens(self.mode)
-        step = lambda z: min(self.sd / 2, 2 / max(abs(self.slope(z)), mp.mpf(10) ** -30))
-        left = [self.mode]
-        while self.logdens(left[-1]) - self.peak > -LOG_RANGE:
-            left.append(left[-1] - step(left[-1]))
-        right = [self.mode]
-        while self.logdens(right[-1]) - self.peak > -LOG_RANGE:
-            right.append(right[-1] + step(right[-1]))
-        self.anchors = list(reversed(left))[:-1] + right
-        pieces = [gl(self.dens, self.anchors[i], self.anchors[i + 1]) for i in range(len(self.anchors) - 1)]
-        z0, z1 = self.anchors[0], self.anchors[-1]
-        self.F = [self.dens(z0) / abs(self.slope(z0))]
-        for piece in pieces:
-            self.F.append(self.F[-1] + piece)
-        self.S = [self.dens(z1) / abs(self.slope(z1))]
-        for piece in reversed(pieces):
-            self.S.append(self.S[-1] + piece)
-        self.S.reverse()
-        self.mean = self.a / n
-
-    def logdens(self, z):
-        return self.a * z - (self.a + self.b) * mp.log1p(mp.exp(z)) - self.lbeta
-
-    def slope(self, z):
-        return self.a - (self.a + self.b) / (1 + mp.exp(-z))
-
-    def dens(self, z):
-        return mp.exp(self.logdens(z))
-
-    def _index(self, z):
-        if z <= self.anchors[0]:
-            return -1
-        if z >= self.anchors[-1]:
-            return len(self.anchors) - 1
-        lo, hi = 0, len(self.anchors) - 1
-        while hi - lo > 1:
-            mid = (lo + hi) // 2
-            if self.anchors[mid] <= z:
-                lo = mid
-            else:
-                hi = mid
-        return lo
-
-    def tails(self, z):
-        """(F(z), S(z)), the smaller one computed directly and the other as 1 minus it."""
-        i = self._index(z)
-        if i < 0:
-            f = self.dens(z) / abs(self.slope(z))
-            return f, 1 - f
-        if i >= len(self.anchors) - 1:
-            s = self.dens(z) / abs(self.slope(z))
-            return 1 - s, s
-        if self.F[i] < self.S[i + 1]:
-            f = self.F[i] + gl(self.dens, self.anchors[i], z)
-            return f, 1 - f
-        s = self.S[i + 1] + gl(self.dens, z, self.anchors[i + 1])
-        return 1 - s, s
-
-    def log_cdf(self, z):
-        f, s = self.tails(z)
-        return mp.log(f) if f < s else mp.log1p(-s)
+# lift_quantiles_more.py imports these (the nodes stay at 38 digits when it lowers the precision to 30).
+GL_NODES, GL_WEIGHTS = rule()
 
 
 def posterior(conversions, visitors):
-    return BetaZ(1 + conversions, 1 + visitors - conversions)
+    return BetaZ(1 + conversions, 1 + visitors - conversions, LOG_RANGE)
 
 
 def integration_points(ds, split):

@@ -3,6 +3,7 @@
  * pruned integrals of integrate.ts (two posteriors, or posteriors in different coordinates) or on one
  * grid shared by all of them (sharedGridLosses, three or more in one coordinate).
  */
+import { StatsError } from '../errors';
 import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
@@ -21,19 +22,23 @@ const GAP_WIDTH = 1;
  * relative to itself. The identity loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
  * For three or more posteriors sharing a working coordinate the same integral is taken directly as
  * ∫ F_i (1 − Π_{j≠i} F_j) dx on the union of their panels (see sharedGridLosses), O(k²) interpolations.
- * Cost: O(k² × nodes) (shared coordinate) or O(k³ × nodes kept). Throws StatsError('invalid_argument')
- * for an empty list.
+ * Cost: O(k² × nodes) (shared coordinate) or O(k³ × nodes kept); the shared grid holds at most
+ * `maxGridCells` pieces × posteriors (default MAX_GRID_CELLS; tests lower it to reach the error).
+ * Throws StatsError('invalid_argument') for an empty list, StatsError('not_available') when the shared
+ * grid would exceed its budget.
  * @example
  * expectedLosses([tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))])
  * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form; their difference is 1/6 = 6/12 − 4/12)
  */
-export function expectedLosses(ds: readonly TabulatedDistribution[]): number[] {
+export function expectedLosses(ds: readonly TabulatedDistribution[], maxGridCells = MAX_GRID_CELLS): number[] {
   checkList(ds);
   if (ds.length === 1) return [0];
   const coordinate = (ds[0] as TabulatedDistribution).coordinate;
   // Three or more posteriors in one coordinate: the O(k²) shared grid (measured 230 ms for 50 variants
   // against 3.8 s); for two, the two pruned integrals below are cheaper.
-  if (ds.length >= 3 && coordinate !== undefined && ds.every((d) => d.coordinate === coordinate)) return sharedGridLosses(ds);
+  if (ds.length >= 3 && coordinate !== undefined && ds.every((d) => d.coordinate === coordinate)) {
+    return sharedGridLosses(ds, maxGridCells);
+  }
   return ds.map((di, i) => {
     let total = -Infinity;
     ds.forEach((dj, j) => {
@@ -61,38 +66,99 @@ export function expectedLosses(ds: readonly TabulatedDistribution[]): number[] {
  *  4. integratePieces: the integrals, a piece skipped for variant i when its bound lies e^-46 below i's
  *     running total (as in logIntegral).
  */
-function sharedGridLosses(ds: readonly TabulatedDistribution[]): number[] {
-  const edges = sharedPieces(ds);
+function sharedGridLosses(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
+  const edges = sharedPieces(ds, maxGridCells);
   const { bound, best } = pieceBounds(ds, edges);
   const order = visitOrder(bound, best, edges.length - 1, ds.length);
   return integratePieces(ds, edges, bound, order).map((t) => Math.exp(t));
 }
 
+/** Within this distance (in the working coordinate) of an anchor (see anchorsOf) pieces are GAP_WIDTH wide. */
+const GRADED_FROM = 64;
+
 /**
- * The union of the posteriors' panel edges, ascending, with gaps between windows cut into pieces of at
- * most GAP_WIDTH (there F = 1 below and 0 above, and the integrand is dx/dz, whose complex singularities
- * lie π from the axis in logit).
+ * Most cells (pieces × posteriors) of the shared grid: its three tables of that many doubles stay within
+ * ~25 MB. Inside the documented domain a grid has a few thousand pieces at most (the panels of the
+ * posteriors near their bulk, ~130 pieces near the anchors, ~5 per e-fold of length beyond), so this
+ * bound is only met by inputs far outside it; then the calculation stops with a clear error.
  */
-function unionOfEdges(ds: readonly TabulatedDistribution[]): number[] {
+const MAX_GRID_CELLS = 1_000_000;
+
+/**
+ * The anchors of the shared grid on [lo, hi]: its ends and the point nearest z = 0. The Jacobian dx/dz of
+ * every working coordinate (logit: largest at 0; log rate: at the right end; scaled asinh: at the ends,
+ * with the posteriors' centre at 0) is largest at one of them and changes by a factor of at most e per
+ * unit of z, so a piece d away from every anchor carries dx/dz below e^-d of its largest value.
+ */
+function anchorsOf(lo: number, hi: number): number[] {
+  return [lo, hi, Math.min(hi, Math.max(lo, 0))];
+}
+
+/**
+ * The widest piece allowed at z for the Jacobian's sake: GAP_WIDTH within GRADED_FROM of an anchor, a
+ * quarter of the distance d to the nearest anchor beyond. 16 nodes integrate e^z to ~1e-15 on a piece
+ * up to 16 wide, and a wider piece lies over 64 from every anchor, where dx/dz is below e^-60 of its
+ * largest value, so its error cannot show. (Inside the posteriors' windows the narrowest panel also
+ * limits a piece: narrowestPanelAt.) The count of pieces grows with the logarithm of the length: a prior
+ * shape of 1e-12 gives a window ~2e14 long in logit, covered by ~300 pieces instead of 2e14.
+ */
+function jacobianWidth(anchors: readonly number[], z: number): number {
+  let d = Infinity;
+  for (const c of anchors) d = Math.min(d, Math.abs(z - c));
+  return d <= GRADED_FROM ? GAP_WIDTH : d / 4;
+}
+
+/**
+ * The union of the posteriors' panel edges, ascending, with longer intervals cut into pieces: into equal
+ * ones of at most GAP_WIDTH up to GRADED_FROM long (there F = 1 below and 0 above, or smooth, and the
+ * integrand is dx/dz times it, whose complex singularities lie π from the axis in logit), beyond that at
+ * most jacobianWidth wide (graded: logarithmically many). Throws StatsError('not_available') beyond
+ * MAX_GRID_CELLS.
+ */
+function unionOfEdges(ds: readonly TabulatedDistribution[], maxGridCells: number): { union: number[]; anchors: number[] } {
   const all: number[] = [];
   for (const d of ds) for (let e = 0; e < d.edges.length; e++) all.push(d.edges[e] as number);
   all.sort((u, v) => u - v);
+  const anchors = anchorsOf(all[0] as number, all[all.length - 1] as number);
   const union: number[] = [];
   for (const e of all) {
     const last = union[union.length - 1];
     if (last === undefined) union.push(e);
     else if (e - last > 1e-12 * Math.max(1, Math.abs(e))) {
-      const parts = Math.ceil((e - last) / GAP_WIDTH);
-      for (let j = 1; j < parts; j++) union.push(last + ((e - last) * j) / parts);
+      if (e - last <= GRADED_FROM) {
+        const parts = Math.ceil((e - last) / GAP_WIDTH);
+        for (let j = 1; j < parts; j++) union.push(last + ((e - last) * j) / parts);
+      } else {
+        let z = last;
+        for (;;) {
+          // The width allowed over the whole step (jacobianWidth changes by at most 1/4 per unit of z).
+          let w = jacobianWidth(anchors, z);
+          for (let pass = 0; pass < 8; pass++) w = Math.min(w, jacobianWidth(anchors, z + w));
+          if (z + w >= e - GAP_WIDTH / 2) break;
+          z += w;
+          union.push(z);
+          if (union.length * ds.length > maxGridCells) throw gridTooLarge(ds.length, maxGridCells);
+        }
+      }
       union.push(e);
+      if (union.length * ds.length > maxGridCells) throw gridTooLarge(ds.length, maxGridCells);
     }
   }
-  return union;
+  return { union, anchors };
 }
 
-/** Width of the narrowest panel of any posterior at z (GAP_WIDTH outside every window). */
-function narrowestPanelAt(ds: readonly TabulatedDistribution[], z: number): number {
-  let w = GAP_WIDTH;
+/** The error of a shared grid over its budget (not reached inside the documented domain). */
+function gridTooLarge(k: number, maxGridCells: number): StatsError {
+  return new StatsError(
+    'not_available',
+    `the expected losses of these ${k} variants need a finer comparison grid than one calculation may use ` +
+      `(over ${maxGridCells} cells); compare fewer variants at once`,
+  );
+}
+
+/** Width of the narrowest panel of any posterior at z, at most jacobianWidth there. */
+function narrowestPanelAt(ds: readonly TabulatedDistribution[], anchors: readonly number[], z: number): number {
+  let w = jacobianWidth(anchors, z);
   for (const d of ds) {
     if (z < d.windowLeft || z > d.windowRight) continue;
     const p = d.findPanel(z);
@@ -107,9 +173,9 @@ function narrowestPanelAt(ds: readonly TabulatedDistribution[], z: number): numb
  * interpolant is smooth across its own panel edges to ~1e-15, so a piece may straddle one; the integrand
  * is then resolved as finely as the narrowest posterior).
  */
-function sharedPieces(ds: readonly TabulatedDistribution[]): number[] {
-  const union = unionOfEdges(ds);
-  const localWidth = (z: number): number => narrowestPanelAt(ds, z);
+function sharedPieces(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
+  const { union, anchors } = unionOfEdges(ds, maxGridCells);
+  const localWidth = (z: number): number => narrowestPanelAt(ds, anchors, z);
   const edges: number[] = [union[0] as number];
   let a = union[0] as number;
   let next = 1;

@@ -1,0 +1,188 @@
+// The "worst cases" of the worksheet functions: the slow and aborting calls of issue #10 and the slowest
+// call found per function inside its documented domain, each run alone in a child process through the
+// built bundle (bench/oneCall.js) with a watchdog. The scenarios are invented (no real experiment).
+//
+// `node bench/worstCases.js` prints the table alone; bench/run.js prints it as its "worst" section.
+'use strict';
+const { spawnSync } = require('child_process');
+const path = require('path');
+
+/** A column range of numbers, as Excel passes it. */
+const col = (values) => values.map((v) => [v]);
+
+/**
+ * k variants of very different sizes: visitors from 10 to 1e9 (log-spaced), rates from 0 to 50% with a
+ * variant at 0 conversions and one at all converted (the spread of panel widths the shared grid must span).
+ */
+function uneven(k) {
+  const visitors = [];
+  const conversions = [];
+  for (let i = 0; i < k; i++) {
+    const n = Math.round(10 ** (1 + (8 * i) / (k - 1)));
+    const rate = i === 1 ? 0 : i === 2 ? 1 : 0.01 + (0.49 * ((i * 7) % k)) / k;
+    visitors.push(n);
+    conversions.push(Math.round(n * rate));
+  }
+  return { conversions: col(conversions), visitors: col(visitors) };
+}
+
+/** k close variants of 10,000 visitors around 5% (every posterior overlaps every other). */
+function close(k) {
+  const visitors = Array.from({ length: k }, (_, i) => 10000 + 7 * i);
+  const conversions = visitors.map((n, i) => Math.round(n * 0.05 * (1 + 0.002 * i)));
+  return { conversions: col(conversions), visitors: col(visitors) };
+}
+
+/** k averages of invented shops: counts from 2 to 1e8, means around 24, spreads from 0.01 to 300. */
+function unevenMeans(k) {
+  const count = [];
+  const mean = [];
+  const sd = [];
+  for (let i = 0; i < k; i++) {
+    count.push(Math.round(2 * 10 ** ((7.7 * i) / (k - 1))));
+    mean.push(24 * (1 + 0.01 * ((i * 11) % k)));
+    sd.push(0.01 * 10 ** ((4.5 * ((i * 13) % k)) / (k - 1)));
+  }
+  return { count: col(count), mean: col(mean), sd: col(sd) };
+}
+
+/** k event counts over exposures from 1 to 1e9, one at 0 events. */
+function unevenEvents(k) {
+  const events = [];
+  const exposure = [];
+  for (let i = 0; i < k; i++) {
+    const e = Math.round(10 ** ((9 * i) / (k - 1)));
+    exposure.push(e);
+    events.push(i === 1 ? 0 : Math.round(e * (0.1 + (2 * ((i * 7) % k)) / k)));
+  }
+  return { events: col(events), exposure: col(exposure) };
+}
+
+/** k averages of an invented shop with millions of visitors each, close together (every pair overlaps). */
+function ordinaryMeans(k) {
+  return {
+    count: col(Array.from({ length: k }, (_, i) => 7000000 + 1000 * i)),
+    mean: col(Array.from({ length: k }, (_, i) => 24 * (1 + 0.001 * ((i * 7) % k)))),
+    sd: col(Array.from({ length: k }, (_, i) => 40 + (i % 5))),
+  };
+}
+
+const U50 = uneven(50);
+const C50 = close(50);
+const M50 = unevenMeans(50);
+const O50 = ordinaryMeans(50);
+const E50 = unevenEvents(50);
+
+/**
+ * Each case: the formula as a user would type it (shortened for generated ranges), the call, and whether
+ * it lies inside the documented domain (the ≤ 250 ms target) or only at its edge or beyond (≤ 1 s).
+ */
+const CASES = [
+  // Issue #10's reproductions.
+  ['EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.000001,0.999999)', 'EXPECTED_LOSS',
+    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.000001, 0.999999], false],
+  ['EVENTS_EXPECTED_LOSS({0;0;5},{1000;1000;1000},0.000001)', 'EVENTS_EXPECTED_LOSS',
+    [col([0, 0, 5]), col([1000, 1000, 1000]), 0.000001], false],
+  ['DECISION({0;30000;0},{60000;60000;60000},,,1E-12,1)', 'DECISION',
+    [col([0, 30000, 0]), col([60000, 60000, 60000]), null, null, 1e-12, 1], false],
+  ['VISITORS_NEEDED(0.01,0.01,0.999999999,0.95)', 'VISITORS_NEEDED', [0.01, 0.01, 0.999999999, 0.95], false],
+  ['VISITORS_NEEDED(0.03,0.05,0.999999999,0.9,0.001,1E-12)', 'VISITORS_NEEDED',
+    [0.03, 0.05, 0.999999999, 0.9, 0.001, 1e-12], false],
+  ['EXPECTED_LOSS, 50 uneven variants', 'EXPECTED_LOSS', [U50.conversions, U50.visitors], true],
+  ['DECISION, 50 uneven variants', 'DECISION', [U50.conversions, U50.visitors], true],
+  ['MEAN_EXPECTED_LOSS, 50 uneven variants', 'MEAN_EXPECTED_LOSS', [M50.count, M50.mean, M50.sd], true],
+  ['MEAN_EXPECTED_LOSS, 50 close variants of 7e6 values', 'MEAN_EXPECTED_LOSS', [O50.count, O50.mean, O50.sd], true],
+  ['MEAN_PROB_HIGHEST, 50 close variants of 7e6 values', 'MEAN_PROB_HIGHEST', [O50.count, O50.mean, O50.sd], true],
+  ['LIFT_DENSITY, 50 uneven variants × 1000 points', 'LIFT_DENSITY', [U50.conversions, U50.visitors, 1000], false],
+  ['LIFT_DENSITY, 50 close variants × 1000 points', 'LIFT_DENSITY', [C50.conversions, C50.visitors, 1000], false],
+  ['PROB_HIGHEST, 50 uneven variants', 'PROB_HIGHEST', [U50.conversions, U50.visitors], true],
+  // Worst found per function inside the domain (priors down to 0.001, thresholds up to 0.9999).
+  ['EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.001,1)', 'EXPECTED_LOSS',
+    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.001, 1], true],
+  ['EXPECTED_LOSS, 50 uneven variants, prior 0.001', 'EXPECTED_LOSS', [U50.conversions, U50.visitors, 0.001, 0.001], true],
+  ['PROB_HIGHEST, 50 close variants', 'PROB_HIGHEST', [C50.conversions, C50.visitors], true],
+  ['PROB_ABOVE_CONTROL, 50 uneven variants', 'PROB_ABOVE_CONTROL', [U50.conversions, U50.visitors], true],
+  ['LIFT_INTERVAL, 50 uneven variants', 'LIFT_INTERVAL', [U50.conversions, U50.visitors, 0.9999], true],
+  ['RATE_DIFF_INTERVAL, 50 uneven variants', 'RATE_DIFF_INTERVAL', [U50.conversions, U50.visitors, 0.9999], true],
+  ['PROB_LIFT_ABOVE, 50 uneven variants', 'PROB_LIFT_ABOVE', [U50.conversions, U50.visitors, 0.05], true],
+  ['POSTERIOR_DENSITY, 50 uneven variants × 1000 points', 'POSTERIOR_DENSITY',
+    [U50.conversions, U50.visitors, 1000], true],
+  ['LIFT_DENSITY, 50 uneven variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
+    [U50.conversions, U50.visitors, 102], true],
+  ['LIFT_DENSITY, 50 close variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
+    [C50.conversions, C50.visitors, 102], true],
+  ['LIFT_DENSITY({0;10},{1000;1000},1000) (no conversions in the control)', 'LIFT_DENSITY',
+    [col([0, 10]), col([1000, 1000]), 1000], true],
+  ['LIFT_DENSITY({0;3},{1000;1000},1000,0.001,0.001)', 'LIFT_DENSITY',
+    [col([0, 3]), col([1000, 1000]), 1000, 0.001, 0.001], true],
+  ['MEAN_PROB_HIGHEST, 50 uneven variants', 'MEAN_PROB_HIGHEST', [M50.count, M50.mean, M50.sd], true],
+  ['MEAN_LIFT_INTERVAL, 50 uneven variants', 'MEAN_LIFT_INTERVAL', [M50.count, M50.mean, M50.sd, 0.9999], true],
+  ['EVENTS_EXPECTED_LOSS, 50 uneven variants, prior 0.001', 'EVENTS_EXPECTED_LOSS',
+    [E50.events, E50.exposure, 0.001, 0.001], true],
+  ['EVENTS_PROB_HIGHEST, 50 uneven variants', 'EVENTS_PROB_HIGHEST', [E50.events, E50.exposure], true],
+  ['EVENTS_LIFT_INTERVAL, 50 uneven variants', 'EVENTS_LIFT_INTERVAL', [E50.events, E50.exposure, 0.9999], true],
+  ['VISITORS_NEEDED(0.001,0.01,0.9999,0.99)', 'VISITORS_NEEDED', [0.001, 0.01, 0.9999, 0.99], true],
+  ['VISITORS_NEEDED(0.03,0.05,0.9999,0.9,0.001,0.001)', 'VISITORS_NEEDED', [0.03, 0.05, 0.9999, 0.9, 0.001, 0.001], true],
+  ['VISITORS_NEEDED(0.5,0.01,0.9999,0.99,0.001,0.001)', 'VISITORS_NEEDED', [0.5, 0.01, 0.9999, 0.99, 0.001, 0.001], true],
+  ['DECISION_POWER(0.5,0.01,1E9,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e9, 0.9999], true],
+  ['DECISION_POWER(0.5,0.01,1E10,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e10, 0.9999], true],
+  ['PRIOR_FROM_HISTORY, 50 uneven rows', 'PRIOR_FROM_HISTORY', [U50.conversions, U50.visitors], true],
+];
+
+const WATCHDOG_MS = Number(process.env.WORST_CASE_WATCHDOG_MS || 20000);
+
+/** Runs one case in a child process; returns its measures or why there are none. */
+function runCase([, name, args]) {
+  const child = spawnSync(process.execPath, [path.join(__dirname, 'oneCall.js'), JSON.stringify({ name, args })], {
+    encoding: 'utf8',
+    timeout: WATCHDOG_MS,
+    maxBuffer: 1 << 20,
+  });
+  if (child.error && child.error.code === 'ETIMEDOUT') return { failure: `killed after ${WATCHDOG_MS / 1000} s` };
+  if (child.status !== 0) {
+    const why = (child.stderr || '').split('\n').find((l) => /error|fatal/i.test(l)) || `exit ${child.status}`;
+    return { failure: `process died: ${why.trim().slice(0, 60)}` };
+  }
+  return JSON.parse(child.stdout.trim().split('\n').pop());
+}
+
+function outcome(r) {
+  if (r.failure) return r.failure;
+  if (r.error) return `${r.error} ${r.message.slice(0, 70)}`;
+  const v = r.value;
+  const first = Array.isArray(v) ? v[0] : v;
+  const text = typeof first === 'number' ? Number(first.toPrecision(6)).toString() : String(first).slice(0, 50);
+  return r.cells !== undefined ? `${text} (${r.cells} cells)` : text;
+}
+
+/** The table's rows: formula, domain, CPU time, its target, memory, its target, what the cell shows. */
+function worstCaseRows(fmtMs) {
+  return CASES.map((c) => {
+    const r = runCase(c);
+    const inDomain = c[3];
+    const target = inDomain ? 250 : 1000;
+    const time = r.failure ? '—' : `${fmtMs(r.cpuMs)} ${r.cpuMs <= target ? '✓' : '✗'}`;
+    const mb = r.failure ? '—' : `${(r.memory / 1e6).toFixed(1)} MB ${r.memory <= 50e6 ? '✓' : '✗'}`;
+    return [c[0], inDomain ? 'inside' : 'edge/outside', time, inDomain ? '≤ 250 ms' : '≤ 1 s', mb, '≤ 50 MB', outcome(r)];
+  });
+}
+
+const HEADERS = ['call', 'domain', 'CPU time', 'target', 'memory', 'target', 'result'];
+const NOTE =
+  'Each call alone in a fresh node process through dist/functions.js (no table-memo hits), with a watchdog. ' +
+  'CPU time = user + system time of the call (less inflated than the wall clock on a shared machine); ' +
+  'memory = peak resident set during the call minus the resident set just before it (an upper bound).';
+
+module.exports = { CASES, HEADERS, NOTE, worstCaseRows };
+
+if (require.main === module) {
+  const fmtMs = (ms) => (ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : ms < 100 ? `${ms.toFixed(2)} ms` : `${ms.toFixed(0)} ms`);
+  const rows = worstCaseRows(fmtMs);
+  const widths = HEADERS.map((h, i) => Math.max(h.length, ...rows.map((r) => String(r[i]).length)));
+  const line = (cells) => `| ${cells.map((c, i) => String(c).padEnd(widths[i])).join(' | ')} |`;
+  console.log('\n### Worst cases (one call per process)\n');
+  console.log(line(HEADERS));
+  console.log(`|${widths.map((w) => '-'.repeat(w + 2)).join('|')}|`);
+  for (const r of rows) console.log(line(r));
+  console.log(`\n${NOTE}`);
+}
