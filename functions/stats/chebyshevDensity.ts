@@ -110,9 +110,11 @@ function failure(message: string): StatsError {
  *  2. each end of the window where the log density is WINDOW below its peak, by Newton's method in a
  *     bracket (bisection when a step leaves it; doubling the distance while no point outside is known);
  *  3. pieces from the left end: each interpolated at 24 Chebyshev points and accepted when its last four
- *     coefficients are below 2e-13 + 1e-12·d + 1e-11·d², d the depth of its highest point below the peak
- *     (an error ε in the log density there changes probabilities by ~e^-d·ε), else halved; an accepted
- *     piece lets the next one try 1.5 times its width.
+ *     coefficients are below 2e-13 + 1e-12·d + 1e-11·d² (+ 5e-15 of its deepest point's depth, the
+ *     evaluations' rounding), d the depth of its highest point below the peak
+ *     (an error ε in the log density there changes probabilities by ~e^-d·ε), else a quarter as wide is
+ *     tried; the first piece tried is the whole window, and an accepted piece lets the next try twice
+ *     its width (at large counts the log density is nearly quadratic: one piece, 24 evaluations).
  * Outside the window the exact density is used. For a density that is not log-concave (`logConcave`
  * false) the curvature reported is each piece's largest |curvature|, so grid.ts's panels stay narrow
  * across every bend. Everything is deterministic.
@@ -186,7 +188,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
   let a = leftEnd.z;
   const last = rightEnd.z;
   const kink = exact.kink !== undefined && exact.kink > a && exact.kink < last ? exact.kink : undefined;
-  let w = (last - a) / 8;
+  let w = last - a;
   for (let tries = 0; a < last; tries++) {
     if (tries >= PIECE_BUDGET) throw failure('its log density is not smooth enough to interpolate');
     // Pieces end at the kink (where the density is only finitely smooth) and at the window's end.
@@ -198,6 +200,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const slope = new Float64Array(POINTS);
     const curvature = new Float64Array(POINTS);
     let nearest = Infinity;
+    let deepest = 0;
     for (let j = 0; j < POINTS; j++) {
       const v = exact.evaluate(mid + half * (CHEB_POINTS[j] as number));
       if (!Number.isFinite(v.logDensity)) throw failure(`the log density is not finite at ${mid + half * (CHEB_POINTS[j] as number)}`);
@@ -205,20 +208,22 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       slope[j] = v.slope;
       curvature[j] = v.curvature;
       nearest = Math.min(nearest, Math.abs(v.logDensity - top));
+      deepest = Math.max(deepest, Math.abs(v.logDensity - top));
     }
     // An error ε in the log density d below the peak moves probabilities by ~e^-d·ε, and tail
     // probabilities ~e^-d by ε relative: allow 2e-13 + 1e-12·d + 1e-11·d² (≤ 5e-12 of any probability,
-    // ≤ 1e-6 relative up to d = 300). Far in a tail (d > 30) a piece narrower than 1e-9 of the window is
-    // accepted as it is (the evaluations' rounding, not the interpolation, is then what remains).
-    const tolerance = 2e-13 + 1e-12 * nearest + 1e-11 * nearest * nearest;
+    // ≤ 1e-6 relative up to d = 300), plus the evaluations' own rounding, ~5e-15 of the largest |log
+    // density| on the piece. Far in a tail (d > 30) a piece narrower than 1e-9 of the window is accepted
+    // as it is (the evaluations' rounding, not the interpolation, is then what remains).
+    const tolerance = 2e-13 + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
     const floor = nearest > 30 && right - a < 1e-9 * (last - leftEnd.z);
     if (tailCoefficient(logDensity) > tolerance && !floor) {
-      w /= 2;
+      w /= 4;
       continue;
     }
     pieces.push({ left: a, right, logDensity, slope, curvature });
     a = right;
-    w *= 1.5;
+    w *= 2;
   }
   const lefts = Float64Array.from(pieces, (p) => p.left);
   // Where the log density is not concave, grid.ts's panel rule (width 2/√curvature) must not see a

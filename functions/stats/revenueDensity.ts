@@ -74,9 +74,10 @@ function expm1mx(x: number): number {
 
 /**
  * The rate's posterior Beta(a, b) in logit for the inner integrals, tabulated with wider panels
- * (4 local standard deviations) and a wider window (330), and left of the mode with the curvature taken
- * as at least leftFloor·(1 − p)², so panels there are at most 4/(√leftFloor·(1 − p)) wide: an outer point
- * far in the left tail puts its whole integrand into a narrow peak in the rate's exponential tail.
+ * (4 local standard deviations) and a wider window (330), and in its left tail (log density below −20)
+ * with the curvature taken as at least leftFloor·(1 − p)², so panels there are at most
+ * 4/(√leftFloor·(1 − p)) wide: an outer point far in the left tail puts its whole integrand into a narrow
+ * peak in the rate's exponential tail.
  */
 export function rateTable(a: number, b: number, leftFloor: number): TabulatedDistribution {
   const beta = betaWorkingDensity(a, b);
@@ -86,7 +87,8 @@ export function rateTable(a: number, b: number, leftFloor: number): TabulatedDis
     mode,
     curvature: (z: number): number => {
       const c = beta.curvature(z);
-      if (z >= mode) return c;
+      // Only in the tail (20 below the peak): the bulk's integrands are as wide as the rate's own.
+      if (z >= mode || beta.logDensity(z) > -20) return c;
       const q = logistic(-z);
       return Math.max(c, leftFloor * q * q);
     },
