@@ -16,14 +16,17 @@ export interface DensityPoint {
   readonly logDensity: number;
   readonly slope: number;
   readonly curvature: number;
+  /**
+   * The rounding noise expected in logDensity, if the evaluation can estimate it (e.g. from how fast its
+   * integrand's factor changes with the working point, times the point's own rounding).
+   */
+  readonly noise?: number;
 }
 
 /** A costly working density: exact evaluation in the working variable, and where to start looking. */
 export interface ExactDensity {
   /** log density up to a constant, with slope and curvature (these may be approximate to ~1e-6). */
   evaluate(z: number): DensityPoint;
-  /** log density alone, to the full accuracy (cheaper than evaluate where the derivatives are not needed). */
-  logDensity(z: number): number;
   /** A point near the mode. */
   readonly start: number;
   /**
@@ -112,10 +115,12 @@ function failure(message: string): StatsError {
  *  3. pieces from the left end: each interpolated at 24 Chebyshev points and accepted when its last four
  *     coefficients are below 2e-13 + 1e-12·d + 1e-11·d² (+ 5e-15 of its deepest point's depth, the
  *     evaluations' rounding), d the depth of its highest point below the peak
- *     (an error ε in the log density there changes probabilities by ~e^-d·ε), else a quarter as wide is
+ *     (an error ε in the log density there changes probabilities by ~e^-d·ε), 4e-16·|slope|·|z| (the
+ *     rounding of the working point itself) and the evaluations' own noise estimate, else a quarter as wide is
  *     tried; the first piece tried is the whole window, and an accepted piece lets the next try twice
  *     its width (at large counts the log density is nearly quadratic: one piece, 24 evaluations).
- * Outside the window the exact density is used. For a density that is not log-concave (`logConcave`
+ * Outside the window (log density below −250, beyond what grid.ts tabulates) the log density continues
+ * along its tangent at the nearer end. For a density that is not log-concave (`logConcave`
  * false) the curvature reported is each piece's largest |curvature|, so grid.ts's panels stay narrow
  * across every bend. Everything is deterministic.
  * Cost: ~5–10 exact evaluations for the mode, ~10 per end and 24 per piece tried (typically 4–12 pieces).
@@ -201,6 +206,8 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const curvature = new Float64Array(POINTS);
     let nearest = Infinity;
     let deepest = 0;
+    let conditioning = 0;
+    let evaluationNoise = 0;
     for (let j = 0; j < POINTS; j++) {
       const v = exact.evaluate(mid + half * (CHEB_POINTS[j] as number));
       if (!Number.isFinite(v.logDensity)) throw failure(`the log density is not finite at ${mid + half * (CHEB_POINTS[j] as number)}`);
@@ -209,13 +216,18 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       curvature[j] = v.curvature;
       nearest = Math.min(nearest, Math.abs(v.logDensity - top));
       deepest = Math.max(deepest, Math.abs(v.logDensity - top));
+      conditioning = Math.max(conditioning, Math.abs(v.slope) * Math.max(1, Math.abs(mid + half * (CHEB_POINTS[j] as number))));
+      evaluationNoise = Math.max(evaluationNoise, v.noise ?? 0);
     }
     // An error ε in the log density d below the peak moves probabilities by ~e^-d·ε, and tail
     // probabilities ~e^-d by ε relative: allow 2e-13 + 1e-12·d + 1e-11·d² (≤ 5e-12 of any probability,
     // ≤ 1e-6 relative up to d = 300), plus the evaluations' own rounding, ~5e-15 of the largest |log
     // density| on the piece. Far in a tail (d > 30) a piece narrower than 1e-9 of the window is accepted
-    // as it is (the evaluations' rounding, not the interpolation, is then what remains).
-    const tolerance = 2e-13 + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
+    // as it is (the evaluations' rounding, not the interpolation, is then what remains). A working point
+    // z is itself only known to ~2.2e-16·|z|, which moves the log density by |slope|·that: at a billion
+    // counts (slope ~1e5 a few standard deviations out) that floor is ~1e-10, the same as every table's.
+    const noise = 4e-16 * conditioning + evaluationNoise;
+    const tolerance = 2e-13 + noise + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
     const floor = nearest > 30 && right - a < 1e-9 * (last - leftEnd.z);
     if (tailCoefficient(logDensity) > tolerance && !floor) {
       w /= 4;
@@ -244,9 +256,15 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     }
     return l;
   };
+  // Beyond the window the log density continues along its tangent at the nearer end (only grid.ts's
+  // window search looks there, and a line leads its Newton steps straight back inside).
+  const beyond = (z: number): DensityPoint => {
+    const e = z < windowLeft ? leftEnd : rightEnd;
+    return { logDensity: e.logDensity - top + e.slope * (z - e.z), slope: e.slope, curvature: Math.abs(e.curvature) };
+  };
   const at = (z: number, pick: (p: Piece) => Float64Array, outside: (v: DensityPoint) => number): number => {
     const i = pieceOf(z);
-    if (i < 0) return outside(exact.evaluate(z));
+    if (i < 0) return outside(beyond(z));
     const p = pieces[i] as Piece;
     return interpolate(pick(p), (2 * z - p.left - p.right) / (p.right - p.left));
   };
@@ -255,7 +273,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     valueRange: exact.valueRange,
     logDensity: (z: number): number => {
       const i = pieceOf(z);
-      if (i < 0) return exact.logDensity(z) - top;
+      if (i < 0) return beyond(z).logDensity;
       const p = pieces[i] as Piece;
       return interpolate(p.logDensity, (2 * z - p.left - p.right) / (p.right - p.left));
     },
@@ -265,7 +283,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       if (logConcave) c = at(z, (p) => p.curvature, (v) => v.curvature);
       else {
         const i = pieceOf(z);
-        c = i < 0 ? Math.abs(exact.evaluate(z).curvature) : (bends[i] as number);
+        c = i < 0 ? beyond(z).curvature : (bends[i] as number);
       }
       if (kink === undefined) return c;
       // Panels at most their distance to the kink wide (geometric grading), down to KINK_DEPTH widths.

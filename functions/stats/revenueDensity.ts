@@ -185,13 +185,13 @@ class ExponentialRevenue implements ExactDensity {
   }
 
   /**
-   * log ∫ f_Z k dz at ω (up to a constant) and, with `moments`, the slope and curvature of its log: a
+   * log ∫ f_Z k dz at ω (up to a constant) with the slope and curvature of its log: a
    * composite Gauss–Legendre sum over the rate table's nodes. The integrand is unimodal in z (log-concave
    * in log p, times the Jacobian 1 − p), so the sum starts at the node nearest its mode and walks left and
    * right until a node's term, already falling, lies e^-40 below the largest (the rest decays at least
    * exponentially). Terms are summed relative to the running largest one.
    */
-  private integrate(omega: number, moments: boolean): DensityPoint {
+  private integrate(omega: number): DensityPoint {
     const alpha = this.shape;
     const shift = omega - this.start;
     const base = this.nodeBase;
@@ -220,29 +220,25 @@ class ExponentialRevenue implements ExactDensity {
         }
         const w = Math.exp(v - ref);
         m0 += w;
-        if (moments) {
-          const d = alpha * (em + e);
-          m1 += w * d;
-          m2 += w * d * d;
-          mc += w * (alpha + d);
-        }
+        const d = alpha * (em + e);
+        m1 += w * d;
+        m2 += w * d * d;
+        mc += w * (alpha + d);
         if (v < previous && v < ref - INNER_PRUNE) break;
         previous = v;
       }
     }
     const total = ref + Math.log(m0);
-    if (!moments || !(m0 > 0)) return { logDensity: total, slope: NaN, curvature: NaN };
+    if (!(m0 > 0)) return { logDensity: total, slope: NaN, curvature: NaN };
     const mean = m1 / m0;
     const variance = Math.max(0, m2 / m0 - mean * mean);
-    return { logDensity: total, slope: mean, curvature: mc / m0 - variance };
+    // ω − ω0 is known to ~2.2e-16·max(1, |ω|), which moves each term's log by α·expm1(e) times that.
+    const noise = 4e-16 * Math.max(1, Math.abs(omega)) * Math.sqrt(m2 / m0);
+    return { logDensity: total, slope: mean, curvature: mc / m0 - variance, noise };
   }
 
   evaluate(omega: number): DensityPoint {
-    return this.integrate(omega, true);
-  }
-
-  logDensity(omega: number): number {
-    return this.integrate(omega, false).logDensity;
+    return this.integrate(omega);
   }
 
   toValue(omega: number): number {

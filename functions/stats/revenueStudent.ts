@@ -7,16 +7,14 @@
  * (used when every variant's chance of a negative order value is negligible, or for the positive part
  * of a control), or a stretched sinh shared by all variants of a comparison.
  */
-import { betaLogDensity } from './special/incompleteBeta';
 import { studentTLogDensity } from './special/studentT';
 import { logistic } from './betaDensity';
 import { chebyshevDensity } from './chebyshevDensity';
 import type { DensityPoint, ExactDensity } from './chebyshevDensity';
 import { ensure, StatsError } from './errors';
-import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution, tabulate } from './grid';
-import { gaussLegendre, log1pmx } from './numeric';
-import { INNER_PRUNE, RATE_CURVATURE_WIDTH, RATE_LOG_RANGE, rateTable } from './revenueDensity';
-import { studentTWorkingDensity } from './studentTDensity';
+import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution } from './grid';
+import { gaussLegendre } from './numeric';
+import { INNER_PRUNE, rateTable } from './revenueDensity';
 import type { WorkingDensity } from './types';
 
 /**
@@ -86,8 +84,8 @@ const PANEL_LOG_WEIGHTS: readonly number[] = Array.from(gaussLegendre(PANEL_ORDE
 /** Up to this many orders, R = 0 is a kink of the order_sd model's density (see StudentRevenue). */
 const KINK_ORDERS = 20;
 
-/** Most sub-panels a rate (or order-value) panel is split into for a narrow factor (the budget of one panel). */
-const MAX_SPLIT = 64;
+/** Most parts one rate panel is cut into for a narrow order-value factor (the budget of one panel). */
+const MAX_PARTS = 400;
 
 /** Moments of the inner integrand accumulated relative to a running largest term. */
 class InnerSum {
@@ -128,118 +126,7 @@ class InnerSum {
   }
 }
 
-/**
- * The inner integral ∫ f_base(z)·k(z; outer) dz of the order-value model with a given order_sd, over a
- * tabulated base (the rate, or the order value), for a factor k that may be much narrower than the base's
- * panels somewhere: the base's panels are visited by decreasing mass, skipped when their bound (mass ×
- * the factor's largest value on them) lies e^-40 below the running total, and split into up to 64 equal
- * parts where the factor varies too much across them (the factor says how many); a split panel's points
- * take the base density from its source directly. Subclasses define the factor.
- */
-abstract class ProductIntegral {
-  protected readonly sum = new InnerSum();
-  private readonly rule = PANEL_NODES;
-  private readonly ruleWeights = PANEL_LOG_WEIGHTS;
-
-  constructor(protected readonly base: TabulatedDistribution) {}
-
-  /** Sets up the factor for one outer point. */
-  protected abstract prepare(outer: number): void;
-  /** log of the factor at base node k (of the table). */
-  protected abstract logAtNode(k: number): number;
-  /** log of the factor at a base point z that is not a node. */
-  protected abstract logAt(z: number): number;
-  /**
-   * Sets d1, d2 to the first and second derivatives in the outer variable of the log factor at the last
-   * point evaluated (fields, so the inner loop allocates nothing).
-   */
-  protected abstract derivatives(): void;
-  protected d1 = 0;
-  protected d2 = 0;
-  /**
-   * Sets most to the largest log factor on [za, zb] (an upper bound) and parts to the sub-panels the
-   * factor needs there.
-   */
-  protected abstract panel(za: number, zb: number): void;
-  protected most = 0;
-  protected parts = 1;
-  /** The part of [za, zb] where the factor can be nonzero ([za, zb] itself unless a subclass says less). */
-  protected support(za: number, zb: number): readonly [number, number] {
-    return [za, zb];
-  }
-
-  /**
-   * log ∫ f_base k dz (up to a constant), with the moments for slope and curvature left in the sum; NaN
-   * when a panel would need more than MAX_SPLIT parts (the caller then tries the other orientation).
-   */
-  protected integrate(outer: number, moments: boolean): number {
-    this.prepare(outer);
-    const t = this.base;
-    const n = PANEL_ORDER;
-    const sum = this.sum;
-    sum.reset();
-    const order = t.panelOrder;
-    for (let r = 0; r < order.length; r++) {
-      const p = order[r] as number;
-      const mass = t.panelLogMass[p] as number;
-      if (mass < sum.logTotal - INNER_PRUNE) break;
-      const ea = t.edges[p] as number;
-      const eb = t.edges[p + 1] as number;
-      const [za, zb] = this.support(ea, eb);
-      if (!(zb > za)) continue;
-      this.panel(za, zb);
-      const parts = this.parts;
-      if (mass + this.most < sum.logTotal - INNER_PRUNE) continue;
-      if (parts <= 1 && za === ea && zb === eb) {
-        for (let k = p * n; k < p * n + n; k++) {
-          const f = this.logAtNode(k);
-          if (f === -Infinity) continue;
-          const v = (t.nodeLogWeight[k] as number) + (t.nodeLogDensity[k] as number) + f;
-          if (moments) {
-            this.derivatives();
-            sum.add(v, this.d1, this.d2);
-          } else sum.add(v, 0, 0);
-        }
-        continue;
-      }
-      if (parts > MAX_SPLIT) return NaN;
-      // Equal sub-panels; each skipped when its own bound is negligible.
-      const count = Math.max(1, parts);
-      const width = (zb - za) / count;
-      const top = mass - Math.log(eb - ea) + 5;
-      for (let s = 0; s < count; s++) {
-        const a = za + s * width;
-        const b = s === count - 1 ? zb : a + width;
-        this.panel(a, b);
-        if (top + Math.log(b - a) + this.most < sum.logTotal - INNER_PRUNE) continue;
-        const half = (b - a) / 2;
-        const mid = (a + b) / 2;
-        const logHalf = Math.log(half);
-        for (let k = 0; k < n; k++) {
-          const z = mid + half * (this.rule[k] as number);
-          const f = this.logAt(z);
-          if (f === -Infinity) continue;
-          const v = logHalf + (this.ruleWeights[k] as number) + t.logDensityAt(z) + f;
-          if (moments) {
-            this.derivatives();
-            sum.add(v, this.d1, this.d2);
-          } else sum.add(v, 0, 0);
-        }
-      }
-    }
-    return sum.logTotal;
-  }
-
-  /** Slope and curvature of log ∫ f_base k dz from the last integrate(…, true), given the outer Jacobian terms. */
-  protected moments(): { readonly mean: number; readonly variance: number; readonly second: number } {
-    const s = this.sum;
-    if (!(s.m0 > 0)) return { mean: NaN, variance: NaN, second: NaN };
-    const mean = s.m1 / s.m0;
-    return { mean, variance: Math.max(0, s.m2 / s.m0 - mean * mean), second: s.mc / s.m0 };
-  }
-}
-
-/** The parameters of the order-value-with-order_sd model that both orientations share. */
+/** The parameters of the order-value-with-order_sd model . */
 export interface StudentModel {
   /** Rate posterior Beta(a, b): a = 1 + orders, b = 1 + visitors − orders. */
   readonly a: number;
@@ -253,44 +140,53 @@ export interface StudentModel {
 }
 
 /**
- * Orientation "rate": the base is the rate's Beta(orders, b) in z = logit p (f_p(p)/p in z), the factor
- * the order value's t density at v = R/p, i.e. at τ = (R/σ(z) − m)/s = (S sinh u − m(σ(z) − E[p]))/(s σ(z))
- * (σ(z) − p0 formed as −σ(z)·q0·expm1(−(z − z0)), so nothing cancels). log k = −((ν + 1)/2)·log1p(τ²/ν),
- * ∂ log k/∂R = −(ν + 1)τ/((ν + τ²)·sσ), ∂²/∂R² = −(ν + 1)(ν − τ²)/((ν + τ²)²·(sσ)²). The factor is
- * largest where τ = 0 and falls with |τ|, and τ is monotone in z, so its bound on a panel comes from the
- * edges; a panel is split so that each part spans at most min(1.3, 3/√(ν + 1))·√(ν + τ²) in τ (τ its
- * smallest |τ| there): three local widths of the t, and 1.3 times the distance to its poles ±i√ν.
+ * The inner integral of the order_sd model over the rate: the base is the rate's Beta(orders, b) in
+ * z = logit p (f_p(p)/p in z, tabulated), the factor the order value's t density at v = R/p, i.e. at
+ * τ = (R/σ(z) − m)/s = (R − C − m(σ(z) − E[p]))/(s σ(z)) with R − C from the frame and σ(z) − p0 formed
+ * as −σ(z)·q0·expm1(−(z − z0)), so nothing cancels. log k = −((ν + 1)/2)·log1p(τ²/ν),
+ * ∂ log k/∂R = −(ν + 1)τ/((ν + τ²)·sσ), ∂²/∂R² = −(ν + 1)(ν − τ²)/((ν + τ²)²·(sσ)²).
+ *
+ * The rate's panels are visited by decreasing mass and skipped when their bound (mass × the factor's
+ * largest value on them: τ is monotone in z and the factor falls with |τ|) lies e^-40 below the running
+ * total. A panel across which the factor changes too much is cut into parts, walking outwards in τ from
+ * the part nearest τ = 0 with steps of min(1.3·√(ν + τ²), 3·√((ν + τ²)/(ν + 1))) (at most 1.3 times the
+ * distance to the t's poles ±i√ν and three of its local widths: a 16-point rule then converges like
+ * 3.3^-32; common practice), only as far as the factor stays within e^-40 of what could matter; each
+ * part takes the rate's density from its source directly. A narrow factor (order values far more
+ * precise than the rate) so costs a few parts on the one or two panels it crosses.
  */
-class StudentOverRate extends ProductIntegral {
+class StudentOverRate {
+  private readonly base: TabulatedDistribution;
+  private readonly sum = new InnerSum();
   private readonly half: number;
-  private readonly p0: number;
   private readonly q0: number;
   private readonly z0: number;
-  /** m·(σ(z) − E[p]) and 1/(s·σ(z)) at every node. */
-  private readonly nodeOffset: Float64Array;
-  private readonly nodeInverse: Float64Array;
   private readonly meanShift: number;
   /** log((n + b)/n) + log c_ν − log s: with it the value is log f_R exactly (see point). */
   private readonly constant: number;
+  /** m·(σ(z) − E[p]) and 1/(s·σ(z)) at every node. */
+  private readonly nodeOffset: Float64Array;
+  private readonly nodeInverse: Float64Array;
+  private readonly cuts: number[] = [];
   private sh = 0;
-  private lastTau = 0;
-  private lastInverse = 0;
+  private r = 0;
+  private offset = 0;
+  private inverse = 0;
 
   constructor(
     private readonly model: StudentModel,
     private readonly frame: RevenueFrame,
   ) {
-    super(rateTable(model.a - 1, model.b, 0));
-    const { a, b } = model;
+    const { a, b, nu } = model;
+    this.base = rateTable(a - 1, b, 0);
     const n = a - 1 + b;
-    this.p0 = (a - 1) / n;
     this.q0 = b / n;
     this.z0 = this.base.source.mode;
-    this.half = (model.nu + 1) / 2;
+    this.half = (nu + 1) / 2;
     // E[p] − p0 = a/(a + b) − (a − 1)/(a − 1 + b) = b/((a + b)(a − 1 + b)).
     this.meanShift = b / ((a + b) * n);
     // f_R(r) = (B(n, b)/B(n + 1, b))·∫ g(z)·t_ν(τ)/s dz with g the normalised Beta(n, b) in logit.
-    this.constant = Math.log(n / (a - 1)) + studentTLogDensity(0, model.nu) - Math.log(model.s);
+    this.constant = Math.log(n / (a - 1)) + studentTLogDensity(0, nu) - Math.log(model.s);
     const z = this.base.nodeZ;
     this.nodeOffset = new Float64Array(z.length);
     this.nodeInverse = new Float64Array(z.length);
@@ -309,214 +205,137 @@ class StudentOverRate extends ProductIntegral {
     this.inverse = 1 / (this.model.s * sigma);
   }
 
-  private offset = 0;
-  private inverse = 0;
-
-  protected prepare(u: number): void {
-    this.sh = this.frame.offset(u, this.model.centre);
+  private tauAt(z: number): number {
+    this.at(z);
+    return (this.sh - this.offset) * this.inverse;
   }
 
   private logFactor(tau: number): number {
     return -this.half * Math.log1p((tau * tau) / this.model.nu);
   }
 
-  protected logAtNode(k: number): number {
-    const inverse = this.nodeInverse[k] as number;
-    const tau = (this.sh - (this.nodeOffset[k] as number)) * inverse;
-    this.lastTau = tau;
-    this.lastInverse = inverse;
-    return this.logFactor(tau);
-  }
-
-  protected logAt(z: number): number {
-    this.at(z);
-    const tau = (this.sh - this.offset) * this.inverse;
-    this.lastTau = tau;
-    this.lastInverse = this.inverse;
-    return this.logFactor(tau);
-  }
-
-  protected derivatives(): void {
+  /** Adds the point with log base density + log weight `base` and factor argument tau to the sum. */
+  private add(base: number, tau: number, inverse: number): void {
+    const v = base + this.logFactor(tau);
     const nu = this.model.nu;
-    const t = this.lastTau;
-    const d = nu + t * t;
-    const g = this.lastInverse;
-    this.d1 = (-2 * this.half * t * g) / d;
-    this.d2 = (-2 * this.half * (nu - t * t) * g * g) / (d * d);
+    const d = nu + tau * tau;
+    this.sum.add(v, (-2 * this.half * tau * inverse) / d, (-2 * this.half * (nu - tau * tau) * inverse * inverse) / (d * d));
   }
 
-  protected panel(za: number, zb: number): void {
-    this.at(za);
-    const ta = (this.sh - this.offset) * this.inverse;
-    this.at(zb);
-    const tb = (this.sh - this.offset) * this.inverse;
-    const crosses = ta <= 0 !== tb <= 0;
-    const nearest = crosses ? 0 : Math.min(Math.abs(ta), Math.abs(tb));
-    const most = crosses ? 0 : this.logFactor(nearest);
+  /** The step in τ allowed from a point whose |τ| is t (see the class comment). */
+  private step(t: number): number {
     const nu = this.model.nu;
-    // Each part spans at most three local widths of the t, and at most 1.3 times the distance
-    // √(ν + τ²) to its complex poles τ = ±i√ν (a 16-point rule then converges like 3.3^-32; common practice).
-    const reach = Math.sqrt(nu + nearest * nearest);
-    const allowed = Math.min(1.3 * reach, (3 * reach) / Math.sqrt(nu + 1));
-    this.most = most;
-    this.parts = Math.ceil(Math.abs(tb - ta) / allowed);
+    const reach = Math.sqrt(nu + t * t);
+    return Math.min(1.3 * reach, (3 * reach) / Math.sqrt(nu + 1));
+  }
+
+  /** z at which τ takes the value t: σ(z) = R/(m + s·t). */
+  private zOfTau(t: number): number {
+    const q = this.r / (this.model.m + this.model.s * t);
+    return Math.log(q) - Math.log1p(-q);
+  }
+
+  /**
+   * Cuts [za, zb] (τ from ta to tb) into parts for the factor, into `cuts` (z values, ascending, ends
+   * included), keeping only where log factor ≥ least; returns false when it would take more than MAX_PARTS.
+   */
+  private cut(za: number, zb: number, ta: number, tb: number, least: number): boolean {
+    const cuts = this.cuts;
+    cuts.length = 0;
+    const nu = this.model.nu;
+    // |τ| beyond which the factor is below e^least: log1p(τ²/ν) = −least/half.
+    const reach = least >= 0 ? 0 : Math.sqrt(nu * Math.expm1(-least / this.half));
+    const lo = Math.max(Math.min(ta, tb), -reach);
+    const hi = Math.min(Math.max(ta, tb), reach);
+    if (!(hi > lo)) return true;
+    // Walk outwards from the point of [lo, hi] nearest τ = 0.
+    const start = Math.min(Math.max(0, lo), hi);
+    const taus: number[] = [start];
+    for (let t = start; t < hi; ) {
+      t = Math.min(hi, t + this.step(Math.abs(t)));
+      taus.push(t);
+      if (taus.length > MAX_PARTS) return false;
+    }
+    for (let t = start; t > lo; ) {
+      t = Math.max(lo, t - this.step(Math.abs(t)));
+      taus.unshift(t);
+      if (taus.length > MAX_PARTS) return false;
+    }
+    // Map to z (τ is monotone in z); the panel's own ends where τ was not clipped.
+    for (const t of taus) cuts.push(t === ta ? za : t === tb ? zb : this.zOfTau(t));
+    cuts.sort((u, v) => u - v);
+    return true;
+  }
+
+  /** log ∫ f_base k dz (up to a constant), the moments in the sum; NaN when a panel is over budget. */
+  private integrate(u: number): number {
+    this.sh = this.frame.offset(u, this.model.centre);
+    this.r = this.frame.toValue(u);
+    const t = this.base;
+    const n = PANEL_ORDER;
+    const sum = this.sum;
+    sum.reset();
+    const order = t.panelOrder;
+    for (let r = 0; r < order.length; r++) {
+      const p = order[r] as number;
+      const mass = t.panelLogMass[p] as number;
+      const total = sum.logTotal;
+      if (mass < total - INNER_PRUNE) break;
+      const za = t.edges[p] as number;
+      const zb = t.edges[p + 1] as number;
+      const ta = this.tauAt(za);
+      const tb = this.tauAt(zb);
+      const nearest = ta <= 0 !== tb <= 0 ? 0 : Math.min(Math.abs(ta), Math.abs(tb));
+      const most = this.logFactor(nearest);
+      if (mass + most < total - INNER_PRUNE) continue;
+      if (Math.abs(tb - ta) <= this.step(nearest)) {
+        for (let k = p * n; k < p * n + n; k++) {
+          const inverse = this.nodeInverse[k] as number;
+          const tau = (this.sh - (this.nodeOffset[k] as number)) * inverse;
+          this.add((t.nodeLogWeight[k] as number) + (t.nodeLogDensity[k] as number), tau, inverse);
+        }
+        continue;
+      }
+      // Parts where the factor could matter: within e^-40 of the larger of the running total and this
+      // panel's own best (its density is at most ~e^5 times its mean over the panel).
+      const density = mass - Math.log(zb - za) + 5;
+      const least = Math.max(total, mass + most) - INNER_PRUNE - density - Math.log(zb - za);
+      if (!this.cut(za, zb, ta, tb, least)) return NaN;
+      const cuts = this.cuts;
+      for (let c = 0; c + 1 < cuts.length; c++) {
+        const a = cuts[c] as number;
+        const b = cuts[c + 1] as number;
+        if (!(b > a)) continue;
+        const half = (b - a) / 2;
+        const mid = (a + b) / 2;
+        const logHalf = Math.log(half);
+        for (let k = 0; k < n; k++) {
+          const z = mid + half * (PANEL_NODES[k] as number);
+          const tau = this.tauAt(z);
+          this.add(logHalf + (PANEL_LOG_WEIGHTS[k] as number) + t.logDensityAt(z), tau, this.inverse);
+        }
+      }
+    }
+    return sum.logTotal;
   }
 
   /** The exact log density of u, log f_R(R(u)) + log dR/du, with slope and curvature; NaN over budget. */
-  point(u: number, moments: boolean): DensityPoint {
+  point(u: number): DensityPoint {
     const f = this.frame;
-    const logSum = this.integrate(u, moments);
+    const logSum = this.integrate(u);
     const logDensity = logSum + this.constant + f.logJacobian(u);
-    if (!moments) return { logDensity, slope: NaN, curvature: NaN };
-    const { mean, variance, second } = this.moments();
+    if (Number.isNaN(logSum)) return { logDensity, slope: NaN, curvature: NaN };
+    const s = this.sum;
+    if (!(s.m0 > 0)) return { logDensity, slope: NaN, curvature: NaN };
+    const mean = s.m1 / s.m0;
+    const variance = Math.max(0, s.m2 / s.m0 - mean * mean);
+    const second = s.mc / s.m0;
     const r1 = f.first(u);
     const slope = r1 * mean + f.logJacobianSlope(u);
     const curvature = -(r1 * r1 * (second + variance) + f.second(u) * mean) - f.logJacobianSecond(u);
-    return { logDensity, slope, curvature };
-  }
-}
-
-/**
- * Orientation "order value": the base is the order value's t in u′ (v = m + s·sinh u′,
- * studentTDensity.ts), the factor the rate's density at q = R/v, times |q|/|R| (= 1/|v|):
- * ∝ q^a (1 − q)^(b − 1) on 0 < q < 1. Around its mode q0 = a/(a + b − 1), with δ = R − q0·v formed as
- * S sinh u − (q0·s·sinh u′ − m·(E[p] − q0)) (no cancellation), x1 = δ/(q0 v) = q/q0 − 1 and
- * x2 = −δ/((1 − q0) v) = (1 − q)/(1 − q0) − 1, its log is a·log1pmx(x1) + (b − 1)·log1pmx(x2) (the linear
- * terms cancel at the mode); with b = 1 (every visitor ordered) it is a·log1p(x1) = a·log q. The factor is
- * unimodal in q and q = R/v is monotone in v, so its bound on a panel comes from the edges; the panel is
- * cut to the support (v beyond R on R's side of zero; the factor is a rational function of v, analytic
- * at the cut, with its only pole at v = 0) and split so that each part spans at most min(1, 3σ) in
- * log v (σ = √((1 − q0)/a), the factor's width there; 1 keeps a part's distance to the pole at v = 0
- * above its length) and the log factor changes by at most 12 across a part.
- */
-class RateOverStudent extends ProductIntegral {
-  private readonly q0: number;
-  private readonly meanGap: number;
-  private readonly peakWidth: number;
-  private readonly nodeValue: Float64Array;
-  private readonly nodeOffset: Float64Array;
-  /** log q0 + log f_p(q0): with it (and −log|R|) the value is log f_R exactly (see point). */
-  private readonly constant: number;
-  private sh = 0;
-  private r = 0;
-  private lastX1 = 0;
-  private lastX2 = 0;
-  private lastValue = 1;
-
-  constructor(
-    private readonly model: StudentModel,
-    private readonly frame: RevenueFrame,
-  ) {
-    super(
-      tabulate(studentTWorkingDensity(model.nu, model.m, model.s), {
-        logRange: RATE_LOG_RANGE,
-        curvatureWidth: RATE_CURVATURE_WIDTH,
-      }),
-    );
-    const { a, b, m, s } = model;
-    this.q0 = a / (a + b - 1);
-    // E[p] − q0 = a/(a + b) − a/(a + b − 1) = −a/((a + b)(a + b − 1)).
-    this.meanGap = m * (-a / ((a + b) * (a + b - 1)));
-    this.peakWidth = 2 * Math.sqrt((1 - this.q0) / a);
-    // f_R(r) = ∫ g(u′)·f_p(q)/|v| du′ and f_p(q)/|v| = q·f_p(q)/|r| = e^{log factor}·q0·f_p(q0)/|r|
-    // (betaLogDensity keeps 1e-14 at a billion counts); with b = 1 the factor's peak is q0 = 1.
-    this.constant = Math.log(this.q0) + (this.q0 < 1 ? betaLogDensity(this.q0, a, b) : Math.log(a));
-    const u = this.base.nodeZ;
-    this.nodeValue = new Float64Array(u.length);
-    this.nodeOffset = new Float64Array(u.length);
-    for (let k = 0; k < u.length; k++) {
-      const sinh = Math.sinh(u[k] as number);
-      this.nodeValue[k] = m + s * sinh;
-      this.nodeOffset[k] = this.q0 * s * sinh - this.meanGap;
-    }
-  }
-
-  protected prepare(u: number): void {
-    this.sh = this.frame.offset(u, this.model.centre);
-    this.r = this.frame.toValue(u);
-  }
-
-  private logFactor(v: number, offset: number): number {
-    const r = this.r;
-    // Support: q = r/v in (0, 1), i.e. v beyond r on r's side of zero.
-    if (!(r / v > 0 && (v - r) / v > 0)) return -Infinity;
-    const delta = this.sh - offset;
-    const x1 = delta / (this.q0 * v);
-    this.lastValue = v;
-    this.lastX1 = x1;
-    const { a, b } = this.model;
-    if (b === 1) return a * Math.log1p(x1);
-    const x2 = -delta / ((1 - this.q0) * v);
-    this.lastX2 = x2;
-    return a * log1pmx(x1) + (b - 1) * log1pmx(x2);
-  }
-
-  protected logAtNode(k: number): number {
-    return this.logFactor(this.nodeValue[k] as number, this.nodeOffset[k] as number);
-  }
-
-  protected logAt(z: number): number {
-    const sinh = Math.sinh(z);
-    return this.logFactor(this.model.m + this.model.s * sinh, this.q0 * this.model.s * sinh - this.meanGap);
-  }
-
-  protected derivatives(): void {
-    const { a, b } = this.model;
-    const v = this.lastValue;
-    const x1 = this.lastX1;
-    const g1 = 1 / (this.q0 * v);
-    if (b === 1) {
-      this.d1 = (a * g1) / (1 + x1);
-      this.d2 = (-a * g1 * g1) / ((1 + x1) * (1 + x1));
-      return;
-    }
-    const x2 = this.lastX2;
-    const g2 = -1 / ((1 - this.q0) * v);
-    this.d1 = (-a * x1 * g1) / (1 + x1) + (-(b - 1) * x2 * g2) / (1 + x2);
-    this.d2 = (-a * g1 * g1) / ((1 + x1) * (1 + x1)) - ((b - 1) * g2 * g2) / ((1 + x2) * (1 + x2));
-  }
-
-  protected override support(za: number, zb: number): readonly [number, number] {
-    // v = r at u′ = asinh((r − m)/s): the factor lives on u′ above it (r > 0) or below it (r < 0).
-    const wall = Math.asinh((this.r - this.model.m) / this.model.s);
-    return this.r > 0 ? [Math.max(za, wall), zb] : [za, Math.min(zb, wall)];
-  }
-
-  protected panel(za: number, zb: number): void {
-    const { m, s } = this.model;
-    const sa = Math.sinh(za);
-    const sb = Math.sinh(zb);
-    const va = m + s * sa;
-    const vb = m + s * sb;
-    const da = this.sh - (this.q0 * s * sa - this.meanGap);
-    const db = this.sh - (this.q0 * s * sb - this.meanGap);
-    const fa = this.logFactor(va, this.q0 * s * sa - this.meanGap);
-    const fb = this.logFactor(vb, this.q0 * s * sb - this.meanGap);
-    const la = da / (this.q0 * va);
-    const lb = db / (this.q0 * vb);
-    const crosses = da <= 0 !== db <= 0;
-    const most = crosses || this.model.b === 1 ? 0 : Math.max(fa, fb);
-    // Span in log q across the panel, against four peak widths; and the change of the log factor.
-    const span = la > -1 && lb > -1 ? Math.abs(Math.log1p(lb) - Math.log1p(la)) : Infinity;
-    const change = Number.isFinite(fa) && Number.isFinite(fb) ? Math.abs(fa - fb) : 0;
-    // Equal parts in u′ must each stay shorter than their distance to the pole at v = 0 (in v).
-    const pole = Math.abs(vb - va) / Math.min(Math.abs(va), Math.abs(vb));
-    this.most = most;
-    this.parts = Math.ceil(Math.max(span / Math.min(1, 1.5 * this.peakWidth), change / 12, pole));
-  }
-
-  /** The exact log density of u, log f_R(R(u)) + log dR/du, with slope and curvature; NaN over budget. */
-  point(u: number, moments: boolean): DensityPoint {
-    const f = this.frame;
-    const logSum = this.integrate(u, moments);
-    const logDensity = logSum + this.constant - Math.log(Math.abs(this.r)) + f.logJacobian(u);
-    if (!moments) return { logDensity, slope: NaN, curvature: NaN };
-    const { mean, variance, second } = this.moments();
-    const r1 = f.first(u);
-    const d1 = mean - 1 / this.r;
-    const slope = r1 * d1 + f.logJacobianSlope(u);
-    const curvature = -(r1 * r1 * (second + variance + 1 / (this.r * this.r)) + f.second(u) * d1) - f.logJacobianSecond(u);
-    return { logDensity, slope, curvature };
+    // R − C is known to ~2.2e-16·(|R| + |C|), which moves each term's log by ∂ log k/∂R times that.
+    const noise = 4e-16 * (Math.abs(this.r) + Math.abs(this.model.centre)) * Math.sqrt(s.m2 / s.m0);
+    return { logDensity, slope, curvature, noise };
   }
 }
 
@@ -539,30 +358,24 @@ function sech2(u: number): number {
 }
 
 /**
- * Revenue per visitor with a given order_sd, evaluated exactly in a frame's coordinate u. Each evaluation
- * integrates over the rate (its t factor is then at least 1/8 as wide as the rate's panels need: the
- * order value's relative spread s/m against the rate's ≈ √(b/(a(a + b))) in log p), else over the order
- * value, and falls back to the other orientation where a panel would need more than 64 parts (near R = 0
- * the order-value orientation does, in the far tails the rate orientation may).
+ * Revenue per visitor with a given order_sd, evaluated exactly in a frame's coordinate u (each value an
+ * integral over the rate, StudentOverRate).
  */
 class StudentRevenue implements ExactDensity {
   readonly start: number;
   readonly kink?: number;
   readonly valueRange: readonly [number, number];
   readonly exactMean?: number;
-  private readonly rateFirst: boolean;
-  private overRate: StudentOverRate | undefined;
-  private overValue: RateOverStudent | undefined;
+  private readonly overRate: StudentOverRate;
 
   constructor(
-    private readonly model: StudentModel,
+    model: StudentModel,
     private readonly frame: RevenueFrame,
   ) {
-    const { a, b, m, s, nu, centre } = model;
+    const { a, s, nu, centre } = model;
     this.valueRange = frame.valueRange;
     this.start = frame.toWorking(centre > frame.valueRange[0] ? centre : frame.valueRange[0] + Math.abs(s));
-    // The rate orientation splits a panel into ~4σ_rate/(3σ_value) parts: past 8, start with the other.
-    this.rateFirst = !(8 * s < Math.abs(m) * Math.sqrt(b / (a * (a + b))));
+    this.overRate = new StudentOverRate(model, frame);
     if (nu > 1 && frame.valueRange[0] < 0) this.exactMean = centre;
     // At R = 0 the order value jumps from +∞ to −∞ as p → 0, and f_R is only orders − 1 times
     // differentiable there (its next derivative is ∫ f_p(p) p^(−orders−…) dp, log-divergent at p = 0);
@@ -571,29 +384,14 @@ class StudentRevenue implements ExactDensity {
     if (a - 1 <= KINK_ORDERS && frame.valueRange[0] < 0) this.kink = frame.toWorking(0);
   }
 
-  private orientation(rate: boolean): StudentOverRate | RateOverStudent {
-    if (rate) return (this.overRate ??= new StudentOverRate(this.model, this.frame));
-    return (this.overValue ??= new RateOverStudent(this.model, this.frame));
-  }
-
-  private point(u: number, moments: boolean): DensityPoint {
-    const first = this.orientation(this.rateFirst).point(u, moments);
-    if (!Number.isNaN(first.logDensity)) return first;
-    const second = this.orientation(!this.rateFirst).point(u, moments);
-    if (!Number.isNaN(second.logDensity)) return second;
+  evaluate(u: number): DensityPoint {
+    const v = this.overRate.point(u);
+    if (!Number.isNaN(v.logDensity)) return v;
     throw new StatsError(
       'not_available',
       'the revenue posterior could not be computed within its budget (the order values are far more ' +
-        'precise than the conversion rate, or the other way round, beyond what the quadrature resolves)',
+        'precise than the conversion rate, beyond what the quadrature resolves)',
     );
-  }
-
-  evaluate(u: number): DensityPoint {
-    return this.point(u, true);
-  }
-
-  logDensity(u: number): number {
-    return this.point(u, false).logDensity;
   }
 
   toValue(u: number): number {
