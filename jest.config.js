@@ -5,5 +5,7 @@ module.exports = {
   testMatch: ['<rootDir>/test/**/*.test.ts'],
   testPathIgnorePatterns: ['/node_modules/', '<rootDir>/test/browser/'],
   setupFiles: ['<rootDir>/test/setup/customFunctions.ts'],
+  // builds dist/ when missing or stale and writes the panel's texts, so `npm install && npm test` passes
+  globalSetup: '<rootDir>/test/setup/buildForTests.js',
   moduleNameMapper: { '^office-addin-manifest$': '<rootDir>/test/setup/officeAddinManifestStub.js' },
 };

@@ -1,15 +1,17 @@
 /**
  * Build of the Excel add-in into dist/:
- *   functions.js    the worksheet functions (functions/functions.ts); needs only the CustomFunctions and
+ *   functions.js    the worksheet functions (functions/functions.ts gathers functions/wrappers/*.ts); needs only the CustomFunctions and
  *                   Office globals, no DOM (checked by test/addin/bundle.test.ts in a bare vm context)
  *   functions.json  their metadata, generated from the JSDoc by custom-functions-metadata-plugin
  *   taskpane.html   the side panel page; in the shared runtime it also loads functions.js
  *   taskpane.js     the side panel (taskpane/index.ts)
- *   help/*.html     one help page per function plus an index (help/build.js, from the same JSDoc)
+ *   help/*.html     one help page per function plus an index (help/build.js, from the same JSDoc); before
+ *                   compiling, help/build.js also rewrites functions/texts.generated.json (the side panel's texts)
  *   assets/icon-*.png, manifest.xml
  *
  * ADDIN_BASE_URL (default https://localhost:3000/) is the base URL the add-in is served from; it is
- * written into dist/manifest.xml and into the help URLs of dist/functions.json.
+ * written into dist/manifest.xml and into the help URLs of dist/functions.json. `npm run release`
+ * (scripts/release.js) builds with it and packages the result.
  * The preview has its own webpack config (preview/webpack.config.js) and never writes here.
  */
 'use strict';
@@ -19,9 +21,10 @@ const HtmlWebpackPlugin = require('html-webpack-plugin');
 const { sources, Compilation } = require('webpack');
 const { DEV_BASE_URL, normaliseBaseUrl, productionManifest, rewriteMetadata } = require('./manifest/writeManifest');
 const { ICON_SIZES, drawIcon } = require('./manifest/icons');
-const { buildHelpPages, SOURCE: FUNCTIONS_SOURCE, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
+const { buildHelpPages, wrapperFiles, writeFunctionTexts, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
 
-const DIST = path.join(__dirname, 'dist');
+// ADDIN_DIST_DIR builds elsewhere (the release test builds into a temporary folder); default dist/.
+const DIST = process.env.ADDIN_DIST_DIR ? path.resolve(process.env.ADDIN_DIST_DIR) : path.join(__dirname, 'dist');
 const DEV_PORT = 3000;
 
 /** Emits the manifest, icons and help pages, and moves help URLs in functions.json to the base URL. */
@@ -31,8 +34,10 @@ class AddinAssetsPlugin {
   }
 
   apply(compiler) {
+    compiler.hooks.beforeCompile.tap('AddinAssetsPlugin', () => writeFunctionTexts());
     compiler.hooks.thisCompilation.tap('AddinAssetsPlugin', (compilation) => {
-      compilation.fileDependencies.add(FUNCTIONS_SOURCE);
+      for (const file of wrapperFiles()) compilation.fileDependencies.add(file);
+      compilation.fileDependencies.add(path.join(__dirname, 'functions', 'catalogue.ts'));
       compilation.fileDependencies.add(HELP_TEMPLATE);
       compilation.fileDependencies.add(path.join(__dirname, 'manifest', 'manifest.xml'));
       compilation.hooks.processAssets.tap(
@@ -110,7 +115,8 @@ module.exports = async (env = {}, argv = {}) => {
     optimization: { splitChunks: false, runtimeChunk: false },
     performance: { hints: false },
     plugins: [
-      new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: './functions/functions.ts' }),
+      // one metadata file from all wrapper files; the plugin appends the associate calls to each of them
+      new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: wrapperFiles() }),
       new HtmlWebpackPlugin({
         filename: 'taskpane.html',
         template: './taskpane/taskpane.html',

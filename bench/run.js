@@ -8,7 +8,7 @@
 //
 // Options: --quick (fewer sizes; for a smoke run), --section=NAME (core, variants, planning, models, revenue, addin).
 'use strict';
-require('./tsRequire');
+require('../scripts/tsRequire');
 const fs = require('fs');
 const path = require('path');
 const zlib = require('zlib');

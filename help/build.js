@@ -1,21 +1,45 @@
 /**
  * Generates the help pages (one per worksheet function plus an index) FROM THE SAME JSDoc the
- * metadata generator reads, so Excel's formula help and the help pages cannot drift apart.
+ * metadata generator reads, so Excel's formula help and the help pages cannot drift apart, and the texts
+ * the side panel shows (functions/texts.generated.json, git-ignored, rewritten on every build and test run).
  *
- * functions/functions.ts is parsed with the TypeScript compiler API; for every function with a
- * @customfunction tag it reads the description, @param, @returns and the extra tags @method, @source,
- * @example, @crosscheck and @caution (custom-functions-metadata ignores tags it does not know).
- * Used by webpack.config.js (emits dist/help/*.html) and by `node help/build.js [out-dir]`.
+ * The wrapper files (functions/wrappers/<family>.ts, in the order functions/functions.ts exports them) are
+ * parsed with the TypeScript compiler API; for every function with a @customfunction tag it reads the
+ * description, @param, @returns and the extra tags @method, @source, @example, @crosscheck and @caution
+ * (custom-functions-metadata ignores tags it does not know). Each argument's allowed values come from the
+ * catalogue (functions/catalogue.ts) and its declared rules, so a tightened bound shows without edits.
+ * Used by webpack.config.js (emits dist/help/*.html), the jest global setup, and
+ * `node help/build.js [out-dir]` (`--texts` writes only the panel's texts).
  */
 'use strict';
+require('../scripts/tsRequire');
 const fs = require('fs');
 const path = require('path');
 const ts = require('typescript');
 
 const ROOT = path.join(__dirname, '..');
-const SOURCE = path.join(ROOT, 'functions', 'functions.ts');
+/** The entry point that gathers the wrapper files, one `export * from './wrappers/<family>'` line each. */
+const ENTRY = path.join(ROOT, 'functions', 'functions.ts');
 const TEMPLATE = path.join(__dirname, 'template.html');
+const TEXTS = path.join(ROOT, 'functions', 'texts.generated.json');
 const NAMESPACE = 'ABTEST';
+
+/**
+ * The wrapper files in the order functions/functions.ts exports them (the catalogue's family order).
+ * @returns {string[]} absolute paths
+ * @example wrapperFiles().map((f) => path.basename(f))[0] //=> 'conversion.ts'
+ */
+function wrapperFiles() {
+  const text = fs.readFileSync(ENTRY, 'utf8');
+  const found = [...text.matchAll(/^export \* from '\.\/(wrappers\/[\w-]+)';$/gm)].map((m) => path.join(ROOT, 'functions', `${m[1]}.ts`));
+  if (found.length === 0) throw new Error('functions/functions.ts exports no wrapper files');
+  return found;
+}
+
+/** The catalogue module (TypeScript, loaded through scripts/tsRequire.js outside jest). */
+function catalogue() {
+  return require('../functions/catalogue');
+}
 
 function commentText(comment) {
   if (comment === undefined) return '';
@@ -24,13 +48,20 @@ function commentText(comment) {
 }
 
 /**
- * Reads the documentation of every custom function in a TypeScript source.
- * @param {string} [sourcePath] defaults to functions/functions.ts
- * @returns {Array<{id: string, jsName: string, description: string, params: Array<{name: string, optional: boolean, text: string}>,
- *   returns: string, method: string, source: string, examples: string[], crosschecks: string[], cautions: string[], helpUrl: string}>}
+ * Reads the documentation of every custom function in the wrapper files.
+ * @param {string | string[]} [sources] TypeScript files; defaults to {@link wrapperFiles}
+ * @returns {Array<{id: string, jsName: string, file: string, description: string,
+ *   params: Array<{name: string, optional: boolean, text: string}>, returns: string, method: string, source: string,
+ *   examples: string[], crosschecks: string[], cautions: string[], helpUrl: string}>}
  * @example readFunctionDocs().length //=> 29
  */
-function readFunctionDocs(sourcePath = SOURCE) {
+function readFunctionDocs(sources = wrapperFiles()) {
+  const docs = [];
+  for (const sourcePath of Array.isArray(sources) ? sources : [sources]) docs.push(...readFileDocs(sourcePath));
+  return docs;
+}
+
+function readFileDocs(sourcePath) {
   const text = fs.readFileSync(sourcePath, 'utf8');
   const file = ts.createSourceFile(sourcePath, text, ts.ScriptTarget.ES2020, true, ts.ScriptKind.TS);
   const docs = [];
@@ -56,6 +87,7 @@ function readFunctionDocs(sourcePath = SOURCE) {
     docs.push({
       id,
       jsName: node.name.text,
+      file: path.relative(ROOT, sourcePath).split(path.sep).join('/'),
       description: commentText(jsDoc.comment),
       params,
       returns: one('returns'),
@@ -113,10 +145,15 @@ function functionPageBody(doc) {
   parts.push(`<h1>${NAMESPACE}.${escapeHtml(doc.id)}</h1>`);
   parts.push(`<div class="lead">${paragraphHtml(doc.description)}</div>`);
   parts.push(`<h2>Syntax</h2>\n<pre>${escapeHtml(signature(doc))}</pre>`);
+  const allowed = allowedValues(doc.id);
   const rows = doc.params
-    .map((p) => `<tr><td><code>${escapeHtml(p.name)}</code>${p.optional ? ' (optional)' : ''}</td><td>${escapeHtml(p.text)}</td></tr>`)
+    .map(
+      (p) =>
+        `<tr><td><code>${escapeHtml(p.name)}</code>${p.optional ? ' (optional)' : ''}</td><td>${escapeHtml(p.text)}</td>` +
+        `<td>${escapeHtml(allowed.get(p.name) ?? '')}</td></tr>`,
+    )
     .join('\n');
-  parts.push(`<h2>Arguments</h2>\n<table><tr><th>argument</th><th>what to give</th></tr>\n${rows}</table>`);
+  parts.push(`<h2>Arguments</h2>\n<table><tr><th>argument</th><th>what to give</th><th>allowed</th></tr>\n${rows}</table>`);
   parts.push(`<h2>Result</h2>\n${paragraphHtml(doc.returns)}`);
   if (doc.examples.length > 0) {
     const items = doc.examples.map((e) => {
@@ -142,6 +179,42 @@ function functionPageBody(doc) {
   return parts.join('\n');
 }
 
+/**
+ * Each argument's allowed values in words, from the catalogue entry's declared rules.
+ * @param {string} id
+ * @returns {Map<string, string>} argument name → words
+ * @example allowedValues('RATE_INTERVAL').get('level') //=> 'a number greater than 0 and less than 1; default 0.95'
+ */
+function allowedValues(id) {
+  const { CATALOGUE } = catalogue();
+  const { describeParam } = require('../functions/sheet/entry');
+  const entry = CATALOGUE[id];
+  if (entry === undefined) throw new Error(`${id} has a @customfunction tag but no entry in functions/catalogue.ts`);
+  return new Map(entry.params.map((p) => [p.name, describeParam(p, entry)]));
+}
+
+/**
+ * The texts the side panel shows for each function (taskpane/logic/explain.ts imports them), by id.
+ * @param {ReturnType<typeof readFunctionDocs>} [docs]
+ * @returns {Record<string, {description: string, method: string, source: string, cautions: string[]}>}
+ */
+function functionTexts(docs = readFunctionDocs()) {
+  const texts = {};
+  for (const d of docs) texts[d.id] = { description: d.description, method: d.method, source: d.source, cautions: d.cautions };
+  return texts;
+}
+
+/**
+ * Writes functions/texts.generated.json when its content changed (so an unchanged file keeps its time stamp).
+ * @returns {string} the path written or kept
+ */
+function writeFunctionTexts() {
+  const json = `${JSON.stringify(functionTexts(), null, 1)}\n`;
+  const old = fs.existsSync(TEXTS) ? fs.readFileSync(TEXTS, 'utf8') : '';
+  if (old !== json) fs.writeFileSync(TEXTS, json);
+  return TEXTS;
+}
+
 function indexBody(docs) {
   const rows = docs
     .map((d) => `<tr><td><a href="${escapeHtml(d.id)}.html"><code>${escapeHtml(d.id)}</code></a></td><td>${escapeHtml(d.description.split('\n')[0])}</td></tr>`)
@@ -160,22 +233,38 @@ function indexBody(docs) {
 
 /**
  * Builds every help page.
- * @param {{sourcePath?: string}} [options]
+ * @param {{sources?: string | string[]}} [options]
  * @returns {Map<string, string>} file name (e.g. "POSTERIOR_MEAN.html", "index.html") → HTML
  */
 function buildHelpPages(options = {}) {
   const template = fs.readFileSync(TEMPLATE, 'utf8');
   const fill = (title, body) => template.replace('{{title}}', escapeHtml(title)).replace('{{body}}', body);
-  const docs = readFunctionDocs(options.sourcePath);
+  const docs = readFunctionDocs(options.sources);
   const pages = new Map();
   for (const doc of docs) pages.set(`${doc.id}.html`, fill(`${NAMESPACE}.${doc.id}`, functionPageBody(doc)));
   pages.set('index.html', fill('Functions', indexBody(docs)));
   return pages;
 }
 
-module.exports = { SOURCE, TEMPLATE, readFunctionDocs, parseExample, buildHelpPages, signature };
+module.exports = {
+  ENTRY,
+  TEMPLATE,
+  TEXTS,
+  wrapperFiles,
+  readFunctionDocs,
+  parseExample,
+  buildHelpPages,
+  signature,
+  allowedValues,
+  functionTexts,
+  writeFunctionTexts,
+};
 
 if (require.main === module) {
+  if (process.argv[2] === '--texts') {
+    console.log(`wrote ${path.relative(ROOT, writeFunctionTexts())}`);
+    process.exit(0);
+  }
   const out = process.argv[2] || path.join(ROOT, 'dist', 'help');
   fs.mkdirSync(out, { recursive: true });
   const pages = buildHelpPages();

@@ -65,15 +65,39 @@ function rewriteMetadata(metadataJson, baseUrl) {
 }
 
 /**
- * Reads manifest/manifest.xml and returns it rewritten for `baseUrl`.
+ * The four-part manifest version Office expects for a package.json version: "1.2.3" → "1.2.3.0".
+ * @param {string} packageVersion
+ * @returns {string}
+ * @throws {Error} for a version that is not three whole numbers (a pre-release tag has no manifest form).
+ * @example manifestVersion('0.1.0') //=> '0.1.0.0'
+ */
+function manifestVersion(packageVersion) {
+  const m = /^(\d+)\.(\d+)\.(\d+)$/.exec(String(packageVersion));
+  if (!m) throw new Error(`package.json version "${packageVersion}" must be three whole numbers (x.y.z) to become a manifest version`);
+  return `${m[1]}.${m[2]}.${m[3]}.0`;
+}
+
+/**
+ * The manifest with its <Version> set from package.json's version.
+ * @param {string} xml
+ * @param {string} packageVersion
+ * @returns {string}
+ */
+function withVersion(xml, packageVersion) {
+  return xml.replace(/<Version>[^<]*<\/Version>/, `<Version>${manifestVersion(packageVersion)}</Version>`);
+}
+
+/**
+ * Reads manifest/manifest.xml and returns it rewritten for `baseUrl`, with the version of package.json.
  * @param {string} baseUrl
  * @returns {string}
  */
 function productionManifest(baseUrl) {
-  return rewriteManifest(fs.readFileSync(path.join(__dirname, 'manifest.xml'), 'utf8'), baseUrl);
+  const { version } = JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'package.json'), 'utf8'));
+  return withVersion(rewriteManifest(fs.readFileSync(path.join(__dirname, 'manifest.xml'), 'utf8'), baseUrl), version);
 }
 
-module.exports = { DEV_BASE_URL, normaliseBaseUrl, rewriteManifest, rewriteMetadata, productionManifest };
+module.exports = { DEV_BASE_URL, normaliseBaseUrl, rewriteManifest, rewriteMetadata, manifestVersion, withVersion, productionManifest };
 
 if (require.main === module) {
   const base = process.argv[2] || process.env.ADDIN_BASE_URL || DEV_BASE_URL;

@@ -1,6 +1,7 @@
 /**
  * The sheet layer: cell ranges → checked numbers (declared argument rules) → core → spills, and the one
- * place where failures become worksheet errors. functions/functions.ts uses only this module and the core.
+ * place where failures become worksheet errors. The wrappers (functions/wrappers/) use only this module,
+ * the catalogue and the core.
  */
 export * from './cells';
 export * from './rules';
@@ -9,3 +10,5 @@ export * from './inputs';
 export * from './spill';
 export * from './run';
 export * from './decision';
+export * from './entry';
+export * from './args';

@@ -140,74 +140,74 @@ export function readChoice<T extends string>(rule: ChoiceRule<T>, value: unknown
 // The declared rules of the catalogue's arguments.
 
 /** `conversions`: whole number, 0 ≤ conversions ≤ visitors at the same position. */
-export const CONVERSIONS: NumberRule = { name: 'conversions', kind: 'count', min: 0, atMost: 'visitors' };
+export const CONVERSIONS = { name: 'conversions', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
 /** `visitors`: whole number ≥ 1. */
-export const VISITORS: NumberRule = { name: 'visitors', kind: 'count', min: 1 };
+export const VISITORS = { name: 'visitors', kind: 'count', min: 1 } as const satisfies NumberRule;
 /** `visitors` of SRM_PVALUE: whole number ≥ 0 (an arm that received nobody is the worst mismatch). */
-export const SRM_VISITORS: NumberRule = { name: 'visitors', kind: 'count', min: 0 };
+export const SRM_VISITORS = { name: 'visitors', kind: 'count', min: 0 } as const satisfies NumberRule;
 /** `planned_shares`: positive weights. */
-export const PLANNED_SHARES: NumberRule = { name: 'planned_shares', kind: 'real', above: 0 };
+export const PLANNED_SHARES = { name: 'planned_shares', kind: 'real', above: 0 } as const satisfies NumberRule;
 /** `count` of the Normal model: whole number ≥ 2 (a standard deviation needs two values). */
-export const COUNT: NumberRule = { name: 'count', kind: 'count', min: 2 };
+export const COUNT = { name: 'count', kind: 'count', min: 2 } as const satisfies NumberRule;
 /** `mean`: any finite number. */
-export const MEAN: NumberRule = { name: 'mean', kind: 'real' };
+export const MEAN = { name: 'mean', kind: 'real' } as const satisfies NumberRule;
 /** `sd`: ≥ 0. */
-export const SD: NumberRule = { name: 'sd', kind: 'real', min: 0 };
+export const SD = { name: 'sd', kind: 'real', min: 0 } as const satisfies NumberRule;
 /** `events`: whole number ≥ 0. */
-export const EVENTS: NumberRule = { name: 'events', kind: 'count', min: 0 };
+export const EVENTS = { name: 'events', kind: 'count', min: 0 } as const satisfies NumberRule;
 /** `exposure`: > 0. */
-export const EXPOSURE: NumberRule = { name: 'exposure', kind: 'real', above: 0 };
+export const EXPOSURE = { name: 'exposure', kind: 'real', above: 0 } as const satisfies NumberRule;
 
 /** `level` of credible intervals: in (0, 1), default 0.95. */
-export const LEVEL: NumberRule = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95 };
+export const LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95 } as const satisfies NumberRule;
 /** `level` of PRIOR_FROM_INTERVAL: in (0, 1), default 0.90. */
-export const PRIOR_LEVEL: NumberRule = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9 };
+export const PRIOR_LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9 } as const satisfies NumberRule;
 /** `prior_alpha`: > 0, default 1. */
-export const PRIOR_ALPHA: NumberRule = { name: 'prior_alpha', kind: 'real', above: 0, default: 1 };
+export const PRIOR_ALPHA = { name: 'prior_alpha', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
 /** `prior_beta`: > 0, default 1. */
-export const PRIOR_BETA: NumberRule = { name: 'prior_beta', kind: 'real', above: 0, default: 1 };
+export const PRIOR_BETA = { name: 'prior_beta', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
 /** `prior_shape`: > 0, default 1. */
-export const PRIOR_SHAPE: NumberRule = { name: 'prior_shape', kind: 'real', above: 0, default: 1 };
+export const PRIOR_SHAPE = { name: 'prior_shape', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
 /** `prior_rate`: ≥ 0, default 0. */
-export const PRIOR_RATE: NumberRule = { name: 'prior_rate', kind: 'real', min: 0, default: 0 };
+export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0 } as const satisfies NumberRule;
 /** `min_lift`: a relative lift, greater than −1 (a rate cannot fall below zero). */
-export const MIN_LIFT: NumberRule = { name: 'min_lift', kind: 'real', above: -1 };
+export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1 } as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
-export const MAX_LOSS: NumberRule = { name: 'max_loss', kind: 'real', min: 0, below: 1 };
+export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1 } as const satisfies NumberRule;
 /** `points` of density tables: whole number 2…10000, default 101. */
-export const POINTS: NumberRule = { name: 'points', kind: 'count', min: 2, max: 10000, default: 101 };
+export const POINTS = { name: 'points', kind: 'count', min: 2, max: 10000, default: 101 } as const satisfies NumberRule;
 /** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */
-export const MEAN_RATE: NumberRule = { name: 'mean_rate', kind: 'real', above: 0, below: 1 };
+export const MEAN_RATE = { name: 'mean_rate', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
 /** `strength` of PRIOR_FROM_MEAN: > 0 (the prior's worth in visitors). */
-export const STRENGTH: NumberRule = { name: 'strength', kind: 'real', above: 0 };
+export const STRENGTH = { name: 'strength', kind: 'real', above: 0 } as const satisfies NumberRule;
 /** `low` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const LOW: NumberRule = { name: 'low', kind: 'real', above: 0, below: 1 };
+export const LOW = { name: 'low', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
 /** `high` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const HIGH: NumberRule = { name: 'high', kind: 'real', above: 0, below: 1 };
+export const HIGH = { name: 'high', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
 /** `baseline_rate`: in (0, 1). */
-export const BASELINE_RATE: NumberRule = { name: 'baseline_rate', kind: 'real', above: 0, below: 1 };
+export const BASELINE_RATE = { name: 'baseline_rate', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
 /** `lift` of the planners: > −1. */
-export const LIFT: NumberRule = { name: 'lift', kind: 'real', above: -1 };
+export const LIFT = { name: 'lift', kind: 'real', above: -1 } as const satisfies NumberRule;
 /** `visitors_per_variant`: whole number ≥ 1. */
-export const VISITORS_PER_VARIANT: NumberRule = { name: 'visitors_per_variant', kind: 'count', min: 1 };
+export const VISITORS_PER_VARIANT = { name: 'visitors_per_variant', kind: 'count', min: 1 } as const satisfies NumberRule;
 /** `threshold` of the Bayesian planners: in (0, 1), default 0.95. */
-export const THRESHOLD: NumberRule = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95 };
+export const THRESHOLD = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95 } as const satisfies NumberRule;
 /** `power`: in (0, 1), default 0.8. */
-export const POWER: NumberRule = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8 };
+export const POWER = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8 } as const satisfies NumberRule;
 /** `alpha` of the classic test: in (0, 1), default 0.05. */
-export const ALPHA: NumberRule = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05 };
+export const ALPHA = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05 } as const satisfies NumberRule;
 /** `sides`: 1 or 2, default 2. */
-export const SIDES: NumberRule = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 };
+export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 } as const satisfies NumberRule;
 
 /** `method` of RATE_INTERVAL. */
-export const RATE_INTERVAL_METHOD: ChoiceRule<'central' | 'hdi'> = {
+export const RATE_INTERVAL_METHOD = {
   name: 'method',
   choices: ['central', 'hdi'],
   default: 'central',
-};
+} as const satisfies ChoiceRule<string>;
 /** `method` of PRIOR_FROM_HISTORY. */
-export const HISTORY_METHOD: ChoiceRule<'likelihood' | 'moments'> = {
+export const HISTORY_METHOD = {
   name: 'method',
   choices: ['likelihood', 'moments'],
   default: 'likelihood',
-};
+} as const satisfies ChoiceRule<string>;

@@ -26,6 +26,8 @@ export interface VariantCount {
 export const ONE_OR_MORE: VariantCount = { min: 1, max: MAX_VARIANTS };
 /** Comparisons: 2…50 variants. */
 export const COMPARISON: VariantCount = { min: 2, max: MAX_VARIANTS };
+/** Past results to fit a prior to: at least three (one gives no spread, two nearly none), no comparison cap. */
+export const PAST_RESULTS: VariantCount = { min: 3, max: 100000, noun: 'past results' };
 
 /** Variants read from paired ranges. */
 export interface VariantTable {

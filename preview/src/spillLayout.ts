@@ -3,11 +3,14 @@
  *
  * HyperFormula fixes an array formula's size when the formula is entered (from the formula text, not from
  * cell values), and turns a result that is larger than the reserved size into an error. The custom-function
- * metadata does not say how large a spill will be, so the preview keeps the catalogue's layout rules here
- * (/work/shared/catalogue.md, "Spills follow the input"): only the SHAPE of each result, never how it is
- * computed. The reserved size is an upper bound: a smaller result (blank "no variant" rows) leaves the
- * rest of the block empty.
+ * metadata does not say how large a spill will be, so the preview derives the layout rules from the function
+ * catalogue's spill shapes (functions/catalogue.ts; docs/catalogue.md, "Spills follow the input"): only the
+ * SHAPE of each result, never how it is computed. The reserved size is an upper bound: a smaller result
+ * (blank "no variant" rows) leaves the rest of the block empty.
  */
+import { CATALOGUE_LIST } from '../../functions/catalogue';
+import type { SpillShape } from '../../functions/sheet/entry';
+import { POINTS } from '../../functions/sheet/rules';
 import type { FunctionMetadata } from './metadata';
 
 /** The kinds of spill the catalogue has. */
@@ -32,36 +35,32 @@ export interface SpillRule {
   readonly seriesLessThanVariants?: number;
 }
 
-/** The layout rule of every catalogue function whose result is a matrix, by custom-function id. */
-export const SPILL_RULES: Readonly<Record<string, SpillRule>> = Object.freeze({
-  POSTERIOR_MEAN: { kind: 'perVariant' },
-  RATE_INTERVAL: { kind: 'perVariantBlock', width: 2 },
-  PROB_HIGHEST: { kind: 'perVariant' },
-  PROB_ABOVE_CONTROL: { kind: 'perVariant' },
-  LIFT_INTERVAL: { kind: 'perVariantBlock', width: 3 },
-  RATE_DIFF_INTERVAL: { kind: 'perVariantBlock', width: 3 },
-  PROB_LIFT_ABOVE: { kind: 'perVariant' },
-  EXPECTED_LOSS: { kind: 'perVariant' },
-  POSTERIOR_DENSITY: { kind: 'densityTable', seriesLessThanVariants: 0 },
-  LIFT_DENSITY: { kind: 'densityTable', seriesLessThanVariants: 1 },
-  PRIOR_FROM_MEAN: { kind: 'fixed', height: 1, width: 2 },
-  PRIOR_FROM_INTERVAL: { kind: 'fixed', height: 1, width: 2 },
-  PRIOR_FROM_HISTORY: { kind: 'fixed', height: 1, width: 2 },
-  MEAN_INTERVAL: { kind: 'perVariantBlock', width: 2 },
-  MEAN_PROB_HIGHEST: { kind: 'perVariant' },
-  MEAN_PROB_ABOVE_CONTROL: { kind: 'perVariant' },
-  MEAN_DIFF_INTERVAL: { kind: 'perVariantBlock', width: 3 },
-  MEAN_LIFT_INTERVAL: { kind: 'perVariantBlock', width: 3 },
-  MEAN_EXPECTED_LOSS: { kind: 'perVariant' },
-  EVENTS_RATE_INTERVAL: { kind: 'perVariantBlock', width: 2 },
-  EVENTS_PROB_HIGHEST: { kind: 'perVariant' },
-  EVENTS_PROB_ABOVE_CONTROL: { kind: 'perVariant' },
-  EVENTS_LIFT_INTERVAL: { kind: 'perVariantBlock', width: 3 },
-  EVENTS_EXPECTED_LOSS: { kind: 'perVariant' },
-});
+/** The preview's layout rule for a catalogue spill shape; undefined for a single-cell result. */
+export function spillRuleOf(shape: SpillShape): SpillRule | undefined {
+  switch (shape.kind) {
+    case 'one':
+      return undefined;
+    case 'perVariant':
+      return shape.width === 1 ? { kind: 'perVariant' } : { kind: 'perVariantBlock', width: shape.width };
+    case 'fixed':
+      return { kind: 'fixed', height: shape.rows, width: shape.columns };
+    case 'densityTable':
+      return { kind: 'densityTable', seriesLessThanVariants: shape.series === 'variant' ? 0 : 1 };
+  }
+}
 
-/** The catalogue's default number of rows of a chart table (`[points]`, default 101). */
-export const DEFAULT_POINTS = 101;
+/** The layout rule of every catalogue function whose result is a matrix, by custom-function id. */
+export const SPILL_RULES: Readonly<Record<string, SpillRule>> = Object.freeze(
+  Object.fromEntries(
+    CATALOGUE_LIST.flatMap((f) => {
+      const rule = spillRuleOf(f.spill);
+      return rule === undefined ? [] : [[f.id, rule] as const];
+    }),
+  ),
+);
+
+/** The catalogue's default number of rows of a chart table (`[points]`, default 101; sheet/rules.ts). */
+export const DEFAULT_POINTS = POINTS.default;
 
 /** A spill size in cells. */
 export interface SpillSize {

@@ -4,6 +4,9 @@
  * brackets or approximates it for the first variant (or the first challenger), so a reader can check
  * the add-in with Excel alone. Pure functions.
  */
+import { CATALOGUE_LIST } from '../../functions/catalogue';
+import { requiredCount } from '../../functions/sheet/entry';
+import FUNCTION_TEXTS from '../../functions/texts.generated.json';
 import { parseAddress, cellAddress, quoteSheet } from '../workbook/address';
 
 /** One argument of a call: its catalogue name and the text the formula gives it ("" when left out). */
@@ -124,41 +127,19 @@ interface Signature {
   readonly required: number;
 }
 
-/** The catalogue's argument lists (shared/catalogue.md), required first. */
-export const SIGNATURES: Readonly<Record<string, Signature>> = {
-  POSTERIOR_MEAN: { args: ['conversions', 'visitors', 'prior_alpha', 'prior_beta'], required: 2 },
-  RATE_INTERVAL: { args: ['conversions', 'visitors', 'level', 'prior_alpha', 'prior_beta', 'method'], required: 2 },
-  PROB_HIGHEST: { args: ['conversions', 'visitors', 'prior_alpha', 'prior_beta'], required: 2 },
-  PROB_ABOVE_CONTROL: { args: ['conversions', 'visitors', 'prior_alpha', 'prior_beta'], required: 2 },
-  LIFT_INTERVAL: { args: ['conversions', 'visitors', 'level', 'prior_alpha', 'prior_beta'], required: 2 },
-  RATE_DIFF_INTERVAL: { args: ['conversions', 'visitors', 'level', 'prior_alpha', 'prior_beta'], required: 2 },
-  PROB_LIFT_ABOVE: { args: ['conversions', 'visitors', 'min_lift', 'prior_alpha', 'prior_beta'], required: 3 },
-  EXPECTED_LOSS: { args: ['conversions', 'visitors', 'prior_alpha', 'prior_beta'], required: 2 },
-  DECISION: { args: ['conversions', 'visitors', 'max_loss', 'labels', 'prior_alpha', 'prior_beta'], required: 2 },
-  POSTERIOR_DENSITY: { args: ['conversions', 'visitors', 'points', 'prior_alpha', 'prior_beta'], required: 2 },
-  LIFT_DENSITY: { args: ['conversions', 'visitors', 'points', 'prior_alpha', 'prior_beta'], required: 2 },
-  PRIOR_FROM_MEAN: { args: ['mean_rate', 'strength'], required: 2 },
-  PRIOR_FROM_INTERVAL: { args: ['low', 'high', 'level'], required: 2 },
-  PRIOR_FROM_HISTORY: { args: ['conversions', 'visitors', 'method'], required: 2 },
-  DECISION_POWER: {
-    args: ['baseline_rate', 'lift', 'visitors_per_variant', 'threshold', 'prior_alpha', 'prior_beta'],
-    required: 3,
-  },
-  VISITORS_NEEDED: { args: ['baseline_rate', 'lift', 'threshold', 'power', 'prior_alpha', 'prior_beta'], required: 2 },
-  CLASSIC_SAMPLE_SIZE: { args: ['baseline_rate', 'lift', 'alpha', 'power', 'sides'], required: 2 },
-  SRM_PVALUE: { args: ['visitors', 'planned_shares'], required: 1 },
-  MEAN_INTERVAL: { args: ['count', 'mean', 'sd', 'level'], required: 3 },
-  MEAN_PROB_HIGHEST: { args: ['count', 'mean', 'sd'], required: 3 },
-  MEAN_PROB_ABOVE_CONTROL: { args: ['count', 'mean', 'sd'], required: 3 },
-  MEAN_DIFF_INTERVAL: { args: ['count', 'mean', 'sd', 'level'], required: 3 },
-  MEAN_LIFT_INTERVAL: { args: ['count', 'mean', 'sd', 'level'], required: 3 },
-  MEAN_EXPECTED_LOSS: { args: ['count', 'mean', 'sd'], required: 3 },
-  EVENTS_RATE_INTERVAL: { args: ['events', 'exposure', 'level', 'prior_shape', 'prior_rate'], required: 2 },
-  EVENTS_PROB_HIGHEST: { args: ['events', 'exposure', 'prior_shape', 'prior_rate'], required: 2 },
-  EVENTS_PROB_ABOVE_CONTROL: { args: ['events', 'exposure', 'prior_shape', 'prior_rate'], required: 2 },
-  EVENTS_LIFT_INTERVAL: { args: ['events', 'exposure', 'level', 'prior_shape', 'prior_rate'], required: 2 },
-  EVENTS_EXPECTED_LOSS: { args: ['events', 'exposure', 'prior_shape', 'prior_rate'], required: 2 },
-};
+/** Every function's argument names, required first, from the function catalogue (functions/catalogue.ts). */
+export const SIGNATURES: Readonly<Record<string, Signature>> = Object.fromEntries(
+  CATALOGUE_LIST.map((f) => [f.id, { args: f.params.map((p) => p.name), required: requiredCount(f) }]),
+);
+
+/** A function's help texts (its wrapper's JSDoc, via help/build.js): description, method, source, cautions. */
+interface FunctionTexts {
+  readonly description: string;
+  readonly method: string;
+  readonly source: string;
+  readonly cautions: readonly string[];
+}
+const TEXTS: Readonly<Record<string, FunctionTexts>> = FUNCTION_TEXTS;
 
 /**
  * The i-th cell (0-based) of a range reference, as formula text: "C3" for item 1 of "C2:C4" (a column)
@@ -224,8 +205,24 @@ export function explainFormula(formula: string, anchor: string): Explanation | N
   }));
   const get = (name: string): string => args.find((a) => a.name === name)?.text ?? '';
   const or = (name: string, fallback: string): string => (get(name) === '' ? fallback : get(name));
-  const texts = describeCall(call.name, get, or, anchor);
-  return { name: call.name, arguments: args, ...texts };
+  const texts = TEXTS[call.name];
+  return {
+    name: call.name,
+    arguments: args,
+    ...(describeCall(call.name, get, or, anchor) ?? genericWords(call.name, texts, args)),
+    method: texts === undefined ? '' : `${texts.method} Source: ${texts.source}`,
+    caution: texts === undefined || texts.cautions.length === 0 ? null : texts.cautions.join(' '),
+  };
+}
+
+/** What describeCall words for a call: the summary and the built-in cross-check. */
+type CallWords = Pick<Explanation, 'summary' | 'crossCheck'>;
+
+/** The words for a function without its own case below: its description and the arguments as given. */
+function genericWords(name: string, texts: FunctionTexts | undefined, args: readonly CallArgument[]): CallWords {
+  const given = args.filter((a) => a.text !== '').map((a) => `${a.name} ${a.text}`);
+  const what = texts === undefined ? `ABTEST.${name}.` : texts.description;
+  return { summary: given.length === 0 ? what : `${what} From ${given.join(', ')}.`, crossCheck: null };
 }
 
 type Getter = (name: string) => string;
@@ -243,21 +240,12 @@ function gammaPriorWords(get: Getter): string {
     : `a Gamma(${get('prior_shape')}, ${get('prior_rate') === '' ? '0' : get('prior_rate')}) prior`;
 }
 
-const BETA_BINOMIAL =
-  'Each variant\'s rate has a Beta posterior: Beta(alpha + conversions, beta + visitors − conversions) (the conjugate Beta–Binomial model).';
-const QUADRATURE =
-  'Lift Ledger computes it deterministically by Gauss–Legendre quadrature of the posterior densities (no random draws), so the same inputs always give the same digits.';
-const STUDENT =
-  'Each mean has a Student t posterior with count − 1 degrees of freedom, centre mean and scale sd/√count (reference prior; Gelman et al., Bayesian Data Analysis, 3rd ed., §3.2).';
-const GAMMA_POISSON =
-  'Each event rate has a Gamma posterior: Gamma(shape + events, rate + exposure) (the conjugate Gamma–Poisson model).';
-
 function describeCall(
   name: string,
   get: Getter,
   or: Defaulting,
   anchor: string,
-): Omit<Explanation, 'name' | 'arguments'> {
+): CallWords | null {
   const x = get('conversions');
   const n = get('visitors');
   const a = or('prior_alpha', '1');
@@ -287,20 +275,17 @@ function describeCall(
     case 'POSTERIOR_MEAN':
       return {
         summary: `The posterior mean conversion rate of each variant, from ${on}, with ${betaPriorWords(get)}.`,
-        method: `${BETA_BINOMIAL} Its mean is (alpha + conversions)/(alpha + beta + visitors), a closed form.`,
         crossCheck: {
           kind: 'reproduces',
           what: 'the first variant\'s value, by the closed form (alpha + conversions)/(alpha + beta + visitors)',
           formulas: [`=(${a}+${x1})/(${a}+${b}+${n1})`],
         },
-        caution: null,
       };
     case 'RATE_INTERVAL': {
       const hdi = /hdi/i.test(get('method'));
       const tail = `(1-${p(level)})/2`;
       return {
         summary: `The ${percent(level)} ${hdi ? 'highest-density' : 'central (equal-tailed)'} credible interval for each variant's conversion rate, from ${on}, with ${betaPriorWords(get)}. It spills a lower and an upper bound per variant.`,
-        method: `${BETA_BINOMIAL} ${hdi ? 'The highest-density interval is the shortest interval holding that probability (Kruschke, Doing Bayesian Data Analysis, 2nd ed., 2015), found by solving for equal density at both ends.' : 'The bounds are the posterior quantiles at (1 − level)/2 and 1 − (1 − level)/2.'}`,
         crossCheck: hdi
           ? {
               kind: 'brackets',
@@ -312,83 +297,64 @@ function describeCall(
               what: 'the first variant\'s lower and upper bounds, with Excel\'s Beta quantile',
               formulas: [`=BETA.INV(${tail},${postA1},${postB1})`, `=BETA.INV(1-${tail},${postA1},${postB1})`],
             },
-        caution: null,
       };
     }
     case 'PROB_HIGHEST':
       return {
         summary: `The probability that each variant has the highest true conversion rate, from ${on}, with ${betaPriorWords(get)}. The values add up to 1.`,
-        method: `${BETA_BINOMIAL} P(highest) for variant i is ∫ f_i(t) ∏_{j≠i} F_j(t) dt. ${QUADRATURE}`,
         crossCheck: {
           ...normalBeats(),
           what: 'with two variants, the challenger\'s value; the formula is a normal approximation (close once both have a few dozen conversions)',
         },
-        caution: 'With many variants, the best-looking one is often lucky: expect its lead to shrink with more data.',
       };
     case 'PROB_ABOVE_CONTROL':
       return {
         summary: `For each challenger, the probability that its true conversion rate is above the control's (the first variant), from ${on}, with ${betaPriorWords(get)}. The control's cell is left empty.`,
-        method: `${BETA_BINOMIAL} P(challenger > control) = ∫ f_challenger(t) F_control(t) dt. ${QUADRATURE} For whole-number parameters it equals Evan Miller's closed-form sum (2015).`,
         crossCheck: normalBeats(),
-        caution: 'Checking this every day and stopping when it first crosses 95% makes false winners far more common than 5%.',
       };
     case 'LIFT_INTERVAL':
     case 'RATE_DIFF_INTERVAL': {
       const lift = name === 'LIFT_INTERVAL';
       return {
         summary: `For each challenger, the ${percent(level)} credible interval and median of the ${lift ? 'relative lift (its rate ÷ the control\'s rate − 1)' : 'difference in rate (its rate − the control\'s rate, in rate units)'}, from ${on}, with ${betaPriorWords(get)}. It spills lower, median, upper; the control's row is empty.`,
-        method: `${BETA_BINOMIAL} The ${lift ? 'ratio' : 'difference'} distribution is found by a one-dimensional integral over the control's posterior, then its quantiles. ${QUADRATURE}`,
         crossCheck: null,
-        caution: null,
       };
     }
     case 'PROB_LIFT_ABOVE':
       return {
         summary: `For each challenger, the probability that its relative lift over the control is above ${get('min_lift')} (a negative value asks "no worse than"), from ${on}, with ${betaPriorWords(get)}.`,
-        method: `${BETA_BINOMIAL} P(rate_challenger > (1 + min_lift)·rate_control) by a one-dimensional integral. ${QUADRATURE}`,
         crossCheck: null,
-        caution: null,
       };
     case 'EXPECTED_LOSS':
       return {
         summary: `For each variant, the expected loss: the conversion rate given up on average by choosing it, E[max over variants of the rate − its rate], from ${on}, with ${betaPriorWords(get)}.`,
-        method: `${BETA_BINOMIAL} Expected loss = ∫ F_i(t)(1 − ∏_{j≠i} F_j(t)) dt (for two variants the same as Stucchio's closed form, 2015). ${QUADRATURE}`,
         crossCheck: null,
-        caution: null,
       };
     case 'DECISION':
       return {
         summary: `One sentence: which variant to choose, if its expected loss is at most ${get('max_loss') === '' ? '1% of the control\'s posterior mean rate (the default)' : get('max_loss')}; otherwise that more data is needed, naming the current leader and its loss. From ${on}${get('labels') === '' ? '' : `, names in ${get('labels')}`}, with ${betaPriorWords(get)}.`,
-        method: 'The variant with the smallest expected loss (see EXPECTED_LOSS) is chosen when that loss is within the limit; this is the expected-loss stopping rule.',
         crossCheck: null,
-        caution: 'A decision rule is only as good as the test behind it: check the split (SRM_PVALUE) and run the planned number of days before acting.',
       };
     case 'POSTERIOR_DENSITY':
       return {
         summary: `A table for a chart: ${or('points', '101')} rows; the first column is a grid of conversion rates, then one column per variant with its posterior density, from ${on}, with ${betaPriorWords(get)}.`,
-        method: `${BETA_BINOMIAL} The grid covers the variants' central 99.9% ranges; densities are in rate units.`,
         crossCheck: {
           kind: 'reproduces',
           what: 'the first variant\'s density in the first row, with Excel\'s Beta density at the grid value in this cell',
           formulas: [`=BETA.DIST(${anchor},${postA1},${postB1},FALSE)`],
         },
-        caution: null,
       };
     case 'LIFT_DENSITY':
       return {
         summary: `A table for a chart: ${or('points', '101')} rows; the first column is a grid of relative lifts, then one column per challenger with the density of its lift over the control, from ${on}, with ${betaPriorWords(get)}.`,
-        method: `${BETA_BINOMIAL} The lift density is a one-dimensional integral over the control's posterior. ${QUADRATURE}`,
         crossCheck: null,
-        caution: null,
       };
     case 'PRIOR_FROM_MEAN': {
       const m = get('mean_rate');
       const s = get('strength');
       return {
         summary: `A Beta prior (alpha, beta in one row) with mean ${m} and worth ${s} visitors (alpha + beta = ${s}).`,
-        method: 'alpha = mean × strength, beta = (1 − mean) × strength. Reading alpha + beta as "worth that many visitors" is common practice.',
         crossCheck: { kind: 'reproduces', what: 'alpha and beta', formulas: [`=${p(m)}*${p(s)}`, `=(1-${p(m)})*${p(s)}`] },
-        caution: 'A strong prior can outweigh the test itself: compare its worth with the visitors each variant will get.',
       };
     }
     case 'PRIOR_FROM_INTERVAL': {
@@ -397,7 +363,6 @@ function describeCall(
       const betaCell = rightOf(anchor, 1);
       return {
         summary: `The Beta prior (alpha, beta in one row) whose central ${percent(lvl)} interval runs from ${get('low')} to ${get('high')}.`,
-        method: 'Two equations, Beta CDF(low) = (1 − level)/2 and Beta CDF(high) = 1 − (1 − level)/2, solved for alpha and beta by nested one-dimensional root finding.',
         crossCheck: {
           kind: 'checks',
           what: `that the fitted prior (alpha in ${alphaCell}, beta in ${betaCell}) puts (1 − level)/2 below low and above high: both formulas should give (1 − level)/2`,
@@ -406,39 +371,30 @@ function describeCall(
             `=1-BETA.DIST(${get('high')},${alphaCell},${betaCell},TRUE)`,
           ],
         },
-        caution: 'A narrow range is a strong prior: check how many visitors it is worth (alpha + beta).',
       };
     }
     case 'PRIOR_FROM_HISTORY': {
       const moments = /moments/i.test(get('method'));
       return {
         summary: `A Beta prior (alpha, beta in one row) fitted to past results: conversions in ${x} out of visitors in ${n}, one past experiment or arm per cell, by ${moments ? 'the method of moments' : 'maximum likelihood'}.`,
-        method: moments
-          ? 'Method of moments with the binomial noise removed: the spread of the past rates minus the spread chance alone would give (the standard empirical-Bayes treatment, e.g. Kleinman 1973).'
-          : 'Beta–Binomial maximum likelihood: the alpha, beta that make the past counts most probable (Σ log B(x + alpha, n − x + beta) − log B(alpha, beta)).',
         crossCheck: null,
-        caution: 'Past tests on other pages or seasons may not describe this one; a prior fitted to them is an assumption to state.',
       };
     }
     case 'DECISION_POWER':
       return {
         summary: `The probability that a two-variant test with ${get('visitors_per_variant')} visitors per variant, baseline rate ${get('baseline_rate')} and a challenger truly ${get('lift')} better (relative), ends with P(beats control) ≥ ${or('threshold', '0.95')}${get('prior_alpha') === '' ? '' : `, with ${betaPriorWords(get)}`}. With lift 0 it is the false-alarm rate.`,
-        method: 'An exact sum over the binomial outcomes of both variants: for each control count the accepting challenger counts form a tail, whose probability comes from the regularized incomplete beta function.',
         crossCheck: null,
-        caution: 'Decision power holds for one look at the end; looking early and often changes it.',
       };
     case 'VISITORS_NEEDED': {
       const base = get('baseline_rate');
       const lift = get('lift');
       return {
         summary: `The smallest number of visitors per variant whose decision power reaches ${or('power', '0.8')}, for baseline rate ${base}, a true relative lift of ${lift} and decision threshold ${or('threshold', '0.95')}.`,
-        method: 'Decision power (see DECISION_POWER) searched over the visitors per variant: doubling from the classic size, then bisection. Power is slightly saw-toothed in the count; the result is the smallest count found at which it reaches the target.',
         crossCheck: {
           kind: 'compares',
           what: 'the classic z-test size per variant for the same baseline and lift (two-sided 5%), a familiar number of the same order',
           formulas: [classicFormula(base, lift, '0.05', or('power', '0.8'), '2')],
         },
-        caution: 'The plan holds if you look once at the end; stopping early on a good day breaks it.',
       };
     }
     case 'CLASSIC_SAMPLE_SIZE': {
@@ -446,13 +402,11 @@ function describeCall(
       const lift = get('lift');
       return {
         summary: `Visitors per variant for the classic two-proportion z-test: baseline rate ${base}, relative lift ${lift}, significance level ${or('alpha', '0.05')}, power ${or('power', '0.8')}, ${or('sides', '2')}-sided; rounded up.`,
-        method: 'n = (z_{1−α/sides}·√(2 p̄(1 − p̄)) + z_power·√(p1(1 − p1) + p2(1 − p2)))² / (p2 − p1)², pooled variance under the null and no continuity correction (as R\'s power.prop.test).',
         crossCheck: {
           kind: 'reproduces',
           what: 'the size, with Excel\'s normal quantile',
           formulas: [classicFormula(base, lift, or('alpha', '0.05'), or('power', '0.8'), or('sides', '2'))],
         },
-        caution: null,
       };
     }
     case 'SRM_PVALUE': {
@@ -461,13 +415,11 @@ function describeCall(
       const expected = shares === '' ? `0*${p(v)}+SUM(${v})/COUNT(${v})` : `SUM(${v})*${p(shares)}/SUM(${shares})`;
       return {
         summary: `The p-value of the chi-square test of the visitors in ${v} against the planned split (${shares === '' ? 'equal shares' : `shares in ${shares}`}). A value below 0.001 says the split looks broken (sample ratio mismatch).`,
-        method: 'Pearson\'s chi-square goodness-of-fit test with (variants − 1) degrees of freedom (Fabijan et al., "Diagnosing Sample Ratio Mismatch in Online Controlled Experiments", KDD 2019). The 0.001 threshold is common practice.',
         crossCheck: {
           kind: 'reproduces',
           what: 'the p-value with Excel\'s CHISQ.TEST on observed and expected visitors',
           formulas: [`=CHISQ.TEST(${v},${expected})`],
         },
-        caution: 'A broken split means the read-out compares different kinds of visitors: find the cause before trusting any result.',
       };
     }
     default:
@@ -486,7 +438,7 @@ function classicFormula(base: string, lift: string, alpha: string, power: string
   );
 }
 
-function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<Explanation, 'name' | 'arguments'> {
+function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): CallWords | null {
   const level = or('level', '0.95');
   if (name.startsWith('MEAN_')) {
     const count = get('count');
@@ -500,11 +452,9 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
     const m2 = itemOf(mean, 1);
     const s2 = itemOf(sd, 1);
     const se = `SQRT(${s1}^2/${c1}+${s2}^2/${c2})`;
-    const base = { method: STUDENT, caution: 'Averages such as revenue are pulled by a few large values; check for outliers before reading the result.' };
     switch (name) {
       case 'MEAN_INTERVAL':
         return {
-          ...base,
           summary: `The ${percent(level)} credible interval for each variant's mean, from ${on}.`,
           crossCheck: {
             kind: 'reproduces',
@@ -518,8 +468,6 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
       case 'MEAN_PROB_HIGHEST':
       case 'MEAN_PROB_ABOVE_CONTROL':
         return {
-          ...base,
-          method: `${STUDENT} ${QUADRATURE}`,
           summary:
             name === 'MEAN_PROB_HIGHEST'
               ? `The probability that each variant has the highest true mean, from ${on}. The values add up to 1.`
@@ -532,8 +480,6 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
         };
       case 'MEAN_DIFF_INTERVAL':
         return {
-          ...base,
-          method: `${STUDENT} The difference of two Student t variables has no closed form; it is found by a one-dimensional integral. ${QUADRATURE}`,
           summary: `For each challenger, the ${percent(level)} credible interval and median of its mean − the control's mean, from ${on}.`,
           crossCheck: {
             kind: 'approximates',
@@ -546,15 +492,11 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
         };
       case 'MEAN_LIFT_INTERVAL':
         return {
-          ...base,
-          method: `${STUDENT} The ratio distribution is found by a one-dimensional integral. ${QUADRATURE}`,
           summary: `For each challenger, the ${percent(level)} credible interval and median of its mean ÷ the control's mean − 1, from ${on}. It is an error when the control's mean could plausibly be zero or below.`,
           crossCheck: null,
         };
       case 'MEAN_EXPECTED_LOSS':
         return {
-          ...base,
-          method: `${STUDENT} ${QUADRATURE}`,
           summary: `For each variant, the mean given up on average by choosing it, E[max mean − its mean], from ${on}.`,
           crossCheck: null,
         };
@@ -575,12 +517,10 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
   const shape2 = `${p(shape)}+${e2}`;
   const rate1 = rate === '0' ? t1 : `${p(rate)}+${t1}`;
   const rate2 = rate === '0' ? t2 : `${p(rate)}+${t2}`;
-  const caution = 'Events per exposure assumes events arrive independently; heavy users can make the intervals too narrow.';
   switch (name) {
     case 'EVENTS_RATE_INTERVAL':
       return {
         summary: `The ${percent(level)} credible interval for each variant's events per unit of exposure, from ${on}.`,
-        method: `${GAMMA_POISSON} The bounds are its quantiles at (1 − level)/2 and 1 − (1 − level)/2.`,
         crossCheck: {
           kind: 'reproduces',
           what: 'the first variant\'s bounds with Excel\'s Gamma quantile (GAMMA.INV takes a scale, 1/rate)',
@@ -589,7 +529,6 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
             `=GAMMA.INV(1-(1-${p(level)})/2,${shape1},1/(${rate1}))`,
           ],
         },
-        caution,
       };
     case 'EVENTS_PROB_HIGHEST':
     case 'EVENTS_PROB_ABOVE_CONTROL':
@@ -598,36 +537,30 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): Omit<E
           name === 'EVENTS_PROB_HIGHEST'
             ? `The probability that each variant has the highest true event rate, from ${on}. The values add up to 1.`
             : `For each challenger, the probability that its true event rate is above the control's, from ${on}.`,
-        method: `${GAMMA_POISSON} ${QUADRATURE} For two variants, P(rate_B > rate_A) = I_z(shape_A, shape_B) with z = rate_A/(rate_A + rate_B) (posterior parameters), a closed form.`,
         crossCheck: {
           kind: 'reproduces',
           what: `${name === 'EVENTS_PROB_HIGHEST' ? 'with two variants, the challenger\'s value' : 'the first challenger\'s value'}, by the regularized incomplete beta closed form`,
           formulas: [`=BETA.DIST((${rate1})/((${rate1})+(${rate2})),${shape1},${shape2},TRUE)`],
         },
-        caution,
       };
     case 'EVENTS_LIFT_INTERVAL': {
       const q = (prob: string): string => `BETA.INV(${prob},${shape2},${shape1})`;
       const lift = (prob: string): string => `=(${rate1})/(${rate2})*${q(prob)}/(1-${q(prob)})-1`;
       return {
         summary: `For each challenger, the ${percent(level)} credible interval and median of its event rate ÷ the control's − 1, from ${on}.`,
-        method: `${GAMMA_POISSON} The ratio of two Gamma rates is a scaled beta-prime variable, so its quantiles come from the Beta quantile.`,
         crossCheck: {
           kind: 'reproduces',
           what: 'the first challenger\'s lower bound, median and upper bound with Excel\'s Beta quantile',
           formulas: [lift(`(1-${p(level)})/2`), lift('0.5'), lift(`1-(1-${p(level)})/2`)],
         },
-        caution,
       };
     }
     case 'EVENTS_EXPECTED_LOSS':
       return {
         summary: `For each variant, the event rate given up on average by choosing it, from ${on}.`,
-        method: `${GAMMA_POISSON} ${QUADRATURE}`,
         crossCheck: null,
-        caution,
       };
     default:
-      return { summary: `ABTEST.${name}`, method: '', crossCheck: null, caution: null };
+      return null;
   }
 }

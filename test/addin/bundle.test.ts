@@ -5,17 +5,18 @@
  * functions by id with Excel-shaped arguments (columns [[..],[..]], rows, blanks), comparing with the
  * scipy and R reference values in test/reference/.
  *
- * Needs `npm run build` first (CI runs it before `npm test`).
+ * dist/ is built by the jest global setup (test/setup/buildForTests.js) when missing or stale.
  */
 import * as fs from 'fs';
 import * as path from 'path';
 import * as vm from 'vm';
+import { CATALOGUE_LIST } from '../../functions/catalogue';
 
 const DIST = path.join(__dirname, '..', '..', 'dist');
 const BUNDLE = path.join(DIST, 'functions.js');
 const REF = path.join(__dirname, '..', 'reference');
 
-const MISSING = `dist/functions.js is missing: run \`npm run build\` before the bundle test (CI runs it before npm test)`;
+const MISSING = `dist/functions.js is missing: run \`npm run build\` (npm test builds it first)`;
 
 interface Sandbox {
   registered: Map<string, (...args: unknown[]) => unknown>;
@@ -71,14 +72,7 @@ const near = (a: unknown, b: number, rel = 1e-7): boolean => typeof a === 'numbe
 const ref = JSON.parse(fs.readFileSync(path.join(REF, 'addin_values.json'), 'utf8'));
 const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm_chisq.json'), 'utf8'));
 
-const CATALOGUE_IDS = [
-  'POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'RATE_DIFF_INTERVAL',
-  'PROB_LIFT_ABOVE', 'EXPECTED_LOSS', 'DECISION', 'POSTERIOR_DENSITY', 'LIFT_DENSITY', 'PRIOR_FROM_MEAN',
-  'PRIOR_FROM_INTERVAL', 'PRIOR_FROM_HISTORY', 'DECISION_POWER', 'VISITORS_NEEDED', 'CLASSIC_SAMPLE_SIZE', 'SRM_PVALUE',
-  'MEAN_INTERVAL', 'MEAN_PROB_HIGHEST', 'MEAN_PROB_ABOVE_CONTROL', 'MEAN_DIFF_INTERVAL', 'MEAN_LIFT_INTERVAL',
-  'MEAN_EXPECTED_LOSS', 'EVENTS_RATE_INTERVAL', 'EVENTS_PROB_HIGHEST', 'EVENTS_PROB_ABOVE_CONTROL',
-  'EVENTS_LIFT_INTERVAL', 'EVENTS_EXPECTED_LOSS',
-]; // mirrors the catalogue (see metadata.test.ts)
+const CATALOGUE_IDS = CATALOGUE_LIST.map((f) => f.id); // functions/catalogue.ts
 
 test('the bundle registers every catalogue function by id, nothing else', () => {
   expect([...sandbox.registered.keys()].sort()).toEqual([...CATALOGUE_IDS].sort());
@@ -88,7 +82,7 @@ test('dist/functions.js is at most 150 KB minified', () => {
   expect(fs.statSync(BUNDLE).size).toBeLessThanOrEqual(150 * 1024);
 });
 
-test('dist holds functions.json (29 functions), the side panel page loading both scripts, help pages, icons and the manifest', () => {
+test('dist holds functions.json (every catalogue function), the side panel page loading both scripts, help pages, icons and the manifest', () => {
   const metadata = JSON.parse(fs.readFileSync(path.join(DIST, 'functions.json'), 'utf8')) as { functions: { id: string }[] };
   expect(metadata.functions.map((f) => f.id).sort()).toEqual([...CATALOGUE_IDS].sort());
   const page = fs.readFileSync(path.join(DIST, 'taskpane.html'), 'utf8');
@@ -147,7 +141,7 @@ describe('calls with Excel-shaped arguments (scipy and R references)', () => {
   });
 
   test('CLASSIC_SAMPLE_SIZE equals R power.prop.test rounded up', () => {
-    // power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (check-values.md)
+    // power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (docs/check-values.md)
     expect(call('CLASSIC_SAMPLE_SIZE', 0.1, 0.5, null, null, null)).toBe(686);
   });
 

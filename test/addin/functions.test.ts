@@ -149,7 +149,7 @@ describe('conversion metrics against scipy', () => {
 
   test('PROB_ABOVE_CONTROL equals Evan Miller\'s exact rational for Beta(4, 8) vs Beta(6, 6): 521/646', () => {
     // conversions 3 of 10 and 5 of 10 with the uniform prior give Beta(4, 8) and Beta(6, 6)
-    // (check-values.md: E. Miller, "Formulas for Bayesian A/B Testing", 2015)
+    // (docs/check-values.md: E. Miller, "Formulas for Bayesian A/B Testing", 2015)
     expectSpill(F.probAboveControl(col([3, 5]), col([10, 10])), vsControl([521 / 646]), 1e-12);
   });
 
@@ -400,7 +400,7 @@ describe('planning', () => {
   });
 
   test('CLASSIC_SAMPLE_SIZE equals R\'s power.prop.test n rounded up', () => {
-    // R 4.2: power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (check-values.md)
+    // R 4.2: power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (docs/check-values.md)
     expect(F.classicSampleSize(0.1, 0.5)).toBe(686);
     // power.prop.test(p1 = 0.05, p2 = 0.055, power = 0.8) → 31233.43794
     expect(F.classicSampleSize(0.05, 0.1)).toBe(31234);

@@ -1,12 +1,14 @@
 /**
- * Help pages and icons, build-free. The pages are generated from functions/functions.ts's JSDoc by
- * help/build.js; these tests check that every catalogue function has a complete page and that the page
- * agrees with the metadata Excel shows (same source, so they cannot drift). Icons are checked as PNG
+ * Help pages and icons, build-free. The pages are generated from the wrappers' JSDoc (functions/wrappers/)
+ * by help/build.js; these tests check that every catalogue function has a complete page and that the page
+ * agrees with the metadata Excel shows (same source, so they cannot drift) and with the catalogue's rules. Icons are checked as PNG
  * files against the PNG specification (W3C, 2nd ed.): signature, IHDR, CRCs, and the pixel data size.
  */
 import * as path from 'path';
 import * as zlib from 'zlib';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
+import { CATALOGUE_LIST } from '../../functions/catalogue';
+import { describeParam } from '../../functions/sheet/entry';
 
 interface FunctionDoc {
   id: string;
@@ -22,6 +24,7 @@ interface FunctionDoc {
 }
 /* eslint-disable @typescript-eslint/no-require-imports */
 const help = require('../../help/build') as {
+  wrapperFiles(): string[];
   readFunctionDocs(): FunctionDoc[];
   buildHelpPages(): Map<string, string>;
   parseExample(e: string): { formula: string; result?: string; words?: string };
@@ -34,8 +37,8 @@ const docs = help.readFunctionDocs();
 const pages = help.buildHelpPages();
 
 test('one page per function plus an index that links every page', () => {
-  expect(docs).toHaveLength(29);
-  expect(pages.size).toBe(30);
+  expect(docs).toHaveLength(CATALOGUE_LIST.length);
+  expect(pages.size).toBe(CATALOGUE_LIST.length + 1);
   const index = pages.get('index.html') ?? '';
   for (const d of docs) {
     expect(pages.has(`${d.id}.html`)).toBe(true);
@@ -44,7 +47,7 @@ test('one page per function plus an index that links every page', () => {
 });
 
 test('the pages agree with the generated metadata: description, parameters, help URL', async () => {
-  const generated = await generateCustomFunctionsMetadata(path.join(__dirname, '..', '..', 'functions', 'functions.ts'), false);
+  const generated = await generateCustomFunctionsMetadata(help.wrapperFiles(), false);
   const metadata = (JSON.parse(generated.metadataJson) as { functions: { id: string; description: string; helpUrl: string; parameters: { name: string; optional?: boolean; description: string }[] }[] }).functions;
   for (const m of metadata) {
     const d = docs.find((x) => x.id === m.id) as FunctionDoc;
@@ -78,6 +81,18 @@ describe.each(docs.map((d) => [d.id, d] as const))('%s', (id, d) => {
     expect(page).toContain(sig.replace(/&/g, '&amp;'));
     expect(sig).toBe(`=ABTEST.${id}(${d.params.map((p) => (p.optional ? `[${p.name}]` : p.name)).join(', ')})`);
   });
+});
+
+test('each page states every argument\'s allowed values, as the catalogue\'s rules describe them', () => {
+  for (const entry of CATALOGUE_LIST) {
+    const page = pages.get(`${entry.id}.html`) ?? '';
+    for (const p of entry.params) {
+      const words = describeParam(p, entry).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+      expect({ id: entry.id, name: p.name, stated: page.includes(`<td>${words}</td>`) }).toEqual({ id: entry.id, name: p.name, stated: true });
+    }
+  }
+  // spot check of the words themselves (rules.ts): a level is a fraction strictly between 0 and 1
+  expect(pages.get('RATE_INTERVAL.html')).toContain('<td>a number greater than 0 and less than 1; default 0.95</td>');
 });
 
 test('cross-checks with built-in formulas are given where the catalogue promises one', () => {

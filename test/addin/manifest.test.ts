@@ -8,14 +8,17 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import { XMLParser } from 'fast-xml-parser';
+import { CATALOGUE_LIST } from '../../functions/catalogue';
 
-// eslint-disable-next-line @typescript-eslint/no-require-imports
+/* eslint-disable @typescript-eslint/no-require-imports */
+const help = require('../../help/build') as { wrapperFiles(): string[] };
 const writer = require('../../manifest/writeManifest') as {
   DEV_BASE_URL: string;
   normaliseBaseUrl(raw: string): string;
   rewriteManifest(xml: string, baseUrl: string): string;
   rewriteMetadata(json: string, baseUrl: string): string;
 };
+/* eslint-enable @typescript-eslint/no-require-imports */
 
 const XML = fs.readFileSync(path.join(__dirname, '..', '..', 'manifest', 'manifest.xml'), 'utf8');
 
@@ -184,11 +187,11 @@ describe('production manifest', () => {
 
   test('help URLs in functions.json move to the base URL too', async () => {
     const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
-    const generated = await generateCustomFunctionsMetadata(path.join(__dirname, '..', '..', 'functions', 'functions.ts'), false);
+    const generated = await generateCustomFunctionsMetadata(help.wrapperFiles(), false);
     const moved = JSON.parse(writer.rewriteMetadata(generated.metadataJson, 'https://addins.example.org/lift-ledger')) as {
       functions: { id: string; helpUrl: string }[];
     };
-    expect(moved.functions).toHaveLength(29);
+    expect(moved.functions).toHaveLength(CATALOGUE_LIST.length);
     for (const f of moved.functions) expect(f.helpUrl).toBe(`https://addins.example.org/lift-ledger/help/${f.id}.html`);
   }, 60000);
 

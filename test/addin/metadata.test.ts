@@ -1,13 +1,17 @@
 /**
- * The metadata Excel reads (functions.json), generated build-free from functions/functions.ts by
- * custom-functions-metadata's own generator — the same one the webpack plugin runs.
- *
- * EXPECTED mirrors the function catalogue (/work/shared/catalogue.md, kept outside the repository): names,
- * argument order and which arguments are optional. It is written out here on purpose so the test does
- * not depend on a file outside the clone; a change to the catalogue must be copied here by hand.
+ * The metadata Excel reads (functions.json) against the function catalogue (functions/catalogue.ts): ids,
+ * parameter names, order and optional flags, which parameters take ranges, and which results spill. Checked
+ * twice: on the metadata generated build-free from the wrapper files by custom-functions-metadata's own
+ * generator (the one the webpack plugin runs), and on the built dist/functions.json.
  */
+import * as fs from 'fs';
 import * as path from 'path';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
+import { CATALOGUE_LIST } from '../../functions/catalogue';
+import type { FunctionEntry } from '../../functions/sheet/entry';
+
+/* eslint-disable-next-line @typescript-eslint/no-require-imports */
+const help = require('../../help/build') as { wrapperFiles(): string[] };
 
 interface ExpectedFunction {
   readonly name: string;
@@ -15,44 +19,17 @@ interface ExpectedFunction {
   readonly params: readonly string[];
 }
 
-// Mirrors the catalogue's tables, in its order.
-const EXPECTED: readonly ExpectedFunction[] = [
-  { name: 'POSTERIOR_MEAN', params: ['conversions', 'visitors', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'RATE_INTERVAL', params: ['conversions', 'visitors', 'level?', 'prior_alpha?', 'prior_beta?', 'method?'] },
-  { name: 'PROB_HIGHEST', params: ['conversions', 'visitors', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'PROB_ABOVE_CONTROL', params: ['conversions', 'visitors', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'LIFT_INTERVAL', params: ['conversions', 'visitors', 'level?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'RATE_DIFF_INTERVAL', params: ['conversions', 'visitors', 'level?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'PROB_LIFT_ABOVE', params: ['conversions', 'visitors', 'min_lift', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'EXPECTED_LOSS', params: ['conversions', 'visitors', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'DECISION', params: ['conversions', 'visitors', 'max_loss?', 'labels?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'POSTERIOR_DENSITY', params: ['conversions', 'visitors', 'points?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'LIFT_DENSITY', params: ['conversions', 'visitors', 'points?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'PRIOR_FROM_MEAN', params: ['mean_rate', 'strength'] },
-  { name: 'PRIOR_FROM_INTERVAL', params: ['low', 'high', 'level?'] },
-  { name: 'PRIOR_FROM_HISTORY', params: ['conversions', 'visitors', 'method?'] },
-  { name: 'DECISION_POWER', params: ['baseline_rate', 'lift', 'visitors_per_variant', 'threshold?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'VISITORS_NEEDED', params: ['baseline_rate', 'lift', 'threshold?', 'power?', 'prior_alpha?', 'prior_beta?'] },
-  { name: 'CLASSIC_SAMPLE_SIZE', params: ['baseline_rate', 'lift', 'alpha?', 'power?', 'sides?'] },
-  { name: 'SRM_PVALUE', params: ['visitors', 'planned_shares?'] },
-  { name: 'MEAN_INTERVAL', params: ['count', 'mean', 'sd', 'level?'] },
-  { name: 'MEAN_PROB_HIGHEST', params: ['count', 'mean', 'sd'] },
-  { name: 'MEAN_PROB_ABOVE_CONTROL', params: ['count', 'mean', 'sd'] },
-  { name: 'MEAN_DIFF_INTERVAL', params: ['count', 'mean', 'sd', 'level?'] },
-  { name: 'MEAN_LIFT_INTERVAL', params: ['count', 'mean', 'sd', 'level?'] },
-  { name: 'MEAN_EXPECTED_LOSS', params: ['count', 'mean', 'sd'] },
-  { name: 'EVENTS_RATE_INTERVAL', params: ['events', 'exposure', 'level?', 'prior_shape?', 'prior_rate?'] },
-  { name: 'EVENTS_PROB_HIGHEST', params: ['events', 'exposure', 'prior_shape?', 'prior_rate?'] },
-  { name: 'EVENTS_PROB_ABOVE_CONTROL', params: ['events', 'exposure', 'prior_shape?', 'prior_rate?'] },
-  { name: 'EVENTS_LIFT_INTERVAL', params: ['events', 'exposure', 'level?', 'prior_shape?', 'prior_rate?'] },
-  { name: 'EVENTS_EXPECTED_LOSS', params: ['events', 'exposure', 'prior_shape?', 'prior_rate?'] },
-];
+// The catalogue's functions, in its order.
+const EXPECTED: readonly ExpectedFunction[] = CATALOGUE_LIST.map((f) => ({
+  name: f.id,
+  params: f.params.map((p) => (p.optional ? `${p.name}?` : p.name)),
+}));
 
 /** Arguments that take a range (a row or column of cells); all others are single values. */
-const RANGES = new Set(['conversions', 'visitors', 'labels', 'planned_shares', 'count', 'mean', 'sd', 'events', 'exposure']);
+const RANGES = new Set(CATALOGUE_LIST.flatMap((f) => f.params.filter((p) => p.kind === 'range' || p.kind === 'aligned').map((p) => p.name)));
 
 /** Functions that answer in one cell (a number or a text) instead of a spill. */
-const SCALAR_RESULT = new Set(['DECISION', 'DECISION_POWER', 'VISITORS_NEEDED', 'CLASSIC_SAMPLE_SIZE', 'SRM_PVALUE']);
+const SCALAR_RESULT = new Set(CATALOGUE_LIST.filter((f) => f.spill.kind === 'one').map((f) => f.id));
 
 interface MetadataParameter {
   name: string;
@@ -75,7 +52,7 @@ interface MetadataFunction {
 let functions: MetadataFunction[] = [];
 
 beforeAll(async () => {
-  const generated = await generateCustomFunctionsMetadata(path.join(__dirname, '..', '..', 'functions', 'functions.ts'), false);
+  const generated = await generateCustomFunctionsMetadata(help.wrapperFiles(), false);
   expect(generated.errors).toEqual([]);
   functions = (JSON.parse(generated.metadataJson) as { functions: MetadataFunction[] }).functions;
 }, 60000);
@@ -89,7 +66,7 @@ function byName(name: string): MetadataFunction {
 test('exactly the catalogue names, ids equal to names, no duplicates', () => {
   expect(functions.map((f) => f.name).sort()).toEqual(EXPECTED.map((f) => f.name).sort());
   for (const f of functions) expect(f.id).toBe(f.name);
-  expect(new Set(functions.map((f) => f.id)).size).toBe(29);
+  expect(new Set(functions.map((f) => f.id)).size).toBe(CATALOGUE_LIST.length);
 });
 
 describe.each(EXPECTED.map((f) => [f.name, f] as const))('%s', (name, expected) => {
@@ -137,4 +114,38 @@ describe.each(EXPECTED.map((f) => [f.name, f] as const))('%s', (name, expected) 
 test('no two functions share a description (JSDoc copied from a neighbour becomes wrong Excel help)', () => {
   const descriptions = functions.map((f) => f.description);
   expect(new Set(descriptions).size).toBe(descriptions.length);
+});
+
+test('metadata order is the catalogue order', () => {
+  expect(functions.map((f) => f.id)).toEqual(CATALOGUE_LIST.map((f) => f.id));
+});
+
+test('result types: a single number is "number", a single text "string"', () => {
+  for (const f of CATALOGUE_LIST) {
+    if (f.spill.kind !== 'one') continue;
+    expect({ id: f.id, type: byName(f.id).result?.type }).toEqual({ id: f.id, type: f.spill.of === 'number' ? 'number' : 'string' });
+  }
+});
+
+describe('the built dist/functions.json', () => {
+  const file = path.join(__dirname, '..', '..', 'dist', 'functions.json');
+  const built = (): MetadataFunction[] => (JSON.parse(fs.readFileSync(file, 'utf8')) as { functions: MetadataFunction[] }).functions;
+  const shape = (f: { id: string; parameters: MetadataParameter[] } | FunctionEntry): string[] =>
+    'parameters' in f
+      ? f.parameters.map((p) => `${p.name}${p.optional ? '?' : ''}${p.dimensionality === 'matrix' ? '[]' : ''}`)
+      : f.params.map((p) => `${p.name}${p.optional ? '?' : ''}${p.kind === 'range' || p.kind === 'aligned' ? '[]' : ''}`);
+
+  test('has exactly the catalogue ids, in its order, with its parameters', () => {
+    const metadata = built();
+    expect(metadata.map((f) => f.id)).toEqual(CATALOGUE_LIST.map((f) => f.id));
+    for (const f of CATALOGUE_LIST) {
+      const m = metadata.find((x) => x.id === f.id) as MetadataFunction;
+      expect({ id: f.id, params: shape(m) }).toEqual({ id: f.id, params: shape(f) });
+    }
+  });
+
+  test('equals the metadata generated from the sources (up to the help URLs of a deployment build)', () => {
+    const strip = (list: MetadataFunction[]): unknown => list.map(({ helpUrl, ...rest }) => ({ ...rest, help: helpUrl?.replace(/^.*\/help\//, '') }));
+    expect(strip(built())).toEqual(strip(functions));
+  });
 });

@@ -199,7 +199,7 @@ for a, b in shapes:
             continue
         beta_cases.append([x, a, b, f(lo), f(up), f(beta_log_density(x, a, b))])
     print('beta', a, b, file=sys.stderr)
-# named checks (documented in /work/shared/check-values.md)
+# named checks (documented in docs/check-values.md)
 named = [(0.2, 8, 42), (0.3, 0.5, 0.5), (0.5, 8, 10), (0.5, 1e6, 1e6), (0.5, 1e7, 1e7), (0.5, 5e8, 5e8),
          (0.05, 5e7 + 1, 9.5e8 + 1)]
 out["betaNamed"] = [[x, a, b, f(beta_tail(x, a, b, False)), f(beta_tail(x, a, b, True))] for x, a, b in named]

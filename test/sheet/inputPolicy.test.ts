@@ -1,7 +1,7 @@
 /**
  * The sheet layer's input policy, by name: how ranges become checked numbers, what is rejected with which
  * message, and how results spill. The conventions tested here are the catalogue's
- * (/work/shared/catalogue.md, "Conventions every function follows"); the policy for text, logicals and
+ * (docs/catalogue.md, "Conventions every function follows"); the policy for text, logicals and
  * whitespace is our own and is written down in functions/sheet/cells.ts.
  */
 import { StatsError } from '../../functions/stats/errors';

@@ -1,6 +1,6 @@
 /**
  * Chi-square tails against mpmath 1.2 (gammainc at 40 digits; test/reference/special_reference.py),
- * Excel's CHISQ.TEST help example and R's chisq.test values (both from /work/shared/check-values.md).
+ * Excel's CHISQ.TEST help example and R's chisq.test values (both from docs/check-values.md).
  */
 import { chiSquareCdf, chiSquareSf } from '../../../functions/stats/special/chiSquare';
 import reference from '../../reference/special_values.json';

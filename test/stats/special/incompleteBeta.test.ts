@@ -3,7 +3,7 @@
  *  - mpmath 1.2 at 40 digits (test/reference/special_reference.py → special_values.json): betainc
  *    (regularized) for a + b ≤ 2000, and for larger shapes tanh-sinh quadrature of the exact log density in
  *    logit x (the script cross-checks both routes to 1e-25 where they overlap);
- *  - R 4.2 and Microsoft Excel's documented examples as listed in /work/shared/check-values.md.
+ *  - R 4.2 and Microsoft Excel's documented examples as listed in docs/check-values.md.
  */
 import fc from 'fast-check';
 import {
