@@ -12,3 +12,4 @@ export * from './wrappers/planning';
 export * from './wrappers/checking';
 export * from './wrappers/means';
 export * from './wrappers/events';
+export * from './wrappers/revenue';

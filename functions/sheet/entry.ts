@@ -74,7 +74,7 @@ export type SpillShape =
   | { readonly kind: 'densityTable'; readonly series: 'variant' | 'challenger' };
 
 /** The families of functions, in the order the README and the help index list them. */
-export type FamilyId = 'conversion' | 'prior' | 'planning' | 'checking' | 'means' | 'events';
+export type FamilyId = 'conversion' | 'prior' | 'planning' | 'checking' | 'means' | 'events' | 'revenue';
 
 /** One worksheet function as the catalogue declares it. */
 export interface FunctionEntry {

@@ -157,11 +157,56 @@ function checkoutSheet(): DemoSheet {
   block(94, 'Lift over the control: lower, median, upper (EVENTS_LIFT_INTERVAL)', '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)', '0.0%');
   block(98, 'Expected loss if chosen (EVENTS_EXPECTED_LOSS)', '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)', '0.00000');
 
+  revenueFromTotals(s);
+
   s.put('K10', 'Chart table: posterior densities (POSTERIOR_DENSITY, 41 points)');
   s.put('K11', '=ABTEST.POSTERIOR_DENSITY(C4:C6, B4:B6, 41)', '0.0000');
   s.put('K54', 'Chart table: lift densities (LIFT_DENSITY, 41 points)');
   s.put('K55', '=ABTEST.LIFT_DENSITY(C4:C6, B4:B6, 41)', '0.0000');
   return s.done();
+}
+
+/**
+ * The revenue-from-totals part of the checkout sheet (issue #13), below the other read-outs: the same
+ * invented test as its analytics export would give it (orders = conversions, visitors, total revenue =
+ * average revenue per visitor × visitors, and an invented standard deviation of order values), read out
+ * with the REVENUE_ functions, and the "no worse than" probabilities and decisions of the other metrics.
+ */
+function revenueFromTotals(s: ReturnType<typeof sheetBuilder>): void {
+  s.put('A102', 'Revenue per visitor from totals (orders × average order value; invented totals)');
+  const headers = ['Variant', 'Orders', 'Visitors', 'Revenue', 'Order sd'];
+  headers.forEach((h, i) => s.put(`${columnLetters(i)}103`, h));
+  s.strong('A102', ...headers.map((_, i) => `${columnLetters(i)}103`));
+  // revenue = average revenue per visitor × visitors of rows 4–6; order sd invented
+  const orderSd = [35, 37, 36];
+  CHECKOUT_VARIANTS.forEach((variant, r) => {
+    const row = 104 + r;
+    s.put(`A${row}`, variant[0]);
+    s.put(`B${row}`, `=C${4 + r}`);
+    s.put(`C${row}`, `=B${4 + r}`);
+    s.put(`D${row}`, Math.round(variant[4] * variant[1] * 100) / 100, '0.00');
+    s.put(`E${row}`, orderSd[r] as number, '0.00');
+  });
+  const block = (row: number, label: string, formula: string, format?: string): void => {
+    s.put(`A${row}`, label);
+    s.put(`B${row}`, formula, format);
+  };
+  const totals = 'B104:B106, C104:C106, D104:D106';
+  block(108, '95% credible interval for revenue per visitor: lower, upper (REVENUE_INTERVAL)', `=ABTEST.REVENUE_INTERVAL(${totals})`, '0.000');
+  block(112, 'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)', `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`, '0.0%');
+  block(116, 'Probability of beating the control (REVENUE_PROB_ABOVE_CONTROL, with order sd)', `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E104:E106)`, '0.0%');
+  block(120, 'Lift over the control: lower, median, upper (REVENUE_LIFT_INTERVAL, with order sd)', `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E104:E106)`, '0.0%');
+  block(124, 'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)', `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E104:E106)`, '0.0%');
+  block(128, 'Expected loss if chosen, per visitor (REVENUE_EXPECTED_LOSS, with order sd)', `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E104:E106)`, '0.0000');
+  block(132, 'What to do on revenue (REVENUE_DECISION, with order sd)', `=ABTEST.REVENUE_DECISION(${totals}, E104:E106, , A104:A106)`);
+  block(134, 'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)', '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)', '0.0%');
+  block(138, 'What to do on the revenue mean (MEAN_DECISION)', '=ABTEST.MEAN_DECISION(D4:D6, E4:E6, F4:F6, , A4:A6)');
+  block(140, 'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)', '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)', '0.0%');
+  block(144, 'What to do on basket adds (EVENTS_DECISION)', '=ABTEST.EVENTS_DECISION(G4:G6, H4:H6, , A4:A6)');
+  s.put(
+    'A146',
+    'Caution: without order sd the order values are taken as exponential, which understates the spread when a few orders are very large; a decision on revenue can differ from one on conversions.',
+  );
 }
 
 function pastTestsSheet(): DemoSheet {

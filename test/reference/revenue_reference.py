@@ -52,6 +52,8 @@ class Variant:
             self.nu = orders - 1.0
             self.m = revenue / orders
             self.s = order_sd / math.sqrt(orders)
+            # log of the t density's constant Gamma((nu+1)/2)/(Gamma(nu/2) sqrt(nu pi))
+            self.t_log_norm = special.gammaln((self.nu + 1) / 2) - special.gammaln(self.nu / 2) - 0.5 * math.log(self.nu * math.pi)
         self._norm = None
 
     # log density of z = logit p relative to its mode (no log-gamma of large numbers)
@@ -126,7 +128,8 @@ class Variant:
                 return 0.0
             lam = 1 / x
             return math.exp(self.alpha * math.log(self.beta * lam) - self.beta * lam - special.gammaln(self.alpha)) / x
-        return stats.t.pdf((x - self.m) / self.s, self.nu) / self.s
+        t = (x - self.m) / self.s
+        return math.exp(self.t_log_norm - (self.nu + 1) / 2 * math.log1p(t * t / self.nu)) / self.s
 
     def turn(self, r):
         """logit of the rate where the order-value factor turns for R = r (a breakpoint)."""
@@ -260,7 +263,10 @@ def losses(vs):
         others = [v for j, v in enumerate(vs) if j != i]
 
         def f(r, vi=vi, others=others):
-            return vi.cdf(r) * -math.expm1(sum(math.log1p(-o.cdf(r, upper=True)) for o in others))
+            sfs = [o.cdf(r, upper=True) for o in others]
+            if any(x >= 1 for x in sfs):
+                return vi.cdf(r)
+            return vi.cdf(r) * -math.expm1(sum(math.log1p(-x) for x in sfs))
         out.append(outer_quad(f, vs))
     return out
 
