@@ -113,7 +113,7 @@ function failure(message: string): StatsError {
  *  2. each end of the window where the log density is WINDOW below its peak, by Newton's method in a
  *     bracket (bisection when a step leaves it; doubling the distance while no point outside is known);
  *  3. pieces from the left end: each interpolated at 24 Chebyshev points and accepted when its last four
- *     coefficients are below 2e-13 + 1e-12·d + 1e-11·d² (+ 5e-15 of its deepest point's depth, the
+ *     coefficients are below 1e-12 + 1e-12·d + 1e-11·d² (+ 5e-15 of its deepest point's depth, the
  *     evaluations' rounding), d the depth of its highest point below the peak
  *     (an error ε in the log density there changes probabilities by ~e^-d·ε), 4e-16·|slope|·|z| (the
  *     rounding of the working point itself) and the evaluations' own noise estimate, else a quarter as wide is
@@ -220,14 +220,14 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       evaluationNoise = Math.max(evaluationNoise, v.noise ?? 0);
     }
     // An error ε in the log density d below the peak moves probabilities by ~e^-d·ε, and tail
-    // probabilities ~e^-d by ε relative: allow 2e-13 + 1e-12·d + 1e-11·d² (≤ 5e-12 of any probability,
+    // probabilities ~e^-d by ε relative: allow 1e-12 + 1e-12·d + 1e-11·d² (≤ 5e-12 of any probability,
     // ≤ 1e-6 relative up to d = 300), plus the evaluations' own rounding, ~5e-15 of the largest |log
     // density| on the piece. Far in a tail (d > 30) a piece narrower than 1e-9 of the window is accepted
     // as it is (the evaluations' rounding, not the interpolation, is then what remains). A working point
     // z is itself only known to ~2.2e-16·|z|, which moves the log density by |slope|·that: at a billion
     // counts (slope ~1e5 a few standard deviations out) that floor is ~1e-10, the same as every table's.
     const noise = 4e-16 * conditioning + evaluationNoise;
-    const tolerance = 2e-13 + noise + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
+    const tolerance = 1e-12 + noise + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
     const floor = nearest > 30 && right - a < 1e-9 * (last - leftEnd.z);
     if (tailCoefficient(logDensity) > tolerance && !floor) {
       w /= 4;
