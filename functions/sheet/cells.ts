@@ -12,7 +12,10 @@
  *   says how to fix it (VALUE() or re-typing the cell).
  * - **Logical** (`TRUE`/`FALSE`): rejected; Excel's own statistics functions ignore logicals in ranges,
  *   and a logical where a count belongs is a mistake.
- * - **Anything else** (an error value, an entity): rejected as "not a number".
+ * - **Data types** (Excel passes them as objects because functions.json has allowCustomDataForDataTypeAny):
+ *   a formatted number is read as its number, an entity (linked data type) as the text it shows, so it
+ *   serves as a label and is refused as text where a number belongs.
+ * - **Anything else** (an error value): rejected as "not a number".
  *
  * A range must be a single row or a single column; a single cell counts as a column of one.
  */
@@ -50,6 +53,13 @@ export function classifyCell(cell: unknown): CellValue {
     return Number.isFinite(cell) ? { kind: 'number', value: cell } : { kind: 'other', description: String(cell) };
   }
   if (typeof cell === 'boolean') return { kind: 'logical', value: cell };
+  // A data type (formatted number, entity) arrives as an object, as functions.json allows custom data:
+  // read its plain value, or an entity's shown text (its plain value is only "#VALUE!").
+  if (typeof cell === 'object' && cell !== null && 'basicValue' in cell) {
+    const data = cell as { basicValue?: unknown; basicType?: unknown; text?: unknown };
+    const plain = data.basicType === 'Error' && typeof data.text === 'string' ? data.text : data.basicValue;
+    if (typeof plain !== 'object' || plain === null) return classifyCell(plain);
+  }
   if (typeof cell === 'object' && cell !== null && 'code' in cell) {
     return { kind: 'other', description: `the error value ${String((cell as { code: unknown }).code)}` };
   }

@@ -1,7 +1,10 @@
 /**
  * The preview's demo workbook: an INVENTED online garden-supply shop testing checkout buttons.
  * Every number here is made up for the demo and every sheet says so. Every ABTEST function of the
- * catalogue appears at least once, each with a label cell to its left (or just above, for the chart tables).
+ * catalogue appears at least once. Each result is laid out as a reader needs it: a label row above
+ * (with column headings such as "lower", "upper" for results of several columns), the variants' names
+ * beside the rows of a spilled result (formulas to the variant table, so they follow it), and number
+ * formats over the whole spill — as in Excel, a spilled cell does not take its formula cell's format.
  */
 
 /** A cell's content as HyperFormula takes it: a number, text, a formula ("=…"), or null for blank. */
@@ -62,6 +65,11 @@ function sheetBuilder(name: string) {
   const formats: Record<string, string> = {};
   const columnWidths: Record<string, number> = {};
   const bold: string[] = [];
+  /** Gives every cell of a block (e.g. a whole spill) a number format. */
+  const formatBlock = (address: string, rows: number, columns: number, format: string): void => {
+    const { row, col } = parseA1(address);
+    for (let r = 0; r < rows; r += 1) for (let c = 0; c < columns; c += 1) formats[`${columnLetters(col + c)}${row + r + 1}`] = format;
+  };
   const put = (address: string, value: DemoCell, format?: string): void => {
     const { row, col } = parseA1(address);
     while (cells.length <= row) cells.push([]);
@@ -77,7 +85,7 @@ function sheetBuilder(name: string) {
     bold.push(...addresses);
   };
   const done = (): DemoSheet => ({ name, cells, formats, columnWidths, bold });
-  return { put, width, strong, done };
+  return { put, width, strong, formatBlock, done };
 }
 
 /** The words every sheet carries so nobody mistakes the demo for real results. */
@@ -118,51 +126,71 @@ function checkoutSheet(): DemoSheet {
   // Revenue is per visitor (zeros for visitors who bought nothing); basket adds are events over sessions.
   const headers = ['Variant', 'Visitors', 'Conversions', 'Revenue count', 'Revenue mean', 'Revenue sd', 'Basket adds', 'Sessions', 'Planned share'];
   headers.forEach((h, i) => s.put(`${columnLetters(i)}3`, h));
-  s.strong('A1', ...headers.map((_, i) => `${columnLetters(i)}3`), 'A10', 'A56', 'A81', 'K10', 'K54');
+  s.strong('A1', ...headers.map((_, i) => `${columnLetters(i)}3`), 'A9', 'A55', 'A80', 'K9', 'K53');
   CHECKOUT_VARIANTS.forEach((variant, r) => {
     variant.forEach((value, c) => s.put(`${columnLetters(c)}${4 + r}`, value, c === 4 || c === 5 ? '0.00' : undefined));
   });
   s.put('A8', 'Cautions: fix the sample size before starting and read the result once (peeking inflates false alarms); check the split (SRM below); with many variants some look good by chance; for health or other regulated decisions ask a qualified statistician.');
 
-  const block = (row: number, label: string, formula: string, format?: string): void => {
+  const names = ['=$A$4', '=$A$5', '=$A$6'];
+  /**
+   * A spilled result at B`row`: its label (and column headings) in the row above, the variants' names
+   * beside its rows, its format over the whole block.
+   */
+  const spilled = (row: number, label: string, formula: string, format: string, columns: readonly string[] = []): void => {
+    s.put(`A${row - 1}`, label);
+    columns.forEach((heading, c) => s.put(`${columnLetters(1 + c)}${row - 1}`, heading));
+    names.forEach((name, i) => s.put(`A${row + i}`, name));
+    s.put(`B${row}`, formula);
+    s.formatBlock(`B${row}`, names.length, Math.max(1, columns.length), format);
+  };
+  /** A single result at B`row` with its label beside it. */
+  const single = (row: number, label: string, formula: string, format?: string): void => {
     s.put(`A${row}`, label);
     s.put(`B${row}`, formula, format);
   };
-  s.put('A10', 'Conversion read-out (Beta–Binomial, uniform prior)');
-  block(11, 'Posterior mean conversion rate (POSTERIOR_MEAN)', '=ABTEST.POSTERIOR_MEAN(C4:C6, B4:B6)', '0.00%');
-  block(15, '95% credible interval for the rate: lower, upper (RATE_INTERVAL)', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6)', '0.00%');
-  block(19, '90% highest-density interval: lower, upper (RATE_INTERVAL, "hdi")', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6, 0.9, , , "hdi")', '0.00%');
-  block(23, 'Probability of having the highest rate (PROB_HIGHEST)', '=ABTEST.PROB_HIGHEST(C4:C6, B4:B6)', '0.0%');
-  block(27, 'Probability of beating the control (PROB_ABOVE_CONTROL)', '=ABTEST.PROB_ABOVE_CONTROL(C4:C6, B4:B6)', '0.0%');
-  block(31, 'Lift over the control: lower, median, upper (LIFT_INTERVAL)', '=ABTEST.LIFT_INTERVAL(C4:C6, B4:B6)', '0.0%');
-  block(35, 'Rate minus the control’s: lower, median, upper (RATE_DIFF_INTERVAL)', '=ABTEST.RATE_DIFF_INTERVAL(C4:C6, B4:B6)', '0.000%');
-  block(39, 'Probability the lift is above 5% (PROB_LIFT_ABOVE)', '=ABTEST.PROB_LIFT_ABOVE(C4:C6, B4:B6, 0.05)', '0.0%');
-  block(43, 'Expected loss if chosen, in rate units (EXPECTED_LOSS)', '=ABTEST.EXPECTED_LOSS(C4:C6, B4:B6)', '0.000%');
-  block(47, 'What to do now (DECISION)', '=ABTEST.DECISION(C4:C6, B4:B6, , A4:A6)');
-  block(49, 'Probability of the highest rate with the prior fitted on "Past tests" (PROB_HIGHEST)', "=ABTEST.PROB_HIGHEST(C4:C6, B4:B6, 'Past tests'!B17, 'Past tests'!C17)", '0.0%');
-  block(53, 'Split check p-value; tiny means a broken split (SRM_PVALUE)', '=ABTEST.SRM_PVALUE(B4:B6, I4:I6)', '0.0000');
+  s.put('A9', 'Conversion read-out (Beta–Binomial, uniform prior)');
+  spilled(11, 'Posterior mean conversion rate (POSTERIOR_MEAN)', '=ABTEST.POSTERIOR_MEAN(C4:C6, B4:B6)', '0.00%');
+  spilled(15, '95% credible interval for the rate (RATE_INTERVAL)', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6)', '0.00%', ['lower', 'upper']);
+  spilled(19, '90% highest-density interval (RATE_INTERVAL, "hdi")', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6, 0.9, , , "hdi")', '0.00%', ['lower', 'upper']);
+  spilled(23, 'Probability of having the highest rate (PROB_HIGHEST)', '=ABTEST.PROB_HIGHEST(C4:C6, B4:B6)', '0.0%');
+  spilled(27, 'Probability of beating the control (PROB_ABOVE_CONTROL)', '=ABTEST.PROB_ABOVE_CONTROL(C4:C6, B4:B6)', '0.0%');
+  spilled(31, 'Lift over the control, relative (LIFT_INTERVAL)', '=ABTEST.LIFT_INTERVAL(C4:C6, B4:B6)', '0.0%', ['lower', 'median', 'upper']);
+  spilled(35, 'Rate minus the control’s, in rate points (RATE_DIFF_INTERVAL)', '=ABTEST.RATE_DIFF_INTERVAL(C4:C6, B4:B6)', '0.000%', ['lower', 'median', 'upper']);
+  spilled(39, 'Probability the lift is above 5% (PROB_LIFT_ABOVE)', '=ABTEST.PROB_LIFT_ABOVE(C4:C6, B4:B6, 0.05)', '0.0%');
+  spilled(43, 'Expected loss if chosen, in rate points: 0.300% = 0.3 percentage points (EXPECTED_LOSS)', '=ABTEST.EXPECTED_LOSS(C4:C6, B4:B6)', '0.000%');
+  single(47, 'What to do now (DECISION)', '=ABTEST.DECISION(C4:C6, B4:B6, , A4:A6)');
+  spilled(49, 'Probability of the highest rate with the prior fitted on "Past tests" (PROB_HIGHEST)', "=ABTEST.PROB_HIGHEST(C4:C6, B4:B6, 'Past tests'!B17, 'Past tests'!C17)", '0.0%');
+  single(53, 'Split check p-value; tiny means a broken split (SRM_PVALUE)', '=ABTEST.SRM_PVALUE(B4:B6, I4:I6)', '0.0000');
 
-  s.put('A56', 'Revenue per visitor (Normal model from count, mean and sd)');
-  block(57, '95% credible interval for the mean: lower, upper (MEAN_INTERVAL)', '=ABTEST.MEAN_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000');
-  block(61, 'Probability of the highest mean (MEAN_PROB_HIGHEST)', '=ABTEST.MEAN_PROB_HIGHEST(D4:D6, E4:E6, F4:F6)', '0.0%');
-  block(65, 'Probability the mean beats the control (MEAN_PROB_ABOVE_CONTROL)', '=ABTEST.MEAN_PROB_ABOVE_CONTROL(D4:D6, E4:E6, F4:F6)', '0.0%');
-  block(69, 'Mean minus the control’s: lower, median, upper (MEAN_DIFF_INTERVAL)', '=ABTEST.MEAN_DIFF_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000');
-  block(73, 'Lift of the mean: lower, median, upper (MEAN_LIFT_INTERVAL)', '=ABTEST.MEAN_LIFT_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.0%');
-  block(77, 'Expected loss of the mean if chosen (MEAN_EXPECTED_LOSS)', '=ABTEST.MEAN_EXPECTED_LOSS(D4:D6, E4:E6, F4:F6)', '0.0000');
+  s.put('A55', 'Revenue per visitor (Normal model from count, mean and sd)');
+  spilled(57, '95% credible interval for the mean revenue (MEAN_INTERVAL)', '=ABTEST.MEAN_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000', ['lower', 'upper']);
+  spilled(61, 'Probability of the highest mean (MEAN_PROB_HIGHEST)', '=ABTEST.MEAN_PROB_HIGHEST(D4:D6, E4:E6, F4:F6)', '0.0%');
+  spilled(65, 'Probability the mean beats the control (MEAN_PROB_ABOVE_CONTROL)', '=ABTEST.MEAN_PROB_ABOVE_CONTROL(D4:D6, E4:E6, F4:F6)', '0.0%');
+  spilled(69, 'Mean minus the control’s (MEAN_DIFF_INTERVAL)', '=ABTEST.MEAN_DIFF_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000', ['lower', 'median', 'upper']);
+  spilled(73, 'Lift of the mean, relative (MEAN_LIFT_INTERVAL)', '=ABTEST.MEAN_LIFT_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.0%', ['lower', 'median', 'upper']);
+  spilled(77, 'Expected loss of the mean if chosen, in revenue per visitor (MEAN_EXPECTED_LOSS)', '=ABTEST.MEAN_EXPECTED_LOSS(D4:D6, E4:E6, F4:F6)', '0.0000');
 
-  s.put('A81', 'Basket adds per session (Gamma–Poisson)');
-  block(82, '95% credible interval for adds per session: lower, upper (EVENTS_RATE_INTERVAL)', '=ABTEST.EVENTS_RATE_INTERVAL(G4:G6, H4:H6)', '0.0000');
-  block(86, 'Probability of the highest rate (EVENTS_PROB_HIGHEST)', '=ABTEST.EVENTS_PROB_HIGHEST(G4:G6, H4:H6)', '0.0%');
-  block(90, 'Probability of beating the control (EVENTS_PROB_ABOVE_CONTROL)', '=ABTEST.EVENTS_PROB_ABOVE_CONTROL(G4:G6, H4:H6)', '0.0%');
-  block(94, 'Lift over the control: lower, median, upper (EVENTS_LIFT_INTERVAL)', '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)', '0.0%');
-  block(98, 'Expected loss if chosen (EVENTS_EXPECTED_LOSS)', '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)', '0.00000');
+  s.put('A80', 'Basket adds per session (Gamma–Poisson)');
+  spilled(82, '95% credible interval for adds per session (EVENTS_RATE_INTERVAL)', '=ABTEST.EVENTS_RATE_INTERVAL(G4:G6, H4:H6)', '0.0000', ['lower', 'upper']);
+  spilled(86, 'Probability of the highest rate (EVENTS_PROB_HIGHEST)', '=ABTEST.EVENTS_PROB_HIGHEST(G4:G6, H4:H6)', '0.0%');
+  spilled(90, 'Probability of beating the control (EVENTS_PROB_ABOVE_CONTROL)', '=ABTEST.EVENTS_PROB_ABOVE_CONTROL(G4:G6, H4:H6)', '0.0%');
+  spilled(94, 'Lift over the control, relative (EVENTS_LIFT_INTERVAL)', '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)', '0.0%', ['lower', 'median', 'upper']);
+  spilled(98, 'Expected loss if chosen, in adds per session (EVENTS_EXPECTED_LOSS)', '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)', '0.00000');
 
   revenueFromTotals(s);
 
-  s.put('K10', 'Chart table: posterior densities (POSTERIOR_DENSITY, 41 points)');
-  s.put('K11', '=ABTEST.POSTERIOR_DENSITY(C4:C6, B4:B6, 41)', '0.0000');
-  s.put('K54', 'Chart table: lift densities (LIFT_DENSITY, 41 points)');
-  s.put('K55', '=ABTEST.LIFT_DENSITY(C4:C6, B4:B6, 41)', '0.0000');
+  // Chart tables: a heading row with the variants' names over their density columns.
+  s.put('K9', 'Chart table: posterior densities (POSTERIOR_DENSITY, 41 points)');
+  ['Conversion rate', ...names].forEach((heading, c) => s.put(`${columnLetters(10 + c)}10`, heading));
+  s.put('K11', '=ABTEST.POSTERIOR_DENSITY(C4:C6, B4:B6, 41)');
+  s.formatBlock('K11', 41, 1, '0.00%');
+  s.formatBlock('L11', 41, 3, '0.00');
+  s.put('K53', 'Chart table: lift densities (LIFT_DENSITY, 41 points)');
+  ['Lift over control', '=$A$5', '=$A$6'].forEach((heading, c) => s.put(`${columnLetters(10 + c)}54`, heading));
+  s.put('K55', '=ABTEST.LIFT_DENSITY(C4:C6, B4:B6, 41)');
+  s.formatBlock('K55', 41, 1, '0.0%');
+  s.formatBlock('L55', 41, 2, '0.00');
   return s.done();
 }
 
@@ -173,38 +201,48 @@ function checkoutSheet(): DemoSheet {
  * with the REVENUE_ functions, and the "no worse than" probabilities and decisions of the other metrics.
  */
 function revenueFromTotals(s: ReturnType<typeof sheetBuilder>): void {
-  s.put('A102', 'Revenue per visitor from totals (orders × average order value; invented totals)');
+  s.put('A101', 'Revenue per visitor from totals (orders × average order value; invented totals)');
   const headers = ['Variant', 'Orders', 'Visitors', 'Revenue', 'Order sd'];
-  headers.forEach((h, i) => s.put(`${columnLetters(i)}103`, h));
-  s.strong('A102', ...headers.map((_, i) => `${columnLetters(i)}103`));
-  // revenue = average revenue per visitor × visitors of rows 4–6; order sd invented
+  headers.forEach((h, i) => s.put(`${columnLetters(i)}102`, h));
+  s.strong('A101', ...headers.map((_, i) => `${columnLetters(i)}102`));
+  // orders = conversions and visitors of rows 4–6; revenue = average revenue per visitor × visitors;
+  // the order values' standard deviation is invented
   const orderSd = [35, 37, 36];
   CHECKOUT_VARIANTS.forEach((variant, r) => {
-    const row = 104 + r;
-    s.put(`A${row}`, variant[0]);
+    const row = 103 + r;
+    s.put(`A${row}`, `=$A$${4 + r}`);
     s.put(`B${row}`, `=C${4 + r}`);
     s.put(`C${row}`, `=B${4 + r}`);
     s.put(`D${row}`, Math.round(variant[4] * variant[1] * 100) / 100, '0.00');
     s.put(`E${row}`, orderSd[r] as number, '0.00');
   });
-  const block = (row: number, label: string, formula: string, format?: string): void => {
-    s.put(`A${row}`, label);
-    s.put(`B${row}`, formula, format);
+  const names = ['=$A$4', '=$A$5', '=$A$6'];
+  /** A spilled result at B`row`, its label and headings in the row above and the names beside it. */
+  const spilled = (row: number, label: string, formula: string, format: string, columns: readonly string[] = []): void => {
+    s.put(`A${row - 1}`, label);
+    columns.forEach((heading, c) => s.put(`${columnLetters(1 + c)}${row - 1}`, heading));
+    names.forEach((name, i) => s.put(`A${row + i}`, name));
+    s.put(`B${row}`, formula);
+    s.formatBlock(`B${row}`, names.length, Math.max(1, columns.length), format);
   };
-  const totals = 'B104:B106, C104:C106, D104:D106';
-  block(108, '95% credible interval for revenue per visitor: lower, upper (REVENUE_INTERVAL)', `=ABTEST.REVENUE_INTERVAL(${totals})`, '0.000');
-  block(112, 'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)', `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`, '0.0%');
-  block(116, 'Probability of beating the control (REVENUE_PROB_ABOVE_CONTROL, with order sd)', `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E104:E106)`, '0.0%');
-  block(120, 'Lift over the control: lower, median, upper (REVENUE_LIFT_INTERVAL, with order sd)', `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E104:E106)`, '0.0%');
-  block(124, 'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)', `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E104:E106)`, '0.0%');
-  block(128, 'Expected loss if chosen, per visitor (REVENUE_EXPECTED_LOSS, with order sd)', `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E104:E106)`, '0.0000');
-  block(132, 'What to do on revenue (REVENUE_DECISION, with order sd)', `=ABTEST.REVENUE_DECISION(${totals}, E104:E106, , A104:A106)`);
-  block(134, 'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)', '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)', '0.0%');
-  block(138, 'What to do on the revenue mean (MEAN_DECISION)', '=ABTEST.MEAN_DECISION(D4:D6, E4:E6, F4:F6, , A4:A6)');
-  block(140, 'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)', '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)', '0.0%');
-  block(144, 'What to do on basket adds (EVENTS_DECISION)', '=ABTEST.EVENTS_DECISION(G4:G6, H4:H6, , A4:A6)');
+  const single = (row: number, label: string, formula: string): void => {
+    s.put(`A${row}`, label);
+    s.put(`B${row}`, formula);
+  };
+  const totals = 'B103:B105, C103:C105, D103:D105';
+  spilled(108, '95% credible interval for revenue per visitor (REVENUE_INTERVAL)', `=ABTEST.REVENUE_INTERVAL(${totals})`, '0.000', ['lower', 'upper']);
+  spilled(112, 'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)', `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`, '0.0%');
+  spilled(116, 'Probability of beating the control, with order sd (REVENUE_PROB_ABOVE_CONTROL)', `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E103:E105)`, '0.0%');
+  spilled(120, 'Lift over the control, relative, with order sd (REVENUE_LIFT_INTERVAL)', `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E103:E105)`, '0.0%', ['lower', 'median', 'upper']);
+  spilled(124, 'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)', `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E103:E105)`, '0.0%');
+  spilled(128, 'Expected loss if chosen, per visitor, with order sd (REVENUE_EXPECTED_LOSS)', `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E103:E105)`, '0.0000');
+  single(131, 'What to do on revenue (REVENUE_DECISION, with order sd)', `=ABTEST.REVENUE_DECISION(${totals}, E103:E105, , A103:A105)`);
+  spilled(134, 'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)', '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)', '0.0%');
+  single(137, 'What to do on the revenue mean (MEAN_DECISION)', '=ABTEST.MEAN_DECISION(D4:D6, E4:E6, F4:F6, , A4:A6)');
+  spilled(140, 'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)', '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)', '0.0%');
+  single(143, 'What to do on basket adds (EVENTS_DECISION)', '=ABTEST.EVENTS_DECISION(G4:G6, H4:H6, , A4:A6)');
   s.put(
-    'A146',
+    'A145',
     'Caution: without order sd the order values are taken as exponential, which understates the spread when a few orders are very large; a decision on revenue can differ from one on conversions.',
   );
 }
@@ -225,14 +263,22 @@ function pastTestsSheet(): DemoSheet {
     s.put(`B${4 + r}`, conversions);
     s.put(`C${4 + r}`, visitors);
   });
-  s.put('A17', 'Prior fitted to these results: alpha, beta (PRIOR_FROM_HISTORY, likelihood)');
-  s.put('B17', '=ABTEST.PRIOR_FROM_HISTORY(B4:B15, C4:C15)', '0.00');
-  s.put('A18', 'Prior fitted by the method of moments: alpha, beta (PRIOR_FROM_HISTORY, "moments")');
-  s.put('B18', '=ABTEST.PRIOR_FROM_HISTORY(B4:B15, C4:C15, "moments")', '0.00');
-  s.put('A20', 'Prior with mean 4% worth 500 visitors: alpha, beta (PRIOR_FROM_MEAN)');
-  s.put('B20', '=ABTEST.PRIOR_FROM_MEAN(0.04, 500)', '0.00');
-  s.put('A21', 'Prior whose 90% interval is 3% to 6%: alpha, beta (PRIOR_FROM_INTERVAL)');
-  s.put('B21', '=ABTEST.PRIOR_FROM_INTERVAL(0.03, 0.06)', '0.00');
+  // Each prior spills alpha, beta into two cells: headings above them say which is which.
+  for (const row of [16, 19]) {
+    s.put(`B${row}`, 'alpha');
+    s.put(`C${row}`, 'beta');
+    s.strong(`B${row}`, `C${row}`);
+  }
+  s.put('A17', 'Prior fitted to these results (PRIOR_FROM_HISTORY, likelihood)');
+  s.put('B17', '=ABTEST.PRIOR_FROM_HISTORY(B4:B15, C4:C15)');
+  s.put('A18', 'Prior fitted by the method of moments (PRIOR_FROM_HISTORY, "moments")');
+  s.put('B18', '=ABTEST.PRIOR_FROM_HISTORY(B4:B15, C4:C15, "moments")');
+  s.put('A20', 'Prior with mean 4% worth 500 visitors (PRIOR_FROM_MEAN)');
+  s.put('B20', '=ABTEST.PRIOR_FROM_MEAN(0.04, 500)');
+  s.put('A21', 'Prior whose 90% interval is 3% to 6% (PRIOR_FROM_INTERVAL)');
+  s.put('B21', '=ABTEST.PRIOR_FROM_INTERVAL(0.03, 0.06)');
+  s.formatBlock('B17', 2, 2, '0.00');
+  s.formatBlock('B20', 2, 2, '0.00');
   s.put('A23', 'Caution: a strong prior pulls new results toward the past. Compare with the uniform prior before acting (prior sensitivity).');
   return s.done();
 }

@@ -2,21 +2,28 @@
  * The preview's stand-in for the `Office` and `Excel` globals of Office.js, implementing exactly the subset
  * the side panel is allowed to use (see DEVELOPERS.md / the side-panel brief) on top of a PreviewWorkbook:
  *
- * - `Office.onReady(cb?)` → Promise of `{ host: 'Excel', platform: 'OfficeOnline' }`.
+ * - `Office.onReady(cb?)` → Promise of `{ host: 'Excel', platform: 'OfficeOnline' }`;
+ *   `Office.context.requirements.isSetSupported('ExcelApi', v)` → true up to 1.16 (the subset below).
  * - `Excel.run(async (context) => …)`, `context.sync()`, `context.workbook.getSelectedRange()`,
- *   `worksheets.getItem(name)`, `worksheets.getActiveWorksheet()`, `workbook.onSelectionChanged.add(h)`.
- * - Worksheet `name`, `getRange(a1)`, `charts.add(type, range, seriesBy)` → Chart (`title.text`,
- *   `setPosition(from, to)`, `name`).
- * - Range `load(…)` of address, values, formulas, rowCount, columnCount, numberFormat; writes to
- *   `formulas`, `values`, `numberFormat`, `format.font.bold/color`, `format.fill.color`,
- *   `format.autofitColumns()`; `getCell`, `getOffsetRange`, `getResizedRange`, `worksheet`.
+ *   `worksheets.getItem(name)`, `getItemOrNullObject(name)`, `getActiveWorksheet()`, `add(name)`,
+ *   `load('items/name')` → `items`, `workbook.onSelectionChanged.add(h)`.
+ * - Worksheet `name`, `getRange(a1)`, `getUsedRangeOrNullObject(valuesOnly?)`, `activate()`, `delete()`,
+ *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `setPosition(from, to)`, `name`).
+ * - Range `load(…)` of address, values, valuesAsJson, formulas, rowCount, columnCount, numberFormat;
+ *   writes to `formulas`, `values`, `numberFormat` (arrays of the range's size, as the API reference
+ *   asks), `format.font.bold/color`, `format.fill.color`, `format.fill.clear()`, `format.columnWidth`
+ *   (also loadable), `format.autofitColumns()`; `getCellProperties` (font bold/color, fill color/pattern)
+ *   and `setCellProperties`; `getCell`, `getColumn`, `getOffsetRange`, `getResizedRange`,
+ *   `getSpillParentOrNullObject`, `worksheet`.
  *
  * As in Office.js, commands are queued and run at `context.sync()`; loaded properties are readable only
  * after it; a failed command rejects `sync()` with an Error whose `code` is a string ('InvalidArgument',
- * 'ItemNotFound', 'PropertyNotLoaded', 'GeneralException'). Errors and promises are made in the realm of
- * the window given (the side-panel iframe), so `instanceof Error` holds there.
+ * 'ItemNotFound', 'PropertyNotLoaded', 'GeneralException'), and the commands before it stay applied.
+ * `PreviewWorkbook.failNextWrite` makes the next sync that writes fail part-way, on purpose (for tests).
+ * Errors and promises are made in the realm of the window given (the side-panel iframe), so
+ * `instanceof Error` holds there.
  */
-import { parseBlock, type CellBlock, type PreviewWorkbook } from './previewWorkbook';
+import { DEFAULT_COLUMN_PX, parseBlock, type CellBlock, type PreviewWorkbook } from './previewWorkbook';
 
 /** What the realm provides: its Error, Promise and Array constructors. */
 export interface Realm {
@@ -47,10 +54,24 @@ function realmRows<T>(realm: Realm, rows: T[][]): T[][] {
   return make.from(rows, (row) => make.from(row));
 }
 
-/** A queued command; `reads` marks one that needs up-to-date values (loads, autofit). */
+/** A queued command; `reads` marks one that needs up-to-date values (loads, autofit); `writes` one that changes the workbook. */
 interface Command {
   readonly run: () => void;
   readonly reads: boolean;
+  readonly writes: boolean;
+}
+
+/** The Excel API versions the stand-in answers yes to (for the subset it implements). */
+const OFFERED_API = '1.16';
+
+function versionAtMost(version: string, most: string): boolean {
+  const a = version.split('.').map(Number);
+  const b = most.split('.').map(Number);
+  for (let i = 0; i < Math.max(a.length, b.length); i += 1) {
+    const d = (a[i] ?? 0) - (b[i] ?? 0);
+    if (d !== 0) return d < 0;
+  }
+  return true;
 }
 
 /** Makes an Error with a string `code`, as Office.js rejects `context.sync()`. */
@@ -71,8 +92,13 @@ class RequestContext {
   ) {
     this.workbook = new WorkbookProxy(this);
   }
+  /** A command that changes the workbook; `reads` when it also needs up-to-date values first (autofit). */
   enqueue(run: () => void, reads = false): void {
-    this.queue.push({ run, reads });
+    this.queue.push({ run, reads, writes: true });
+  }
+  /** A load: reads only. */
+  enqueueRead(run: () => void): void {
+    this.queue.push({ run, reads: true, writes: false });
   }
   fail(code: string, message: string): never {
     throw officeError(this.realm, code, message);
@@ -83,12 +109,19 @@ class RequestContext {
     return new this.realm.Promise<void>((resolve, reject) => {
       // Run after the caller's current synchronous code, as a real round trip would.
       setTimeout(() => {
+        // A failure asked for by a test: the next batch that writes stops after part of its writes.
+        const writes = commands.filter((command) => command.writes).length;
+        const failure = writes > 0 ? this.book.takeWriteFailure() : undefined;
+        const stopAfter = failure === undefined ? Infinity : Math.floor(writes * failure.fraction);
         try {
           // One batch: HyperFormula evaluates before reads and once at the end; the grid redraws once.
           this.book.batch(() => {
+            let written = 0;
             for (const command of commands) {
+              if (command.writes && written >= stopAfter) throw officeError(this.realm, failure?.code ?? 'GeneralException', failure?.message ?? 'failed');
               if (command.reads) this.book.settle();
               command.run();
+              if (command.writes) written += 1;
             }
           });
           resolve();
@@ -110,21 +143,32 @@ function loadList(properties: unknown): string[] | undefined {
   return select === undefined ? undefined : loadList(select);
 }
 
-const RANGE_PROPERTIES = ['address', 'values', 'formulas', 'rowCount', 'columnCount', 'numberFormat'] as const;
+const RANGE_PROPERTIES = ['address', 'values', 'valuesAsJson', 'formulas', 'rowCount', 'columnCount', 'numberFormat'] as const;
 type RangeProperty = (typeof RANGE_PROPERTIES)[number];
 
-/** Checks that a 2-D array matches the block (or is a single value, which Excel spreads over it). */
+/** Excel's message for an array that does not fit its range (as quoted in issue #11). */
+const SIZE_MISMATCH = "The number of rows or columns in the input array doesn't match the size or dimensions of the range.";
+
+/**
+ * Checks that a 2-D array has the block's size. The API reference promises nothing for a single value
+ * spread over a larger range, so the stand-in refuses it as Excel may, with Excel's message.
+ */
 function shapeFor(ctx: RequestContext, block: CellBlock, data: unknown, what: string): unknown[][] {
-  const local = localRows(data);
-  if (local === undefined) return ctx.fail('InvalidArgument', `${what} must be a 2-D array`);
-  const rows = local;
-  if (rows.length === 1 && rows[0]?.length === 1) {
-    return Array.from({ length: block.rows }, () => Array.from({ length: block.columns }, () => rows[0]?.[0]));
-  }
+  const rows = localRows(data);
+  if (rows === undefined) return ctx.fail('InvalidArgument', `${what} must be a 2-D array`);
   if (rows.length !== block.rows || rows.some((row) => row.length !== block.columns)) {
-    ctx.fail('InvalidArgument', `${what}: the array is ${rows.length}×${rows[0]?.length ?? 0} but the range is ${block.rows}×${block.columns}`);
+    ctx.fail('InvalidArgument', `${SIZE_MISMATCH} (${what}: the array is ${rows.length}×${rows[0]?.length ?? 0}, the range ${block.rows}×${block.columns})`);
   }
   return rows;
+}
+
+/** A cell as valuesAsJson gives it (the basic types only: the preview has no entities). */
+function cellJson(value: number | string | boolean, isError: boolean): Record<string, unknown> {
+  if (isError) return { type: 'Error', basicType: 'Error', basicValue: value };
+  if (value === '') return { type: 'Empty', basicType: 'Empty', basicValue: '' };
+  if (typeof value === 'number') return { type: 'Double', basicType: 'Double', basicValue: value };
+  if (typeof value === 'boolean') return { type: 'Boolean', basicType: 'Boolean', basicValue: value };
+  return { type: 'String', basicType: 'String', basicValue: value };
 }
 
 /** A cell content Excel would accept through `values`/`formulas`. */
@@ -153,7 +197,7 @@ class RangeProxy {
     const wanted = (loadList(properties) ?? [...RANGE_PROPERTIES]).filter((p): p is RangeProperty =>
       (RANGE_PROPERTIES as readonly string[]).includes(p),
     );
-    this.ctx.enqueue(() => {
+    this.ctx.enqueueRead(() => {
       const block = this.resolve();
       const book = this.ctx.book;
       for (const property of wanted) {
@@ -162,12 +206,22 @@ class RangeProxy {
         if (property === 'columnCount') this.loadedValues.columnCount = block.columns;
         const realm = this.ctx.realm;
         if (property === 'values') this.loadedValues.values = realmRows(realm, book.values(block));
+        if (property === 'valuesAsJson') {
+          this.loadedValues.valuesAsJson = realmRows(
+            realm,
+            grid(block, (r, c) => {
+              const view = book.cell(block.sheet, r, c);
+              return cellJson(view.value, view.kind === 'error');
+            }),
+          );
+        }
         if (property === 'formulas') {
           this.loadedValues.formulas = realmRows(
             realm,
             grid(block, (r, c) => {
               const view = book.cell(block.sheet, r, c);
-              return view.input.startsWith('=') ? view.input : view.spilled ? view.value : view.kind === 'number' ? view.value : view.input;
+              // A formula's text; for a constant its value, as Excel gives it (text without its apostrophe).
+              return view.input.startsWith('=') ? view.input : view.value;
             }),
           );
         }
@@ -175,8 +229,13 @@ class RangeProxy {
           this.loadedValues.numberFormat = realmRows(realm, grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'));
         }
       }
-    }, true);
+    });
     return this;
+  }
+
+  /** Always false: a range made by getRange is never a null object (see getSpillParentOrNullObject). */
+  get isNullObject(): boolean {
+    return false;
   }
 
   private read(property: RangeProperty): unknown {
@@ -197,6 +256,9 @@ class RangeProxy {
   }
   get values(): (string | number | boolean)[][] {
     return this.read('values') as (string | number | boolean)[][];
+  }
+  get valuesAsJson(): Record<string, unknown>[][] {
+    return this.read('valuesAsJson') as Record<string, unknown>[][];
   }
   set values(data: unknown[][]) {
     this.writeContents(data, 'values');
@@ -252,8 +314,89 @@ class RangeProxy {
     });
   }
 
+  getColumn(column: number): RangeProxy {
+    return new RangeProxy(this.ctx, () => {
+      const b = this.resolve();
+      if (column < 0 || column >= b.columns) this.ctx.fail('InvalidArgument', `column ${column} is outside the range`);
+      return { ...b, col: b.col + column, columns: 1 };
+    });
+  }
+
+  /** Font bold/colour and fill colour/pattern of each cell (ExcelApi 1.9's CellProperties subset). */
+  getCellProperties(_options?: unknown): { value: unknown[][] } {
+    const result = { value: [] as unknown[][] };
+    this.ctx.enqueueRead(() => {
+      const b = this.resolve();
+      result.value = realmRows(
+        this.ctx.realm,
+        grid(b, (r, c) => {
+          const style = this.ctx.book.style(b.sheet, r, c);
+          return {
+            format: {
+              font: { bold: style?.bold === true, color: (style?.color ?? '#000000').toUpperCase() },
+              fill: style?.fill ? { color: style.fill.toUpperCase(), pattern: 'Solid' } : { color: '#FFFFFF', pattern: 'None' },
+            },
+          };
+        }),
+      );
+    });
+    return result;
+  }
+
+  setCellProperties(data: unknown[][]): void {
+    this.ctx.enqueue(() => {
+      const b = this.resolve();
+      const rows = shapeFor(this.ctx, b, data, 'setCellProperties');
+      rows.forEach((line, r) =>
+        line.forEach((cell, c) => {
+          const format = (cell as { format?: { font?: { bold?: unknown; color?: unknown }; fill?: { color?: unknown } } }).format;
+          const patch: { bold?: boolean; color?: string; fill?: string } = {};
+          if (format?.font?.bold !== undefined) patch.bold = Boolean(format.font.bold);
+          if (format?.font?.color !== undefined) patch.color = String(format.font.color);
+          if (format?.fill?.color !== undefined) patch.fill = String(format.fill.color);
+          this.ctx.book.setStyle(b.sheet, b.row + r, b.col + c, patch);
+        }),
+      );
+      this.ctx.book.touch();
+    });
+  }
+
+  /** The formula cell whose spill shows in this range's top-left cell, or a null object. */
+  getSpillParentOrNullObject(): NullableRange {
+    const result = new NullableRange(this.ctx);
+    this.ctx.enqueueRead(() => {
+      const b = this.resolve();
+      const anchor = this.ctx.book.spillAnchor(b.sheet, b.row, b.col);
+      result.settle(anchor === undefined ? null : this.ctx.book.qualifiedAddress({ sheet: b.sheet, row: anchor.row, col: anchor.col, rows: 1, columns: 1 }));
+    });
+    return result;
+  }
+
   get worksheet(): WorksheetProxy {
     return new WorksheetProxy(this.ctx, () => this.resolve().sheet);
+  }
+}
+
+/** A range that may be a null object (spill parents, used ranges); its address and isNullObject are known after sync. */
+class NullableRange {
+  private state: { address: string | null } | undefined;
+  constructor(private readonly ctx: RequestContext) {}
+  settle(address: string | null): void {
+    this.state = { address };
+  }
+  load(_properties?: unknown): this {
+    return this;
+  }
+  private known(): { address: string | null } {
+    if (this.state === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call context.sync() before reading this range.');
+    return this.state;
+  }
+  get isNullObject(): boolean {
+    return this.known().address === null;
+  }
+  get address(): string {
+    const { address } = this.known();
+    return address ?? this.ctx.fail('InvalidArgument', 'The range is a null object.');
   }
 }
 
@@ -270,7 +413,7 @@ function checked(ctx: RequestContext, block: CellBlock): CellBlock {
 
 class RangeFormatProxy {
   readonly font: { bold: boolean; color: string };
-  readonly fill: { color: string };
+  readonly fill: { color: string; clear(): void };
   constructor(
     private readonly ctx: RequestContext,
     private readonly range: RangeProxy,
@@ -302,7 +445,34 @@ class RangeFormatProxy {
       get color(): string {
         return ctx.fail('PropertyNotLoaded', 'format.fill.color is write-only in the preview');
       },
+      clear(): void {
+        style({ fill: '' });
+      },
     };
+  }
+
+  private loadedWidth: number | undefined;
+
+  /** Loads `columnWidth` (the width of the range's first column, in points as Excel gives it: pixels × 0.75). */
+  load(_properties?: unknown): this {
+    this.ctx.enqueueRead(() => {
+      const b = this.range.resolve();
+      this.loadedWidth = (this.ctx.book.columnWidth(b.sheet, b.col) ?? DEFAULT_COLUMN_PX) * 0.75;
+    });
+    return this;
+  }
+
+  get columnWidth(): number {
+    if (this.loadedWidth === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'columnWidth' is not available. Call load('columnWidth') and context.sync() first.");
+    return this.loadedWidth;
+  }
+
+  set columnWidth(points: number) {
+    this.ctx.enqueue(() => {
+      const b = this.range.resolve();
+      for (let c = 0; c < b.columns; c += 1) this.ctx.book.setColumnWidth(b.sheet, b.col + c, Number(points) / 0.75);
+      this.ctx.book.touch();
+    });
   }
 
   /** Widens each column of the range to fit its longest shown text (about 7 px a character). */
@@ -366,10 +536,12 @@ class ChartProxy {
 
 class WorksheetProxy {
   private loadedName: string | undefined;
+  private existence: boolean | undefined;
   readonly charts: { add: (type: string, source: RangeProxy, seriesBy?: string) => ChartProxy };
   constructor(
     private readonly ctx: RequestContext,
-    private readonly resolveSheet: () => number,
+    /** Resolves the sheet's id when commands run; undefined only for a getItemOrNullObject that found none. */
+    private readonly resolveSheetOrNull: () => number | undefined,
   ) {
     this.charts = {
       add: (type: string, source: RangeProxy, seriesBy?: string): ChartProxy => {
@@ -387,13 +559,23 @@ class WorksheetProxy {
       },
     };
   }
+  private resolveSheet(): number {
+    const id = this.resolveSheetOrNull();
+    return id ?? this.ctx.fail('ItemNotFound', 'The worksheet does not exist.');
+  }
   load(properties?: unknown): this {
     const wanted = loadList(properties);
-    this.ctx.enqueue(() => {
-      const sheet = this.resolveSheet();
-      if (wanted === undefined || wanted.includes('name')) this.loadedName = this.ctx.book.hf.getSheetName(sheet);
-    }, true);
+    this.ctx.enqueueRead(() => {
+      const sheet = this.resolveSheetOrNull();
+      this.existence = sheet !== undefined;
+      if (sheet !== undefined && (wanted === undefined || wanted.includes('name'))) this.loadedName = this.ctx.book.hf.getSheetName(sheet);
+    });
     return this;
+  }
+  /** For getItemOrNullObject: known after a load and sync. */
+  get isNullObject(): boolean {
+    if (this.existence === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    return !this.existence;
   }
   get name(): string {
     if (this.loadedName === undefined) {
@@ -411,21 +593,69 @@ class WorksheetProxy {
       return block;
     });
   }
+  /** The block from A1 to the last row and column holding a value, or a null object for an empty sheet. */
+  getUsedRangeOrNullObject(_valuesOnly?: boolean): NullableRange {
+    const result = new NullableRange(this.ctx);
+    this.ctx.enqueueRead(() => {
+      const sheet = this.resolveSheet();
+      const { height, width } = this.ctx.book.hf.getSheetDimensions(sheet);
+      result.settle(height === 0 || width === 0 ? null : this.ctx.book.qualifiedAddress({ sheet, row: 0, col: 0, rows: height, columns: width }));
+    });
+    return result;
+  }
+  activate(): void {
+    this.ctx.enqueue(() => this.ctx.book.activate(this.resolveSheet()));
+  }
+  delete(): void {
+    this.ctx.enqueue(() => this.ctx.book.removeSheet(this.resolveSheet()));
+  }
+}
+
+/** The worksheet collection's `items` after load('items/name'). */
+class WorksheetCollection {
+  private names: string[] | undefined;
+  constructor(private readonly ctx: RequestContext) {}
+  load(_properties?: unknown): this {
+    this.ctx.enqueueRead(() => {
+      this.names = this.ctx.book.sheetNames();
+    });
+    return this;
+  }
+  get items(): { name: string }[] {
+    if (this.names === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'items' is not available. Call load('items/name') and context.sync() first.");
+    return this.names.map((name) => ({ name }));
+  }
+  getItem(name: string): WorksheetProxy {
+    return new WorksheetProxy(this.ctx, () => {
+      const id = this.ctx.book.sheetId(name);
+      if (id === undefined) return this.ctx.fail('ItemNotFound', `The worksheet '${name}' does not exist.`);
+      return id;
+    });
+  }
+  getItemOrNullObject(name: string): WorksheetProxy {
+    return new WorksheetProxy(this.ctx, () => this.ctx.book.sheetId(name));
+  }
+  getActiveWorksheet(): WorksheetProxy {
+    return new WorksheetProxy(this.ctx, () => this.ctx.book.activeSheet);
+  }
+  add(name: string): WorksheetProxy {
+    this.ctx.enqueue(() => {
+      if (this.ctx.book.sheetId(name) !== undefined) this.ctx.fail('ItemAlreadyExists', `A sheet named '${name}' already exists.`);
+      try {
+        this.ctx.book.addSheet(name);
+      } catch (error) {
+        this.ctx.fail('InvalidArgument', `cannot add the sheet '${name}': ${(error as Error).message}`);
+      }
+    });
+    return this.getItem(name);
+  }
 }
 
 class WorkbookProxy {
-  readonly worksheets: { getItem: (name: string) => WorksheetProxy; getActiveWorksheet: () => WorksheetProxy };
+  readonly worksheets: WorksheetCollection;
   readonly onSelectionChanged: { add: (handler: (args?: { address: string }) => unknown) => { remove: () => void } };
   constructor(private readonly ctx: RequestContext) {
-    this.worksheets = {
-      getItem: (name: string) =>
-        new WorksheetProxy(ctx, () => {
-          const id = ctx.book.sheetId(name);
-          if (id === undefined) return ctx.fail('ItemNotFound', `The worksheet '${name}' does not exist.`);
-          return id;
-        }),
-      getActiveWorksheet: () => new WorksheetProxy(ctx, () => ctx.book.activeSheet),
-    };
+    this.worksheets = new WorksheetCollection(ctx);
     this.onSelectionChanged = {
       add: (handler) => {
         const book = ctx.book;
@@ -443,7 +673,11 @@ class WorkbookProxy {
 
 /** What {@link createOfficeStandIn} returns: the two globals to install. */
 export interface OfficeStandIn {
-  readonly Office: { onReady(callback?: (info: { host: string; platform: string }) => void): Promise<{ host: string; platform: string }>; HostType: { Excel: string } };
+  readonly Office: {
+    onReady(callback?: (info: { host: string; platform: string }) => void): Promise<{ host: string; platform: string }>;
+    HostType: { Excel: string };
+    context: { requirements: { isSetSupported(set: string, version?: string): boolean } };
+  };
   readonly Excel: { run<T>(batch: (context: RequestContext) => Promise<T> | T): Promise<T> };
 }
 
@@ -475,6 +709,11 @@ export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm): Office
         });
       },
       HostType: { Excel: 'Excel' },
+      context: {
+        requirements: {
+          isSetSupported: (set: string, version = '1.1') => set === 'ExcelApi' && versionAtMost(String(version), OFFERED_API),
+        },
+      },
     },
     Excel: {
       run<T>(batch: (context: RequestContext) => Promise<T> | T): Promise<T> {

@@ -4,11 +4,17 @@
  * PreviewWorkbook and in the GridView instance; nothing is module-level.
  *
  * Keyboard: arrows move (Shift extends), Enter/F2 edit, typing replaces, Enter commits and moves down,
- * Tab commits and moves right, Escape cancels, Delete clears.
+ * Tab commits and moves right, Escape cancels, Delete clears, Ctrl+Z (⌘Z) undoes the last edits typed in
+ * the grid or the formula bar (up to UNDO_DEPTH of them).
+ *
+ * As in a spreadsheet: text runs on over the empty, unfilled cells to its right and stops at the first
+ * cell that holds something or has a fill, and a click lands on the cell under the pointer even where
+ * such text runs over it; a number too wide for its column is rounded (General) or shown as "####"
+ * (a fixed format), never cut; each sheet keeps its own scroll position and selection.
  */
 import { renderChart } from './chartView';
 import { columnLetters } from './demoWorkbook';
-import { blockAddress, type CellBlock, type PreviewWorkbook } from './previewWorkbook';
+import { blockAddress, DEFAULT_COLUMN_PX, fitNumber, type CellBlock, type CellView, type PreviewWorkbook } from './previewWorkbook';
 
 /** The page elements the grid drives (ids in preview/src/index.html). */
 export interface GridElements {
@@ -19,7 +25,19 @@ export interface GridElements {
   readonly scroller: HTMLElement;
 }
 
-const DEFAULT_WIDTH = 92;
+/** Horizontal padding of a cell (5 px each side) and the width of one digit at the grid's 13 px font. */
+const CELL_PADDING_PX = 10;
+const CHAR_PX = 7.5;
+/** Edits Ctrl+Z can take back. */
+const UNDO_DEPTH = 50;
+
+/** What a user edit replaced: the block's inputs before it (null for blank). */
+interface UndoStep {
+  readonly sheet: number;
+  readonly row: number;
+  readonly col: number;
+  readonly before: (string | number | boolean | null)[][];
+}
 
 export class GridView {
   private table: HTMLTableElement = document.createElement('table');
@@ -28,6 +46,11 @@ export class GridView {
   private editing: { row: number; col: number; fromFormulaBar: boolean } | undefined;
   private anchor: { row: number; col: number } = { row: 0, col: 0 };
   private dragging = false;
+  private readonly undoSteps: UndoStep[] = [];
+  /** The sheet drawn last, and each sheet's scroll position when it was left. */
+  private shownSheet: number | undefined;
+  private readonly scrolls = new Map<number, { left: number; top: number }>();
+  private restoringSheet = false;
 
   constructor(
     private readonly book: PreviewWorkbook,
@@ -40,7 +63,7 @@ export class GridView {
     book.on('cells', () => this.render());
     book.on('sheet', () => this.render());
     book.on('charts', () => this.renderCharts());
-    book.on('selection', () => this.showSelection());
+    book.on('selection', () => this.showSelection(!this.restoringSheet));
     this.bindEvents();
     this.render();
   }
@@ -49,10 +72,15 @@ export class GridView {
   render(): void {
     this.renderTabs();
     const sheet = this.book.activeSheet;
+    const switching = this.shownSheet !== sheet;
+    if (switching && this.shownSheet !== undefined) {
+      this.scrolls.set(this.shownSheet, { left: this.el.scroller.scrollLeft, top: this.el.scroller.scrollTop });
+    }
     const used = this.book.usedSize(sheet);
     const charts = this.book.charts(sheet);
     const rows = Math.max(40, used.rows + 12, ...charts.map((c) => c.position.to.row + 2));
     const columns = Math.max(15, used.columns + 3, ...charts.map((c) => c.position.to.col + 2));
+    const widths = Array.from({ length: columns }, (_, c) => this.book.columnWidth(sheet, c) ?? DEFAULT_COLUMN_PX);
     const colgroup = document.createElement('colgroup');
     const corner = document.createElement('col');
     corner.style.width = '44px';
@@ -62,7 +90,7 @@ export class GridView {
     let tableWidth = 44;
     for (let c = 0; c < columns; c += 1) {
       const col = document.createElement('col');
-      const width = this.book.columnWidth(sheet, c) ?? DEFAULT_WIDTH;
+      const width = widths[c] as number;
       tableWidth += width;
       col.style.width = `${width}px`;
       colgroup.append(col);
@@ -80,32 +108,59 @@ export class GridView {
       th.textContent = String(r + 1);
       th.className = 'row-head';
       tr.append(th);
-      for (let c = 0; c < columns; c += 1) tr.append(this.renderCell(sheet, r, c));
+      const views = Array.from({ length: columns }, (_, c) => this.book.cell(sheet, r, c));
+      // Room for text to run on: the widths of the empty, unfilled cells that follow, right to left.
+      const runOn = new Array<number>(columns + 1).fill(0);
+      for (let c = columns - 1; c >= 0; c -= 1) {
+        const free = views[c]?.kind === 'empty' && this.book.style(sheet, r, c)?.fill === undefined;
+        runOn[c] = free ? (widths[c] as number) + (runOn[c + 1] as number) : 0;
+      }
+      for (let c = 0; c < columns; c += 1) {
+        tr.append(this.renderCell(sheet, r, c, views[c] as CellView, widths[c] as number, runOn[c + 1] as number));
+      }
       tbody.append(tr);
     }
     this.table.style.width = `${tableWidth}px`;
     this.table.replaceChildren(colgroup, thead, tbody);
     this.editor = undefined;
     this.editing = undefined;
-    this.showSelection();
+    if (switching) {
+      const scroll = this.scrolls.get(sheet) ?? { left: 0, top: 0 };
+      this.el.scroller.scrollLeft = scroll.left;
+      this.el.scroller.scrollTop = scroll.top;
+      this.shownSheet = sheet;
+    }
+    this.showSelection(!switching);
     this.renderCharts();
   }
 
-  private renderCell(sheet: number, row: number, col: number): HTMLTableCellElement {
+  /** One cell: `runOnPx` is the room to its right that text may run over. */
+  private renderCell(sheet: number, row: number, col: number, view: CellView, widthPx: number, runOnPx: number): HTMLTableCellElement {
     const td = document.createElement('td');
-    const view = this.book.cell(sheet, row, col);
     td.dataset.cell = `${columnLetters(col)}${row + 1}`;
     td.dataset.row = String(row);
     td.dataset.col = String(col);
-    td.textContent = view.text;
     const classes = [`kind-${view.kind}`];
     if (view.spilled) classes.push('spilled');
     if (view.input.startsWith('=')) classes.push('formula');
     if (!view.input.startsWith('=') && !view.spilled && view.kind === 'number') classes.push('input-number');
     if (view.kind === 'error') td.title = view.message ? `${view.text} ${view.message}` : view.text;
     else if (view.kind === 'text' && view.text.length > 12) td.title = view.text;
-    // Text runs on over empty cells to its right, as in a spreadsheet.
-    if (view.kind === 'text' && !view.spilled && this.book.cell(sheet, row, col + 1).kind === 'empty') classes.push('overflow');
+    if (view.kind === 'number' && typeof view.value === 'number') {
+      const chars = (widthPx - CELL_PADDING_PX) / CHAR_PX;
+      td.textContent = fitNumber(view.value, this.book.numberFormat(sheet, row, col), chars);
+      if (td.textContent !== view.text) td.title = view.text;
+    } else if (view.kind === 'text' && runOnPx > 0 && !view.spilled) {
+      // Text runs on over the empty cells to its right; the pointer passes through it to those cells.
+      classes.push('overflow');
+      const span = document.createElement('span');
+      span.className = 'cell-text';
+      span.style.width = `${widthPx + runOnPx - CELL_PADDING_PX}px`;
+      span.textContent = view.text;
+      td.append(span);
+    } else {
+      td.textContent = view.text;
+    }
     td.className = classes.join(' ');
     const style = this.book.style(sheet, row, col);
     if (style?.bold) td.style.fontWeight = '600';
@@ -115,16 +170,24 @@ export class GridView {
   }
 
   private renderTabs(): void {
-    const names = this.book.sheetNames();
-    const buttons = names.map((name, index) => {
+    const buttons = this.book.sheetIds().map((id) => {
+      const name = this.book.hf.getSheetName(id) ?? '';
       const button = document.createElement('button');
       button.type = 'button';
       button.className = 'tab';
       button.textContent = name;
       button.dataset.sheetName = name;
       button.setAttribute('role', 'tab');
-      button.setAttribute('aria-selected', String(index === this.book.activeSheet));
-      button.addEventListener('click', () => this.book.activate(index));
+      button.setAttribute('aria-selected', String(id === this.book.activeSheet));
+      button.addEventListener('click', () => {
+        // Back on a sheet, its scroll position comes back as it was; the selection is not scrolled to.
+        this.restoringSheet = true;
+        try {
+          this.book.activate(id);
+        } finally {
+          this.restoringSheet = false;
+        }
+      });
       return button;
     });
     this.el.tabs.replaceChildren(...buttons);
@@ -148,8 +211,8 @@ export class GridView {
     return this.table.querySelector<HTMLTableCellElement>(`td[data-row="${row}"][data-col="${col}"]`);
   }
 
-  /** Marks the selected block, fills the name box and the formula bar. */
-  private showSelection(): void {
+  /** Marks the selected block, fills the name box and the formula bar; brings the active cell into view unless told not to. */
+  private showSelection(scroll = true): void {
     const sel = this.book.selection;
     if (sel.sheet !== this.book.activeSheet) return;
     for (const td of Array.from(this.table.querySelectorAll('td.selected, td.active, td.in-spill'))) td.classList.remove('selected', 'active', 'in-spill');
@@ -158,7 +221,7 @@ export class GridView {
     }
     const active = this.cellElement(this.anchorCell().row, this.anchorCell().col);
     active?.classList.add('active');
-    active?.scrollIntoView({ block: 'nearest', inline: 'nearest' });
+    if (scroll) active?.scrollIntoView({ block: 'nearest', inline: 'nearest' });
     this.el.nameBox.textContent = blockAddress(sel);
     const { row, col } = this.anchorCell();
     const view = this.book.cell(sel.sheet, row, col);
@@ -200,6 +263,42 @@ export class GridView {
     const a = this.anchor;
     const block: CellBlock = { sheet, row: Math.min(a.row, r), col: Math.min(a.col, c), rows: Math.abs(a.row - r) + 1, columns: Math.abs(a.col - c) + 1 };
     this.book.select(block);
+  }
+
+  /** Records a block's inputs before a user edit, for Ctrl+Z. */
+  private remember(block: CellBlock): void {
+    const before = Array.from({ length: block.rows }, (_, r) =>
+      Array.from({ length: block.columns }, (_, c) => {
+        const view = this.book.cell(block.sheet, block.row + r, block.col + c);
+        if (view.spilled || view.input === '') return null;
+        if (view.input.startsWith('=')) return view.input;
+        return view.kind === 'number' || view.kind === 'boolean' ? view.value : view.input;
+      }),
+    );
+    this.undoSteps.push({ sheet: block.sheet, row: block.row, col: block.col, before });
+    if (this.undoSteps.length > UNDO_DEPTH) this.undoSteps.shift();
+  }
+
+  /** Puts back what the last user edit replaced, and selects it. */
+  private undo(): void {
+    const step = this.undoSteps.pop();
+    if (step === undefined) {
+      this.el.formulaMessage.textContent = 'Nothing to undo.';
+      return;
+    }
+    const rows = step.before.length;
+    const columns = step.before[0]?.length ?? 1;
+    try {
+      this.book.write(step.sheet, step.row, step.col, step.before);
+    } catch (error) {
+      this.el.formulaMessage.textContent = `Cannot undo: ${(error as Error).message}`;
+      return;
+    }
+    if (step.sheet !== this.book.activeSheet) this.book.activate(step.sheet);
+    this.anchor = { row: step.row, col: step.col };
+    this.book.select({ sheet: step.sheet, row: step.row, col: step.col, rows, columns });
+    this.el.formulaMessage.textContent = `Undid the last edit of ${blockAddress({ row: step.row, col: step.col, rows, columns })}.`;
+    this.el.formulaMessage.classList.remove('is-error');
   }
 
   private startEdit(initial: string | undefined): void {
@@ -244,6 +343,7 @@ export class GridView {
     if (!target) return;
     const sheet = this.book.activeSheet;
     try {
+      this.remember({ sheet, row: target.row, col: target.col, rows: 1, columns: 1 });
       this.book.enter(sheet, target.row, target.col, value.trim() === '' ? null : value);
     } catch (error) {
       this.el.formulaMessage.textContent = `Cannot write here: ${(error as Error).message}`;
@@ -311,10 +411,14 @@ export class GridView {
         event.preventDefault();
         const blank = Array.from({ length: sel.rows }, () => Array.from({ length: sel.columns }, () => null));
         try {
+          this.remember(sel);
           this.book.write(sel.sheet, sel.row, sel.col, blank);
         } catch (error) {
           this.el.formulaMessage.textContent = `Cannot clear here: ${(error as Error).message}`;
         }
+      } else if ((event.ctrlKey || event.metaKey) && !event.altKey && event.key.toLowerCase() === 'z') {
+        event.preventDefault();
+        this.undo();
       } else if (event.key.length === 1 && !event.ctrlKey && !event.metaKey && !event.altKey) {
         event.preventDefault();
         this.startEdit(event.key);
@@ -335,6 +439,7 @@ export class GridView {
         this.editing = undefined;
         if (!target) return;
         try {
+          this.remember({ sheet: this.book.activeSheet, row: target.row, col: target.col, rows: 1, columns: 1 });
           this.book.enter(this.book.activeSheet, target.row, target.col, bar.value.trim() === '' ? null : bar.value);
           this.selectCell(target.row + 1, target.col);
         } catch (error) {

@@ -52,6 +52,17 @@ export interface CellView {
 /** Events the workbook emits. */
 export type WorkbookEvent = 'cells' | 'selection' | 'sheet' | 'charts';
 
+/** A column's width in pixels when none is set. */
+export const DEFAULT_COLUMN_PX = 92;
+
+/** A failure the Excel stand-in is asked to make (see {@link PreviewWorkbook.failNextWrite}). */
+export interface WriteFailure {
+  /** Share of the batch's write commands that run before it fails (0.5: half-way). */
+  readonly fraction: number;
+  readonly code: string;
+  readonly message: string;
+}
+
 /**
  * Formats a number with an Excel-style number format code (the subset the preview needs: "0", "0.00",
  * "0.0%", "General"). Cost: O(1). Never throws; an unknown code falls back to General.
@@ -75,6 +86,70 @@ export function formatNumber(value: number, format: string | undefined): string 
     return `${Number(mantissa)}E${e < 0 ? '-' : '+'}${String(Math.abs(e)).padStart(2, '0')}`;
   }
   return String(Number(value.toPrecision(8)));
+}
+
+/**
+ * The text of a number that fits `maxChars` characters, as a spreadsheet shows it in a narrow column: a
+ * General number loses decimals (rounded, not cut) and then turns to scientific notation; a number with a
+ * fixed format that does not fit shows "#" signs (Excel's "####"). Cost O(digits). Never throws.
+ *
+ * @example
+ * fitNumber(0.04321987, undefined, 6); //=> '0.0432'
+ * fitNumber(0.4321, '0.00%', 4); //=> '####'
+ */
+export function fitNumber(value: number, format: string | undefined, maxChars: number): string {
+  const shown = formatNumber(value, format);
+  const room = Math.max(1, Math.floor(maxChars));
+  if (shown.length <= room) return shown;
+  const code = (format ?? 'General').trim();
+  if (code === 'General' || code === '') {
+    const abs = Math.abs(value);
+    if (abs >= 1e-4 && abs < 1e11) {
+      // Drop decimals, rounding: 0.0432199 → 0.04322 → 0.0432 …
+      for (let decimals = 10; decimals >= 0; decimals -= 1) {
+        const text = String(Number(value.toFixed(decimals)));
+        if (text.length <= room && !(Number(text) === 0 && value !== 0)) return text;
+      }
+    }
+    for (let digits = 6; digits >= 1; digits -= 1) {
+      const [mantissa, exponent] = value.toExponential(digits - 1).split('e') as [string, string];
+      const e = Number(exponent);
+      const text = `${Number(mantissa)}E${e < 0 ? '-' : '+'}${String(Math.abs(e)).padStart(2, '0')}`;
+      if (text.length <= room) return text;
+    }
+  }
+  return '#'.repeat(room);
+}
+
+/** The preview's sheet size (HyperFormula's maxRows/maxColumns in HYPERFORMULA_CONFIG) and Excel's, for messages. */
+const EXCEL_SIZE = '1,048,576 rows and 16,384 columns';
+
+/**
+ * Why a formula shows a bare #NAME?: it refers to a cell beyond the preview's sheet size. Returns the
+ * message, or undefined when every reference is inside. References inside string literals are ignored.
+ * Cost O(formula length). Never throws.
+ *
+ * @example
+ * beyondSheetMessage('=SUM(A1:A2500)', 2000, 200); //=> 'This preview's sheets have 2,000 rows and 200 columns …'
+ */
+export function beyondSheetMessage(formula: string, maxRows: number, maxColumns: number): string | undefined {
+  const code = formula.replace(/"(?:[^"]|"")*"/g, '""');
+  let worst: string | undefined;
+  for (const match of code.matchAll(/(?<![A-Za-z0-9_.])\$?([A-Za-z]{1,3})\$?([0-9]{1,7})(?![A-Za-z0-9_(])/g)) {
+    const letters = match[1] ?? '';
+    const row = Number(match[2]);
+    let column = 0;
+    for (const ch of letters.toUpperCase()) column = column * 26 + (ch.charCodeAt(0) - 64);
+    if (row > maxRows || column > maxColumns) {
+      worst = match[0].replace(/\$/g, '');
+      break;
+    }
+  }
+  if (worst === undefined) return undefined;
+  return (
+    `This preview's sheets have ${maxRows.toLocaleString('en-US')} rows and ${maxColumns} columns (Excel's have ${EXCEL_SIZE}); ` +
+    `the formula refers to ${worst}, beyond them. It works in Excel.`
+  );
 }
 
 /**
@@ -133,6 +208,8 @@ export class PreviewWorkbook {
   private readonly pendingEvents = new Set<WorkbookEvent>();
   private active = 0;
   private selected: CellBlock = { sheet: 0, row: 0, col: 0, rows: 1, columns: 1 };
+  private readonly writeFailures: WriteFailure[] = [];
+  private readonly selectionBySheet = new Map<number, CellBlock>();
 
   private constructor(sheets: readonly DemoSheet[]) {
     this.hf = HyperFormula.buildFromSheets(demoSheetsForHyperFormula(sheets), { ...HYPERFORMULA_CONFIG });
@@ -222,15 +299,66 @@ export class PreviewWorkbook {
     return this.hf.getSheetId(name);
   }
 
+  /** Ids of the sheets, in tab order (ids stay the same when a sheet is removed). */
+  sheetIds(): number[] {
+    return this.hf.getSheetNames().map((name) => this.hf.getSheetId(name) as number);
+  }
+
+  /**
+   * Adds an empty sheet at the end and fires 'sheet'; returns its id. Throws HyperFormula's error for a
+   * name it refuses (taken, or not a valid name).
+   */
+  addSheet(name: string): number {
+    const added = this.hf.addSheet(name);
+    const id = this.hf.getSheetId(added) as number;
+    this.formats[id] = new Map();
+    this.styles[id] = new Map();
+    this.widths[id] = {};
+    this.emit('sheet');
+    return id;
+  }
+
+  /** Removes a sheet (never the last one) with its charts, formats and styles; fires 'sheet'. Throws for the last sheet. */
+  removeSheet(sheet: number): void {
+    if (this.hf.countSheets() <= 1) throw new Error('a workbook keeps at least one sheet');
+    this.hf.removeSheet(sheet);
+    this.formats[sheet] = new Map();
+    this.styles[sheet] = new Map();
+    this.widths[sheet] = {};
+    for (let i = this.chartList.length - 1; i >= 0; i -= 1) if (this.chartList[i]?.sheet === sheet) this.chartList.splice(i, 1);
+    if (this.active === sheet) {
+      this.active = this.sheetIds()[0] ?? 0;
+      this.selected = { sheet: this.active, row: 0, col: 0, rows: 1, columns: 1 };
+      this.emit('selection');
+    }
+    this.emit('sheet');
+    this.emit('charts');
+  }
+
+  /**
+   * Makes the next batch of the Excel stand-in that writes fail after `fraction` of its write commands
+   * (0.5: half-way), with `code` and `message`; the commands that ran stay applied, as in Excel. For tests
+   * of the panel's undo (`window.liftLedgerPreview.failNextWrite`).
+   */
+  failNextWrite(failure: WriteFailure): void {
+    this.writeFailures.push(failure);
+  }
+
+  /** The failure asked for, if any (the stand-in takes it once). */
+  takeWriteFailure(): WriteFailure | undefined {
+    return this.writeFailures.shift();
+  }
+
   get activeSheet(): number {
     return this.active;
   }
 
-  /** Makes `sheet` the active sheet and selects its A1. */
+  /** Makes `sheet` the active sheet with the selection it had last (A1 the first time), as Excel does. */
   activate(sheet: number): void {
     if (this.hf.getSheetName(sheet) === undefined) return;
+    this.selectionBySheet.set(this.active, this.selected);
     this.active = sheet;
-    this.selected = { sheet, row: 0, col: 0, rows: 1, columns: 1 };
+    this.selected = this.selectionBySheet.get(sheet) ?? { sheet, row: 0, col: 0, rows: 1, columns: 1 };
     this.emit('sheet');
     this.emit('selection');
   }
@@ -242,6 +370,7 @@ export class PreviewWorkbook {
   /** Selects a block (switching sheets if needed) and fires the selection event. */
   select(block: CellBlock): void {
     if (block.sheet !== this.active) {
+      this.selectionBySheet.set(this.active, this.selected);
       this.active = block.sheet;
       this.emit('sheet');
     }
@@ -264,28 +393,33 @@ export class PreviewWorkbook {
     if (widths) widths[columnLetters(col)] = px;
   }
 
-  /** The number format of a cell: its own, or that of the formula whose spill it is part of. */
+  /**
+   * The number format of a cell: its own. As in Excel, the cells of a spilled result keep their own
+   * formats (they do not take the formula cell's), so a spill is formatted as a whole block.
+   */
   numberFormat(sheet: number, row: number, col: number): string | undefined {
-    const map = this.formats[sheet];
-    if (!map) return undefined;
-    const own = map.get(`${row},${col}`);
-    if (own !== undefined) return own;
-    const anchor = this.spillAnchor(sheet, row, col);
-    return anchor ? map.get(`${anchor.row},${anchor.col}`) : undefined;
+    return this.formats[sheet]?.get(`${row},${col}`);
   }
 
+  /** Sets a cell's number format; "General" (Excel's default) removes it. */
   setNumberFormat(sheet: number, row: number, col: number, format: string): void {
-    this.formats[sheet]?.set(`${row},${col}`, format);
+    if (format === 'General') this.formats[sheet]?.delete(`${row},${col}`);
+    else this.formats[sheet]?.set(`${row},${col}`, format);
   }
 
   style(sheet: number, row: number, col: number): CellStyle | undefined {
     return this.styles[sheet]?.get(`${row},${col}`);
   }
 
+  /** Merges `style` into a cell's style; a fill of '' removes the fill, bold false is the default (not kept). */
   setStyle(sheet: number, row: number, col: number, style: CellStyle): void {
     const map = this.styles[sheet];
     if (!map) return;
-    map.set(`${row},${col}`, { ...map.get(`${row},${col}`), ...style });
+    const merged: CellStyle = { ...map.get(`${row},${col}`), ...style };
+    if (merged.fill === '') delete merged.fill;
+    if (merged.bold === false) delete merged.bold;
+    if (Object.keys(merged).length === 0) map.delete(`${row},${col}`);
+    else map.set(`${row},${col}`, merged);
   }
 
   /** The formula cell whose spill covers (row, col), found by walking up and left through the spill. */
@@ -328,7 +462,11 @@ export class PreviewWorkbook {
     const spilled = this.hf.isCellPartOfArray(address) && !this.hf.doesCellHaveFormula(address);
     const input = serialized === null || serialized === undefined ? '' : String(serialized);
     if (value instanceof DetailedCellError) {
-      return { text: value.value, kind: 'error', value: value.value, message: value.message || undefined, input, spilled };
+      // A formula that returns an error shows it in its own cell only (HyperFormula repeats it over the
+      // block it reserved; Excel does not spill an error).
+      if (spilled && this.repeatsAnchorError(sheet, row, col, value)) return { text: '', kind: 'empty', value: '', input, spilled };
+      const message = value.message || (value.type === 'NAME' && input.startsWith('=') ? this.beyondSheet(input) : undefined);
+      return { text: value.value, kind: 'error', value: value.value, message, input, spilled };
     }
     if (value === null || value === undefined || value === '') {
       return { text: '', kind: value === '' ? 'text' : 'empty', value: '', input, spilled };
@@ -362,7 +500,7 @@ export class PreviewWorkbook {
    * HyperFormula keeps the error until the formula is entered anew). Cost: one pass over the used cells.
    */
   private respill(): void {
-    for (let sheet = 0; sheet < this.hf.countSheets(); sheet += 1) {
+    for (const sheet of this.sheetIds()) {
       const { rows, columns } = this.usedSize(sheet);
       for (let row = 0; row < rows; row += 1) {
         for (let col = 0; col < columns; col += 1) {
@@ -373,6 +511,19 @@ export class PreviewWorkbook {
         }
       }
     }
+  }
+
+  /** True when (row, col) is part of a spill whose formula cell shows the same error. */
+  private repeatsAnchorError(sheet: number, row: number, col: number, error: DetailedCellError): boolean {
+    const anchor = this.spillAnchor(sheet, row, col);
+    if (anchor === undefined) return false;
+    const own = this.hf.getCellValue({ sheet, row: anchor.row, col: anchor.col });
+    return own instanceof DetailedCellError && own.value === error.value && own.message === error.message;
+  }
+
+  private beyondSheet(formula: string): string | undefined {
+    const config = this.hf.getConfig();
+    return beyondSheetMessage(formula, config.maxRows, config.maxColumns);
   }
 
   /** Lets listeners know that styles or formats changed without a content change. */

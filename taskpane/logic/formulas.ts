@@ -4,7 +4,7 @@
  * The panel writes formulas, never pasted numbers, so a workbook keeps computing without the panel.
  */
 import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
-import { cellAddress, parseAddress, rangeAddress, type CellPosition } from '../workbook/address';
+import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
 
 /** Warning fill and text colours for a split that looks broken. */
 export const WARNING_FILL = '#F4CCCC';
@@ -170,6 +170,8 @@ export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string): 
 
 /** Where the variant table is and which of its columns is which (all on one sheet, one row per variant). */
 export interface ReadoutSource {
+  /** The table's sheet, when the read-out may go on another sheet (its references are then qualified). */
+  readonly sheet?: string;
   /** Local address of the names column's data cells ("A2:A4"), or null to call them A, B, C… */
   readonly namesRef: string | null;
   readonly visitorsRef: string;
@@ -202,14 +204,36 @@ export interface ReadoutBlock extends LabelledBlock {
 
 const DEFAULT_NAMES = (index: number): string => (index < 26 ? String.fromCharCode(65 + index) : `V${index + 1}`);
 
+/** What the expected-loss column means, written under the table (the loss is a difference of rates, not a relative change). */
+export const LOSS_NOTE =
+  'Expected loss is in conversion-rate points: 0.300% means choosing that variant gives up 0.3 percentage points ' +
+  'of conversion rate on average (a 5.0% rate would become 4.7%), not 0.3% of the rate. Lift is relative to the control.';
+
+/** Width of the read-out's table (variant, 9 results). */
+const READOUT_WIDTH = 10;
+/** Columns the native chart covers, right of the density table (one empty column between). */
+const CHART_COLUMNS = 7;
+
 /**
- * The "Insert read-out" block written beside the variant table: one row per variant with the
- * posterior mean, credible interval, P(beats control), P(highest), lift interval and expected loss (all
- * spilling live formulas); then the inputs (level, prior, largest acceptable loss), the DECISION, the
- * SRM p-value with a formula-driven warning text (and a warning fill when the current value is below
- * 0.001), and a LIFT_DENSITY table for the native chart. Cost O(variants + points).
+ * Size of the read-out block's area (cells, spill room and the chart it places) for k variants.
+ * Cost O(1).
+ * @example readoutArea(3, 61) //=> { rowCount: 77, columnCount: 11 }
+ */
+export function readoutArea(variants: number, densityPoints: number): { rowCount: number; columnCount: number } {
+  return { rowCount: variants + 13 + densityPoints, columnCount: Math.max(READOUT_WIDTH, variants + 1 + CHART_COLUMNS) };
+}
+
+/**
+ * The "Insert read-out" block: one row per variant, its name beside its results — posterior mean,
+ * credible interval, P(beats control), P(highest), lift interval and expected loss (all spilling live
+ * formulas) — a note on the units, then the inputs (level, prior, largest acceptable loss), the
+ * DECISION, the SRM p-value with a formula-driven warning text (and a warning fill when the current
+ * value is below 0.001), and a LIFT_DENSITY table headed by the challengers' names for the native chart,
+ * which sits right of it inside the block's area. Rates and losses are shown as percentages of visitors,
+ * lifts as relative changes, densities as plain numbers. When the block goes on another sheet than the
+ * table (`sheet` ≠ `source.sheet`), its references name the table's sheet. Cost O(variants + points).
  * Throws RangeError for fewer than 2 variants or a density table under 3 points.
- * @example readoutBlock(source, settings, "F1").cells.decision //=> "G11" (for three variants)
+ * @example readoutBlock(source, settings, "F1").cells.decision //=> "G12" (for three variants)
  */
 export function readoutBlock(
   source: ReadoutSource,
@@ -223,8 +247,9 @@ export function readoutBlock(
     throw new RangeError('the density table needs at least 3 points');
   }
   const origin = parseAddress(topLeft).start;
-  const width = 10;
-  const settingsRow = k + 3;
+  const width = Math.max(READOUT_WIDTH, k);
+  const noteRow = k + 2;
+  const settingsRow = k + 4;
   const densityTitleRow = settingsRow + 7;
   const densityHeaderRow = densityTitleRow + 1;
   const height = densityHeaderRow + 1 + settings.densityPoints;
@@ -238,12 +263,15 @@ export function readoutBlock(
   const formatColumn = (row: number, column: number, format: string): void => {
     for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
   };
+  // References to the table, qualified when the block is on another sheet.
+  const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
+  const ref = (local: string): string => (other ? referenceFrom(sheet as string, source.sheet as string, local) : local);
 
   const level = at(origin, settingsRow, 1);
   const alpha = at(origin, settingsRow + 1, 1);
   const beta = at(origin, settingsRow + 2, 1);
-  const conv = source.conversionsRef;
-  const vis = source.visitorsRef;
+  const conv = ref(source.conversionsRef);
+  const vis = ref(source.visitorsRef);
   const prior = `,${alpha},${beta}`;
   const names: Record<string, string> = {};
 
@@ -258,7 +286,7 @@ export function readoutBlock(
     'Lift low',
     'Lift median',
     'Lift high',
-    'Expected loss',
+    'Expected loss (rate points)',
   ];
   headers.forEach((header, column) => put(1, column, header));
   const namesStart = parseAddress(source.namesRef ?? 'A1').start;
@@ -266,7 +294,7 @@ export function readoutBlock(
     const value =
       source.namesRef === null
         ? DEFAULT_NAMES(i)
-        : `=${cellAddress({ row: namesStart.row + i, column: namesStart.column })}`;
+        : `=${ref(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`;
     put(2 + i, 0, value);
   }
   const labels = rangeAddress({ row: origin.row + 2, column: origin.column }, k, 1);
@@ -286,6 +314,7 @@ export function readoutBlock(
   formatColumn(2, 8, '0.0%');
   names.expectedLoss = put(2, 9, `=ABTEST.EXPECTED_LOSS(${conv},${vis}${prior})`);
   formatColumn(2, 9, '0.000%');
+  names.note = put(noteRow, 0, LOSS_NOTE);
 
   put(settingsRow, 0, 'Credible level');
   names.level = put(settingsRow, 1, settings.level, '0%');
@@ -293,13 +322,13 @@ export function readoutBlock(
   names.priorAlpha = put(settingsRow + 1, 1, settings.prior.alpha, '0.000');
   put(settingsRow + 2, 0, 'Prior beta');
   names.priorBeta = put(settingsRow + 2, 1, settings.prior.beta, '0.000');
-  put(settingsRow + 3, 0, 'Largest expected loss you accept (rate)');
+  put(settingsRow + 3, 0, 'Largest expected loss you accept (rate points)');
   const controlMean = at(origin, 2, 1);
   names.maxLoss = put(settingsRow + 3, 1, `=0.01*${controlMean}`, '0.000%');
   put(settingsRow + 4, 0, 'Decision');
   names.decision = put(settingsRow + 4, 1, `=ABTEST.DECISION(${conv},${vis},${names.maxLoss},${labels}${prior})`);
   put(settingsRow + 5, 0, source.sharesRef === null ? 'Split check: SRM p-value (equal shares)' : 'Split check: SRM p-value (planned shares)');
-  const shares = source.sharesRef === null ? '' : `,${source.sharesRef}`;
+  const shares = source.sharesRef === null ? '' : `,${ref(source.sharesRef)}`;
   names.srmPValue = put(settingsRow + 5, 1, `=ABTEST.SRM_PVALUE(${vis}${shares})`, '0.0000');
   names.srmVerdict = put(
     settingsRow + 5,
@@ -307,7 +336,7 @@ export function readoutBlock(
     `=IF(${names.srmPValue}<${numberLiteral(SRM_ALARM)},"split looks broken: check how visitors are assigned","split looks as planned")`,
   );
 
-  put(densityTitleRow, 0, 'Lift densities, for the chart (relative lift vs control)');
+  put(densityTitleRow, 0, 'Lift densities, for the chart: lift relative to the control (first column), density of each challenger');
   names.densityHeader = put(densityHeaderRow, 0, 'Lift');
   for (let i = 1; i < k; i += 1) {
     put(densityHeaderRow, i, `=${cellAddress({ row: origin.row + 2 + i, column: origin.column })}`);
@@ -317,11 +346,15 @@ export function readoutBlock(
     0,
     `=ABTEST.LIFT_DENSITY(${conv},${vis},${settings.densityPoints}${prior})`,
   );
-  for (let r = densityHeaderRow + 1; r < height; r += 1) (formats[r] as (string | null)[])[0] = '0.0%';
+  // The lift column as a percentage; the densities beside it as plain numbers (a density is not a share).
+  for (let r = densityHeaderRow + 1; r < height; r += 1) {
+    (formats[r] as (string | null)[])[0] = '0.0%';
+    for (let c = 1; c < k; c += 1) (formats[r] as (string | null)[])[c] = '0.00';
+  }
 
   const styles: BlockStyle[] = [
     { row: 0, column: 0, style: { bold: true } },
-    { row: 1, column: 0, columnCount: width, style: { bold: true } },
+    { row: 1, column: 0, columnCount: READOUT_WIDTH, style: { bold: true } },
     { row: settingsRow + 4, column: 0, columnCount: 2, style: { bold: true } },
     { row: densityTitleRow, column: 0, style: { bold: true } },
     { row: densityHeaderRow, column: 0, columnCount: k, style: { bold: true } },
@@ -331,26 +364,24 @@ export function readoutBlock(
   }
 
   const chartSource = rangeAddress({ row: origin.row + densityHeaderRow, column: origin.column }, settings.densityPoints + 1, k);
-  const chartLeft = origin.column + Math.max(k, 3) + 1;
-  const chartTopLeft = cellAddress({ row: origin.row + densityTitleRow, column: chartLeft });
-  const chartBottomRight = cellAddress({ row: origin.row + densityTitleRow + 16, column: chartLeft + 6 });
+  const chartLeft = origin.column + k + 1;
+  const chartTopLeft = cellAddress({ row: origin.row + densityHeaderRow, column: chartLeft });
+  const chartBottomRight = cellAddress({ row: origin.row + Math.min(height - 1, densityHeaderRow + 16), column: chartLeft + CHART_COLUMNS - 1 });
   names.chartSource = chartSource;
   return {
-    block: { sheet, topLeft: cellAddress(origin), cells, numberFormats: formats, styles, autofit: true },
+    block: {
+      sheet,
+      topLeft: cellAddress(origin),
+      cells,
+      numberFormats: formats,
+      styles,
+      area: readoutArea(k, settings.densityPoints),
+      // Fit the columns to the table's title, headers and variant rows, not to the long note and titles below.
+      autofit: { rows: k + 2 },
+    },
     cells: names,
     chartSource,
     chartTopLeft,
     chartBottomRight,
   };
 }
-
-/**
- * Where to put a read-out beside a table: the same top row, one empty column to the right of it.
- * Cost O(1).
- * @example besideTable("Sheet1!A1:C4") //=> "E1"
- */
-export function besideTable(tableAddress: string): string {
-  const parsed = parseAddress(tableAddress);
-  return cellAddress({ row: parsed.start.row, column: parsed.end.column + 2 });
-}
-

@@ -3,17 +3,23 @@
  * visitors and the conversions. One row per variant. Pure functions on the selection's values.
  *
  * Rules (our own, written down once):
- * - A cell counts as a number when it is a finite number (Excel gives numbers as numbers).
+ * - A cell counts as a number when it is a finite number (Excel gives numbers as numbers). Text that
+ *   looks like a count ("10,050", "1 204") is *count-like*: it helps to find the columns, but it is
+ *   flagged, and a read-out is refused until it is a number (the worksheet functions refuse text too).
  * - The first row is a header when it holds no numbers and at least one text cell while the rows
  *   below hold numbers.
  * - Blank rows at the end of the selection are ignored (people select spare rows).
- * - A count column has only whole numbers ≥ 0 in its data rows. The names column is the first column
- *   whose data cells are all text.
+ * - A count column has only whole numbers ≥ 0 (or count-like text) in its data rows. The names column
+ *   is the first column whose data cells are all text that does not look like a number.
  * - Visitors and conversions: header words decide when they are clear ("visitors", "users",
- *   "sessions", "trials" / "conversions", "orders", "purchases", "sign-ups", "successes"); otherwise the
- *   pair of count columns in which one is at least the other in every row, visitors being the larger.
+ *   "sessions", "trials" / "conversions", "orders", "purchases", "sign-ups", "successes"), even when a
+ *   few cells of such a column are not numbers (they are flagged). Otherwise the pair of count columns in
+ *   which one is at least the other in every row, visitors being the larger: that is only a guess, and
+ *   the panel asks the user to confirm it.
  * - Planned shares (for the split check): a further column of positive numbers whose heading says
  *   "share", "split", "weight" or "allocation"; without one the split is taken as planned equal.
+ * - Work is linear in the cells read, and at most MAX_TABLE_ROWS rows are read: a variant table or a
+ *   list of past results is far shorter. Problem lists are cut to MAX_LISTED items plus a count.
  */
 import type { CellValue } from '../workbook/workbook';
 
@@ -27,9 +33,31 @@ export interface TableMapping {
   readonly sharesColumn: number | null;
 }
 
+/** A cell of a visitors, conversions or shares column that is not a number (row and column within the selection). */
+export interface CellFlag {
+  readonly row: number;
+  readonly column: number;
+  readonly problem: string;
+}
+
+/**
+ * How sure the mapping is: 'headings' when the column headings name visitors and conversions, 'guess'
+ * when it was inferred from the numbers alone (the user must confirm it).
+ */
+export type MappingBasis = 'headings' | 'guess';
+
 /** A mapping with the data rows it covers, or the reason none was found. */
 export type Detection =
-  | { readonly ok: true; readonly mapping: TableMapping; readonly dataRows: number; readonly note: string }
+  | {
+      readonly ok: true;
+      readonly mapping: TableMapping;
+      readonly dataRows: number;
+      readonly note: string;
+      readonly basis: MappingBasis;
+      /** Cells of the mapped columns that are not numbers (at most MAX_LISTED; `flagCount` counts all). */
+      readonly flags: readonly CellFlag[];
+      readonly flagCount: number;
+    }
   | { readonly ok: false; readonly problem: string };
 
 /** A checked table: names and counts per variant, or the problems that stop a read-out. */
@@ -47,9 +75,18 @@ export type CheckedTable =
     }
   | { readonly ok: false; readonly problems: string[] };
 
+/** The most rows (header included) detection and checking read; a longer selection is refused. */
+export const MAX_TABLE_ROWS = 5000;
+/** The most columns detection looks at. */
+export const MAX_TABLE_COLUMNS = 60;
+/** The most problems or flags listed one by one; the rest are counted. */
+export const MAX_LISTED = 8;
+
 const VISITOR_WORDS = /visit|user|session|trial|traffic|exposure|sample|^n$/i;
 const CONVERSION_WORDS = /conver|order|purchas|sign.?up|success|click|checkout|sale|buyer/i;
 const SHARE_WORDS = /share|split|weight|allocation/i;
+/** Text that reads as a whole number ≥ 0, with optional thousands separators (",", ".", space, apostrophe). */
+const COUNT_TEXT = /^\s*\+?(\d{1,3}([,.\s\u00a0'’]\d{3})+|\d+)\s*$/;
 
 function isNumber(v: CellValue | undefined): v is number {
   return typeof v === 'number' && Number.isFinite(v);
@@ -59,6 +96,37 @@ function isBlank(v: CellValue | undefined): boolean {
 }
 function isText(v: CellValue | undefined): v is string {
   return typeof v === 'string' && v.trim() !== '' && !v.startsWith('#');
+}
+function isWholeCount(v: CellValue | undefined): boolean {
+  return isNumber(v) && Number.isInteger(v) && v >= 0;
+}
+function isCountText(v: CellValue | undefined): v is string {
+  return typeof v === 'string' && COUNT_TEXT.test(v);
+}
+/** The count a count-like text stands for (for telling visitors from conversions), else NaN. */
+function countOf(v: CellValue | undefined): number {
+  if (isNumber(v)) return v;
+  if (isCountText(v)) return Number(v.replace(/[^\d]/g, ''));
+  return Number.NaN;
+}
+
+/** What a cell is, in words, for messages: `text "10,050"`, `TRUE`, `an empty cell`, `the error #N/A`. */
+export function describeCell(v: CellValue | undefined): string {
+  if (v === undefined || isBlank(v)) return 'an empty cell';
+  if (typeof v === 'boolean') return v ? 'TRUE' : 'FALSE';
+  if (typeof v === 'number') return String(v);
+  const shown = v.length > 24 ? `${v.slice(0, 23)}…` : v;
+  return v.startsWith('#') ? `the error ${shown}` : `the text "${shown}"`;
+}
+
+/** Why a count cell is refused, or null when it is fine. */
+function countProblem(v: CellValue | undefined, what: 'visitors' | 'conversions', minimum: number): string | null {
+  if (isNumber(v)) {
+    if (Number.isInteger(v) && v >= minimum) return null;
+    return `${what} ${v} is not a whole number ≥ ${minimum}`;
+  }
+  if (isCountText(v)) return `${what} is ${describeCell(v)}, not a number: type it as a number (or use =VALUE())`;
+  return `${what} is ${describeCell(v)}, not a whole number ≥ ${minimum}`;
 }
 
 /**
@@ -71,68 +139,162 @@ export function usedRows(values: readonly (readonly CellValue[])[]): number {
   return n;
 }
 
+/** "3 more" helper for cut lists. */
+function cut(items: string[], total: number, noun: string): string[] {
+  if (total <= items.length) return items;
+  return [...items, `and ${(total - items.length).toLocaleString('en-US')} more ${noun}`];
+}
+
 /**
- * Guess the table's mapping from its values. Cost O(rows · columns²).
+ * Guess the table's mapping from its values. Cost O(rows · columns + countColumns² · rows), with rows ≤
+ * MAX_TABLE_ROWS and columns ≤ MAX_TABLE_COLUMNS.
  * Never throws; returns { ok: false, problem } when the selection is not a variant table.
  * @example detectTable([["Variant","Visitors","Conversions"],["A",1000,50],["B",1000,61]]).mapping
  * //=> { hasHeader: true, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null }
  */
 export function detectTable(values: readonly (readonly CellValue[])[]): Detection {
+  if (values.length > MAX_TABLE_ROWS) {
+    return {
+      ok: false,
+      problem: `the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table (one row per variant, or per past result)`,
+    };
+  }
   const rows = usedRows(values);
-  const columns = Math.max(0, ...values.slice(0, rows).map((row) => row.length));
+  let columns = 0;
+  for (let r = 0; r < rows; r += 1) columns = Math.max(columns, (values[r] ?? []).length);
+  if (columns > MAX_TABLE_COLUMNS) {
+    return {
+      ok: false,
+      problem: `the selection has more than ${MAX_TABLE_COLUMNS} columns; select only the table's columns`,
+    };
+  }
   if (rows === 0 || columns < 2) {
-    return { ok: false, problem: 'select the variant table: one row per variant with visitors and conversions columns' };
+    return {
+      ok: false,
+      problem: 'select the variant table: one row per variant with visitors and conversions columns',
+    };
   }
   const first = values[0] ?? [];
   const firstHasNumber = first.some((v) => isNumber(v));
-  const laterHaveNumbers = values.slice(1, rows).some((row) => row.some((v) => isNumber(v)));
-  const hasHeader = !firstHasNumber && first.some((v) => isText(v)) && laterHaveNumbers;
+  let laterHaveNumbers = false;
+  for (let r = 1; r < rows && !laterHaveNumbers; r += 1)
+    laterHaveNumbers = (values[r] ?? []).some((v) => isNumber(v) || isCountText(v));
+  const hasHeader = !firstHasNumber && first.some((v) => isText(v) && !isCountText(v)) && laterHaveNumbers;
   const start = hasHeader ? 1 : 0;
   const dataRows = rows - start;
   if (dataRows < 2) {
-    return { ok: false, problem: 'a read-out needs at least two variants (two data rows): the control first, then the challengers' };
-  }
-  const data = values.slice(start, rows);
-  const column = (c: number): CellValue[] => data.map((row) => row[c] ?? '');
-  const countColumns: number[] = [];
-  let namesColumn: number | null = null;
-  for (let c = 0; c < columns; c += 1) {
-    const cells = column(c);
-    if (cells.every((v) => isNumber(v) && Number.isInteger(v) && v >= 0)) countColumns.push(c);
-    else if (namesColumn === null && cells.every((v) => isText(v))) namesColumn = c;
-  }
-  if (countColumns.length < 2) {
     return {
       ok: false,
-      problem: 'found fewer than two columns of whole numbers ≥ 0; the table needs a visitors column and a conversions column',
+      problem: 'a read-out needs at least two variants (two data rows): the control first, then the challengers',
     };
   }
-  const header = (c: number): string => (hasHeader && typeof first[c] === 'string' ? (first[c] as string) : '');
-  const byWords = (words: RegExp): number[] => countColumns.filter((c) => words.test(header(c)));
-  const visitorHeaders = byWords(VISITOR_WORDS);
-  const conversionHeaders = byWords(CONVERSION_WORDS).filter((c) => !visitorHeaders.includes(c));
-  const dominates = (big: number, small: number): boolean =>
-    column(big).every((v, r) => (v as number) >= (column(small)[r] as number));
-
+  // Each column once, as counts (NaN where not count-like) and as a summary: O(rows · columns).
+  const counts: Float64Array[] = [];
+  const whole: number[] = [];
+  const countLike: number[] = [];
+  let namesColumn: number | null = null;
+  for (let c = 0; c < columns; c += 1) {
+    const column = new Float64Array(dataRows);
+    let nWhole = 0;
+    let nLike = 0;
+    let allNames = true;
+    for (let r = 0; r < dataRows; r += 1) {
+      const v = (values[start + r] ?? [])[c];
+      const n = countOf(v);
+      column[r] = n;
+      if (isWholeCount(v)) nWhole += 1;
+      if (!Number.isNaN(n) && Number.isInteger(n) && n >= 0) nLike += 1;
+      if (!isText(v) || isCountText(v)) allNames = false;
+    }
+    counts.push(column);
+    whole.push(nWhole);
+    countLike.push(nLike);
+    if (namesColumn === null && allNames) namesColumn = c;
+  }
+  const header = (c: number): string => (hasHeader && typeof first[c] === 'string' ? (first[c] as string).trim() : '');
+  // Count columns: every data cell count-like. Headed columns: at least half of their cells count-like.
+  const countColumns: number[] = [];
+  for (let c = 0; c < columns; c += 1) if (countLike[c] === dataRows) countColumns.push(c);
+  const headed = (words: RegExp): number[] => {
+    const out: number[] = [];
+    for (let c = 0; c < columns; c += 1) if (words.test(header(c)) && 2 * (countLike[c] ?? 0) >= dataRows) out.push(c);
+    return out;
+  };
+  const visitorHeaders = headed(VISITOR_WORDS);
+  const conversionHeaders = headed(CONVERSION_WORDS).filter((c) => !visitorHeaders.includes(c));
+  const dominates = (big: number, small: number): boolean => {
+    const a = counts[big] as Float64Array;
+    const b = counts[small] as Float64Array;
+    for (let r = 0; r < dataRows; r += 1) if (!((a[r] as number) >= (b[r] as number))) return false;
+    return true;
+  };
   const sharesFor = (visitorsColumn: number, conversionsColumn: number): number | null => {
     if (!hasHeader) return null;
     for (let c = 0; c < columns; c += 1) {
       if (c === visitorsColumn || c === conversionsColumn || !SHARE_WORDS.test(header(c))) continue;
-      if (column(c).every((v) => isNumber(v) && v > 0)) return c;
+      let positive = true;
+      for (let r = 0; r < dataRows && positive; r += 1) {
+        const v = (values[start + r] ?? [])[c];
+        positive = isNumber(v) && v > 0;
+      }
+      if (positive) return c;
     }
     return null;
   };
+  const flagsFor = (visitorsColumn: number, conversionsColumn: number): { flags: CellFlag[]; count: number } => {
+    const flags: CellFlag[] = [];
+    let count = 0;
+    for (let r = 0; r < dataRows; r += 1) {
+      const row = values[start + r] ?? [];
+      for (const [c, what, minimum] of [
+        [visitorsColumn, 'visitors', 1],
+        [conversionsColumn, 'conversions', 0],
+      ] as const) {
+        const problem = countProblem(row[c], what, minimum);
+        if (problem === null) continue;
+        count += 1;
+        if (flags.length < MAX_LISTED) flags.push({ row: start + r, column: c, problem });
+      }
+    }
+    return { flags, count };
+  };
+  const found = (visitorsColumn: number, conversionsColumn: number, basis: MappingBasis, note: string): Detection => {
+    const { flags, count } = flagsFor(visitorsColumn, conversionsColumn);
+    return {
+      ok: true,
+      mapping: {
+        hasHeader,
+        namesColumn,
+        visitorsColumn,
+        conversionsColumn,
+        sharesColumn: sharesFor(visitorsColumn, conversionsColumn),
+      },
+      dataRows,
+      note,
+      basis,
+      flags,
+      flagCount: count,
+    };
+  };
+
   const v0 = visitorHeaders[0];
   const c0 = conversionHeaders[0];
   if (visitorHeaders.length === 1 && conversionHeaders.length === 1 && v0 !== undefined && c0 !== undefined) {
-    const note = dominates(v0, c0)
-      ? `columns chosen by their headings ("${header(v0)}", "${header(c0)}")`
-      : `columns chosen by their headings, but some rows have more conversions than visitors: check the mapping`;
+    const { count } = flagsFor(v0, c0);
+    const heads = `columns chosen by their headings ("${header(v0)}", "${header(c0)}")`;
+    const note =
+      count > 0
+        ? `${heads}, but ${count === 1 ? 'one of their cells is' : `${count.toLocaleString('en-US')} of their cells are`} not a whole number: see below`
+        : dominates(v0, c0)
+          ? heads
+          : `${heads}, but some rows have more conversions than visitors: check the mapping`;
+    return found(v0, c0, 'headings', note);
+  }
+  if (countColumns.length < 2) {
     return {
-      ok: true,
-      mapping: { hasHeader, namesColumn, visitorsColumn: v0, conversionsColumn: c0, sharesColumn: sharesFor(v0, c0) },
-      dataRows,
-      note,
+      ok: false,
+      problem:
+        'found fewer than two columns of whole numbers ≥ 0; the table needs a visitors column and a conversions column',
     };
   }
   // No clear headings: the first pair of count columns, left to right, where one dominates the other.
@@ -143,34 +305,48 @@ export function detectTable(values: readonly (readonly CellValue[])[]): Detectio
       const aBig = dominates(a, b);
       const bBig = dominates(b, a);
       if (aBig !== bBig) {
-        const visitorsColumn = aBig ? a : b;
-        const conversionsColumn = aBig ? b : a;
-        return {
-          ok: true,
-          mapping: { hasHeader, namesColumn, visitorsColumn, conversionsColumn, sharesColumn: sharesFor(visitorsColumn, conversionsColumn) },
-          dataRows,
-          note: 'visitors taken as the column that is at least the other in every row',
-        };
+        const others =
+          countColumns.length > 2 ? `; ${countColumns.length} columns hold counts, so check which is which` : '';
+        return found(
+          aBig ? a : b,
+          aBig ? b : a,
+          'guess',
+          `a guess from the numbers: visitors taken as the column that is at least the other in every row${others}`,
+        );
       }
     }
   }
   return {
     ok: false,
-    problem: 'could not tell the visitors column from the conversions column (neither is at least the other in every row); set them below',
+    problem:
+      'could not tell the visitors column from the conversions column (neither is at least the other in every row); set them below',
   };
 }
 
 /**
  * Check a mapping (detected or set by the user) against the values and pull out the variants.
- * Cost O(rows). Never throws; lists every problem found (row numbers counted within the selection, from 1).
+ * Cost O(rows), rows ≤ MAX_TABLE_ROWS. Never throws; lists the first MAX_LISTED problems and counts the
+ * rest (row numbers counted within the selection, from 1).
  * @example checkTable([["A",1000,50],["B",1000,61]], { hasHeader: false, namesColumn: 0, visitorsColumn: 1, conversionsColumn: 2, sharesColumn: null })
  * //=> { ok: true, names: ["A","B"], visitors: [1000,1000], conversions: [50,61], shares: null, firstRow: 0, lastRow: 1 }
  */
 export function checkTable(values: readonly (readonly CellValue[])[], mapping: TableMapping): CheckedTable {
+  if (values.length > MAX_TABLE_ROWS) {
+    return {
+      ok: false,
+      problems: [`the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table`],
+    };
+  }
   const rows = usedRows(values);
   const start = mapping.hasHeader ? 1 : 0;
   const problems: string[] = [];
-  if (mapping.visitorsColumn === mapping.conversionsColumn) problems.push('visitors and conversions must be different columns');
+  let problemCount = 0;
+  const problem = (text: string): void => {
+    problemCount += 1;
+    if (problems.length < MAX_LISTED) problems.push(text);
+  };
+  if (mapping.visitorsColumn === mapping.conversionsColumn)
+    problem('visitors and conversions must be different columns');
   const names: string[] = [];
   const visitors: number[] = [];
   const conversions: number[] = [];
@@ -180,22 +356,28 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
     const n = row[mapping.visitorsColumn];
     const x = row[mapping.conversionsColumn];
     const label = `row ${r + 1}`;
-    if (!isNumber(n) || !Number.isInteger(n) || n < 1) problems.push(`${label}: visitors ${JSON.stringify(n ?? '')} is not a whole number ≥ 1`);
-    if (!isNumber(x) || !Number.isInteger(x) || x < 0) problems.push(`${label}: conversions ${JSON.stringify(x ?? '')} is not a whole number ≥ 0`);
-    if (isNumber(n) && isNumber(x) && x > n) problems.push(`${label}: ${x} conversions is more than ${n} visitors`);
+    const visitorsProblem = countProblem(n, 'visitors', 1);
+    const conversionsProblem = countProblem(x, 'conversions', 0);
+    if (visitorsProblem !== null) problem(`${label}: ${visitorsProblem}`);
+    if (conversionsProblem !== null) problem(`${label}: ${conversionsProblem}`);
+    if (isNumber(n) && isNumber(x) && x > n) problem(`${label}: ${x} conversions is more than ${n} visitors`);
     const rawName = mapping.namesColumn === null ? undefined : row[mapping.namesColumn];
     if (mapping.sharesColumn !== null) {
       const share = row[mapping.sharesColumn];
-      if (!isNumber(share) || share <= 0) problems.push(`${label}: planned share ${JSON.stringify(share ?? '')} is not a number above 0`);
+      if (!isNumber(share) || share <= 0)
+        problem(`${label}: planned share ${isNumber(share) ? share : describeCell(share)} is not a number above 0`);
       shares.push(isNumber(share) ? share : NaN);
     }
-    names.push(rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName));
+    names.push(
+      rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName),
+    );
     visitors.push(isNumber(n) ? n : NaN);
     conversions.push(isNumber(x) ? x : NaN);
   }
-  if (visitors.length < 2) problems.push('a read-out needs at least two variants');
-  if (visitors.length > 50) problems.push('at most 50 variants');
-  if (problems.length > 0) return { ok: false, problems };
+  if (visitors.length < 2) problem('a read-out needs at least two variants');
+  if (visitors.length > 50)
+    problem(`at most 50 variants (the selection has ${visitors.length.toLocaleString('en-US')} data rows)`);
+  if (problemCount > 0) return { ok: false, problems: cut(problems, problemCount, 'problems of the same kinds') };
   return {
     ok: true,
     names,

@@ -51,7 +51,8 @@ export function createContext(workbook: Workbook, showCautions: (id?: string) =>
 
 /**
  * Write a block; when its area is not empty, show which cells and offer "Overwrite" or "Cancel" in
- * `status`, and write again only if the user says so. Resolves with the final outcome (null when the
+ * `status`, and write again only if the user says so, over the cells listed only (anything typed there
+ * meanwhile stops the write: outcome 'occupied'). Resolves with the final outcome (null when the
  * user cancelled). Never rejects.
  * @example await writeAsking(workbook, block, statusArea, 'the plan') //=> { kind: 'written', address: 'Plan!A1:B14' }
  */
@@ -68,11 +69,17 @@ export async function writeAsking(
   return new Promise((resolve) => {
     const overwrite = button('confirm-overwrite', 'Overwrite', 'primary');
     const cancel = button('cancel-overwrite', 'Cancel');
+    let answered = false;
     overwrite.addEventListener('click', () => {
+      // Once only (a double click writes once); only the cells listed, as they were when listed.
+      if (answered) return;
+      answered = true;
       showMessage(status, 'info', `Writing ${what}…`);
-      void workbook.writeBlock({ ...block, overwrite: true }).then(resolve);
+      void workbook.writeBlock({ ...block, overwrite: first.occupied }).then(resolve);
     });
     cancel.addEventListener('click', () => {
+      if (answered) return;
+      answered = true;
       showMessage(status, 'info', 'Nothing was written.');
       resolve(null);
     });

@@ -1,25 +1,60 @@
 /**
- * The Workbook interface on the Excel JavaScript API. It uses only the agreed subset (getSelectedRange,
- * worksheets.getItem/getActiveWorksheet, getRange, load of address/values/formulas/rowCount/columnCount,
- * formulas/numberFormat/format writes, getCell/getResizedRange, charts.add + title + setPosition,
- * onSelectionChanged), so the same code runs in Excel and in the no-Excel preview's stand-in.
+ * The Workbook interface on the Excel JavaScript API (REQUIRED_API, ExcelApi 1.12, declared in the
+ * manifest and checked before writing), so the same code runs in Excel and in the no-Excel preview's
+ * stand-in. It uses: getSelectedRange, worksheets (getItem, getItemOrNullObject, getActiveWorksheet,
+ * add, load items/name), Worksheet (getRange, getUsedRangeOrNullObject, activate, delete, charts.add),
+ * Range (load of address/values/formulas/numberFormat/rowCount/columnCount and, where ExcelApi 1.16 is
+ * offered, valuesAsJson; full-size `formulas` and `numberFormat` writes; getCell, getResizedRange,
+ * getColumn, getCellProperties/setCellProperties, format.font/fill/columnWidth/autofitColumns,
+ * format.fill.clear, getSpillParentOrNullObject), Chart (title, setPosition, name) and
+ * onSelectionChanged.
+ *
+ * Safety rules kept here, for every section that writes:
+ * - Arrays written to a range always have the range's size (the API reference promises nothing for a
+ *   1×1 array on a larger range).
+ * - A block is written only after its area is read again at that moment; a cell that holds something
+ *   the user did not agree to write over stops the write.
+ * - Before writing, everything the write can change is recorded (contents, number formats, bold, font
+ *   colour, fill, column widths, spilled cells); after a failed write it is put back step by step, read
+ *   again and compared, and the outcome lists whatever differs.
+ * - Writes run one at a time: a second click waits for the first write and then finds the area taken.
  */
 import type {
   CellValue,
   ChartOutcome,
   ChartRequest,
   FormulaBlock,
+  OccupiedCell,
+  PlaceRequest,
+  Places,
   RangeContents,
+  ReadLimits,
   Subscription,
   Workbook,
   WriteOutcome,
 } from './workbook';
-import { cellAddress, parseAddress, rangeAddress } from './address';
+import { READ_LIMITS, REQUIRED_API } from './workbook';
+import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress, type CellPosition } from './address';
+import { firstFreeRun, MAX_SCAN_CELLS, newSheetName, SHEET_COLUMNS, SHEET_ROWS } from './placement';
 
 /** How the implementation gets a request context: Excel.run in the add-in, a mock in tests. */
 export type ExcelRunner = <T>(batch: (context: Excel.RequestContext) => Promise<T>) => Promise<T>;
 
-const LOAD = 'address, values, formulas, rowCount, columnCount';
+/** Whether the host offers a requirement set (Office.context.requirements.isSetSupported in Office). */
+export type SupportCheck = (set: string, version: string) => boolean;
+
+/** The set that gives valuesAsJson (entities and formatted numbers as data types). */
+const DATA_TYPES_API = { set: 'ExcelApi', version: '1.16' } as const;
+
+/** The most cells listed one by one in a message about what could not be put back. */
+const LISTED = 12;
+
+/** Office's answer; outside Office (no `Office` global, as in unit tests) every set counts as offered. */
+function officeSupports(set: string, version: string): boolean {
+  const office = (globalThis as { Office?: typeof Office }).Office;
+  if (office === undefined) return true;
+  return office.context?.requirements?.isSetSupported?.(set, version) === true;
+}
 
 /** The error code and message of a failed sync (Office.js errors carry a string `code`). */
 function describeError(error: unknown): { code: string; message: string } {
@@ -29,43 +64,34 @@ function describeError(error: unknown): { code: string; message: string } {
   return { code, message };
 }
 
-function toContents(range: Excel.Range): RangeContents {
-  const parsed = parseAddress(range.address);
-  const local = range.address.slice(range.address.lastIndexOf('!') + 1).replace(/\$/g, '');
-  return {
-    address: range.address,
-    sheet: parsed.sheet,
-    localAddress: local,
-    rowCount: range.rowCount,
-    columnCount: range.columnCount,
-    values: range.values as CellValue[][],
-    formulas: range.formulas as CellValue[][],
+function isBlank(value: unknown): boolean {
+  return value === '' || value === null || value === undefined;
+}
+
+/**
+ * A cell as the panel reads it: its plain value, with a data type read from its JSON (valuesAsJson) when
+ * given — an entity as the text it shows (its plain value is only "#VALUE!"), a formatted number as the
+ * number. Anything else that is not a string, number or boolean reads as "".
+ */
+function plainCell(value: unknown, json: unknown): CellValue {
+  const data = (typeof json === 'object' && json !== null ? json : {}) as {
+    basicType?: unknown;
+    basicValue?: unknown;
+    text?: unknown;
+    type?: unknown;
   };
+  if (data.basicType === 'Error' && data.type !== 'Error' && typeof data.text === 'string') return data.text;
+  const plain = 'basicValue' in data ? data.basicValue : value;
+  if (typeof plain === 'string' || typeof plain === 'number' || typeof plain === 'boolean') return plain;
+  if (typeof plain === 'object' && plain !== null && 'basicValue' in plain)
+    return plainCell((plain as { basicValue: unknown }).basicValue, undefined);
+  return '';
 }
 
 function worksheetOf(context: Excel.RequestContext, sheet: string | undefined): Excel.Worksheet {
   return sheet === undefined || sheet === ''
     ? context.workbook.worksheets.getActiveWorksheet()
     : context.workbook.worksheets.getItem(sheet);
-}
-
-function isBlank(value: unknown): boolean {
-  return value === '' || value === null || value === undefined;
-}
-
-/**
- * Queue the contents of a block: one broadcast clear of the whole target ([[""]], which Excel applies
- * to every cell), then each non-blank cell as its own 1×1 write. Same batch, same all-or-nothing
- * behaviour as one 2-D write, and robust to hosts that cannot take array objects made in another
- * frame (the no-Excel preview runs the panel in an iframe).
- */
-function queueContents(target: Excel.Range, cells: readonly (readonly CellValue[])[]): void {
-  target.formulas = [['']];
-  cells.forEach((row, r) =>
-    row.forEach((value, c) => {
-      if (!isBlank(value)) target.getCell(r, c).formulas = [[value as string]];
-    }),
-  );
 }
 
 /** Check a block's shapes; returns a message for a malformed block, else null. */
@@ -86,34 +112,477 @@ function shapeProblem(block: FormulaBlock): string | null {
     const c = style.column + (style.columnCount ?? 1);
     if (style.row < 0 || style.column < 0 || r > rows || c > columns) return 'a style lies outside the block';
   }
+  if (block.newSheet === true && (block.sheet === undefined || block.sheet === '')) return 'a new sheet needs a name';
   return null;
 }
 
 /**
- * Create the Office.js implementation of Workbook.
- * Cost: one Excel.run per call; writeBlock makes two syncs (read the area, write it) and a third only
- * to restore after a failure; its write batch holds one operation per non-blank cell. Methods never throw for workbook failures except readRange/readSelection,
+ * A text constant as it must be written back through `formulas` to stay text: with Excel's apostrophe
+ * prefix when Excel would otherwise read it as a formula, a number, a percentage, a date or a logical
+ * ("00123", "=x", "1/2", "TRUE"); as it is in a cell formatted as Text ("@"). Cost O(length).
+ */
+export function keepText(text: string, numberFormat: string): string {
+  if (text === '' || numberFormat === '@') return text;
+  const misread =
+    /^[=+\-@']/.test(text) ||
+    /^\s*[-+]?[\d.,\s]*\d[\d.,\s]*(%|[eE][-+]?\d+)?\s*$/.test(text) ||
+    /^\s*\d{1,4}[/.-]\d{1,2}([/.-]\d{1,4})?\s*$/.test(text) ||
+    /^\s*(true|false)\s*$/i.test(text);
+  return misread ? `'${text}` : text;
+}
+
+/** The look of one cell that a write can change. */
+interface CellLook {
+  readonly bold: boolean;
+  readonly fontColor: string;
+  readonly fillColor: string;
+  /** True when the cell has no fill at all (restored with fill.clear()). */
+  readonly noFill: boolean;
+}
+
+/** Everything a block write can change in its area, recorded before writing. */
+interface Snapshot {
+  readonly address: string;
+  readonly formulas: CellValue[][];
+  readonly values: CellValue[][];
+  readonly numberFormat: string[][];
+  readonly looks: CellLook[][];
+  readonly widths: number[];
+  /** Cells that show part of a spilled result whose formula sits elsewhere ("r,c"): put back by clearing. */
+  readonly spilled: Set<string>;
+}
+
+const LOOK_OPTIONS: Excel.CellPropertiesLoadOptions = {
+  format: { font: { bold: true, color: true }, fill: { color: true, pattern: true } },
+};
+
+function looksOf(properties: Excel.CellProperties[][]): CellLook[][] {
+  return properties.map((row) =>
+    row.map((p) => ({
+      bold: p.format?.font?.bold === true,
+      fontColor: String(p.format?.font?.color ?? '').toUpperCase(),
+      fillColor: String(p.format?.fill?.color ?? '').toUpperCase(),
+      noFill: p.format?.fill?.pattern === 'None' || p.format?.fill?.pattern === undefined,
+    })),
+  );
+}
+
+/** The cells of the block's style rectangles ("r,c"): the only ones whose font or fill a write changes. */
+function styledCells(block: FormulaBlock): Set<string> {
+  const out = new Set<string>();
+  for (const style of block.styles ?? []) {
+    for (let r = style.row; r < style.row + (style.rowCount ?? 1); r += 1) {
+      for (let c = style.column; c < style.column + (style.columnCount ?? 1); c += 1) out.add(`${r},${c}`);
+    }
+  }
+  return out;
+}
+
+/** Occupied cells of an area, in reading order. */
+function occupiedCells(origin: CellPosition, formulas: CellValue[][], values: CellValue[][]): OccupiedCell[] {
+  const out: OccupiedCell[] = [];
+  formulas.forEach((row, r) =>
+    row.forEach((formula, c) => {
+      const value = values[r]?.[c];
+      if (!isBlank(formula) || !isBlank(value)) {
+        out.push({
+          address: cellAddress({ row: origin.row + r, column: origin.column + c }),
+          content: isBlank(formula) ? (value as CellValue) : formula,
+        });
+      }
+    }),
+  );
+  return out;
+}
+
+function listed(items: readonly string[]): string {
+  const shown = items.slice(0, LISTED).join('; ');
+  return items.length > LISTED ? `${shown}; and ${items.length - LISTED} more` : shown;
+}
+
+/**
+ * Create the Office.js implementation of Workbook. `supports` answers requirement-set questions
+ * (Office.context.requirements.isSetSupported by default).
+ * Cost: reads make two syncs (size, then at most `limits` rows × columns); writeBlock makes one or two
+ * syncs to read the area, one to write, and after a failure up to four to put things back and one to
+ * check them. Methods never throw for workbook failures except readRange/readSelection/findPlaces,
  * which reject with the Office error (bad address, unknown sheet).
  * @example const workbook = createOfficeWorkbook(); await workbook.readSelection() //=> { address: "Sheet1!B2:D4", … }
  */
-export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(batch)): Workbook {
-  return {
-    async readSelection(): Promise<RangeContents> {
-      return run(async (context) => {
-        const range = context.workbook.getSelectedRange();
-        range.load(LOAD);
+export function createOfficeWorkbook(
+  run: ExcelRunner = (batch) => Excel.run(batch),
+  supports: SupportCheck = officeSupports,
+): Workbook {
+  let writing: Promise<unknown> = Promise.resolve();
+  const oneAtATime = <T>(work: () => Promise<T>): Promise<T> => {
+    const next = writing.then(work, work);
+    writing = next.catch(() => undefined);
+    return next;
+  };
+
+  const hostProblem = (): string | null =>
+    supports(REQUIRED_API.set, REQUIRED_API.version)
+      ? null
+      : `this version of Excel does not offer the Excel JavaScript API ${REQUIRED_API.version} that Lift Ledger needs to write safely ` +
+        '(Excel 2021, Excel for Microsoft 365 and Excel on the web have it)';
+
+  /** Loads a range's size, then its first rows and columns (values, formulas, data types). */
+  const readContents = async (
+    context: Excel.RequestContext,
+    range: Excel.Range,
+    limits: ReadLimits | undefined,
+  ): Promise<RangeContents> => {
+    range.load('address, rowCount, columnCount');
+    await context.sync();
+    const maxRows = Math.max(1, limits?.maxRows ?? READ_LIMITS.maxRows);
+    const maxColumns = Math.max(1, limits?.maxColumns ?? READ_LIMITS.maxColumns);
+    const rows = Math.min(range.rowCount, maxRows);
+    const columns = Math.min(range.columnCount, maxColumns);
+    const truncated = rows < range.rowCount || columns < range.columnCount;
+    const part = truncated ? range.getCell(0, 0).getResizedRange(rows - 1, columns - 1) : range;
+    const json = supports(DATA_TYPES_API.set, DATA_TYPES_API.version);
+    part.load(json ? 'values, formulas, valuesAsJson' : 'values, formulas');
+    await context.sync();
+    const address = range.address;
+    const parsed = parseAddress(address);
+    const jsonRows = json ? (part.valuesAsJson as unknown[][]) : [];
+    const values = (part.values as unknown[][]).map((row, r) => row.map((v, c) => plainCell(v, jsonRows[r]?.[c])));
+    const formulas = (part.formulas as unknown[][]).map((row, r) =>
+      row.map((f, c) => (typeof f === 'string' && f.startsWith('=') ? f : (values[r]?.[c] ?? plainCell(f, undefined)))),
+    );
+    return {
+      address,
+      sheet: parsed.sheet,
+      localAddress: address.slice(address.lastIndexOf('!') + 1).replace(/\$/g, ''),
+      rowCount: range.rowCount,
+      columnCount: range.columnCount,
+      values,
+      formulas,
+      truncated,
+    };
+  };
+
+  const failed = (address: string, code: string, message: string): WriteOutcome => ({
+    kind: 'failed',
+    address,
+    code,
+    message,
+    restored: true,
+    unrestored: [],
+  });
+
+  const writeOnce = async (block: FormulaBlock): Promise<WriteOutcome> => {
+    const rows = block.cells.length;
+    const columns = block.cells[0]?.length ?? 0;
+    const origin = parseAddress(block.topLeft).start;
+    const size = block.area ?? { rowCount: rows, columnCount: columns };
+    const areaLocal = rangeAddress(origin, size.rowCount, size.columnCount);
+    const problem = shapeProblem(block);
+    if (problem !== null) return failed(areaLocal, 'InvalidArgument', problem);
+    const host = hostProblem();
+    if (host !== null) return failed(areaLocal, 'NotSupported', `${host}; nothing was written`);
+    const newSheet = block.newSheet === true;
+    const sheetName = block.sheet ?? '';
+
+    // 1. Read the area as it is now (and the sheet names, for a new sheet).
+    let snapshot: Snapshot | null;
+    try {
+      snapshot = await run(async (context) => {
+        const sheets = context.workbook.worksheets;
+        sheets.load('items/name');
+        if (newSheet) {
+          await context.sync();
+          if (sheets.items.some((s) => s.name.toLowerCase() === sheetName.toLowerCase())) return null;
+          return {
+            address: `${quoteSheet(sheetName)}!${areaLocal}`,
+            formulas: [],
+            values: [],
+            numberFormat: [],
+            looks: [],
+            widths: [],
+            spilled: new Set<string>(),
+          };
+        }
+        const area = worksheetOf(context, block.sheet).getRange(areaLocal);
+        area.load('address, formulas, values, numberFormat');
+        const properties = area.getCellProperties(LOOK_OPTIONS);
+        const columnFormats = Array.from({ length: size.columnCount }, (_, c) =>
+          area.getColumn(c).format.load('columnWidth'),
+        );
         await context.sync();
-        return toContents(range);
+        return {
+          address: area.address,
+          formulas: (area.formulas as unknown[][]).map((row) => row.map((v) => plainCell(v, undefined))),
+          values: (area.values as unknown[][]).map((row) => row.map((v) => plainCell(v, undefined))),
+          numberFormat: (area.numberFormat as unknown[][]).map((row) => row.map((f) => String(f ?? 'General'))),
+          looks: looksOf(properties.value),
+          widths: columnFormats.map((format) => format.columnWidth),
+          spilled: new Set<string>(),
+        };
       });
+    } catch (error) {
+      const { code, message } = describeError(error);
+      return failed(areaLocal, code, `could not read ${areaLocal}: ${message}; nothing was written`);
+    }
+    if (snapshot === null) {
+      return failed(
+        `${quoteSheet(sheetName)}!${areaLocal}`,
+        'InvalidArgument',
+        `a sheet named "${sheetName}" exists already; nothing was written`,
+      );
+    }
+    const before = snapshot;
+
+    // 2. Check again: only cells the user agreed to write over, with the content they saw, may hold something.
+    const occupied = newSheet ? [] : occupiedCells(origin, before.formulas, before.values);
+    const agreed = new Map((block.overwrite ?? []).map((cell) => [cell.address, cell.content]));
+    if (occupied.some((cell) => !agreed.has(cell.address) || agreed.get(cell.address) !== cell.content)) {
+      return {
+        kind: 'occupied',
+        address: before.address,
+        occupiedCells: occupied.map((cell) => cell.address),
+        occupied,
+      };
+    }
+    if (occupied.length > 0) {
+      // Cells showing part of another formula's spill are put back by clearing them (the spill returns).
+      try {
+        await run(async (context) => {
+          const area = worksheetOf(context, block.sheet).getRange(areaLocal);
+          const parents = occupied.map((cell) => {
+            const p = parseAddress(cell.address).start;
+            const r = p.row - origin.row;
+            const c = p.column - origin.column;
+            const parent = area.getCell(r, c).getSpillParentOrNullObject();
+            parent.load('address');
+            return { r, c, parent };
+          });
+          await context.sync();
+          for (const { r, c, parent } of parents) {
+            if (parent.isNullObject) continue;
+            const anchor = parseAddress(parent.address).start;
+            if (anchor.row !== origin.row + r || anchor.column !== origin.column + c) before.spilled.add(`${r},${c}`);
+          }
+        });
+      } catch (error) {
+        const { code, message } = describeError(error);
+        return failed(
+          before.address,
+          code,
+          `could not check ${before.address} for spilled results: ${message}; nothing was written`,
+        );
+      }
+    }
+
+    // 3. Write everything in one sync: full-size arrays for contents and number formats.
+    const contents = Array.from({ length: size.rowCount }, (_, r) =>
+      Array.from({ length: size.columnCount }, (_, c) => {
+        const value = block.cells[r]?.[c];
+        return isBlank(value) ? '' : (value as CellValue);
+      }),
+    );
+    const formats = Array.from({ length: size.rowCount }, (_, r) =>
+      Array.from({ length: size.columnCount }, (_, c) => {
+        const format = block.numberFormats?.[r]?.[c];
+        return format !== null && format !== undefined && format !== ''
+          ? format
+          : (before.numberFormat[r]?.[c] ?? 'General');
+      }),
+    );
+    try {
+      await run(async (context) => {
+        const sheet = newSheet ? context.workbook.worksheets.add(sheetName) : worksheetOf(context, block.sheet);
+        const target = sheet.getRange(areaLocal);
+        target.formulas = contents;
+        target.numberFormat = formats;
+        for (const style of block.styles ?? []) {
+          const cells = target
+            .getCell(style.row, style.column)
+            .getResizedRange((style.rowCount ?? 1) - 1, (style.columnCount ?? 1) - 1);
+          if (style.style.bold !== undefined) cells.format.font.bold = style.style.bold;
+          if (style.style.fontColor !== undefined) cells.format.font.color = style.style.fontColor;
+          if (style.style.fillColor !== undefined) cells.format.fill.color = style.style.fillColor;
+        }
+        if (block.autofit === true) target.format.autofitColumns();
+        else if (typeof block.autofit === 'object') {
+          const rowsToFit = Math.min(Math.max(1, block.autofit.rows), size.rowCount);
+          target
+            .getCell(0, 0)
+            .getResizedRange(rowsToFit - 1, size.columnCount - 1)
+            .format.autofitColumns();
+        }
+        if (newSheet) sheet.activate();
+        await context.sync();
+      });
+      return { kind: 'written', address: before.address };
+    } catch (error) {
+      return undo(block, before, origin, areaLocal, describeError(error));
+    }
+  };
+
+  /** Put back what a failed write may have changed, then read the area again and say what differs. */
+  const undo = async (
+    block: FormulaBlock,
+    before: Snapshot,
+    origin: CellPosition,
+    areaLocal: string,
+    cause: { code: string; message: string },
+  ): Promise<WriteOutcome> => {
+    const steps: string[] = [];
+    const step = async (
+      what: string,
+      batch: (context: Excel.RequestContext, target: Excel.Range) => void | Promise<void>,
+    ): Promise<void> => {
+      try {
+        await run(async (context) => {
+          await batch(context, worksheetOf(context, block.sheet).getRange(areaLocal));
+          await context.sync();
+        });
+      } catch (error) {
+        steps.push(`${what} (${describeError(error).message})`);
+      }
+    };
+    let unrestored: string[];
+    if (block.newSheet === true) {
+      const name = block.sheet ?? '';
+      try {
+        const exists = await run(async (context) => {
+          const sheet = context.workbook.worksheets.getItemOrNullObject(name);
+          sheet.load('name');
+          await context.sync();
+          if (sheet.isNullObject) return false;
+          sheet.delete();
+          await context.sync();
+          const check = context.workbook.worksheets.getItemOrNullObject(name);
+          check.load('name');
+          await context.sync();
+          return !check.isNullObject;
+        });
+        unrestored = exists ? [`the new sheet "${name}" (delete it by hand)`] : [];
+      } catch (error) {
+        unrestored = [`the new sheet "${name}" may remain (${describeError(error).message})`];
+      }
+    } else {
+      const styled = styledCells(block);
+      const restoreFormulas = before.formulas.map((row, r) =>
+        row.map((f, c) => {
+          if (before.spilled.has(`${r},${c}`)) return '';
+          // A text constant reads the same through formulas and values; keep it text when written back.
+          const text = typeof f === 'string' && f === before.values[r]?.[c];
+          return text ? keepText(f, before.numberFormat[r]?.[c] ?? 'General') : f;
+        }),
+      );
+      // Number formats first: a cell formatted as Text takes its text back as text.
+      await step('number formats', (_context, target) => {
+        target.numberFormat = before.numberFormat;
+      });
+      await step('contents', (_context, target) => {
+        target.formulas = restoreFormulas;
+      });
+      if (styled.size > 0) {
+        // Only what differs now is set back, so untouched properties stay as they were (not made explicit).
+        await step('fonts and fills', async (context, target) => {
+          const current = target.getCellProperties(LOOK_OPTIONS);
+          await context.sync();
+          const now = looksOf(current.value);
+          for (const key of styled) {
+            const [r, c] = key.split(',').map(Number) as [number, number];
+            const was = before.looks[r]?.[c];
+            const is = now[r]?.[c];
+            if (was === undefined || is === undefined) continue;
+            const cell = target.getCell(r, c);
+            const font: { bold?: boolean; color?: string } = {};
+            if (is.bold !== was.bold) font.bold = was.bold;
+            if (is.fontColor !== was.fontColor) font.color = was.fontColor;
+            if (font.bold !== undefined || font.color !== undefined) cell.setCellProperties([[{ format: { font } }]]);
+            if (is.noFill !== was.noFill || (!was.noFill && is.fillColor !== was.fillColor)) {
+              if (was.noFill) cell.format.fill.clear();
+              else cell.format.fill.color = was.fillColor;
+            }
+          }
+        });
+      }
+      if (block.autofit !== undefined && block.autofit !== false) {
+        await step('column widths', async (context, target) => {
+          const current = before.widths.map((_, c) => target.getColumn(c).format.load('columnWidth'));
+          await context.sync();
+          before.widths.forEach((width, c) => {
+            if (Math.abs((current[c]?.columnWidth ?? width) - width) > 0.01)
+              target.getColumn(c).format.columnWidth = width;
+          });
+        });
+      }
+      try {
+        unrestored = await run(async (context) => {
+          const area = worksheetOf(context, block.sheet).getRange(areaLocal);
+          area.load('formulas, values, numberFormat');
+          const properties = area.getCellProperties(LOOK_OPTIONS);
+          const columnFormats = before.widths.map((_, c) => area.getColumn(c).format.load('columnWidth'));
+          await context.sync();
+          const looks = looksOf(properties.value);
+          const formulas = area.formulas as unknown[][];
+          const values = area.values as unknown[][];
+          const numberFormat = area.numberFormat as unknown[][];
+          const differences: string[] = [];
+          before.formulas.forEach((row, r) =>
+            row.forEach((formula, c) => {
+              const what: string[] = [];
+              const spilled = before.spilled.has(`${r},${c}`);
+              const now = plainCell(spilled ? values[r]?.[c] : formulas[r]?.[c], undefined);
+              const was = spilled ? before.values[r]?.[c] : formula;
+              if (now !== was && !(isBlank(now) && isBlank(was))) what.push('contents');
+              if (String(numberFormat[r]?.[c]) !== before.numberFormat[r]?.[c]) what.push('number format');
+              if (styled.has(`${r},${c}`)) {
+                const a = looks[r]?.[c];
+                const b = before.looks[r]?.[c];
+                if (a?.bold !== b?.bold) what.push('bold');
+                if (a?.fontColor !== b?.fontColor) what.push('font colour');
+                if (a?.noFill !== b?.noFill || (b?.noFill === false && a?.fillColor !== b?.fillColor))
+                  what.push('fill');
+              }
+              if (what.length > 0)
+                differences.push(
+                  `${cellAddress({ row: origin.row + r, column: origin.column + c })}: ${what.join(', ')}`,
+                );
+            }),
+          );
+          if (block.autofit !== undefined && block.autofit !== false) {
+            columnFormats.forEach((format, c) => {
+              if (Math.abs(format.columnWidth - (before.widths[c] ?? format.columnWidth)) > 0.01) {
+                differences.push(`column ${columnLetters(origin.column + c)}: width`);
+              }
+            });
+          }
+          return differences;
+        });
+      } catch (error) {
+        unrestored = [`the whole area (it could not be read back: ${describeError(error).message})`];
+      }
+    }
+    const restored = unrestored.length === 0;
+    const failedSteps = steps.length > 0 ? ` Putting back failed for: ${steps.join('; ')}.` : '';
+    return {
+      kind: 'failed',
+      address: before.address,
+      code: cause.code,
+      message: restored
+        ? `nothing was written to ${before.address} (${cause.message}); every cell was put back and checked`
+        : `writing to ${before.address} failed (${cause.message}) and these could not be put back as they were: ` +
+          `${listed(unrestored)}; check them.${failedSteps}`,
+      restored,
+      unrestored,
+    };
+  };
+
+  return {
+    hostProblem,
+
+    async readSelection(limits?: ReadLimits): Promise<RangeContents> {
+      return run((context) => readContents(context, context.workbook.getSelectedRange(), limits));
     },
 
-    async readRange(address: string, sheet?: string): Promise<RangeContents> {
-      return run(async (context) => {
-        const range = worksheetOf(context, sheet).getRange(address);
-        range.load(LOAD);
-        await context.sync();
-        return toContents(range);
-      });
+    async readRange(address: string, sheet?: string, limits?: ReadLimits): Promise<RangeContents> {
+      return run((context) => readContents(context, worksheetOf(context, sheet).getRange(address), limits));
     },
 
     async activeSheetName(): Promise<string> {
@@ -125,102 +594,99 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
       });
     },
 
-    async writeBlock(block: FormulaBlock): Promise<WriteOutcome> {
-      const rows = block.cells.length;
-      const columns = block.cells[0]?.length ?? 0;
-      const topLeft = parseAddress(block.topLeft).start;
-      const areaSize = block.area ?? { rowCount: rows, columnCount: columns };
-      // Everything is written through the area's range: its cells are cleared (so an overwritten area
-      // leaves no stale values in the spill room) and the block is placed at its top-left.
-      const areaLocal = rangeAddress(topLeft, areaSize.rowCount, areaSize.columnCount);
-      const targetLocal = areaLocal;
-      const problem = shapeProblem(block);
-      if (problem !== null) {
-        return { kind: 'failed', address: areaLocal, code: 'InvalidArgument', message: problem, restored: true };
-      }
-
-      // 1. Read what is there now.
-      let before: { address: string; formulas: CellValue[][]; values: CellValue[][] };
-      try {
-        before = await run(async (context) => {
-          const area = worksheetOf(context, block.sheet).getRange(areaLocal);
-          area.load(LOAD);
-          await context.sync();
-          return {
-            address: area.address,
-            formulas: area.formulas as CellValue[][],
-            values: area.values as CellValue[][],
-          };
-        });
-      } catch (error) {
-        const { code, message } = describeError(error);
-        return { kind: 'failed', address: areaLocal, code, message: `could not read ${areaLocal}: ${message}`, restored: true };
-      }
-
-      const occupied: string[] = [];
-      for (let r = 0; r < areaSize.rowCount; r += 1) {
-        for (let c = 0; c < areaSize.columnCount; c += 1) {
-          if (!isBlank(before.formulas[r]?.[c]) || !isBlank(before.values[r]?.[c])) {
-            occupied.push(cellAddress({ row: topLeft.row + r, column: topLeft.column + c }));
-          }
-        }
-      }
-      if (occupied.length > 0 && block.overwrite !== true) {
-        return { kind: 'occupied', address: before.address, occupiedCells: occupied };
-      }
-      const previous = before.formulas.map((row) => row.map((v) => (isBlank(v) ? '' : v)));
-      const wasEmpty = occupied.length === 0;
-
-      // 2. Write everything in one sync.
-      try {
-        await run(async (context) => {
-          const target = worksheetOf(context, block.sheet).getRange(targetLocal);
-          queueContents(target, block.cells);
-          block.numberFormats?.forEach((row, r) =>
-            row.forEach((format, c) => {
-              if (format !== null && format !== '') target.getCell(r, c).numberFormat = [[format]];
+    async findPlaces(request: PlaceRequest): Promise<Places> {
+      return run(async (context) => {
+        const sheet = context.workbook.worksheets.getItem(request.sheet);
+        const used = sheet.getUsedRangeOrNullObject(true);
+        used.load('address');
+        const sheets = context.workbook.worksheets;
+        sheets.load('items/name');
+        await context.sync();
+        const table = parseAddress(request.table);
+        const usedEnd = used.isNullObject ? table.end : parseAddress(used.address).end;
+        const lastRow = Math.max(usedEnd.row, table.end.row);
+        const lastColumn = Math.max(usedEnd.column, table.end.column);
+        const h = request.rowCount;
+        const w = request.columnCount;
+        // Regions that may hold something: right of the table in its rows, below it in its columns.
+        const rightFirst = table.end.column + 1;
+        const belowFirst = table.end.row + 1;
+        const rightCells = lastColumn >= rightFirst ? h * (lastColumn - rightFirst + 1) : 0;
+        const belowCells = lastRow >= belowFirst ? w * (lastRow - belowFirst + 1) : 0;
+        const load = (cells: number, topLeft: CellPosition, rows: number, columns: number): Excel.Range | null => {
+          if (
+            cells === 0 ||
+            cells > MAX_SCAN_CELLS ||
+            topLeft.row + rows > SHEET_ROWS ||
+            topLeft.column + columns > SHEET_COLUMNS
+          )
+            return null;
+          const range = sheet.getRange(rangeAddress(topLeft, rows, columns));
+          range.load('values, formulas');
+          return range;
+        };
+        const rightRange = load(
+          rightCells,
+          { row: table.start.row, column: rightFirst },
+          h,
+          lastColumn - rightFirst + 1,
+        );
+        const belowRange = load(
+          belowCells,
+          { row: belowFirst, column: table.start.column },
+          lastRow - belowFirst + 1,
+          w,
+        );
+        if (rightRange !== null || belowRange !== null) await context.sync();
+        const filled = (
+          range: Excel.Range | null,
+          cells: number,
+          line: (r: number, c: number) => number,
+        ): Set<number> | null => {
+          if (range === null) return cells === 0 ? new Set() : null;
+          const out = new Set<number>();
+          const values = range.values as unknown[][];
+          (range.formulas as unknown[][]).forEach((row, r) =>
+            row.forEach((f, c) => {
+              if (!isBlank(f) || !isBlank(values[r]?.[c])) out.add(line(r, c));
             }),
           );
-          for (const style of block.styles ?? []) {
-            const cells = target
-              .getCell(style.row, style.column)
-              .getResizedRange((style.rowCount ?? 1) - 1, (style.columnCount ?? 1) - 1);
-            if (style.style.bold !== undefined) cells.format.font.bold = style.style.bold;
-            if (style.style.fontColor !== undefined) cells.format.font.color = style.style.fontColor;
-            if (style.style.fillColor !== undefined) cells.format.fill.color = style.style.fillColor;
-          }
-          if (block.autofit === true) target.format.autofitColumns();
-          await context.sync();
-        });
-        return { kind: 'written', address: before.address };
-      } catch (error) {
-        const { code, message } = describeError(error);
-        // 3. Put back what was there (Excel may have applied part of a failed batch).
-        try {
-          await run(async (context) => {
-            const target = worksheetOf(context, block.sheet).getRange(targetLocal);
-            queueContents(target, previous);
-            if (wasEmpty && block.numberFormats) target.numberFormat = [['General']];
-            await context.sync();
-          });
-          return {
-            kind: 'failed',
-            address: before.address,
-            code,
-            message: `nothing was written to ${before.address} (${message})`,
-            restored: true,
-          };
-        } catch (restoreError) {
-          const second = describeError(restoreError);
-          return {
-            kind: 'failed',
-            address: before.address,
-            code,
-            message: `writing to ${before.address} failed (${message}) and putting back its previous contents failed too (${second.message}); check those cells`,
-            restored: false,
-          };
-        }
-      }
+          return out;
+        };
+        const rightFilled = filled(rightRange, rightCells, (_r, c) => rightFirst + c);
+        const belowFilled = filled(belowRange, belowCells, (r) => belowFirst + r);
+        // Columns (rows) beyond the used range are empty; when the region was too big to read, start after it.
+        const right =
+          table.start.row + h > SHEET_ROWS
+            ? null
+            : firstFreeRun(
+                (i) => (rightFilled === null ? i > lastColumn : !rightFilled.has(i)),
+                rightFilled === null ? lastColumn + 2 : table.end.column + 2,
+                w,
+                SHEET_COLUMNS,
+              );
+        const below =
+          table.start.column + w > SHEET_COLUMNS
+            ? null
+            : firstFreeRun(
+                (i) => (belowFilled === null ? i > lastRow : !belowFilled.has(i)),
+                belowFilled === null ? lastRow + 2 : table.end.row + 2,
+                h,
+                SHEET_ROWS,
+              );
+        return {
+          right: right === null ? null : cellAddress({ row: table.start.row, column: right }),
+          below: below === null ? null : cellAddress({ row: below, column: table.start.column }),
+          newSheet: newSheetName(
+            request.newSheetName,
+            sheets.items.map((s) => s.name),
+          ),
+        };
+      });
+    },
+
+    writeBlock(block: FormulaBlock): Promise<WriteOutcome> {
+      return oneAtATime(() => writeOnce(block));
     },
 
     async insertChart(request: ChartRequest): Promise<ChartOutcome> {
@@ -236,7 +702,10 @@ export function createOfficeWorkbook(run: ExcelRunner = (batch) => Excel.run(bat
           if (loadable) chart.load('name');
           await context.sync();
           const name = loadable ? chart.name : (chart as { name?: unknown }).name;
-          return { kind: 'inserted', name: typeof name === 'string' && name !== '' ? name : request.title } as ChartOutcome;
+          return {
+            kind: 'inserted',
+            name: typeof name === 'string' && name !== '' ? name : request.title,
+          } as ChartOutcome;
         });
       } catch (error) {
         const { code, message } = describeError(error);

@@ -20,13 +20,29 @@ export interface RangeContents {
   readonly sheet: string;
   /** The local A1 address ("B2:D4"; a single cell is "F3"). */
   readonly localAddress: string;
+  /** Size of the whole range (also when only its first rows were read). */
   readonly rowCount: number;
   readonly columnCount: number;
-  /** Shown values, rowCount × columnCount. */
+  /**
+   * Shown values of the rows and columns read: all of them, or the first `maxRows` × `maxColumns` when the
+   * range is larger (`truncated`). A data type reads as its plain value: a formatted number as the
+   * number, an entity (linked data type) as the text it shows.
+   */
   readonly values: CellValue[][];
-  /** "=…" text for formula cells, else the constant, rowCount × columnCount. */
+  /** "=…" text for formula cells, else the constant, same size as `values`. */
   readonly formulas: CellValue[][];
+  /** True when the range is larger than what was read. */
+  readonly truncated: boolean;
 }
+
+/** How much of a range to read (defaults: READ_LIMITS). */
+export interface ReadLimits {
+  readonly maxRows?: number;
+  readonly maxColumns?: number;
+}
+
+/** The most rows and columns a read loads unless asked otherwise: more than any table the panel reads. */
+export const READ_LIMITS = { maxRows: 5001, maxColumns: 200 } as const;
 
 /** The look of some cells. Colours are "#RRGGBB". */
 export interface CellStyle {
@@ -46,13 +62,22 @@ export interface BlockStyle {
   readonly style: CellStyle;
 }
 
+/** A cell that holds something: its local address and what it held (formula or constant, else the shown value). */
+export interface OccupiedCell {
+  readonly address: string;
+  readonly content: CellValue;
+}
+
 /**
- * A rectangular block the panel writes in one go: labels (constants) and live formulas ("=ABTEST.…").
- * The whole `area` (the cells plus any room their spills need) must be empty unless `overwrite` is set.
+ * A rectangular block the panel writes in one go: labels (constants) and live formulas ("=…").
+ * The whole `area` (the cells plus any room their spills need) must be empty, except for the cells
+ * listed in `overwrite`, which the user agreed to write over.
  */
 export interface FormulaBlock {
   /** Worksheet to write on; default the active worksheet. */
   readonly sheet?: string;
+  /** Create `sheet` first (it must not exist yet); a failed write deletes it again. */
+  readonly newSheet?: boolean;
   /** Local address of the top-left cell, e.g. "F2". */
   readonly topLeft: string;
   /** Rectangular: every row as long as the first. Strings starting with "=" are formulas. */
@@ -65,21 +90,37 @@ export interface FormulaBlock {
    * Default: the size of `cells`.
    */
   readonly area?: { readonly rowCount: number; readonly columnCount: number };
-  /** Write even where the area holds something (the user said so). Default false. */
-  readonly overwrite?: boolean;
-  /** Fit the block's columns to their contents after writing. Default false. */
-  readonly autofit?: boolean;
+  /**
+   * Cells of the area the user agreed to write over, each with the content they were shown. At the moment
+   * of writing the area is read again: any other cell that holds something, or a listed cell whose
+   * content changed meanwhile, stops the write (outcome 'occupied'). Default: none.
+   */
+  readonly overwrite?: readonly OccupiedCell[];
+  /**
+   * Fit the block's columns to their contents after writing: true for all its rows, `{ rows }` for its
+   * first rows only (so a long note below does not make a column wide). Default false.
+   */
+  readonly autofit?: boolean | { readonly rows: number };
 }
 
-/** How a block write ended. Nothing is ever left half-written. */
+/** How a block write ended. Nothing is ever left half-written without saying exactly what. */
 export type WriteOutcome =
   /** Everything was written. `address` is the qualified address of the area. */
   | { readonly kind: 'written'; readonly address: string }
-  /** Nothing was written: these cells (local addresses) of the area are not empty. Ask before overwriting. */
-  | { readonly kind: 'occupied'; readonly address: string; readonly occupiedCells: readonly string[] }
   /**
-   * The write failed. `restored` says whether the area's previous contents were put back (true) or
-   * whether putting them back failed too (false: the message says so).
+   * Nothing was written: these cells of the area hold something the user has not agreed to write over
+   * (`occupied`, in reading order; `occupiedCells` are their addresses).
+   */
+  | {
+      readonly kind: 'occupied';
+      readonly address: string;
+      readonly occupiedCells: readonly string[];
+      readonly occupied: readonly OccupiedCell[];
+    }
+  /**
+   * The write failed. The area was then put back (contents, number formats, fonts, fills, column widths)
+   * and read again: `restored` is true only when everything checked out; otherwise `unrestored` lists
+   * what differs ("F4: number format") and the message says so.
    */
   | {
       readonly kind: 'failed';
@@ -87,7 +128,30 @@ export type WriteOutcome =
       readonly code: string;
       readonly message: string;
       readonly restored: boolean;
+      readonly unrestored: readonly string[];
     };
+
+/** Where a block of a given size could go near a table (see Workbook.findPlaces). */
+export interface PlaceRequest {
+  /** Worksheet of the table. */
+  readonly sheet: string;
+  /** Local address of the table. */
+  readonly table: string;
+  readonly rowCount: number;
+  readonly columnCount: number;
+  /** Name wanted for a new sheet (made unique and valid for Excel). */
+  readonly newSheetName: string;
+}
+
+/** Empty places for a block: right of the table, below everything under it, or a new sheet. */
+export interface Places {
+  /** Top-left cell of the first empty area right of the table (same top row), or null if none fits. */
+  readonly right: string | null;
+  /** Top-left cell of the first empty area below the table (same left column), or null if none fits. */
+  readonly below: string | null;
+  /** A sheet name that does not exist yet. */
+  readonly newSheet: string;
+}
 
 /** A native Excel chart over a block of the sheet, so it stays in the workbook without the add-in. */
 export interface ChartRequest {
@@ -111,15 +175,28 @@ export interface Subscription {
   remove(): Promise<void>;
 }
 
+/** The Excel JavaScript API requirement set the panel's workbook code needs (also declared in the manifest). */
+export const REQUIRED_API = { set: 'ExcelApi', version: '1.12' } as const;
+
 /** Everything the side panel may do to a workbook. */
 export interface Workbook {
-  /** The selected range (values and formulas). */
-  readSelection(): Promise<RangeContents>;
+  /**
+   * Null when this Excel offers everything the panel uses (REQUIRED_API), else a message saying what is
+   * missing. Writing methods check it themselves and fail with that message.
+   */
+  hostProblem(): string | null;
+  /** The selected range (values and formulas of at most `limits` rows and columns). */
+  readSelection(limits?: ReadLimits): Promise<RangeContents>;
   /** A range by sheet (default the active sheet) and local address. Rejects with an Error for a bad address or sheet. */
-  readRange(address: string, sheet?: string): Promise<RangeContents>;
+  readRange(address: string, sheet?: string, limits?: ReadLimits): Promise<RangeContents>;
   /** The active worksheet's name. */
   activeSheetName(): Promise<string>;
-  /** Write a block all-or-nothing (see WriteOutcome). Never rejects: failures are outcomes. */
+  /** Empty places for a block beside a table. Rejects with the Office error when the sheet cannot be read. */
+  findPlaces(request: PlaceRequest): Promise<Places>;
+  /**
+   * Write a block all-or-nothing: the area is checked again at the moment of writing, and a failed write
+   * is undone and checked (see WriteOutcome). Writes run one at a time. Never rejects: failures are outcomes.
+   */
   writeBlock(block: FormulaBlock): Promise<WriteOutcome>;
   /** Insert a native chart. Never rejects: failures are outcomes. */
   insertChart(request: ChartRequest): Promise<ChartOutcome>;

@@ -158,7 +158,7 @@ describe('content', () => {
     expect(attrs(path_(host, 'AllFormFactors', 'ExtensionPoint', 'Page', 'SourceLocation')).resid).toBe('Taskpane.Url');
     expect(attrs(path_(host, 'DesktopFormFactor', 'FunctionFile')).resid).toBe('Taskpane.Url');
     const sets = childrenOf(path_(officeApp, 'Requirements', 'Sets')).map((s) => `${attrs(s).Name} ${attrs(s).MinVersion}`);
-    expect(sets).toEqual(['SharedRuntime 1.1', 'CustomFunctionsRuntime 1.1']);
+    expect(sets).toEqual(['SharedRuntime 1.1', 'CustomFunctionsRuntime 1.1', 'ExcelApi 1.12']);
   });
 
   test('id, version, names and icons', () => {

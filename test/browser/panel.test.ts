@@ -179,7 +179,7 @@ describe('side panel flows in the preview', () => {
     await panel.locator('#readout-split fluent-message-bar[intent="error"]').waitFor();
     await panel.locator('#readout-insert').click();
     await panel.locator('#readout-status fluent-message-bar:not([intent="info"])').waitFor({ timeout: 60_000 });
-    expect(await panel.locator('#readout-status').textContent()).toMatch(/^Wrote the read-out to Plan!K20:T95 \(live formulas\) and a lift chart from K34:M95\./);
+    expect(await panel.locator('#readout-status').textContent()).toMatch(/^Wrote the read-out to Plan!K20:U96 \(live formulas\) and a lift chart from K35:M96\./);
     await screenshot(page, 'panel-readout');
 
     const built = readoutBlock(
@@ -189,7 +189,7 @@ describe('side panel flows in the preview', () => {
     );
     const c = built.cells;
     const variants: ConversionCounts[] = table.map(([, n, x]) => ({ visitors: n, conversions: x }));
-    expect((await cellInput(page, 'Plan', c.posteriorMean as string)).input).toBe('=ABTEST.POSTERIOR_MEAN(I21:I23,H21:H23,L27,L28)');
+    expect((await cellInput(page, 'Plan', c.posteriorMean as string)).input).toBe('=ABTEST.POSTERIOR_MEAN(I21:I23,H21:H23,L28,L29)');
     const means = posteriorMean(variants, UNIFORM_PRIOR);
     const intervals = rateInterval(variants, 0.95, UNIFORM_PRIOR, 'central');
     const beats = probAboveControl(variants, UNIFORM_PRIOR);
@@ -230,9 +230,9 @@ describe('side panel flows in the preview', () => {
     await selectCell(page, 'L22');
     await panel.locator('#explain-name', { hasText: 'ABTEST.POSTERIOR_MEAN' }).waitFor();
     expect(await panel.locator('#explain-summary').textContent()).toBe(
-      'The posterior mean conversion rate of each variant, from conversions in I21:I23 out of visitors in H21:H23, with a Beta(L27, L28) prior.',
+      'The posterior mean conversion rate of each variant, from conversions in I21:I23 out of visitors in H21:H23, with a Beta(L28, L29) prior.',
     );
-    expect(await panel.locator('#explain-formulas li').allTextContents()).toEqual(['=(L27+I21)/(L27+L28+H21)']);
+    expect(await panel.locator('#explain-formulas li').allTextContents()).toEqual(['=(L28+I21)/(L28+L29+H21)']);
     await screenshot(page, 'panel-explain');
     // following the selection: a plain number cell is explained as such
     await selectCell(page, 'H21');

@@ -10,6 +10,7 @@ import { createOfficeStandIn } from '../../preview/src/excelStandIn';
 import { PreviewWorkbook } from '../../preview/src/previewWorkbook';
 import type { DemoSheet } from '../../preview/src/demoWorkbook';
 import { loadAndRegister } from './loadBundle';
+import { createOfficeWorkbook } from '../../taskpane/workbook/officeWorkbook';
 
 loadAndRegister(path.join(__dirname, 'fixtures', 'functions.js'), path.join(__dirname, 'fixtures', 'functions.json'));
 
@@ -265,5 +266,121 @@ describe('Office/Excel stand-in of the preview', () => {
         }),
       ),
     ).toBe('InvalidArgument');
+  });
+});
+
+describe('the stand-in as the panel’s workbook layer uses it (the same code as in Excel)', () => {
+  let book: PreviewWorkbook;
+  let office: ReturnType<typeof createOfficeStandIn>;
+  beforeEach(() => {
+    book = PreviewWorkbook.create(sheets());
+    office = createOfficeStandIn(book, realm);
+  });
+  afterEach(() => book.hf.destroy());
+
+  const layer = () =>
+    createOfficeWorkbook(
+      (batch) => office.Excel.run(batch as never) as never,
+      (set, version) => office.Office.context.requirements.isSetSupported(set, version),
+    );
+
+  /** Inputs, number formats, styles and widths of a block, to compare before and after. */
+  const look = (sheet: number, rows: number, columns: number): string =>
+    JSON.stringify({
+      cells: Array.from({ length: rows }, (_, r) =>
+        Array.from({ length: columns }, (_, c) => [book.cell(sheet, r, c).input, book.numberFormat(sheet, r, c) ?? 'General', book.style(sheet, r, c) ?? {}]),
+      ),
+      widths: Array.from({ length: columns }, (_, c) => book.columnWidth(sheet, c) ?? null),
+    });
+
+  it('refuses a single value spread over a larger range, with Excel’s message', async () => {
+    const error = await office.Excel.run(async (context) => {
+      context.workbook.worksheets.getItem('Data').getRange('D1:D3').formulas = [['']];
+      await context.sync();
+    }).catch((e: unknown) => e as { code: string; message: string });
+    expect(error).toMatchObject({ code: 'InvalidArgument' });
+    expect((error as { message: string }).message).toMatch(/^The number of rows or columns in the input array doesn't match the size or dimensions of the range\./);
+  });
+
+  it('answers requirement-set questions for the subset it implements', () => {
+    const ask = office.Office.context.requirements.isSetSupported;
+    expect([ask('ExcelApi', '1.1'), ask('ExcelApi', '1.12'), ask('ExcelApi', '1.16'), ask('ExcelApi', '1.17'), ask('WordApi', '1.1')]).toEqual([true, true, true, false, false]);
+  });
+
+  it('writes a block, then undoes a write made to fail half-way: contents, formats, fills and widths come back', async () => {
+    // the user's own cells in D1:E3, with a format, a fill and a column width
+    book.write(0, 0, 3, [['note', 0.5], ['', ''], ['', 7]]);
+    book.setNumberFormat(0, 0, 4, '0.0%');
+    book.setStyle(0, 2, 4, { fill: '#FFF2CC', bold: true });
+    book.setColumnWidth(0, 3, 150);
+    const before = look(0, 4, 6);
+    const block = {
+      sheet: 'Data',
+      topLeft: 'D1',
+      cells: [
+        ['Posterior mean', '=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)'],
+        ['', ''],
+        ['Split', 'checked'],
+      ],
+      numberFormats: [
+        [null, '0.00%'],
+        [null, '0.00%'],
+        [null, null],
+      ],
+      styles: [{ row: 2, column: 0, columnCount: 2, style: { fillColor: '#F4CCCC', bold: true } }],
+      autofit: true,
+      overwrite: [
+        { address: 'D1', content: 'note' },
+        { address: 'E1', content: 0.5 },
+        { address: 'E3', content: 7 },
+      ],
+    };
+    book.failNextWrite({ fraction: 0.5, code: 'GeneralException', message: 'The preview was told to fail here.' });
+    const failed = await layer().writeBlock(block);
+    expect(failed).toEqual({
+      kind: 'failed',
+      address: 'Data!D1:E3',
+      code: 'GeneralException',
+      message: 'nothing was written to Data!D1:E3 (The preview was told to fail here.); every cell was put back and checked',
+      restored: true,
+      unrestored: [],
+    });
+    expect(look(0, 4, 6)).toBe(before);
+    // the same write, not made to fail: (1 + 7)/(2 + 100) in E1, its spill in E2, the fill on D3:E3
+    expect(await layer().writeBlock(block)).toEqual({ kind: 'written', address: 'Data!D1:E3' });
+    expect(book.cell(0, 0, 4).value).toBeCloseTo(8 / 102, 15);
+    expect(book.cell(0, 1, 4).text).toBe(`${((16 / 122) * 100).toFixed(2)}%`);
+    expect(book.style(0, 2, 3)).toMatchObject({ fill: '#F4CCCC', bold: true });
+  });
+
+  it('finds empty places beside a table and writes on a new sheet, deleted again after a failure', async () => {
+    const places = await layer().findPlaces({ sheet: 'Data', table: 'A1:B3', rowCount: 4, columnCount: 3, newSheetName: 'Data read-out' });
+    expect(places).toEqual({ right: 'D1', below: 'A5', newSheet: 'Data read-out' });
+    const block = { sheet: 'Data read-out', newSheet: true, topLeft: 'A1', cells: [['Mean', "=ABTEST.POSTERIOR_MEAN(Data!B2:B3, Data!A2:A3)"]] };
+    book.failNextWrite({ fraction: 0.5, code: 'GeneralException', message: 'told to fail' });
+    expect(await layer().writeBlock(block)).toMatchObject({ kind: 'failed', restored: true });
+    expect(book.sheetNames()).toEqual(['Data', 'Past tests']);
+    expect(await layer().writeBlock(block)).toEqual({ kind: 'written', address: "'Data read-out'!A1:B1" });
+    expect(book.sheetNames()).toEqual(['Data', 'Past tests', 'Data read-out']);
+    expect(book.hf.getSheetName(book.activeSheet)).toBe('Data read-out');
+    expect(book.cell(book.sheetId('Data read-out') as number, 0, 1).value).toBeCloseTo(8 / 102, 15);
+  });
+
+  it('names the formula cell of a spilled result, and reads values as JSON', async () => {
+    book.write(0, 0, 3, [['=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)']]);
+    const out = await office.Excel.run(async (context) => {
+      const sheet = context.workbook.worksheets.getItem('Data');
+      const child = sheet.getRange('D2').getSpillParentOrNullObject();
+      const plain = sheet.getRange('A2').getSpillParentOrNullObject();
+      const json = sheet.getRange('A1:B2').load('valuesAsJson');
+      await context.sync();
+      return { child: [child.isNullObject, child.address], plain: plain.isNullObject, json: json.valuesAsJson };
+    });
+    expect(out.child).toEqual([false, 'Data!D1']);
+    expect(out.plain).toBe(true);
+    expect(out.json).toEqual([
+      [{ type: 'String', basicType: 'String', basicValue: 'Visitors' }, { type: 'String', basicType: 'String', basicValue: 'Conversions' }],
+      [{ type: 'Double', basicType: 'Double', basicValue: 100 }, { type: 'Double', basicType: 'Double', basicValue: 7 }],
+    ]);
   });
 });

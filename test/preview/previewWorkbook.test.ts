@@ -5,11 +5,27 @@
  * (1 + x)/(2 + n) of the Beta posterior mean (common practice).
  */
 import * as path from 'path';
-import { blockAddress, formatNumber, parseBlock, PreviewWorkbook, qualifiedSheetName } from '../../preview/src/previewWorkbook';
+import { beyondSheetMessage, blockAddress, fitNumber, formatNumber, parseBlock, PreviewWorkbook, qualifiedSheetName } from '../../preview/src/previewWorkbook';
 import { buildDemoWorkbook, DEMO_NOTICE } from '../../preview/src/demoWorkbook';
 import { loadAndRegister } from './loadBundle';
 
 loadAndRegister(path.join(__dirname, 'fixtures', 'functions.js'), path.join(__dirname, 'fixtures', 'functions.json'));
+
+describe('numbers too wide for their column: rounded (General) or "####" (fixed formats), never cut', () => {
+  it.each([
+    // Excel rounds General numbers to the column (common practice: a narrow column shows 0.0432 for 0.04321987)
+    [0.04321987, undefined, 6, '0.0432'],
+    [0.04321987, undefined, 12, '0.04321987'],
+    [123456.789, undefined, 7, '123457'],
+    [1234567890123, undefined, 8, '1.23E+12'],
+    [0.000012345, undefined, 7, '1.2E-05'],
+    [0.4321, '0.00%', 4, '####'],
+    [0.4321, '0.00%', 6, '43.21%'],
+    [-2.5, undefined, 4, '-2.5'],
+  ])('%p with %p in %p characters shows %p', (value, format, chars, shown) => {
+    expect(fitNumber(value, format, chars)).toBe(shown);
+  });
+});
 
 describe('number formats (Excel format codes "0", "0.00", "0.0%")', () => {
   it.each([
@@ -54,11 +70,50 @@ describe('PreviewWorkbook', () => {
     },
   ];
 
-  it('lets spilled cells use their formula cell’s number format', () => {
+  it('gives spilled cells their own number formats, as Excel does (the formula cell’s format does not spread)', () => {
     const book = PreviewWorkbook.create(sheet());
-    // (1 + 5)/(2 + 20) = 27.27%
-    expect(book.cell(0, 1, 2)).toMatchObject({ text: '27.27%', spilled: true, kind: 'number' });
+    // (1 + 5)/(2 + 20) = 0.272727…, shown in General until its own cell is formatted
+    expect(book.cell(0, 1, 2)).toMatchObject({ text: '0.27272727', spilled: true, kind: 'number' });
     expect(book.spillAnchor(0, 1, 2)).toEqual({ row: 0, col: 2 });
+    book.setNumberFormat(0, 1, 2, '0.00%');
+    expect(book.cell(0, 1, 2).text).toBe('27.27%');
+  });
+
+  it('shows an error of a spilling formula in its own cell only, as Excel does', () => {
+    // 12.5 visitors is refused: POSTERIOR_MEAN returns #VALUE! for the whole result
+    const book = PreviewWorkbook.create([{ name: 'S', cells: [[10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2)'], [12.5, 5]], formats: {}, columnWidths: {} }]);
+    expect(book.cell(0, 0, 2)).toMatchObject({ kind: 'error', value: '#VALUE!' });
+    expect(book.cell(0, 1, 2)).toMatchObject({ kind: 'empty', text: '' });
+    expect(book.values({ sheet: 0, row: 0, col: 2, rows: 2, columns: 1 })).toEqual([['#VALUE!'], ['']]);
+  });
+
+  it('says why a formula gives #NAME? when it reaches past the preview’s sheet size', () => {
+    const book = PreviewWorkbook.create([{ name: 'S', cells: [['=SUM(A1:A2500)', '=SUM(C1:C20)']], formats: {}, columnWidths: {} }]);
+    expect(book.cell(0, 0, 0)).toMatchObject({
+      kind: 'error',
+      value: '#NAME?',
+      message: "This preview's sheets have 2,000 rows and 200 columns (Excel's have 1,048,576 rows and 16,384 columns); the formula refers to A2500, beyond them. It works in Excel.",
+    });
+    expect(book.cell(0, 0, 1)).toMatchObject({ kind: 'number', value: 0 });
+    expect(beyondSheetMessage('=IF(A1>0,"ZZ9999 in text",B2)', 2000, 200)).toBeUndefined();
+    expect(beyondSheetMessage('=HZ1+1', 2000, 200)).toContain('refers to HZ1');
+  });
+
+  it('adds and removes sheets (ids stay), and keeps each sheet’s selection', () => {
+    const book = PreviewWorkbook.create(buildDemoWorkbook());
+    const id = book.addSheet('Checkout test read-out');
+    expect(book.sheetNames()).toEqual(['Checkout test', 'Past tests', 'Plan', 'Checkout test read-out']);
+    book.select({ sheet: 0, row: 4, col: 1, rows: 2, columns: 1 });
+    book.activate(id);
+    expect(book.selection).toEqual({ sheet: id, row: 0, col: 0, rows: 1, columns: 1 });
+    book.activate(0);
+    expect(book.selection).toEqual({ sheet: 0, row: 4, col: 1, rows: 2, columns: 1 });
+    book.removeSheet(1);
+    expect(book.sheetNames()).toEqual(['Checkout test', 'Plan', 'Checkout test read-out']);
+    expect(book.sheetIds()).toEqual([0, 2, id]);
+    expect(() => {
+      for (const sheet of book.sheetIds()) book.removeSheet(sheet);
+    }).toThrow(new Error('a workbook keeps at least one sheet'));
   });
 
   it('brings a spill back once the cell blocking it is cleared', () => {

@@ -129,7 +129,7 @@ describe('preview demo workbook with the built add-in', () => {
   const planInputs = () => read('Plan', 'B4', 5, 1).map((r) => r[0] as number);
   // The revenue totals (orders, visitors, revenue, order sd) of the revenue-from-totals block.
   const totals = (withSd: boolean) =>
-    read('Checkout test', 'B104', 3, 4).map((r) => ({
+    read('Checkout test', 'B103', 3, 4).map((r) => ({
       orders: r[0] as number,
       visitors: r[1] as number,
       revenue: r[2] as number,
@@ -179,15 +179,15 @@ describe('preview demo workbook with the built add-in', () => {
       'Checkout test!B120': lazy(() => versusControl(lmu(revenueLiftInterval(totals(true), 0.95)), 3)),
       'Checkout test!B124': lazy(() => versusControl(column(revenueProbLiftAbove(totals(true), -0.02)), 1)),
       'Checkout test!B128': lazy(() => column(revenueExpectedLoss(totals(true)))),
-      'Checkout test!B132': lazy(() => [
+      'Checkout test!B131': lazy(() => [
         [amountDecisionCell({ positions: [0, 1, 2] }, labels, revenueDecide(totals(true), undefined), 'per visitor')],
       ]),
       'Checkout test!B134': lazy(() => versusControl(column(meanProbLiftAbove(means(), -0.02)), 1)),
-      'Checkout test!B138': lazy(() => [
+      'Checkout test!B137': lazy(() => [
         [amountDecisionCell({ positions: [0, 1, 2] }, labels, meanDecide(means(), undefined), "in the metric's units")],
       ]),
       'Checkout test!B140': lazy(() => versusControl(column(eventsProbLiftAbove(eventsOf(), 0.05, FLAT_GAMMA_PRIOR)), 1)),
-      'Checkout test!B144': lazy(() => [
+      'Checkout test!B143': lazy(() => [
         [
           amountDecisionCell(
             { positions: [0, 1, 2] },

@@ -5,7 +5,7 @@
  * references are checked by an independent engine, not only as text.
  */
 import { HyperFormula } from 'hyperformula';
-import { besideTable, numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
+import { numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
 import { cellAddress, columnIndex, columnLetters, parseAddress, quoteSheet, rangeAddress, referenceFrom } from '../../taskpane/workbook/address';
 import { formatCount, formatPercent, parseNumber, parsePercent } from '../../taskpane/logic/inputs';
 
@@ -144,8 +144,16 @@ describe('plan block', () => {
 describe('read-out block', () => {
   const source = { namesRef: 'A2:A4', visitorsRef: 'B2:B4', conversionsRef: 'C2:C4', sharesRef: null, variants: 3 };
   const settings = { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: 0.4 };
+  const cellOf = (built: ReturnType<typeof readoutBlock>, address: string, originColumn = 4): unknown => {
+    const p = parseAddress(address).start;
+    return built.block.cells[p.row]?.[p.column - originColumn];
+  };
+  const formatOf = (built: ReturnType<typeof readoutBlock>, address: string, originColumn = 4): unknown => {
+    const p = parseAddress(address).start;
+    return built.block.numberFormats?.[p.row]?.[p.column - originColumn];
+  };
 
-  test('one row per variant of spilling formulas, then inputs, decision, split check and the density table', () => {
+  test('one row per variant, its name beside its spilling results; a note on units; inputs, decision, split check, density table', () => {
     const built = readoutBlock(source, settings, 'E1', 'Checkout test');
     const { cells } = built;
     expect(cells).toMatchObject({
@@ -156,44 +164,73 @@ describe('read-out block', () => {
       probHighest: 'J3',
       liftInterval: 'K3',
       expectedLoss: 'N3',
-      level: 'F7',
-      priorAlpha: 'F8',
-      priorBeta: 'F9',
-      maxLoss: 'F10',
-      decision: 'F11',
-      srmPValue: 'F12',
-      srmVerdict: 'G12',
-      liftDensity: 'E16',
+      note: 'E6',
+      level: 'F8',
+      priorAlpha: 'F9',
+      priorBeta: 'F10',
+      maxLoss: 'F11',
+      decision: 'F12',
+      srmPValue: 'F13',
+      srmVerdict: 'G13',
+      densityHeader: 'E16',
+      liftDensity: 'E17',
     });
-    const at = (address: string): unknown => {
-      const p = parseAddress(address).start;
-      return built.block.cells[p.row]?.[p.column - 4];
-    };
+    const at = (address: string): unknown => cellOf(built, address);
+    expect(at('E2')).toBe('Variant');
+    expect(at('N2')).toBe('Expected loss (rate points)');
     expect(at('E3')).toBe('=A2');
     expect(at('E5')).toBe('=A4');
-    expect(at('F3')).toBe('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4,F8,F9)');
-    expect(at('G3')).toBe('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,F7,F8,F9)');
-    expect(at('I3')).toBe('=ABTEST.PROB_ABOVE_CONTROL(C2:C4,B2:B4,F8,F9)');
-    expect(at('J3')).toBe('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4,F8,F9)');
-    expect(at('K3')).toBe('=ABTEST.LIFT_INTERVAL(C2:C4,B2:B4,F7,F8,F9)');
-    expect(at('N3')).toBe('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4,F8,F9)');
-    expect(at('F10')).toBe('=0.01*F3');
-    expect(at('F11')).toBe('=ABTEST.DECISION(C2:C4,B2:B4,F10,E3:E5,F8,F9)');
-    expect(at('F12')).toBe('=ABTEST.SRM_PVALUE(B2:B4)');
-    expect(at('G12')).toBe('=IF(F12<0.001,"split looks broken: check how visitors are assigned","split looks as planned")');
-    expect(at('E16')).toBe('=ABTEST.LIFT_DENSITY(C2:C4,B2:B4,61,F8,F9)');
-    expect([at('E15'), at('F15'), at('G15')]).toEqual(['Lift', '=E4', '=E5']);
-    // spill room: cells under a spilling formula are left empty
+    expect(at('F3')).toBe('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4,F9,F10)');
+    expect(at('G3')).toBe('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,F8,F9,F10)');
+    expect(at('I3')).toBe('=ABTEST.PROB_ABOVE_CONTROL(C2:C4,B2:B4,F9,F10)');
+    expect(at('J3')).toBe('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4,F9,F10)');
+    expect(at('K3')).toBe('=ABTEST.LIFT_INTERVAL(C2:C4,B2:B4,F8,F9,F10)');
+    expect(at('N3')).toBe('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4,F9,F10)');
+    expect(at('E6')).toMatch(/^Expected loss is in conversion-rate points: 0\.300% means .* 0\.3 percentage points/);
+    expect(at('E11')).toBe('Largest expected loss you accept (rate points)');
+    expect(at('F11')).toBe('=0.01*F3');
+    expect(at('F12')).toBe('=ABTEST.DECISION(C2:C4,B2:B4,F11,E3:E5,F9,F10)');
+    expect(at('F13')).toBe('=ABTEST.SRM_PVALUE(B2:B4)');
+    expect(at('G13')).toBe('=IF(F13<0.001,"split looks broken: check how visitors are assigned","split looks as planned")');
+    expect(at('E17')).toBe('=ABTEST.LIFT_DENSITY(C2:C4,B2:B4,61,F9,F10)');
+    // the density table's columns carry the challengers' names
+    expect([at('E16'), at('F16'), at('G16')]).toEqual(['Lift', '=E4', '=E5']);
+    // spill room: cells under and beside a spilling formula are left empty
     expect(at('F4')).toBe('');
     expect(at('H3')).toBe('');
-    expect(built.block.cells).toHaveLength(15 + 61);
-    expect(built.chartSource).toBe('E15:G76');
+    expect(at('F17')).toBe('');
+    expect(built.block.cells).toHaveLength(16 + 61);
+    // the area holds the chart too, right of the density table: nothing of the user's lies under it
+    expect(built.block.area).toEqual({ rowCount: 77, columnCount: 11 });
+    expect(built.chartSource).toBe('E16:G77');
+    expect([built.chartTopLeft, built.chartBottomRight]).toEqual(['I16', 'O32']);
+    expect(built.block.autofit).toEqual({ rows: 5 });
     expect(built.block.styles?.some((s) => s.style.fillColor !== undefined)).toBe(false);
+  });
+
+  test('number formats that cannot mislead: rates and losses in %, lifts in %, densities as plain numbers', () => {
+    const built = readoutBlock(source, settings, 'E1');
+    const f = (address: string): unknown => formatOf(built, address);
+    expect([f('F3'), f('F5'), f('G4'), f('H5')]).toEqual(['0.00%', '0.00%', '0.00%', '0.00%']);
+    expect([f('I4'), f('J3'), f('K4'), f('M5')]).toEqual(['0.0%', '0.0%', '0.0%', '0.0%']);
+    expect([f('N3'), f('N5'), f('F11')]).toEqual(['0.000%', '0.000%', '0.000%']);
+    // before: the whole density table showed as percentages ("949.9%"); now only its lift column does
+    expect([f('E17'), f('E77'), f('F17'), f('G77')]).toEqual(['0.0%', '0.0%', '0.00', '0.00']);
+  });
+
+  test('on another sheet than the table, every reference names the table’s sheet', () => {
+    const built = readoutBlock({ ...source, sheet: 'Checkout test', sharesRef: 'D2:D4' }, settings, 'A1', 'Checkout test read-out');
+    const at = (address: string): unknown => cellOf(built, address, 0);
+    expect(at('A3')).toBe("='Checkout test'!A2");
+    expect(at('B3')).toBe("=ABTEST.POSTERIOR_MEAN('Checkout test'!C2:C4,'Checkout test'!B2:B4,B9,B10)");
+    expect(at('B13')).toBe("=ABTEST.SRM_PVALUE('Checkout test'!B2:B4,'Checkout test'!D2:D4)");
+    // on the table's own sheet they stay local
+    expect(cellOf(readoutBlock({ ...source, sheet: 'Checkout test' }, settings, 'E1', 'Checkout test'), 'F3')).toBe('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4,F9,F10)');
   });
 
   test('with planned shares the split check tests against them', () => {
     const built = readoutBlock({ ...source, sharesRef: 'D2:D4' }, settings, 'F1');
-    expect(built.block.cells[11]?.slice(0, 2)).toEqual(['Split check: SRM p-value (planned shares)', '=ABTEST.SRM_PVALUE(B2:B4,D2:D4)']);
+    expect(built.block.cells[12]?.slice(0, 2)).toEqual(['Split check: SRM p-value (planned shares)', '=ABTEST.SRM_PVALUE(B2:B4,D2:D4)']);
   });
 
   test('without a names column the variants are called A, B, C…', () => {
@@ -203,15 +240,17 @@ describe('read-out block', () => {
 
   test('a broken split (p < 0.001 now) gets the warning fill on the p-value and its verdict', () => {
     const built = readoutBlock(source, { ...settings, currentSrmPValue: 2e-5 }, 'E1');
-    expect(built.block.styles).toContainEqual({ row: 11, column: 1, columnCount: 2, style: { fillColor: '#F4CCCC', fontColor: '#9C0006', bold: true } });
+    expect(built.block.styles).toContainEqual({ row: 12, column: 1, columnCount: 2, style: { fillColor: '#F4CCCC', fontColor: '#9C0006', bold: true } });
+  });
+
+  test('many variants: the table and the chart still fit in the area', () => {
+    const built = readoutBlock({ ...source, namesRef: null, variants: 12 }, settings, 'A1');
+    expect(built.block.cells[0]).toHaveLength(12);
+    expect(built.block.area).toEqual({ rowCount: 12 + 13 + 61, columnCount: 20 });
+    expect(parseAddress(built.chartBottomRight).start.column).toBe(19);
   });
 
   test('refuses fewer than two variants', () => {
     expect(() => readoutBlock({ ...source, variants: 1 }, settings, 'E1')).toThrow(new RangeError('a read-out needs at least two variants'));
-  });
-
-  test('goes beside the table with one empty column', () => {
-    expect(besideTable('Sheet1!A1:C4')).toBe('E1');
-    expect(besideTable("'Checkout test'!B3:D8")).toBe('F3');
   });
 });
