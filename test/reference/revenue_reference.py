@@ -18,7 +18,9 @@ derived here; a = orders, b = revenue), averaged over the two rates by a 2-D qua
 The order values alone: P(v_B > v_A) = P(lam_B < lam_A) = I_y(a_B, a_A), y = b_B/(b_A + b_B), against
 quadrature ("orderValueOnly"; it is the limit of P(R_B > R_A) as both rates become certain and equal).
 
-Run: python3 test/reference/revenue_reference.py > test/reference/revenue_values.json   (several minutes)
+Run: python3 test/reference/revenue_reference.py > test/reference/revenue_values.json   (an hour or more), or one
+case a process (python3 revenue_reference.py NAME > NAME.json, in parallel) and then
+python3 revenue_reference.py --merge *.json > revenue_values.json.
 """
 import json
 import math
@@ -334,7 +336,19 @@ CASES = [
 ]
 
 
+def merge(paths):
+    """Joins per-case outputs of this script (run one case a process, in parallel) into one JSON, in CASES order."""
+    parts = [json.load(open(p)) for p in paths]
+    by_name = {c["name"]: c for part in parts for c in part["cases"]}
+    json.dump({"source": parts[0]["source"], "orderValueOnly": parts[0]["orderValueOnly"],
+               "cases": [by_name[name] for name, _, _ in CASES if name in by_name]}, sys.stdout, indent=1)
+    sys.stdout.write("\n")
+
+
 def main():
+    if sys.argv[1:2] == ["--merge"]:
+        merge(sys.argv[2:])
+        return
     only = sys.argv[1:]
     out = []
     for name, vs, opts in CASES:
