@@ -22,6 +22,7 @@ const { sources, Compilation } = require('webpack');
 const { DEV_BASE_URL, normaliseBaseUrl, productionManifest, rewriteMetadata } = require('./manifest/writeManifest');
 const { ICON_SIZES, drawIcon } = require('./manifest/icons');
 const { buildHelpPages, wrapperFiles, writeFunctionTexts, TEMPLATE: HELP_TEMPLATE } = require('./help/build');
+const { ContentSecurityPolicyPlugin } = require('./manifest/contentSecurityPolicy');
 
 // ADDIN_DIST_DIR builds elsewhere (the release test builds into a temporary folder); default dist/.
 const DIST = process.env.ADDIN_DIST_DIR ? path.resolve(process.env.ADDIN_DIST_DIR) : path.join(__dirname, 'dist');
@@ -126,6 +127,9 @@ module.exports = async (env = {}, argv = {}) => {
         scriptLoading: 'defer',
       }),
       new AddinAssetsPlugin(baseUrl),
+      // the hashes of the pages' own inline styles into their Content-Security-Policy (and, for the
+      // development server only, its live-reload socket)
+      new ContentSecurityPolicyPlugin(serving ? { 'connect-src': ["'self'"] } : {}),
     ],
     devServer: serving
       ? {

@@ -53,7 +53,7 @@ function commentText(comment) {
  * @returns {Array<{id: string, jsName: string, file: string, description: string,
  *   params: Array<{name: string, optional: boolean, text: string}>, returns: string, method: string, source: string,
  *   examples: string[], crosschecks: string[], cautions: string[], helpUrl: string}>}
- * @example readFunctionDocs().length //=> 29
+ * @example readFunctionDocs().length //=> the number of catalogue entries (29 in 0.1.0)
  */
 function readFunctionDocs(sources = wrapperFiles()) {
   const docs = [];
@@ -268,6 +268,8 @@ if (require.main === module) {
   const out = process.argv[2] || path.join(ROOT, 'dist', 'help');
   fs.mkdirSync(out, { recursive: true });
   const pages = buildHelpPages();
-  for (const [name, html] of pages) fs.writeFileSync(path.join(out, name), html);
+  // the hash of each page's own style sheet into its Content-Security-Policy (webpack does this after minifying)
+  const { withInlineStyleHashes } = require('../manifest/contentSecurityPolicy');
+  for (const [name, html] of pages) fs.writeFileSync(path.join(out, name), withInlineStyleHashes(html));
   console.log(`wrote ${pages.size} help pages to ${out}`);
 }

@@ -6,7 +6,14 @@
  *   /                      the preview page (preview/build/index.html)
  *   /preview/…             the preview bundle (preview/build/) and its static files (preview/static/)
  *   /taskpane.html         dist/taskpane.html with Office's CDN office.js replaced by the preview's stand-in
+ *                          (as built, CDN script and all, when started with `asBuilt: true`: the browser test
+ *                          of the served pages' Content-Security-Policy answers the CDN request itself)
  *   /…                     any other file of dist/ (functions.js, functions.json, taskpane.js, help/…)
+ *
+ * Hostile or malformed requests are answered and the server keeps serving: a method other than GET and
+ * HEAD gets 405; a URL longer than MAX_URL_LENGTH 414; a bad percent-encoding, a null byte or other
+ * control character, or a backslash in the decoded path 400; a path that climbs out with `..` (however
+ * encoded) or names nothing 404. Anything that still goes wrong while answering becomes a 500.
  */
 'use strict';
 const fs = require('fs');
@@ -137,35 +144,70 @@ function inside(root, urlPath) {
   return target === root || target.startsWith(root + path.sep) ? target : undefined;
 }
 
-function send(res, status, body, type) {
-  res.writeHead(status, { 'Content-Type': type, 'Cache-Control': 'no-store' });
+/** The longest request URL answered; longer ones get 414 (the preview's own paths are under 100 characters). */
+const MAX_URL_LENGTH = 2048;
+const TEXT = 'text/plain; charset=utf-8';
+
+function send(res, status, body, type, headers = {}) {
+  if (res.headersSent) return res.end();
+  const common = { 'Content-Type': type, 'Cache-Control': 'no-store', 'X-Content-Type-Options': 'nosniff' };
+  res.writeHead(status, { ...common, ...headers });
   res.end(body);
 }
 
 function serveFile(res, file) {
   fs.readFile(file, (error, data) => {
-    if (error) return send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+    if (error) return send(res, 404, 'Not found', TEXT);
     send(res, 200, data, CONTENT_TYPES[path.extname(file).toLowerCase()] || 'application/octet-stream');
   });
 }
 
-function handler(req, res) {
-  let urlPath;
+/**
+ * The decoded path of a request URL, or the status that refuses it: 414 when too long, 400 for a bad
+ * percent-encoding, a control character (a null byte among them) or a backslash, 404 for a `..` segment.
+ * The URL parser already resolves literal and `%2e%2e` dot segments at the root; an encoded slash
+ * (`..%2F`) survives it and is caught here.
+ */
+function requestPath(url) {
+  if (typeof url !== 'string' || url.length > MAX_URL_LENGTH) return { status: 414, body: 'URI too long' };
+  let decoded;
   try {
-    urlPath = decodeURIComponent(new URL(req.url, 'http://localhost').pathname);
+    decoded = decodeURIComponent(new URL(url, 'http://localhost').pathname);
   } catch {
-    return send(res, 400, 'Bad request', 'text/plain; charset=utf-8');
+    return { status: 400, body: 'Bad request' };
   }
-  if (req.method !== 'GET' && req.method !== 'HEAD') return send(res, 405, 'Method not allowed', 'text/plain; charset=utf-8');
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what is refused here
+  if (/[\u0000-\u001f\u007f\\]/.test(decoded)) return { status: 400, body: 'Bad request' };
+  if (decoded.split('/').some((segment) => segment === '..')) return { status: 404, body: 'Not found' };
+  return { path: decoded };
+}
+
+/** The request handler; `asBuilt` serves dist/taskpane.html unchanged. */
+const createHandler = (asBuilt) => (req, res) => {
+  try {
+    route(req, res, asBuilt);
+  } catch (error) {
+    console.error(`preview server: ${req.method} ${String(req.url).slice(0, 200)} failed: ${error && error.message}`);
+    send(res, 500, 'Server error', TEXT);
+  }
+};
+
+function route(req, res, asBuilt) {
+  if (req.method !== 'GET' && req.method !== 'HEAD') {
+    return send(res, 405, 'Method not allowed', TEXT, { Allow: 'GET, HEAD' });
+  }
+  const request = requestPath(req.url);
+  if (request.status) return send(res, request.status, request.body, TEXT);
+  const urlPath = request.path;
   if (urlPath === '/' || urlPath === '/index.html') return serveFile(res, path.join(PREVIEW_BUILD, 'index.html'));
   if (urlPath.startsWith('/preview/')) {
     const rest = urlPath.slice('/preview/'.length);
     const fromStatic = inside(PREVIEW_STATIC, rest);
     if (fromStatic && fs.existsSync(fromStatic) && fs.statSync(fromStatic).isFile()) return serveFile(res, fromStatic);
     const fromBuild = inside(PREVIEW_BUILD, rest);
-    return fromBuild ? serveFile(res, fromBuild) : send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+    return fromBuild ? serveFile(res, fromBuild) : send(res, 404, 'Not found', TEXT);
   }
-  if (urlPath === '/taskpane.html') {
+  if (urlPath === '/taskpane.html' && !asBuilt) {
     return fs.readFile(path.join(DIST, 'taskpane.html'), 'utf8', (error, html) => {
       if (error) {
         return send(res, 200, '<!doctype html><meta charset="utf-8"><p style="font-family:sans-serif">The side panel is not built yet: run <code>npm run build</code>.</p>', CONTENT_TYPES['.html']);
@@ -174,7 +216,7 @@ function handler(req, res) {
     });
   }
   const file = inside(DIST, urlPath);
-  return file ? serveFile(res, file) : send(res, 404, 'Not found', 'text/plain; charset=utf-8');
+  return file ? serveFile(res, file) : send(res, 404, 'Not found', TEXT);
 }
 
 /** Resolves with `port` if it can be listened on at `host`, else with the first free port after it. */
@@ -191,11 +233,12 @@ function findFreePort(port, host = 'localhost', tries = 50) {
 
 /**
  * Starts the preview server. `port` 0 lets the system choose (tests); otherwise the first free port from
- * `port` upward is used. Resolves with { url, port, close() } once listening on localhost.
+ * `port` upward is used. `asBuilt` serves the side panel's page exactly as built. Resolves with
+ * { url, port, close() } once listening on localhost.
  */
-async function startPreviewServer({ port = 3100, host = 'localhost' } = {}) {
+async function startPreviewServer({ port = 3100, host = 'localhost', asBuilt = false } = {}) {
   const chosen = port === 0 ? 0 : await findFreePort(port, host);
-  const server = http.createServer(handler);
+  const server = http.createServer(createHandler(asBuilt));
   await new Promise((resolve, reject) => {
     server.once('error', reject);
     server.listen(chosen, host, resolve);

@@ -47,7 +47,7 @@ for (const [label, args] of [
   }
   const usage = JSON.parse(fs.readFileSync(out, 'utf8'));
   fs.rmSync(out, { force: true });
-  let detail = '';
+  let detail;
   if (label === 'audit') {
     const s = JSON.parse(run.stdout).summary;
     detail = `${s.formulas} formulas: ${s.agree} agree, ${s.differ} differ, ${s.notCheckable} not checkable`;

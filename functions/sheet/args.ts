@@ -110,9 +110,7 @@ export function readArgs<const E extends FunctionEntry>(fn: E, input: ArgInput<E
     );
     table = found;
     out.table = found;
-    out.variants = found.positions.map((_, i) =>
-      Object.fromEntries(ranges.map((p) => [p.name, found.columns[p.name]?.[i]])),
-    );
+    out.variants = variantRows(ranges, found);
   }
   for (const p of fn.params) {
     switch (p.kind) {
@@ -135,6 +133,17 @@ export function readArgs<const E extends FunctionEntry>(fn: E, input: ArgInput<E
     }
   }
   return out as Args<E>;
+}
+
+/** One object per variant with a field per range (`{ conversions, visitors }`), the core's input types. */
+function variantRows(ranges: readonly Param[], table: VariantTable): Record<string, number>[] {
+  const rows: Record<string, number>[] = [];
+  for (let i = 0; i < table.positions.length; i++) {
+    const row: Record<string, number> = {};
+    for (const p of ranges) row[p.name] = (table.columns[p.name] as readonly number[])[i] as number;
+    rows.push(row);
+  }
+  return rows;
 }
 
 function readAligned(

@@ -2,6 +2,7 @@
  * Plain-words text for DECISION, and the percentage formatting it uses.
  */
 import { classifyCell } from './cells';
+import { variantLetter } from './labels';
 
 /**
  * Formats a rate (0.0123) as a percentage with two significant digits and at least two decimals
@@ -20,22 +21,14 @@ export function formatPercent(rate: number): string {
 }
 
 /**
- * The default label of the variant at 0-based position `p` of the range: A, B, …, Z, AA, AB, …
+ * The default label of the variant at 0-based position `p` of the range: its letter (labels.ts), A, B, …,
+ * Z, AA, AB, …
  *
  * Cost O(log p).
  * @example defaultLabel(1) //=> "B"
  * @example defaultLabel(26) //=> "AA"
  */
-export function defaultLabel(p: number): string {
-  let n = p + 1;
-  let label = '';
-  while (n > 0) {
-    const r = (n - 1) % 26;
-    label = String.fromCharCode(65 + r) + label;
-    n = Math.floor((n - 1) / 26);
-  }
-  return label;
-}
+export const defaultLabel: (p: number) => string = variantLetter;
 
 /**
  * The label of a variant: the user's label cell if it holds text or a number, else the default letter.

@@ -10,5 +10,6 @@ export * from './inputs';
 export * from './spill';
 export * from './run';
 export * from './decision';
+export * from './labels';
 export * from './entry';
 export * from './args';

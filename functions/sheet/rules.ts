@@ -3,10 +3,11 @@
  * checked by the one routine {@link checkNumber}. The style follows HyperFormula's function plugins, where
  * each parameter declares its type and bounds and one runner does the coercion and the checks.
  */
+import { MAX_COUNT, MAX_POINTS, MIN_POINTS } from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 
-/** The largest count accepted: 2^53, the largest integer a double holds exactly with all smaller ones. */
-export const MAX_COUNT = 2 ** 53;
+/** The largest count accepted (stats/limits.ts): 2^53, the largest integer a double holds exactly with all smaller ones. */
+export { MAX_COUNT };
 
 /** Bounds and kind of one numeric argument or of every cell of a numeric range. */
 export interface NumberRule {
@@ -26,6 +27,11 @@ export interface NumberRule {
   readonly atMost?: string;
   /** For an optional scalar: the value used when the argument is omitted. */
   readonly default?: number;
+  /**
+   * The value is a fraction: `'rate'` a share (0.95 for 95%), `'lift'` a relative lift (0.05 for +5%). An
+   * out-of-bounds value that looks like a whole percentage (2 to 100 in size) gets a hint in the message.
+   */
+  readonly fraction?: 'rate' | 'lift';
 }
 
 /** A text argument that must be one of a few words (case-insensitive). */
@@ -84,8 +90,23 @@ export function checkNumber(rule: NumberRule, cell: unknown, where: string): num
     (rule.max !== undefined && x > rule.max) ||
     (rule.above !== undefined && !(x > rule.above)) ||
     (rule.below !== undefined && !(x < rule.below));
-  if (outside) throw new ArgumentProblem(`${where}: ${x} is not allowed; enter ${allowed}`);
+  if (outside) throw new ArgumentProblem(`${where}: ${x} is not allowed; enter ${percentHint(rule, x) ?? allowed}`);
   return x;
+}
+
+/**
+ * The hint for a percentage typed where a fraction belongs (`level` 95, `min_lift` 5), or undefined.
+ *
+ * Cost O(1).
+ * @example percentHint(LEVEL, 95) //=> 'a fraction: 0.95 for 95%'
+ * @example percentHint(MIN_LIFT, 5) //=> 'a fraction: 0.05 for +5% (a relative lift, at most 1 for +100%)'
+ */
+export function percentHint(rule: NumberRule, x: number): string | undefined {
+  if (rule.fraction === undefined || !(Math.abs(x) >= 2 && Math.abs(x) <= 100)) return undefined;
+  const asFraction = Number((x / 100).toPrecision(12));
+  if (rule.fraction === 'rate') return x > 0 ? `a fraction: ${asFraction} for ${x}%` : undefined;
+  const sign = x > 0 ? '+' : '−';
+  return `a fraction: ${asFraction} for ${sign}${Math.abs(x)}% (a relative lift, at most 1 for +100%)`;
 }
 
 /**
@@ -166,9 +187,9 @@ export const REVENUE = { name: 'revenue', kind: 'real', min: 0 } as const satisf
 export const ORDER_SD = { name: 'order_sd', kind: 'real', min: 0 } as const satisfies NumberRule;
 
 /** `level` of credible intervals: in (0, 1), default 0.95. */
-export const LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95 } as const satisfies NumberRule;
+export const LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95, fraction: 'rate' } as const satisfies NumberRule;
 /** `level` of PRIOR_FROM_INTERVAL: in (0, 1), default 0.90. */
-export const PRIOR_LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9 } as const satisfies NumberRule;
+export const PRIOR_LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9, fraction: 'rate' } as const satisfies NumberRule;
 /** `prior_alpha`: > 0, default 1. */
 export const PRIOR_ALPHA = { name: 'prior_alpha', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
 /** `prior_beta`: > 0, default 1. */
@@ -177,34 +198,38 @@ export const PRIOR_BETA = { name: 'prior_beta', kind: 'real', above: 0, default:
 export const PRIOR_SHAPE = { name: 'prior_shape', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
 /** `prior_rate`: ≥ 0, default 0. */
 export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0 } as const satisfies NumberRule;
-/** `min_lift`: a relative lift, greater than −1 (a rate cannot fall below zero). */
-export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1 } as const satisfies NumberRule;
+/**
+ * `min_lift`: a relative lift as a fraction, greater than −1 (a rate cannot fall below zero) and at most 1
+ * (+100%). A larger value is almost always a percentage typed as a whole number (5 for 5%), which would
+ * silently ask about a sixfold rate.
+ */
+export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
-export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1 } as const satisfies NumberRule;
+export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
 /** `max_loss` of the decisions on averages, counts and revenue: ≥ 0 in the metric's own units; the core's default. */
 export const MAX_LOSS_AMOUNT = { name: 'max_loss', kind: 'real', min: 0 } as const satisfies NumberRule;
-/** `points` of density tables: whole number 2…10000, default 101. */
-export const POINTS = { name: 'points', kind: 'count', min: 2, max: 10000, default: 101 } as const satisfies NumberRule;
+/** `points` of density tables: whole number MIN_POINTS…MAX_POINTS (2…1000, stats/limits.ts), default 101. */
+export const POINTS = { name: 'points', kind: 'count', min: MIN_POINTS, max: MAX_POINTS, default: 101 } as const satisfies NumberRule;
 /** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */
-export const MEAN_RATE = { name: 'mean_rate', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
+export const MEAN_RATE = { name: 'mean_rate', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
 /** `strength` of PRIOR_FROM_MEAN: > 0 (the prior's worth in visitors). */
 export const STRENGTH = { name: 'strength', kind: 'real', above: 0 } as const satisfies NumberRule;
 /** `low` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const LOW = { name: 'low', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
+export const LOW = { name: 'low', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
 /** `high` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const HIGH = { name: 'high', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
+export const HIGH = { name: 'high', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
 /** `baseline_rate`: in (0, 1). */
-export const BASELINE_RATE = { name: 'baseline_rate', kind: 'real', above: 0, below: 1 } as const satisfies NumberRule;
-/** `lift` of the planners: > −1. */
-export const LIFT = { name: 'lift', kind: 'real', above: -1 } as const satisfies NumberRule;
+export const BASELINE_RATE = { name: 'baseline_rate', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
+/** `lift` of the planners: a relative lift as a fraction, greater than −1 and at most 1 (as `min_lift`). */
+export const LIFT = { name: 'lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `visitors_per_variant`: whole number ≥ 1. */
 export const VISITORS_PER_VARIANT = { name: 'visitors_per_variant', kind: 'count', min: 1 } as const satisfies NumberRule;
 /** `threshold` of the Bayesian planners: in (0, 1), default 0.95. */
-export const THRESHOLD = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95 } as const satisfies NumberRule;
+export const THRESHOLD = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95, fraction: 'rate' } as const satisfies NumberRule;
 /** `power`: in (0, 1), default 0.8. */
-export const POWER = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8 } as const satisfies NumberRule;
+export const POWER = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8, fraction: 'rate' } as const satisfies NumberRule;
 /** `alpha` of the classic test: in (0, 1), default 0.05. */
-export const ALPHA = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05 } as const satisfies NumberRule;
+export const ALPHA = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05, fraction: 'rate' } as const satisfies NumberRule;
 /** `sides`: 1 or 2, default 2. */
 export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 } as const satisfies NumberRule;
 

@@ -9,10 +9,11 @@
  * - the number of variants is within the function's limits (2…50 for comparisons).
  */
 import { ArgumentProblem, classifyCell, describeShape, readCellList, type CellList, type Orientation } from './cells';
+import { MAX_VARIANTS } from '../stats/limits';
 import { checkNumber, type NumberRule } from './rules';
 
-/** The most variants a comparison accepts (catalogue). */
-export const MAX_VARIANTS = 50;
+/** The most variants a comparison accepts (catalogue; stats/limits.ts). */
+export { MAX_VARIANTS };
 
 /** How many variants a function needs. */
 export interface VariantCount {

@@ -3,7 +3,7 @@
  * sum short: Evan Miller, "Formulas for Bayesian A/B Testing" (2015),
  *   P(Y > X) = Σ_{i<aY} B(aX + i, bX + bY) / ((bY + i) B(1 + i, bY) B(aX, bX))
  * for Y ~ Beta(aY, bY), X ~ Beta(aX, bX) and a whole-number aY. The conversion read-out and the planning
- * functions use it where it applies and fall back to the quadrature of compare.ts elsewhere.
+ * functions use it where it applies and fall back to the quadrature of compare/ elsewhere.
  */
 import { ensure } from './errors';
 import { logBeta } from './special/gamma';
@@ -91,7 +91,7 @@ function firstLog(arrangements: Arrangement[]): number | undefined {
  * Cost: O(number of terms), a few nanoseconds a term, plus two log-betas.
  * Throws StatsError('invalid_argument') for a shape that is not a finite number above 0 or a maxTerms
  * that is not a whole number of at least 0.
- * @example Math.exp(closedFormLogProbGreater(6, 6, 4, 8, 100)!) //=> 0.8065015479876161 (521/646, Miller 2015)
+ * @example Math.exp(closedFormLogProbGreater(6, 6, 4, 8, 100)!) //=> 0.80650154798761… (521/646 = 0.8065015479876161, Miller 2015)
  * @example closedFormLogProbGreater(6.5, 5.5, 4.5, 8.5, 100) //=> undefined (no whole-number shape)
  */
 export function closedFormLogProbGreater(

@@ -1,12 +1,14 @@
 /**
- * The Beta(a, b) posterior of a rate as a WorkingDensity in z = logit(p), ready for grid.ts.
+ * The Beta(a, b) posterior of a rate as a WorkingDensity in z = logit(p), ready for quadrature/ (tabulate).
  */
 import { ensure } from './errors';
 import type { WorkingDensity } from './types';
 
 /**
  * The logistic function 1/(1 + e^{−z}), written so that neither branch overflows. Cost: O(1).
- * @example logistic(-800) //=> 0 (e^-800 underflows), logistic(0) //=> 0.5
+ * @example
+ * logistic(-800) //=> 0 (e^-800 underflows)
+ * logistic(0) //=> 0.5
  */
 export function logistic(z: number): number {
   if (z >= 0) return 1 / (1 + Math.exp(-z));

@@ -3,7 +3,7 @@
  *
  * Each variant's rate has the posterior Beta(α + conversions, β + visitors − conversions) under a
  * Beta(α, β) prior (conjugate updating; Gelman et al., "Bayesian Data Analysis", 3rd ed., §2.4). The
- * posteriors are tabulated in logit(rate) by grid.ts and compared by compare.ts (P(above the control) by
+ * posteriors are tabulated in logit(rate) by quadrature/ and compared by compare/ (P(above the control) by
  * Evan Miller's exact sum, betaComparison.ts, where it applies); the first variant is the control.
  * Inputs are checked here with generic messages; the sheet layer adds argument names.
  *
@@ -23,17 +23,13 @@ import {
   ratioQuantile,
   ratioSf,
 } from './compare';
-import { TabulatedDistribution, tabulate } from './grid';
+import { TabulatedDistribution, tabulate } from './quadrature';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkPoints } from './limits';
 import { findRoot } from './numeric';
 import { NO_MEMO } from './tableMemo';
 import type { TableSource } from './tableMemo';
 import type { BetaPrior, ConversionCounts, DensityTable, Interval, IntervalWithMedian } from './types';
 import { UNIFORM_PRIOR } from './types';
-
-/** Most variants a comparison accepts (the catalogue's limit). */
-export const MAX_VARIANTS = 50;
-
-const MAX_COUNT = 2 ** 53;
 
 function checkPrior(prior: BetaPrior): void {
   ensure(
@@ -67,10 +63,6 @@ function checkCounts(variants: readonly ConversionCounts[], minimum: number, max
   });
 }
 
-function checkLevel(level: number): void {
-  ensure(Number.isFinite(level) && level > 0 && level < 1, `the level must be strictly between 0 and 1, not ${level}`);
-}
-
 /** Posterior Beta shapes (a, b) of one variant. */
 function shapes(v: ConversionCounts, prior: BetaPrior): [number, number] {
   return [prior.alpha + v.conversions, prior.beta + (v.visitors - v.conversions)];
@@ -79,7 +71,7 @@ function shapes(v: ConversionCounts, prior: BetaPrior): [number, number] {
 /**
  * The tabulated posterior of one variant's rate (in logit, coordinate "logit").
  * Cost: one tabulation (~60–80 panels). Throws StatsError('invalid_argument') for bad shapes.
- * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) // 0.05468749999999… (pbeta(0.5, 8, 3) = 0.0546875)
+ * @example posteriorOf({ conversions: 7, visitors: 9 }, UNIFORM_PRIOR).cdf(0.5) //=> 0.05468749999999… (pbeta(0.5, 8, 3) = 0.0546875)
  */
 export function posteriorOf(
   v: ConversionCounts,
@@ -98,7 +90,7 @@ function betaTable(a: number, b: number, tables: TableSource): TabulatedDistribu
 /**
  * The variants' posteriors, each distinct (conversions, visitors) pair tabulated once: variants with the
  * same counts share one TabulatedDistribution (a table is read-only apart from its deterministic lazy
- * parts, so sharing it changes no value), which compare.ts also uses to integrate once per distinct one.
+ * parts, so sharing it changes no value), which compare/ also uses to integrate once per distinct one.
  */
 function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior, tables: TableSource): TabulatedDistribution[] {
   const seen = new Map<string, TabulatedDistribution>();
@@ -167,7 +159,7 @@ export function rateInterval(
  * rises; the central interval for the flat Beta(1, 1).
  * Cost: one tabulation and ~30 quantiles. Throws StatsError('not_available') for a U-shaped density
  * (a < 1 and b < 1) and StatsError('invalid_argument') for bad shapes or level.
- * @example betaHighestDensityInterval(1, 11, 0.95) //=> { lower: 0, upper: 0.2384041903808527 } (1 − 0.05^(1/11))
+ * @example betaHighestDensityInterval(1, 11, 0.95) //=> { lower: 0, upper: 0.23840419038085… } (1 − 0.05^(1/11) = 0.2384041903808527)
  */
 export function betaHighestDensityInterval(a: number, b: number, level: number): Interval {
   checkLevel(level);
@@ -206,7 +198,8 @@ function hdiOf(d: TabulatedDistribution, a: number, b: number, level: number): I
  * Probability that each variant has the highest true rate: ∫ f_i Π_{j≠i} F_j, normalised (sums to 1).
  * Cost: k tabulations and O(k²) one-dimensional integrals. Throws StatsError('invalid_argument') for bad
  * counts or prior, or fewer than 2 / more than 50 variants.
- * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.1934984520123839, 0.8065015479876161]
+ * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
+ * //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
  */
 export function probHighest(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
@@ -220,11 +213,12 @@ export function probHighest(variants: readonly ConversionCounts[], prior: BetaPr
  * posterior shape is a whole number (always, under a prior with whole-number α or β) that gives at most
  * 20 000 terms and the shapes are small enough for it to keep 1e-12 relative accuracy (log-betas of at
  * most 3000 in size: up to ~45 000 visitors a variant at 1% rates, ~3 000 at 50%); otherwise the
- * quadrature of the tabulated posteriors (compare.ts probabilityGreater). A challenger with the control's
+ * quadrature of the tabulated posteriors (compare/ranking.ts probabilityGreater). A challenger with the control's
  * counts gets exactly 1/2.
  * Cost: per challenger a sum of at most 20 000 terms (a few ns each) where the closed form applies, else
  * one tabulation (the control's once) and one integral. Same errors as probHighest.
- * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) //=> [0.8065015479876161] (521/646)
+ * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
+ * //=> [0.80650154798761…] (521/646 = 0.8065015479876161)
  */
 export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
@@ -258,11 +252,11 @@ export function probAboveControl(variants: readonly ConversionCounts[], prior: B
 
 /**
  * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
- * relative lift rate/control − 1 (quantiles of the ratio distribution, compare.ts).
+ * relative lift rate/control − 1 (quantiles of the ratio distribution, compare/ratio.ts).
  * Cost: three quantiles per challenger, each 2–4 passes (a tail and its density). Errors as probHighest,
  * plus a level outside (0, 1).
  * @example liftInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
- * // [{ lower: -0.0900…, median: 0.2960…, upper: 0.8571… }] (mpmath: -0.0900205695, 0.857069957)
+ * //=> [{ lower: -0.0900205694…, median: 0.2959892194…, upper: 0.8570699573… }] (mpmath: -0.0900205695, 0.857069957)
  */
 export function liftInterval(
   variants: readonly ConversionCounts[],
@@ -299,10 +293,10 @@ function challengerIntervals(
 
 /**
  * For each challenger, the lower, median and upper ends of the equal-tailed credible interval of the
- * absolute difference rate − control's rate (quantiles of the difference distribution, compare.ts).
+ * absolute difference rate − control's rate (quantiles of the difference distribution, compare/difference.ts).
  * Cost and errors as liftInterval.
  * @example rateDiffInterval([{ conversions: 50, visitors: 1000 }, { conversions: 65, visitors: 1000 }], 0.95, UNIFORM_PRIOR)
- * // [{ lower: −0.005…, median: 0.0149…, upper: 0.035… }]
+ * //=> [{ lower: -0.0054818921…, median: 0.0149392167…, upper: 0.0355953776… }]
  */
 export function rateDiffInterval(
   variants: readonly ConversionCounts[],
@@ -316,7 +310,8 @@ export function rateDiffInterval(
 /**
  * For each challenger, P(rate/control − 1 > minLift); a negative minLift asks "no worse than".
  * Cost: one ratio tail per challenger. Errors as probHighest, plus minLift ≤ −1 or not finite.
- * @example probLiftAbove([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], 0, UNIFORM_PRIOR) //=> [0.8065015479876161]
+ * @example probLiftAbove([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], 0, UNIFORM_PRIOR)
+ * //=> [0.80650154798761…] (521/646 = 0.8065015479876161)
  */
 export function probLiftAbove(
   variants: readonly ConversionCounts[],
@@ -336,8 +331,9 @@ export function probLiftAbove(
  * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
  * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
  * Cost: O(k²) node evaluations on one shared grid for 3 or more variants, two integrals for two
- * (compare.ts expectedLosses). Errors as probHighest.
- * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR) // [0.1877…, 0.0210…]
+ * (compare/losses.ts expectedLosses). Errors as probHighest.
+ * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
+ * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form)
  */
 export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
   checkPrior(prior);
@@ -363,7 +359,7 @@ export interface Decision {
  * posterior mean rate. Cost: as expectedLoss.
  * Throws StatsError('invalid_argument') for bad counts, prior or a maxLoss below 0.
  * @example decide([{ conversions: 300, visitors: 10000 }, { conversions: 420, visitors: 10000 }], undefined, UNIFORM_PRIOR)
- * // { choose: true, index: 1, loss: 1.355…e-9, maxLoss: 0.000300939… }
+ * //=> { choose: true, index: 1, loss: 1.35537062…e-9, maxLoss: 0.000300939812037… } (maxLoss: 1% of 301/10002)
  */
 export function decide(
   variants: readonly ConversionCounts[],
@@ -386,10 +382,6 @@ export function decide(
   return { choose: loss <= threshold, index, loss, maxLoss: threshold };
 }
 
-function checkPoints(points: number): void {
-  ensure(Number.isInteger(points) && points >= 2 && points <= 1000, `points must be a whole number from 2 to 1000, not ${points}`);
-}
-
 function evenGrid(lo: number, hi: number, points: number): number[] {
   return Array.from({ length: points }, (_, r) => (r === points - 1 ? hi : lo + ((hi - lo) * r) / (points - 1)));
 }
@@ -399,7 +391,8 @@ function evenGrid(lo: number, hi: number, points: number): number[] {
  * union of the variants' central 99.9% intervals, and each variant's density there (per unit of rate).
  * Cost: k tabulations and k × points density evaluations.
  * Throws StatsError('invalid_argument') for bad counts, prior or points (2 … 1000).
- * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid // [0.1100…, 0.5000…, 0.8899…]
+ * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid
+ * //=> [0.1100007873…, 0.5000000000…, 0.8899992126…] (Beta(6, 6)'s 0.05% and 99.95% quantiles)
  */
 export function posteriorDensityTable(
   variants: readonly ConversionCounts[],
@@ -420,7 +413,7 @@ export function posteriorDensityTable(
 /**
  * A table for a chart of the posterior densities of each challenger's relative lift over the control:
  * `points` lifts evenly spread over the union of the challengers' 0.1%–99.9% lift ranges, and each
- * challenger's lift density there (ratio density, compare.ts).
+ * challenger's lift density there (ratio density, compare/ratio.ts).
  * Cost: (k − 1) × points one-dimensional integrals. Errors as posteriorDensityTable, and 2 … 50 variants.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
  */

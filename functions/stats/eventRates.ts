@@ -6,25 +6,21 @@
  *
  * Production paths: intervals from the Gamma quantile, P(above control) and the lift quantiles from
  * exact incomplete-beta closed forms, P(highest) for two variants from the same closed form; P(highest)
- * for three or more variants and the expected losses by quadrature of the tabulated posteriors (grid.ts,
- * compare.ts) in z = log λ.
+ * for three or more variants and the expected losses by quadrature of the tabulated posteriors (quadrature/,
+ * compare/) in z = log λ.
  */
 import { expectedLosses, highestProbabilities } from './compare';
 import { ensure } from './errors';
 import { gammaWorkingDensity } from './gammaDensity';
-import { tabulate } from './grid';
+import { tabulate } from './quadrature';
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
 import { betaCdf, betaQuantilePair, betaTailLog } from './special/incompleteBeta';
 import { gammaQuantile, gammaQuantileUpper } from './special/incompleteGamma';
-import type { TabulatedDistribution } from './grid';
+import type { TabulatedDistribution } from './quadrature';
 import { FLAT_GAMMA_PRIOR } from './types';
 import type { EventCounts, GammaPrior, Interval, IntervalWithMedian } from './types';
-
-/** Most variants a comparison accepts (the catalogue's limit). */
-const MAX_VARIANTS = 50;
-/** Largest whole number a double holds exactly (the catalogue's limit on counts). */
-const MAX_COUNT = 2 ** 53;
 
 /** The posterior Gamma(shape, rate) of one variant's event rate. */
 interface GammaPosterior {
@@ -40,13 +36,6 @@ function checkPrior(prior: GammaPrior): void {
   ensure(
     Number.isFinite(prior.rate) && prior.rate >= 0,
     `prior_rate: ${prior.rate} is not allowed; the prior's rate must be a number of at least 0`,
-  );
-}
-
-function checkLevel(level: number): void {
-  ensure(
-    Number.isFinite(level) && level > 0 && level < 1,
-    `level: ${level} is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)`,
   );
 }
 
@@ -76,7 +65,7 @@ function posteriors(variants: readonly EventCounts[], prior: GammaPrior, minimum
 }
 
 /**
- * The posteriors tabulated in z = log λ. They share that working variable, so compare.ts evaluates one
+ * The posteriors tabulated in z = log λ. They share that working variable, so compare/ evaluates one
  * posterior's cdf at another's nodes directly in z, without the round trip through λ = e^z.
  */
 function tabulateAll(ps: readonly GammaPosterior[]): TabulatedDistribution[] {
@@ -122,7 +111,7 @@ export function eventsRateInterval(
  *
  * Method: with two variants the exact closed form P(λ_B > λ_A) = I_z(a_A, a_B), z = b_A/(b_A + b_B),
  * each of the pair computed directly (never 1 − the other). With three or more, quadrature
- * P(i highest) = ∫ f_i ∏_{j≠i} F_j of the posteriors tabulated in z = log λ (compare.ts). Accuracy 1e-9
+ * P(i highest) = ∫ f_i ∏_{j≠i} F_j of the posteriors tabulated in z = log λ (compare/ranking.ts). Accuracy 1e-9
  * absolute or better (tested against scipy.integrate.quad). Cost: two incomplete betas, or one
  * tabulation per variant plus O(k²) panel sums.
  * Throws StatsError('invalid_argument') for bad input; 2 to 50 variants.
@@ -207,7 +196,7 @@ export function eventsLiftInterval(
  * Per variant: the expected loss E[max_j λ_j − λ_i], the event rate given up on average by choosing it.
  *
  * Method: quadrature of loss_i = ∫ F_i(x)·(1 − ∏_{j≠i} F_j(x)) dx over the posteriors tabulated in
- * z = log λ (compare.ts), which keeps the tails that the two-variant closed form
+ * z = log λ (compare/losses.ts), which keeps the tails that the two-variant closed form
  * m_B·I_z(a_A, a_B + 1) − m_A·I_z(a_A + 1, a_B) loses to cancellation. Accuracy 1e-9 relative to the
  * rates' scale (tested against scipy quadrature and that closed form in 50-digit mpmath).
  * Cost: one tabulation per variant plus O(k²) panel sums.

@@ -5,7 +5,7 @@
  * @example
  * import { conversion, UNIFORM_PRIOR } from './stats';
  * conversion.probAboveControl([{ conversions: 120, visitors: 2400 }, { conversions: 150, visitors: 2380 }], UNIFORM_PRIOR);
- * //=> [0.9743219508010579]
+ * //=> [0.97432195080106…] (mpmath quad of the two Betas: 0.97432195080105781)
  */
 export * from './types';
 export { StatsError } from './errors';
@@ -17,5 +17,5 @@ export * as srm from './srm';
 export * as normalMeans from './normalMeans';
 export * as eventRates from './eventRates';
 export * as compare from './compare';
-export * as grid from './grid';
+export * as quadrature from './quadrature';
 export * as special from './special';

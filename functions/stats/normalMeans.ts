@@ -6,9 +6,10 @@
  * Data Analysis, 3rd ed., §3.2). The first variant is the control.
  *
  * Comparisons use quadrature of the t posteriors tabulated in u, value = centre + scale·sinh(u)
- * (studentTDensity.ts, grid.ts, compare.ts); P(highest) and expected loss tabulate all variants in one
- * shared coordinate x = C + S·sinh(w) where that is valid (see tabulateShared). Single-variant intervals
- * use the t quantile directly.
+ * (studentTDensity.ts, quadrature/, compare/); P(highest) and expected loss tabulate all variants in one
+ * shared coordinate x = C + S·sinh(w) where that is valid (see tabulateShared). The relative lift uses
+ * the ratio engine of the other models over both signs of the means (compare/ratio.ts
+ * signedRatioQuantile). Single-variant intervals use the t quantile directly.
  *
  * A variant with sd = 0 (every value equal, e.g. no sales at all) is treated as a point mass at its mean
  * (the limit of the t posterior as the scale goes to 0): its interval is [mean, mean]; comparisons with
@@ -17,19 +18,25 @@
  * variant has sd = 0; two or more variants with spread beside one with sd = 0 are reported as not
  * available.
  */
-import { differenceQuantile, expectedLosses, highestProbabilities, probabilityGreater } from './compare';
+import {
+  differenceQuantile,
+  expectedLosses,
+  highestProbabilities,
+  probabilityGreater,
+  signedRatioCdf,
+  signedRatioQuantile,
+} from './compare';
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
-import { PANEL_ORDER, tabulate } from './grid';
-import type { TabulatedDistribution } from './grid';
-import { findRoot, gaussLegendre } from './numeric';
+import { tabulate } from './quadrature';
+import type { TabulatedDistribution } from './quadrature';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
+import { findRoot } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';
 import { studentTWorkingDensity } from './studentTDensity';
 import type { Interval, IntervalWithMedian, MeanSummary, WorkingDensity } from './types';
 
-const MAX_VARIANTS = 50;
-const MAX_COUNT = 2 ** 53;
 /** Largest posterior mass the control's mean may put at or below zero for a relative lift. */
 const LIFT_ZERO_MASS = 1e-6;
 
@@ -38,13 +45,6 @@ interface MeanPosterior {
   readonly df: number;
   readonly centre: number;
   readonly scale: number;
-}
-
-function checkLevel(level: number): void {
-  ensure(
-    Number.isFinite(level) && level > 0 && level < 1,
-    `level: ${level} is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)`,
-  );
 }
 
 function posteriors(variants: readonly MeanSummary[], minimum: number): MeanPosterior[] {
@@ -181,7 +181,7 @@ function sharedTableHolds(t: TabulatedDistribution): boolean {
 /**
  * The posteriors (none a point mass) tabulated in one shared coordinate w, x = C + S·sinh(w), with C the
  * middle of the centres and S = max(2 × the widest scale, a quarter of the centres' range), so that
- * compare.ts evaluates every cdf at every node directly and takes the O(k²) shared-grid expected loss
+ * compare/ evaluates every cdf at every node directly and takes the O(k²) shared-grid expected loss
  * (instead of O(k³)) and direct P(highest) factors. In the normal limit the t is log-concave in w when
  * S > √2·scale and |C − centre| < 2S (worked out by hand from the curvature above), which this choice
  * gives; heavy tails (small ν) far narrower than S are not, so every table is checked (sharedTableHolds)
@@ -275,7 +275,7 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
  * Per variant: the probability that its true mean is the highest; the values sum to 1.
  *
  * Method: quadrature P(i highest) = ∫ f_i ∏_{j≠i} F_j over the t posteriors tabulated in the asinh
- * working variable (compare.ts), which turns the heavy t tails (count 2 is a Cauchy) into exponential
+ * working variable (compare/ranking.ts), which turns the heavy t tails (count 2 is a Cauchy) into exponential
  * ones. When every variant has sd = 0 the highest mean wins (ties share equally); when all but one have
  * sd = 0 the one with spread wins with its t probability of exceeding the largest exact mean. Accuracy 1e-9 absolute
  * or better against scipy.integrate.quad. The posteriors are tabulated in one shared coordinate where each
@@ -315,7 +315,7 @@ function singleSpread(ps: readonly MeanPosterior[]): MeanPosterior | undefined {
  * Per challenger (every variant after the first): P(its true mean > the control's true mean).
  *
  * Method: quadrature P(X > Y) = ∫ f_X F_Y of the tabulated t posteriors, the smaller of the pair
- * computed directly (compare.ts). Against a variant with sd = 0 (a point mass at c) it is exactly the
+ * computed directly (compare/ranking.ts). Against a variant with sd = 0 (a point mass at c) it is exactly the
  * other variant's t distribution function at c; two point masses give 1, 0 or ½ for a tie.
  * Accuracy 1e-9 absolute, tails to 1e-6 relative (against scipy.integrate.quad and mpmath).
  * Cost: one tabulation per variant plus O(panels) per challenger.
@@ -340,7 +340,7 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
  *
  * Method: the difference of two independent t posteriors is symmetric about mean_i − mean_0, so the
  * median is exactly that and the interval is mirrored about it; the lower end is the quantile of the
- * difference distribution P(D ≤ d) = ∫ f_0(x) F_i(x + d) dx by quadrature (compare.ts). With one sd = 0
+ * difference distribution P(D ≤ d) = ∫ f_0(x) F_i(x + d) dx by quadrature (compare/difference.ts). With one sd = 0
  * the difference is the other t shifted (exact quantile); with both, all three are the difference.
  * Accuracy 1e-9 absolute relative to the scale of the means (against scipy quadrature and brentq).
  * Cost: tabulation plus a root search of O(panels) integrals per challenger.
@@ -383,139 +383,6 @@ function pointOverControlLift(c: number, control: MeanPosterior, prob: number, b
   return c / x - 1;
 }
 
-/** The nodes of a tabulation that carry mass: value and quadrature weight × normalised density. */
-interface NodeMasses {
-  readonly values: Float64Array;
-  readonly masses: Float64Array;
-  /** Panel index of each kept node. */
-  readonly panels: Int32Array;
-}
-
-/**
- * The tabulation's nodes whose mass exceeds 1e-20 (the window reaches e^−700 of the peak; the dropped
- * nodes together weigh less than ~1e-17), with their values, so a node sum costs only the nodes that matter.
- */
-function nodeMasses(t: TabulatedDistribution): NodeMasses {
-  const values: number[] = [];
-  const masses: number[] = [];
-  const panels: number[] = [];
-  for (let i = 0; i < t.nodeZ.length; i++) {
-    const m = Math.exp((t.nodeLogWeight[i] as number) + (t.nodeLogDensity[i] as number));
-    if (!(m > 1e-20)) continue;
-    values.push(t.source.toValue(t.nodeZ[i] as number));
-    masses.push(m);
-    panels.push(Math.floor(i / PANEL_ORDER));
-  }
-  return { values: Float64Array.from(values), masses: Float64Array.from(masses), panels: Int32Array.from(panels) };
-}
-
-/**
- * The ratio ρ = Y/X of two independent t posteriors, the control X with a small (≤ 1e-6) but nonzero
- * chance of being negative and the challenger Y of either sign. compare.ts's ratio needs X > 0 for sure,
- * so this one integrates the exact conditional probabilities over one posterior's tabulated nodes:
- *  - over Y (when Y is the narrower): P(ρ ≤ k | Y = y) = P(y/X ≤ k), which for k > 0 is
- *    S_X(y/k) + F_X(0) (y > 0) or S_X(0) + F_X(y/k) (y < 0), and for k < 0 is F_X(y/k) − F_X(0) (y < 0)
- *    or F_X(0) − F_X(y/k) (y > 0): continuous in y;
- *  - over X (when X is the narrower): P(Y/x ≤ k) = F_Y(kx) for x > 0 and S_Y(kx) for x < 0, with the
- *    panel that holds x = 0 split there so the jump is integrated exactly.
- * The narrower posterior is the base so the other's cdf is smooth across its panels.
- */
-class SignedRatio {
-  private readonly yNodes: NodeMasses;
-  private readonly xNodes: NodeMasses;
-  private readonly xBelowZero: number;
-  private readonly xAboveZero: number;
-  private readonly rule = gaussLegendre(PANEL_ORDER);
-
-  /** Posterior scales (s/√n) of Y and X: the widths that decide the base. */
-  private readonly yScale: number;
-  private readonly xScale: number;
-
-  constructor(
-    private readonly y: TabulatedDistribution,
-    private readonly x: TabulatedDistribution,
-    challenger: MeanPosterior,
-    control: MeanPosterior,
-  ) {
-    this.yScale = challenger.scale;
-    this.xScale = control.scale;
-    this.yNodes = nodeMasses(y);
-    this.xNodes = nodeMasses(x);
-    // Exact tails of the control at zero, from the t distribution function.
-    this.xBelowZero = cdfAt(control, 0);
-    this.xAboveZero = studentTCdf(control.centre / control.scale, control.df);
-  }
-
-  /** P(Y/X ≤ k). */
-  cdf(k: number): number {
-    // The posterior scale, not the tabulation's spread: in u the t is flat-topped (curvature 1/ν at the
-    // mode), so the spread overstates a large-count posterior's width by √ν.
-    return this.yScale <= Math.abs(k) * this.xScale ? this.overY(k) : this.overX(k);
-  }
-
-  private overY(k: number): number {
-    const { x } = this;
-    const below = this.xBelowZero;
-    const above = this.xAboveZero;
-    const { values, masses } = this.yNodes;
-    let sum = 0;
-    for (let i = 0; i < masses.length; i++) {
-      const m = masses[i] as number;
-      const v = values[i] as number;
-      let h: number;
-      if (v === 0) h = k >= 0 ? 1 : 0;
-      else if (k > 0) h = v > 0 ? x.sf(v / k) + below : above + x.cdf(v / k);
-      else if (k < 0) h = v < 0 ? x.cdf(v / k) - below : below - x.cdf(v / k);
-      else h = v < 0 ? above : below;
-      sum += m * h;
-    }
-    return Math.min(1, Math.max(0, sum));
-  }
-
-  private overX(k: number): number {
-    const { y, x } = this;
-    const g = (v: number): number => (v > 0 ? y.cdf(k * v) : y.sf(k * v));
-    const n = PANEL_ORDER;
-    const zeroZ = x.source.toWorking(0);
-    const inside = zeroZ > x.windowLeft && zeroZ < x.windowRight;
-    const split = inside ? x.findPanel(zeroZ) : -1;
-    const { values, masses, panels } = this.xNodes;
-    let sum = 0;
-    for (let i = 0; i < masses.length; i++) {
-      if (panels[i] === split) continue;
-      sum += (masses[i] as number) * g(values[i] as number);
-    }
-    if (split >= 0) {
-      // The panel holding x = 0: Gauss–Legendre on each side of the jump, with the exact density.
-      const a = x.edges[split] as number;
-      const b = x.edges[split + 1] as number;
-      for (const [lo, hi] of [
-        [a, zeroZ],
-        [zeroZ, b],
-      ] as const) {
-        const half = (hi - lo) / 2;
-        const mid = (hi + lo) / 2;
-        for (let k2 = 0; k2 < n; k2++) {
-          const z = mid + half * (this.rule.nodes[k2] as number);
-          const w = half * (this.rule.weights[k2] as number) * Math.exp(x.logDensityAt(z));
-          sum += w * g(x.source.toValue(z));
-        }
-      }
-    }
-    return Math.min(1, Math.max(0, sum));
-  }
-
-  /** The lift m with P(Y/X − 1 ≤ m) = p: Brent's method on the cdf inside an expanding bracket. */
-  liftQuantile(p: number, guess: number, width: number): number {
-    const f = (m: number): number => this.cdf(1 + m) - p;
-    let lo = guess - width;
-    let hi = guess + width;
-    for (let i = 0; i < 200 && f(lo) > 0; i++) lo -= (hi - lo);
-    for (let i = 0; i < 200 && f(hi) < 0; i++) hi += (hi - lo);
-    return findRoot(f, lo, hi, 1e-14 * Math.max(1, Math.abs(guess)));
-  }
-}
-
 function percent(p: number): string {
   const value = 100 * p;
   return value >= 0.1 ? `${value.toFixed(1)}%` : `${value.toPrecision(2)}%`;
@@ -525,15 +392,16 @@ function percent(p: number): string {
  * Per challenger: lower, median and upper of the relative lift mean/control's mean − 1 at `level`.
  *
  * Method: quadrature of the ratio distribution with the challenger's mean of either sign and the
- * control's tiny chance of a negative mean kept exactly, P(Y/X ≤ k) = ∫ f_Y(y) P(y/X ≤ k) dy or
- * ∫ f_X(x) P(Y/x ≤ k) dx over the narrower posterior's tabulated nodes (see SignedRatio), inverted by
- * Brent's method. A challenger
- * with sd = 0 (a point mass c) uses the exact form through the control's t quantile; a control with
- * sd = 0 and mean > 0 divides the challenger's t quantiles by it.
+ * control's tiny chance of a negative mean kept exactly, P(Y/X ≤ k) = ∫_{x>0} f_X(x) F_Y(kx) dx +
+ * ∫_{x<0} f_X(x) S_Y(kx) dx over the control's tabulated panels, inverted by Newton's method on the log
+ * of the smaller tail with its density from the same pass (compare/ratio.ts signedRatioQuantile, the
+ * ratio engine of the other models, with the signed factors). A challenger with sd = 0 (a point mass
+ * c) uses the exact form through the control's t quantile; a control with sd = 0 and mean > 0 divides
+ * the challenger's t quantiles by it.
  * The lift is only defined while the control's mean is clearly positive: when its posterior puts more
  * than 1e-6 at or below zero the function refuses (the ratio would be dominated by division by values
- * near zero). Accuracy 1e-9 absolute (against scipy quadrature). Cost: tabulation plus three root
- * searches of O(panels) integrals per challenger.
+ * near zero). Accuracy 1e-9 absolute (against scipy quadrature). Cost: tabulation plus, per quantile,
+ * 2–6 Newton steps of one pass over the control's kept panels.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') naming the control when its mean could plausibly be ≤ 0.
  * @example meanLiftInterval([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0.95)
@@ -555,10 +423,8 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
     } else if (isPoint(p)) {
       q = probs.map((prob) => pointOverControlLift(p.centre, control, prob, belowZero));
     } else {
-      const ratio = new SignedRatio(tabulateOne(p), controlTable, p, control);
-      const guess = p.centre / control.centre - 1;
-      const width = 4 * ((p.scale + Math.abs(p.centre) * (control.scale / control.centre)) / control.centre);
-      q = probs.map((prob) => ratio.liftQuantile(prob, guess, width));
+      const table = tabulateOne(p);
+      q = probs.map((prob) => signedRatioQuantile(table, controlTable, prob));
     }
     const [lower = NaN, median = NaN, upper = NaN] = q;
     return { lower, median, upper };
@@ -570,12 +436,12 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
  * choosing that variant (in the metric's units).
  *
  * Method: quadrature loss_i = ∫ F_i(x)·(1 − ∏_{j≠i} F_j(x)) dx of the tabulated t posteriors
- * (compare.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
+ * (compare/losses.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
  * is infinite: that is reported as not available. When every variant has sd = 0 the loss is
  * max mean − mean; when all but one have sd = 0 it comes from that one's integrated cdf E[(M − X)^+]. Accuracy 1e-9 relative to the scale of the means (against scipy.integrate.quad).
  * Cost: one tabulation per variant, then with three or more posteriors in the shared coordinate of
  * tabulateShared (log-concave there; in practice counts of about 100 and more) the O(k²) shared-grid
- * integral of compare.ts (20 variants ≈ 50 ms), else O(k³) pruned integrals (20 variants ≈ 0.5–1 s).
+ * integral of compare/losses.ts (20 variants ≈ 50 ms), else O(k³) pruned integrals (20 variants ≈ 0.5–1 s).
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') for a variant with count 2, or two or more variants with spread beside one
  * with sd = 0.
@@ -600,7 +466,7 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
   const only = singleSpread(ps);
   if (points > 0 && only !== undefined) {
     // One uncertain mean X against exact ones with largest value M: choosing X loses E[(M − X)^+], the
-    // integrated cdf G_X(M) (grid.ts); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
+    // integrated cdf G_X(M) (TabulatedDistribution.logLowerMoment); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
     const top = Math.max(...ps.filter(isPoint).map((p) => p.centre));
     const lowerMoment = Math.exp(tabulateOne(only).logLowerMoment(top));
     return ps.map((p) => (isPoint(p) ? only.centre + lowerMoment - p.centre : lowerMoment));
@@ -642,9 +508,9 @@ function pointOverControlAbove(c: number, control: MeanPosterior, k: number, bel
  * minLift above the control's (a negative minLift asks "no worse than": −0.02 is "at most 2% lower").
  *
  * Method: the same ratio distribution as meanLiftInterval, with the control's tiny chance of a negative
- * mean kept exactly (SignedRatio: ∫ f_Y(y) P(y/X ≤ k) dy or ∫ f_X(x) P(Y/x ≤ k) dx over the narrower
- * posterior's nodes), k = 1 + minLift. The smaller tail is computed directly: P(Y/X > k) is also
- * P((−Y)/X < −k), the lower tail of the mirrored challenger. With sd = 0: a point-mass control c0 > 0 gives
+ * mean kept exactly (compare/ratio.ts signedRatioCdf, both signs of the control), k = 1 + minLift. The
+ * smaller tail is computed directly: P(Y/X > k) is also P((−Y)/X < −k), the lower tail of the mirrored
+ * challenger. With sd = 0: a point-mass control c0 > 0 gives
  * the challenger's t tail at k·c0 exactly; a point-mass challenger c gives P(0 < X < c/k) (or
  * P(c/k < X < 0) for c < 0) through the control's t; two point masses give 1, 0 or ½ at equality.
  * Accuracy 1e-9 absolute (against scipy quadrature, test/reference/means_lift_above.py).
@@ -673,10 +539,11 @@ export function meanProbLiftAbove(variants: readonly MeanSummary[], minLift: num
       return studentTCdf((p.centre - x) / p.scale, p.df);
     }
     if (isPoint(p)) return pointOverControlAbove(p.centre, control, k, belowZero);
-    const below = new SignedRatio(tabulateOne(p), controlTable, p, control).cdf(k);
+    const below = signedRatioCdf(tabulateOne(p), controlTable, minLift);
     if (below <= 0.5) return 1 - below;
+    // The upper tail directly: P(Y/X > k) = P((−Y)/X < −k), the lower tail of the mirrored challenger.
     const mirror: MeanPosterior = { df: p.df, centre: -p.centre, scale: p.scale };
-    return new SignedRatio(tabulateOne(mirror), controlTable, mirror, control).cdf(-k);
+    return signedRatioCdf(tabulateOne(mirror), controlTable, -k - 1);
   });
 }
 

@@ -1,6 +1,7 @@
 /**
  * Small numerical building blocks shared by the statistics core: accurate elementary functions near
- * their cancellation points, a bracketing root finder and Gauss–Legendre rules. Pure and stateless.
+ * their cancellation points, sums of exponentials kept in logs, a bracketing root finder and
+ * Gauss–Legendre rules. Pure and stateless.
  */
 import { StatsError } from './errors';
 
@@ -45,28 +46,39 @@ export function expm1mx(x: number): number {
 }
 
 /**
- * log(1 + e^x) without overflow or loss of precision (the "softplus").
+ * log(e^a + e^b) without overflow; either may be −Infinity.
  * Cost: O(1).
- * @example log1pExp(-800) //=> 0 (to double precision it is e^-800, which underflows)
- * @example log1pExp(800) //=> 800
+ * @example logAddExp(Math.log(1), Math.log(3)) //=> 1.3862943611198906 (log 4)
  */
-export function log1pExp(x: number): number {
-  if (x > 36) return x + Math.exp(-x);
-  if (x > -37) return Math.log1p(Math.exp(x));
-  return Math.exp(x);
+export function logAddExp(a: number, b: number): number {
+  if (a === -Infinity) return b;
+  if (b === -Infinity) return a;
+  return a > b ? a + Math.log1p(Math.exp(b - a)) : b + Math.log1p(Math.exp(a - b));
 }
 
 /**
- * log(Σ exp(values)) computed stably.
- * Cost: O(n). Returns −Infinity for an empty list.
+ * log(1 − e^x) for x ≤ 0, accurate at both ends (M. Mächler, "Accurately computing log(1 − exp(−|a|))",
+ * Rmpfr vignette, 2012): log(−expm1(x)) for x > −ln 2, else log1p(−exp(x)).
+ * Cost: O(1). Returns −Infinity for x ≥ 0 (1 − e^x ≤ 0 has no log; rounding can push a log probability
+ * just above 0) and 0 at x = −Infinity.
+ * @example log1mExp(Math.log(0.25)) //=> -0.2876820724517809 (log 0.75)
+ */
+export function log1mExp(x: number): number {
+  if (x >= 0) return -Infinity;
+  return x > -Math.LN2 ? Math.log(-Math.expm1(x)) : Math.log1p(-Math.exp(x));
+}
+
+/**
+ * log(Σ exp(values)) computed stably: the largest value taken out before summing.
+ * Cost: O(n). Returns −Infinity for an empty list or when every value is −Infinity.
  * @example logSumExp([Math.log(1), Math.log(3)]) //=> 1.3862943611198906 (log 4)
  */
-export function logSumExp(values: readonly number[]): number {
+export function logSumExp(values: ArrayLike<number>): number {
   let max = -Infinity;
-  for (const v of values) if (v > max) max = v;
+  for (let i = 0; i < values.length; i++) max = Math.max(max, values[i] as number);
   if (max === -Infinity) return -Infinity;
   let sum = 0;
-  for (const v of values) sum += Math.exp(v - max);
+  for (let i = 0; i < values.length; i++) sum += Math.exp((values[i] as number) - max);
   return max + Math.log(sum);
 }
 
@@ -148,6 +160,49 @@ export function findRoot(
     fb = f(b);
   }
   return b;
+}
+
+/**
+ * The root of an increasing function f inside [a, b]: Newton's method with derivative `slope`, started
+ * from the linear interpolation of the ends' residuals and kept inside a bisection bracket (a step that
+ * leaves it, or has no usable slope, is replaced by the midpoint). Returns a when f(a) ≥ 0 and b when
+ * f(b) ≤ 0. Stops when a step moves less than one ulp, |f| ≤ 1e-16 or the bracket is two ulps wide.
+ * Cost: typically 3–6 evaluations of f and slope; at most 100 steps.
+ * @example solveIncreasing((x) => x * x - 2, (x) => 2 * x, 0, 2) //=> 1.4142135623730951
+ */
+export function solveIncreasing(
+  f: (z: number) => number,
+  slope: (z: number) => number,
+  a: number,
+  b: number,
+): number {
+  let lo = a;
+  let hi = b;
+  let flo = f(lo);
+  let fhi = f(hi);
+  if (flo >= 0) return lo;
+  if (fhi <= 0) return hi;
+  let z = (lo + hi) / 2;
+  // Start from the linear interpolation of the residual.
+  if (Number.isFinite(flo) && Number.isFinite(fhi)) z = lo - (flo * (hi - lo)) / (fhi - flo);
+  for (let i = 0; i < 100; i++) {
+    const fz = f(z);
+    if (fz === 0) return z;
+    if (fz < 0) {
+      lo = z;
+      flo = fz;
+    } else {
+      hi = z;
+      fhi = fz;
+    }
+    const d = slope(z);
+    let next = d > 0 && Number.isFinite(d) ? z - fz / d : NaN;
+    if (!(next > lo && next < hi)) next = (lo + hi) / 2;
+    if (Math.abs(next - z) <= Number.EPSILON * Math.abs(z) || Math.abs(fz) <= 1e-16) return next;
+    if (hi - lo <= 2 * Number.EPSILON * Math.max(Math.abs(lo), Math.abs(hi))) return z;
+    z = next;
+  }
+  return z;
 }
 
 /** Nodes and weights of an n-point Gauss–Legendre rule on [−1, 1]. */

@@ -10,7 +10,7 @@
 import { CLOSED_FORM_MAX_TERMS, closedFormLogProbGreater } from './betaComparison';
 import { ensure, StatsError } from './errors';
 import { probAboveControl } from './conversion';
-import { digamma, trigamma } from './special/gamma';
+import { digamma, pentagamma, tetragamma, trigamma } from './special/gamma';
 import { betaCdf, betaLogDensity, betaSf } from './special/incompleteBeta';
 import { normalCdf, normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
@@ -111,37 +111,6 @@ export function classicSampleSize(
 
 // ---------------------------------------------------------------------------------------------------
 // Decision power
-
-/** ψ''(x) for x > 0: recurrence up to x ≥ 10, then the asymptotic series (Abramowitz & Stegun 6.4.11). */
-function tetragamma(x: number): number {
-  let shift = 0;
-  let y = x;
-  while (y < 10) {
-    shift -= 2 / (y * y * y);
-    y += 1;
-  }
-  const inv = 1 / y;
-  const inv2 = inv * inv;
-  // −[1/y² + 1/y³ + Σ B_2k (2k+1) / y^(2k+2)], k = 1 … 5.
-  const series = inv2 * (1 / 2 + inv2 * (-1 / 6 + inv2 * (1 / 6 + inv2 * (-3 / 10 + inv2 * (5 / 6)))));
-  return shift - (inv2 + inv2 * inv + inv2 * series);
-}
-
-/** ψ'''(x) for x > 0: recurrence up to x ≥ 10, then the asymptotic series (Abramowitz & Stegun 6.4.11). */
-function pentagamma(x: number): number {
-  let shift = 0;
-  let y = x;
-  while (y < 10) {
-    shift += 6 / (y * y * y * y);
-    y += 1;
-  }
-  const inv = 1 / y;
-  const inv2 = inv * inv;
-  const inv3 = inv2 * inv;
-  // 2/y³ + 3/y⁴ + Σ B_2k (2k+1)(2k+2) / y^(2k+3), k = 1 … 5.
-  const series = inv2 * (2 + inv2 * (-1 + inv2 * (4 / 3 + inv2 * (-3 + inv2 * (10)))));
-  return shift + 2 * inv3 + 3 * inv3 * inv + inv3 * series;
-}
 
 /**
  * Cumulants of logit p for the posterior Beta(α + x, β + n − x), for every x in [lo, hi]: logit of a

@@ -8,12 +8,11 @@
  * with a weaker one before relying on it (prior sensitivity).
  */
 import { ensure, StatsError } from './errors';
+import { MAX_COUNT } from './limits';
 import { findRoot } from './numeric';
 import { digamma, logBeta } from './special/gamma';
 import { betaCdf, betaSf } from './special/incompleteBeta';
 import type { BetaPrior } from './types';
-
-const MAX_COUNT = 2 ** 53;
 
 function checkFinite(value: number, what: string): void {
   ensure(typeof value === 'number' && !Number.isNaN(value), `${what} must be a number, got ${String(value)}`);

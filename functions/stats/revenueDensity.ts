@@ -27,7 +27,7 @@ import { betaWorkingDensity, logistic } from './betaDensity';
 import { chebyshevDensity } from './chebyshevDensity';
 import type { DensityPoint, ExactDensity } from './chebyshevDensity';
 import { ensure } from './errors';
-import { PANEL_ORDER, TabulatedDistribution, tabulate } from './grid';
+import { TabulatedDistribution, tabulate } from './quadrature';
 import type { WorkingDensity } from './types';
 
 /** Panels whose bound lies this far (in log) below the running total of an inner integral are skipped. */

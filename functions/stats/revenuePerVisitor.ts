@@ -31,8 +31,9 @@ import { expectedLosses, highestProbabilities, probabilityGreater, ratioCdf, rat
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
-import { PANEL_ORDER, tabulate } from './grid';
-import type { TabulatedDistribution } from './grid';
+import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
+import { PANEL_ORDER, tabulate } from './quadrature';
+import type { TabulatedDistribution } from './quadrature';
 import { findRoot, gaussLegendre } from './numeric';
 import { exponentialRevenueDensity, scaledRateDensity } from './revenueDensity';
 import { logFrame, sinhFrame, studentModel, studentRevenueDensity } from './revenueStudent';
@@ -50,21 +51,10 @@ export interface RevenueTotals {
   readonly orderSd?: number;
 }
 
-/** Most variants a comparison accepts (the catalogue's limit). */
-const MAX_VARIANTS = 50;
-/** Largest whole number a double holds exactly (the catalogue's limit on counts). */
-const MAX_COUNT = 2 ** 53;
 /** Largest chance of a negative order value the control may have for a relative lift (as MEAN_LIFT_INTERVAL). */
 const LIFT_ZERO_MASS = 1e-6;
 /** Below this chance of a negative order value for every variant, the order_sd model is read in log R. */
 const LOG_FRAME_MASS = 1e-13;
-
-function checkLevel(level: number): void {
-  ensure(
-    Number.isFinite(level) && level > 0 && level < 1,
-    `level: ${level} is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)`,
-  );
-}
 
 /** Checks the totals (argument names and items in every message); true when order_sd is given. */
 function checkTotals(variants: readonly RevenueTotals[], minimum: number): boolean {

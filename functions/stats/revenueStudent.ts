@@ -12,7 +12,7 @@ import { logistic } from './betaDensity';
 import { chebyshevDensity } from './chebyshevDensity';
 import type { DensityPoint, ExactDensity } from './chebyshevDensity';
 import { ensure, StatsError } from './errors';
-import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution } from './grid';
+import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution } from './quadrature';
 import { gaussLegendre } from './numeric';
 import { INNER_PRUNE, rateTable } from './revenueDensity';
 import type { WorkingDensity } from './types';

@@ -9,6 +9,7 @@
  * is commonly treated as a broken split (common practice); look for the cause before reading the results.
  */
 import { ensure } from './errors';
+import { MAX_COUNT } from './limits';
 import { chiSquareSf } from './special/chiSquare';
 
 /** The result of the split check. */
@@ -20,8 +21,6 @@ export interface SrmResult {
   /** P(χ²(df) ≥ statistic): the chance of a split at least this uneven if the assignment works as planned. */
   readonly pValue: number;
 }
-
-const MAX_COUNT = 2 ** 53;
 
 /** Validates the inputs and returns the planned shares normalised to sum to 1. */
 function checkedShares(visitors: readonly number[], plannedShares?: readonly number[]): number[] {

@@ -9,7 +9,7 @@
  * same variants. Nothing here is module-level state: a memo lives where the caller keeps it (the add-in
  * keeps one for its long-lived shared runtime, functions/functions.ts).
  */
-import type { TabulatedDistribution } from './grid';
+import type { TabulatedDistribution } from './quadrature';
 
 /** A source of tabulated distributions, each named by a key that determines it completely. */
 export interface TableSource {
@@ -22,7 +22,9 @@ export interface TableSource {
 
 /**
  * No memo: every call builds its own tables (what the core's functions do unless told otherwise).
- * @example NO_MEMO.table('beta:8:10', () => posteriorTable) // builds it again each time
+ * @example
+ * const build = () => tabulate(betaWorkingDensity(8, 10));
+ * NO_MEMO.table('beta:8:10', build) === NO_MEMO.table('beta:8:10', build) //=> false (built again each time)
  */
 export const NO_MEMO: TableSource = Object.freeze({
   table: (_key: string, build: () => TabulatedDistribution): TabulatedDistribution => build(),
@@ -40,6 +42,7 @@ export const DEFAULT_NODE_BUDGET = 400_000;
  * Throws RangeError for a budget that is not a positive whole number.
  * @example
  * const memo = new TableMemo(10_000);
+ * const build = () => tabulate(betaWorkingDensity(8, 10));
  * memo.table('beta:8:10', build) === memo.table('beta:8:10', build) //=> true (built once)
  */
 export class TableMemo implements TableSource {

@@ -39,7 +39,7 @@ export interface DensityTable {
 /**
  * A log-concave density written in a working variable z in which it is smooth and has exponential
  * (or lighter) tails: logit of a rate for a Beta, log of a rate for a Gamma, asinh of the standardised
- * value for a Student t. The tabulation in grid.ts integrates in z and reports in the value x = toValue(z).
+ * value for a Student t. The tabulation (quadrature/) integrates in z and reports in the value x = toValue(z).
  */
 export interface WorkingDensity {
   /** Unnormalised log density in z, accurate *relative to its maximum*: logDensity(mode) ≈ 0. */

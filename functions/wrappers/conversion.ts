@@ -178,7 +178,7 @@ export function rateDiffInterval(
  * @helpurl https://localhost:3000/help/PROB_LIFT_ABOVE.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param min_lift The smallest relative lift that matters to you, greater than -1 (required; 0.05 is +5%).
+ * @param min_lift The smallest relative lift that matters to you, as a fraction greater than -1 and at most 1 (required; 0.05 is +5%).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns For each challenger, P(rate ÷ control's rate − 1 > min_lift); empty text for the control.
@@ -258,7 +258,7 @@ export function decision(
  * @helpurl https://localhost:3000/help/POSTERIOR_DENSITY.html
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [points] Number of rows of the table, 2 to 10000 (optional; default 101).
+ * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the rate grid in the first column, then the posterior density of each variant.
@@ -285,7 +285,7 @@ export function posteriorDensity(
  * @helpurl https://localhost:3000/help/LIFT_DENSITY.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [points] Number of rows of the table, 2 to 10000 (optional; default 101).
+ * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
  * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.

@@ -152,7 +152,7 @@ export function eventsExpectedLoss(
  * @helpurl https://localhost:3000/help/EVENTS_PROB_LIFT_ABOVE.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
  * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param min_lift The relative lift to beat, greater than -1 (0.05 is a 5% higher rate; −0.05 asks "no worse than 5% lower").
+ * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is a 5% higher rate; −0.05 asks "no worse than 5% lower").
  * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
  * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
  * @returns For each challenger, P(its rate / the control's rate − 1 > min_lift); empty text for the control.

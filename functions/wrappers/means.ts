@@ -139,7 +139,7 @@ export function meanExpectedLoss(count: any[][], mean: any[][], sd: any[][]): an
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
  * @param mean Average of each variant, as AVERAGE gives, same shape as count.
  * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
- * @param min_lift The relative lift to beat, greater than -1 (0.05 is 5% above the control's average; −0.02 asks "no worse than 2% lower").
+ * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% above the control's average; −0.02 asks "no worse than 2% lower").
  * @returns For each challenger, P(its average / the control's average − 1 > min_lift); empty text for the control.
  * @method The ratio of the Student t posteriors (the control's small chance of a negative mean kept exactly), by quadrature; the smaller tail is computed directly. #N/A when the control's mean could plausibly be zero or negative (chance above 1e-6), as MEAN_LIFT_INTERVAL.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2; checked against scipy quadrature (test/reference/lift_above_reference.py).

@@ -18,7 +18,7 @@ import * as planning from '../stats/planning';
  * @customfunction DECISION_POWER
  * @helpurl https://localhost:3000/help/DECISION_POWER.html
  * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The challenger's true relative lift, greater than -1 (0.1 is +10%).
+ * @param lift The challenger's true relative lift, as a fraction greater than -1 and at most 1 (0.1 is +10%).
  * @param visitors_per_variant Visitors in each of the two variants (whole number, 1 or more).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, between 0 and 1 (optional; default 0.95).
  * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta).
@@ -49,7 +49,7 @@ export function decisionPower(
  * @customfunction VISITORS_NEEDED
  * @helpurl https://localhost:3000/help/VISITORS_NEEDED.html
  * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The smallest relative lift you want to detect, greater than -1 and not 0 (0.1 is +10%).
+ * @param lift The smallest relative lift you want to detect, as a fraction greater than -1 and at most 1, not 0 (0.1 is +10%).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, between 0 and 1 (optional; default 0.95).
  * @param [power] Chance of declaring the winner you want, between 0 and 1 (optional; default 0.8).
  * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta).
@@ -81,7 +81,7 @@ export function visitorsNeeded(
  * @customfunction CLASSIC_SAMPLE_SIZE
  * @helpurl https://localhost:3000/help/CLASSIC_SAMPLE_SIZE.html
  * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The smallest relative lift you want to detect, greater than -1 and not 0 (0.1 is +10%).
+ * @param lift The smallest relative lift you want to detect, as a fraction greater than -1 and at most 1, not 0 (0.1 is +10%).
  * @param [alpha] Significance level, between 0 and 1 (optional; default 0.05).
  * @param [power] Chance of detecting the lift, between 0 and 1 (optional; default 0.8).
  * @param [sides] 1 for a one-sided test, 2 for two-sided (optional; default 2).

@@ -120,7 +120,7 @@ export function revenueLiftInterval(orders: any[][], visitors: any[][], revenue:
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param min_lift The relative lift to beat, greater than -1 (0.05 is 5% more revenue per visitor; −0.02 asks "no worse than 2% lower").
+ * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% more revenue per visitor; −0.02 asks "no worse than 2% lower").
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @returns For each challenger, P(its revenue per visitor / the control's − 1 > min_lift); empty text for the control.
  * @method The upper tail of the ratio of the tabulated posteriors, P(R_B > (1 + min_lift)·R_A), integrated directly (accurate far into the tail).

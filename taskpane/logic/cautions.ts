@@ -34,7 +34,7 @@ export const CAUTIONS: readonly Caution[] = Object.freeze([
     id: 'variants',
     title: 'Many variants',
     text:
-      'With many challengers, one of them will look good by luck alone. The probability of being highest accounts for the others, but a plan made for two variants needs more visitors per variant when there are more, and the winner\'s lead usually shrinks on a second run.',
+      'With many challengers, one of them will look good by luck alone. The probability of being highest accounts for the others; the Plan section splits the chance of a false winner over the challengers, so each variant needs more visitors than in a test of two. Even so, the winner\'s lead usually shrinks on a second run: confirm a surprising winner before building on it.',
   },
   {
     id: 'novelty',

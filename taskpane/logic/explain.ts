@@ -42,12 +42,51 @@ export interface Explanation {
   readonly arguments: readonly CallArgument[];
   /** What the call computes, naming its cells. */
   readonly summary: string;
-  /** The method and its published source. */
+  /** The method in plain words, when its formula needs them (an integral), else null. */
+  readonly plainMethod: string | null;
+  /** The method and its published source (with its formula; see mathPieces for showing subscripts). */
   readonly method: string;
   readonly crossCheck: CrossCheck | null;
   /** Words of caution specific to this function, if any. */
   readonly caution: string | null;
 }
+
+/** A piece of a method text: plain text, or a subscript ("i" in fᵢ, "j≠i" under ∏). */
+export interface MathPiece {
+  readonly text: string;
+  readonly subscript: boolean;
+}
+
+/**
+ * Split a method text into plain pieces and subscripts, so "∫ f_i(x) ∏_{j≠i} F_j(x) dx" is shown with
+ * real subscripts instead of its raw notation. A subscript is what follows "_" after a letter, ∏ or "max":
+ * a {group}, a (group), or a run of letters and digits. Cost O(length).
+ * @example mathPieces('f_i(x)') //=> [{ text: 'f', subscript: false }, { text: 'i', subscript: true }, { text: '(x)', subscript: false }]
+ */
+export function mathPieces(text: string): MathPiece[] {
+  const pieces: MathPiece[] = [];
+  const pattern = /(max|[A-Za-zλμ∏Π])_(?:\{([^}]*)\}|\(([^)]*)\)|([A-Za-z0-9]+))/g;
+  let last = 0;
+  for (let match = pattern.exec(text); match !== null; match = pattern.exec(text)) {
+    const base = match[1] ?? '';
+    const sub = match[2] ?? (match[3] !== undefined ? `(${match[3]})` : (match[4] ?? ''));
+    pieces.push({ text: text.slice(last, match.index) + base, subscript: false }, { text: sub, subscript: true });
+    last = match.index + match[0].length;
+  }
+  pieces.push({ text: text.slice(last), subscript: false });
+  return pieces.filter((piece) => piece.text !== '');
+}
+
+/** The method in plain words, before its formula, for the functions whose method is an integral. */
+const PLAIN_METHODS: readonly [RegExp, string][] = [
+  [/PROB_HIGHEST$/, 'In words: for every possible value, the chance that this variant has that value while every other variant is below it, added up over all values.'],
+  [/PROB_ABOVE_CONTROL$/, 'In words: for every possible value of the challenger, the chance that the control is below it, averaged over what the challenger\'s value may be.'],
+  [/LIFT_INTERVAL$/, 'In words: for any lift r, the chance that the true lift is below r comes from averaging over what the control\'s value may be; the interval\'s ends are the lifts where that chance is (1 − level)/2 and 1 − (1 − level)/2, the median where it is ½.'],
+  [/DIFF_INTERVAL$/, 'In words: for any difference d, the chance that the true difference is below d comes from averaging over what the control\'s value may be; the interval\'s ends are where that chance is (1 − level)/2 and 1 − (1 − level)/2.'],
+  [/^PROB_LIFT_ABOVE$/, 'In words: the chance that the challenger beats the control by more than min_lift, averaged over what the control\'s rate may be.'],
+  [/EXPECTED_LOSS$/, 'In words: how much you give up on average if you choose this variant and another one is in fact better; zero when it is surely the best.'],
+  [/^LIFT_DENSITY$/, 'In words: how plausible each lift is, from averaging over what the control\'s rate may be.'],
+];
 
 /** Why a formula could not be explained. */
 export interface NotExplained {
@@ -161,6 +200,58 @@ export function itemOf(reference: string, index: number): string {
   }
 }
 
+/**
+ * The number of cells of a one-row or one-column reference ("C2:C4" → 3), or null when the text is not
+ * a plain A1 range (a name, an expression). Cost O(length).
+ * @example cellsIn("'Past tests'!B4:B15") //=> 12
+ */
+export function cellsIn(reference: string): number | null {
+  try {
+    const parsed = parseAddress(reference.trim());
+    return (parsed.end.row - parsed.start.row + 1) * (parsed.end.column - parsed.start.column + 1);
+  } catch {
+    return null;
+  }
+}
+
+/** The cells a one-value-per-variant result fills from `anchor`: down for column data, across for row data. */
+function spillOf(anchor: string, dataReference: string, count: number): string {
+  try {
+    const data = parseAddress(dataReference.trim());
+    const start = parseAddress(anchor).start;
+    const alongRow = data.start.row === data.end.row && data.end.column > data.start.column;
+    const end = alongRow ? { row: start.row, column: start.column + count - 1 } : { row: start.row + count - 1, column: start.column };
+    return `${cellAddress(start)}:${cellAddress(end)}`;
+  } catch {
+    return `${anchor}#`;
+  }
+}
+
+/**
+ * The cross-check of a P(highest) result that fits the number of variants: with two, having the highest
+ * value is beating the other, so the pairwise formula applies to the second cell; with more, no built-in
+ * formula gives it, but the values must add up to 1 and the second variant's value cannot exceed its
+ * chance of beating the first (the pairwise formula), so both are offered as checks.
+ */
+function highestCheck(pairwise: CrossCheck, dataReference: string, anchor: string, noun: string): CrossCheck {
+  const count = cellsIn(dataReference);
+  if (count === 2) {
+    return {
+      ...pairwise,
+      what: `with two variants, having the highest ${noun} is the same as beating the other: the second variant's value, ${pairwise.kind === 'reproduces' ? 'exactly' : 'by a normal approximation'}`,
+    };
+  }
+  const bound = `its chance of beating the first variant${pairwise.kind === 'reproduces' ? '' : ' (normal approximation)'}`;
+  return {
+    kind: 'checks',
+    what:
+      count === null
+        ? `an upper limit for the second variant's value: ${bound}; with more variants its chance of the highest ${noun} is lower`
+        : `that the ${count} values add up to 1 (first formula), and an upper limit for the second variant's value: ${bound} (second formula). With ${count} variants its chance of the highest ${noun} is lower than that, so the two numbers do not match`,
+    formulas: count === null ? [...pairwise.formulas] : [`=SUM(${spillOf(anchor, dataReference, count)})`, ...pairwise.formulas],
+  };
+}
+
 /** The cell `columns` to the right of a local address (used for the second cell of a spill). */
 function rightOf(address: string, columns: number): string {
   try {
@@ -210,6 +301,7 @@ export function explainFormula(formula: string, anchor: string): Explanation | N
     name: call.name,
     arguments: args,
     ...(describeCall(call.name, get, or, anchor) ?? genericWords(call.name, texts, args)),
+    plainMethod: PLAIN_METHODS.find(([pattern]) => pattern.test(call.name))?.[1] ?? null,
     method: texts === undefined ? '' : `${texts.method} Source: ${texts.source}`,
     caution: texts === undefined || texts.cautions.length === 0 ? null : texts.cautions.join(' '),
   };
@@ -302,10 +394,7 @@ function describeCall(
     case 'PROB_HIGHEST':
       return {
         summary: `The probability that each variant has the highest true conversion rate, from ${on}, with ${betaPriorWords(get)}. The values add up to 1.`,
-        crossCheck: {
-          ...normalBeats(),
-          what: 'with two variants, the challenger\'s value; the formula is a normal approximation (close once both have a few dozen conversions)',
-        },
+        crossCheck: highestCheck(normalBeats(), x, anchor, 'conversion rate'),
       };
     case 'PROB_ABOVE_CONTROL':
       return {
@@ -423,7 +512,7 @@ function describeCall(
       };
     }
     default:
-      return describeMeanOrEvents(name, get, or);
+      return describeMeanOrEvents(name, get, or, anchor);
   }
 }
 
@@ -438,7 +527,7 @@ function classicFormula(base: string, lift: string, alpha: string, power: string
   );
 }
 
-function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): CallWords | null {
+function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor: string): CallWords | null {
   const level = or('level', '0.95');
   if (name.startsWith('MEAN_')) {
     const count = get('count');
@@ -466,18 +555,20 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): CallWo
           },
         };
       case 'MEAN_PROB_HIGHEST':
-      case 'MEAN_PROB_ABOVE_CONTROL':
+      case 'MEAN_PROB_ABOVE_CONTROL': {
+        const pairwise: CrossCheck = {
+          kind: 'approximates',
+          what: 'for the first challenger against the control, a normal approximation (close for large counts)',
+          formulas: [`=NORM.S.DIST((${m2}-${m1})/${se},TRUE)`],
+        };
         return {
           summary:
             name === 'MEAN_PROB_HIGHEST'
               ? `The probability that each variant has the highest true mean, from ${on}. The values add up to 1.`
               : `For each challenger, the probability that its true mean is above the control's, from ${on}.`,
-          crossCheck: {
-            kind: 'approximates',
-            what: 'for the first challenger against the control, a normal approximation (close for large counts)',
-            formulas: [`=NORM.S.DIST((${m2}-${m1})/${se},TRUE)`],
-          },
+          crossCheck: name === 'MEAN_PROB_HIGHEST' ? highestCheck(pairwise, count, anchor, 'mean') : pairwise,
         };
+      }
       case 'MEAN_DIFF_INTERVAL':
         return {
           summary: `For each challenger, the ${percent(level)} credible interval and median of its mean − the control's mean, from ${on}.`,
@@ -531,18 +622,20 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting): CallWo
         },
       };
     case 'EVENTS_PROB_HIGHEST':
-    case 'EVENTS_PROB_ABOVE_CONTROL':
+    case 'EVENTS_PROB_ABOVE_CONTROL': {
+      const pairwise: CrossCheck = {
+        kind: 'reproduces',
+        what: 'the first challenger\'s value, by the regularized incomplete beta closed form',
+        formulas: [`=BETA.DIST((${rate1})/((${rate1})+(${rate2})),${shape1},${shape2},TRUE)`],
+      };
       return {
         summary:
           name === 'EVENTS_PROB_HIGHEST'
             ? `The probability that each variant has the highest true event rate, from ${on}. The values add up to 1.`
             : `For each challenger, the probability that its true event rate is above the control's, from ${on}.`,
-        crossCheck: {
-          kind: 'reproduces',
-          what: `${name === 'EVENTS_PROB_HIGHEST' ? 'with two variants, the challenger\'s value' : 'the first challenger\'s value'}, by the regularized incomplete beta closed form`,
-          formulas: [`=BETA.DIST((${rate1})/((${rate1})+(${rate2})),${shape1},${shape2},TRUE)`],
-        },
+        crossCheck: name === 'EVENTS_PROB_HIGHEST' ? highestCheck(pairwise, events, anchor, 'event rate') : pairwise,
       };
+    }
     case 'EVENTS_LIFT_INTERVAL': {
       const q = (prob: string): string => `BETA.INV(${prob},${shape2},${shape1})`;
       const lift = (prob: string): string => `=(${rate1})/(${rate2})*${q(prob)}/(1-${q(prob)})-1`;

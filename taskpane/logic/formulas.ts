@@ -5,6 +5,8 @@
  */
 import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
 import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
+import { PLAN_THRESHOLD_SOURCE, type ThresholdSource } from './plan';
+import { variantLetter } from '../../functions/sheet/labels';
 
 /** Warning fill and text colours for a split that looks broken. */
 export const WARNING_FILL = '#F4CCCC';
@@ -107,13 +109,15 @@ function at(origin: CellPosition, row: number, column: number): string {
 }
 
 /**
- * The "Insert plan" block: a title, the inputs as labelled constant cells, and the results as live
- * formulas that refer to those cells — visitors per variant =ABTEST.VISITORS_NEEDED(…), total
- * visitors, days to run =ROUNDUP(total/(daily·share), 0), and the classic z-test size
- * =ABTEST.CLASSIC_SAMPLE_SIZE(…) beside it. Two columns (label, value). Cost O(1).
- * @example planBlock(inputs, "A1").cells.visitorsPerVariant //=> "B11"
+ * The "Insert plan" block: a title, the inputs as labelled constant cells (rates, threshold, power and
+ * levels all as percents), and the results as live formulas that refer to those cells — the threshold each
+ * challenger must reach (from `source`, default the plan's threshold source), visitors per variant
+ * =ABTEST.VISITORS_NEEDED(…) at that threshold, total visitors, whole weeks and days to run, and the
+ * classic z-test size =ABTEST.CLASSIC_SAMPLE_SIZE(…) at the significance level split the same way. Two
+ * columns (label, value). Cost O(1).
+ * @example planBlock(inputs, "A1").cells.visitorsPerVariant //=> "B12"
  */
-export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string): LabelledBlock {
+export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string, source: ThresholdSource = PLAN_THRESHOLD_SOURCE): LabelledBlock {
   const origin = parseAddress(topLeft).start;
   const rows: [string, CellValue, string | null][] = [];
   const names: Record<string, string> = {};
@@ -126,30 +130,37 @@ export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string): 
   rows.push(['Test plan (Lift Ledger)', '', null]);
   const base = add('baselineRate', 'Baseline conversion rate', inputs.baselineRate, '0.00%');
   const lift = add('lift', 'Smallest lift worth detecting (relative)', inputs.lift, '0.0%');
-  const threshold = add('threshold', 'Decision threshold: P(beats control) at least', inputs.threshold, '0.00');
-  const power = add('power', 'Target decision power', inputs.power, '0%');
+  const threshold = add('threshold', 'Decision threshold: P(beats control) at least', inputs.threshold, '0.0%');
+  const power = add('power', 'Target decision power', inputs.power, '0.0%');
   const variants = add('variants', 'Variants, control included', inputs.variants, '0');
   const daily = add('dailyVisitors', 'Visitors per day to the page', inputs.dailyVisitors, '#,##0');
   const share = add('trafficShare', 'Share of those visitors in the test', inputs.trafficShare, '0%');
-  const alpha = add('classicAlpha', 'Classic test: significance level (two-sided)', inputs.classicAlpha, '0.00');
+  const alpha = add('classicAlpha', 'Classic test: significance level (two-sided)', inputs.classicAlpha, '0.0%');
   let priorArgs = '';
   if (inputs.prior) {
     const a = add('priorAlpha', 'Prior alpha', inputs.prior.alpha, '0.000');
     const b = add('priorBeta', 'Prior beta', inputs.prior.beta, '0.000');
     priorArgs = `,${a},${b}`;
   }
+  const perChallenger = add(
+    'perChallengerThreshold',
+    `Threshold each challenger must reach (${source.label})`,
+    `=${source.formula(threshold, variants)}`,
+    '0.00%',
+  );
   const perVariant = add(
     'visitorsPerVariant',
     'Visitors needed per variant',
-    `=ABTEST.VISITORS_NEEDED(${base},${lift},${threshold},${power}${priorArgs})`,
+    `=ABTEST.VISITORS_NEEDED(${base},${lift},${perChallenger},${power}${priorArgs})`,
     '#,##0',
   );
   const total = add('totalVisitors', 'Visitors needed in total', `=${perVariant}*${variants}`, '#,##0');
-  add('days', 'Days to run', `=ROUNDUP(${total}/(${daily}*${share}),0)`, '0');
+  const weeks = add('weeks', 'Weeks to run (whole weeks)', `=MAX(1,ROUNDUP(${total}/(${daily}*${share})/7,0))`, '0');
+  add('days', 'Days to run (whole weeks)', `=7*${weeks}`, '0');
   add(
     'classicPerVariant',
-    'Classic z-test size per variant (for comparison)',
-    `=ABTEST.CLASSIC_SAMPLE_SIZE(${base},${lift},${alpha},${power},2)`,
+    'Classic z-test size per variant (for comparison, level split the same way)',
+    `=ABTEST.CLASSIC_SAMPLE_SIZE(${base},${lift},${alpha}/MAX(1,${variants}-1),${power},2)`,
     '#,##0',
   );
   const styles: BlockStyle[] = [{ row: 0, column: 0, style: { bold: true } }];
@@ -202,7 +213,6 @@ export interface ReadoutBlock extends LabelledBlock {
   readonly chartBottomRight: string;
 }
 
-const DEFAULT_NAMES = (index: number): string => (index < 26 ? String.fromCharCode(65 + index) : `V${index + 1}`);
 
 /** What the expected-loss column means, written under the table (the loss is a difference of rates, not a relative change). */
 export const LOSS_NOTE =
@@ -293,7 +303,7 @@ export function readoutBlock(
   for (let i = 0; i < k; i += 1) {
     const value =
       source.namesRef === null
-        ? DEFAULT_NAMES(i)
+        ? variantLetter(i)
         : `=${ref(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`;
     put(2 + i, 0, value);
   }

@@ -5,6 +5,7 @@
  */
 import type { BetaPrior } from '../../functions/stats/types';
 import { betaLogDensity, betaQuantile } from '../../functions/stats/special/incompleteBeta';
+import { DEFAULT_LOCALE, formatCount, type NumberLocale } from './inputs';
 
 /** How strongly a prior weighs against the test's own data. */
 export type PriorWeight = 'light' | 'noticeable' | 'dominant';
@@ -42,7 +43,7 @@ export const PRIOR_WEIGHT_RULE =
  * planned size that is not a positive number.
  * @example summarizePrior({ alpha: 20, beta: 480 }, 10000).weight //=> "light" (mean 0.04, worth 500)
  */
-export function summarizePrior(prior: BetaPrior, plannedPerVariant: number): PriorSummary {
+export function summarizePrior(prior: BetaPrior, plannedPerVariant: number, locale: NumberLocale = DEFAULT_LOCALE): PriorSummary {
   if (!(plannedPerVariant > 0) || !Number.isFinite(plannedPerVariant)) {
     throw new RangeError('the planned visitors per variant must be a positive number');
   }
@@ -51,8 +52,8 @@ export function summarizePrior(prior: BetaPrior, plannedPerVariant: number): Pri
   const high90 = betaQuantile(0.95, alpha, beta);
   const worth = alpha + beta;
   const weight: PriorWeight = worth > plannedPerVariant ? 'dominant' : worth > plannedPerVariant / 4 ? 'noticeable' : 'light';
-  const worthText = Math.round(worth).toLocaleString('en-US');
-  const plannedText = Math.round(plannedPerVariant).toLocaleString('en-US');
+  const worthText = formatCount(worth, locale);
+  const plannedText = formatCount(plannedPerVariant, locale);
   const warning =
     weight === 'dominant'
       ? `This prior is worth about ${worthText} visitors, more than the ${plannedText} each variant will get: it would outweigh the test's own data. Use a weaker prior unless you can defend it to others.`

@@ -22,6 +22,7 @@
  *   list of past results is far shorter. Problem lists are cut to MAX_LISTED items plus a count.
  */
 import type { CellValue } from '../workbook/workbook';
+import { variantLetter } from '../../functions/sheet/labels';
 
 /** Which column (0-based within the selection) is which; names may be missing. */
 export interface TableMapping {
@@ -369,7 +370,7 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
       shares.push(isNumber(share) ? share : NaN);
     }
     names.push(
-      rawName === undefined || isBlank(rawName) ? String.fromCharCode(65 + ((r - start) % 26)) : String(rawName),
+      rawName === undefined || isBlank(rawName) ? variantLetter(r - start) : String(rawName),
     );
     visitors.push(isNumber(n) ? n : NaN);
     conversions.push(isNumber(x) ? x : NaN);

@@ -1,8 +1,10 @@
 /**
  * The side panel: a tab list (Prior, Plan, Read-out, Explain, Cautions) over the sections, a line
- * saying what is selected, and the Cautions reachable from every section.
+ * saying what is selected, and the Cautions reachable from every section (its tab, and a link in each
+ * section that opens the caution it needs).
  */
 import { CAUTIONS } from '../logic/cautions';
+import { localeOf } from '../logic/inputs';
 import type { Workbook } from '../workbook/workbook';
 import { createContext } from './context';
 import { el } from './dom';
@@ -34,37 +36,53 @@ function cautionsSection(): HTMLElement {
   );
 }
 
+/** Options of the panel. */
+export interface PanelOptions {
+  /** Office's display language (Office.context.displayLanguage): how numbers are read and shown. */
+  readonly language?: string;
+}
+
+/** The tabs in order: id and visible name. */
+const TABS: readonly (readonly [TabId, string])[] = [
+  ['prior', 'Prior'],
+  ['plan', 'Plan'],
+  ['readout', 'Read-out'],
+  ['explain', 'Explain'],
+  ['cautions', 'Cautions'],
+];
+
 /**
  * Mount the panel into `root`, talking to the workbook only through `workbook`. Resolves once the
- * selection listener is in place. Cost: DOM construction and one selection read.
- * @example await mountPanel(document.getElementById('app'), createOfficeWorkbook())
+ * selection listener is in place. The tabs follow the WAI-ARIA tabs pattern: one tab in the Tab order,
+ * arrow keys (and Home, End) move to a tab and show its section, Enter and Space show the focused tab's
+ * section. Cost: DOM construction and one selection read.
+ * @example await mountPanel(document.getElementById('app'), createOfficeWorkbook(), { language: 'de-DE' })
  */
-export async function mountPanel(root: HTMLElement, workbook: Workbook): Promise<void> {
-  const tabs: Record<TabId, string> = {
-    prior: 'Prior',
-    plan: 'Plan',
-    readout: 'Read-out',
-    explain: 'Explain',
-    cautions: 'Cautions',
-  };
+export async function mountPanel(root: HTMLElement, workbook: Workbook, options: PanelOptions = {}): Promise<void> {
   const tablist = el('fluent-tablist', { id: 'tabs', activeid: 'tab-prior', 'aria-label': 'Sections' });
-  for (const [id, label] of Object.entries(tabs)) tablist.append(el('fluent-tab', { id: `tab-${id}` }, label));
+  for (const [id, label] of TABS) {
+    tablist.append(el('fluent-tab', { id: `tab-${id}`, 'aria-controls': `section-${id}` }, label));
+  }
+  const tabElements = TABS.map(([id]) => tablist.querySelector(`#tab-${id}`) as HTMLElement);
   const selectionLine = el('p', { id: 'selection-line', class: 'hint' }, 'Selection: …');
-  const cautionsButton = el('fluent-button', { id: 'open-cautions', appearance: 'subtle', size: 'small' }, 'Cautions');
-  const header = el(
-    'header',
-    { class: 'panel-header' },
-    el('div', { class: 'title-row' }, el('h1', {}, 'Lift Ledger'), cautionsButton),
-    selectionLine,
-    tablist,
-  );
+  const header = el('header', { class: 'panel-header' }, el('h1', {}, 'Lift Ledger'), selectionLine, tablist);
   const sectionsByTab: Partial<Record<TabId, HTMLElement>> = {};
   const view = { active: 'prior' as TabId };
+
+  /** Only the shown tab is in the Tab order (roving tabindex). */
+  const rove = (): void => {
+    TABS.forEach(([id], i) => {
+      const tab = tabElements[i] as HTMLElement;
+      tab.tabIndex = id === view.active ? 0 : -1;
+      tab.setAttribute('aria-selected', String(id === view.active));
+    });
+  };
 
   const open = (tab: TabId, cautionId?: string): void => {
     view.active = tab;
     if (tablist.getAttribute('activeid') !== `tab-${tab}`) tablist.setAttribute('activeid', `tab-${tab}`);
     for (const [id, section] of Object.entries(sectionsByTab)) section.hidden = id !== tab;
+    rove();
     if (tab === 'cautions' && cautionId !== undefined) {
       const item = root.querySelector(`#caution-${cautionId}`);
       item?.setAttribute('expanded', '');
@@ -73,13 +91,17 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook): Promise
     if (tab === 'explain') void explain.refresh();
   };
 
-  const context = createContext(workbook, (id) => open('cautions', id));
+  const context = createContext(workbook, (id) => open('cautions', id), localeOf(options.language));
   const explain = explainSection(context);
   sectionsByTab.prior = priorSection(context);
   sectionsByTab.plan = planSection(context);
   sectionsByTab.readout = readoutSection(context);
   sectionsByTab.explain = explain.element;
   sectionsByTab.cautions = cautionsSection();
+  for (const [id, section] of Object.entries(sectionsByTab)) {
+    section.setAttribute('role', 'tabpanel');
+    section.setAttribute('aria-labelledby', `tab-${id}`);
+  }
 
   const main = el('main', { class: 'panel-body' }, ...Object.values(sectionsByTab));
   const footer = el(
@@ -88,16 +110,36 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook): Promise
     'Lift Ledger writes live ABTEST formulas, never pasted numbers. For decisions about health, safety or other regulated matters, ask a qualified statistician and follow local rules.',
   );
   root.replaceChildren(header, main, footer);
+  rove();
 
+  const tabOf = (target: EventTarget | null): TabId | null => {
+    const index = tabElements.findIndex((tab) => tab === target || tab.contains(target as Node));
+    return index < 0 ? null : ((TABS[index] as readonly [TabId, string])[0]);
+  };
   tablist.addEventListener('change', () => {
-    const active = tablist.getAttribute('activeid') ?? (tablist as HTMLElement & { activeid?: string }).activeid ?? '';
+    const active = (tablist as HTMLElement & { activeid?: string }).activeid ?? tablist.getAttribute('activeid') ?? '';
     const tab = active.replace(/^tab-/, '') as TabId;
-    if (tab in tabs && tab !== view.active) open(tab);
+    if (TABS.some(([id]) => id === tab) && tab !== view.active) open(tab);
   });
-  for (const id of Object.keys(tabs) as TabId[]) {
+  tablist.addEventListener('keydown', (event: KeyboardEvent) => {
+    const current = tabOf(event.target) ?? view.active;
+    const index = TABS.findIndex(([id]) => id === current);
+    const last = TABS.length - 1;
+    const moves: Record<string, number> = { ArrowRight: index + 1, ArrowDown: index + 1, ArrowLeft: index - 1, ArrowUp: index - 1, Home: 0, End: last };
+    if (event.key in moves) {
+      const next = ((moves[event.key] as number) + TABS.length) % TABS.length;
+      event.preventDefault();
+      event.stopPropagation();
+      open((TABS[next] as readonly [TabId, string])[0]);
+      (tabElements[next] as HTMLElement).focus();
+    } else if (event.key === 'Enter' || event.key === ' ') {
+      event.preventDefault();
+      open(current);
+    }
+  });
+  for (const [id] of TABS) {
     root.querySelector(`#tab-${id}`)?.addEventListener('click', () => open(id));
   }
-  cautionsButton.addEventListener('click', () => open('cautions'));
 
   const showSelection = async (): Promise<void> => {
     try {

@@ -4,6 +4,7 @@
  * overwriting.
  */
 import type { BetaPrior } from '../../functions/stats/types';
+import { DEFAULT_LOCALE, type NumberLocale } from '../logic/inputs';
 import type { FormulaBlock, Workbook, WriteOutcome } from '../workbook/workbook';
 import { button, showMessage } from './dom';
 
@@ -22,6 +23,8 @@ export type PanelEvent = 'prior' | 'plan' | 'selection';
 export interface PanelContext {
   readonly workbook: Workbook;
   readonly state: PanelState;
+  /** How the user writes numbers (from Office's display language): fields read both decimal marks. */
+  readonly locale: NumberLocale;
   /** Tell the other sections something changed. */
   notify(event: PanelEvent): void;
   /** Listen for changes. */
@@ -32,12 +35,13 @@ export interface PanelContext {
 
 /**
  * A panel context with fresh state and its own listener lists. Cost O(1).
- * @example const context = createContext(workbook, (id) => tabs.open('cautions', id))
+ * @example const context = createContext(workbook, (id) => tabs.open('cautions', id), localeOf('de-DE'))
  */
-export function createContext(workbook: Workbook, showCautions: (id?: string) => void): PanelContext {
+export function createContext(workbook: Workbook, showCautions: (id?: string) => void, locale: NumberLocale = DEFAULT_LOCALE): PanelContext {
   const listeners = new Map<PanelEvent, (() => void)[]>();
   return {
     workbook,
+    locale,
     state: { prior: null, plannedPerVariant: null },
     notify(event) {
       for (const listener of listeners.get(event) ?? []) listener();

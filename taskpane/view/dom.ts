@@ -23,24 +23,39 @@ export function el<K extends string>(tag: K, attributes: Attributes = {}, ...chi
 /** A Fluent element with a string value (text input, dropdown). */
 export type ValueElement = HTMLElement & { value: string };
 
-/** A labelled text field: the element to place and a reader of its current text. */
+/** A labelled text field: the element to place, a reader of its current text, and a line for its message. */
 export interface Field {
   readonly element: HTMLElement;
   readonly input: ValueElement;
   text(): string;
   set(text: string): void;
+  /** Show an error (red) or a note (how the value was read) under the field, or clear it with null. */
+  say(kind: 'error' | 'note', text: string | null): void;
+}
+
+/** Options of a text field. */
+export interface FieldOptions {
+  /** A hint below the label. */
+  readonly hint?: string;
+  /** A unit shown inside the field after the value ("%"): the field takes percents. */
+  readonly unit?: string;
 }
 
 /**
- * A Fluent text field with a label and an optional hint below it. Cost O(1).
- * @example textField('plan-baseline', 'Baseline conversion rate (%)', '4') //=> { element, input, text(), set() }
+ * A Fluent text field with a label, an optional unit inside it ("%") and hint below it, and a line for
+ * messages about what was typed. Cost O(1).
+ * @example textField('plan-baseline', 'Baseline conversion rate', '4', { unit: '%' }) //=> { element, input, text(), set(), say() }
  */
-export function textField(id: string, label: string, value: string, hint?: string): Field {
-  const input = el('fluent-text-input', { id, value, slot: 'input', 'data-field': id }) as ValueElement;
-  input.setAttribute('aria-label', label);
+export function textField(id: string, label: string, value: string, options: FieldOptions | string = {}): Field {
+  const { hint, unit } = typeof options === 'string' ? { hint: options, unit: undefined } : options;
+  const input = el('fluent-text-input', { id, value, slot: 'input', 'data-field': id, ...(unit ? { 'data-unit': unit } : {}) }) as ValueElement;
+  input.setAttribute('aria-label', unit === '%' ? `${label}, in percent` : label);
+  if (unit) input.append(el('span', { slot: 'end', class: 'unit', 'aria-hidden': 'true' }, unit));
   const field = el('fluent-field', { 'label-position': 'above' }, el('label', { slot: 'label', for: id }, label), input);
   const wrapper = el('div', { class: 'field' }, field);
   if (hint) wrapper.append(el('p', { class: 'hint field-hint' }, hint));
+  const message = el('p', { id: `${id}-message`, class: 'field-message', 'aria-live': 'polite', hidden: true });
+  wrapper.append(message);
   return {
     element: wrapper,
     input,
@@ -48,6 +63,13 @@ export function textField(id: string, label: string, value: string, hint?: strin
     set: (text: string) => {
       input.value = text;
       input.setAttribute('value', text);
+    },
+    say: (kind, text) => {
+      message.hidden = text === null;
+      message.textContent = text ?? '';
+      message.className = `field-message ${kind === 'error' ? 'error-text' : 'hint'}`;
+      if (kind === 'error' && text !== null) input.setAttribute('data-invalid', '');
+      else input.removeAttribute('data-invalid');
     },
   };
 }

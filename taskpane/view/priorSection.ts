@@ -6,15 +6,31 @@
 import type { BetaPrior } from '../../functions/stats/types';
 import { priorFromHistory, priorFromInterval, priorFromMean } from '../../functions/stats/prior';
 import { priorBlock, type PriorChoice } from '../logic/formulas';
-import { formatCount, formatPercent, parseNumber, parsePercent } from '../logic/inputs';
+import {
+  formatCount,
+  formatDecimal,
+  formatPercent,
+  readCount,
+  readPercent,
+  type CountRule,
+  type FieldReading,
+  type PercentRule,
+} from '../logic/inputs';
 import { PRIOR_WEIGHT_RULE, priorDensityCurve, summarizePrior } from '../logic/priorSummary';
 import { checkTable, detectTable } from '../logic/tableDetect';
 import { parseAddress, rangeAddress, referenceFrom } from '../workbook/address';
 import { chartSlot, drawPriorChart } from './charts';
 import { outcomeText, writeAsking, type PanelContext } from './context';
-import { button, el, radioGroup, setBusy, shortNumber, showMessage, textField } from './dom';
+import { button, el, radioGroup, setBusy, shortNumber, showMessage, textField, type Field } from './dom';
 
 type Mode = 'mean' | 'interval' | 'history';
+
+/** A rate field: a percent strictly between 0% and 100%. */
+const RATE_RULE = (name: string): PercentRule => ({ name, min: 0, minIncluded: false, max: 1, maxIncluded: false, example: '4' });
+/** The chance of the plausible range: a percent from 10% to below 100% (below 10% is a likely slip). */
+const LEVEL_RULE: PercentRule = { name: 'Chance the rate is in that range', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '90' };
+const WORTH_RULE: CountRule = { name: 'Worth in visitors', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '200' };
+const PLANNED_RULE: CountRule = { name: 'Visitors per variant you expect', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '10000' };
 
 /** Past results picked from the sheet for PRIOR_FROM_HISTORY. */
 interface History {
@@ -31,17 +47,17 @@ interface History {
  * @example section.append(priorSection(context))
  */
 export function priorSection(context: PanelContext): HTMLElement {
-  const root = el('section', { id: 'section-prior', class: 'section', 'aria-labelledby': 'tab-prior' });
+  const root = el('section', { id: 'section-prior', class: 'section', role: 'tabpanel', 'aria-labelledby': 'tab-prior' });
   const modes = radioGroup('prior-mode', 'How to choose the prior', [
     ['mean', 'From a typical rate and how many visitors that belief is worth', 'prior-mode-mean'],
     ['interval', 'From a plausible range', 'prior-mode-interval'],
     ['history', 'Fitted to past results on the sheet', 'prior-mode-history'],
   ]);
-  const mean = textField('prior-mean', 'Typical conversion rate (%)', '4');
-  const strength = textField('prior-strength', 'Worth in visitors', '200', 'alpha + beta: how many visitors this belief counts for');
-  const low = textField('prior-low', 'Plausible low (%)', '3');
-  const high = textField('prior-high', 'Plausible high (%)', '6');
-  const level = textField('prior-level', 'Chance the rate is in that range (%)', '90');
+  const mean = textField('prior-mean', 'Typical conversion rate', '4', { unit: '%' });
+  const strength = textField('prior-strength', 'Worth in visitors', '200', { hint: 'alpha + beta: how many visitors this belief counts for' });
+  const low = textField('prior-low', 'Plausible low', '3', { unit: '%' });
+  const high = textField('prior-high', 'Plausible high', '6', { unit: '%' });
+  const level = textField('prior-level', 'Chance the rate is in that range', '90', { unit: '%' });
   const historyButton = button('prior-use-selection', 'Use the selected past results');
   const historyInfo = el('p', { id: 'prior-history-info', class: 'hint' }, 'Select the past results (one row per past test or arm: conversions and visitors columns, a heading row is fine), then press the button.');
   const method = radioGroup(
@@ -53,7 +69,7 @@ export function priorSection(context: PanelContext): HTMLElement {
     ],
     'horizontal',
   );
-  const planned = textField('prior-planned', 'Visitors per variant you expect', '10000', 'Filled in from the Plan section once you compute a plan');
+  const planned = textField('prior-planned', 'Visitors per variant you expect', '10000', { hint: 'Filled in from the Plan section' });
   const groups: Record<Mode, HTMLElement> = {
     mean: el('div', { class: 'group', id: 'prior-group-mean' }, mean.element, strength.element),
     interval: el('div', { class: 'group', id: 'prior-group-interval', hidden: true }, low.element, high.element, level.element),
@@ -61,7 +77,7 @@ export function priorSection(context: PanelContext): HTMLElement {
   };
   const summary = el('div', { id: 'prior-summary', class: 'summary', 'aria-live': 'polite' });
   const warning = el('div', { id: 'prior-warning' });
-  const slot = chartSlot('prior-chart', 'Density of the chosen prior with its central 90% range and mean');
+  const slot = chartSlot('prior-chart', 'The prior belief about the conversion rate, its middle 90% and its mean');
   const writeButton = button('prior-write', 'Write to sheet', 'primary');
   const status = el('div', { id: 'prior-status' });
   const cautionLink = el('fluent-link', { href: '#', id: 'prior-cautions' }, 'How much does the prior matter?');
@@ -94,21 +110,28 @@ export function priorSection(context: PanelContext): HTMLElement {
     return value === 'interval' || value === 'history' ? value : 'mean';
   };
 
+  /** Read one field, showing its message; the value, or null when it is not usable. */
+  const value = (field: Field, reading: FieldReading): number | null => {
+    field.say(reading.ok ? 'note' : 'error', reading.ok ? reading.note : reading.message);
+    return reading.ok ? reading.value : null;
+  };
+
   const choice = (): PriorChoice | string => {
+    const locale = context.locale;
+    for (const field of [mean, strength, low, high, level]) field.say('note', null);
     switch (view.mode) {
       case 'mean': {
-        const m = parsePercent(mean.text());
-        const s = parseNumber(strength.text());
-        if (!(m > 0 && m < 1)) return 'The typical rate must be between 0% and 100%.';
-        if (!(s > 0)) return 'The worth in visitors must be above 0.';
+        const m = value(mean, readPercent(mean.text(), RATE_RULE('Typical conversion rate'), locale));
+        const s = value(strength, readCount(strength.text(), WORTH_RULE, locale));
+        if (m === null || s === null) return 'Check the fields marked in red above.';
         return { kind: 'mean', meanRate: m, strength: s };
       }
       case 'interval': {
-        const lo = parsePercent(low.text());
-        const hi = parsePercent(high.text());
-        const lv = parsePercent(level.text());
-        if (!(lo > 0 && hi < 1 && lo < hi)) return 'The plausible range needs 0% < low < high < 100%.';
-        if (!(lv > 0 && lv < 1)) return 'The chance must be between 0% and 100%.';
+        const lo = value(low, readPercent(low.text(), RATE_RULE('Plausible low'), locale));
+        const hi = value(high, readPercent(high.text(), RATE_RULE('Plausible high'), locale));
+        const lv = value(level, readPercent(level.text(), LEVEL_RULE, locale));
+        if (lo === null || hi === null || lv === null) return 'Check the fields marked in red above.';
+        if (!(lo < hi)) return `The plausible low (${formatPercent(lo, locale)}) must be below the plausible high (${formatPercent(hi, locale)}).`;
         return { kind: 'interval', low: lo, high: hi, level: lv };
       }
       case 'history': {
@@ -138,24 +161,31 @@ export function priorSection(context: PanelContext): HTMLElement {
     if (typeof c === 'string') {
       summary.replaceChildren(el('p', { class: 'hint' }, c));
       showMessage(warning, 'info', null);
+      slot.chart?.destroy();
+      slot.chart = null;
+      const changed = context.state.prior !== null;
       context.state.prior = null;
       setBusy(writeButton, true);
+      if (changed) context.notify('prior');
       return;
     }
     try {
       const prior = compute(c);
-      const plannedValue = parseNumber(planned.text());
-      const s = summarizePrior(prior, plannedValue > 0 ? plannedValue : 10000);
+      const locale = context.locale;
+      const plannedReading = readCount(planned.text(), PLANNED_RULE, locale);
+      planned.say(plannedReading.ok ? 'note' : 'error', plannedReading.ok ? plannedReading.note : `${plannedReading.message} Using 10,000 meanwhile.`);
+      const s = summarizePrior(prior, plannedReading.ok ? plannedReading.value : 10000, locale);
       summary.replaceChildren(
         el('p', { id: 'prior-parameters' }, `Beta(alpha = ${shortNumber(s.alpha)}, beta = ${shortNumber(s.beta)})`),
-        el('p', { id: 'prior-facts' }, `Mean ${formatPercent(s.mean)}; 90% of the belief lies between ${formatPercent(s.low90)} and ${formatPercent(s.high90)}; worth about ${formatCount(s.worth)} visitors.`),
+        el('p', { id: 'prior-facts' }, `Mean ${formatPercent(s.mean, locale)}; 90% of the belief lies between ${formatPercent(s.low90, locale)} and ${formatPercent(s.high90, locale)}; worth about ${formatCount(s.worth, locale)} visitors.`),
       );
       if (s.warning !== null) showMessage(warning, s.weight === 'dominant' ? 'warning' : 'info', `${s.warning} ${PRIOR_WEIGHT_RULE}`);
       else showMessage(warning, 'info', null);
-      drawPriorChart(slot, priorDensityCurve(prior), s);
+      drawPriorChart(slot, priorDensityCurve(prior), s, locale);
+      const changed = context.state.prior?.alpha !== prior.alpha || context.state.prior?.beta !== prior.beta;
       context.state.prior = prior;
       setBusy(writeButton, false);
-      context.notify('prior');
+      if (changed) context.notify('prior');
     } catch (error) {
       summary.replaceChildren(el('p', { class: 'error-text' }, `No prior: ${(error as Error).message}`));
       showMessage(warning, 'info', null);
@@ -239,7 +269,7 @@ export function priorSection(context: PanelContext): HTMLElement {
   writeButton.addEventListener('click', () => void write());
   context.listen('plan', () => {
     if (context.state.plannedPerVariant !== null) {
-      planned.set(String(context.state.plannedPerVariant));
+      planned.set(formatDecimal(context.state.plannedPerVariant, context.locale));
       update();
     }
   });

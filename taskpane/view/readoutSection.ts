@@ -7,7 +7,8 @@
  */
 import { srmPValue } from '../../functions/stats/srm';
 import { readoutArea, readoutBlock, SRM_ALARM } from '../logic/formulas';
-import { formatCount, parseNumber, parsePercent } from '../logic/inputs';
+import { formatCount, parseNumber, readPercent, type PercentRule } from '../logic/inputs';
+import { variantLabel } from '../logic/resultWords';
 import {
   checkTable,
   detectTable,
@@ -21,6 +22,9 @@ import type { CellValue, RangeContents } from '../workbook/workbook';
 import { outcomeText, type PanelContext } from './context';
 import { button, checkbox, el, select, setBusy, showMessage, textField } from './dom';
 import { writePlace } from './writePlace';
+
+/** The credible level takes a percent from 10% (below is a likely slip: 0.95 typed for 95%). */
+const CREDIBLE_LEVEL_RULE: PercentRule = { name: 'Credible level', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '95' };
 
 /** Rows of the LIFT_DENSITY table the read-out writes for its chart. */
 const DENSITY_POINTS = 61;
@@ -47,10 +51,10 @@ export function readoutSection(context: PanelContext): HTMLElement {
   const useButton = button('readout-use-selection', 'Use the selected table', 'primary');
   const tableInfo = el('div', { id: 'readout-table', class: 'summary', 'aria-live': 'polite' });
   const mappingArea = el('div', { id: 'readout-mapping', class: 'group' });
-  const level = textField('readout-level', 'Credible level (%)', '95');
+  const level = textField('readout-level', 'Credible level', '95', { unit: '%' });
   const alpha = textField('readout-alpha', 'Prior alpha', '1');
   const beta = textField('readout-beta', 'Prior beta', '1');
-  const priorButton = button('readout-use-prior', 'Use the prior from the Prior section', 'subtle');
+  const priorButton = button('readout-use-prior', 'Copy alpha and beta from the Prior section');
   const insertButton = button('readout-insert', 'Insert read-out', 'primary');
   setBusy(insertButton, true);
   const splitArea = el('div', { id: 'readout-split' });
@@ -138,13 +142,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
     }
     const list = el('ul', { id: 'readout-variants' });
     checked.names.forEach((name, i) =>
-      list.append(
-        el(
-          'li',
-          {},
-          `${i === 0 ? 'Control ' : ''}${name}: ${formatCount(checked.conversions[i] ?? NaN)} conversions of ${formatCount(checked.visitors[i] ?? NaN)} visitors`,
-        ),
-      ),
+      list.append(el('li', {}, `${variantLabel(name, i)}: ${formatCount(checked.conversions[i] ?? NaN, context.locale)} conversions of ${formatCount(checked.visitors[i] ?? NaN, context.locale)} visitors`)),
     );
     tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
     const p = srmPValue(checked.visitors, checked.shares ?? undefined);
@@ -301,11 +299,12 @@ export function readoutSection(context: PanelContext): HTMLElement {
     if (selection === null || mapping === null || !view.confirmed || view.inserting) return;
     const checked = checkTable(selection.values, mapping);
     if (!checked.ok) return;
-    const lv = parsePercent(level.text());
-    const a = parseNumber(alpha.text());
-    const b = parseNumber(beta.text());
-    if (!(lv > 0 && lv < 1) || !(a > 0) || !(b > 0)) {
-      showMessage(status, 'error', 'The credible level must be between 0% and 100%, and prior alpha and beta above 0.');
+    const levelReading = readPercent(level.text(), CREDIBLE_LEVEL_RULE, context.locale);
+    const lv = levelReading.ok ? levelReading.value : Number.NaN;
+    const a = parseNumber(alpha.text(), context.locale);
+    const b = parseNumber(beta.text(), context.locale);
+    if (!levelReading.ok || !(a > 0) || !(b > 0)) {
+      showMessage(status, 'error', levelReading.ok ? 'Prior alpha and beta must be above 0.' : levelReading.message);
       return;
     }
     setBusy(insertButton, true);

@@ -292,7 +292,20 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.probLiftAbove(col([1, 2]), col([10, 20]), -1))).toEqual({
       code: '#VALUE!',
-      message: 'min_lift: -1 is not allowed; enter a number greater than -1',
+      message: 'min_lift: -1 is not allowed; enter a number greater than -1 and at most 1',
+    });
+    // a lift typed as a whole percentage used to ask about a sixfold rate (and answered 2e-122)
+    expect(sheetError(() => F.probLiftAbove(col([120, 150]), col([2400, 2380]), 5))).toEqual({
+      code: '#VALUE!',
+      message: 'min_lift: 5 is not allowed; enter a fraction: 0.05 for +5% (a relative lift, at most 1 for +100%)',
+    });
+    expect(sheetError(() => F.rateInterval(col([1, 2]), col([10, 20]), 95))).toEqual({
+      code: '#VALUE!',
+      message: 'level: 95 is not allowed; enter a fraction: 0.95 for 95%',
+    });
+    expect(sheetError(() => F.visitorsNeeded(0.1, 20))).toEqual({
+      code: '#VALUE!',
+      message: 'lift: 20 is not allowed; enter a fraction: 0.2 for +20% (a relative lift, at most 1 for +100%)',
     });
     expect(sheetError(() => F.posteriorMean(col([11]), col([10])))).toEqual({
       code: '#VALUE!',
@@ -300,7 +313,7 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.posteriorDensity(col([1]), col([10]), 1))).toEqual({
       code: '#VALUE!',
-      message: 'points: 1 is not allowed; enter a whole number, at least 2 and at most 10000',
+      message: 'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
     });
     const fiftyOne = Array.from({ length: 51 }, () => 5);
     expect(sheetError(() => F.probHighest(col(fiftyOne), col(fiftyOne.map(() => 50))))).toEqual({

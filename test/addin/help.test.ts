@@ -4,7 +4,6 @@
  * agrees with the metadata Excel shows (same source, so they cannot drift) and with the catalogue's rules. Icons are checked as PNG
  * files against the PNG specification (W3C, 2nd ed.): signature, IHDR, CRCs, and the pixel data size.
  */
-import * as path from 'path';
 import * as zlib from 'zlib';
 import { generateCustomFunctionsMetadata } from 'custom-functions-metadata';
 import { CATALOGUE_LIST } from '../../functions/catalogue';

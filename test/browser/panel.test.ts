@@ -117,14 +117,14 @@ describe('side panel flows in the preview', () => {
     await fill(panel, 'plan-variants', '2');
     await fill(panel, 'plan-daily', '6000');
     await fill(panel, 'plan-share', '50');
-    await panel.locator('#plan-compute').click();
+    // the plan follows the fields (no button to press)
     const needed = visitorsNeeded(0.042, 0.1, 0.95, 0.8, UNIFORM_PRIOR);
-    await panel.locator('#plan-per-variant').waitFor();
-    expect(await panel.locator('#plan-per-variant').textContent()).toBe(`Visitors per variant: ${needed.toLocaleString('en-US')}`);
-    expect(await panel.locator('#plan-days').textContent()).toContain(`Days to run: ${Math.ceil((2 * needed) / 3000).toLocaleString('en-US')}`);
+    await panel.locator('#plan-per-variant', { hasText: `Visitors per variant: ${needed.toLocaleString('en-US')}` }).waitFor();
+    const weeks = Math.ceil((2 * needed) / 3000 / 7);
+    expect(await panel.locator('#plan-days').textContent()).toContain(`Run for ${weeks} weeks (${7 * weeks} days) at 3,000 test visitors a day.`);
     expect(await panel.locator('#plan-classic').textContent()).toContain(classicSampleSize(0.042, 0.1, 0.05, 0.8, 2).toLocaleString('en-US'));
     // the power curve is computed a point at a time and the progress bar goes away at the end
-    await panel.locator('#plan-progress-text', { hasText: 'Decision power at' }).waitFor({ timeout: 120_000 });
+    await panel.locator('#plan-progress-text', { hasText: 'Decision power of each challenger at' }).waitFor({ timeout: 120_000 });
     await screenshot(page, 'panel-plan');
 
     await selectCell(page, 'D4');
@@ -136,11 +136,11 @@ describe('side panel flows in the preview', () => {
       'D4',
     );
     const perVariant = await cellInput(page, 'Plan', cells.visitorsPerVariant as string);
-    expect(perVariant.input).toBe('=ABTEST.VISITORS_NEEDED(E5,E6,E7,E8)');
+    expect(perVariant.input).toBe('=ABTEST.VISITORS_NEEDED(E5,E6,E13,E8)');
     expect(perVariant.value).toBe(needed);
     const days = await cellInput(page, 'Plan', cells.days as string);
-    expect(days.input).toBe('=ROUNDUP(E14/(E10*E11),0)');
-    expect(days.value).toBe(Math.ceil((2 * needed) / 3000));
+    expect(days.input).toBe('=7*E16');
+    expect(days.value).toBe(7 * weeks);
     expect((await cellInput(page, 'Plan', cells.classicPerVariant as string)).value).toBe(classicSampleSize(0.042, 0.1, 0.05, 0.8, 2));
     // live: change the baseline cell on the sheet and the plan follows
     await enterCell(page, cells.baselineRate as string, '0.05');
@@ -169,7 +169,7 @@ describe('side panel flows in the preview', () => {
     await panel.locator('#readout-use-selection').click();
     await panel.locator('#readout-variants').waitFor();
     expect(await panel.locator('#readout-variants li').allTextContents()).toEqual([
-      'Control Green button: 412 conversions of 10,000 visitors',
+      'Green button (control): 412 conversions of 10,000 visitors',
       'Orange button: 486 conversions of 10,900 visitors',
       'Blue button: 430 conversions of 9,800 visitors',
     ]);

@@ -34,7 +34,7 @@ interface PreviewServer {
   close(): Promise<void>;
 }
 interface ServerModule {
-  startPreviewServer(options: { port: number }): Promise<PreviewServer>;
+  startPreviewServer(options: { port: number; asBuilt?: boolean }): Promise<PreviewServer>;
   ensurePreviewBuilt(options?: { log?: (line: string) => void }): boolean;
 }
 // eslint-disable-next-line @typescript-eslint/no-require-imports
@@ -55,6 +55,10 @@ export interface OpenPreviewOptions {
   /** Open with the side panel shown (default true). */
   readonly panel?: boolean;
   readonly viewport?: { width: number; height: number };
+  /** Serve the side panel's page exactly as built (Office's CDN script left in; see preview/server.js). */
+  readonly asBuilt?: boolean;
+  /** Runs before the first navigation, e.g. to add init scripts or routes to the browser context. */
+  readonly prepare?: (context: BrowserContext) => Promise<void>;
 }
 
 /**
@@ -70,7 +74,7 @@ export async function openPreview(options: OpenPreviewOptions = {}): Promise<Ope
   const executablePath = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
   if (!fs.existsSync(executablePath)) throw new Error(`${executablePath} not found: apt-get install -y chromium`);
   serverModule.ensurePreviewBuilt({ log: () => undefined });
-  const server = await serverModule.startPreviewServer({ port: 0 });
+  const server = await serverModule.startPreviewServer({ port: 0, asBuilt: options.asBuilt });
   const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'lift-ledger-preview-'));
   let context: BrowserContext | undefined;
   const cleanup = async (): Promise<void> => {
@@ -85,6 +89,7 @@ export async function openPreview(options: OpenPreviewOptions = {}): Promise<Ope
       args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
       viewport: options.viewport ?? { width: 1440, height: 900 },
     });
+    await options.prepare?.(context);
     const page = context.pages()[0] ?? (await context.newPage());
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));

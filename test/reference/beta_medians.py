@@ -3,7 +3,7 @@
 
 Run with a python3 that has scipy and mpmath (scipy 1.17.1, mpmath 1.3.0 here):
     python3 test/reference/beta_medians.py > test/reference/beta_medians.json
-test/stats/gridCaches.test.ts reads the JSON (TabulatedDistribution.median against it).
+test/stats/quadratureCaches.test.ts reads the JSON (TabulatedDistribution.median against it).
 Check under "checks" (for a person): where mpmath.betainc converges (the shapes below 1e4), the median
 again as the root of mpmath.betainc(a, b, 0, x) = 1/2 at 30 digits (mpmath.findroot from scipy's value);
 worst relative difference from scipy.

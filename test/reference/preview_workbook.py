@@ -46,7 +46,7 @@ out = {
         [float(stats.gamma.ppf(0.025, 1 + e, scale=1 / t)), float(stats.gamma.ppf(0.975, 1 + e, scale=1 / t))]
         for e, t in zip(events, exposure)
     ],
-    # P(lambda_B > lambda_A) = I_z(a_A, a_B), z = b_A / (b_A + b_B) (shared/check-values.md, Gamma–Poisson)
+    # P(lambda_B > lambda_A) = I_z(a_A, a_B), z = b_A / (b_A + b_B) (docs/check-values.md, Gamma–Poisson)
     "events_prob_above_control": [
         float(special.betainc(1 + events[0], 1 + events[i], exposure[0] / (exposure[0] + exposure[i]))) for i in (1, 2)
     ],

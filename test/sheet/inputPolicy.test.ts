@@ -26,6 +26,13 @@ import {
   POINTS,
   readRequiredNumber,
   MIN_LIFT,
+  LIFT,
+  THRESHOLD,
+  POWER,
+  ALPHA,
+  BASELINE_RATE,
+  percentHint,
+  variantLetter,
 } from '../../functions/sheet';
 import { amountDecisionCell, decisionText, defaultLabel, formatAmount, formatPercent, labelOf } from '../../functions/sheet/decision';
 import { readArgs } from '../../functions/sheet/args';
@@ -257,14 +264,14 @@ describe('priors and scalars', () => {
 
   test('a required scalar that is missing says so', () => {
     expect(sheetError(() => readRequiredNumber(MIN_LIFT, undefined)).message).toBe(
-      'min_lift: is missing; enter a number greater than -1',
+      'min_lift: is missing; enter a number greater than -1 and at most 1',
     );
   });
 
-  test('points must be a whole number from 2 to 10000', () => {
+  test('points must be a whole number from 2 to 1000', () => {
     expect(readOptionalNumber(POINTS, undefined)).toBe(101);
     expect(sheetError(() => readOptionalNumber(POINTS, 1)).message).toBe(
-      'points: 1 is not allowed; enter a whole number, at least 2 and at most 10000',
+      'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
     );
     expect(sheetError(() => readOptionalNumber(POINTS, 10.5)).message).toBe('points: 10.5 is not a whole number');
   });
@@ -451,5 +458,58 @@ describe('decision text', () => {
     expect(decisionText({ choose: false, label: 'B', loss: 0.003, maxLoss: 0.0005 })).toBe(
       'Keep collecting data: B leads, but its expected loss 0.30% is above the 0.050% allowed',
     );
+  });
+});
+
+describe('variant letters (labels.ts), the one helper for DECISION and the panel', () => {
+  test('follow spreadsheet column letters: Z, AA, AZ, BA, ZZ, AAA, and XFD for the 16,384th', () => {
+    // Excel names its columns this way; its last column, number 16,384, is XFD (Microsoft, "Excel
+    // specifications and limits"; common practice for the sequence itself)
+    const letters = [0, 25, 26, 51, 52, 701, 702, 16383].map(variantLetter);
+    expect(letters).toEqual(['A', 'Z', 'AA', 'AZ', 'BA', 'ZZ', 'AAA', 'XFD']);
+    expect(defaultLabel(26)).toBe(variantLetter(26));
+  });
+});
+
+describe('a percentage typed where a fraction belongs gets a hint', () => {
+  test('levels, thresholds, power and alpha: 95 → "0.95 for 95%"', () => {
+    expect(sheetError(() => readOptionalNumber(LEVEL, 95))).toEqual({
+      code: '#VALUE!',
+      message: 'level: 95 is not allowed; enter a fraction: 0.95 for 95%',
+    });
+    expect(sheetError(() => readOptionalNumber(THRESHOLD, 90)).message).toBe(
+      'threshold: 90 is not allowed; enter a fraction: 0.9 for 90%',
+    );
+    expect(sheetError(() => readOptionalNumber(POWER, 80)).message).toBe('power: 80 is not allowed; enter a fraction: 0.8 for 80%');
+    expect(sheetError(() => readOptionalNumber(ALPHA, 5)).message).toBe('alpha: 5 is not allowed; enter a fraction: 0.05 for 5%');
+    expect(sheetError(() => readRequiredNumber(BASELINE_RATE, 12.5)).message).toBe(
+      'baseline_rate: 12.5 is not allowed; enter a fraction: 0.125 for 12.5%',
+    );
+  });
+
+  test('outside 2…100 the plain rule is stated (1.5 and 150 are not percentages of a fraction)', () => {
+    expect(sheetError(() => readOptionalNumber(LEVEL, 150)).message).toBe(
+      'level: 150 is not allowed; enter a number greater than 0 and less than 1',
+    );
+    expect(sheetError(() => readOptionalNumber(LEVEL, -50)).message).toBe(
+      'level: -50 is not allowed; enter a number greater than 0 and less than 1',
+    );
+    expect(percentHint(LEVEL, 1.5)).toBeUndefined();
+    expect(percentHint(POINTS, 50)).toBeUndefined();
+  });
+
+  test('min_lift and lift are relative lifts at most 1 (+100%); 5 and -5 get the hint', () => {
+    expect(sheetError(() => readRequiredNumber(MIN_LIFT, 5))).toEqual({
+      code: '#VALUE!',
+      message: 'min_lift: 5 is not allowed; enter a fraction: 0.05 for +5% (a relative lift, at most 1 for +100%)',
+    });
+    expect(sheetError(() => readRequiredNumber(LIFT, -5)).message).toBe(
+      'lift: -5 is not allowed; enter a fraction: -0.05 for −5% (a relative lift, at most 1 for +100%)',
+    );
+    expect(sheetError(() => readRequiredNumber(MIN_LIFT, 1.5)).message).toBe(
+      'min_lift: 1.5 is not allowed; enter a number greater than -1 and at most 1',
+    );
+    expect(readRequiredNumber(MIN_LIFT, 1)).toBe(1);
+    expect(readRequiredNumber(LIFT, -0.99)).toBe(-0.99);
   });
 });

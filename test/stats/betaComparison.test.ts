@@ -121,7 +121,7 @@ describe('closedFormLogProbGreater: when it gives no value', () => {
   });
 });
 
-describe('closedFormLogProbGreater against the quadrature of compare.ts (fast-check, seeded)', () => {
+describe('closedFormLogProbGreater against the quadrature of compare/ (fast-check, seeded)', () => {
   // Posterior shapes of random counts: 1 + conversions, 1 + misses (whole numbers).
   const posterior = fc
     .tuple(fc.integer({ min: 1, max: 5000 }), fc.double({ min: 0, max: 1, noNaN: true }))

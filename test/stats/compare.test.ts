@@ -15,26 +15,12 @@ import {
   ratioQuantile,
   ratioSf,
 } from '../../functions/stats/compare';
-import { StatsError } from '../../functions/stats/errors';
-import { TabulatedDistribution, tabulate } from '../../functions/stats/grid';
+import { TabulatedDistribution, tabulate } from '../../functions/stats/quadrature';
+import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 /** A Beta(a, b) posterior tabulated in logit. */
 function beta(a: number, b: number, coordinate: string | undefined = 'logit'): TabulatedDistribution {
   return tabulate(betaWorkingDensity(a, b), coordinate === undefined ? {} : { coordinate });
-}
-
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
 }
 
 // ----- exact rationals (BigInt) for the closed forms -------------------------------------------------

@@ -13,11 +13,11 @@ import {
   rateDiffInterval,
   rateInterval,
 } from '../../functions/stats/conversion';
-import { StatsError } from '../../functions/stats/errors';
 import { betaQuantile, betaQuantileUpper } from '../../functions/stats/special/incompleteBeta';
 import type { ConversionCounts, IntervalWithMedian } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import reference from '../reference/conversion_values.json';
+import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 /*
  * Reference values: test/reference/conversion_values.json, printed by
@@ -31,20 +31,6 @@ type Pair = [number, number];
 
 function counts(list: readonly (readonly number[])[]): ConversionCounts[] {
   return list.map(([conversions, visitors]) => ({ conversions: conversions as number, visitors: visitors as number }));
-}
-
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
 }
 
 /** A probability against its reference: 1e-11 absolute, and 1e-8 relative when it is a small tail. */
@@ -254,7 +240,7 @@ describe('input checks', () => {
     ['no visitors', () => posteriorMean(counts([[0, 0]])), 'variant 1: visitors must be a whole number of at least 1, not 0'],
     ['one variant in a comparison', () => probAboveControl(counts([[1, 10]])), 'a comparison needs between 2 and 50 variants, not 1'],
     ['51 variants', () => probHighest(counts(Array.from({ length: 51 }, () => [1, 10]))), 'a comparison needs between 2 and 50 variants, not 51'],
-    ['a level of 1', () => rateInterval(counts([[1, 10]]), 1), 'the level must be strictly between 0 and 1, not 1'],
+    ['a level of 1', () => rateInterval(counts([[1, 10]]), 1), 'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)'],
     ['a prior of 0', () => posteriorMean(counts([[1, 10]]), { alpha: 0, beta: 1 }), "the prior's alpha must be a number greater than 0, not 0"],
     ['a lift of −1', () => probLiftAbove(counts([[1, 10], [2, 10]]), -1), 'the minimum lift must be a number greater than -1, not -1'],
     ['1 point', () => posteriorDensityTable(counts([[1, 10]]), 1), 'points must be a whole number from 2 to 1000, not 1'],

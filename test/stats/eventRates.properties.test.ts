@@ -2,7 +2,7 @@
  * Identities of the Gamma–Poisson read-out (functions/stats/eventRates.ts) on random inputs
  * (fast-check, fixed seed): probabilities of being highest sum to 1, P(A > B) + P(B > A) = 1,
  * cdf(quantile(p)) = p through the independent incomplete gamma/beta functions, expected-loss differences
- * equal posterior-mean differences, and the quadrature path (grid.ts + compare.ts) agrees with the
+ * equal posterior-mean differences, and the quadrature path (quadrature/ + compare/) agrees with the
  * closed forms used in production (I_z(a_A, a_B) for P(B > A), the F form of the lift).
  */
 import fc from 'fast-check';
@@ -15,7 +15,7 @@ import {
   eventsRateInterval,
 } from '../../functions/stats/eventRates';
 import { gammaWorkingDensity } from '../../functions/stats/gammaDensity';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import { betaCdf } from '../../functions/stats/special/incompleteBeta';
 import { gammaP, gammaQ } from '../../functions/stats/special/incompleteGamma';
 import type { EventCounts, GammaPrior } from '../../functions/stats/types';

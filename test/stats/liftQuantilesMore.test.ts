@@ -6,7 +6,7 @@ import reference from '../reference/lift_quantiles_more.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
- * Quantiles of the lift p_B/p_A − 1 and of the difference p_B − p_A (compare.ts ratioQuantile and
+ * Quantiles of the lift p_B/p_A − 1 and of the difference p_B − p_A (compare/ ratioQuantile and
  * differenceQuantile through conversion.liftInterval and rateDiffInterval at the 95% level).
  *
  * Reference values: test/reference/lift_quantiles_more.json, printed by

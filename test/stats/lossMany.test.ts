@@ -2,13 +2,13 @@ import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { expectedLosses } from '../../functions/stats/compare';
 import { expectedLoss } from '../../functions/stats/conversion';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import reference from '../reference/loss_many_values.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
- * Expected loss of 3–6 conversion variants (the shared-grid path of compare.ts expectedLosses, taken for
+ * Expected loss of 3–6 conversion variants (the shared-grid path of compare/losses.ts expectedLosses, taken for
  * three or more posteriors in the 'logit' coordinate).
  *
  * Reference values: test/reference/loss_many_values.json, printed by

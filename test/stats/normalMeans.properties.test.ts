@@ -1,13 +1,13 @@
 /**
  * Identities of the Normal-model read-out (functions/stats/normalMeans.ts) on random inputs (fast-check,
  * fixed seed): P(highest) sums to 1, P(A > B) + P(B > A) = 1, cdf(quantile(p)) = p through the independent
- * t distribution function (special/studentT.ts) and the difference distribution (compare.ts), the
+ * t distribution function (special/studentT.ts) and the difference distribution (compare/difference.ts), the
  * difference interval is symmetric about the difference of means, lifts are ordered, and expected-loss
  * differences equal mean differences.
  */
 import fc from 'fast-check';
 import { differenceCdf } from '../../functions/stats/compare';
-import { tabulate } from '../../functions/stats/grid';
+import { tabulate } from '../../functions/stats/quadrature';
 import {
   meanDiffInterval,
   meanExpectedLoss,

@@ -9,7 +9,7 @@ import {
   rateDiffInterval,
   rateInterval,
 } from '../../functions/stats/conversion';
-import type { TabulatedDistribution } from '../../functions/stats/grid';
+import type { TabulatedDistribution } from '../../functions/stats/quadrature';
 import { DEFAULT_NODE_BUDGET, NO_MEMO, TableMemo } from '../../functions/stats/tableMemo';
 import type { TableSource } from '../../functions/stats/tableMemo';
 import type { ConversionCounts } from '../../functions/stats/types';

@@ -7,8 +7,18 @@
  */
 import { HyperFormula } from 'hyperformula';
 import { CATALOGUE_LIST } from '../../functions/catalogue';
-import { explainFormula, itemOf, parseAbtestCall, SIGNATURES, splitArguments, type Explanation } from '../../taskpane/logic/explain';
+import {
+  cellsIn,
+  explainFormula,
+  itemOf,
+  mathPieces,
+  parseAbtestCall,
+  SIGNATURES,
+  splitArguments,
+  type Explanation,
+} from '../../taskpane/logic/explain';
 import reference from '../reference/taskpane_crosscheck.json';
+import highest from '../reference/explain_highest.json';
 
 function explained(formula: string, anchor = 'Z1'): Explanation {
   const result = explainFormula(formula, anchor);
@@ -215,6 +225,39 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
     got.forEach((value, i) => close(value, want[i] as number));
   });
 
+  test('PROB_HIGHEST of two variants: the pairwise formula is offered for the second cell (scipy quadrature)', () => {
+    const check = explained('=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)').crossCheck;
+    expect(check?.kind).toBe('approximates');
+    expect(check?.what).toMatch(/^with two variants, having the highest conversion rate is the same as beating the other/);
+    const [approx] = checks('=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)');
+    expect(Math.abs((approx as number) - (ref.prob_above_control_1 as number))).toBeLessThan(0.002);
+  });
+
+  test('PROB_HIGHEST of three variants: no two-variant formula posing as the answer; the sum and an upper limit instead (scipy)', () => {
+    // the exact P(highest) values in the spill Z1:Z3 (scipy, explain_highest.py)
+    hf.setCellContents({ sheet: 0, row: 0, col: 25 }, highest.prob_highest.map((v) => [v]));
+    const check = explained('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)', 'Z1').crossCheck;
+    expect(check?.kind).toBe('checks');
+    expect(check?.formulas[0]).toBe('=SUM(Z1:Z3)');
+    expect(check?.what).toContain('With 3 variants its chance of the highest conversion rate is lower than that, so the two numbers do not match');
+    const [sum, bound] = checks('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)', 'Z1');
+    expect(sum).toBeCloseTo(1, 12);
+    // the bound is about P(Orange > Green) (scipy 0.92179) and above Orange's P(highest) (scipy 0.74085)
+    expect(Math.abs((bound as number) - highest.orange_beats_green)).toBeLessThan(0.002);
+    expect(bound as number).toBeGreaterThan(highest.prob_highest[1] as number);
+    // a row of variants sums a row of results
+    expect(explained('=ABTEST.PROB_HIGHEST(B9:D9,B10:D10)', 'F12').crossCheck?.formulas[0]).toBe('=SUM(F12:H12)');
+  });
+
+  test('EVENTS_PROB_HIGHEST and MEAN_PROB_HIGHEST follow the number of variants too', () => {
+    expect(explained('=ABTEST.EVENTS_PROB_HIGHEST(H2:H3,I2:I3)').crossCheck?.kind).toBe('reproduces');
+    expect(explained('=ABTEST.EVENTS_PROB_HIGHEST(H2:H4,I2:I4)').crossCheck?.kind).toBe('checks');
+    expect(explained('=ABTEST.MEAN_PROB_HIGHEST(E2:E3,F2:F3,G2:G3)').crossCheck?.kind).toBe('approximates');
+    expect(explained('=ABTEST.MEAN_PROB_HIGHEST(E2:E4,F2:F4,G2:G4)').crossCheck?.kind).toBe('checks');
+    expect(explained('=ABTEST.PROB_HIGHEST(names,B2:B4)').crossCheck?.formulas).toHaveLength(1);
+    expect(cellsIn('names')).toBeNull();
+  });
+
   test('every cross-check formula of every function is valid spreadsheet syntax (no #NAME? or #ERROR!)', () => {
     const samples = [
       '=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)',
@@ -224,5 +267,40 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
       '=ABTEST.EVENTS_RATE_INTERVAL(H2:H3,I2:I3,0.9,2,100)',
     ];
     for (const formula of samples) for (const value of checks(formula)) expect(Number.isFinite(value)).toBe(true);
+  });
+});
+
+describe('the method, readable', () => {
+  test('subscripts instead of raw notation', () => {
+    expect(mathPieces('∫ f_i(x) ∏_{j≠i} F_j(x) dx')).toEqual([
+      { text: '∫ f', subscript: false },
+      { text: 'i', subscript: true },
+      { text: '(x) ∏', subscript: false },
+      { text: 'j≠i', subscript: true },
+      { text: ' F', subscript: false },
+      { text: 'j', subscript: true },
+      { text: '(x) dx', subscript: false },
+    ]);
+    expect(mathPieces('z_(1−alpha/sides) and z_power')).toEqual([
+      { text: 'z', subscript: false },
+      { text: '(1−alpha/sides)', subscript: true },
+      { text: ' and z', subscript: false },
+      { text: 'power', subscript: true },
+    ]);
+  });
+
+  test.each(CATALOGUE_LIST.map((f) => f.id))('%s: no "_{", "_(" or "x_y" left in the text shown', (name) => {
+    const args = SIGNATURES[name]?.args.slice(0, SIGNATURES[name]?.required).map(() => 'B2:B4') ?? [];
+    const e = explained(`=ABTEST.${name}(${args.join(',')})`);
+    const shown = mathPieces(e.method).filter((piece) => !piece.subscript).map((piece) => piece.text).join('');
+    expect(shown).not.toMatch(/_[{(A-Za-z0-9]/);
+  });
+
+  test('integrals come with the method in plain words first', () => {
+    expect(explained('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)').plainMethod).toBe(
+      'In words: for every possible value, the chance that this variant has that value while every other variant is below it, added up over all values.',
+    );
+    expect(explained('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4)').plainMethod).toMatch(/^In words: how much you give up on average/);
+    expect(explained('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)').plainMethod).toBeNull();
   });
 });

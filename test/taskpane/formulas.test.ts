@@ -8,6 +8,7 @@ import { HyperFormula } from 'hyperformula';
 import { numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
 import { cellAddress, columnIndex, columnLetters, parseAddress, quoteSheet, rangeAddress, referenceFrom } from '../../taskpane/workbook/address';
 import { formatCount, formatPercent, parseNumber, parsePercent } from '../../taskpane/logic/inputs';
+import { decisionText, defaultLabel } from '../../functions/sheet/decision';
 
 describe('addresses', () => {
   test('column letters round-trip (bijective base 26, as Excel numbers columns)', () => {
@@ -85,7 +86,7 @@ describe('prior formulas', () => {
 describe('plan block', () => {
   const inputs = { baselineRate: 0.04, lift: 0.1, threshold: 0.95, power: 0.8, variants: 3, dailyVisitors: 4000, trafficShare: 0.5, classicAlpha: 0.05 };
 
-  test('inputs as labelled constants, results as formulas referring to them', () => {
+  test('inputs as labelled constants (rates, threshold, power and levels as percents), results as formulas referring to them', () => {
     const { block, cells } = planBlock(inputs, 'B2');
     expect(block.cells.map((row) => row[0])).toEqual([
       'Test plan (Lift Ledger)',
@@ -97,10 +98,12 @@ describe('plan block', () => {
       'Visitors per day to the page',
       'Share of those visitors in the test',
       'Classic test: significance level (two-sided)',
+      'Threshold each challenger must reach (false-alarm rate split evenly over the challengers)',
       'Visitors needed per variant',
       'Visitors needed in total',
-      'Days to run',
-      'Classic z-test size per variant (for comparison)',
+      'Weeks to run (whole weeks)',
+      'Days to run (whole weeks)',
+      'Classic z-test size per variant (for comparison, level split the same way)',
     ]);
     expect(block.cells.map((row) => row[1])).toEqual([
       '',
@@ -112,21 +115,25 @@ describe('plan block', () => {
       4000,
       0.5,
       0.05,
-      '=ABTEST.VISITORS_NEEDED(C3,C4,C5,C6)',
-      '=C11*C7',
-      '=ROUNDUP(C12/(C8*C9),0)',
-      '=ABTEST.CLASSIC_SAMPLE_SIZE(C3,C4,C10,C6,2)',
+      '=1-(1-C5)/MAX(1,C7-1)',
+      '=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)',
+      '=C12*C7',
+      '=MAX(1,ROUNDUP(C13/(C8*C9)/7,0))',
+      '=7*C14',
+      '=ABTEST.CLASSIC_SAMPLE_SIZE(C3,C4,C10/MAX(1,C7-1),C6,2)',
     ]);
-    expect(cells).toMatchObject({ baselineRate: 'C3', visitorsPerVariant: 'C11', totalVisitors: 'C12', days: 'C13', classicPerVariant: 'C14' });
+    // one unit for every probability-like input: all shown as percents
+    expect(block.numberFormats?.slice(1, 9).map((row) => row[1])).toEqual(['0.00%', '0.0%', '0.0%', '0.0%', '0', '#,##0', '0%', '0.0%']);
+    expect(cells).toMatchObject({ baselineRate: 'C3', perChallengerThreshold: 'C11', visitorsPerVariant: 'C12', totalVisitors: 'C13', weeks: 'C14', days: 'C15', classicPerVariant: 'C16' });
   });
 
   test('with a prior, its cells are inputs and VISITORS_NEEDED refers to them', () => {
     const { block, cells } = planBlock({ ...inputs, prior: { alpha: 20, beta: 480 } }, 'A1');
     expect(cells.priorAlpha).toBe('B10');
-    expect(block.cells[11]).toEqual(['Visitors needed per variant', '=ABTEST.VISITORS_NEEDED(B2,B3,B4,B5,B10,B11)']);
+    expect(block.cells[12]).toEqual(['Visitors needed per variant', '=ABTEST.VISITORS_NEEDED(B2,B3,B12,B5,B10,B11)']);
   });
 
-  test('the total and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
+  test('the threshold, total, weeks and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
     const { block, cells } = planBlock(inputs, 'A1');
     // Replace the ABTEST call (not registered in HyperFormula) by a constant, keep every other formula as written.
     const rows = block.cells.map((row) => row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? 31234 : v)));
@@ -135,8 +142,10 @@ describe('plan block', () => {
       const p = parseAddress(address).start;
       return hf.getCellValue({ sheet: 0, row: p.row, col: p.column });
     };
+    expect(value(cells.perChallengerThreshold as string)).toBeCloseTo(0.975, 15); // 1 − 0.05/2 for two challengers
     expect(value(cells.totalVisitors as string)).toBe(93702); // 31234 × 3 variants
-    expect(value(cells.days as string)).toBe(47); // ceil(93702 / (4000 × 0.5)) = ceil(46.851)
+    expect(value(cells.weeks as string)).toBe(7); // ceil(93702 / (4000 × 0.5) / 7) = ceil(6.69)
+    expect(value(cells.days as string)).toBe(49);
     hf.destroy();
   });
 });
@@ -252,5 +261,20 @@ describe('read-out block', () => {
 
   test('refuses fewer than two variants', () => {
     expect(() => readoutBlock({ ...source, variants: 1 }, settings, 'E1')).toThrow(new RangeError('a read-out needs at least two variants'));
+  });
+});
+
+describe('default variant names: the one variant-letter helper (functions/sheet/labels.ts)', () => {
+  test('a read-out without a names column names the 27th variant AA, as DECISION does', () => {
+    const settings = { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: 0.4 };
+    const source = { namesRef: null, visitorsRef: 'B2:B29', conversionsRef: 'C2:C29', sharesRef: null, variants: 28 };
+    const built = readoutBlock(source, settings, 'E1');
+    // names sit in the block's first column, one row per variant from the third row
+    const names = [2, 3, 27, 28, 29].map((row) => built.block.cells[row]?.[0]);
+    expect(names).toEqual(['A', 'B', 'Z', 'AA', 'AB']);
+    // the spreadsheet column letters after Z are AA, AB (common practice)
+    expect(decisionText({ choose: true, label: defaultLabel(26), loss: 0.0002, maxLoss: 0.0005 })).toBe(
+      'Choose AA: its expected loss 0.020% is within the 0.050% allowed',
+    );
   });
 });

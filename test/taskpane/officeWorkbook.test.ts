@@ -135,21 +135,23 @@ describe('writing a block', () => {
     const { block, cells } = plan();
     const before = excel.syncCalls;
     const outcome = await workbookOn(excel).writeBlock(block);
-    expect(outcome).toEqual({ kind: 'written', address: 'Plan!B2:C14' });
+    expect(outcome).toEqual({ kind: 'written', address: 'Plan!B2:C16' });
     // one sync to read the area, one to write it
     expect(excel.syncCalls - before).toBe(2);
     // contents and number formats go as one full-size array each (no 1×1 array spread over a range)
     expect(excel.writeLog.filter((w) => /^(formulas|values|numberFormat) /.test(w))).toEqual([
-      'formulas Plan!B2:C14',
-      'numberFormat Plan!B2:C14',
+      'formulas Plan!B2:C16',
+      'numberFormat Plan!B2:C16',
     ]);
     expect(excel.cell('Plan', 'B2').formula).toBe('Test plan (Lift Ledger)');
     expect(excel.cell('Plan', 'B2').bold).toBe(true);
     expect(excel.cell('Plan', 'C3').formula).toBe(0.04);
     expect(excel.cell('Plan', 'C3').numberFormat).toBe('0.00%');
-    expect(excel.cell('Plan', cells.visitorsPerVariant as string).formula).toBe('=ABTEST.VISITORS_NEEDED(C3,C4,C5,C6)');
+    expect(cells.visitorsPerVariant).toBe('C12');
+    expect(excel.cell('Plan', cells.visitorsPerVariant as string).formula).toBe('=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)');
+    expect(excel.cell('Plan', cells.days as string).formula).toBe('=7*C14');
     // labels are constants, results are formulas: no pasted numbers
-    const column = excel.formulas('Plan', 'C11:C14').map((row) => row[0]);
+    const column = excel.formulas('Plan', 'C11:C16').map((row) => row[0]);
     expect(column.every((v) => typeof v === 'string' && v.startsWith('='))).toBe(true);
   });
 
@@ -215,9 +217,9 @@ describe('writing a block', () => {
     const workbook = workbookOn(excel);
     const { block } = plan();
     const [first, second] = await Promise.all([workbook.writeBlock(block), workbook.writeBlock(block)]);
-    expect(first).toEqual({ kind: 'written', address: 'Plan!B2:C14' });
+    expect(first).toEqual({ kind: 'written', address: 'Plan!B2:C16' });
     expect(second.kind).toBe('occupied');
-    expect(excel.writeLog.filter((w) => w.startsWith('formulas '))).toEqual(['formulas Plan!B2:C14']);
+    expect(excel.writeLog.filter((w) => w.startsWith('formulas '))).toEqual(['formulas Plan!B2:C16']);
   });
 
   test.each([

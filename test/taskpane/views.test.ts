@@ -2,8 +2,10 @@
  * @jest-environment jsdom
  *
  * The side panel's view wiring without Fluent's custom elements (they stay unknown elements here): the
- * ask-before-overwrite flow, and the Prior section writing its live formula into the selected cell of
- * an office-addin-mock workbook. The browser flows (test/browser/panel.test.ts) cover the real elements.
+ * ask-before-overwrite flow, the Prior section writing its live formula into the selected cell of an
+ * office-addin-mock workbook, and the Plan section refusing to insert numbers computed for other inputs
+ * (here the button's disabled attribute does nothing, so the section's own guard is what is tested). The
+ * browser flows (test/browser/panel*.test.ts) cover the real elements.
  */
 jest.mock('office-addin-manifest', () => ({
   OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', PowerPoint: 'powerpoint', Project: 'project', Word: 'word' },
@@ -11,6 +13,9 @@ jest.mock('office-addin-manifest', () => ({
 
 import { createContext, writeAsking } from '../../taskpane/view/context';
 import { priorSection } from '../../taskpane/view/priorSection';
+import { planSection, PLAN_DEBOUNCE_MS } from '../../taskpane/view/planSection';
+import { visitorsNeeded } from '../../functions/stats/planning';
+import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import { priorBlock } from '../../taskpane/logic/formulas';
 import { createOfficeWorkbook } from '../../taskpane/workbook/officeWorkbook';
 import { mockExcel } from './mockExcel';
@@ -80,4 +85,50 @@ describe('Prior section', () => {
     expect(excel.cell('Checkout test', 'F3').formula).toBe('=ABTEST.PRIOR_FROM_MEAN(0.04,20000)');
     expect(root.querySelector('#prior-status')?.textContent).toBe("Wrote the prior to 'Checkout test'!F3:G3. The cells hold live formulas.");
   });
+});
+
+describe('Plan section', () => {
+  const wait = (ms: number): Promise<void> => new Promise((resolve) => setTimeout(resolve, ms));
+  const type = (root: HTMLElement, id: string, text: string): void => {
+    const input = root.querySelector(`#${id}`) as HTMLElement & { value?: string };
+    input.value = text;
+    input.setAttribute('value', text);
+    input.dispatchEvent(new Event('input'));
+  };
+
+  test('follows the fields; while out of date it inserts nothing; then it inserts exactly the inputs shown', async () => {
+    const excel = mockExcel(['Plan']);
+    excel.selection = { sheet: 'Plan', address: 'B2' };
+    const workbook = createOfficeWorkbook(excel.run);
+    const context = createContext(workbook, () => undefined);
+    const root = document.createElement('div');
+    document.body.append(root);
+    root.append(planSection(context));
+    await wait(PLAN_DEBOUNCE_MS + 50);
+    await settle();
+    const perVariant = (): string | null | undefined => root.querySelector('#plan-per-variant')?.textContent;
+    expect(perVariant()).toBe(`Visitors per variant: ${visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`);
+
+    type(root, 'plan-baseline', '8');
+    const results = root.querySelector('#plan-results') as HTMLElement;
+    expect(results.classList.contains('stale')).toBe(true);
+    expect(root.querySelector('#plan-insert')?.hasAttribute('disabled')).toBe(true);
+    (root.querySelector('#plan-insert') as HTMLElement).click();
+    await settle();
+    expect(root.querySelector('#plan-status')?.textContent).toBe(
+      'The plan on screen is not the one for the current inputs yet. Wait until it is updated, then insert it.',
+    );
+    expect(excel.cell('Plan', 'C3').formula).toBe('');
+
+    await wait(PLAN_DEBOUNCE_MS + 50);
+    await settle();
+    expect(results.classList.contains('stale')).toBe(false);
+    expect(perVariant()).toBe(`Visitors per variant: ${visitorsNeeded(0.08, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`);
+    (root.querySelector('#plan-insert') as HTMLElement).click();
+    await settle();
+    await settle();
+    expect(excel.cell('Plan', 'C3').formula).toBe(0.08);
+    expect(excel.cell('Plan', 'C3').numberFormat).toBe('0.00%');
+    expect(root.querySelector('#plan-status')?.textContent).toBe('Wrote the plan to Plan!B2:C16. The cells hold live formulas.');
+  }, 30_000);
 });

@@ -8,7 +8,7 @@
  * R's dpois_raw), accurate for a up to ~1e9 and beyond. Pure and stateless.
  */
 import { StatsError, ensure } from '../errors';
-import { gaussLegendre, log1pmx } from '../numeric';
+import { gaussLegendre, log1mExp, log1pmx } from '../numeric';
 import { binomialDeviance, logGamma, stirlingError } from './gamma';
 import { normalQuantile } from './normal';
 
@@ -19,10 +19,6 @@ const TINY = 1e-300;
 
 function checkShape(a: number, name: string): void {
   ensure(a > 0 && Number.isFinite(a), `${name} needs a finite shape a > 0, got ${a}`);
-}
-
-function log1mExp(l: number): number {
-  return l > -Math.LN2 ? Math.log(-Math.expm1(l)) : Math.log1p(-Math.exp(l));
 }
 
 /**

@@ -246,7 +246,7 @@ export function xlsxParts(book: TestBook): Map<string, string> {
     parts.set('xl/metadata.xml', metadataXml());
   }
   if (book.calcChain && chain.length > 0) {
-    workbookRels.push(`<Relationship Id="rId${nextRel++}" Type="${RT}/calcChain" Target="calcChain.xml"/>`);
+    workbookRels.push(`<Relationship Id="rId${nextRel}" Type="${RT}/calcChain" Target="calcChain.xml"/>`);
     overrides.push(['/xl/calcChain.xml', 'application/vnd.openxmlformats-officedocument.spreadsheetml.calcChain+xml']);
     parts.set(
       'xl/calcChain.xml',

@@ -7,9 +7,12 @@ import {
   digamma,
   logBeta,
   logGamma,
+  pentagamma,
   stirlingError,
+  tetragamma,
   trigamma,
 } from '../../../functions/stats/special/gamma';
+import polygammas from '../../reference/polygamma_values.json';
 import reference from '../../reference/special_values.json';
 import { expectInvalidArgument } from '../../helpers/assertions';
 
@@ -56,6 +59,21 @@ describe('digamma and trigamma against mpmath psi', () => {
   });
 });
 
+describe('tetragamma and pentagamma against mpmath psi(2, x) and psi(3, x)', () => {
+  // Values: test/reference/polygamma_values.json, printed by test/reference/polygamma_reference.py
+  // (mpmath, 40 digits). Tolerances: the first term the asymptotic series leaves out at x = 10, where
+  // it takes over from the recurrence, relative to the value there: B₁₂·13/10¹⁴ / |ψ″(10)| = 3.0e-12
+  // and B₁₂·13·14/10¹⁵ / ψ‴(10) = 2.0e-11 (Abramowitz & Stegun 6.4.11; B₁₂ = −691/2730). Far from
+  // x = 10 the error is near rounding: checked at 1e-14 for x ≤ 0.5 and x ≥ 100.
+  const near = (x: number): boolean => x > 0.5 && x < 100;
+  it.each(polygammas.tetragamma.map((r) => [r[0] as number, r[1] as number] as const))('ψ″(%p)', (x, truth) => {
+    expect(Math.abs(tetragamma(x) - truth)).toBeLessThanOrEqual((near(x) ? 3.0e-12 : 1e-14) * Math.abs(truth));
+  });
+  it.each(polygammas.pentagamma.map((r) => [r[0] as number, r[1] as number] as const))('ψ‴(%p)', (x, truth) => {
+    expect(Math.abs(pentagamma(x) - truth)).toBeLessThanOrEqual((near(x) ? 2.0e-11 : 1e-14) * Math.abs(truth));
+  });
+});
+
 describe('argument checks', () => {
   it('throws invalid_argument with the function name and value', () => {
     expectInvalidArgument(() => logGamma(0), /logGamma needs x > 0, got 0/);
@@ -65,5 +83,7 @@ describe('argument checks', () => {
     expectInvalidArgument(() => logBeta(1, 0), /logBeta needs a > 0 and b > 0, got 1, 0/);
     expectInvalidArgument(() => digamma(0), /digamma needs x > 0/);
     expectInvalidArgument(() => trigamma(-3), /trigamma needs x > 0/);
+    expectInvalidArgument(() => tetragamma(0), /tetragamma needs x > 0, got 0/);
+    expectInvalidArgument(() => pentagamma(Number.NaN), /pentagamma needs x > 0, got NaN/);
   });
 });

@@ -1,24 +1,11 @@
 import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
-import { StatsError } from '../../functions/stats/errors';
-import { PANEL_NODES, log1mExp, logAddExp, panelLogIntegral, tabulate } from '../../functions/stats/grid';
+import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/quadrature';
+import { log1mExp, logAddExp } from '../../functions/stats/numeric';
 import marginals from '../reference/conversion_marginals.json';
+import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 const logit = { coordinate: 'logit' } as const;
-
-function relativeError(actual: number, expected: number): number {
-  return Math.abs(actual - expected) / Math.max(Math.abs(expected), 1e-300);
-}
-
-function thrown(f: () => unknown): StatsError {
-  try {
-    f();
-  } catch (error) {
-    if (error instanceof StatsError) return error;
-    throw error;
-  }
-  throw new Error('expected a StatsError');
-}
 
 describe('Beta tabulation against the values in shared/check-values.md', () => {
   it('pbeta(0.5, 8, 10) = 0.685470581054688 (R; Excel BETA.DIST(2, 8, 10, TRUE, 1, 3) = 0.6854706)', () => {

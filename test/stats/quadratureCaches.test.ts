@@ -1,5 +1,5 @@
 import { betaWorkingDensity, logit } from '../../functions/stats/betaDensity';
-import { TabulatedDistribution, tabulate } from '../../functions/stats/grid';
+import { TabulatedDistribution, tabulate } from '../../functions/stats/quadrature';
 import medians from '../reference/beta_medians.json';
 import marginals from '../reference/conversion_marginals.json';
 import { relativeError } from '../helpers/assertions';
@@ -57,7 +57,7 @@ describe('TabulatedDistribution.addLogTailsAt (the batched tails of P(highest) a
     }
   });
 
-  // Against the truth (mpmath, 40 digits), at the points and tolerances grid.test.ts uses for logCdfAt:
+  // Against the truth (mpmath, 40 digits), at the points and tolerances quadrature.test.ts uses for logCdfAt:
   // the smaller tail relative to itself, the larger one absolutely. Interpolating the larger tail's own
   // table instead (as an earlier version did) missed by 8e-9 absolute for Beta(0.1, 10), whose slow logit
   // tail has panels over 100 wide.

@@ -1,0 +1,21 @@
+/**
+ * Comparisons of tabulated posteriors (../quadrature), generic over the model, read top-down:
+ *  - ranking.ts     P(X > Y) and P(each is highest);
+ *  - losses.ts      expected losses (pruned integrals, or one grid shared by 3+ posteriors);
+ *  - difference.ts  the distribution of Y − X: tails, density, quantiles;
+ *  - ratio.ts       the distribution of Y/X − 1: tails, density, quantiles (X > 0), and the quantiles
+ *                   when X and Y may take either sign;
+ *  - quantileSolver.ts  Newton on the log of the smaller tail, for both;
+ *  - integrate.ts   the integrals all of them are made of: ∫ f_base Π factors over a base's panels,
+ *                   pruned and refined, and the fused tail-and-density pass;
+ *  - factors.ts     the factors of those integrals and the piece walk inside a panel.
+ */
+export {
+  highestProbabilities,
+  highestProbabilityIntegrals,
+  logProbabilityGreater,
+  probabilityGreater,
+} from './ranking';
+export { expectedLosses } from './losses';
+export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
+export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';

@@ -1,0 +1,258 @@
+/**
+ * Expected losses: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx for each posterior, by the
+ * pruned integrals of integrate.ts (two posteriors, or posteriors in different coordinates) or on one
+ * grid shared by all of them (sharedGridLosses, three or more in one coordinate).
+ */
+import { logAddExp } from '../numeric';
+import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
+import type { TabulatedDistribution } from '../quadrature';
+import { factor } from './factors';
+import type { Factor } from './factors';
+import { PRUNE, checkList, logIntegral } from './integrate';
+
+/** Widest sub-panel (in the working coordinate) of the shared grid of sharedGridLosses. */
+const GAP_WIDTH = 1;
+
+/**
+ * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
+ * Method: written as Σ_{j≠i} ∫ f_j(y) Π_{l≠i,j} F_l(y) G_i(y) dy, with G_i(y) = E[(y − X_i)^+] the integrated
+ * cdf tabulated beside F (TabulatedDistribution.logLowerMomentAt), so every term is a positive integral
+ * against a density: no 1 − (near 1) and no difference of means, and a loss of 1e-30 is accurate
+ * relative to itself. The identity loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
+ * For three or more posteriors sharing a working coordinate the same integral is taken directly as
+ * ∫ F_i (1 − Π_{j≠i} F_j) dx on the union of their panels (see sharedGridLosses), O(k²) interpolations.
+ * Cost: O(k² × nodes) (shared coordinate) or O(k³ × nodes kept). Throws StatsError('invalid_argument')
+ * for an empty list.
+ * @example
+ * expectedLosses([tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))])
+ * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form; their difference is 1/6 = 6/12 − 4/12)
+ */
+export function expectedLosses(ds: readonly TabulatedDistribution[]): number[] {
+  checkList(ds);
+  if (ds.length === 1) return [0];
+  const coordinate = (ds[0] as TabulatedDistribution).coordinate;
+  // Three or more posteriors in one coordinate: the O(k²) shared grid (measured 230 ms for 50 variants
+  // against 3.8 s); for two, the two pruned integrals below are cheaper.
+  if (ds.length >= 3 && coordinate !== undefined && ds.every((d) => d.coordinate === coordinate)) return sharedGridLosses(ds);
+  return ds.map((di, i) => {
+    let total = -Infinity;
+    ds.forEach((dj, j) => {
+      if (j === i) return;
+      const factors: Factor[] = [factor(di, 'lowerMoment')];
+      ds.forEach((dl, l) => {
+        if (l !== i && l !== j) factors.push(factor(dl, 'cdf'));
+      });
+      total = logAddExp(total, logIntegral(dj, factors));
+    });
+    return Math.exp(total);
+  });
+}
+
+/**
+ * Expected losses of posteriors sharing one working coordinate, in O(k²) instead of O(k³): on one grid
+ * for all of them, at each node log F_j for every j once, then for each i the integrand
+ * F_i · (1 − Π_{j≠i} F_j) · dx/dz with 1 − Π F_j = −expm1(Σ_{j≠i} log F_j) (log F_j is accurate relative to
+ * 1 − F_j near 1, so no 1 − (near 1) is formed) and the sums Σ_{j≠i} from prefix and suffix sums (never a
+ * total minus one term). Four steps:
+ *  1. sharedPieces: the union of the posteriors' panel edges, merged into pieces no wider than the
+ *     narrowest panel there;
+ *  2. pieceBounds: each piece's upper bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx for each variant;
+ *  3. visitOrder: the pieces by decreasing bound (relative to each variant's largest);
+ *  4. integratePieces: the integrals, a piece skipped for variant i when its bound lies e^-46 below i's
+ *     running total (as in logIntegral).
+ */
+function sharedGridLosses(ds: readonly TabulatedDistribution[]): number[] {
+  const edges = sharedPieces(ds);
+  const { bound, best } = pieceBounds(ds, edges);
+  const order = visitOrder(bound, best, edges.length - 1, ds.length);
+  return integratePieces(ds, edges, bound, order).map((t) => Math.exp(t));
+}
+
+/**
+ * The union of the posteriors' panel edges, ascending, with gaps between windows cut into pieces of at
+ * most GAP_WIDTH (there F = 1 below and 0 above, and the integrand is dx/dz, whose complex singularities
+ * lie π from the axis in logit).
+ */
+function unionOfEdges(ds: readonly TabulatedDistribution[]): number[] {
+  const all: number[] = [];
+  for (const d of ds) for (let e = 0; e < d.edges.length; e++) all.push(d.edges[e] as number);
+  all.sort((u, v) => u - v);
+  const union: number[] = [];
+  for (const e of all) {
+    const last = union[union.length - 1];
+    if (last === undefined) union.push(e);
+    else if (e - last > 1e-12 * Math.max(1, Math.abs(e))) {
+      const parts = Math.ceil((e - last) / GAP_WIDTH);
+      for (let j = 1; j < parts; j++) union.push(last + ((e - last) * j) / parts);
+      union.push(e);
+    }
+  }
+  return union;
+}
+
+/** Width of the narrowest panel of any posterior at z (GAP_WIDTH outside every window). */
+function narrowestPanelAt(ds: readonly TabulatedDistribution[], z: number): number {
+  let w = GAP_WIDTH;
+  for (const d of ds) {
+    if (z < d.windowLeft || z > d.windowRight) continue;
+    const p = d.findPanel(z);
+    w = Math.min(w, (d.edges[p + 1] as number) - (d.edges[p] as number));
+  }
+  return w;
+}
+
+/**
+ * The edges of the shared grid: neighbouring pieces of the union of edges merged while the merged piece
+ * stays no wider than the narrowest panel of any posterior at its ends and middle (each table's
+ * interpolant is smooth across its own panel edges to ~1e-15, so a piece may straddle one; the integrand
+ * is then resolved as finely as the narrowest posterior).
+ */
+function sharedPieces(ds: readonly TabulatedDistribution[]): number[] {
+  const union = unionOfEdges(ds);
+  const localWidth = (z: number): number => narrowestPanelAt(ds, z);
+  const edges: number[] = [union[0] as number];
+  let a = union[0] as number;
+  let next = 1;
+  while (next < union.length) {
+    let m = next;
+    const limitAtA = localWidth(a);
+    while (m + 1 < union.length) {
+      const e = union[m + 1] as number;
+      if (e - a > limitAtA || e - a > Math.min(localWidth(e), localWidth((a + e) / 2))) break;
+      m += 1;
+    }
+    a = union[m] as number;
+    edges.push(a);
+    next = m + 1;
+  }
+  return edges;
+}
+
+/**
+ * For each piece s and variant i, the log of the bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx (in value
+ * units; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
+ * variant's largest bound, best[i].
+ */
+function pieceBounds(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+): { bound: Float64Array; best: Float64Array } {
+  const k = ds.length;
+  const pieces = edges.length - 1;
+  const src = (ds[0] as TabulatedDistribution).source;
+  const edgeCdf = new Float64Array(edges.length * k);
+  const edgeOthersSf = new Float64Array(edges.length * k);
+  const logSf = new Float64Array(k);
+  const sumScratch = new Float64Array(k + 1);
+  for (let e = 0; e < edges.length; e++) {
+    const z = edges[e] as number;
+    for (let j = 0; j < k; j++) {
+      const d = ds[j] as TabulatedDistribution;
+      edgeCdf[e * k + j] = d.logCdfAt(z);
+      logSf[j] = d.logSfAt(z);
+    }
+    logSumOfOthers(logSf, edgeOthersSf, e * k, sumScratch);
+  }
+  const bound = new Float64Array(pieces * k);
+  const best = new Float64Array(k).fill(-Infinity);
+  for (let s = 0; s < pieces; s++) {
+    const width = Math.log(src.toValue(edges[s + 1] as number) - src.toValue(edges[s] as number));
+    for (let i = 0; i < k; i++) {
+      const b = (edgeCdf[(s + 1) * k + i] as number) + (edgeOthersSf[s * k + i] as number) + width;
+      const v = Number.isNaN(b) ? Infinity : b;
+      bound[s * k + i] = v;
+      if (v > (best[i] as number)) best[i] = v;
+    }
+  }
+  return { bound, best };
+}
+
+/**
+ * out[offset + i] = log Σ_{j≠i} e^{values[j]} for every i, from prefix and suffix sums of e^{values[j] − top}
+ * (never a total minus one term). `values` is overwritten (with the scaled exponentials); `suffix`
+ * (length + 1 entries) is working space.
+ */
+function logSumOfOthers(values: Float64Array, out: Float64Array, offset: number, suffix: Float64Array): void {
+  const k = values.length;
+  let top = -Infinity;
+  for (let j = 0; j < k; j++) if ((values[j] as number) > top) top = values[j] as number;
+  for (let j = 0; j < k; j++) values[j] = top === -Infinity ? 0 : Math.exp((values[j] as number) - top);
+  suffix[k] = 0;
+  for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (values[j] as number);
+  let prefix = 0;
+  for (let i = 0; i < k; i++) {
+    const sum = prefix + (suffix[i + 1] as number);
+    out[offset + i] = sum > 0 ? top + Math.log(sum) : -Infinity;
+    prefix += values[i] as number;
+  }
+}
+
+/** The pieces by decreasing priority: the largest of bound − best over the variants (ties by index). */
+function visitOrder(bound: Float64Array, best: Float64Array, pieces: number, k: number): number[] {
+  const priority = new Float64Array(pieces);
+  for (let s = 0; s < pieces; s++) {
+    let most = -Infinity;
+    for (let i = 0; i < k; i++) most = Math.max(most, (bound[s * k + i] as number) - (best[i] as number));
+    priority[s] = most;
+  }
+  const order = Array.from({ length: pieces }, (_, s) => s);
+  order.sort((u, v) => (priority[v] as number) - (priority[u] as number) || u - v);
+  return order;
+}
+
+/**
+ * log ∫ F_i (1 − Π_{j≠i} F_j) dx for every variant i over the pieces in `order`: at each piece's 16 nodes
+ * log F_j of every posterior once, then per variant still in need the integrand and its panel integral.
+ */
+function integratePieces(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+  bound: Float64Array,
+  order: readonly number[],
+): number[] {
+  const k = ds.length;
+  const n = PANEL_ORDER;
+  const src = (ds[0] as TabulatedDistribution).source;
+  const totals = new Array<number>(k).fill(-Infinity);
+  const need = new Uint8Array(k);
+  const logF = new Float64Array(k * n);
+  const values = new Float64Array(k * n);
+  const prefix = new Float64Array(k + 1);
+  const suffix = new Float64Array(k + 1);
+  const logJacobian = new Float64Array(n);
+  for (const s of order) {
+    let any = false;
+    for (let i = 0; i < k; i++) {
+      const b = bound[s * k + i] as number;
+      need[i] = b !== -Infinity && b >= (totals[i] as number) - PRUNE ? 1 : 0;
+      if (need[i] === 1) any = true;
+    }
+    if (!any) continue;
+    const a = edges[s] as number;
+    const b = edges[s + 1] as number;
+    const half = (b - a) / 2;
+    const mid = (a + b) / 2;
+    for (let q = 0; q < n; q++) {
+      const z = mid + half * (PANEL_NODES[q] as number);
+      logJacobian[q] = Math.log(src.valueJacobian(z));
+      for (let j = 0; j < k; j++) logF[j * n + q] = (ds[j] as TabulatedDistribution).logCdfAt(z);
+    }
+    for (let q = 0; q < n; q++) {
+      // Σ_{j≠i} log F_j from prefix and suffix sums; 1 − Π_{j≠i} F_j = −expm1 of it.
+      prefix[0] = 0;
+      for (let j = 0; j < k; j++) prefix[j + 1] = (prefix[j] as number) + (logF[j * n + q] as number);
+      suffix[k] = 0;
+      for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (logF[j * n + q] as number);
+      for (let i = 0; i < k; i++) {
+        if (need[i] === 0) continue;
+        const others = (prefix[i] as number) + (suffix[i + 1] as number);
+        const above = others === 0 ? -Infinity : Math.log(-Math.expm1(others));
+        values[i * n + q] = (logF[i * n + q] as number) + above + (logJacobian[q] as number);
+      }
+    }
+    for (let i = 0; i < k; i++) {
+      if (need[i] === 1) totals[i] = logAddExp(totals[i] as number, panelLogIntegral(values, i * n, half));
+    }
+  }
+  return totals;
+}
