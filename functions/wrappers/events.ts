@@ -156,8 +156,8 @@ export function eventsExpectedLoss(
  * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
  * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
  * @returns For each challenger, P(its rate / the control's rate − 1 > min_lift); empty text for the control.
- * @method Closed form: with a = shape + events and b = rate + exposure, P(λ_i/λ_0 ≤ k) = I_x(a_i, a_0) with x = k·b_i/(b_0 + k·b_i), k = 1 + min_lift (the scaled ratio is F-distributed); the upper tail is computed directly.
- * @source Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions, vol. 2, ch. 27; checked against scipy.special.betaincc and quadrature (test/reference/lift_above_reference.py).
+ * @method Closed form: with a = shape + events and b = rate + exposure, P(λ_i/λ_0 ≤ k) = I_x(a_i, a_0) with x = k·b_i/(b_0 + k·b_i), k = 1 + the minimum lift (the scaled ratio is F-distributed); the upper tail is computed directly.
+ * @source Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions, vol. 2, ch. 27; checked against scipy.special.betaincc and quadrature (the lift-above reference script in test/reference).
  * @example =ABTEST.EVENTS_PROB_LIFT_ABOVE({340;395}, {1000;1010}, 0.05) returns {"";0.89094}
  * @crosscheck With the default prior, =1-BETA.DIST(k*1010/(1000+k*1010), 1+395, 1+340, TRUE) with k = 1 + min_lift gives the challenger's value.
  * @caution Events per exposure assumes events arrive independently; heavy users can make the result too confident.
@@ -185,7 +185,7 @@ export function eventsProbLiftAbove(
  * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
  * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss in events per unit of exposure.
- * @method DECISION's rule on event rates: the variant with the smallest expected loss (EVENTS_EXPECTED_LOSS) is chosen when that loss is at most max_loss; otherwise the text names the current leader and its loss.
+ * @method DECISION's rule on event rates: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.
  * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).
  * @example =ABTEST.EVENTS_DECISION({340;395}, {1000;1010}) returns "Choose B: its expected loss 0.00030 events per unit of exposure is within the 0.0034 events per unit of exposure allowed"
  * @caution This is a decision aid, not a guarantee. A broken traffic split (check SRM_PVALUE), peeking every day, or a strong prior can all mislead it. For regulated or health-related decisions, ask a qualified statistician and follow local rules.

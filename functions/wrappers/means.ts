@@ -141,8 +141,8 @@ export function meanExpectedLoss(count: any[][], mean: any[][], sd: any[][]): an
  * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
  * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% above the control's average; −0.02 asks "no worse than 2% lower").
  * @returns For each challenger, P(its average / the control's average − 1 > min_lift); empty text for the control.
- * @method The ratio of the Student t posteriors (the control's small chance of a negative mean kept exactly), by quadrature; the smaller tail is computed directly. #N/A when the control's mean could plausibly be zero or negative (chance above 1e-6), as MEAN_LIFT_INTERVAL.
- * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2; checked against scipy quadrature (test/reference/lift_above_reference.py).
+ * @method The ratio of the Student t posteriors (the control's small chance of a negative mean kept exactly), by quadrature; the smaller tail is computed directly. #N/A when the control's mean could plausibly be zero or negative (chance above 1e-6), as for the lift interval of averages.
+ * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2; checked against scipy quadrature (the lift-above reference script in test/reference).
  * @example =ABTEST.MEAN_PROB_LIFT_ABOVE({1200;1180}, {3.10;3.42}, {9.8;10.4}, -0.02) returns {"";0.82380}
  * @caution A guardrail read this way ("no worse than −2%") is only as good as the traffic split; check SRM_PVALUE.
  * @caution Averages such as revenue are pulled by a few large values; check for outliers before reading the result.
@@ -163,7 +163,7 @@ export function meanProbLiftAbove(count: any[][], mean: any[][], sd: any[][], mi
  * @param [max_loss] The largest expected loss you accept, in the metric's own units, 0 or more (optional; default 1% of the control's average).
  * @param [labels] Names of the variants, same shape as count (optional; default A, B, C… by position).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss in the metric's units.
- * @method DECISION's rule on averages: the variant with the smallest expected loss (MEAN_EXPECTED_LOSS) is chosen when that loss is at most max_loss; otherwise the text names the current leader and its loss.
+ * @method DECISION's rule on averages: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.
  * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).
  * @example =ABTEST.MEAN_DECISION({1200;1180}, {3.10;3.42}, {9.8;10.4}) returns "Keep collecting data: B leads, but its expected loss 0.052 in the metric's units is above the 0.031 in the metric's units allowed"
  * @caution This is a decision aid, not a guarantee. A broken traffic split (check SRM_PVALUE), peeking every day, or a few extreme values can all mislead it. For regulated or health-related decisions, ask a qualified statistician and follow local rules.

@@ -36,7 +36,7 @@ function totals(
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
  * @returns Lower and upper bound of each variant's revenue per visitor (same currency as revenue).
- * @method Revenue per visitor is rate × order value, independent: rate ~ Beta(1 + orders, 1 + visitors − orders); order value exponential with 1/value ~ Gamma(orders, revenue), or with order_sd a Student t (orders − 1 df, centre revenue/orders, scale order_sd/√orders). Its distribution is a one-dimensional integral over the rate, tabulated and read at its central quantiles.
+ * @method Revenue per visitor is rate × order value, independent: rate ~ Beta(1 + orders, 1 + visitors − orders); order value exponential with 1/value ~ Gamma(orders, revenue), or with an order sd s a Student t (orders − 1 df, centre revenue/orders, scale s/√orders). Its distribution is a one-dimensional integral over the rate, tabulated and read at its central quantiles.
  * @source Beta–Binomial and Gamma posteriors: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4–2.6 and §3.2; the product's density by quadrature (checked against nested scipy quadrature).
  * @example =ABTEST.REVENUE_INTERVAL({120;150}, {2400;2380}, {7200;8100}) returns {2.3547,3.8818;2.7402,4.2785}
  * @crosscheck The point estimate =revenue/visitors lies inside each interval.
@@ -59,7 +59,7 @@ export function revenueInterval(orders: any[][], visitors: any[][], revenue: any
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @returns For each variant, the probability (0 to 1) that its revenue per visitor is the highest.
  * @method P(i highest) = ∫ f_i ∏_{j≠i} F_j over the tabulated posteriors of revenue per visitor (rate × order value), by quadrature.
- * @source Expected-value comparisons of posteriors: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013); the product model as REVENUE_INTERVAL.
+ * @source Expected-value comparisons of posteriors: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013); the product model of the revenue interval.
  * @example =ABTEST.REVENUE_PROB_HIGHEST({120;150}, {2400;2380}, {7200;8100}) returns {0.23293;0.76707}
  * @caution With many variants the best-looking one is often lucky; decide the number of variants in advance.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
@@ -80,7 +80,7 @@ export function revenueProbHighest(orders: any[][], visitors: any[][], revenue: 
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @returns For each challenger, P(its revenue per visitor > the control's); empty text for the control.
  * @method P(B > A) = ∫ f_B F_A over the tabulated posteriors of revenue per visitor, the smaller of the pair integrated directly.
- * @source The product model as REVENUE_INTERVAL; with exponential order values checked against a closed form: given both rates, P(B > A) = I_x(orders_B, orders_A) with x from the rates and revenues, averaged over the rates (derived in test/reference/revenue_reference.py).
+ * @source The product model of the revenue interval; with exponential order values checked against a closed form: given both rates, P(B > A) = I_x(orders_B, orders_A) with x from the rates and revenues, averaged over the rates (derived in the revenue reference script in test/reference).
  * @example =ABTEST.REVENUE_PROB_ABOVE_CONTROL({120;150}, {2400;2380}, {7200;8100}) returns {"";0.76707}
  * @caution Stopping the first time this passes 95% (peeking) makes false wins more likely; check the traffic split with SRM_PVALUE.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
@@ -101,8 +101,8 @@ export function revenueProbAboveControl(orders: any[][], visitors: any[][], reve
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
  * @returns For each challenger, the lower, median and upper relative lift (0.1 is 10% more revenue per visitor); empty text for the control.
- * @method Quantiles of the ratio of the tabulated posteriors (Newton's method on the smaller tail). With order_sd, a control whose average order value could be zero or negative (chance above 1e-6) has no lift (#N/A), as MEAN_LIFT_INTERVAL; below that its small negative part is kept exactly.
- * @source The product model as REVENUE_INTERVAL; quantiles checked against nested scipy quadrature and brentq.
+ * @method Quantiles of the ratio of the tabulated posteriors (Newton's method on the smaller tail). With an order sd, a control whose average order value could be zero or negative (chance above 1e-6) has no lift (#N/A), as for averages; below that its small negative part is kept exactly.
+ * @source The product model of the revenue interval; quantiles checked against nested scipy quadrature and brentq.
  * @example =ABTEST.REVENUE_LIFT_INTERVAL({120;150}, {2400;2380}, {7200;8100}) returns {"","","";-0.18965,0.13256,0.58286}
  * @caution A wide interval means the data cannot yet tell; a few large orders can swing revenue more than conversions.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
@@ -123,8 +123,8 @@ export function revenueLiftInterval(orders: any[][], visitors: any[][], revenue:
  * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% more revenue per visitor; −0.02 asks "no worse than 2% lower").
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @returns For each challenger, P(its revenue per visitor / the control's − 1 > min_lift); empty text for the control.
- * @method The upper tail of the ratio of the tabulated posteriors, P(R_B > (1 + min_lift)·R_A), integrated directly (accurate far into the tail).
- * @source The product model as REVENUE_INTERVAL; checked against nested scipy quadrature.
+ * @method The upper tail of the ratio of the tabulated posteriors, P(R_B > (1 + m)·R_A) with m the minimum lift, integrated directly (accurate far into the tail).
+ * @source The product model of the revenue interval; checked against nested scipy quadrature.
  * @example =ABTEST.REVENUE_PROB_LIFT_ABOVE({120;150}, {2400;2380}, {7200;8100}, -0.02) returns {"";0.80165}
  * @caution A guardrail read this way ("no worse than −2%") is only as good as the traffic split; check SRM_PVALUE.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
@@ -150,8 +150,8 @@ export function revenueProbLiftAbove(
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
  * @returns For each variant, E[max over variants of revenue per visitor − its revenue per visitor] (same currency as revenue, per visitor).
- * @method loss_i = ∫ F_i (1 − ∏_{j≠i} F_j) dR over the tabulated posteriors, by quadrature. With 1 order (no order_sd) or 2 orders (with order_sd) the average order value has no finite mean: #N/A.
- * @source Expected loss: C. Stucchio, "Bayesian A/B Testing at VWO" (2015); the product model as REVENUE_INTERVAL.
+ * @method loss_i = ∫ F_i (1 − ∏_{j≠i} F_j) dR over the tabulated posteriors, by quadrature. With 1 order (no order sd) or 2 orders (with an order sd) the average order value has no finite mean: #N/A.
+ * @source Expected loss: C. Stucchio, "Bayesian A/B Testing at VWO" (2015); the product model of the revenue interval.
  * @example =ABTEST.REVENUE_EXPECTED_LOSS({120;150}, {2400;2380}, {7200;8100}) returns {0.47465;0.076383}
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
  */
@@ -172,7 +172,7 @@ export function revenueExpectedLoss(orders: any[][], visitors: any[][], revenue:
  * @param [max_loss] The largest expected loss you accept, in the revenue's currency per visitor, 0 or more (optional; default 1% of the control's posterior mean revenue per visitor).
  * @param [labels] Names of the variants, same shape as orders (optional; default A, B, C… by position).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss per visitor (no currency symbol: the add-in cannot know the currency).
- * @method DECISION's rule on revenue per visitor: the variant with the smallest expected loss is chosen when that loss is at most max_loss; otherwise the text names the current leader and its loss.
+ * @method DECISION's rule on revenue per visitor: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.
  * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).
  * @example =ABTEST.REVENUE_DECISION({120;150}, {2400;2380}, {7200;8100}) returns "Keep collecting data: B leads, but its expected loss 0.076 per visitor is above the 0.030 per visitor allowed"
  * @caution This is a decision aid, not a guarantee. A broken traffic split (check SRM_PVALUE), peeking every day, or very large single orders can all mislead it. For regulated or health-related decisions, ask a qualified statistician and follow local rules.
