@@ -556,7 +556,8 @@ export function readoutSection(context: PanelContext): HTMLElement {
         return;
       }
       view.kind = metrics?.proposed ?? 'conversions';
-      view.guardrails = view.guardrails.filter((g) => g.kind !== view.kind);
+      // Guardrails belong to a table: a new table starts without them.
+      view.guardrails = [];
       tableInfo.replaceChildren();
       renderKind();
       if (detection.ok) {
