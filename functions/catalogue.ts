@@ -39,12 +39,15 @@ export const FAMILIES: readonly { readonly id: FamilyId; readonly title: string 
   { id: 'checking', title: 'Checking the experiment' },
   { id: 'means', title: 'Revenue and other averages (Normal model)' },
   { id: 'events', title: 'Counts per exposure (Gamma–Poisson)' },
+  { id: 'revenue', title: 'Revenue per visitor from totals (conversion × order value)' },
 ];
 
 // Parameters shared by many functions.
 const CONVERSION_DATA = [range(rules.CONVERSIONS), range(rules.VISITORS)] as const;
 const MEAN_DATA = [range(rules.COUNT), range(rules.MEAN), range(rules.SD)] as const;
 const EVENT_DATA = [range(rules.EVENTS), range(rules.EXPOSURE)] as const;
+const REVENUE_DATA = [range(rules.ORDERS), range(rules.VISITORS), range(rules.REVENUE)] as const;
+const ORDER_SD = alignedNumbers(rules.ORDER_SD);
 const BETA_PRIOR = [priorPart(rules.PRIOR_ALPHA, 'beta'), priorPart(rules.PRIOR_BETA, 'beta')] as const;
 const GAMMA_PRIOR = [priorPart(rules.PRIOR_SHAPE, 'gamma'), priorPart(rules.PRIOR_RATE, 'gamma')] as const;
 const LEVEL = optional(rules.LEVEL);
@@ -324,6 +327,20 @@ const ENTRIES = [
     variants: COMPARISON,
     spill: PER_VARIANT,
   }),
+  entry({
+    id: 'MEAN_PROB_LIFT_ABOVE',
+    family: 'means',
+    params: [...MEAN_DATA, required(rules.MIN_LIFT)],
+    variants: COMPARISON,
+    spill: PER_CHALLENGER,
+  }),
+  entry({
+    id: 'MEAN_DECISION',
+    family: 'means',
+    params: [...MEAN_DATA, optional(rules.MAX_LOSS_AMOUNT), alignedCells('labels')],
+    variants: COMPARISON,
+    spill: TEXT,
+  }),
 
   // Counts per exposure (Gamma–Poisson)
   entry({
@@ -360,6 +377,71 @@ const ENTRIES = [
     params: [...EVENT_DATA, ...GAMMA_PRIOR],
     variants: COMPARISON,
     spill: PER_VARIANT,
+  }),
+  entry({
+    id: 'EVENTS_PROB_LIFT_ABOVE',
+    family: 'events',
+    params: [...EVENT_DATA, required(rules.MIN_LIFT), ...GAMMA_PRIOR],
+    variants: COMPARISON,
+    spill: PER_CHALLENGER,
+  }),
+  entry({
+    id: 'EVENTS_DECISION',
+    family: 'events',
+    params: [...EVENT_DATA, optional(rules.MAX_LOSS_AMOUNT), alignedCells('labels'), ...GAMMA_PRIOR],
+    variants: COMPARISON,
+    spill: TEXT,
+  }),
+
+  // Revenue per visitor from totals (conversion × order value)
+  entry({
+    id: 'REVENUE_INTERVAL',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD, LEVEL],
+    variants: ONE_OR_MORE,
+    spill: INTERVAL_PER_VARIANT,
+  }),
+  entry({
+    id: 'REVENUE_PROB_HIGHEST',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD],
+    variants: COMPARISON,
+    spill: PER_VARIANT,
+  }),
+  entry({
+    id: 'REVENUE_PROB_ABOVE_CONTROL',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD],
+    variants: COMPARISON,
+    spill: PER_CHALLENGER,
+  }),
+  entry({
+    id: 'REVENUE_LIFT_INTERVAL',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD, LEVEL],
+    variants: COMPARISON,
+    spill: INTERVAL_PER_CHALLENGER,
+  }),
+  entry({
+    id: 'REVENUE_PROB_LIFT_ABOVE',
+    family: 'revenue',
+    params: [...REVENUE_DATA, required(rules.MIN_LIFT), ORDER_SD],
+    variants: COMPARISON,
+    spill: PER_CHALLENGER,
+  }),
+  entry({
+    id: 'REVENUE_EXPECTED_LOSS',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD],
+    variants: COMPARISON,
+    spill: PER_VARIANT,
+  }),
+  entry({
+    id: 'REVENUE_DECISION',
+    family: 'revenue',
+    params: [...REVENUE_DATA, ORDER_SD, optional(rules.MAX_LOSS_AMOUNT), alignedCells('labels')],
+    variants: COMPARISON,
+    spill: TEXT,
   }),
 ] as const;
 

@@ -13,3 +13,4 @@ export * from './wrappers/looks';
 export * from './wrappers/checking';
 export * from './wrappers/means';
 export * from './wrappers/events';
+export * from './wrappers/revenue';

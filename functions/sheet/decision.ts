@@ -60,8 +60,11 @@ export interface DecisionOutcome {
  * //=> "Choose B: its expected loss 0.020% is within the 0.050% allowed"
  */
 export function decisionText(outcome: DecisionOutcome): string {
-  const loss = formatPercent(outcome.loss);
-  const allowed = formatPercent(outcome.maxLoss);
+  return decisionWords(outcome, formatPercent(outcome.loss), formatPercent(outcome.maxLoss));
+}
+
+/** The one wording of every *_DECISION, given the loss and the threshold already written out. */
+function decisionWords(outcome: DecisionOutcome, loss: string, allowed: string): string {
   return outcome.choose
     ? `Choose ${outcome.label}: its expected loss ${loss} is within the ${allowed} allowed`
     : `Keep collecting data: ${outcome.label} leads, but its expected loss ${loss} is above the ${allowed} allowed`;
@@ -87,4 +90,44 @@ export function decisionCell(
   }
   const label = labelOf(labels?.[found.index], position);
   return decisionText({ choose: found.choose, label, loss: found.loss, maxLoss: found.maxLoss });
+}
+
+/**
+ * Formats an amount in a metric's own units (a loss of revenue per visitor, events per unit of exposure,
+ * an average) with two significant digits and at least two decimals, as formatPercent does for rates:
+ * no currency symbol (the add-in cannot know the currency).
+ *
+ * Cost O(1).
+ * @example formatAmount(0.0042) //=> "0.0042"
+ * @example formatAmount(12.3456) //=> "12.35"
+ */
+export function formatAmount(amount: number): string {
+  if (amount === 0) return '0';
+  const magnitude = Math.floor(Math.log10(Math.abs(amount)));
+  const decimals = Math.min(12, Math.max(2, 1 - magnitude));
+  return amount.toFixed(decimals);
+}
+
+/**
+ * The one-cell text of MEAN_DECISION, EVENTS_DECISION and REVENUE_DECISION: DECISION's rule and words,
+ * with the loss and the threshold as amounts followed by the metric's unit ("per visitor", "events per
+ * unit of exposure", "in the metric's units").
+ *
+ * Cost O(variants).
+ * @throws {Error} if the core's index is outside the table (an internal fault, shown as #VALUE!).
+ * @example amountDecisionCell(table, undefined, { choose: true, index: 1, loss: 0.0042, maxLoss: 0.021 }, 'per visitor')
+ * //=> "Choose B: its expected loss 0.0042 per visitor is within the 0.021 per visitor allowed"
+ */
+export function amountDecisionCell(
+  table: { readonly positions: readonly number[] },
+  labels: readonly unknown[] | undefined,
+  found: { readonly choose: boolean; readonly index: number; readonly loss: number; readonly maxLoss: number },
+  unit: string,
+): string {
+  const position = table.positions[found.index];
+  if (position === undefined || !Number.isFinite(found.loss) || !Number.isFinite(found.maxLoss)) {
+    throw new Error(`internal: the decision rule returned variant ${found.index}`);
+  }
+  const outcome = { choose: found.choose, label: labelOf(labels?.[found.index], position), loss: found.loss, maxLoss: found.maxLoss };
+  return decisionWords(outcome, `${formatAmount(found.loss)} ${unit}`, `${formatAmount(found.maxLoss)} ${unit}`);
 }

@@ -111,7 +111,7 @@ export type SpillShape =
   | { readonly kind: 'byDay'; readonly per: 'challenger' | 'day' };
 
 /** The families of functions, in the order the README and the help index list them. */
-export type FamilyId = 'conversion' | 'prior' | 'planning' | 'looks' | 'checking' | 'means' | 'events';
+export type FamilyId = 'conversion' | 'prior' | 'planning' | 'looks' | 'checking' | 'means' | 'events' | 'revenue';
 
 /** One worksheet function as the catalogue declares it. */
 export interface FunctionEntry {

@@ -179,6 +179,13 @@ export const EVENTS = { name: 'events', kind: 'count', min: 0 } as const satisfi
 /** `exposure`: > 0. */
 export const EXPOSURE = { name: 'exposure', kind: 'real', above: 0 } as const satisfies NumberRule;
 
+/** `orders` of revenue per visitor: whole number, 0 ≤ orders ≤ visitors at the same position. */
+export const ORDERS = { name: 'orders', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
+/** `revenue`: a variant's total revenue, ≥ 0 (in the user's currency). */
+export const REVENUE = { name: 'revenue', kind: 'real', min: 0 } as const satisfies NumberRule;
+/** `order_sd`: the standard deviation of one variant's order values (STDEV.S), ≥ 0. */
+export const ORDER_SD = { name: 'order_sd', kind: 'real', min: 0 } as const satisfies NumberRule;
+
 /** `level` of credible intervals: in (0, 1), default 0.95. */
 export const LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95, fraction: 'rate' } as const satisfies NumberRule;
 /** `level` of PRIOR_FROM_INTERVAL: in (0, 1), default 0.90. */
@@ -199,6 +206,8 @@ export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0
 export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
 export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
+/** `max_loss` of the decisions on averages, counts and revenue: ≥ 0 in the metric's own units; the core's default. */
+export const MAX_LOSS_AMOUNT = { name: 'max_loss', kind: 'real', min: 0 } as const satisfies NumberRule;
 /** `points` of density tables: whole number MIN_POINTS…MAX_POINTS (2…1000, stats/limits.ts), default 101. */
 export const POINTS = { name: 'points', kind: 'count', min: MIN_POINTS, max: MAX_POINTS, default: 101 } as const satisfies NumberRule;
 /** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */

@@ -13,8 +13,10 @@ import { expectedLosses, highestProbabilities } from './compare';
 import { ensure } from './errors';
 import { gammaWorkingDensity } from './gammaDensity';
 import { tabulate } from './quadrature';
+import { chooseByLoss, lossThreshold } from './decisionRule';
+import type { LossDecision } from './decisionRule';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
-import { betaCdf, betaQuantilePair } from './special/incompleteBeta';
+import { betaCdf, betaQuantilePair, betaTailLog } from './special/incompleteBeta';
 import { gammaQuantile, gammaQuantileUpper } from './special/incompleteGamma';
 import type { TabulatedDistribution } from './quadrature';
 import { FLAT_GAMMA_PRIOR } from './types';
@@ -207,4 +209,57 @@ export function eventsExpectedLoss(
   prior: GammaPrior = FLAT_GAMMA_PRIOR,
 ): number[] {
   return expectedLosses(tabulateAll(posteriors(variants, prior, 2)));
+}
+
+/**
+ * Per challenger: P(λ_i/λ_control − 1 > minLift), the probability that its event rate is more than minLift
+ * above the control's (a negative minLift asks "no worse than": −0.05 is "at most 5% lower").
+ *
+ * Method: exact closed form. With a = shape + events and b = rate + exposure per variant, each b·λ is a
+ * unit Gamma, so λ_i/λ_control ≤ r exactly when W = b_i λ_i/(b_control λ_control + b_i λ_i) ≤ x with
+ * x = r·b_i/(b_control + r·b_i), and W ~ Beta(a_i, a_control): P(lift > r − 1) = 1 − I_x(a_i, a_control)
+ * (the scaled ratio is F(2a_i, 2a_control); Johnson, Kotz & Balakrishnan, vol. 2, ch. 27). x and 1 − x
+ * = b_control/(b_control + r·b_i) are both formed as ratios, and the upper tail is computed directly
+ * (betaTailLog), so a probability of 1e-30 keeps its relative accuracy. Accuracy: that of the incomplete
+ * beta (checked against scipy.special.betainc in test/stats/eventRates.liftAbove.test.ts). Cost: one
+ * incomplete beta per challenger.
+ * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) or minLift ≤ −1 or not finite.
+ * @example eventsProbLiftAbove([{ events: 120, exposure: 1000 }, { events: 145, exposure: 1010 }], 0, FLAT_GAMMA_PRIOR)
+ * //=> [0.92679656437…] (the same as eventsProbAboveControl at minLift 0)
+ */
+export function eventsProbLiftAbove(
+  variants: readonly EventCounts[],
+  minLift: number,
+  prior: GammaPrior = FLAT_GAMMA_PRIOR,
+): number[] {
+  ensure(
+    Number.isFinite(minLift) && minLift > -1,
+    `min_lift: ${minLift} is not allowed; the minimum lift is a number greater than -1 (-0.05 asks "no worse than 5% below")`,
+  );
+  const [control, ...challengers] = posteriors(variants, prior, 2);
+  if (control === undefined) return [];
+  const ratio = 1 + minLift;
+  return challengers.map((p) => {
+    const scaled = ratio * p.rate;
+    const total = control.rate + scaled;
+    return Math.exp(betaTailLog(scaled / total, control.rate / total, p.shape, control.shape, true));
+  });
+}
+
+/**
+ * The decision rule of DECISION on event rates: choose the variant with the smallest expected loss once
+ * that loss is at most maxLoss (default 1% of the control's posterior mean rate (shape + events)/(rate +
+ * exposure), in events per unit of exposure). Cost and errors as eventsExpectedLoss, plus
+ * StatsError('invalid_argument') for a maxLoss below 0.
+ * @example eventsDecide([{ events: 1200, exposure: 10000 }, { events: 1450, exposure: 10100 }], undefined, FLAT_GAMMA_PRIOR)
+ * // { choose: true, index: 1, loss: 1.2…e-9, maxLoss: 0.0012001 }
+ */
+export function eventsDecide(
+  variants: readonly EventCounts[],
+  maxLoss: number | undefined,
+  prior: GammaPrior = FLAT_GAMMA_PRIOR,
+): LossDecision {
+  const losses = eventsExpectedLoss(variants, prior);
+  const [control] = posteriors(variants, prior, 2);
+  return chooseByLoss(losses, lossThreshold(maxLoss, control === undefined ? 0 : control.shape / control.rate));
 }

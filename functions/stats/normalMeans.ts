@@ -23,8 +23,11 @@ import {
   expectedLosses,
   highestProbabilities,
   probabilityGreater,
+  signedRatioCdf,
   signedRatioQuantile,
 } from './compare';
+import { chooseByLoss, lossThreshold } from './decisionRule';
+import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
 import { tabulate } from './quadrature';
 import type { TabulatedDistribution } from './quadrature';
@@ -409,14 +412,7 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
   const tail = (1 - level) / 2;
   const [control, ...challengers] = posteriors(variants, 2);
   if (control === undefined) return [];
-  const belowZero = cdfAt(control, 0);
-  if (belowZero > LIFT_ZERO_MASS) {
-    throw new StatsError(
-      'not_available',
-      `the control's mean could plausibly be zero or negative (${percent(belowZero)}), so a relative lift ` +
-        'is undefined; use MEAN_DIFF_INTERVAL for the absolute difference',
-    );
-  }
+  const belowZero = checkLiftControl(control);
   const probs = [tail, 0.5, 1 - tail] as const;
   const controlTable = isPoint(control) ? undefined : tabulateOne(control);
   return challengers.map((p) => {
@@ -477,4 +473,96 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
   }
   if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
   return expectedLosses(tabulateForComparison(ps));
+}
+
+/**
+ * P(control's mean ≤ 0), after checking it is at most LIFT_ZERO_MASS (a relative lift needs a control
+ * that is positive for sure). Throws StatsError('not_available') naming the control otherwise.
+ */
+function checkLiftControl(control: MeanPosterior): number {
+  const belowZero = cdfAt(control, 0);
+  if (belowZero > LIFT_ZERO_MASS) {
+    throw new StatsError(
+      'not_available',
+      `the control's mean could plausibly be zero or negative (${percent(belowZero)}), so a relative lift ` +
+        'is undefined; use MEAN_DIFF_INTERVAL for the absolute difference',
+    );
+  }
+  return belowZero;
+}
+
+/** P(c/X > k) for a point-mass challenger c over a continuous control X (k > 0; exact, both signs of X). */
+function pointOverControlAbove(c: number, control: MeanPosterior, k: number, belowZero: number): number {
+  if (c === 0) return 0;
+  const x = c / k;
+  // c > 0: c/X > k exactly when 0 < X < c/k; c < 0: when c/k < X < 0.
+  if (c > 0) {
+    const below = cdfAt(control, x);
+    return below <= 0.5 ? below - belowZero : 1 - belowZero - studentTCdf((control.centre - x) / control.scale, control.df);
+  }
+  return belowZero - cdfAt(control, x);
+}
+
+/**
+ * Per challenger: P(mean/control mean − 1 > minLift), the probability that its true mean is more than
+ * minLift above the control's (a negative minLift asks "no worse than": −0.02 is "at most 2% lower").
+ *
+ * Method: the same ratio distribution as meanLiftInterval, with the control's tiny chance of a negative
+ * mean kept exactly (compare/ratio.ts signedRatioCdf, both signs of the control), k = 1 + minLift. The
+ * smaller tail is computed directly: P(Y/X > k) is also P((−Y)/X < −k), the lower tail of the mirrored
+ * challenger. With sd = 0: a point-mass control c0 > 0 gives
+ * the challenger's t tail at k·c0 exactly; a point-mass challenger c gives P(0 < X < c/k) (or
+ * P(c/k < X < 0) for c < 0) through the control's t; two point masses give 1, 0 or ½ at equality.
+ * Accuracy 1e-9 absolute (against scipy quadrature, test/reference/means_lift_above.py).
+ * Cost: tabulation plus one or two node sums of O(panels) per challenger.
+ * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) or minLift ≤ −1 or not finite,
+ * and StatsError('not_available') naming the control when its mean could plausibly be ≤ 0 (as
+ * meanLiftInterval).
+ * @example meanProbLiftAbove([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0)
+ * // [0.9088…] (P(mean_B > mean_A) when the control is positive for sure)
+ */
+export function meanProbLiftAbove(variants: readonly MeanSummary[], minLift: number): number[] {
+  ensure(
+    Number.isFinite(minLift) && minLift > -1,
+    `min_lift: ${minLift} is not allowed; the minimum lift is a number greater than -1 (-0.02 asks "no worse than 2% below")`,
+  );
+  const [control, ...challengers] = posteriors(variants, 2);
+  if (control === undefined) return [];
+  const belowZero = checkLiftControl(control);
+  const k = 1 + minLift;
+  const controlTable = isPoint(control) ? undefined : tabulateOne(control);
+  return challengers.map((p) => {
+    if (controlTable === undefined) {
+      // A known, positive control mean c0: P(Y > k·c0).
+      const x = k * control.centre;
+      if (isPoint(p)) return p.centre > x ? 1 : p.centre < x ? 0 : 0.5;
+      return studentTCdf((p.centre - x) / p.scale, p.df);
+    }
+    if (isPoint(p)) return pointOverControlAbove(p.centre, control, k, belowZero);
+    const below = signedRatioCdf(tabulateOne(p), controlTable, minLift);
+    if (below <= 0.5) return 1 - below;
+    // The upper tail directly: P(Y/X > k) = P((−Y)/X < −k), the lower tail of the mirrored challenger.
+    const mirror: MeanPosterior = { df: p.df, centre: -p.centre, scale: p.scale };
+    return signedRatioCdf(tabulateOne(mirror), controlTable, -k - 1);
+  });
+}
+
+/**
+ * The decision rule of DECISION on means: choose the variant with the smallest expected loss once that
+ * loss is at most maxLoss (default 1% of |the control's mean|, in the metric's own units).
+ * Cost and errors as meanExpectedLoss, plus StatsError('invalid_argument') for a maxLoss below 0 and
+ * StatsError('not_available') when the default is asked for and the control's mean is 0.
+ * @example meanDecide([{ count: 2000, mean: 48, sd: 20 }, { count: 2000, mean: 52, sd: 22 }], undefined)
+ * // { choose: true, index: 1, loss: 1.1…e-…, maxLoss: 0.48 }
+ */
+export function meanDecide(variants: readonly MeanSummary[], maxLoss: number | undefined): LossDecision {
+  const losses = meanExpectedLoss(variants);
+  const control = variants[0] as MeanSummary;
+  if (maxLoss === undefined && control.mean === 0) {
+    throw new StatsError(
+      'not_available',
+      "max_loss: the default, 1% of the control's mean, is 0 because that mean is 0; give max_loss in the metric's units",
+    );
+  }
+  return chooseByLoss(losses, lossThreshold(maxLoss, control.mean));
 }

@@ -11,7 +11,7 @@
  * runs it through the wrapper.
  */
 import { CATALOGUE } from '../catalogue';
-import { intervalRows, medianRows, runFunction } from '../sheet';
+import { amountDecisionCell, intervalRows, medianRows, runFunction } from '../sheet';
 import * as normalMeans from '../stats/normalMeans';
 
 /**
@@ -129,5 +129,47 @@ export function meanLiftInterval(count: any[][], mean: any[][], sd: any[][], lev
 export function meanExpectedLoss(count: any[][], mean: any[][], sd: any[][]): any[][] {
   return runFunction(CATALOGUE.MEAN_EXPECTED_LOSS, { count, mean, sd }, (a) =>
     normalMeans.meanExpectedLoss(a.variants),
+  );
+}
+
+/**
+ * Probability that each challenger's true average is more than min_lift above the control's; a negative min_lift asks "no worse than" (−0.02: at most 2% lower). Spills one value per variant, with an empty cell in the control's place.
+ * @customfunction MEAN_PROB_LIFT_ABOVE
+ * @helpurl https://localhost:3000/help/MEAN_PROB_LIFT_ABOVE.html
+ * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
+ * @param mean Average of each variant, as AVERAGE gives, same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
+ * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% above the control's average; −0.02 asks "no worse than 2% lower").
+ * @returns For each challenger, P(its average / the control's average − 1 > min_lift); empty text for the control.
+ * @method The ratio of the Student t posteriors (the control's small chance of a negative mean kept exactly), by quadrature; the smaller tail is computed directly. #N/A when the control's mean could plausibly be zero or negative (chance above 1e-6), as for the lift interval of averages.
+ * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2; checked against scipy quadrature (the lift-above reference script in test/reference).
+ * @example =ABTEST.MEAN_PROB_LIFT_ABOVE({1200;1180}, {3.10;3.42}, {9.8;10.4}, -0.02) returns {"";0.82380}
+ * @caution A guardrail read this way ("no worse than −2%") is only as good as the traffic split; check SRM_PVALUE.
+ * @caution Averages such as revenue are pulled by a few large values; check for outliers before reading the result.
+ */
+export function meanProbLiftAbove(count: any[][], mean: any[][], sd: any[][], min_lift: number): any[][] {
+  return runFunction(CATALOGUE.MEAN_PROB_LIFT_ABOVE, { count, mean, sd, min_lift }, (a) =>
+    normalMeans.meanProbLiftAbove(a.variants, a.min_lift),
+  );
+}
+
+/**
+ * A one-cell verdict in plain words on averages: which variant to choose when its expected loss is small enough, or that more data is needed.
+ * @customfunction MEAN_DECISION
+ * @helpurl https://localhost:3000/help/MEAN_DECISION.html
+ * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 3 or more for a finite loss).
+ * @param mean Average of each variant, as AVERAGE gives, same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
+ * @param [max_loss] The largest expected loss you accept, in the metric's own units, 0 or more (optional; default 1% of the control's average).
+ * @param [labels] Names of the variants, same shape as count (optional; default A, B, C… by position).
+ * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss in the metric's units.
+ * @method DECISION's rule on averages: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.
+ * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).
+ * @example =ABTEST.MEAN_DECISION({1200;1180}, {3.10;3.42}, {9.8;10.4}) returns "Keep collecting data: B leads, but its expected loss 0.052 in the metric's units is above the 0.031 in the metric's units allowed"
+ * @caution This is a decision aid, not a guarantee. A broken traffic split (check SRM_PVALUE), peeking every day, or a few extreme values can all mislead it. For regulated or health-related decisions, ask a qualified statistician and follow local rules.
+ */
+export function meanDecision(count: any[][], mean: any[][], sd: any[][], max_loss?: number, labels?: any[][]): string {
+  return runFunction(CATALOGUE.MEAN_DECISION, { count, mean, sd, max_loss, labels }, (a) =>
+    amountDecisionCell(a.table, a.labels, normalMeans.meanDecide(a.variants, a.max_loss), "in the metric's units"),
   );
 }

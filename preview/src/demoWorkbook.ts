@@ -178,6 +178,8 @@ function checkoutSheet(): DemoSheet {
   spilled(94, 'Lift over the control, relative (EVENTS_LIFT_INTERVAL)', '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)', '0.0%', ['lower', 'median', 'upper']);
   spilled(98, 'Expected loss if chosen, in adds per session (EVENTS_EXPECTED_LOSS)', '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)', '0.00000');
 
+  revenueFromTotals(s);
+
   // Chart tables: a heading row with the variants' names over their density columns.
   s.put('K9', 'Chart table: posterior densities (POSTERIOR_DENSITY, 41 points)');
   ['Conversion rate', ...names].forEach((heading, c) => s.put(`${columnLetters(10 + c)}10`, heading));
@@ -190,6 +192,59 @@ function checkoutSheet(): DemoSheet {
   s.formatBlock('K55', 41, 1, '0.0%');
   s.formatBlock('L55', 41, 2, '0.00');
   return s.done();
+}
+
+/**
+ * The revenue-from-totals part of the checkout sheet (issue #13), below the other read-outs: the same
+ * invented test as its analytics export would give it (orders = conversions, visitors, total revenue =
+ * average revenue per visitor × visitors, and an invented standard deviation of order values), read out
+ * with the REVENUE_ functions, and the "no worse than" probabilities and decisions of the other metrics.
+ */
+function revenueFromTotals(s: ReturnType<typeof sheetBuilder>): void {
+  s.put('A101', 'Revenue per visitor from totals (orders × average order value; invented totals)');
+  const headers = ['Variant', 'Orders', 'Visitors', 'Revenue', 'Order sd'];
+  headers.forEach((h, i) => s.put(`${columnLetters(i)}102`, h));
+  s.strong('A101', ...headers.map((_, i) => `${columnLetters(i)}102`));
+  // orders = conversions and visitors of rows 4–6; revenue = average revenue per visitor × visitors;
+  // the order values' standard deviation is invented
+  const orderSd = [35, 37, 36];
+  CHECKOUT_VARIANTS.forEach((variant, r) => {
+    const row = 103 + r;
+    s.put(`A${row}`, `=$A$${4 + r}`);
+    s.put(`B${row}`, `=C${4 + r}`);
+    s.put(`C${row}`, `=B${4 + r}`);
+    s.put(`D${row}`, Math.round(variant[4] * variant[1] * 100) / 100, '0.00');
+    s.put(`E${row}`, orderSd[r] as number, '0.00');
+  });
+  const names = ['=$A$4', '=$A$5', '=$A$6'];
+  /** A spilled result at B`row`, its label and headings in the row above and the names beside it. */
+  const spilled = (row: number, label: string, formula: string, format: string, columns: readonly string[] = []): void => {
+    s.put(`A${row - 1}`, label);
+    columns.forEach((heading, c) => s.put(`${columnLetters(1 + c)}${row - 1}`, heading));
+    names.forEach((name, i) => s.put(`A${row + i}`, name));
+    s.put(`B${row}`, formula);
+    s.formatBlock(`B${row}`, names.length, Math.max(1, columns.length), format);
+  };
+  const single = (row: number, label: string, formula: string): void => {
+    s.put(`A${row}`, label);
+    s.put(`B${row}`, formula);
+  };
+  const totals = 'B103:B105, C103:C105, D103:D105';
+  spilled(108, '95% credible interval for revenue per visitor (REVENUE_INTERVAL)', `=ABTEST.REVENUE_INTERVAL(${totals})`, '0.000', ['lower', 'upper']);
+  spilled(112, 'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)', `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`, '0.0%');
+  spilled(116, 'Probability of beating the control, with order sd (REVENUE_PROB_ABOVE_CONTROL)', `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E103:E105)`, '0.0%');
+  spilled(120, 'Lift over the control, relative, with order sd (REVENUE_LIFT_INTERVAL)', `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E103:E105)`, '0.0%', ['lower', 'median', 'upper']);
+  spilled(124, 'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)', `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E103:E105)`, '0.0%');
+  spilled(128, 'Expected loss if chosen, per visitor, with order sd (REVENUE_EXPECTED_LOSS)', `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E103:E105)`, '0.0000');
+  single(131, 'What to do on revenue (REVENUE_DECISION, with order sd)', `=ABTEST.REVENUE_DECISION(${totals}, E103:E105, , A103:A105)`);
+  spilled(134, 'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)', '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)', '0.0%');
+  single(137, 'What to do on the revenue mean (MEAN_DECISION)', '=ABTEST.MEAN_DECISION(D4:D6, E4:E6, F4:F6, , A4:A6)');
+  spilled(140, 'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)', '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)', '0.0%');
+  single(143, 'What to do on basket adds (EVENTS_DECISION)', '=ABTEST.EVENTS_DECISION(G4:G6, H4:H6, , A4:A6)');
+  s.put(
+    'A145',
+    'Caution: without order sd the order values are taken as exponential, which understates the spread when a few orders are very large; a decision on revenue can differ from one on conversions.',
+  );
 }
 
 function pastTestsSheet(): DemoSheet {

@@ -87,7 +87,8 @@ const PLAIN_METHODS: readonly [RegExp, string][] = [
   [/PROB_ABOVE_CONTROL$/, 'In words: for every possible value of the challenger, the chance that the control is below it, averaged over what the challenger\'s value may be.'],
   [/LIFT_INTERVAL$/, 'In words: for any lift r, the chance that the true lift is below r comes from averaging over what the control\'s value may be; the interval\'s ends are the lifts where that chance is (1 − level)/2 and 1 − (1 − level)/2, the median where it is ½.'],
   [/DIFF_INTERVAL$/, 'In words: for any difference d, the chance that the true difference is below d comes from averaging over what the control\'s value may be; the interval\'s ends are where that chance is (1 − level)/2 and 1 − (1 − level)/2.'],
-  [/^PROB_LIFT_ABOVE$/, 'In words: the chance that the challenger beats the control by more than min_lift, averaged over what the control\'s rate may be.'],
+  [/PROB_LIFT_ABOVE$/, 'In words: the chance that the challenger beats the control by more than min_lift, averaged over what the control\'s value may be.'],
+  [/DECISION$/, 'In words: the expected loss of each variant is worked out first; the variant with the smallest one is recommended once that loss is at most max_loss, otherwise the test should go on.'],
   [/EXPECTED_LOSS$/, 'In words: how much you give up on average if you choose this variant and another one is in fact better; zero when it is surely the best.'],
   [/^LIFT_DENSITY$/, 'In words: how plausible each lift is, from averaging over what the control\'s rate may be.'],
 ];
@@ -595,6 +596,22 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
           summary: `For each variant, the mean given up on average by choosing it, E[max mean − its mean], from ${on}.`,
           crossCheck: null,
         };
+      case 'MEAN_PROB_LIFT_ABOVE': {
+        const k = `(1+${p(get('min_lift'))})`;
+        return {
+          summary: `For each challenger, the probability that its true mean is more than min_lift (${get('min_lift')}) above the control's, relative (a negative min_lift asks "no worse than"), from ${on}.`,
+          crossCheck: {
+            kind: 'approximates',
+            what: 'for the first challenger, a normal approximation of its mean minus (1 + min_lift) × the control\'s (close for large counts and a control mean far from 0)',
+            formulas: [`=NORM.S.DIST((${m2}-${k}*${m1})/SQRT(${s2}^2/${c2}+${k}^2*${s1}^2/${c1}),TRUE)`],
+          },
+        };
+      }
+      case 'MEAN_DECISION':
+        return {
+          summary: `What to do on the means, from ${on}: the variant with the smallest expected loss (MEAN_EXPECTED_LOSS) is recommended once that loss is at most ${get('max_loss') === '' ? "1% of the control's mean (the default)" : `max_loss (${get('max_loss')}), in the metric's units`}.`,
+          crossCheck: null,
+        };
       default:
         break;
     }
@@ -655,6 +672,109 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
     case 'EVENTS_EXPECTED_LOSS':
       return {
         summary: `For each variant, the event rate given up on average by choosing it, from ${on}.`,
+        crossCheck: null,
+      };
+    case 'EVENTS_PROB_LIFT_ABOVE': {
+      const k = `(1+${p(get('min_lift'))})`;
+      return {
+        summary: `For each challenger, the probability that its true event rate is more than min_lift (${get('min_lift')}) above the control's, relative (a negative min_lift asks "no worse than"), from ${on}.`,
+        crossCheck: {
+          kind: 'reproduces',
+          what: 'the first challenger\'s value, by the regularized incomplete beta closed form (rate_B > (1 + min_lift) × rate_A)',
+          formulas: [`=BETA.DIST((${rate1})/((${rate1})+${k}*(${rate2})),${shape1},${shape2},TRUE)`],
+        },
+      };
+    }
+    case 'EVENTS_DECISION':
+      return {
+        summary: `What to do on the event rates, from ${on}: the variant with the smallest expected loss (EVENTS_EXPECTED_LOSS) is recommended once that loss is at most ${get('max_loss') === '' ? "1% of the control's posterior mean rate (the default)" : `max_loss (${get('max_loss')}) events per unit of exposure`}.`,
+        crossCheck: null,
+      };
+    default:
+      return describeRevenue(name, get, or, anchor);
+  }
+}
+
+/**
+ * Revenue per visitor from totals. Its cross-checks are normal approximations on the log scale (the delta
+ * method; common practice): log R = log p + log v with var(log p) ≈ (1 − p)/orders and var(log v) ≈
+ * 1/orders for exponential order values, (order sd ÷ average order value)²/orders with order_sd given.
+ */
+function describeRevenue(name: string, get: Getter, or: Defaulting, anchor: string): CallWords | null {
+  if (!name.startsWith('REVENUE_')) return null;
+  const level = or('level', '0.95');
+  const orders = get('orders');
+  const visitors = get('visitors');
+  const revenue = get('revenue');
+  const sd = get('order_sd');
+  const on =
+    `orders in ${orders}, visitors in ${visitors} and revenue in ${revenue}` +
+    (sd === '' ? ', order values taken as exponential (no order_sd given)' : `, with the order values' standard deviations in ${sd}`);
+  const item = (i: number) => ({ o: itemOf(orders, i), v: itemOf(visitors, i), r: itemOf(revenue, i), s: sd === '' ? '' : itemOf(sd, i) });
+  const variance = (i: number): string => {
+    const { o, v, r, s } = item(i);
+    const orderValue = s === '' ? `1/${o}` : `(${s}/(${r}/${o}))^2/${o}`;
+    return `(1-${o}/${v})/${o}+${orderValue}`;
+  };
+  const logR = (i: number): string => `LN(${item(i).r}/${item(i).v})`;
+  const se = `SQRT(${variance(0)}+${variance(1)})`;
+  const z = `NORM.S.INV(1-(1-${p(level)})/2)`;
+  const approximate = 'a normal approximation on the log scale (close once each variant has a few hundred orders)';
+  switch (name) {
+    case 'REVENUE_INTERVAL':
+      return {
+        summary: `The ${percent(level)} credible interval for each variant's revenue per visitor (conversion rate × average order value), from ${on}.`,
+        crossCheck: {
+          kind: 'approximates',
+          what: `the first variant's bounds by ${approximate}`,
+          formulas: [`=EXP(${logR(0)}-${z}*SQRT(${variance(0)}))`, `=EXP(${logR(0)}+${z}*SQRT(${variance(0)}))`],
+        },
+      };
+    case 'REVENUE_PROB_HIGHEST':
+    case 'REVENUE_PROB_ABOVE_CONTROL': {
+      const pairwise: CrossCheck = {
+        kind: 'approximates',
+        what: `for the first challenger against the control, ${approximate}`,
+        formulas: [`=NORM.S.DIST((${logR(1)}-${logR(0)})/${se},TRUE)`],
+      };
+      return {
+        summary:
+          name === 'REVENUE_PROB_HIGHEST'
+            ? `The probability that each variant has the highest true revenue per visitor, from ${on}. The values add up to 1.`
+            : `For each challenger, the probability that its true revenue per visitor is above the control's, from ${on}.`,
+        crossCheck: name === 'REVENUE_PROB_HIGHEST' ? highestCheck(pairwise, orders, anchor, 'revenue per visitor') : pairwise,
+      };
+    }
+    case 'REVENUE_LIFT_INTERVAL':
+      return {
+        summary: `For each challenger, the ${percent(level)} credible interval and median of its revenue per visitor ÷ the control's − 1, from ${on}.`,
+        crossCheck: {
+          kind: 'approximates',
+          what: `the first challenger's lower bound, median and upper bound by ${approximate}`,
+          formulas: [
+            `=EXP(${logR(1)}-${logR(0)}-${z}*${se})-1`,
+            `=EXP(${logR(1)}-${logR(0)})-1`,
+            `=EXP(${logR(1)}-${logR(0)}+${z}*${se})-1`,
+          ],
+        },
+      };
+    case 'REVENUE_PROB_LIFT_ABOVE':
+      return {
+        summary: `For each challenger, the probability that its true revenue per visitor is more than min_lift (${get('min_lift')}) above the control's, relative (a negative min_lift asks "no worse than"), from ${on}.`,
+        crossCheck: {
+          kind: 'approximates',
+          what: `for the first challenger, ${approximate}`,
+          formulas: [`=NORM.S.DIST((${logR(1)}-${logR(0)}-LN(1+${p(get('min_lift'))}))/${se},TRUE)`],
+        },
+      };
+    case 'REVENUE_EXPECTED_LOSS':
+      return {
+        summary: `For each variant, the revenue per visitor given up on average by choosing it, E[max R − its R], in the revenue's currency per visitor, from ${on}.`,
+        crossCheck: null,
+      };
+    case 'REVENUE_DECISION':
+      return {
+        summary: `What to do on revenue per visitor, from ${on}: the variant with the smallest expected loss (REVENUE_EXPECTED_LOSS) is recommended once that loss is at most ${get('max_loss') === '' ? "1% of the control's posterior mean revenue per visitor (the default)" : `max_loss (${get('max_loss')}) per visitor`}.`,
         crossCheck: null,
       };
     default:

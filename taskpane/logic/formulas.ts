@@ -7,6 +7,8 @@ import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
 import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
 import { PLAN_THRESHOLD_SOURCE, type ThresholdSource } from './plan';
 import { variantLetter } from '../../functions/sheet/labels';
+import { guardrailRows, MAX_GUARDRAILS, writeGuardrails, type Guardrail } from './guardrails';
+import type { MetricRole } from './metrics';
 
 /** Warning fill and text colours for a split that looks broken. */
 export const WARNING_FILL = '#F4CCCC';
@@ -191,6 +193,8 @@ export interface ReadoutSource {
   readonly sharesRef: string | null;
   /** Number of variants (data rows). */
   readonly variants: number;
+  /** The table's other columns by role (local addresses of their data cells), for guardrails on other metrics. */
+  readonly refs?: Readonly<Partial<Record<MetricRole, string>>>;
 }
 
 /** Settings written as input cells of the read-out block. */
@@ -219,18 +223,26 @@ export const LOSS_NOTE =
   'Expected loss is in conversion-rate points: 0.300% means choosing that variant gives up 0.3 percentage points ' +
   'of conversion rate on average (a 5.0% rate would become 4.7%), not 0.3% of the rate. Lift is relative to the control.';
 
-/** Width of the read-out's table (variant, 9 results). */
+/** Width of the read-out's table (variant, 9 results), before any guardrail columns. */
 const READOUT_WIDTH = 10;
 /** Columns the native chart covers, right of the density table (one empty column between). */
 const CHART_COLUMNS = 7;
 
+/** Rows between the split check and the density table's title: the guardrails' rows and a spare row. */
+function guardrailBand(guardrails: number): number {
+  return guardrails === 0 ? 0 : guardrailRows(guardrails) + 1;
+}
+
 /**
- * Size of the read-out block's area (cells, spill room and the chart it places) for k variants.
- * Cost O(1).
+ * Size of the read-out block's area (cells, spill room and the chart it places) for k variants and g
+ * guardrails. Cost O(1).
  * @example readoutArea(3, 61) //=> { rowCount: 77, columnCount: 11 }
  */
-export function readoutArea(variants: number, densityPoints: number): { rowCount: number; columnCount: number } {
-  return { rowCount: variants + 13 + densityPoints, columnCount: Math.max(READOUT_WIDTH, variants + 1 + CHART_COLUMNS) };
+export function readoutArea(variants: number, densityPoints: number, guardrails = 0): { rowCount: number; columnCount: number } {
+  return {
+    rowCount: variants + 13 + densityPoints + guardrailBand(guardrails),
+    columnCount: Math.max(READOUT_WIDTH + guardrails, variants + 1 + CHART_COLUMNS),
+  };
 }
 
 /**
@@ -240,9 +252,12 @@ export function readoutArea(variants: number, densityPoints: number): { rowCount
  * DECISION, the SRM p-value with a formula-driven warning text (and a warning fill when the current
  * value is below 0.001), and a LIFT_DENSITY table headed by the challengers' names for the native chart,
  * which sits right of it inside the block's area. Rates and losses are shown as percentages of visitors,
- * lifts as relative changes, densities as plain numbers. When the block goes on another sheet than the
- * table (`sheet` ≠ `source.sheet`), its references name the table's sheet. Cost O(variants + points).
- * Throws RangeError for fewer than 2 variants or a density table under 3 points.
+ * lifts as relative changes, densities as plain numbers. Guardrails (guardrails.ts) add a column each
+ * beside the results and their rows with a "Decision with guardrails" below the split check. When the
+ * block goes on another sheet than the table (`sheet` ≠ `source.sheet`), its references name the table's
+ * sheet. Cost O(variants + points + guardrails).
+ * Throws RangeError for fewer than 2 variants, a density table under 3 points, more than MAX_GUARDRAILS
+ * guardrails or a guardrail whose columns are not in source.refs.
  * @example readoutBlock(source, settings, "F1").cells.decision //=> "G12" (for three variants)
  */
 export function readoutBlock(
@@ -250,17 +265,19 @@ export function readoutBlock(
   settings: ReadoutSettings,
   topLeft: string,
   sheet?: string,
+  guardrails: readonly Guardrail[] = [],
 ): ReadoutBlock {
   const k = source.variants;
   if (!Number.isInteger(k) || k < 2) throw new RangeError('a read-out needs at least two variants');
+  if (guardrails.length > MAX_GUARDRAILS) throw new RangeError(`at most ${MAX_GUARDRAILS} guardrails`);
   if (!Number.isInteger(settings.densityPoints) || settings.densityPoints < 3) {
     throw new RangeError('the density table needs at least 3 points');
   }
   const origin = parseAddress(topLeft).start;
-  const width = Math.max(READOUT_WIDTH, k);
+  const width = Math.max(READOUT_WIDTH + guardrails.length, k);
   const noteRow = k + 2;
   const settingsRow = k + 4;
-  const densityTitleRow = settingsRow + 7;
+  const densityTitleRow = settingsRow + 7 + guardrailBand(guardrails.length);
   const densityHeaderRow = densityTitleRow + 1;
   const height = densityHeaderRow + 1 + settings.densityPoints;
   const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
@@ -346,6 +363,32 @@ export function readoutBlock(
     `=IF(${names.srmPValue}<${numberLiteral(SRM_ALARM)},"split looks broken: check how visitors are assigned","split looks as planned")`,
   );
 
+  const guardrailRefs: Partial<Record<MetricRole, string>> = {};
+  for (const [role, local] of Object.entries(source.refs ?? {}) as [MetricRole, string][]) guardrailRefs[role] = ref(local);
+  Object.assign(
+    names,
+    writeGuardrails(
+      guardrails,
+      { ...guardrailRefs, conversions: conv, visitors: vis },
+      {
+        headerRow: 1,
+        variants: k,
+        firstColumn: READOUT_WIDTH,
+        settingsRow: settingsRow + 7,
+        lossRange: rangeAddress({ row: origin.row + 2, column: origin.column + 9 }, k, 1),
+        maxLoss: names.maxLoss,
+        labels,
+        decision: names.decision,
+        primary: 'conversions',
+      },
+      {
+        put,
+        formatColumn,
+        rangeAt: (row, column, rows) => rangeAddress({ row: origin.row + row, column: origin.column + column }, rows, 1),
+      },
+    ),
+  );
+
   put(densityTitleRow, 0, 'Lift densities, for the chart: lift relative to the control (first column), density of each challenger');
   names.densityHeader = put(densityHeaderRow, 0, 'Lift');
   for (let i = 1; i < k; i += 1) {
@@ -364,8 +407,11 @@ export function readoutBlock(
 
   const styles: BlockStyle[] = [
     { row: 0, column: 0, style: { bold: true } },
-    { row: 1, column: 0, columnCount: READOUT_WIDTH, style: { bold: true } },
+    { row: 1, column: 0, columnCount: READOUT_WIDTH + guardrails.length, style: { bold: true } },
     { row: settingsRow + 4, column: 0, columnCount: 2, style: { bold: true } },
+    ...(guardrails.length === 0
+      ? []
+      : [{ row: settingsRow + 7 + 2 * guardrails.length, column: 0, columnCount: 2, style: { bold: true } }]),
     { row: densityTitleRow, column: 0, style: { bold: true } },
     { row: densityHeaderRow, column: 0, columnCount: k, style: { bold: true } },
   ];
@@ -385,7 +431,7 @@ export function readoutBlock(
       cells,
       numberFormats: formats,
       styles,
-      area: readoutArea(k, settings.densityPoints),
+      area: readoutArea(k, settings.densityPoints, guardrails.length),
       // Fit the columns to the table's title, headers and variant rows, not to the long note and titles below.
       autofit: { rows: k + 2 },
     },

@@ -7,6 +7,21 @@
  */
 import { srmPValue } from '../../functions/stats/srm';
 import { readoutArea, readoutBlock, SRM_ALARM } from '../logic/formulas';
+import { MAX_GUARDRAILS, type Guardrail, type GuardrailDirection } from '../logic/guardrails';
+import { metricReadoutArea, metricReadoutBlock } from '../logic/metricFormulas';
+import {
+  checkMetrics,
+  detectMetrics,
+  KIND_NAMES,
+  KIND_ROLES,
+  KIND_SHORT,
+  METRIC_KINDS,
+  orderSdWarnings,
+  roleName,
+  type MetricDetection,
+  type MetricKind,
+  type MetricRole,
+} from '../logic/metrics';
 import { formatCount, parseNumber, readPercent, type PercentRule } from '../logic/inputs';
 import { variantLabel } from '../logic/resultWords';
 import {
@@ -20,11 +35,31 @@ import {
 import { cellAddress, columnLetters, parseAddress, rangeAddress } from '../workbook/address';
 import type { CellValue, RangeContents } from '../workbook/workbook';
 import { outcomeText, type PanelContext } from './context';
-import { button, checkbox, el, select, setBusy, showMessage, textField } from './dom';
+import { button, checkbox, el, select, setBusy, shortNumber, showMessage, textField } from './dom';
 import { writePlace } from './writePlace';
 
 /** The credible level takes a percent from 10% (below is a likely slip: 0.95 typed for 95%). */
 const CREDIBLE_LEVEL_RULE: PercentRule = { name: 'Credible level', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '95' };
+
+/** A guardrail's limit: a relative lift from −99% to +100%. */
+const GUARDRAIL_LIMIT_RULE: PercentRule = { name: 'Guardrail limit', min: -0.99, minIncluded: true, max: 1, maxIncluded: true, example: '-2' };
+/** A guardrail's required probability: from 50% to below 100%. */
+const GUARDRAIL_PROBABILITY_RULE: PercentRule = {
+  name: 'Guardrail probability',
+  min: 0.5,
+  minIncluded: true,
+  max: 1,
+  maxIncluded: false,
+  example: '95',
+};
+
+/** A guardrail as the panel holds it: its choices and the typed texts. */
+interface GuardrailDraft {
+  kind: MetricKind;
+  direction: GuardrailDirection;
+  limit: string;
+  required: string;
+}
 
 /** Rows of the LIFT_DENSITY table the read-out writes for its chart. */
 const DENSITY_POINTS = 61;
@@ -50,7 +85,11 @@ export function readoutSection(context: PanelContext): HTMLElement {
   });
   const useButton = button('readout-use-selection', 'Use the selected table', 'primary');
   const tableInfo = el('div', { id: 'readout-table', class: 'summary', 'aria-live': 'polite' });
+  const kindArea = el('div', { id: 'readout-kind' });
   const mappingArea = el('div', { id: 'readout-mapping', class: 'group' });
+  const columnsArea = el('div', { id: 'readout-metric-columns', class: 'group' });
+  const guardrailArea = el('div', { id: 'readout-guardrails', class: 'group' });
+  const orderSdArea = el('div', { id: 'readout-order-sd' });
   const level = textField('readout-level', 'Credible level', '95', { unit: '%' });
   const alpha = textField('readout-alpha', 'Prior alpha', '1');
   const beta = textField('readout-beta', 'Prior beta', '1');
@@ -70,11 +109,15 @@ export function readoutSection(context: PanelContext): HTMLElement {
     el(
       'p',
       { class: 'hint' },
-      'Select the variant table (one row per variant: name, visitors, conversions; the control first), then press the button.',
+      'Select the variant table (one row per variant, the control first: visitors and conversions; or orders, visitors and revenue; or count, mean and sd; or events and exposure), then press the button.',
     ),
     el('div', { class: 'actions' }, useButton),
     tableInfo,
+    kindArea,
     mappingArea,
+    columnsArea,
+    orderSdArea,
+    guardrailArea,
     splitArea,
     level.element,
     alpha.element,
@@ -85,7 +128,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
     el(
       'p',
       { class: 'hint' },
-      'Writes posterior means and intervals, P(beats control), P(highest), lift intervals, expected loss, the decision, the split check, and a lift-density table with a native chart — all live formulas, each row beside its variant’s name.',
+      'Writes intervals, P(beats control), P(highest), lift intervals, expected loss, the decision, the split check and each guardrail’s probabilities (for conversions also a lift-density table with a native chart) — all live formulas, each row beside its variant’s name.',
     ),
     status,
     cautionLink,
@@ -97,8 +140,13 @@ export function readoutSection(context: PanelContext): HTMLElement {
     basis: 'headings' as MappingBasis,
     /** A guessed mapping counts once the user confirms it or sets a column. */
     confirmed: true,
-    /** Variants the places were found for (the block's size depends on it). */
-    placedFor: 0,
+    /** The block size the places were found for ("kind:variants:guardrails"). */
+    placedFor: '',
+    /** The metric columns proposed from the headings (and set by the user). */
+    metrics: null as MetricDetection | null,
+    columns: {} as Record<MetricRole, number | null>,
+    kind: 'conversions' as MetricKind,
+    guardrails: [] as GuardrailDraft[],
     /** True while an insert runs: a second click does nothing (a double click writes once). */
     inserting: false,
   };
@@ -111,8 +159,9 @@ export function readoutSection(context: PanelContext): HTMLElement {
   const findPlaces = async (variants: number): Promise<void> => {
     const selection = view.selection;
     if (selection === null) return;
-    view.placedFor = variants;
-    const area = readoutArea(variants, DENSITY_POINTS);
+    const g = view.guardrails.length;
+    view.placedFor = `${view.kind}:${variants}:${g}`;
+    const area = view.kind === 'conversions' ? readoutArea(variants, DENSITY_POINTS, g) : metricReadoutArea(variants, g);
     await place.find({
       sheet: selection.sheet,
       table: selection.localAddress,
@@ -122,22 +171,110 @@ export function readoutSection(context: PanelContext): HTMLElement {
     });
   };
 
+  /** The columns in use: the conversions mapping's visitors and conversions when the primary is conversions. */
+  const currentColumns = (): Record<MetricRole, number | null> => {
+    const columns = { ...view.columns };
+    if (view.kind === 'conversions' && view.mapping !== null) {
+      columns.visitors = view.mapping.visitorsColumn;
+      columns.conversions = view.mapping.conversionsColumn;
+    }
+    return columns;
+  };
+  const tableShape = (): { hasHeader: boolean; namesColumn: number | null } =>
+    view.mapping ?? { hasHeader: view.metrics?.hasHeader ?? false, namesColumn: view.metrics?.namesColumn ?? null };
+  /** The guardrails' metrics checked on the table (the primary's too unless it is conversions). */
+  const checkedMetrics = () => {
+    const selection = view.selection;
+    if (selection === null) return null;
+    const kinds = [...(view.kind === 'conversions' ? [] : [view.kind]), ...view.guardrails.map((g) => g.kind)];
+    if (kinds.length === 0) return null;
+    return checkMetrics(selection.values, { ...tableShape(), columns: currentColumns() }, kinds);
+  };
+  const placeKey = (variants: number): string => `${view.kind}:${variants}:${view.guardrails.length}`;
+
+  const renderMetricCheck = (): void => {
+    const selection = view.selection;
+    if (selection === null) return;
+    const checked = checkedMetrics();
+    orderSdArea.replaceChildren();
+    if (checked === null) return;
+    if (!checked.ok) {
+      tableInfo.replaceChildren(
+        el('p', { class: 'error-text', id: 'readout-problems' }, `The table has problems: ${checked.problems.join('; ')}.`),
+      );
+      showMessage(splitArea, 'info', null);
+      setBusy(insertButton, true);
+      place.reset();
+      view.placedFor = '';
+      return;
+    }
+    const values = checked.values;
+    const list = el('ul', { id: 'readout-variants' });
+    checked.names.forEach((name, i) => {
+      const v = (role: MetricRole): string => formatCount(values[role]?.[i] ?? NaN, context.locale);
+      const words =
+        view.kind === 'revenue'
+          ? `${v('conversions')} orders of ${v('visitors')} visitors, revenue ${shortNumber(values.revenue?.[i] ?? NaN)}`
+          : view.kind === 'averages'
+            ? `count ${v('count')}, mean ${shortNumber(values.mean?.[i] ?? NaN)}, sd ${shortNumber(values.sd?.[i] ?? NaN)}`
+            : `${v('events')} events over exposure ${shortNumber(values.exposure?.[i] ?? NaN)}`;
+      list.append(el('li', {}, `${variantLabel(name, i)}: ${words}`));
+    });
+    tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
+    const counted = view.kind === 'revenue' ? values.visitors : view.kind === 'averages' ? values.count : undefined;
+    if (counted === undefined) {
+      showMessage(splitArea, 'info', 'Split check: exposure is not a count of visitors; check the split on the visitors table.');
+    } else {
+      const p = srmPValue(counted);
+      showMessage(
+        splitArea,
+        p < SRM_ALARM ? 'error' : 'info',
+        p < SRM_ALARM
+          ? `Split check: SRM p-value ${p.toExponential(2)} is below 0.001 — the split looks broken. Find out why before trusting any read-out.`
+          : `Split check: SRM p-value ${p.toPrecision(3)} (equal shares planned); no sign of a broken split.`,
+      );
+    }
+    if (values.orderSd !== undefined && values.conversions !== undefined && values.revenue !== undefined) {
+      const warnings = orderSdWarnings(checked.names, values.conversions, values.revenue, values.orderSd);
+      if (warnings.length > 0) {
+        showMessage(
+          orderSdArea,
+          'warning',
+          `Order sd far above the average order value (${warnings.join('; ')}): a few very large orders carry the revenue, so revenue per visitor is uncertain and moves with them. Check those orders (wholesale buyers, refunds, test orders) and read conversions and order value on their own too.`,
+        );
+      }
+    }
+    if (checked.names.length > 4) {
+      tableInfo.append(el('p', { class: 'hint' }, 'Many variants: the best-looking one is often lucky. See the cautions.'));
+    }
+    setBusy(insertButton, false);
+    if (view.placedFor !== placeKey(checked.names.length)) void findPlaces(checked.names.length);
+  };
+
   const renderCheck = (): void => {
     const selection = view.selection;
     const mapping = view.mapping;
+    if (view.kind !== 'conversions') {
+      renderMetricCheck();
+      return;
+    }
+    orderSdArea.replaceChildren();
     if (selection === null || mapping === null) return;
     const checked = checkTable(selection.values, mapping);
-    if (!checked.ok) {
+    const guard = checkedMetrics();
+    if (!checked.ok || (guard !== null && !guard.ok)) {
+      const problems = [...(checked.ok ? [] : checked.problems), ...(guard !== null && !guard.ok ? guard.problems : [])];
       tableInfo.replaceChildren(
         el(
           'p',
           { class: 'error-text', id: 'readout-problems' },
-          `The table has problems: ${checked.problems.join('; ')}.`,
+          `The table has problems: ${problems.join('; ')}.`,
         ),
       );
       showMessage(splitArea, 'info', null);
       setBusy(insertButton, true);
       place.reset();
+      view.placedFor = '';
       return;
     }
     const list = el('ul', { id: 'readout-variants' });
@@ -159,7 +296,140 @@ export function readoutSection(context: PanelContext): HTMLElement {
       );
     }
     setBusy(insertButton, !view.confirmed);
-    if (view.placedFor !== checked.names.length) void findPlaces(checked.names.length);
+    if (view.placedFor !== placeKey(checked.names.length)) void findPlaces(checked.names.length);
+  };
+
+  /** Options naming each column of the selection. */
+  const columnOptions = (): [string, string][] => {
+    const selection = view.selection;
+    if (selection === null) return [];
+    const start = parseAddress(selection.localAddress).start;
+    const header = selection.values[0] ?? [];
+    const width = Math.max(...selection.values.slice(0, 2).map((row) => row.length));
+    return Array.from({ length: width }, (_, c) => [String(c), columnName(start.column, c, header[c], tableShape().hasHeader)]);
+  };
+
+  const renderKind = (): void => {
+    const metric = select(
+      'readout-metric',
+      'Metric',
+      METRIC_KINDS.map((kind) => [kind, KIND_NAMES[kind]]),
+      view.kind,
+    );
+    metric.input.addEventListener('change', () => {
+      view.kind = metric.input.value as MetricKind;
+      view.guardrails = view.guardrails.filter((g) => g.kind !== view.kind);
+      renderAll();
+    });
+    // The Beta prior belongs to the conversion functions; the other families use their reference priors.
+    for (const part of [alpha.element, beta.element, priorButton]) part.hidden = view.kind !== 'conversions';
+    const proposed = view.metrics?.proposed;
+    kindArea.replaceChildren(
+      metric.element,
+      el(
+        'p',
+        { class: 'hint', id: 'readout-kind-hint' },
+        proposed === null || proposed === undefined
+          ? 'Choose the metric; the headings did not say which columns it uses.'
+          : `Proposed from the headings: ${KIND_NAMES[proposed].toLowerCase()}. The columns it uses are below.`,
+      ),
+    );
+  };
+
+  /** Column choices for the primary metric (unless conversions, set above) and the guardrails' metrics. */
+  const renderColumns = (): void => {
+    columnsArea.replaceChildren();
+    const roles: [MetricRole, MetricKind][] = [];
+    const kinds = [view.kind, ...view.guardrails.map((g) => g.kind)];
+    for (const kind of kinds) {
+      for (const role of [...KIND_ROLES[kind].required, ...KIND_ROLES[kind].optional]) {
+        if (view.kind === 'conversions' && (role === 'visitors' || role === 'conversions')) continue;
+        if (!roles.some(([r]) => r === role)) roles.push([role, kind]);
+      }
+    }
+    if (roles.length === 0) return;
+    const options = columnOptions();
+    columnsArea.append(el('p', { class: 'hint' }, `Columns of ${kinds.map((k) => KIND_SHORT[k]).filter((k, i, a) => a.indexOf(k) === i).join(' and ')}:`));
+    for (const [role, kind] of roles) {
+      const column = view.columns[role];
+      const choice = select(`readout-column-${role}`, roleName(role, kind), [['none', 'not in the table'], ...options], column === null ? 'none' : String(column));
+      choice.input.addEventListener('change', () => {
+        view.columns[role] = choice.input.value === 'none' ? null : Number(choice.input.value);
+        renderCheck();
+      });
+      columnsArea.append(choice.element);
+    }
+  };
+
+  const renderGuardrails = (): void => {
+    guardrailArea.replaceChildren(
+      el('h3', {}, 'Guardrails'),
+      el(
+        'p',
+        { class: 'hint' },
+        'A guardrail is another metric of the same variants that a winner must not harm (e.g. revenue per visitor no worse than −2%). Its probabilities go beside the results, and the decision says when the chosen variant fails one.',
+      ),
+    );
+    const others = METRIC_KINDS.filter((kind) => kind !== view.kind);
+    view.guardrails.forEach((g, j) => {
+      const n = j + 1;
+      const kind = select(`readout-guardrail-${n}-kind`, `Guardrail ${n}: metric`, others.map((k) => [k, KIND_NAMES[k]]), g.kind);
+      const direction = select(
+        `readout-guardrail-${n}-direction`,
+        'Must be',
+        [
+          ['noWorse', 'no worse than (higher is better)'],
+          ['noHigher', 'no higher than (lower is better)'],
+        ],
+        g.direction,
+      );
+      const limit = textField(`readout-guardrail-${n}-limit`, 'Lift limit', g.limit, { unit: '%', hint: 'relative to the control: −2 allows at most a 2% drop' });
+      const required = textField(`readout-guardrail-${n}-required`, 'With probability at least', g.required, { unit: '%' });
+      const remove = button(`readout-guardrail-${n}-remove`, `Remove guardrail ${n}`, 'subtle');
+      kind.input.addEventListener('change', () => {
+        g.kind = kind.input.value as MetricKind;
+        renderAll();
+      });
+      direction.input.addEventListener('change', () => {
+        g.direction = direction.input.value as GuardrailDirection;
+        if (g.direction === 'noHigher' && g.limit.trim().startsWith('-')) limit.set(g.limit.trim().slice(1));
+      });
+      for (const [field, key] of [[limit, 'limit'], [required, 'required']] as const) {
+        field.element.addEventListener('input', () => {
+          g[key] = field.text();
+        });
+        field.element.addEventListener('change', () => {
+          g[key] = field.text();
+        });
+      }
+      remove.addEventListener('click', () => {
+        view.guardrails.splice(j, 1);
+        renderAll();
+      });
+      guardrailArea.append(
+        el('div', { class: 'group', id: `readout-guardrail-${n}` }, kind.element, direction.element, limit.element, required.element, el('div', { class: 'actions' }, remove)),
+      );
+    });
+    if (view.guardrails.length < MAX_GUARDRAILS) {
+      const add = button('readout-add-guardrail', 'Add a guardrail');
+      add.addEventListener('click', () => {
+        const available = view.metrics?.available ?? [];
+        const used = new Set(view.guardrails.map((g) => g.kind));
+        const kind = others.find((k) => available.includes(k) && !used.has(k)) ?? others.find((k) => !used.has(k)) ?? (others[0] as MetricKind);
+        view.guardrails.push({ kind, direction: 'noWorse', limit: '-2', required: '95' });
+        renderAll();
+      });
+      guardrailArea.append(el('div', { class: 'actions' }, add));
+    }
+  };
+
+  const renderAll = (): void => {
+    renderKind();
+    if (view.kind === 'conversions' && view.mapping !== null) renderMapping([], 0);
+    else mappingArea.replaceChildren();
+    renderColumns();
+    renderGuardrails();
+    renderCheck();
   };
 
   const renderMapping = (flags: readonly CellFlag[], flagCount: number): void => {
@@ -266,24 +536,47 @@ export function readoutSection(context: PanelContext): HTMLElement {
           } as const)
         : detectTable(selection.values);
       view.selection = selection;
-      view.placedFor = 0;
-      if (!detection.ok) {
+      view.placedFor = '';
+      const metrics = selection.truncated ? null : detectMetrics(selection.values, detection.ok ? detection.mapping : null);
+      view.metrics = metrics;
+      view.columns = { ...(metrics?.columns ?? {}) } as Record<MetricRole, number | null>;
+      if (!detection.ok && (metrics === null || metrics.proposed === null)) {
         view.mapping = null;
+        kindArea.replaceChildren();
         mappingArea.replaceChildren();
+        columnsArea.replaceChildren();
+        guardrailArea.replaceChildren();
+        orderSdArea.replaceChildren();
         showMessage(splitArea, 'info', null);
         place.reset();
         tableInfo.replaceChildren(
-          el('p', { class: 'error-text', id: 'readout-problems' }, `${selection.address}: ${detection.problem}.`),
+          el('p', { class: 'error-text', id: 'readout-problems' }, `${selection.address}: ${detection.ok ? '' : detection.problem}.`),
         );
         setBusy(insertButton, true);
         return;
       }
-      view.mapping = detection.mapping;
-      view.basis = detection.basis;
-      view.confirmed = detection.basis === 'headings';
-      renderMapping(detection.flags, detection.flagCount);
+      view.kind = metrics?.proposed ?? 'conversions';
+      // Guardrails belong to a table: a new table starts without them.
+      view.guardrails = [];
+      tableInfo.replaceChildren();
+      renderKind();
+      if (detection.ok) {
+        view.mapping = detection.mapping;
+        view.basis = detection.basis;
+        view.confirmed = detection.basis === 'headings';
+        if (view.kind === 'conversions') renderMapping(detection.flags, detection.flagCount);
+        else mappingArea.replaceChildren();
+      } else {
+        view.mapping = null;
+        view.confirmed = true;
+        mappingArea.replaceChildren();
+      }
+      renderColumns();
+      renderGuardrails();
       renderCheck();
-      tableInfo.append(el('p', { class: 'hint' }, `Detected: ${detection.note}.`));
+      tableInfo.append(
+        el('p', { class: 'hint' }, detection.ok && view.kind === 'conversions' ? `Detected: ${detection.note}.` : 'Detected: columns chosen by their headings; check them below.'),
+      );
     } catch (error) {
       tableInfo.replaceChildren(
         el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`),
@@ -293,48 +586,95 @@ export function readoutSection(context: PanelContext): HTMLElement {
     }
   };
 
+  /** The guardrails as typed, read and checked; a message for the first bad field. */
+  const readGuardrails = (): { ok: true; guardrails: Guardrail[] } | { ok: false; message: string } => {
+    const out: Guardrail[] = [];
+    for (const [j, g] of view.guardrails.entries()) {
+      const limit = readPercent(g.limit, GUARDRAIL_LIMIT_RULE, context.locale);
+      if (!limit.ok) return { ok: false, message: `Guardrail ${j + 1}: ${limit.message}` };
+      const required = readPercent(g.required, GUARDRAIL_PROBABILITY_RULE, context.locale);
+      if (!required.ok) return { ok: false, message: `Guardrail ${j + 1}: ${required.message}` };
+      out.push({ kind: g.kind, direction: g.direction, limit: limit.value, required: required.value });
+    }
+    return { ok: true, guardrails: out };
+  };
+
   const insert = async (): Promise<void> => {
     const selection = view.selection;
     const mapping = view.mapping;
-    if (selection === null || mapping === null || !view.confirmed || view.inserting) return;
-    const checked = checkTable(selection.values, mapping);
-    if (!checked.ok) return;
+    const conversions = view.kind === 'conversions';
+    // A guessed conversions mapping must be confirmed; the other kinds show every column they use.
+    if (selection === null || (conversions && !view.confirmed) || view.inserting) return;
+    if (conversions && mapping === null) return;
+    const checked = conversions && mapping !== null ? checkTable(selection.values, mapping) : null;
+    if (checked !== null && !checked.ok) return;
+    const metrics = checkedMetrics();
+    if (metrics !== null && !metrics.ok) return;
+    const k = checked?.names.length ?? (metrics?.ok ? metrics.names.length : 0);
+    const firstRow = checked?.firstRow ?? (metrics?.ok ? metrics.firstRow : 0);
     const levelReading = readPercent(level.text(), CREDIBLE_LEVEL_RULE, context.locale);
     const lv = levelReading.ok ? levelReading.value : Number.NaN;
     const a = parseNumber(alpha.text(), context.locale);
     const b = parseNumber(beta.text(), context.locale);
-    if (!levelReading.ok || !(a > 0) || !(b > 0)) {
+    if (!levelReading.ok || (conversions && (!(a > 0) || !(b > 0)))) {
       showMessage(status, 'error', levelReading.ok ? 'Prior alpha and beta must be above 0.' : levelReading.message);
       return;
     }
+    const guardReading = readGuardrails();
+    if (!guardReading.ok) {
+      showMessage(status, 'error', guardReading.message);
+      return;
+    }
+    const guardrails = guardReading.guardrails;
     setBusy(insertButton, true);
     view.inserting = true;
     try {
       const start = parseAddress(selection.localAddress).start;
-      const k = checked.names.length;
-      const column = (c: number): string =>
-        rangeAddress({ row: start.row + checked.firstRow, column: start.column + c }, k, 1);
-      const build = (target: { sheet: string; topLeft: string; newSheet: boolean }) =>
+      const column = (c: number): string => rangeAddress({ row: start.row + firstRow, column: start.column + c }, k, 1);
+      const columns = currentColumns();
+      const refs: Partial<Record<MetricRole, string>> = {};
+      for (const kind of [view.kind, ...guardrails.map((g) => g.kind)]) {
+        for (const role of [...KIND_ROLES[kind].required, ...KIND_ROLES[kind].optional]) {
+          const c = columns[role];
+          if (c !== null) refs[role] = column(c);
+        }
+      }
+      const shape = tableShape();
+      const namesRef = shape.namesColumn === null ? null : column(shape.namesColumn);
+      const buildConversions = (target: { sheet: string; topLeft: string }) =>
         readoutBlock(
           {
             sheet: selection.sheet,
-            namesRef: mapping.namesColumn === null ? null : column(mapping.namesColumn),
-            visitorsRef: column(mapping.visitorsColumn),
-            conversionsRef: column(mapping.conversionsColumn),
-            sharesRef: mapping.sharesColumn === null ? null : column(mapping.sharesColumn),
+            namesRef,
+            visitorsRef: column((mapping as TableMapping).visitorsColumn),
+            conversionsRef: column((mapping as TableMapping).conversionsColumn),
+            sharesRef: mapping === null || mapping.sharesColumn === null ? null : column(mapping.sharesColumn),
             variants: k,
+            refs,
           },
           {
             level: lv,
             prior: { alpha: a, beta: b },
             densityPoints: DENSITY_POINTS,
-            currentSrmPValue: srmPValue(checked.visitors, checked.shares ?? undefined),
+            currentSrmPValue:
+              checked !== null && checked.ok ? srmPValue(checked.visitors, checked.shares ?? undefined) : 1,
           },
+          target.topLeft,
+          target.sheet,
+          guardrails,
+        );
+      const counted = metrics?.ok ? (view.kind === 'revenue' ? metrics.values.visitors : metrics.values.count) : undefined;
+      const buildMetric = (target: { sheet: string; topLeft: string }) =>
+        metricReadoutBlock(
+          view.kind,
+          { sheet: selection.sheet, namesRef, refs, variants: k },
+          { level: lv, currentSrmPValue: view.kind === 'counts' || counted === undefined ? null : srmPValue(counted) },
+          guardrails,
           target.topLeft,
           target.sheet,
         );
       const written = await place.write(
-        (target) => ({ ...build(target).block, newSheet: target.newSheet }),
+        (target) => ({ ...(conversions ? buildConversions(target) : buildMetric(target)).block, newSheet: target.newSheet }),
         'the read-out',
         status,
       );
@@ -345,7 +685,19 @@ export function readoutSection(context: PanelContext): HTMLElement {
         showMessage(status, intent, text);
         return;
       }
-      const built = build(target);
+      const guarded = (cells: Readonly<Record<string, string>>): string =>
+        cells.guardedDecision === undefined ? '' : ` With guardrails: ${cells.guardedDecision}.`;
+      if (!conversions) {
+        const built = buildMetric(target);
+        showMessage(
+          status,
+          'success',
+          `Wrote the ${KIND_SHORT[view.kind]} read-out to ${outcome.address} (live formulas). The decision is in ${built.cells.decision}.${guarded(built.cells)}`,
+        );
+        await findPlaces(k);
+        return;
+      }
+      const built = buildConversions(target);
       const chart = await context.workbook.insertChart({
         sheet: target.sheet,
         sourceAddress: built.chartSource,
@@ -358,7 +710,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
         status,
         chart.kind === 'inserted' ? 'success' : 'warning',
         chart.kind === 'inserted'
-          ? `Wrote the read-out to ${outcome.address} (live formulas) and a lift chart from ${built.chartSource}. The decision is in ${built.cells.decision}.`
+          ? `Wrote the read-out to ${outcome.address} (live formulas) and a lift chart from ${built.chartSource}. The decision is in ${built.cells.decision}.${guarded(built.cells)}`
           : `Wrote the read-out to ${outcome.address}, but ${chart.message}. The density table in ${built.chartSource} can be charted by hand.`,
       );
       // The place just used is taken now: look again for the next read-out.
@@ -367,10 +719,12 @@ export function readoutSection(context: PanelContext): HTMLElement {
       showMessage(status, 'error', `Could not insert the read-out: ${(error as Error).message}`);
     } finally {
       view.inserting = false;
-      setBusy(
-        insertButton,
-        !(view.confirmed && view.mapping !== null && checkTable(selection.values, view.mapping).ok),
-      );
+      const guard = checkedMetrics();
+      const ready =
+        (view.confirmed || view.kind !== 'conversions') &&
+        (guard === null || guard.ok) &&
+        (view.kind !== 'conversions' || (view.mapping !== null && checkTable(selection.values, view.mapping).ok));
+      setBusy(insertButton, !ready);
     }
   };
 

@@ -558,6 +558,139 @@ describe('counts per exposure (Gamma posteriors) against scipy', () => {
   });
 });
 
+// The functions of issue #13, against their references: test/reference/lift_above_reference.py (scipy quad
+// and betaincc) and test/reference/revenue_reference.py (nested scipy quadrature of R = p × v).
+const liftAbove = readJson<{
+  means: { name: string; variants: { count: number; mean: number; sd: number }[]; minLifts: number[]; above: number[][] }[];
+  events: { name: string; variants: { events: number; exposure: number }[]; minLifts: number[]; aboveClosedForm: number[][] }[];
+}>('lift_above_values.json');
+interface RevenueCase {
+  name: string;
+  variants: { orders: number; visitors: number; revenue: number; orderSd?: number }[];
+  intervals: number[][];
+  probHighest: number[];
+  probAboveControl: number[];
+  expectedLoss?: number[];
+  liftAbove?: { minLift: number; above: number }[];
+  liftInterval?: number[];
+}
+const revenueRef = readJson<{ cases: RevenueCase[] }>('revenue_values.json');
+const revenueCase = (name: string): RevenueCase => {
+  const found = revenueRef.cases.find((c) => c.name === name);
+  if (found === undefined) throw new Error(`no revenue reference case ${name}`);
+  return found;
+};
+
+describe('P(lift > min_lift) and the decision for averages and counts', () => {
+  test('MEAN_PROB_LIFT_ABOVE against scipy quadrature of the ratio', () => {
+    const c = liftAbove.means.find((x) => x.name === 'means_large');
+    if (c === undefined) throw new Error('no means_large case');
+    c.minLifts.forEach((m, row) => {
+      const out = F.meanProbLiftAbove(col(c.variants.map((v) => v.count)), col(c.variants.map((v) => v.mean)), col(c.variants.map((v) => v.sd)), m);
+      expectSpill(out, vsControl(c.above[row] as number[]), 1e-9);
+    });
+  });
+
+  test('EVENTS_PROB_LIFT_ABOVE against the closed form (scipy betaincc)', () => {
+    const c = liftAbove.events.find((x) => x.name === 'events_typical');
+    if (c === undefined) throw new Error('no events_typical case');
+    c.minLifts.forEach((m, row) => {
+      const out = F.eventsProbLiftAbove(col(c.variants.map((v) => v.events)), col(c.variants.map((v) => v.exposure)), m);
+      expectSpill(out, vsControl(c.aboveClosedForm[row] as number[]), 1e-9);
+    });
+  });
+
+  test('MEAN_DECISION and EVENTS_DECISION: the rule of DECISION, the loss in the metric\'s units', () => {
+    expect(F.meanDecision(col([1200, 1180]), col([3.1, 3.42]), col([9.8, 10.4]), 0.1, col(['Old page', 'New page']))).toBe(
+      "Choose New page: its expected loss 0.052 in the metric's units is within the 0.10 in the metric's units allowed",
+    );
+    expect(F.eventsDecision(row([340, 395]), row([1000, 1010]), 0.0001)).toBe(
+      'Keep collecting data: B leads, but its expected loss 0.00030 events per unit of exposure is above the 0.00010 events per unit of exposure allowed',
+    );
+    expect(sheetError(() => F.meanDecision(col([20, 20]), col([0, 0.5]), col([1, 1])))).toEqual({
+      code: '#N/A',
+      message: "max_loss: the default, 1% of the control's mean, is 0 because that mean is 0; give max_loss in the metric's units",
+    });
+    expect(sheetError(() => F.eventsDecision(col([3, 4]), col([10, 10]), -1))).toEqual({
+      code: '#VALUE!',
+      message: 'max_loss: -1 is not allowed; enter a number at least 0',
+    });
+  });
+});
+
+describe('revenue per visitor from totals against nested scipy quadrature', () => {
+  const args = (c: RevenueCase, withSd: boolean) =>
+    [
+      col(c.variants.map((v) => v.orders)),
+      col(c.variants.map((v) => v.visitors)),
+      col(c.variants.map((v) => v.revenue)),
+      withSd ? col(c.variants.map((v) => v.orderSd)) : undefined,
+    ] as const;
+
+  test.each([
+    ['exponential order values', 'exp_typical', false],
+    ['order_sd given (t)', 't_typical', true],
+  ] as const)('%s: every function of the family', (_label, name, withSd) => {
+    const c = revenueCase(name);
+    const [orders, visitors, revenue, orderSd] = args(c, withSd);
+    expectSpill(F.revenueInterval(orders, visitors, revenue, orderSd), c.intervals, 1e-9);
+    expectSpill(F.revenueProbHighest(orders, visitors, revenue, orderSd), col(c.probHighest) as number[][], 1e-9);
+    expectSpill(F.revenueProbAboveControl(orders, visitors, revenue, orderSd), vsControl(c.probAboveControl), 1e-9);
+    expectSpill(F.revenueExpectedLoss(orders, visitors, revenue, orderSd), col(c.expectedLoss as number[]) as number[][], 1e-9);
+    const lift = c.liftInterval as number[];
+    expectSpill(F.revenueLiftInterval(orders, visitors, revenue, orderSd), blockVsControl([lift]), 1e-9);
+    for (const l of c.liftAbove as { minLift: number; above: number }[]) {
+      expectSpill(F.revenueProbLiftAbove(orders, visitors, revenue, l.minLift, orderSd), vsControl([l.above]), 1e-9);
+    }
+  });
+
+  test('REVENUE_DECISION: DECISION\'s rule, the loss per visitor without a currency symbol', () => {
+    const c = revenueCase('exp_typical');
+    const [orders, visitors, revenue] = args(c, false);
+    expect(F.revenueDecision(orders, visitors, revenue, undefined, 0.1, col(['Old', 'New']))).toBe(
+      'Choose New: its expected loss 0.076 per visitor is within the 0.10 per visitor allowed',
+    );
+  });
+
+  test('a row input spills a row; blank positions give "" slots', () => {
+    const out = F.revenueProbHighest(row([120, '', 150]), row([2400, null, 2380]), row([7200, ' ', 8100]));
+    const [a, b] = revenueCase('exp_typical').probHighest as [number, number];
+    expectSpill(out, [[a, '', b]], 1e-9);
+  });
+
+  test('errors reach the cell with code and message', () => {
+    expect(sheetError(() => F.revenueInterval(col([130]), col([120]), col([10])))).toEqual({
+      code: '#VALUE!',
+      message: 'orders, item 1: 130 is more than the 120 visitors',
+    });
+    expect(sheetError(() => F.revenueProbAboveControl(col([120, 0]), col([2400, 300]), col([7200, 0])))).toEqual({
+      code: '#N/A',
+      message:
+        "orders, item 2: no orders yet, so nothing is known about this variant's order value and its revenue per " +
+        'visitor has no posterior; wait for its first order',
+    });
+    expect(sheetError(() => F.revenueProbAboveControl(col([120, 3]), col([2400, 300]), col([7200, 0])))).toEqual({
+      code: '#N/A',
+      message:
+        'revenue, item 2: 0 from 3 orders; with exponential order values a total of 0 has no posterior; give ' +
+        'order_sd (the t model) if orders can be free',
+    });
+    expect(sheetError(() => F.revenueProbAboveControl(col([120, 150]), col([2400, 2380]), col([7200, 8100]), col([55, ''])))).toEqual({
+      code: '#VALUE!',
+      message: 'order_sd, item 2: is blank; enter a number at least 0',
+    });
+    expect(sheetError(() => F.revenueExpectedLoss(col([1, 3]), col([50, 55]), col([40, 150])))).toEqual({
+      code: '#N/A',
+      message:
+        "orders, item 1: with 1 order the exponential model's average order value has no finite mean, so every " +
+        'expected loss is infinite; wait for a second order (or give order_sd once there are 3)',
+    });
+    const whale = sheetError(() => F.revenueLiftInterval(col([400, 420]), col([20000, 20000]), col([20000, 22000]), col([1000, 1100])));
+    expect(whale.code).toBe('#N/A');
+    expect(whale.message).toMatch(/^order_sd, item 1: the control's average order value could plausibly be zero or negative \(/);
+  });
+});
+
 describe('no NaN, no Infinity, no raw errors', () => {
   test('extreme but valid inputs give finite cells or a worksheet error', () => {
     const calls: (() => unknown)[] = [

@@ -31,19 +31,32 @@ import {
   meanExpectedLoss,
   meanInterval,
   meanLiftInterval,
+  meanDecide,
   meanProbAboveControl,
   meanProbHighest,
+  meanProbLiftAbove,
 } from '../../functions/stats/normalMeans';
 import {
+  eventsDecide,
   eventsExpectedLoss,
   eventsLiftInterval,
   eventsProbAboveControl,
   eventsProbHighest,
+  eventsProbLiftAbove,
   eventsRateInterval,
 } from '../../functions/stats/eventRates';
+import {
+  revenueDecide,
+  revenueExpectedLoss,
+  revenueInterval,
+  revenueLiftInterval,
+  revenueProbAboveControl,
+  revenueProbHighest,
+  revenueProbLiftAbove,
+} from '../../functions/stats/revenuePerVisitor';
 import { CATALOGUE_LIST } from '../../functions/catalogue';
 import { SHIPPED_0_1_0 } from '../helpers/shipped';
-import { decisionText } from '../../functions/sheet/decision';
+import { amountDecisionCell, decisionText } from '../../functions/sheet/decision';
 import { FLAT_GAMMA_PRIOR, UNIFORM_PRIOR, type BetaPrior, type ConversionCounts } from '../../functions/stats/types';
 import { buildDemoWorkbook, columnLetters, parseA1 } from '../../preview/src/demoWorkbook';
 import { PreviewWorkbook } from '../../preview/src/previewWorkbook';
@@ -114,6 +127,14 @@ describe('preview demo workbook with the built add-in', () => {
     return { conversions: rows.map((r) => r[0] as number), visitors: rows.map((r) => r[1] as number) };
   };
   const planInputs = () => read('Plan', 'B4', 5, 1).map((r) => r[0] as number);
+  // The revenue totals (orders, visitors, revenue, order sd) of the revenue-from-totals block.
+  const totals = (withSd: boolean) =>
+    read('Checkout test', 'B103', 3, 4).map((r) => ({
+      orders: r[0] as number,
+      visitors: r[1] as number,
+      revenue: r[2] as number,
+      ...(withSd ? { orderSd: r[3] as number } : {}),
+    }));
 
   /** Expected contents of every ABTEST formula cell, keyed by "Sheet!A1" of the formula. */
   const expectations = (): Record<string, () => { rows: number; columns: number; cells: Cell[][]; tol?: number }> => {
@@ -152,6 +173,30 @@ describe('preview demo workbook with the built add-in', () => {
       'Checkout test!B90': block(versusControl(column(eventsProbAboveControl(eventsOf(), FLAT_GAMMA_PRIOR)), 1)),
       'Checkout test!B94': block(versusControl(lmu(eventsLiftInterval(eventsOf(), 0.95, FLAT_GAMMA_PRIOR)), 3)),
       'Checkout test!B98': block(column(eventsExpectedLoss(eventsOf(), FLAT_GAMMA_PRIOR))),
+      'Checkout test!B108': lazy(() => lu(revenueInterval(totals(false), 0.95))),
+      'Checkout test!B112': lazy(() => column(revenueProbHighest(totals(false)))),
+      'Checkout test!B116': lazy(() => versusControl(column(revenueProbAboveControl(totals(true))), 1)),
+      'Checkout test!B120': lazy(() => versusControl(lmu(revenueLiftInterval(totals(true), 0.95)), 3)),
+      'Checkout test!B124': lazy(() => versusControl(column(revenueProbLiftAbove(totals(true), -0.02)), 1)),
+      'Checkout test!B128': lazy(() => column(revenueExpectedLoss(totals(true)))),
+      'Checkout test!B131': lazy(() => [
+        [amountDecisionCell({ positions: [0, 1, 2] }, labels, revenueDecide(totals(true), undefined), 'per visitor')],
+      ]),
+      'Checkout test!B134': lazy(() => versusControl(column(meanProbLiftAbove(means(), -0.02)), 1)),
+      'Checkout test!B137': lazy(() => [
+        [amountDecisionCell({ positions: [0, 1, 2] }, labels, meanDecide(means(), undefined), "in the metric's units")],
+      ]),
+      'Checkout test!B140': lazy(() => versusControl(column(eventsProbLiftAbove(eventsOf(), 0.05, FLAT_GAMMA_PRIOR)), 1)),
+      'Checkout test!B143': lazy(() => [
+        [
+          amountDecisionCell(
+            { positions: [0, 1, 2] },
+            labels,
+            eventsDecide(eventsOf(), undefined, FLAT_GAMMA_PRIOR),
+            'events per unit of exposure',
+          ),
+        ],
+      ]),
       'Checkout test!K11': block(densityTable(posteriorDensityTable(variants, 41, UNIFORM_PRIOR))),
       'Checkout test!K55': block(densityTable(liftDensityTable(variants, 41, UNIFORM_PRIOR))),
       'Past tests!B17': block([[historyPrior.alpha, historyPrior.beta]]),

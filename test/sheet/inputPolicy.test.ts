@@ -34,7 +34,9 @@ import {
   percentHint,
   variantLetter,
 } from '../../functions/sheet';
-import { decisionText, defaultLabel, formatPercent, labelOf } from '../../functions/sheet/decision';
+import { amountDecisionCell, decisionText, defaultLabel, formatAmount, formatPercent, labelOf } from '../../functions/sheet/decision';
+import { readArgs } from '../../functions/sheet/args';
+import { CATALOGUE } from '../../functions/catalogue';
 import { thrownWorksheetError } from '../helpers/assertions';
 
 /** Runs `body` through the one error mapping and returns the worksheet error it produced. */
@@ -303,6 +305,34 @@ describe('other families', () => {
     );
   });
 
+  test('revenue: orders ≤ visitors, revenue ≥ 0; order_sd lines up with the variants (each given, 0 or more)', () => {
+    const fn = CATALOGUE.REVENUE_PROB_ABOVE_CONTROL;
+    const read = (orders: unknown, visitors: unknown, revenue: unknown, order_sd?: unknown) =>
+      readArgs(fn, { orders, visitors, revenue, order_sd });
+    const input = read(col(120, '', 150), col(2400, '', 2380), col(7200, '', 8100), col(55, '', 60));
+    expect(input.variants).toEqual([
+      { orders: 120, visitors: 2400, revenue: 7200 },
+      { orders: 150, visitors: 2380, revenue: 8100 },
+    ]);
+    expect(input.order_sd).toEqual([55, 60]);
+    expect(read(col(120, 150), col(2400, 2380), col(7200, 8100)).order_sd).toBeUndefined();
+    expect(sheetError(() => read(col(120, 150), col(2400, 140), col(7200, 8100))).message).toBe(
+      'orders, item 2: 150 is more than the 140 visitors',
+    );
+    expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, -1))).message).toBe(
+      'revenue, item 2: -1 is not allowed; enter a number at least 0',
+    );
+    expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), col(55, ''))).message).toBe(
+      'order_sd, item 2: is blank; enter a number at least 0',
+    );
+    expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), row(55, 60))).message).toBe(
+      'order_sd must have the same shape as orders: order_sd is 1 row × 2 columns, orders is 2 rows × 1 column',
+    );
+    expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), col(55, -2))).message).toBe(
+      'order_sd, item 2: -2 is not allowed; enter a number at least 0',
+    );
+  });
+
   test('split: planned shares line up with visitors; blank visitor positions are skipped', () => {
     const split = readSplit(col(500, '', 520), col(1, 7, 1), COMPARISON);
     expect(split.visitors).toEqual([500, 520]);
@@ -404,6 +434,21 @@ describe('decision text', () => {
     expect(labelOf('  Green button ', 1)).toBe('Green button');
     expect(labelOf(2024, 1)).toBe('2024');
     expect(labelOf('', 2)).toBe('C');
+  });
+
+  test('amounts (other metrics) keep two significant digits and at least two decimals, with no currency', () => {
+    expect(formatAmount(0.0042)).toBe('0.0042');
+    expect(formatAmount(0.030479)).toBe('0.030');
+    expect(formatAmount(12.3456)).toBe('12.35');
+    expect(formatAmount(0)).toBe('0');
+    // labels come lined up with the variants (a blank position already left out)
+    const table = { positions: [0, 2] };
+    expect(amountDecisionCell(table, ['Old', 'New'], { choose: true, index: 1, loss: 0.0042, maxLoss: 0.021 }, 'per visitor')).toBe(
+      'Choose New: its expected loss 0.0042 per visitor is within the 0.021 per visitor allowed',
+    );
+    expect(amountDecisionCell(table, undefined, { choose: false, index: 1, loss: 0.02, maxLoss: 0.0012 }, 'events per unit of exposure')).toBe(
+      'Keep collecting data: C leads, but its expected loss 0.020 events per unit of exposure is above the 0.0012 events per unit of exposure allowed',
+    );
   });
 
   test('choose and keep-collecting wording', () => {

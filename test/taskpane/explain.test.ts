@@ -17,6 +17,9 @@ import {
   splitArguments,
   type Explanation,
 } from '../../taskpane/logic/explain';
+import { eventsProbLiftAbove } from '../../functions/stats/eventRates';
+import { meanProbLiftAbove } from '../../functions/stats/normalMeans';
+import { revenueInterval, revenueLiftInterval, revenueProbAboveControl, revenueProbLiftAbove } from '../../functions/stats/revenuePerVisitor';
 import reference from '../reference/taskpane_crosscheck.json';
 import highest from '../reference/explain_highest.json';
 
@@ -302,5 +305,74 @@ describe('the method, readable', () => {
     );
     expect(explained('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4)').plainMethod).toMatch(/^In words: how much you give up on average/);
     expect(explained('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)').plainMethod).toBeNull();
+  });
+});
+
+describe('the functions of issue #13: words and cross-checks, evaluated by HyperFormula', () => {
+  // An invented sheet: the checkout test's totals (A1:E3: orders, visitors, revenue, order sd), averages
+  // (G1:I3: count, mean, sd) and events over exposure (K1:L3).
+  const sheet: (string | number)[][] = [
+    [400, 10000, 24000, 35, '', 10000, 2.31, 9.8, '', 380, 5200],
+    [455, 10050, 28100, 38, '', 10050, 2.45, 10.4, '', 431, 5150],
+  ];
+  const hf = HyperFormula.buildFromArray(sheet, { licenseKey: 'gpl-v3', smartRounding: false });
+  afterAll(() => hf.destroy());
+  const evaluate = (formula: string): number => {
+    hf.setCellContents({ sheet: 0, row: 10, col: 0 }, [[formula.replace(/\bTRUE\)/g, 'TRUE())')]]);
+    const value = hf.getCellValue({ sheet: 0, row: 10, col: 0 });
+    if (typeof value !== 'number') throw new Error(`${formula} gave ${JSON.stringify(value)}`);
+    return value;
+  };
+  const checks = (formula: string): number[] => (explained(formula).crossCheck?.formulas ?? []).map(evaluate);
+  const totals = [0, 1].map((i) => ({
+    orders: sheet[i]?.[0] as number,
+    visitors: sheet[i]?.[1] as number,
+    revenue: sheet[i]?.[2] as number,
+    orderSd: sheet[i]?.[3] as number,
+  }));
+  const withoutSd = totals.map(({ orders, visitors, revenue }) => ({ orders, visitors, revenue }));
+
+  test('EVENTS_PROB_LIFT_ABOVE: the BETA.DIST closed form reproduces the core at min_lift −5% and +3%', () => {
+    for (const m of [-0.05, 0.03]) {
+      const [got] = checks(`=ABTEST.EVENTS_PROB_LIFT_ABOVE(J1:J2,K1:K2,${m})`);
+      const [want] = eventsProbLiftAbove([{ events: 380, exposure: 5200 }, { events: 431, exposure: 5150 }], m);
+      // the core is checked against scipy quadrature in test/stats/liftAbove.test.ts
+      expect(Math.abs((got as number) - (want as number))).toBeLessThan(1e-8);
+    }
+  });
+
+  test('MEAN_PROB_LIFT_ABOVE: the normal approximation is within 0.005 of the core at 10,000 per variant', () => {
+    const [got] = checks('=ABTEST.MEAN_PROB_LIFT_ABOVE(F1:F2,G1:G2,H1:H2,-0.02)');
+    const [want] = meanProbLiftAbove([{ count: 10000, mean: 2.31, sd: 9.8 }, { count: 10050, mean: 2.45, sd: 10.4 }], -0.02);
+    expect(Math.abs((got as number) - (want as number))).toBeLessThan(0.005);
+  });
+
+  test('REVENUE_ cross-checks: the log-normal approximation is near the core, with and without order_sd', () => {
+    for (const [args, variants] of [
+      ['A1:A2,B1:B2,C1:C2,D1:D2', totals],
+      ['A1:A2,B1:B2,C1:C2', withoutSd],
+    ] as const) {
+      const [beats] = checks(`=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${args})`);
+      expect(Math.abs((beats as number) - (revenueProbAboveControl(variants)[0] as number))).toBeLessThan(0.01);
+      const [above] = checks(`=ABTEST.REVENUE_PROB_LIFT_ABOVE(${args.replace(/,D1:D2$/, '')},-0.02${args.endsWith('D1:D2') ? ',D1:D2' : ''})`);
+      expect(Math.abs((above as number) - (revenueProbLiftAbove(variants, -0.02)[0] as number))).toBeLessThan(0.01);
+      const [lo, hi] = checks(`=ABTEST.REVENUE_INTERVAL(${args})`);
+      const interval = revenueInterval(variants, 0.95)[0] as { lower: number; upper: number };
+      expect(Math.abs((lo as number) / interval.lower - 1)).toBeLessThan(0.01);
+      expect(Math.abs((hi as number) / interval.upper - 1)).toBeLessThan(0.01);
+      const lift = checks(`=ABTEST.REVENUE_LIFT_INTERVAL(${args})`);
+      const core = revenueLiftInterval(variants, 0.95)[0] as { lower: number; median: number; upper: number };
+      expect(lift.map((x, i) => Math.abs(x - [core.lower, core.median, core.upper][i]!) < 0.005)).toEqual([true, true, true]);
+    }
+  });
+
+  test('the decisions say their rule, max_loss and units; the exponential model is named when order_sd is left out', () => {
+    expect(explained('=ABTEST.REVENUE_DECISION(A1:A2,B1:B2,C1:C2)').summary).toBe(
+      "What to do on revenue per visitor, from orders in A1:A2, visitors in B1:B2 and revenue in C1:C2, order values taken as exponential (no order_sd given): the variant with the smallest expected loss (REVENUE_EXPECTED_LOSS) is recommended once that loss is at most 1% of the control's posterior mean revenue per visitor (the default).",
+    );
+    expect(explained('=ABTEST.MEAN_DECISION(F1:F2,G1:G2,H1:H2,0.05)').summary).toContain("at most max_loss (0.05), in the metric's units");
+    expect(explained('=ABTEST.EVENTS_DECISION(J1:J2,K1:K2)').summary).toContain("1% of the control's posterior mean rate (the default)");
+    expect(explained('=ABTEST.REVENUE_DECISION(A1:A2,B1:B2,C1:C2)').plainMethod).toMatch(/^In words: the expected loss of each variant/);
+    expect(explained('=ABTEST.REVENUE_EXPECTED_LOSS(A1:A2,B1:B2,C1:C2,D1:D2)').summary).toContain("with the order values' standard deviations in D1:D2");
   });
 });

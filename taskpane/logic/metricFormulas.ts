@@ -1,0 +1,245 @@
+/**
+ * The read-out block for revenue per visitor from totals, averages and counts per exposure (the
+ * conversions block is formulas.ts's readoutBlock), and the guardrails any read-out may carry: for each
+ * guardrail metric a column of "no worse than" probabilities beside the primary metric's results, its
+ * limit and required probability as input cells, and a decision that says when the chosen variant fails a
+ * guardrail. Pure functions from plain inputs to FormulaBlock data; every result is a live formula.
+ */
+import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
+import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
+import { variantLetter } from '../../functions/sheet/labels';
+import { numberLiteral, SRM_ALARM, WARNING_FILL, WARNING_TEXT, type LabelledBlock } from './formulas';
+import { dataArgs, guardrailRows, MAX_GUARDRAILS, writeGuardrails, type Guardrail } from './guardrails';
+import { KIND_SHORT, type MetricKind, type MetricRole } from './metrics';
+
+/** The table's columns as local addresses of their data cells ("B4:B6"), by role. */
+export interface MetricSource {
+  /** The table's sheet, when the block may go on another sheet (its references are then qualified). */
+  readonly sheet?: string;
+  readonly namesRef: string | null;
+  readonly refs: Readonly<Partial<Record<MetricRole, string>>>;
+  readonly variants: number;
+}
+
+/** Settings of a metric read-out. */
+export interface MetricSettings {
+  readonly level: number;
+  /** The SRM p-value the core computes from the visitors (or counts) now, for the warning fill; null for counts. */
+  readonly currentSrmPValue: number | null;
+}
+
+/** Width of the metric read-out's table (variant, 9 results), before the guardrail columns. */
+const TABLE_WIDTH = 10;
+
+/** The unit words of each kind's values and losses. */
+const UNITS: Readonly<Record<Exclude<MetricKind, 'conversions'>, { value: string; loss: string; format: string; note: string }>> = {
+  revenue: {
+    value: 'Revenue per visitor (observed)',
+    loss: 'Expected loss (revenue per visitor)',
+    format: '0.000',
+    note:
+      'Revenue per visitor = conversion rate × average order value, in the revenue column’s currency; expected loss is in that currency per visitor. ' +
+      'Without order sd, order values are taken as exponential, which understates the spread when a few orders are very large.',
+  },
+  averages: {
+    value: 'Mean (observed)',
+    loss: 'Expected loss (metric units)',
+    format: '0.000',
+    note: 'Means and expected losses are in the metric’s own units; intervals come from Student t posteriors of each mean. Lift is relative to the control.',
+  },
+  counts: {
+    value: 'Events per unit of exposure (observed)',
+    loss: 'Expected loss (events per unit)',
+    format: '0.0000',
+    note: 'Rates are events per unit of exposure (Gamma posteriors with a flat prior); expected loss is in events per unit. Lift is relative to the control.',
+  },
+};
+
+function at(origin: CellPosition, row: number, column: number): string {
+  return cellAddress({ row: origin.row + row, column: origin.column + column });
+}
+
+/**
+ * Size of the metric read-out block for k variants and g guardrails. Cost O(1).
+ * @example metricReadoutArea(3, 1) //=> { rowCount: 16, columnCount: 11 }
+ */
+export function metricReadoutArea(variants: number, guardrails: number): { rowCount: number; columnCount: number } {
+  return { rowCount: variants + 10 + guardrailRows(guardrails), columnCount: Math.max(TABLE_WIDTH + guardrails, variants) };
+}
+
+/**
+ * The read-out block of revenue per visitor from totals, averages or counts per exposure: one row per
+ * variant, its name beside its results — the observed value (revenue ÷ visitors, the mean, events ÷
+ * exposure), the credible interval, P(beats control), P(highest), the lift interval and the expected loss
+ * (all live spilling formulas of the kind's family), a note on the units, then the credible level, the
+ * largest acceptable loss (1% of the control's observed value, in the metric's units), the kind's
+ * *_DECISION, the split check (SRM on visitors or counts; none for counts per exposure) and the guardrails
+ * (writeGuardrails). When the block goes on another sheet than the table, references name the table's
+ * sheet. Cost O(variants + guardrails). Throws RangeError for fewer than 2 variants, the conversions kind
+ * (formulas.ts's readoutBlock writes it), more than MAX_GUARDRAILS guardrails or a missing column.
+ * @example metricReadoutBlock('revenue', source, { level: 0.95, currentSrmPValue: 0.5 }, [], 'G1').cells.decision //=> "H11"
+ */
+export function metricReadoutBlock(
+  kind: MetricKind,
+  source: MetricSource,
+  settings: MetricSettings,
+  guardrails: readonly Guardrail[],
+  topLeft: string,
+  sheet?: string,
+): LabelledBlock {
+  if (kind === 'conversions') throw new RangeError('the conversions read-out is formulas.ts readoutBlock');
+  const k = source.variants;
+  if (!Number.isInteger(k) || k < 2) throw new RangeError('a read-out needs at least two variants');
+  if (guardrails.length > MAX_GUARDRAILS) throw new RangeError(`at most ${MAX_GUARDRAILS} guardrails`);
+  const units = UNITS[kind];
+  const origin = parseAddress(topLeft).start;
+  const area = metricReadoutArea(k, guardrails.length);
+  const width = area.columnCount;
+  const height = area.rowCount;
+  const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
+  const formats: (string | null)[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => null));
+  const put = (row: number, column: number, value: CellValue, format: string | null = null): string => {
+    (cells[row] as CellValue[])[column] = value;
+    (formats[row] as (string | null)[])[column] = format;
+    return at(origin, row, column);
+  };
+  const formatColumn = (row: number, column: number, format: string): void => {
+    for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
+  };
+  const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
+  const qualify = (local: string): string => (other ? referenceFrom(sheet as string, source.sheet as string, local) : local);
+  const refs: Partial<Record<MetricRole, string>> = {};
+  for (const [role, local] of Object.entries(source.refs) as [MetricRole, string][]) refs[role] = qualify(local);
+  const ref = (role: MetricRole): string => {
+    const r = refs[role];
+    if (r === undefined) throw new RangeError(`the ${KIND_SHORT[kind]} read-out needs its ${role} column`);
+    return r;
+  };
+  const item = (role: MetricRole, i: number): string => {
+    const start = parseAddress(source.refs[role] as string).start;
+    return qualify(cellAddress({ row: start.row + i, column: start.column }));
+  };
+  const noteRow = k + 2;
+  const settingsRow = k + 4;
+  const names: Record<string, string> = {};
+  const level = at(origin, settingsRow, 1);
+  const data = dataArgs(kind, ref);
+  const sd = kind === 'revenue' && refs.orderSd !== undefined ? refs.orderSd : null;
+  // Revenue's order_sd sits after the data and before level (REVENUE_INTERVAL(o, v, r, [order_sd], [level])).
+  const withSd = kind === 'revenue' ? `,${sd ?? ''}` : '';
+  const family = kind === 'revenue' ? 'REVENUE_' : kind === 'averages' ? 'MEAN_' : 'EVENTS_';
+  const intervalName = kind === 'counts' ? 'EVENTS_RATE_INTERVAL' : `${family}INTERVAL`;
+
+  put(0, 0, `Read-out (Lift Ledger): ${KIND_SHORT[kind]}`);
+  const headers = [
+    'Variant',
+    units.value,
+    'Interval low',
+    'Interval high',
+    'P(beats control)',
+    'P(highest)',
+    'Lift low',
+    'Lift median',
+    'Lift high',
+    units.loss,
+  ];
+  headers.forEach((header, column) => put(1, column, header));
+  const namesStart = parseAddress(source.namesRef ?? 'A1').start;
+  for (let i = 0; i < k; i += 1) {
+    put(
+      2 + i,
+      0,
+      source.namesRef === null ? variantLetter(i) : `=${qualify(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`,
+    );
+    const observed =
+      kind === 'revenue'
+        ? `=${item('revenue', i)}/${item('visitors', i)}`
+        : kind === 'averages'
+          ? `=${item('mean', i)}`
+          : `=${item('events', i)}/${item('exposure', i)}`;
+    put(2 + i, 1, observed, units.format);
+  }
+  names.labels = rangeAddress({ row: origin.row + 2, column: origin.column }, k, 1);
+  names.observed = at(origin, 2, 1);
+  names.interval = put(2, 2, `=ABTEST.${intervalName}(${data}${withSd},${level})`);
+  formatColumn(2, 2, units.format);
+  formatColumn(2, 3, units.format);
+  names.probAboveControl = put(2, 4, `=ABTEST.${family}PROB_ABOVE_CONTROL(${data}${sd === null ? '' : `,${sd}`})`);
+  formatColumn(2, 4, '0.0%');
+  names.probHighest = put(2, 5, `=ABTEST.${family}PROB_HIGHEST(${data}${sd === null ? '' : `,${sd}`})`);
+  formatColumn(2, 5, '0.0%');
+  names.liftInterval = put(2, 6, `=ABTEST.${family}LIFT_INTERVAL(${data}${withSd},${level})`);
+  for (const c of [6, 7, 8]) formatColumn(2, c, '0.0%');
+  names.expectedLoss = put(2, 9, `=ABTEST.${family}EXPECTED_LOSS(${data}${sd === null ? '' : `,${sd}`})`);
+  formatColumn(2, 9, kind === 'counts' ? '0.000000' : '0.0000');
+  names.note = put(noteRow, 0, units.note);
+
+  put(settingsRow, 0, 'Credible level');
+  names.level = put(settingsRow, 1, settings.level, '0%');
+  put(settingsRow + 1, 0, `Largest expected loss you accept (${units.loss.replace(/^Expected loss \((.*)\)$/, '$1')})`);
+  names.maxLoss = put(settingsRow + 1, 1, `=0.01*ABS(${names.observed})`, kind === 'counts' ? '0.000000' : '0.0000');
+  put(settingsRow + 2, 0, 'Decision');
+  names.decision = put(
+    settingsRow + 2,
+    1,
+    `=ABTEST.${family}DECISION(${data}${withSd},${names.maxLoss},${names.labels})`,
+  );
+  const styles: BlockStyle[] = [
+    { row: 0, column: 0, style: { bold: true } },
+    { row: 1, column: 0, columnCount: TABLE_WIDTH + guardrails.length, style: { bold: true } },
+    { row: settingsRow + 2, column: 0, columnCount: 2, style: { bold: true } },
+  ];
+  if (kind === 'counts' || settings.currentSrmPValue === null) {
+    put(settingsRow + 3, 0, 'Split check: check the split on the visitors (exposure is not a count of visitors)');
+  } else {
+    const counted = kind === 'revenue' ? ref('visitors') : ref('count');
+    put(settingsRow + 3, 0, `Split check: SRM p-value on the ${kind === 'revenue' ? 'visitors' : 'counts'} (equal shares)`);
+    names.srmPValue = put(settingsRow + 3, 1, `=ABTEST.SRM_PVALUE(${counted})`, '0.0000');
+    names.srmVerdict = put(
+      settingsRow + 3,
+      2,
+      `=IF(${names.srmPValue}<${numberLiteral(SRM_ALARM)},"split looks broken: check how visitors are assigned","split looks as planned")`,
+    );
+    if (settings.currentSrmPValue < SRM_ALARM) {
+      styles.push({ row: settingsRow + 3, column: 1, columnCount: 2, style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true } });
+    }
+  }
+  const writer = {
+    put,
+    formatColumn,
+    rangeAt: (row: number, column: number, rows: number): string =>
+      rangeAddress({ row: origin.row + row, column: origin.column + column }, rows, 1),
+  };
+  Object.assign(
+    names,
+    writeGuardrails(
+      guardrails,
+      refs,
+      {
+        headerRow: 1,
+        variants: k,
+        firstColumn: TABLE_WIDTH,
+        settingsRow: settingsRow + 5,
+        lossRange: rangeAddress({ row: origin.row + 2, column: origin.column + 9 }, k, 1),
+        maxLoss: names.maxLoss,
+        labels: names.labels,
+        decision: names.decision,
+        primary: KIND_SHORT[kind],
+      },
+      writer,
+    ),
+  );
+  if (guardrails.length > 0) {
+    styles.push({ row: settingsRow + 5 + 2 * guardrails.length, column: 0, columnCount: 2, style: { bold: true } });
+  }
+  const block: FormulaBlock = {
+    sheet,
+    topLeft: cellAddress(origin),
+    cells,
+    numberFormats: formats,
+    styles,
+    area,
+    autofit: { rows: k + 2 },
+  };
+  return { block, cells: names };
+}
