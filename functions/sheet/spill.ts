@@ -8,22 +8,32 @@
  *
  * Every number is checked to be finite here, the last line of defence before a cell.
  */
+import { StatsError } from '../stats/errors';
 import type { BetaPrior, DensityTable, Interval, IntervalWithMedian } from '../stats/types';
 import type { VariantTable } from './variants';
 
 /** One output cell: a finite number or text (`""` for an empty slot). */
 export type OutputCell = number | string;
 
+/** What a cell says when an exact answer exists but is larger than any number a cell holds. */
+export const BEYOND_CELL_MESSAGE =
+  'a result is larger than the largest number a cell holds (about 1.8E+308): under this prior a variant\'s ' +
+  'rate can be so close to 0 that a ratio to it has no usable bound; compare the variants by their ' +
+  'difference, or use a prior with more weight';
+
 /**
  * Throws unless `x` is finite, so no NaN or infinity reaches a cell.
  *
  * Cost O(1).
- * @throws {Error} "the result is not a finite number" (mapped to #VALUE! by run.ts).
+ * @throws {StatsError} `not_available` ({@link BEYOND_CELL_MESSAGE}) for an infinite value: the question has
+ *   no answer a cell can show (#N/A).
+ * @throws {Error} for NaN, which no computation inside the declared domain returns (run.ts's catch-all).
  * @example finite(0.5) //=> 0.5
  */
 export function finite(x: number): number {
-  if (!Number.isFinite(x)) throw new Error(`the result is not a finite number (${String(x)})`);
-  return x;
+  if (Number.isFinite(x)) return x;
+  if (x === Infinity || x === -Infinity) throw new StatsError('not_available', BEYOND_CELL_MESSAGE);
+  throw new Error('a result is not a number');
 }
 
 /** Lays rows of values (one row per position) out in the table's orientation. */
