@@ -129,14 +129,25 @@ export function spillTable(
   });
 }
 
-/** Rows `[lower, upper]` of credible intervals, for {@link spillBlock}. */
-export function intervalRows(intervals: readonly Interval[]): number[][] {
-  return intervals.map((iv) => [iv.lower, iv.upper]);
+/**
+ * Puts the ends of an interval in order. Each end comes from its own root search, accurate to an absolute
+ * tolerance; where two true values are closer than that (a symmetric difference whose median is 0 and
+ * whose 10% point is −1e-50), the estimates can cross. Sorting them never moves a value further from its
+ * true value than the worse of the two errors (if a ≤ b and |x − a|, |y − b| ≤ ε, then min(x, y) and
+ * max(x, y) are within ε of a and b), so the cell shows an ordered interval as accurate as the search.
+ */
+function ordered(values: number[]): number[] {
+  return values.sort((a, b) => a - b);
 }
 
-/** Rows `[lower, median, upper]`, for {@link spillBlockVersusControl}. */
+/** Rows `[lower, upper]` of credible intervals, for {@link spillBlock}; each row in order. */
+export function intervalRows(intervals: readonly Interval[]): number[][] {
+  return intervals.map((iv) => ordered([iv.lower, iv.upper]));
+}
+
+/** Rows `[lower, median, upper]`, for {@link spillBlockVersusControl}; each row in order. */
 export function medianRows(intervals: readonly IntervalWithMedian[]): number[][] {
-  return intervals.map((iv) => [iv.lower, iv.median, iv.upper]);
+  return intervals.map((iv) => ordered([iv.lower, iv.median, iv.upper]));
 }
 
 /**

@@ -35,6 +35,8 @@ import {
   variantLetter,
   BEYOND_CELL_MESSAGE,
   CATCH_ALL_MESSAGE,
+  intervalRows,
+  medianRows,
 } from '../../functions/sheet';
 import { decisionText, defaultLabel, formatPercent, labelOf } from '../../functions/sheet/decision';
 import { thrownWorksheetError } from '../helpers/assertions';
@@ -365,6 +367,13 @@ describe('spills', () => {
       [0, '', 3, 5],
       [1, '', 4, 6],
     ]);
+  });
+
+  test('interval rows are put in order; values closer than the search tolerance may have crossed', () => {
+    // RATE_DIFF_INTERVAL({1,1},{1,1},0.8,0.001,0.001): a symmetric difference, median 0 and 10% point a tiny
+    // negative number; the searches returned 0 and −2.9e-16, both within their tolerance of the true values
+    expect(medianRows([{ lower: 0, median: -2.868e-16, upper: 0 }])).toEqual([[-2.868e-16, 0, 0]]);
+    expect(intervalRows([{ lower: 0.2, upper: 0.1 }, { lower: -1, upper: 1 }])).toEqual([[0.1, 0.2], [-1, 1]]);
   });
 
   test('a non-finite number never reaches a cell', () => {
