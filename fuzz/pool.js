@@ -130,7 +130,9 @@ class Worker {
     clearTimeout(this.timer);
     this.cpuTotalUs = message.cpuTotalUs;
     this.task = undefined;
-    const { id, cpuTotalUs, ...result } = message;
+    const result = { ...message };
+    delete result.id;
+    delete result.cpuTotalUs;
     task.resolve(result);
     // a result that arrived while the watchdog was killing the child still counts; the child does not
     if (this.isReady) this.pool.next(this);

@@ -1,6 +1,6 @@
 /**
  * The rules of a frozen (shareable) copy, in one place for every maker of one: the `lift-ledger freeze`
- * command now, the side panel's "shareable copy" later.
+ * command and the side panel's shareable copy (taskpane/logic/shareCopy.ts).
  *
  * - Which cells are ABTEST results: every cell whose formula calls an ABTEST function anywhere (at the top
  *   or nested), and the cells its result spills over. Without the add-in such a formula shows #NAME? at the
@@ -70,6 +70,11 @@ export interface FrozenHeader {
   readonly source: string;
   /** ABTEST formulas turned into values (spills count once). */
   readonly results: number;
+  /**
+   * Where each formula is kept, as the end of "each keeps the formula that computed it …": "in a note" unless
+   * given (the side panel says "in column O" on an Excel without notes).
+   */
+  readonly formulasKept?: string;
 }
 
 /**
@@ -85,6 +90,6 @@ export function frozenHeaderLine(header: FrozenHeader): string {
       : `${header.results} Lift Ledger results are plain values`;
   return (
     `Frozen copy made ${frozenTime(header.frozenAt)} from ${header.source}: ${what}; ` +
-    'each keeps the formula that computed it in a note. New data will not change them.'
+    `each keeps the formula that computed it ${header.formulasKept ?? 'in a note'}. New data will not change them.`
   );
 }

@@ -78,7 +78,7 @@ export function rateInterval(
  * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, the probability (0 to 1) that its rate is the highest.
- * @method P(variant i is highest) = ∫ f_i(x) ∏_{j≠i} F_j(x) dx over the Beta posteriors, computed deterministically by Gauss–Legendre quadrature (no simulation).
+ * @method P(variant i is highest) = ∫ f_i(x) · Π F_j(x) dx (the product over every other variant j) over the Beta posteriors, computed deterministically by Gauss–Legendre quadrature (no simulation).
  * @source Closed form for two variants: E. Miller, "Formulas for Bayesian A/B Testing" (2015); the integral is the definition of the probability.
  * @example =ABTEST.PROB_HIGHEST({120;150}, {2400;2380}) returns {0.025678;0.974322}
  * @caution With many variants the best-looking one is often lucky: expect its lead to shrink on new data. Decide the number of variants before the test starts.
@@ -207,7 +207,7 @@ export function probLiftAbove(
  * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, E[highest rate − its rate], in rate units (0.001 is 0.1 percentage points).
- * @method Expected loss = E[max_j p_j] − E[p_i], with E[max] = ∫ (1 − ∏_j F_j(x)) dx over the Beta posteriors, by quadrature.
+ * @method Expected loss = E[max_j p_j] − E[p_i], with E[max] = ∫ (1 − Π F_j(x)) dx (the product over all variants) over the Beta posteriors, by quadrature.
  * @source C. Stucchio, "Bayesian A/B Testing at VWO" (2015), expected-loss decision rule.
  * @example =ABTEST.EXPECTED_LOSS({120;150}, {2400;2380}) returns {0.013083;0.00006524}
  * @caution The loss depends on the prior when data are few; check that a reasonable other prior gives the same choice.

@@ -51,7 +51,7 @@ export function eventsRateInterval(
  * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
  * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns For each variant, the probability (0 to 1) that its rate is the highest.
- * @method P(i highest) = ∫ f_i ∏_{j≠i} F_j over the Gamma posteriors, by quadrature.
+ * @method P(i highest) = ∫ f_i · Π F_j (the product over every other variant j) over the Gamma posteriors, by quadrature.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.6 (Gamma–Poisson posterior).
  * @example =ABTEST.EVENTS_PROB_HIGHEST({340;395}, {1000;1010}) returns {0.029173;0.970827}
  * @caution Events per exposure assumes events arrive independently; heavy users can make the intervals too narrow.

@@ -43,7 +43,7 @@ export function meanInterval(count: any[][], mean: any[][], sd: any[][], level?:
  * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
  * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
  * @returns For each variant, the probability (0 to 1) that its average is the highest.
- * @method P(i highest) = ∫ f_i ∏_{j≠i} F_j over the Student t posteriors, by quadrature.
+ * @method P(i highest) = ∫ f_i · Π F_j (the product over every other variant j) over the Student t posteriors, by quadrature.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2 (posterior of a normal mean).
  * @example =ABTEST.MEAN_PROB_HIGHEST({1200;1180}, {3.10;3.42}, {9.8;10.4}) returns {0.22011;0.77989}
  * @caution With many variants the best-looking one is often lucky; decide the number of variants in advance.

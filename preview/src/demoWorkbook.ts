@@ -242,9 +242,9 @@ function planSheet(): DemoSheet {
   s.put('A6', 'Visitors per variant we can afford');
   s.put('B6', 20000);
   s.put('A7', 'Decision threshold: probability of beating the control');
-  s.put('B7', 0.95);
+  s.put('B7', 0.95, '0%');
   s.put('A8', 'Wanted chance of a clear result (power)');
-  s.put('B8', 0.8);
+  s.put('B8', 0.8, '0%');
   s.put('A10', 'Chance the test ends with a clear winner (DECISION_POWER)');
   s.put('B10', '=ABTEST.DECISION_POWER(B4, B5, B6, B7)', '0.0%');
   s.put('A11', 'False-alarm rate if there is no lift at all (DECISION_POWER, lift 0)');

@@ -3,18 +3,27 @@
  * the side panel is allowed to use (see DEVELOPERS.md / the side-panel brief) on top of a PreviewWorkbook:
  *
  * - `Office.onReady(cb?)` → Promise of `{ host: 'Excel', platform: 'OfficeOnline' }`;
- *   `Office.context.requirements.isSetSupported('ExcelApi', v)` → true up to 1.16 (the subset below).
+ *   `Office.context.requirements.isSetSupported('ExcelApi', v)` → true up to 1.18 (the subset below), or
+ *   up to the version given to createOfficeStandIn (`?api=1.16` on the preview's address: an Excel without
+ *   notes, whose notes calls then fail as an unknown API would).
  * - `Excel.run(async (context) => …)`, `context.sync()`, `context.workbook.getSelectedRange()`,
  *   `worksheets.getItem(name)`, `getItemOrNullObject(name)`, `getActiveWorksheet()`, `add(name)`,
  *   `load('items/name')` → `items`, `workbook.onSelectionChanged.add(h)`.
- * - Worksheet `name`, `getRange(a1)`, `getUsedRangeOrNullObject(valuesOnly?)`, `activate()`, `delete()`,
- *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `setPosition(from, to)`, `name`).
+ * - Worksheet `name` (also set: renames), `getRange(a1)`, `getUsedRangeOrNullObject(valuesOnly?)` (a range
+ *   with everything below, or a null object), `activate()`, `delete()`, `copy('After', sheet)` (named
+ *   "Name (2)"; placed at the end of the tabs, as HyperFormula cannot reorder sheets),
+ *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `setPosition(from, to)`, `name`),
+ *   `charts.load('items/…')` → `items` with `name`, `top`, `left` (points) and `delete()`;
+ *   `notes.getItemOrNullObject(a1)` (load `content`; `content` settable) and `notes.add(a1, text)`
+ *   (ExcelApi 1.18); `pageLayout.orientation`, `.zoom`, `.centerHorizontally`, `.setPrintArea(a1)`.
  * - Range `load(…)` of address, values, valuesAsJson, formulas, rowCount, columnCount, numberFormat;
  *   writes to `formulas`, `values`, `numberFormat` (arrays of the range's size, as the API reference
  *   asks), `format.font.bold/color`, `format.fill.color`, `format.fill.clear()`, `format.columnWidth`
  *   (also loadable), `format.autofitColumns()`; `getCellProperties` (font bold/color, fill color/pattern)
  *   and `setCellProperties`; `getCell`, `getColumn`, `getOffsetRange`, `getResizedRange`,
- *   `getSpillParentOrNullObject`, `worksheet`.
+ *   `getSpillParentOrNullObject`, `getSpillingToRangeOrNullObject`, `worksheet`; `top`, `left`, `width`,
+ *   `height` in points (rows 15 points, columns their width); `getEntireRow().insert('Down')` (HyperFormula
+ *   moves cells and adjusts formulas; formats, notes and charts move along); `clear('All')`.
  *
  * As in Office.js, commands are queued and run at `context.sync()`; loaded properties are readable only
  * after it; a failed command rejects `sync()` with an Error whose `code` is a string ('InvalidArgument',
@@ -62,7 +71,7 @@ interface Command {
 }
 
 /** The Excel API versions the stand-in answers yes to (for the subset it implements). */
-const OFFERED_API = '1.16';
+const OFFERED_API = '1.18';
 
 function versionAtMost(version: string, most: string): boolean {
   const a = version.split('.').map(Number);
@@ -89,8 +98,14 @@ class RequestContext {
   constructor(
     readonly book: PreviewWorkbook,
     readonly realm: Realm,
+    /** The highest ExcelApi version this stand-in offers. */
+    readonly apiVersion: string = OFFERED_API,
   ) {
     this.workbook = new WorkbookProxy(this);
+  }
+  /** Fails the running command when the stand-in does not offer `version` (as an unknown API fails in Excel). */
+  requireApi(version: string, what: string): void {
+    if (!versionAtMost(version, this.apiVersion)) this.fail('ApiNotFound', `The API you are trying to use could not be found (${what}).`);
   }
   /** A command that changes the workbook; `reads` when it also needs up-to-date values first (autofit). */
   enqueue(run: () => void, reads = false): void {
@@ -143,7 +158,19 @@ function loadList(properties: unknown): string[] | undefined {
   return select === undefined ? undefined : loadList(select);
 }
 
-const RANGE_PROPERTIES = ['address', 'values', 'valuesAsJson', 'formulas', 'rowCount', 'columnCount', 'numberFormat'] as const;
+const RANGE_PROPERTIES = [
+  'address',
+  'values',
+  'valuesAsJson',
+  'formulas',
+  'rowCount',
+  'columnCount',
+  'numberFormat',
+  'top',
+  'left',
+  'width',
+  'height',
+] as const;
 type RangeProperty = (typeof RANGE_PROPERTIES)[number];
 
 /** Excel's message for an array that does not fit its range (as quoted in issue #11). */
@@ -186,7 +213,7 @@ class RangeProxy {
   private loadedValues: Partial<Record<RangeProperty, unknown>> = {};
   readonly format: RangeFormatProxy;
   constructor(
-    private readonly ctx: RequestContext,
+    protected readonly ctx: RequestContext,
     /** Resolves the block when commands run (throws a coded error for a bad address). */
     readonly resolve: () => CellBlock,
   ) {
@@ -197,10 +224,24 @@ class RangeProxy {
     const wanted = (loadList(properties) ?? [...RANGE_PROPERTIES]).filter((p): p is RangeProperty =>
       (RANGE_PROPERTIES as readonly string[]).includes(p),
     );
-    this.ctx.enqueueRead(() => {
+    this.ctx.enqueueRead(() => this.readNow(wanted));
+    return this;
+  }
+
+  /** Runs a load: reads the properties from the workbook as it is now. */
+  protected readNow(wanted: readonly RangeProperty[]): void {
+    {
       const block = this.resolve();
       const book = this.ctx.book;
       for (const property of wanted) {
+        if (property === 'top' || property === 'left' || property === 'width' || property === 'height') {
+          const from = book.pointsAt(block.sheet, block.row, block.col);
+          const to = book.pointsAt(block.sheet, block.row + block.rows, block.col + block.columns);
+          this.loadedValues.top = from.top;
+          this.loadedValues.left = from.left;
+          this.loadedValues.width = to.left - from.left;
+          this.loadedValues.height = to.top - from.top;
+        }
         if (property === 'address') this.loadedValues.address = book.qualifiedAddress(block);
         if (property === 'rowCount') this.loadedValues.rowCount = block.rows;
         if (property === 'columnCount') this.loadedValues.columnCount = block.columns;
@@ -229,8 +270,7 @@ class RangeProxy {
           this.loadedValues.numberFormat = realmRows(realm, grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'));
         }
       }
-    });
-    return this;
+    }
   }
 
   /** Always false: a range made by getRange is never a null object (see getSpillParentOrNullObject). */
@@ -247,6 +287,18 @@ class RangeProxy {
 
   get address(): string {
     return this.read('address') as string;
+  }
+  get top(): number {
+    return this.read('top') as number;
+  }
+  get left(): number {
+    return this.read('left') as number;
+  }
+  get width(): number {
+    return this.read('width') as number;
+  }
+  get height(): number {
+    return this.read('height') as number;
   }
   get rowCount(): number {
     return this.read('rowCount') as number;
@@ -359,6 +411,39 @@ class RangeProxy {
       );
       this.ctx.book.touch();
     });
+  }
+
+  /** The whole rows of this range: `insert('Down')` inserts as many empty rows above them. */
+  getEntireRow(): { insert(shift: string): void } {
+    return {
+      insert: (shift: string) => {
+        this.ctx.enqueue(() => {
+          if (shift !== 'Down') this.ctx.fail('InvalidArgument', `whole rows are inserted Down, not ${shift}`);
+          const b = this.resolve();
+          this.ctx.book.insertRows(b.sheet, b.row, b.rows);
+        });
+      },
+    };
+  }
+
+  /** Clears contents, formats and notes ('All', the only kind the preview offers). */
+  clear(applyTo?: string): void {
+    this.ctx.enqueue(() => {
+      if (applyTo !== undefined && applyTo !== 'All') this.ctx.fail('InvalidArgument', `the preview clears All only, not ${applyTo}`);
+      this.ctx.book.clearBlock(this.resolve());
+    });
+  }
+
+  /** On a formula cell: the whole block its result fills, or a null object when it does not spill. */
+  getSpillingToRangeOrNullObject(): NullableRange {
+    const result = new NullableRange(this.ctx);
+    this.ctx.enqueueRead(() => {
+      const b = this.resolve();
+      if (b.rows !== 1 || b.columns !== 1) this.ctx.fail('InvalidArgument', 'The range must be a single cell.');
+      const spill = this.ctx.book.spillRange(b.sheet, b.row, b.col);
+      result.settle(spill === undefined ? null : this.ctx.book.qualifiedAddress(spill));
+    });
+    return result;
   }
 
   /** The formula cell whose spill shows in this range's top-left cell, or a null object. */
@@ -534,16 +619,91 @@ class ChartProxy {
   }
 }
 
+/** The used range: a range like any other once it exists, or a null object for an empty sheet. */
+class UsedRange extends RangeProxy {
+  private exists: boolean | undefined;
+  constructor(
+    ctx: RequestContext,
+    private readonly block: () => CellBlock | undefined,
+  ) {
+    super(ctx, () => block() ?? ctx.fail('InvalidArgument', 'The range is a null object.'));
+  }
+  protected override readNow(wanted: readonly RangeProperty[]): void {
+    this.exists = this.block() !== undefined;
+    if (this.exists) super.readNow(wanted);
+  }
+  override get isNullObject(): boolean {
+    if (this.exists === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    return !this.exists;
+  }
+}
+
+/** A chart as `charts.load('items/…')` lists it: its name, top-left corner in points, and delete(). */
+interface ChartItem {
+  readonly name: string;
+  readonly top: number;
+  readonly left: number;
+  delete(): void;
+}
+
+/** A note as `notes.getItemOrNullObject(a1)` gives it (ExcelApi 1.18). */
+class NoteItem {
+  private found: { text: string | undefined } | undefined;
+  constructor(
+    private readonly ctx: RequestContext,
+    private readonly cell: () => CellBlock,
+  ) {}
+  load(_properties?: unknown): this {
+    this.ctx.enqueueRead(() => {
+      this.ctx.requireApi('1.18', 'Worksheet.notes');
+      const b = this.cell();
+      this.found = { text: this.ctx.book.note(b.sheet, b.row, b.col) };
+    });
+    return this;
+  }
+  get isNullObject(): boolean {
+    if (this.found === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    return this.found.text === undefined;
+  }
+  get content(): string {
+    if (this.found?.text === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'content' is not available.");
+    return this.found.text;
+  }
+  set content(text: string) {
+    this.ctx.enqueue(() => {
+      this.ctx.requireApi('1.18', 'Note.content');
+      const b = this.cell();
+      if (this.ctx.book.note(b.sheet, b.row, b.col) === undefined) this.ctx.fail('ItemNotFound', 'The cell has no note.');
+      this.ctx.book.setNote(b.sheet, b.row, b.col, String(text));
+    });
+  }
+}
+
 class WorksheetProxy {
   private loadedName: string | undefined;
   private existence: boolean | undefined;
-  readonly charts: { add: (type: string, source: RangeProxy, seriesBy?: string) => ChartProxy };
+  readonly charts: {
+    add: (type: string, source: RangeProxy, seriesBy?: string) => ChartProxy;
+    load: (properties?: unknown) => unknown;
+    readonly items: ChartItem[];
+  };
+  readonly notes: {
+    getItemOrNullObject: (address: string) => NoteItem;
+    add: (address: string, content: string) => void;
+  };
+  readonly pageLayout: {
+    orientation: string;
+    zoom: { horizontalFitToPages?: number; verticalFitToPages?: number; scale?: number };
+    centerHorizontally: boolean;
+    setPrintArea(area: string): void;
+  };
   constructor(
     private readonly ctx: RequestContext,
     /** Resolves the sheet's id when commands run; undefined only for a getItemOrNullObject that found none. */
     private readonly resolveSheetOrNull: () => number | undefined,
   ) {
-    this.charts = {
+    let listed: ChartItem[] | undefined;
+    const charts = {
       add: (type: string, source: RangeProxy, seriesBy?: string): ChartProxy => {
         let made: import('./previewWorkbook').PreviewChart | undefined;
         ctx.enqueue(() => {
@@ -555,6 +715,71 @@ class WorksheetProxy {
         return new ChartProxy(ctx, () => {
           if (!made) return ctx.fail('GeneralException', 'the chart was not created');
           return made;
+        });
+      },
+      load: (_properties?: unknown) => {
+        ctx.enqueueRead(() => {
+          const sheet = this.resolveSheet();
+          listed = ctx.book.charts(sheet).map((chart) => {
+            const at = ctx.book.pointsAt(sheet, chart.position.from.row, chart.position.from.col);
+            return {
+              name: chart.name,
+              top: at.top,
+              left: at.left,
+              delete: () => ctx.enqueue(() => ctx.book.deleteChart(chart.id)),
+            };
+          });
+        });
+        return charts;
+      },
+      get items(): ChartItem[] {
+        return listed ?? ctx.fail('PropertyNotLoaded', "The property 'items' is not available. Call load('items') and context.sync() first.");
+      },
+    };
+    this.charts = charts;
+    const cellAt = (address: string): CellBlock => {
+      const block = parseBlock(address, this.resolveSheet());
+      if (!block || block.rows !== 1 || block.columns !== 1) return ctx.fail('InvalidCellAddress', `${address} is not one cell.`);
+      return block;
+    };
+    this.notes = {
+      getItemOrNullObject: (address: string) => new NoteItem(ctx, () => cellAt(address)),
+      add: (address: string, content: string) => {
+        ctx.enqueue(() => {
+          ctx.requireApi('1.18', 'Worksheet.notes');
+          const b = cellAt(address);
+          if (ctx.book.note(b.sheet, b.row, b.col) !== undefined) ctx.fail('InvalidArgument', `The cell ${address} has a note already.`);
+          ctx.book.setNote(b.sheet, b.row, b.col, String(content));
+        });
+      },
+    };
+    const layout = (patch: import('./previewWorkbook').PreviewPageLayout): void =>
+      ctx.enqueue(() => ctx.book.setPageLayout(this.resolveSheet(), patch));
+    this.pageLayout = {
+      set orientation(value: string) {
+        if (value !== 'Portrait' && value !== 'Landscape') ctx.fail('InvalidArgument', `orientation ${value}`);
+        layout({ orientation: value });
+      },
+      get orientation(): string {
+        return ctx.fail('PropertyNotLoaded', 'pageLayout is write-only in the preview');
+      },
+      set zoom(value: { horizontalFitToPages?: number; verticalFitToPages?: number; scale?: number }) {
+        layout({ zoom: { ...value } });
+      },
+      get zoom(): { horizontalFitToPages?: number } {
+        return ctx.fail('PropertyNotLoaded', 'pageLayout is write-only in the preview');
+      },
+      set centerHorizontally(value: boolean) {
+        layout({ centerHorizontally: Boolean(value) });
+      },
+      get centerHorizontally(): boolean {
+        return ctx.fail('PropertyNotLoaded', 'pageLayout is write-only in the preview');
+      },
+      setPrintArea: (area: string) => {
+        ctx.enqueue(() => {
+          const sheet = this.resolveSheet();
+          if (!parseBlock(area, sheet)) ctx.fail('InvalidArgument', `not a cell address: ${area}`);
+          ctx.book.setPageLayout(sheet, { printArea: area });
         });
       },
     };
@@ -583,6 +808,29 @@ class WorksheetProxy {
     }
     return this.loadedName;
   }
+  /** Renames the sheet when the batch runs. */
+  set name(value: string) {
+    const name = String(value);
+    this.ctx.enqueue(() => {
+      try {
+        this.ctx.book.renameSheet(this.resolveSheet(), name);
+      } catch (error) {
+        const coded = error as { code?: unknown };
+        if (typeof coded.code === 'string') throw error;
+        this.ctx.fail('InvalidArgument', `cannot rename the sheet to '${name}': ${(error as Error).message}`);
+      }
+    });
+    this.loadedName = name;
+  }
+  /** A copy of the sheet (Worksheet.copy): only 'After' this sheet is offered. */
+  copy(positionType?: string, relativeTo?: WorksheetProxy): WorksheetProxy {
+    let made: number | undefined;
+    this.ctx.enqueue(() => {
+      if (positionType !== 'After' || relativeTo === undefined) this.ctx.fail('InvalidArgument', 'the preview copies a sheet After a sheet only');
+      made = this.ctx.book.copySheet(this.resolveSheet());
+    });
+    return new WorksheetProxy(this.ctx, () => made);
+  }
   getRange(address: string): RangeProxy {
     return new RangeProxy(this.ctx, () => {
       if (typeof address !== 'string' || address.includes('!')) {
@@ -594,14 +842,12 @@ class WorksheetProxy {
     });
   }
   /** The block from A1 to the last row and column holding a value, or a null object for an empty sheet. */
-  getUsedRangeOrNullObject(_valuesOnly?: boolean): NullableRange {
-    const result = new NullableRange(this.ctx);
-    this.ctx.enqueueRead(() => {
+  getUsedRangeOrNullObject(_valuesOnly?: boolean): UsedRange {
+    return new UsedRange(this.ctx, () => {
       const sheet = this.resolveSheet();
       const { height, width } = this.ctx.book.hf.getSheetDimensions(sheet);
-      result.settle(height === 0 || width === 0 ? null : this.ctx.book.qualifiedAddress({ sheet, row: 0, col: 0, rows: height, columns: width }));
+      return height === 0 || width === 0 ? undefined : { sheet, row: 0, col: 0, rows: height, columns: width };
     });
-    return result;
   }
   activate(): void {
     this.ctx.enqueue(() => this.ctx.book.activate(this.resolveSheet()));
@@ -696,7 +942,7 @@ export interface OfficeStandIn {
  *   return range.values; //=> [[0.042]]
  * });
  */
-export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm): OfficeStandIn {
+export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm, apiVersion: string = OFFERED_API): OfficeStandIn {
   const info = { host: 'Excel', platform: 'OfficeOnline' };
   return {
     Office: {
@@ -711,13 +957,13 @@ export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm): Office
       HostType: { Excel: 'Excel' },
       context: {
         requirements: {
-          isSetSupported: (set: string, version = '1.1') => set === 'ExcelApi' && versionAtMost(String(version), OFFERED_API),
+          isSetSupported: (set: string, version = '1.1') => set === 'ExcelApi' && versionAtMost(String(version), apiVersion),
         },
       },
     },
     Excel: {
       run<T>(batch: (context: RequestContext) => Promise<T> | T): Promise<T> {
-        const context = new RequestContext(book, realm);
+        const context = new RequestContext(book, realm, apiVersion);
         return new realm.Promise<T>((resolve, reject) => {
           realm.Promise.resolve()
             .then(() => batch(context))

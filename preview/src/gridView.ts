@@ -161,6 +161,13 @@ export class GridView {
     } else {
       td.textContent = view.text;
     }
+    const note = this.book.note(sheet, row, col);
+    if (note !== undefined) {
+      // A cell note: a red corner, and its text on hover (after what the cell shows).
+      classes.push('has-note');
+      td.title = td.title ? `${td.title}\n\nNote: ${note}` : `Note: ${note}`;
+      td.dataset.note = note;
+    }
     td.className = classes.join(' ');
     const style = this.book.style(sheet, row, col);
     if (style?.bold) td.style.fontWeight = '600';

@@ -49,6 +49,17 @@ export interface CellView {
   readonly spilled: boolean;
 }
 
+/** What a sheet's page layout was set to (the preview does not print; tests read it). */
+export interface PreviewPageLayout {
+  orientation?: string;
+  zoom?: { horizontalFitToPages?: number; verticalFitToPages?: number; scale?: number };
+  centerHorizontally?: boolean;
+  printArea?: string;
+}
+
+/** A row's height in points, as the stand-in reports range and chart positions (Excel's default, from memory). */
+export const ROW_HEIGHT_PT = 15;
+
 /** Events the workbook emits. */
 export type WorkbookEvent = 'cells' | 'selection' | 'sheet' | 'charts';
 
@@ -209,6 +220,8 @@ export class PreviewWorkbook {
   private active = 0;
   private selected: CellBlock = { sheet: 0, row: 0, col: 0, rows: 1, columns: 1 };
   private readonly writeFailures: WriteFailure[] = [];
+  private readonly notesBySheet: Map<string, string>[] = [];
+  private readonly layouts: PreviewPageLayout[] = [];
   private readonly selectionBySheet = new Map<number, CellBlock>();
 
   private constructor(sheets: readonly DemoSheet[]) {
@@ -230,6 +243,10 @@ export class PreviewWorkbook {
       return map;
     });
     this.widths = sheets.map((sheet) => ({ ...sheet.columnWidths }));
+    sheets.forEach((_, i) => {
+      this.notesBySheet[i] = new Map();
+      this.layouts[i] = {};
+    });
   }
 
   /**
@@ -314,8 +331,161 @@ export class PreviewWorkbook {
     this.formats[id] = new Map();
     this.styles[id] = new Map();
     this.widths[id] = {};
+    this.notesBySheet[id] = new Map();
+    this.layouts[id] = {};
     this.emit('sheet');
     return id;
+  }
+
+  /**
+   * Copies a sheet as Excel's Worksheet.copy does: contents (formulas as they are, so references without a
+   * sheet name read the copy's own cells), number formats, styles, column widths, notes, page layout and
+   * charts (reading the copy's cells). Named "Name (2)", "Name (3)"… The copy goes at the end of the tabs
+   * (HyperFormula cannot reorder sheets; Excel would put it right after the source). Returns its id;
+   * fires 'sheet' and 'charts'. Throws for an unknown sheet.
+   */
+  copySheet(source: number): number {
+    const name = this.hf.getSheetName(source);
+    if (name === undefined) throw new Error(`no sheet ${source}`);
+    let n = 2;
+    while (this.sheetId(`${name} (${n})`) !== undefined) n += 1;
+    // Reading which cells are spilled needs values up to date (HyperFormula refuses while suspended).
+    this.settle();
+    const id = this.addSheet(`${name} (${n})`);
+    const { height, width } = this.hf.getSheetDimensions(source);
+    const contents: (string | number | boolean | null)[][] = [];
+    for (let row = 0; row < height; row += 1) {
+      const line: (string | number | boolean | null)[] = [];
+      for (let col = 0; col < width; col += 1) {
+        const at = { sheet: source, row, col };
+        // A spilled cell is not content: its formula cell fills it again in the copy.
+        const spilled = this.hf.isCellPartOfArray(at) && !this.hf.doesCellHaveFormula(at);
+        const serialized = spilled ? null : this.hf.getCellSerialized(at);
+        line.push(serialized === undefined || serialized === '' ? null : (serialized as string | number | boolean | null));
+      }
+      contents.push(line);
+    }
+    if (height > 0 && width > 0) this.hf.setSheetContent(id, contents);
+    this.formats[id] = new Map(this.formats[source]);
+    this.styles[id] = new Map([...(this.styles[source] ?? new Map<string, CellStyle>())].map(([k, v]) => [k, { ...v }]));
+    this.widths[id] = { ...this.widths[source] };
+    this.notesBySheet[id] = new Map(this.notesBySheet[source]);
+    this.layouts[id] = { ...this.layouts[source] };
+    for (const chart of this.charts(source)) {
+      const copy = this.addChart(id, chart.type, { ...chart.source, sheet: id });
+      copy.title = chart.title;
+      copy.position = { from: { ...chart.position.from }, to: { ...chart.position.to } };
+    }
+    if (this.batchDepth === 0) this.respill();
+    this.emit('cells');
+    this.emit('charts');
+    return id;
+  }
+
+  /** Renames a sheet; fires 'sheet'. Throws HyperFormula's error for a name taken or not valid. */
+  renameSheet(sheet: number, name: string): void {
+    this.hf.renameSheet(sheet, name);
+    this.emit('sheet');
+  }
+
+  /**
+   * Inserts `count` empty rows above row `at` (0-based): HyperFormula moves the cells and adjusts every
+   * formula; number formats, styles, notes and charts move with their cells. Fires 'cells' and 'charts'.
+   */
+  insertRows(sheet: number, at: number, count: number): void {
+    if (!(Number.isInteger(at) && at >= 0 && Number.isInteger(count) && count >= 1)) throw new Error('rows to insert must be whole numbers');
+    if (this.batchDepth > 0 && !this.hf.isEvaluationSuspended()) this.hf.suspendEvaluation();
+    this.hf.addRows(sheet, [at, count]);
+    const moveKey = (key: string): string => {
+      const [r, c] = key.split(',').map(Number) as [number, number];
+      return `${r >= at ? r + count : r},${c}`;
+    };
+    const moveMap = <T>(map: Map<string, T> | undefined): Map<string, T> =>
+      new Map([...(map ?? new Map<string, T>())].map(([k, v]) => [moveKey(k), v]));
+    this.formats[sheet] = moveMap(this.formats[sheet]);
+    this.styles[sheet] = moveMap(this.styles[sheet]);
+    this.notesBySheet[sheet] = moveMap(this.notesBySheet[sheet]);
+    for (const chart of this.charts(sheet)) {
+      const down = (row: number): number => (row >= at ? row + count : row);
+      chart.source = { ...chart.source, row: down(chart.source.row) };
+      chart.position = {
+        from: { row: down(chart.position.from.row), col: chart.position.from.col },
+        to: { row: down(chart.position.to.row), col: chart.position.to.col },
+      };
+    }
+    if (this.batchDepth === 0) this.respill();
+    this.emit('cells');
+    this.emit('charts');
+  }
+
+  /**
+   * Range.clear('All'): contents, number formats, styles and notes of a block. Cells that show part of a
+   * spill whose formula cell lies outside the block stay (the spill is not content). Fires 'cells'.
+   */
+  clearBlock(block: CellBlock): void {
+    if (this.batchDepth > 0 && !this.hf.isEvaluationSuspended()) this.hf.suspendEvaluation();
+    for (let r = 0; r < block.rows; r += 1) {
+      for (let c = 0; c < block.columns; c += 1) {
+        const at = { sheet: block.sheet, row: block.row + r, col: block.col + c };
+        const key = `${at.row},${at.col}`;
+        this.formats[block.sheet]?.delete(key);
+        this.styles[block.sheet]?.delete(key);
+        this.notesBySheet[block.sheet]?.delete(key);
+        const spilled = this.hf.isCellPartOfArray(at) && !this.hf.doesCellHaveFormula(at);
+        const content = this.hf.getCellSerialized(at);
+        if (!spilled && content !== undefined && content !== null && content !== '') this.hf.setCellContents(at, null);
+      }
+    }
+    if (this.batchDepth === 0) this.respill();
+    this.emit('cells');
+  }
+
+  /** The note on a cell, if any. */
+  note(sheet: number, row: number, col: number): string | undefined {
+    return this.notesBySheet[sheet]?.get(`${row},${col}`);
+  }
+
+  /** Puts (or with undefined removes) the note on a cell; fires 'cells'. */
+  setNote(sheet: number, row: number, col: number, text: string | undefined): void {
+    const map = this.notesBySheet[sheet] ?? new Map<string, string>();
+    this.notesBySheet[sheet] = map;
+    if (text === undefined) map.delete(`${row},${col}`);
+    else map.set(`${row},${col}`, text);
+    this.emit('cells');
+  }
+
+  /** The notes of a sheet by A1 address (for tests). */
+  notes(sheet: number): Record<string, string> {
+    return Object.fromEntries(
+      [...(this.notesBySheet[sheet] ?? new Map<string, string>())].map(([k, text]) => {
+        const [r, c] = k.split(',').map(Number) as [number, number];
+        return [`${columnLetters(c)}${r + 1}`, text];
+      }),
+    );
+  }
+
+  /** What a sheet's page layout was set to. */
+  pageLayout(sheet: number): PreviewPageLayout {
+    return { ...(this.layouts[sheet] ?? {}) };
+  }
+
+  /** Sets part of a sheet's page layout. */
+  setPageLayout(sheet: number, patch: PreviewPageLayout): void {
+    this.layouts[sheet] = { ...(this.layouts[sheet] ?? {}), ...patch };
+  }
+
+  /** Left edge of a column and top edge of a row, in points (as Office.js gives range and chart positions). */
+  pointsAt(sheet: number, row: number, col: number): { top: number; left: number } {
+    let left = 0;
+    for (let c = 0; c < col; c += 1) left += (this.columnWidth(sheet, c) ?? DEFAULT_COLUMN_PX) * 0.75;
+    return { top: row * ROW_HEIGHT_PT, left };
+  }
+
+  /** Removes a chart; fires 'charts'. */
+  deleteChart(id: number): void {
+    const i = this.chartList.findIndex((chart) => chart.id === id);
+    if (i >= 0) this.chartList.splice(i, 1);
+    this.emit('charts');
   }
 
   /** Removes a sheet (never the last one) with its charts, formats and styles; fires 'sheet'. Throws for the last sheet. */
@@ -325,6 +495,8 @@ export class PreviewWorkbook {
     this.formats[sheet] = new Map();
     this.styles[sheet] = new Map();
     this.widths[sheet] = {};
+    this.notesBySheet[sheet] = new Map();
+    this.layouts[sheet] = {};
     for (let i = this.chartList.length - 1; i >= 0; i -= 1) if (this.chartList[i]?.sheet === sheet) this.chartList.splice(i, 1);
     if (this.active === sheet) {
       this.active = this.sheetIds()[0] ?? 0;

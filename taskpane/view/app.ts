@@ -1,5 +1,5 @@
 /**
- * The side panel: a tab list (Prior, Plan, Read-out, Explain, Cautions) over the sections, a line
+ * The side panel: a tab list (Prior, Plan, Read-out, Explain, Share, Cautions) over the sections, a line
  * saying what is selected, and the Cautions reachable from every section (its tab, and a link in each
  * section that opens the caution it needs).
  */
@@ -12,8 +12,9 @@ import { explainSection } from './explainSection';
 import { planSection } from './planSection';
 import { priorSection } from './priorSection';
 import { readoutSection } from './readoutSection';
+import { shareSection } from './shareSection';
 
-type TabId = 'prior' | 'plan' | 'readout' | 'explain' | 'cautions';
+type TabId = 'prior' | 'plan' | 'readout' | 'explain' | 'share' | 'cautions';
 
 function cautionsSection(): HTMLElement {
   const accordion = el('fluent-accordion', { id: 'cautions-list' });
@@ -48,6 +49,7 @@ const TABS: readonly (readonly [TabId, string])[] = [
   ['plan', 'Plan'],
   ['readout', 'Read-out'],
   ['explain', 'Explain'],
+  ['share', 'Share'],
   ['cautions', 'Cautions'],
 ];
 
@@ -97,6 +99,7 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook, options:
   sectionsByTab.plan = planSection(context);
   sectionsByTab.readout = readoutSection(context);
   sectionsByTab.explain = explain.element;
+  sectionsByTab.share = shareSection(context);
   sectionsByTab.cautions = cautionsSection();
   for (const [id, section] of Object.entries(sectionsByTab)) {
     section.setAttribute('role', 'tabpanel');

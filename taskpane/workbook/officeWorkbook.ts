@@ -7,7 +7,11 @@
  * offered, valuesAsJson; full-size `formulas` and `numberFormat` writes; getCell, getResizedRange,
  * getColumn, getCellProperties/setCellProperties, format.font/fill/columnWidth/autofitColumns,
  * format.fill.clear, getSpillParentOrNullObject), Chart (title, setPosition, name) and
- * onSelectionChanged.
+ * onSelectionChanged. For copies and printed summaries, within ExcelApi 1.12: Worksheet.copy (1.7),
+ * name, pageLayout (orientation, zoom, setPrintArea, centerHorizontally: 1.9), charts (load of
+ * items/name/top/left, delete); Range getEntireRow, insert, clear, top/left/width/height (1.3),
+ * getSpillingToRangeOrNullObject (1.12), format.columnWidth. Beyond it, only where Office says the host
+ * has it (OPTIONAL_API): Worksheet.notes (getItemOrNullObject, add, Note.content; ExcelApi 1.18).
  *
  * Safety rules kept here, for every section that writes:
  * - Arrays written to a range always have the range's size (the API reference promises nothing for a
@@ -20,20 +24,26 @@
  * - Writes run one at a time: a second click waits for the first write and then finds the area taken.
  */
 import type {
+  Capabilities,
   CellValue,
   ChartOutcome,
   ChartRequest,
+  CopyOutcome,
+  CopyRequest,
   FormulaBlock,
+  FormulaCell,
   OccupiedCell,
   PlaceRequest,
   Places,
   RangeContents,
   ReadLimits,
+  SheetCopyEdits,
+  SheetScan,
   Subscription,
   Workbook,
   WriteOutcome,
 } from './workbook';
-import { READ_LIMITS, REQUIRED_API } from './workbook';
+import { MAX_SCANNED_FORMULAS, OPTIONAL_API, READ_LIMITS, REQUIRED_API } from './workbook';
 import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress, type CellPosition } from './address';
 import { firstFreeRun, MAX_SCAN_CELLS, newSheetName, SHEET_COLUMNS, SHEET_ROWS } from './placement';
 
@@ -113,6 +123,13 @@ function shapeProblem(block: FormulaBlock): string | null {
     if (style.row < 0 || style.column < 0 || r > rows || c > columns) return 'a style lies outside the block';
   }
   if (block.newSheet === true && (block.sheet === undefined || block.sheet === '')) return 'a new sheet needs a name';
+  if ((block.columnWidths !== undefined || block.page !== undefined) && block.newSheet !== true) {
+    return 'column widths and a page layout are set only on a new sheet';
+  }
+  if ((block.columnWidths ?? []).some((w) => !(Number.isFinite(w) && w > 0 && w <= 1000))) {
+    return 'a column width must be above 0 and at most 1000 points';
+  }
+  if ((block.columnWidths?.length ?? 0) > area.columnCount) return 'more column widths than the block has columns';
   return null;
 }
 
@@ -198,6 +215,52 @@ function occupiedCells(origin: CellPosition, formulas: CellValue[][], values: Ce
 function listed(items: readonly string[]): string {
   const shown = items.slice(0, LISTED).join('; ');
   return items.length > LISTED ? `${shown}; and ${items.length - LISTED} more` : shown;
+}
+
+/** A local address without its sheet and "$" signs ("'Past tests'!$B$2:$C$4" → "B2:C4"). */
+function localOf(address: string): string {
+  return address.slice(address.lastIndexOf('!') + 1).replace(/\$/g, '');
+}
+
+/** The local address `rows` rows further down. */
+function shiftedDown(local: string, rows: number): string {
+  const parsed = parseAddress(local);
+  const size = { rowCount: parsed.end.row - parsed.start.row + 1, columnCount: parsed.end.column - parsed.start.column + 1 };
+  return rangeAddress({ row: parsed.start.row + rows, column: parsed.start.column }, size.rowCount, size.columnCount);
+}
+
+/** True when two scans found the same formula cells (addresses, formulas and result ranges). */
+function sameFormulaCells(a: SheetScan, b: SheetScan): boolean {
+  if (a.tooLarge !== b.tooLarge || a.formulaCells.length !== b.formulaCells.length) return false;
+  return a.formulaCells.every((cell, i) => {
+    const other = b.formulaCells[i];
+    return other !== undefined && other.address === cell.address && other.formula === cell.formula && other.result === cell.result;
+  });
+}
+
+/** The parts of `used` outside `keep` (both local addresses), as at most four rectangles. Cost O(1). */
+export function outsideOf(used: string, keep: string): string[] {
+  const u = parseAddress(used);
+  const k = parseAddress(keep);
+  const out: string[] = [];
+  const rect = (r0: number, c0: number, r1: number, c1: number): void => {
+    if (r1 >= r0 && c1 >= c0) out.push(rangeAddress({ row: r0, column: c0 }, r1 - r0 + 1, c1 - c0 + 1));
+  };
+  rect(u.start.row, u.start.column, Math.min(u.end.row, k.start.row - 1), u.end.column);
+  rect(Math.max(u.start.row, k.end.row + 1), u.start.column, u.end.row, u.end.column);
+  const top = Math.max(u.start.row, k.start.row);
+  const bottom = Math.min(u.end.row, k.end.row);
+  rect(top, u.start.column, bottom, Math.min(u.end.column, k.start.column - 1));
+  rect(top, Math.max(u.start.column, k.end.column + 1), bottom, u.end.column);
+  return out;
+}
+
+/** A name Excel gives a copy of `source` before it is renamed: "Plan (2)", "Plan (3)"… */
+function isCopyName(name: string, source: string, wanted: string): boolean {
+  const lower = name.toLowerCase();
+  if (lower === wanted.toLowerCase()) return true;
+  const base = source.toLowerCase();
+  return lower.startsWith(`${base} (`) && /^ \(\d+\)$/.test(lower.slice(base.length));
 }
 
 /**
@@ -411,6 +474,16 @@ export function createOfficeWorkbook(
             .getResizedRange(rowsToFit - 1, size.columnCount - 1)
             .format.autofitColumns();
         }
+        (block.columnWidths ?? []).forEach((width, c) => {
+          target.getColumn(c).format.columnWidth = width;
+        });
+        if (block.page !== undefined) {
+          const layout = sheet.pageLayout;
+          layout.orientation = block.page.orientation as Excel.PageOrientation;
+          if (block.page.fitToOnePage) layout.zoom = { horizontalFitToPages: 1, verticalFitToPages: 1 };
+          if (block.page.printBlockOnly) layout.setPrintArea(areaLocal);
+          layout.centerHorizontally = true;
+        }
         if (newSheet) sheet.activate();
         await context.sync();
       });
@@ -574,6 +647,246 @@ export function createOfficeWorkbook(
     };
   };
 
+  const capabilities = (): Capabilities => ({ notes: supports(OPTIONAL_API.notes.set, OPTIONAL_API.notes.version) });
+
+  /** Every formula cell of the used range, with the range its result fills (one sync per step, three at most). */
+  const scan = (sheetName: string): Promise<SheetScan> =>
+    run(async (context) => {
+      const sheets = context.workbook.worksheets;
+      sheets.load('items/name');
+      const sheet = sheets.getItem(sheetName);
+      const used = sheet.getUsedRangeOrNullObject(true);
+      used.load('address, rowCount, columnCount');
+      const charts = sheet.charts;
+      charts.load('items/name');
+      await context.sync();
+      const base = { sheet: sheetName, charts: charts.items.length, sheetNames: sheets.items.map((s) => s.name) };
+      if (used.isNullObject) return { ...base, range: '', formulaCells: [], tooLarge: false };
+      const local = localOf(used.address);
+      if (used.rowCount > READ_LIMITS.maxRows || used.columnCount > READ_LIMITS.maxColumns) {
+        return { ...base, range: local, formulaCells: [], tooLarge: true };
+      }
+      used.load('formulas, values');
+      await context.sync();
+      const origin = parseAddress(local).start;
+      const values = (used.values as unknown[][]).map((row) => row.map((v) => plainCell(v, undefined)));
+      const found: { r: number; c: number; formula: string }[] = [];
+      (used.formulas as unknown[][]).forEach((row, r) =>
+        row.forEach((f, c) => {
+          if (typeof f === 'string' && f.startsWith('=')) found.push({ r, c, formula: f });
+        }),
+      );
+      if (found.length > MAX_SCANNED_FORMULAS) return { ...base, range: local, formulaCells: [], tooLarge: true };
+      const spills = found.map(({ r, c }) => {
+        const spill = used.getCell(r, c).getSpillingToRangeOrNullObject();
+        spill.load('address');
+        return spill;
+      });
+      if (found.length > 0) await context.sync();
+      const formulaCells: FormulaCell[] = found.map(({ r, c, formula }, i) => {
+        const address = cellAddress({ row: origin.row + r, column: origin.column + c });
+        const spill = spills[i] as Excel.Range;
+        const result = spill.isNullObject ? address : localOf(spill.address);
+        const extent = parseAddress(result);
+        const shown: CellValue[][] = [];
+        for (let row = extent.start.row; row <= extent.end.row; row += 1) {
+          const line: CellValue[] = [];
+          for (let col = extent.start.column; col <= extent.end.column; col += 1) {
+            line.push(values[row - origin.row]?.[col - origin.column] ?? '');
+          }
+          shown.push(line);
+        }
+        return { address, formula, result, values: shown };
+      });
+      return { ...base, range: local, formulaCells, tooLarge: false };
+    });
+
+  /** Delete the sheets a failed copy made (its name, or Excel's "Source (2)" before renaming) and check. */
+  const undoCopy = async (
+    request: CopyRequest,
+    before: readonly string[],
+    cause: { code: string; message: string },
+  ): Promise<CopyOutcome> => {
+    const known = new Set(before.map((name) => name.toLowerCase()));
+    const made = (names: readonly string[]): string[] =>
+      names.filter((name) => !known.has(name.toLowerCase()) && isCopyName(name, request.source, request.newSheet));
+    let unrestored: string[];
+    try {
+      unrestored = await run(async (context) => {
+        const sheets = context.workbook.worksheets;
+        sheets.load('items/name');
+        await context.sync();
+        const extra = made(sheets.items.map((sheet) => sheet.name));
+        if (extra.length === 0) return [];
+        for (const name of extra) context.workbook.worksheets.getItem(name).delete();
+        await context.sync();
+        const check = context.workbook.worksheets;
+        check.load('items/name');
+        await context.sync();
+        return made(check.items.map((sheet) => sheet.name)).map((name) => `the sheet "${name}" (delete it by hand)`);
+      });
+    } catch (error) {
+      unrestored = [`a sheet the copy had started may remain (${describeError(error).message})`];
+    }
+    const restored = unrestored.length === 0;
+    return {
+      kind: 'failed',
+      code: cause.code,
+      message: restored
+        ? `the copy could not be made (${cause.message}); no part of it is left in the workbook (checked), and "${request.source}" was not touched`
+        : `the copy failed (${cause.message}) and ${listed(unrestored)} could not be removed; check the workbook`,
+      restored,
+      unrestored,
+    };
+  };
+
+  const copyOnce = async (request: CopyRequest): Promise<CopyOutcome> => {
+    const fail = (code: string, message: string): CopyOutcome => ({
+      kind: 'failed',
+      code,
+      message,
+      restored: true,
+      unrestored: [],
+    });
+    const host = hostProblem();
+    if (host !== null) return fail('NotSupported', `${host}; nothing was copied`);
+    if (!(Number.isInteger(request.headerRows) && request.headerRows >= 0 && request.headerRows <= 10)) {
+      return fail('InvalidArgument', 'the header rows must be a whole number from 0 to 10; nothing was copied');
+    }
+    let fresh: SheetScan;
+    try {
+      fresh = await scan(request.source);
+    } catch (error) {
+      const { code, message } = describeError(error);
+      return fail(code, `could not read the sheet "${request.source}": ${message}; nothing was copied`);
+    }
+    if (!sameFormulaCells(fresh, request.shown)) return { kind: 'changed', scan: fresh };
+    if (fresh.tooLarge) {
+      return fail('InvalidArgument', `"${request.source}" is too large for the panel to copy (${fresh.range}); nothing was copied`);
+    }
+    const problem = request.problem(fresh);
+    if (problem !== null) return fail('NotReady', `${problem}; nothing was copied`);
+    const wanted = request.newSheet.toLowerCase();
+    if (request.newSheet.trim() === '' || fresh.sheetNames.some((name) => name.toLowerCase() === wanted)) {
+      return fail('InvalidArgument', `a sheet named "${request.newSheet}" exists already; nothing was copied`);
+    }
+    const notesOffered = capabilities().notes;
+    try {
+      // 1. The copy right after its source and its header rows; then its own formulas and number formats.
+      const read = await run(async (context) => {
+        const source = context.workbook.worksheets.getItem(request.source);
+        const copy = source.copy('After' as Excel.WorksheetPositionType, source);
+        copy.name = request.newSheet;
+        if (request.headerRows > 0) {
+          copy
+            .getRange('A1')
+            .getResizedRange(request.headerRows - 1, 0)
+            .getEntireRow()
+            .insert('Down' as Excel.InsertShiftDirection);
+        }
+        await context.sync();
+        if (fresh.range === '') return null;
+        const shifted = shiftedDown(fresh.range, request.headerRows);
+        const range = copy.getRange(shifted);
+        range.load('formulas, numberFormat');
+        await context.sync();
+        return {
+          origin: parseAddress(shifted).start,
+          formulas: range.formulas as unknown[][],
+          numberFormat: range.numberFormat as unknown[][],
+        };
+      });
+      /** What the copy held at a cell (its formula or number format), read in step 1. */
+      const at = (grid: 'formulas' | 'numberFormat', row: number, column: number): unknown =>
+        read === null ? undefined : read[grid][row - read.origin.row]?.[column - read.origin.column];
+      const copyFormula = (address: string): string => {
+        const p = parseAddress(address).start;
+        const f = at('formulas', p.row, p.column);
+        return typeof f === 'string' && f.startsWith('=') ? f : '';
+      };
+      const edits: SheetCopyEdits = request.edits(fresh, copyFormula);
+      if (edits.notes.length > 0 && !notesOffered) {
+        throw Object.assign(new Error(`this Excel cannot add notes (Excel JavaScript API ${OPTIONAL_API.notes.version})`), {
+          code: 'NotSupported',
+        });
+      }
+      // 2. The edits, then the notes (appended to notes the copy brought along), then the charts outside.
+      return await run(async (context): Promise<CopyOutcome> => {
+        const copy = context.workbook.worksheets.getItem(request.newSheet);
+        let keep: Excel.Range | null = null;
+        if (edits.keepOnly !== undefined) {
+          const used = copy.getUsedRangeOrNullObject(false);
+          used.load('address');
+          await context.sync();
+          if (!used.isNullObject) {
+            for (const rect of outsideOf(localOf(used.address), edits.keepOnly)) {
+              copy.getRange(rect).clear('All' as Excel.ClearApplyTo);
+            }
+          }
+          keep = copy.getRange(edits.keepOnly);
+          keep.load('top, left, width, height');
+        }
+        for (const edit of edits.values) {
+          const start = parseAddress(edit.address).start;
+          copy.getRange(edit.address).formulas = edit.values.map((row, r) =>
+            row.map((value, c) =>
+              typeof value === 'string'
+                ? keepText(value, String(at('numberFormat', start.row + r, start.column + c) ?? 'General'))
+                : value,
+            ),
+          );
+        }
+        for (const text of edits.texts) {
+          const cell = copy.getRange(text.address);
+          cell.formulas = [[keepText(text.text, 'General')]];
+          if (text.bold === true) cell.format.font.bold = true;
+        }
+        const existing = edits.notes.map((note) => {
+          const found = copy.notes.getItemOrNullObject(note.address);
+          found.load('content');
+          return found;
+        });
+        const charts = copy.charts;
+        charts.load(keep === null ? 'items/name' : 'items/name, items/top, items/left');
+        await context.sync();
+        edits.notes.forEach((note, i) => {
+          const found = existing[i] as Excel.Note;
+          if (found.isNullObject) copy.notes.add(note.address, note.text);
+          else found.content = `${found.content}\n\n${note.text}`;
+        });
+        let removed = 0;
+        if (keep !== null) {
+          const box = keep;
+          for (const chart of charts.items) {
+            const inside =
+              chart.top >= box.top - 0.5 &&
+              chart.top < box.top + box.height &&
+              chart.left >= box.left - 0.5 &&
+              chart.left < box.left + box.width;
+            if (!inside) {
+              chart.delete();
+              removed += 1;
+            }
+          }
+        }
+        copy.activate();
+        const used = copy.getUsedRangeOrNullObject(true);
+        used.load('address');
+        await context.sync();
+        return {
+          kind: 'written',
+          sheet: request.newSheet,
+          address: used.isNullObject ? `${quoteSheet(request.newSheet)}!A1` : used.address,
+          chartsKept: charts.items.length - removed,
+          chartsRemoved: removed,
+          notes: edits.notes.length,
+        };
+      });
+    } catch (error) {
+      return undoCopy(request, fresh.sheetNames, describeError(error));
+    }
+  };
+
   return {
     hostProblem,
 
@@ -711,6 +1024,16 @@ export function createOfficeWorkbook(
         const { code, message } = describeError(error);
         return { kind: 'failed', code, message: `the chart could not be added (${message})` };
       }
+    },
+
+    capabilities,
+
+    scanSheet(sheet: string): Promise<SheetScan> {
+      return scan(sheet);
+    },
+
+    copySheet(request: CopyRequest): Promise<CopyOutcome> {
+      return oneAtATime(() => copyOnce(request));
     },
 
     async onSelectionChanged(listener: () => void): Promise<Subscription> {

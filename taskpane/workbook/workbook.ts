@@ -101,6 +101,19 @@ export interface FormulaBlock {
    * first rows only (so a long note below does not make a column wide). Default false.
    */
   readonly autofit?: boolean | { readonly rows: number };
+  /** Widths of the block's first columns, in points (Excel's unit). Only on a new sheet (`newSheet`). */
+  readonly columnWidths?: readonly number[];
+  /** How the new sheet prints (page layout, ExcelApi 1.9). Only on a new sheet (`newSheet`). */
+  readonly page?: PageSetup;
+}
+
+/** How a sheet prints: its orientation, fitted on one page, the block as its print area. */
+export interface PageSetup {
+  readonly orientation: 'Portrait' | 'Landscape';
+  /** Shrink the print to one page wide and one page tall. */
+  readonly fitToOnePage: boolean;
+  /** Print only the block's area (set as the sheet's print area). */
+  readonly printBlockOnly: boolean;
 }
 
 /** How a block write ended. Nothing is ever left half-written without saying exactly what. */
@@ -178,6 +191,119 @@ export interface Subscription {
 /** The Excel JavaScript API requirement set the panel's workbook code needs (also declared in the manifest). */
 export const REQUIRED_API = { set: 'ExcelApi', version: '1.12' } as const;
 
+/**
+ * Requirement sets some actions use beyond REQUIRED_API. The manifest does not require them (that would hide
+ * the add-in from every Excel without them); the panel asks Office at run time and offers the nearest thing.
+ */
+export const OPTIONAL_API = {
+  /**
+   * Cell notes (Worksheet.notes, Note): the shareable copy keeps each formula in a note on its value; without
+   * them, in a "How computed" column beside the values.
+   */
+  notes: { set: 'ExcelApi', version: '1.18' },
+} as const;
+
+/** What this Excel offers beyond REQUIRED_API (see OPTIONAL_API). */
+export interface Capabilities {
+  readonly notes: boolean;
+}
+
+/** A formula cell found by a scan of a sheet. */
+export interface FormulaCell {
+  /** Local address of the formula cell ("B11"). */
+  readonly address: string;
+  /** Its formula as Excel gives it ("=ABTEST.PROB_HIGHEST(C4:C6, B4:B6)"). */
+  readonly formula: string;
+  /** Local address of the cells its result fills: the whole spill ("B11:B13"), or the cell itself. */
+  readonly result: string;
+  /** Shown values over `result` (errors as text, "#N/A"). */
+  readonly values: CellValue[][];
+}
+
+/** What a scan of a sheet found: its used range and every formula cell in it with the cells its result fills. */
+export interface SheetScan {
+  readonly sheet: string;
+  /** Local address of the used range ("A1:N99"), "" for an empty sheet. */
+  readonly range: string;
+  readonly formulaCells: readonly FormulaCell[];
+  /** Native charts on the sheet. */
+  readonly charts: number;
+  /** Names of all sheets of the workbook when the scan was made (for naming a copy). */
+  readonly sheetNames: readonly string[];
+  /**
+   * True when the used range is larger than the panel reads (READ_LIMITS) or holds more formula cells than
+   * MAX_SCANNED_FORMULAS: then `formulaCells` is empty and nothing may be copied from the scan.
+   */
+  readonly tooLarge: boolean;
+}
+
+/** The most formula cells a scan looks up one by one (each needs its spill range). */
+export const MAX_SCANNED_FORMULAS = 20_000;
+
+/** What to change on a sheet's copy (addresses are the copy's, after its header rows went in). */
+export interface SheetCopyEdits {
+  /**
+   * Keep only these cells: everything else on the copy is cleared and charts whose top-left corner lies
+   * outside are deleted. Undefined keeps the whole sheet.
+   */
+  readonly keepOnly?: string;
+  /** Plain values written over cells (frozen results): numbers, text and TRUE/FALSE; "#N/A"-like text is written as that error. */
+  readonly values: readonly { readonly address: string; readonly values: readonly (readonly CellValue[])[] }[];
+  /** Text written into single cells (the header line, a "How computed" column). */
+  readonly texts: readonly { readonly address: string; readonly text: string; readonly bold?: boolean }[];
+  /** Notes added to single cells (OPTIONAL_API.notes); a note already there keeps its text and gets ours appended. */
+  readonly notes: readonly { readonly address: string; readonly text: string }[];
+}
+
+/**
+ * A copy of a sheet with some of its cells changed, as one all-or-nothing action: a new sheet right after the
+ * source, its header rows inserted at the top, then the edits. The source sheet is never written.
+ */
+export interface CopyRequest {
+  readonly source: string;
+  /** Name of the copy: a sheet of that name must not exist at the moment of copying. */
+  readonly newSheet: string;
+  /**
+   * The scan the user was shown. The source is scanned again at the moment of copying; if its formula cells
+   * differ (addresses, formulas or result ranges), nothing is written and the outcome is 'changed'.
+   */
+  readonly shown: SheetScan;
+  /** Empty rows inserted at the top of the copy (Excel moves formulas, charts and notes down with the cells). */
+  readonly headerRows: number;
+  /** A reason not to copy this scan (e.g. results still being computed), or null. Checked before anything is written. */
+  problem(scan: SheetScan): string | null;
+  /**
+   * The edits, from the fresh scan and the copy's own formulas (read after the header rows went in, so their
+   * references are the copy's): `copyFormula("B12")` is the formula now in B12 of the copy, or "" for none.
+   */
+  edits(scan: SheetScan, copyFormula: (address: string) => string): SheetCopyEdits;
+}
+
+/** How a sheet copy ended. */
+export type CopyOutcome =
+  /** The copy exists, with every edit made; `sheet` is its name, `address` its used range (qualified). */
+  | {
+      readonly kind: 'written';
+      readonly sheet: string;
+      readonly address: string;
+      readonly chartsKept: number;
+      readonly chartsRemoved: number;
+      readonly notes: number;
+    }
+  /** Nothing was written: the source's formula cells changed since `shown`; `scan` is how they are now. */
+  | { readonly kind: 'changed'; readonly scan: SheetScan }
+  /**
+   * Nothing was copied, or the copy failed and was deleted again (then checked: `restored` is true only when
+   * no sheet the action made is left; otherwise `unrestored` names it).
+   */
+  | {
+      readonly kind: 'failed';
+      readonly code: string;
+      readonly message: string;
+      readonly restored: boolean;
+      readonly unrestored: readonly string[];
+    };
+
 /** Everything the side panel may do to a workbook. */
 export interface Workbook {
   /**
@@ -200,6 +326,15 @@ export interface Workbook {
   writeBlock(block: FormulaBlock): Promise<WriteOutcome>;
   /** Insert a native chart. Never rejects: failures are outcomes. */
   insertChart(request: ChartRequest): Promise<ChartOutcome>;
+  /** What this Excel offers beyond REQUIRED_API (OPTIONAL_API), asked of Office at run time. */
+  capabilities(): Capabilities;
+  /** Every formula cell of a sheet's used range, with its spill. Rejects with the Office error for an unknown sheet. */
+  scanSheet(sheet: string): Promise<SheetScan>;
+  /**
+   * Copy a sheet and change the copy (see CopyRequest), all or nothing: a failure deletes whatever sheet the
+   * action made and checks that it is gone. Runs one at a time with writeBlock. Never rejects: failures are outcomes.
+   */
+  copySheet(request: CopyRequest): Promise<CopyOutcome>;
   /** Call `listener` after every selection change (it re-reads the selection itself). */
   onSelectionChanged(listener: () => void): Promise<Subscription>;
 }

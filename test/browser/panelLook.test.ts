@@ -19,7 +19,7 @@ import * as fs from 'fs';
 import * as path from 'path';
 
 const WIDTHS = { wide: 560, narrow: 350 } as const;
-const SECTIONS = ['prior', 'plan', 'readout', 'explain', 'cautions'] as const;
+const SECTIONS = ['prior', 'plan', 'readout', 'explain', 'share', 'cautions'] as const;
 
 /** Saves the side panel alone (the whole pane, top to bottom) to test-artifacts/<name>.png. */
 async function shootPanel(page: Page, frame: Frame, name: string): Promise<string> {
@@ -54,6 +54,12 @@ async function prepare(page: Page, frame: Frame, section: (typeof SECTIONS)[numb
       await switchSheet(page, 'Checkout test');
       await selectCell(page, 'B24');
       await frame.locator('#explain-chart-box:not([hidden])').waitFor();
+      break;
+    case 'share':
+      await switchSheet(page, 'Checkout test');
+      await selectCell(page, 'A3');
+      await frame.locator('#share-look').click();
+      await frame.locator('#share-plan-text').waitFor();
       break;
     case 'cautions':
       await frame.locator('#caution-variants').click();
@@ -96,7 +102,7 @@ describe('the side panel as it looks', () => {
           shots.push(await shootPanel(page, frame, `look-${theme}-${widthName}-${section}`));
         }
       }
-      expect(shots).toHaveLength(10);
+      expect(shots).toHaveLength(SECTIONS.length * 2);
       for (const file of shots) expect(fs.statSync(file).size).toBeGreaterThan(10_000);
       expect(preview.pageErrors).toEqual([]);
     });

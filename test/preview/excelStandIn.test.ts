@@ -304,7 +304,10 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
 
   it('answers requirement-set questions for the subset it implements', () => {
     const ask = office.Office.context.requirements.isSetSupported;
-    expect([ask('ExcelApi', '1.1'), ask('ExcelApi', '1.12'), ask('ExcelApi', '1.16'), ask('ExcelApi', '1.17'), ask('WordApi', '1.1')]).toEqual([true, true, true, false, false]);
+    expect([ask('ExcelApi', '1.1'), ask('ExcelApi', '1.12'), ask('ExcelApi', '1.18'), ask('ExcelApi', '1.19'), ask('WordApi', '1.1')]).toEqual([true, true, true, false, false]);
+    // `?api=1.16` on the preview's address: an Excel without notes (Worksheet.notes is ExcelApi 1.18).
+    const older = createOfficeStandIn(book, realm, '1.16').Office.context.requirements.isSetSupported;
+    expect([older('ExcelApi', '1.16'), older('ExcelApi', '1.18')]).toEqual([true, false]);
   });
 
   it('writes a block, then undoes a write made to fail half-way: contents, formats, fills and widths come back', async () => {
@@ -382,5 +385,72 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
       [{ type: 'String', basicType: 'String', basicValue: 'Visitors' }, { type: 'String', basicType: 'String', basicValue: 'Conversions' }],
       [{ type: 'Double', basicType: 'Double', basicValue: 100 }, { type: 'Double', basicType: 'Double', basicValue: 7 }],
     ]);
+  });
+
+  /** A copy request for the whole of 'Data' with one result frozen (the rules of the panel's plan, by hand). */
+  const copyRequest = (notes: boolean): import('../../taskpane/workbook/workbook').CopyRequest => ({
+    source: 'Data',
+    newSheet: 'Data (shared)',
+    shown: { sheet: 'Data', range: 'A1:D3', formulaCells: [], charts: 0, sheetNames: [], tooLarge: false },
+    headerRows: 1,
+    problem: () => null,
+    edits: (scan, copyFormula) => {
+      const cell = scan.formulaCells[0];
+      if (!cell) throw new Error('no formula found');
+      const at = 'D3'; // D2 of the source, one header row further down
+      return {
+        values: [{ address: 'D3:D4', values: cell.values }],
+        texts: [{ address: 'A1', text: 'Frozen copy', bold: true }, ...(notes ? [] : [{ address: 'E3', text: copyFormula(at) }])],
+        notes: notes ? [{ address: at, text: copyFormula(at) }] : [],
+      };
+    },
+  });
+
+  it('copies a sheet after a header row, freezes a spilled result and keeps its formula in a note; the source stays live', async () => {
+    book.write(0, 1, 3, [['=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)']]);
+    const shown = await layer().scanSheet('Data');
+    expect(shown.formulaCells.map((c) => [c.address, c.result])).toEqual([['D2', 'D2:D3']]);
+    const out = await layer().copySheet({ ...copyRequest(true), shown });
+    expect(out).toMatchObject({ kind: 'written', sheet: 'Data (shared)', notes: 1 });
+    const copy = book.sheetId('Data (shared)') as number;
+    // The copy's formula reads its own rows, moved down by the header row (HyperFormula adjusts it on insert).
+    expect(book.notes(copy)).toEqual({ D3: '=ABTEST.POSTERIOR_MEAN(B3:B4, A3:A4)' });
+    expect(book.cell(copy, 0, 0).input).toBe('Frozen copy');
+    // Closed form (1 + x)/(2 + n) of the fixture: (1 + 7)/(2 + 100) and (1 + 15)/(2 + 120), now plain values.
+    expect([book.cell(copy, 2, 3), book.cell(copy, 3, 3)].map((c) => [c.input, c.value])).toEqual([
+      [String(8 / 102), 8 / 102],
+      [String(16 / 122), 16 / 122],
+    ]);
+    expect(book.cell(0, 1, 3).input).toBe('=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)');
+  });
+
+  it('on an Excel without notes (ExcelApi 1.16) says so in its capabilities, and a copy asked with notes fails with NotSupported and leaves no copy; without notes it is made', async () => {
+    office = createOfficeStandIn(book, realm, '1.16');
+    book.write(0, 1, 3, [['=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)']]);
+    expect(layer().capabilities()).toEqual({ notes: false });
+    const shown = await layer().scanSheet('Data');
+    const refused = await layer().copySheet({ ...copyRequest(true), shown });
+    expect(refused).toMatchObject({ kind: 'failed', code: 'NotSupported', restored: true });
+    expect((refused as { message: string }).message).toMatch(/cannot add notes \(Excel JavaScript API 1\.18\)/);
+    expect(book.sheetNames()).toEqual(['Data', 'Past tests']);
+    const out = await layer().copySheet({ ...copyRequest(false), shown });
+    expect(out).toMatchObject({ kind: 'written', notes: 0 });
+    const copy = book.sheetId('Data (shared)') as number;
+    // The formula as text beside its value (written as text, so it does not compute), and no note anywhere.
+    expect(book.cell(copy, 2, 4).value).toBe('=ABTEST.POSTERIOR_MEAN(B3:B4, A3:A4)');
+    expect(book.notes(copy)).toEqual({});
+    expect([book.cell(copy, 2, 3).input, book.cell(copy, 2, 3).value]).toEqual([String(8 / 102), 8 / 102]);
+  });
+
+  it('an Excel without notes refuses notes.add at sync with ApiNotFound, as an unknown API fails', async () => {
+    office = createOfficeStandIn(book, realm, '1.16');
+    const code = await codeOf(
+      office.Excel.run(async (context) => {
+        context.workbook.worksheets.getItem('Data').notes.add('A1', 'a note');
+        await context.sync();
+      }),
+    );
+    expect(code).toBe('ApiNotFound');
+    expect(book.notes(0)).toEqual({});
   });
 });

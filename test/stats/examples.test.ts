@@ -321,7 +321,6 @@ function run(example: Example, scopes: Scopes): string[] {
     if (m !== undefined) problems.push(`${example.file}:${c.line}: ${m}`);
   };
   const names = [...scope.keys()];
-  // eslint-disable-next-line @typescript-eslint/no-implied-eval
   const body = new Function(...names, '__check', js) as (...args: unknown[]) => void;
   body(...names.map((n) => scope.get(n)), check);
   example.checks.forEach((c, k) => {

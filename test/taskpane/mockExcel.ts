@@ -10,10 +10,20 @@
  *   roll back a failed batch), so tests can check that the panel puts everything back;
  * - a spilled result can be placed (`spill`): its other cells report the shown value as their formula
  *   (from memory of Excel's behaviour) and getSpillParentOrNullObject names the formula cell; a spilled
- *   cell that is written over and cleared again shows its spilled value again (Excel re-spills).
+ *   cell that is written over and cleared again shows its spilled value again (Excel re-spills);
+ *   getSpillingToRangeOrNullObject on the formula cell gives the whole spill;
+ * - a sheet can be copied (Worksheet.copy: cells, widths, notes, charts and page layout come along, the copy
+ *   is named "Name (2)" until renamed) and renamed; inserting whole rows (getEntireRow().insert) moves
+ *   cells, notes and charts down and adjusts the references of the sheet's own formulas (the tokenizer of
+ *   cli/core/formula.ts); Range.clear removes cells and their notes;
+ * - notes (Worksheet.notes: getItemOrNullObject, add, content; ExcelApi 1.18) are offered only when
+ *   `apiVersion` is at least 1.18; charts have top/left in points and can be listed and deleted; ranges
+ *   have top/left/width/height (rows 15 points high, columns their width); pageLayout records
+ *   orientation, zoom, centerHorizontally and the print area.
  * The mock does not calculate: a formula cell shows its formula text as its value.
  */
 import { OfficeMockObject } from 'office-addin-mock';
+import { tokenize } from '../../cli/core/formula';
 import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress } from '../../taskpane/workbook/address';
 import type { CellValue } from '../../taskpane/workbook/workbook';
 import type { ExcelRunner, SupportCheck } from '../../taskpane/workbook/officeWorkbook';
@@ -41,6 +51,14 @@ export interface MockChart {
   title: string;
   position: [string, string] | null;
   name: string;
+}
+
+/** What a sheet's page layout was set to (undefined: never set). */
+export interface MockPageLayout {
+  orientation?: string;
+  zoom?: { horizontalFitToPages?: number; verticalFitToPages?: number; scale?: number };
+  centerHorizontally?: boolean;
+  printArea?: string;
 }
 
 /** Make a sync fail: which call (1-based, counted over the harness's life), the error code, and whether part of the batch lands first. */
@@ -84,12 +102,49 @@ export interface MockExcel {
   formulas(sheet: string, address: string): CellValue[][];
   sheetNames(): string[];
   columnWidth(sheet: string, column: string): number;
+  /** The notes of a sheet by local address. */
+  notes(sheet: string): Record<string, string>;
+  /** Put a note on a cell (as a user would). */
+  addNote(sheet: string, address: string, text: string): void;
+  /** What a sheet's page layout was set to. */
+  pageLayout(sheet: string): MockPageLayout;
+  /** Place a chart by hand (as a user would): its source block and the cells it covers. */
+  addChart(sheet: string, source: string, from: string, to: string, title: string): void;
   /** A deep copy of every cell and column width, to compare before and after. */
   snapshot(): string;
 }
 
 const key = (row: number, column: number): string => `${row},${column}`;
 const DEFAULT_WIDTH = 48;
+/** Row height in points (Excel's default for its default font, from memory). */
+const ROW_HEIGHT = 15;
+
+/** A cell reference's end as text, keeping its "$" signs. */
+function refEndText(end: { row?: number; col?: number; rowAbsolute: boolean; colAbsolute: boolean }): string {
+  const col = end.col === undefined ? '' : `${end.colAbsolute ? '$' : ''}${columnLetters(end.col)}`;
+  const row = end.row === undefined ? '' : `${end.rowAbsolute ? '$' : ''}${end.row + 1}`;
+  return col + row;
+}
+
+/**
+ * A formula after `count` rows were inserted above row `at` of `sheet` (0-based): its references to that
+ * sheet (without a sheet name, or naming it) at or below the row move down, "$" or not, as Excel does.
+ */
+function insertRowsInFormula(formula: string, sheet: string, at: number, count: number): string {
+  let out = '';
+  let from = 0;
+  for (const token of tokenize(formula)) {
+    if (token.type !== 'ref') continue;
+    if (token.sheet !== undefined && token.sheet.name.toLowerCase() !== sheet.toLowerCase()) continue;
+    const move = <E extends { row?: number }>(end: E): E =>
+      end.row !== undefined && end.row >= at ? { ...end, row: end.row + count } : end;
+    const first = move(token.first);
+    const last = token.last ? move(token.last) : undefined;
+    out += formula.slice(from, token.start) + token.sheetText + refEndText(first) + (last ? `:${refEndText(last)}` : '');
+    from = token.end;
+  }
+  return out + formula.slice(from);
+}
 const SIZE_MISMATCH =
   "The number of rows or columns in the input array doesn't match the size or dimensions of the range.";
 
@@ -132,12 +187,21 @@ export function mockExcel(sheets: string[]): MockExcel {
   const grid = new Map<string, Map<string, MockCell>>(sheets.map((s) => [s, new Map()]));
   const widths = new Map<string, Map<number, number>>(sheets.map((s) => [s, new Map()]));
   const charts: MockChart[] = [];
+  const notes = new Map<string, Map<string, string>>(sheets.map((s) => [s, new Map()]));
+  const layouts = new Map<string, MockPageLayout>(sheets.map((s) => [s, {}]));
+  /** Old name → new name after a rename, so ranges made before a rename in the same batch find their sheet. */
+  const aliases = new Map<string, string>();
+  const real = (sheet: string): string => {
+    let name = sheet;
+    for (let i = 0; i < 100 && aliases.has(name); i += 1) name = aliases.get(name) as string;
+    return name;
+  };
   const handlers: (() => void)[] = [];
   const partialSnapshots: string[] = [];
   const writeLog: string[] = [];
 
   const sheetCells = (sheet: string): Map<string, MockCell> => {
-    const cells = grid.get(sheet);
+    const cells = grid.get(real(sheet));
     if (cells === undefined) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${sheet}`);
     return cells;
   };
@@ -169,12 +233,111 @@ export function mockExcel(sheets: string[]): MockExcel {
     delete cell.json;
   };
 
+  /** Left edge of a column in points (the widths of the columns before it). */
+  const leftOf = (sheet: string, column: number): number => {
+    let sum = 0;
+    for (let c = 0; c < column; c += 1) sum += widths.get(real(sheet))?.get(c) ?? DEFAULT_WIDTH;
+    return sum;
+  };
+  /** The cells a formula cell's result fills (local address), or null when it does not spill. */
+  const spillExtent = (sheet: string, row: number, column: number): string | null => {
+    const anchor = cellAddress({ row, column });
+    let bottom = row;
+    let right = column;
+    let found = false;
+    for (const [k, cell] of sheetCells(sheet)) {
+      if (cell.spill?.parent !== anchor || cell.formula !== '') continue;
+      const [r, c] = k.split(',').map(Number) as [number, number];
+      bottom = Math.max(bottom, r);
+      right = Math.max(right, c);
+      found = true;
+    }
+    return found ? rangeAddress({ row, column }, bottom - row + 1, right - column + 1) : null;
+  };
+  const shiftCell = (address: string, at: number, count: number): string => {
+    const p = parseAddress(address).start;
+    return cellAddress({ row: p.row >= at ? p.row + count : p.row, column: p.column });
+  };
+  const shiftRange = (address: string, at: number, count: number): string => {
+    const p = parseAddress(address);
+    const start = shiftCell(cellAddress(p.start), at, count);
+    const end = shiftCell(cellAddress(p.end), at, count);
+    return start === end ? start : `${start}:${end}`;
+  };
+  /** Whole rows inserted above row `at` (0-based): cells, notes and charts move down; the sheet's formulas follow. */
+  const insertRows = (sheet: string, at: number, count: number): void => {
+    const name = real(sheet);
+    const cells = sheetCells(name);
+    const moved = new Map<string, MockCell>();
+    for (const [k, cell] of cells) {
+      const [r, c] = k.split(',').map(Number) as [number, number];
+      if (typeof cell.formula === 'string' && cell.formula.startsWith('=')) {
+        cell.formula = insertRowsInFormula(cell.formula, name, at, count);
+      }
+      if (cell.spill) cell.spill = { ...cell.spill, parent: shiftCell(cell.spill.parent, at, count) };
+      moved.set(key(r >= at ? r + count : r, c), cell);
+    }
+    grid.set(name, moved);
+    const sheetNotes = notes.get(name) ?? new Map<string, string>();
+    notes.set(name, new Map([...sheetNotes].map(([a, text]) => [shiftCell(a, at, count), text])));
+    for (const chart of charts) {
+      if (chart.sheet !== name) continue;
+      chart.source = shiftRange(chart.source, at, count);
+      if (chart.position) chart.position = [shiftCell(chart.position[0], at, count), shiftCell(chart.position[1], at, count)];
+    }
+  };
+  /** Range.clear('All'): the cells and their notes go. */
+  const clearCells = (sheet: string, top: number, left: number, rows: number, columns: number): void => {
+    const name = real(sheet);
+    const cells = sheetCells(name);
+    for (let r = top; r < top + rows; r += 1) {
+      for (let c = left; c < left + columns; c += 1) {
+        cells.delete(key(r, c));
+        notes.get(name)?.delete(cellAddress({ row: r, column: c }));
+      }
+    }
+  };
+  /** Worksheet.copy(After, source): everything of the sheet, as a new sheet right after it. */
+  const copySheetNow = (source: string, name: string): void => {
+    const from = real(source);
+    if (grid.has(name)) throw officeError('ItemAlreadyExists', `A sheet named ${name} already exists.`);
+    const cells = new Map([...sheetCells(from)].map(([k, cell]) => [k, { ...cell, ...(cell.spill ? { spill: { ...cell.spill } } : {}) }]));
+    const entries = [...grid.entries()];
+    const index = entries.findIndex(([n]) => n === from);
+    entries.splice(index + 1, 0, [name, cells]);
+    grid.clear();
+    for (const [n, c] of entries) grid.set(n, c);
+    widths.set(name, new Map(widths.get(from)));
+    notes.set(name, new Map(notes.get(from)));
+    layouts.set(name, { ...layouts.get(from) });
+    for (const chart of charts.filter((c) => c.sheet === from)) {
+      charts.push({ ...chart, sheet: name, position: chart.position ? [...chart.position] : null, name: `Chart ${charts.length + 1}` });
+    }
+  };
+  const renameSheet = (from: string, to: string): void => {
+    const old = real(from);
+    if (old === to) return;
+    if (grid.has(to)) throw officeError('ItemAlreadyExists', `A sheet named ${to} already exists.`);
+    const entries = [...grid.entries()].map(([n, c]) => [n === old ? to : n, c] as [string, Map<string, MockCell>]);
+    grid.clear();
+    for (const [n, c] of entries) grid.set(n, c);
+    for (const map of [widths, notes, layouts] as Map<string, unknown>[]) {
+      if (map.has(old)) {
+        map.set(to, map.get(old));
+        map.delete(old);
+      }
+    }
+    for (const chart of charts) if (chart.sheet === old) chart.sheet = to;
+    if (state.activeSheet === old) state.activeSheet = to;
+    aliases.set(old, to);
+  };
+
   const state = {
     selection: { sheet: sheets[0] ?? 'Sheet1', address: 'A1' },
     activeSheet: sheets[0] ?? 'Sheet1',
     failures: [] as SyncFailure[],
     syncCalls: 0,
-    apiVersion: '1.16',
+    apiVersion: '1.18',
   };
 
   const supports: SupportCheck = (set, version) =>
@@ -203,10 +366,10 @@ export function mockExcel(sheets: string[]): MockExcel {
     };
 
     const makeRange = (sheet: string, top: number, left: number, rows: number, columns: number): OfficeMockObject => {
-      if (!grid.has(sheet) && !newSheets.has(sheet))
+      if (!grid.has(real(sheet)) && !newSheets.has(sheet))
         throw officeError('ItemNotFound', `The requested resource doesn't exist: ${sheet}`);
       if (rows < 1 || columns < 1) throw officeError('InvalidArgument', 'The range is empty.');
-      const exists = grid.has(sheet);
+      const exists = grid.has(real(sheet));
       const at = (r: number, c: number): MockCell | undefined =>
         exists ? getCell(sheet, top + r, left + c) : undefined;
       const table = <T>(fn: (cell: MockCell | undefined, r: number, c: number) => T): T[][] =>
@@ -223,7 +386,15 @@ export function mockExcel(sheets: string[]): MockExcel {
       });
       const numberFormat = table((cell) => cell?.numberFormat ?? 'General');
       const local = rangeAddress({ row: top, column: left }, rows, columns);
-      const columnWidth = widths.get(sheet)?.get(left) ?? DEFAULT_WIDTH;
+      const columnWidth = widths.get(real(sheet))?.get(left) ?? DEFAULT_WIDTH;
+      const geometry = exists
+        ? {
+            top: top * ROW_HEIGHT,
+            left: leftOf(sheet, left),
+            width: leftOf(sheet, left + columns) - leftOf(sheet, left),
+            height: rows * ROW_HEIGHT,
+          }
+        : { top: top * ROW_HEIGHT, left: 0, width: 0, height: rows * ROW_HEIGHT };
       const spillParent = (() => {
         const cell = at(0, 0);
         return cell?.spill !== undefined && cell.formula === '' ? cell.spill.parent : null;
@@ -236,6 +407,7 @@ export function mockExcel(sheets: string[]): MockExcel {
         rowCount: rows,
         columnCount: columns,
         numberFormat,
+        ...geometry,
         format: {
           font: { bold: false, color: '#000000' },
           fill: {
@@ -256,7 +428,7 @@ export function mockExcel(sheets: string[]): MockExcel {
                 let longest = 0;
                 for (let r = 0; r < rows; r += 1)
                   longest = Math.max(longest, String(getCell(sheet, top + r, left + c).value).length);
-                widths.get(sheet)?.set(left + c, 10 + 6 * longest);
+                widths.get(real(sheet))?.set(left + c, 10 + 6 * longest);
               }
             });
           },
@@ -294,6 +466,29 @@ export function mockExcel(sheets: string[]): MockExcel {
               }),
             );
           });
+        },
+        getEntireRow: () => ({
+          insert: (shift: string) => {
+            ops.push(() => {
+              if (shift !== 'Down') throw officeError('InvalidArgument', `whole rows are inserted Down, not ${shift}`);
+              log(`insert rows ${sheet}!${top + 1}:${top + rows}`);
+              insertRows(sheet, top, rows);
+            });
+          },
+        }),
+        clear: (applyTo?: string) => {
+          ops.push(() => {
+            if (applyTo !== undefined && applyTo !== 'All') throw officeError('InvalidArgument', `the mock clears All only, not ${applyTo}`);
+            log(`clear ${sheet}!${local}`);
+            clearCells(sheet, top, left, rows, columns);
+          });
+        },
+        getSpillingToRangeOrNullObject: () => {
+          if (rows !== 1 || columns !== 1) throw officeError('InvalidArgument', 'The range must be a single cell.');
+          const extent = exists ? spillExtent(sheet, top, left) : null;
+          const spill = nullable({ address: extent === null ? '' : `${quoteSheet(real(sheet))}!${extent}` }, extent === null);
+          proxies.push(spill);
+          return spill;
         },
         getSpillParentOrNullObject: () => {
           const parent = nullable(
@@ -351,7 +546,8 @@ export function mockExcel(sheets: string[]): MockExcel {
             steps.push(() => each((cell) => (cell.fillColor = fill.color as string)));
           if (assigned(proxy.format.columnWidth, initial.columnWidth)) {
             steps.push(() => {
-              for (let c = 0; c < columns; c += 1) widths.get(sheet)?.set(left + c, proxy.format.columnWidth as number);
+              for (let c = 0; c < columns; c += 1)
+                widths.get(real(sheet))?.set(left + c, proxy.format.columnWidth as number);
             });
           }
           return steps;
@@ -361,8 +557,12 @@ export function mockExcel(sheets: string[]): MockExcel {
     };
 
     const makeSheet = (name: string, mustExist = true): OfficeMockObject => {
-      if (mustExist && !grid.has(name) && !newSheets.has(name))
-        throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+      const known = (): boolean => grid.has(real(name)) || newSheets.has(name);
+      if (mustExist && !known()) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+      /** Notes need ExcelApi 1.18: on an older host the call fails at sync, as an unknown API would. */
+      const notesOffered = (): void => {
+        if (!supports('ExcelApi', '1.18')) throw officeError('ApiNotFound', 'The API you are trying to use could not be found (Worksheet.notes).');
+      };
       const sheet: OfficeMockObject = nullable(
         {
           name,
@@ -377,72 +577,207 @@ export function mockExcel(sheets: string[]): MockExcel {
             );
           },
           getUsedRangeOrNullObject: () => {
-            if (!grid.has(name)) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+            if (!grid.has(real(name))) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
             let bottom = -1;
             let right = -1;
-            for (const [k, cell] of grid.get(name) ?? new Map<string, MockCell>()) {
+            for (const [k, cell] of grid.get(real(name)) ?? new Map<string, MockCell>()) {
               if (shownFormula(cell) === '' && shownValue(cell) === '') continue;
               const [r, c] = k.split(',').map(Number) as [number, number];
               bottom = Math.max(bottom, r);
               right = Math.max(right, c);
             }
-            const used = nullable(
-              {
-                address:
-                  bottom < 0 ? '' : `${quoteSheet(name)}!${rangeAddress({ row: 0, column: 0 }, bottom + 1, right + 1)}`,
-              },
-              bottom < 0,
-            );
-            proxies.push(used);
+            if (bottom < 0) {
+              const none = nullable({ address: '' }, true);
+              proxies.push(none);
+              return none;
+            }
+            // The used range from A1 (Excel starts it at the first used cell; the panel does not rely on either).
+            const used = makeRange(name, 0, 0, bottom + 1, right + 1);
+            Object.defineProperty(used, 'isNullObject', { value: false, enumerable: true });
             return used;
           },
           activate: () => {
             ops.push(() => {
               log(`activate ${name}`);
-              state.activeSheet = name;
+              state.activeSheet = real(name);
             });
           },
           delete: () => {
             ops.push(() => {
-              log(`delete ${name}`);
-              grid.delete(name);
-              widths.delete(name);
-              if (state.activeSheet === name) state.activeSheet = [...grid.keys()][0] ?? '';
+              const gone = real(name);
+              log(`delete ${gone}`);
+              grid.delete(gone);
+              widths.delete(gone);
+              notes.delete(gone);
+              layouts.delete(gone);
+              for (let i = charts.length - 1; i >= 0; i -= 1) if (charts[i]?.sheet === gone) charts.splice(i, 1);
+              if (state.activeSheet === gone) state.activeSheet = [...grid.keys()][0] ?? '';
             });
           },
-          charts: {
-            add: (type: string, source: OfficeMockObject, seriesBy: string) => {
-              const chart: MockChart = {
-                sheet: name,
-                type,
-                source: localAddressOf.get(source) ?? '(not a range of this batch)',
-                seriesBy,
-                title: '',
-                position: null,
-                name: `Chart ${charts.length + 1}`,
-              };
-              const position = { value: null as [string, string] | null };
-              const proxy: OfficeMockObject = new OfficeMockObject({
-                name: chart.name,
-                title: { text: '' },
-                setPosition: (start: string, end: string) => {
-                  position.value = [start, end];
-                },
-              });
-              const initialTitle = proxy.title.text;
-              ops.push(() => {
-                if (typeof proxy.title.text === 'string' && assigned(proxy.title.text, initialTitle))
-                  chart.title = proxy.title.text;
-                chart.position = position.value;
-                charts.push(chart);
-              });
-              proxies.push(proxy);
-              return proxy;
-            },
+          copy: (position: string, relativeTo?: unknown) => {
+            if (position !== 'After' || relativeTo === undefined)
+              throw officeError('InvalidArgument', 'the mock copies a sheet After a sheet only');
+            const base = real(name);
+            let n = 2;
+            const taken = (candidate: string): boolean =>
+              [...grid.keys(), ...newSheets].some((s) => s.toLowerCase() === candidate.toLowerCase());
+            while (taken(`${base} (${n})`)) n += 1;
+            const made = `${base} (${n})`;
+            newSheets.add(made);
+            ops.push(() => {
+              log(`copy ${base} as ${made}`);
+              copySheetNow(base, made);
+            });
+            return makeSheet(made);
           },
         },
-        !grid.has(name) && !newSheets.has(name),
+        !known(),
       );
+      const initialName = sheet.name as unknown;
+      // A name assigned in the batch renames the sheet at sync, in order with the other writes.
+      ops.push({
+        expand: () =>
+          assigned(sheet.name, initialName)
+            ? [
+                () => {
+                  log(`rename ${real(name)} to ${String(sheet.name)}`);
+                  renameSheet(name, String(sheet.name));
+                },
+              ]
+            : [],
+      });
+      const chartItems = { value: null as null | Record<string, unknown>[] };
+      const chartCollection = {
+        add: (type: string, source: OfficeMockObject, seriesBy: string) => {
+          const chart: MockChart = {
+            sheet: real(name),
+            type,
+            source: localAddressOf.get(source) ?? '(not a range of this batch)',
+            seriesBy,
+            title: '',
+            position: null,
+            name: `Chart ${charts.length + 1}`,
+          };
+          const position = { value: null as [string, string] | null };
+          const proxy: OfficeMockObject = new OfficeMockObject({
+            name: chart.name,
+            title: { text: '' },
+            setPosition: (start: string, end: string) => {
+              position.value = [start, end];
+            },
+          });
+          const initialTitle = proxy.title.text;
+          ops.push(() => {
+            if (typeof proxy.title.text === 'string' && assigned(proxy.title.text, initialTitle))
+              chart.title = proxy.title.text;
+            chart.position = position.value;
+            chart.sheet = real(chart.sheet);
+            charts.push(chart);
+          });
+          proxies.push(proxy);
+          return proxy;
+        },
+        load: () => {
+          reads.push(() => {
+            chartItems.value = charts
+              .filter((chart) => chart.sheet === real(name))
+              .map((chart) => {
+                const from = parseAddress(chart.position?.[0] ?? 'A1').start;
+                return {
+                  name: chart.name,
+                  top: from.row * ROW_HEIGHT,
+                  left: leftOf(chart.sheet, from.column),
+                  delete: () => {
+                    ops.push(() => {
+                      log(`delete chart ${chart.name}`);
+                      const i = charts.indexOf(chart);
+                      if (i >= 0) charts.splice(i, 1);
+                    });
+                  },
+                };
+              });
+          });
+          return chartCollection;
+        },
+        get items(): Record<string, unknown>[] {
+          if (chartItems.value === null)
+            throw officeError('PropertyNotLoaded', "The property 'items' is not available. Call load and sync first.");
+          return chartItems.value;
+        },
+      };
+      const noteCollection = {
+        getItemOrNullObject: (address: string) => {
+          const found = { value: undefined as string | undefined, read: false };
+          const item = {
+            load: () => {
+              reads.push(() => {
+                found.value = notes.get(real(name))?.get(address);
+                found.read = true;
+              });
+              return item;
+            },
+            get isNullObject(): boolean {
+              if (!found.read) throw officeError('PropertyNotLoaded', 'Call load and sync first.');
+              return found.value === undefined;
+            },
+            get content(): string {
+              if (!found.read || found.value === undefined) throw officeError('PropertyNotLoaded', 'Call load and sync first.');
+              return found.value;
+            },
+            set content(text: string) {
+              ops.push(() => {
+                notesOffered();
+                const list = notes.get(real(name));
+                if (list?.get(address) === undefined) throw officeError('ItemNotFound', `There is no note on ${address}.`);
+                log(`note ${real(name)}!${address}`);
+                list.set(address, text);
+              });
+            },
+          };
+          ops.push(() => notesOffered());
+          return item;
+        },
+        add: (address: string, content: string) => {
+          ops.push(() => {
+            notesOffered();
+            const list = notes.get(real(name));
+            if (list === undefined) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+            if (!/^[A-Z]{1,3}[0-9]+$/.test(address)) throw officeError('InvalidCellAddress', `${address} is not one cell.`);
+            if (list.has(address)) throw officeError('InvalidArgument', `The cell ${address} has a note already.`);
+            log(`note ${real(name)}!${address}`);
+            list.set(address, String(content));
+          });
+        },
+      };
+      const layout = (): MockPageLayout => {
+        const found = layouts.get(real(name));
+        if (found === undefined) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+        return found;
+      };
+      const pageLayout = {
+        set orientation(value: string) {
+          ops.push(() => {
+            layout().orientation = value;
+          });
+        },
+        set zoom(value: MockPageLayout['zoom']) {
+          ops.push(() => {
+            layout().zoom = { ...value };
+          });
+        },
+        set centerHorizontally(value: boolean) {
+          ops.push(() => {
+            layout().centerHorizontally = value;
+          });
+        },
+        setPrintArea: (area: string) => {
+          ops.push(() => {
+            parseAddress(area);
+            layout().printArea = area;
+          });
+        },
+      };
+      Object.assign(sheet, { charts: chartCollection, notes: noteCollection, pageLayout });
       proxies.push(sheet);
       return sheet;
     };
@@ -469,6 +804,8 @@ export function mockExcel(sheets: string[]): MockExcel {
           log(`add sheet ${name}`);
           grid.set(name, new Map());
           widths.set(name, new Map());
+          notes.set(name, new Map());
+          layouts.set(name, {});
         });
         return makeSheet(name);
       },
@@ -606,6 +943,18 @@ export function mockExcel(sheets: string[]): MockExcel {
     sheetNames() {
       return [...grid.keys()];
     },
+    notes(sheet) {
+      return Object.fromEntries(notes.get(real(sheet)) ?? new Map<string, string>());
+    },
+    addNote(sheet, address, text) {
+      notes.get(real(sheet))?.set(address, text);
+    },
+    pageLayout(sheet) {
+      return { ...(layouts.get(real(sheet)) ?? {}) };
+    },
+    addChart(sheet, source, from, to, title) {
+      charts.push({ sheet, type: 'Line', source, seriesBy: 'Columns', title, position: [from, to], name: `Chart ${charts.length + 1}` });
+    },
     columnWidth(sheet, column) {
       return widths.get(sheet)?.get(parseAddress(`${column}1`).start.column) ?? DEFAULT_WIDTH;
     },
@@ -634,7 +983,12 @@ export function mockExcel(sheets: string[]): MockExcel {
         }
         out[sheet] = entry;
       }
-      return JSON.stringify(out);
+      return JSON.stringify({
+        sheets: out,
+        notes: [...notes].map(([sheet, list]) => [sheet, [...list].sort()]),
+        layouts: [...layouts].sort(),
+        charts,
+      });
     },
   };
   return api;
