@@ -30,6 +30,7 @@ const KINDS = {
 const INTERNAL_WORDING = [
   [/unexpected (problem|failure)/i, '"unexpected problem"'],
   [/please report/i, '"please report it"'],
+  [/could not compute this result/i, 'the catch-all message (an unforeseen failure)'],
   [/\binternal\b/i, '"internal"'],
   [/\b[a-z]+[A-Z][A-Za-z0-9]*\b/, 'camelCase identifier'],
   [/\bNaN\b/, 'NaN'],

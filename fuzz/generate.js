@@ -72,6 +72,7 @@ function insideEdges(rule) {
 function outsideEdges(rule) {
   const candidates = [];
   if (rule.min !== undefined) candidates.push(nextDown(rule.min), rule.min - 1, rule.min - 1e-9);
+  if (rule.orZero && rule.min !== undefined) candidates.push(Number.MIN_VALUE, rule.min / 2);
   if (rule.above !== undefined) candidates.push(rule.above, nextDown(rule.above), rule.above - 1);
   if (rule.max !== undefined) candidates.push(nextUp(rule.max), rule.max + 1);
   if (rule.below !== undefined) candidates.push(rule.below, nextUp(rule.below), rule.below + 1);
@@ -329,9 +330,16 @@ function applyExtremes(model, draft, rng) {
     });
     if (what === 'prior') {
       const priors = scalars.filter((p) => p.prior);
+      // mostly the edges of the declared domain and values inside it; sometimes far outside (to be refused)
       const extremes = [1e-12, 1e-9, 1e-6, 1e-3, 1e3, 1e6, 1e9, 1e12];
-      for (const p of priors)
-        draft.scalars[p.name] = rng.chance(0.7) ? rng.pick(extremes) : rng.logUniform(1e-12, 1e12);
+      for (const p of priors) {
+        const inside = insideEdges(p.rule).concat(extremes.filter((x) => keeps(p.rule, x)));
+        draft.scalars[p.name] = rng.chance(0.7)
+          ? rng.pick(inside)
+          : rng.chance(0.5)
+            ? rng.pick(extremes)
+            : rng.logUniform(1e-12, 1e12);
+      }
     } else if (what === 'scalar') {
       const p = rng.pick(scalars);
       draft.scalars[p.name] = rng.pick(insideEdges(p.rule));

@@ -39,6 +39,7 @@ function numberProblem(rule, cell) {
     if (!Number.isInteger(x)) return 'count not whole';
     if (x > MAX_COUNT) return 'count above 2^53';
   }
+  if (rule.orZero && x === 0) return undefined;
   if (rule.min !== undefined && x < rule.min) return `below min ${rule.min}`;
   if (rule.max !== undefined && x > rule.max) return `above max ${rule.max}`;
   if (rule.above !== undefined && !(x > rule.above)) return `not above ${rule.above}`;

@@ -56,14 +56,19 @@ export function classifyCell(cell: unknown): CellValue {
   // A data type (formatted number, entity) arrives as an object, as functions.json allows custom data:
   // read its plain value, or an entity's shown text (its plain value is only "#VALUE!").
   if (typeof cell === 'object' && cell !== null && 'basicValue' in cell) {
-    const data = cell as { basicValue?: unknown; basicType?: unknown; text?: unknown };
+    const data = cell as { type?: unknown; basicValue?: unknown; basicType?: unknown; text?: unknown };
+    // an entity is the text it shows, whatever its basic value (a number shown on a card is still a label)
+    if (data.type === 'Entity') {
+      const shown = typeof data.text === 'string' && data.text.trim() !== '' ? data.text : 'a linked data type';
+      return { kind: 'text', text: shown };
+    }
     const plain = data.basicType === 'Error' && typeof data.text === 'string' ? data.text : data.basicValue;
     if (typeof plain !== 'object' || plain === null) return classifyCell(plain);
   }
   if (typeof cell === 'object' && cell !== null && 'code' in cell) {
     return { kind: 'other', description: `the error value ${String((cell as { code: unknown }).code)}` };
   }
-  return { kind: 'other', description: `a ${typeof cell} value` };
+  return { kind: 'other', description: 'a value that is not a plain number' };
 }
 
 /** "3 rows × 1 column" */

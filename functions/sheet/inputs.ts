@@ -4,6 +4,8 @@
  * spill.
  */
 import type { BetaPrior, ConversionCounts, EventCounts, GammaPrior, MeanSummary } from '../stats/types';
+import { StatsError } from '../stats/errors';
+import { MAX_PRIOR, MIN_PRIOR } from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 import {
   CONVERSIONS,
@@ -20,6 +22,7 @@ import {
   SRM_VISITORS,
   VISITORS,
   checkNumber,
+  formatBound,
   readOptionalNumber,
 } from './rules';
 import { readAlignedCells, readVariants, type VariantCount, type VariantTable } from './variants';
@@ -145,4 +148,42 @@ export function readSplit(visitors: unknown, plannedShares: unknown, count: Vari
     checkNumber(PLANNED_SHARES, cell, `${PLANNED_SHARES.name}, item ${(table.positions[i] as number) + 1}`),
   );
   return { table, visitors: [...(table.columns.visitors as readonly number[])], plannedShares: shares };
+}
+
+const showNumber = (x: number): string => formatBound(Number(x.toPrecision(6)));
+
+/**
+ * Checks that a prior made by PRIOR_FROM_MEAN lies within the declared domain of the functions it feeds
+ * (alpha and beta each from 0.001 to 1E+6, stats/limits.ts), so the add-in never hands out a prior its own
+ * functions refuse. Cost O(1).
+ * @throws {ArgumentProblem} naming mean_rate and strength, the alpha or beta they make and the bound.
+ * @example priorFromMeanInDomain({ alpha: 10, beta: 190 }, 0.05, 200) //=> { alpha: 10, beta: 190 }
+ */
+export function priorFromMeanInDomain(prior: BetaPrior, meanRate: number, strength: number): BetaPrior {
+  for (const [part, value] of [['alpha', prior.alpha], ['beta', prior.beta]] as const) {
+    if (value >= MIN_PRIOR && value <= MAX_PRIOR) continue;
+    const side = value < MIN_PRIOR ? `below ${MIN_PRIOR}, the weakest` : `above ${formatBound(MAX_PRIOR)}, the strongest`;
+    throw new ArgumentProblem(
+      `strength: ${strength} with mean_rate ${meanRate} makes the prior's ${part} ${showNumber(value)}, ${side} ` +
+        `prior the other functions accept; ${value < MIN_PRIOR ? 'raise' : 'lower'} strength`,
+    );
+  }
+  return prior;
+}
+
+/**
+ * Checks that a fitted prior (PRIOR_FROM_INTERVAL, PRIOR_FROM_HISTORY) lies within the declared domain of
+ * the functions it feeds (0.001 to 1E+6 each). Cost O(1).
+ * @throws {StatsError} `not_available` (#N/A): the fit exists but no accepted prior matches it; `why` names
+ *   the arguments and says what to change.
+ * @example fittedPriorInDomain({ alpha: 14.8, beta: 291 }, 'low and high are very close') //=> { alpha: 14.8, beta: 291 }
+ */
+export function fittedPriorInDomain(prior: BetaPrior, why: string): BetaPrior {
+  const ok = (x: number): boolean => x >= MIN_PRIOR && x <= MAX_PRIOR;
+  if (ok(prior.alpha) && ok(prior.beta)) return prior;
+  throw new StatsError(
+    'not_available',
+    `the fitted prior Beta(${showNumber(prior.alpha)}, ${showNumber(prior.beta)}) is outside the priors the other ` +
+      `functions accept (alpha and beta each from ${MIN_PRIOR} to ${formatBound(MAX_PRIOR)}): ${why}`,
+  );
 }

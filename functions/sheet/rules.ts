@@ -3,7 +3,26 @@
  * checked by the one routine {@link checkNumber}. The style follows HyperFormula's function plugins, where
  * each parameter declares its type and bounds and one runner does the coercion and the checks.
  */
-import { MAX_COUNT, MAX_POINTS, MIN_POINTS } from '../stats/limits';
+import {
+  MAX_ALPHA,
+  MAX_BASELINE,
+  MAX_COUNT,
+  MAX_EXPOSURE,
+  MAX_LEVEL,
+  MAX_MEAN_SIZE,
+  MAX_POINTS,
+  MAX_PRIOR,
+  MAX_PRIOR_RATE,
+  MAX_SD,
+  MIN_ALPHA,
+  MIN_BASELINE,
+  MIN_EXPOSURE,
+  MIN_LEVEL,
+  MIN_PLAN_LIFT,
+  MIN_POINTS,
+  MIN_PRIOR,
+  MIN_SD,
+} from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 
 /** The largest count accepted (stats/limits.ts): 2^53, the largest integer a double holds exactly with all smaller ones. */
@@ -23,6 +42,8 @@ export interface NumberRule {
   readonly above?: number;
   /** The value must be strictly less than this. */
   readonly below?: number;
+  /** 0 is allowed besides the bounds (`sd`: 0 when every value is equal, else at least MIN_SD). */
+  readonly orZero?: boolean;
   /** For a range cell: the value may not exceed the same position's value of the named column. */
   readonly atMost?: string;
   /** For an optional scalar: the value used when the argument is omitted. */
@@ -41,15 +62,36 @@ export interface ChoiceRule<T extends string> {
   readonly default: T;
 }
 
+/**
+ * A bound as Excel would show it: plain decimals from 0.001 to 999999, scientific notation beyond
+ * (`1E+12`, `1E-6`), so a message never spells out twelve zeros.
+ *
+ * Cost O(1).
+ * @example formatBound(1e12) //=> '1E+12'
+ * @example formatBound(0.001) //=> '0.001'
+ */
+export function formatBound(x: number): string {
+  const size = Math.abs(x);
+  if (size === 0 || (size >= 1e-3 && size < 1e6)) return String(x);
+  const [mantissa, exponent] = x.toExponential().split('e') as [string, string];
+  return `${mantissa}E${exponent.startsWith('-') ? exponent : `+${exponent.replace('+', '')}`}`;
+}
+
 /** Plain-words description of what a rule allows, for error messages. */
 export function describeAllowed(rule: NumberRule): string {
   const parts: string[] = [];
-  if (rule.min !== undefined) parts.push(`at least ${rule.min}`);
-  if (rule.above !== undefined) parts.push(`greater than ${rule.above}`);
-  if (rule.below !== undefined) parts.push(`less than ${rule.below}`);
-  if (rule.max !== undefined) parts.push(`at most ${rule.max}`);
+  if (rule.min !== undefined && rule.max !== undefined) {
+    parts.push(`from ${formatBound(rule.min)} to ${formatBound(rule.max)}`);
+  } else if (rule.min !== undefined) parts.push(`at least ${formatBound(rule.min)}`);
+  if (rule.above !== undefined) parts.push(`greater than ${formatBound(rule.above)}`);
+  if (rule.below !== undefined) parts.push(`less than ${formatBound(rule.below)}`);
+  if (rule.max !== undefined && rule.min === undefined) parts.push(`at most ${formatBound(rule.max)}`);
   const bounds = parts.join(' and ');
-  if (rule.kind === 'count') return bounds ? `a whole number, ${bounds}` : 'a whole number, 0 or more';
+  if (rule.kind === 'count') {
+    if (!bounds) return 'a whole number, 0 or more';
+    return bounds.startsWith('from') ? `a whole number ${bounds}` : `a whole number, ${bounds}`;
+  }
+  if (rule.orZero) return `0, or a number ${bounds}`;
   return bounds ? `a number ${bounds}` : 'a finite number';
 }
 
@@ -86,10 +128,11 @@ export function checkNumber(rule: NumberRule, cell: unknown, where: string): num
     if (x > MAX_COUNT) throw new ArgumentProblem(`${where}: ${x} is larger than 2^53, the largest count accepted`);
   }
   const outside =
-    (rule.min !== undefined && x < rule.min) ||
+    !(rule.orZero && x === 0) &&
+    ((rule.min !== undefined && x < rule.min) ||
     (rule.max !== undefined && x > rule.max) ||
     (rule.above !== undefined && !(x > rule.above)) ||
-    (rule.below !== undefined && !(x < rule.below));
+    (rule.below !== undefined && !(x < rule.below)));
   if (outside) throw new ArgumentProblem(`${where}: ${x} is not allowed; enter ${percentHint(rule, x) ?? allowed}`);
   return x;
 }
@@ -166,38 +209,43 @@ export const CONVERSIONS = { name: 'conversions', kind: 'count', min: 0, atMost:
 export const VISITORS = { name: 'visitors', kind: 'count', min: 1 } as const satisfies NumberRule;
 /** `visitors` of SRM_PVALUE: whole number ≥ 0 (an arm that received nobody is the worst mismatch). */
 export const SRM_VISITORS = { name: 'visitors', kind: 'count', min: 0 } as const satisfies NumberRule;
-/** `planned_shares`: positive weights. */
-export const PLANNED_SHARES = { name: 'planned_shares', kind: 'real', above: 0 } as const satisfies NumberRule;
+/** `planned_shares`: positive weights, from 1e-6 to 1e12 (so that their sum is a finite number). */
+export const PLANNED_SHARES = { name: 'planned_shares', kind: 'real', min: 1e-6, max: 1e12 } as const satisfies NumberRule;
 /** `count` of the Normal model: whole number ≥ 2 (a standard deviation needs two values). */
 export const COUNT = { name: 'count', kind: 'count', min: 2 } as const satisfies NumberRule;
-/** `mean`: any finite number. */
-export const MEAN = { name: 'mean', kind: 'real' } as const satisfies NumberRule;
-/** `sd`: ≥ 0. */
-export const SD = { name: 'sd', kind: 'real', min: 0 } as const satisfies NumberRule;
+/** `mean`: from −1e12 to 1e12 (stats/limits.ts MAX_MEAN_SIZE). */
+export const MEAN = { name: 'mean', kind: 'real', min: -MAX_MEAN_SIZE, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
+/** `sd`: 0 (every value equal), or from 1e-6 to 1e12 (stats/limits.ts MIN_SD, MAX_SD). */
+export const SD = { name: 'sd', kind: 'real', min: MIN_SD, max: MAX_SD, orZero: true } as const satisfies NumberRule;
 /** `events`: whole number ≥ 0. */
 export const EVENTS = { name: 'events', kind: 'count', min: 0 } as const satisfies NumberRule;
-/** `exposure`: > 0. */
-export const EXPOSURE = { name: 'exposure', kind: 'real', above: 0 } as const satisfies NumberRule;
+/** `exposure`: from 1e-6 to 1e12 in the user's unit (stats/limits.ts MIN_EXPOSURE, MAX_EXPOSURE). */
+export const EXPOSURE = { name: 'exposure', kind: 'real', min: MIN_EXPOSURE, max: MAX_EXPOSURE } as const satisfies NumberRule;
 
 /** `orders` of revenue per visitor: whole number, 0 ≤ orders ≤ visitors at the same position. */
 export const ORDERS = { name: 'orders', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
-/** `revenue`: a variant's total revenue, ≥ 0 (in the user's currency). */
-export const REVENUE = { name: 'revenue', kind: 'real', min: 0 } as const satisfies NumberRule;
-/** `order_sd`: the standard deviation of one variant's order values (STDEV.S), ≥ 0. */
-export const ORDER_SD = { name: 'order_sd', kind: 'real', min: 0 } as const satisfies NumberRule;
+/** `revenue`: a variant's total revenue, from 0 to 1e12 in the user's currency (stats/limits.ts MAX_MEAN_SIZE). */
+export const REVENUE = { name: 'revenue', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
+/** `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`). */
+export const ORDER_SD = { name: 'order_sd', kind: 'real', min: MIN_SD, max: MAX_SD, orZero: true } as const satisfies NumberRule;
 
-/** `level` of credible intervals: in (0, 1), default 0.95. */
-export const LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.95, fraction: 'rate' } as const satisfies NumberRule;
-/** `level` of PRIOR_FROM_INTERVAL: in (0, 1), default 0.90. */
-export const PRIOR_LEVEL = { name: 'level', kind: 'real', above: 0, below: 1, default: 0.9, fraction: 'rate' } as const satisfies NumberRule;
-/** `prior_alpha`: > 0, default 1. */
-export const PRIOR_ALPHA = { name: 'prior_alpha', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
-/** `prior_beta`: > 0, default 1. */
-export const PRIOR_BETA = { name: 'prior_beta', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
-/** `prior_shape`: > 0, default 1. */
-export const PRIOR_SHAPE = { name: 'prior_shape', kind: 'real', above: 0, default: 1 } as const satisfies NumberRule;
-/** `prior_rate`: ≥ 0, default 0. */
-export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0 } as const satisfies NumberRule;
+/** Levels, thresholds and power: from 0.01 to 0.9999 (stats/limits.ts MIN_LEVEL, MAX_LEVEL). */
+const LEVEL_BOUNDS = { kind: 'real', min: MIN_LEVEL, max: MAX_LEVEL, fraction: 'rate' } as const;
+/** Prior parameters: from 0.001 to 1e6 (stats/limits.ts MIN_PRIOR, MAX_PRIOR). */
+const PRIOR_BOUNDS = { kind: 'real', min: MIN_PRIOR, max: MAX_PRIOR, default: 1 } as const;
+
+/** `level` of credible intervals: 0.01 to 0.9999, default 0.95. */
+export const LEVEL = { name: 'level', ...LEVEL_BOUNDS, default: 0.95 } as const satisfies NumberRule;
+/** `level` of PRIOR_FROM_INTERVAL: 0.01 to 0.9999, default 0.90. */
+export const PRIOR_LEVEL = { name: 'level', ...LEVEL_BOUNDS, default: 0.9 } as const satisfies NumberRule;
+/** `prior_alpha`: 0.001 to 1e6, default 1. */
+export const PRIOR_ALPHA = { name: 'prior_alpha', ...PRIOR_BOUNDS } as const satisfies NumberRule;
+/** `prior_beta`: 0.001 to 1e6, default 1. */
+export const PRIOR_BETA = { name: 'prior_beta', ...PRIOR_BOUNDS } as const satisfies NumberRule;
+/** `prior_shape`: 0.001 to 1e6, default 1. */
+export const PRIOR_SHAPE = { name: 'prior_shape', ...PRIOR_BOUNDS } as const satisfies NumberRule;
+/** `prior_rate`: 0 to 1e12 (a prior exposure, in the unit of `exposure`), default 0. */
+export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, max: MAX_PRIOR_RATE, default: 0 } as const satisfies NumberRule;
 /**
  * `min_lift`: a relative lift as a fraction, greater than −1 (a rate cannot fall below zero) and at most 1
  * (+100%). A larger value is almost always a percentage typed as a whole number (5 for 5%), which would
@@ -206,30 +254,42 @@ export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, default: 0
 export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
 export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `max_loss` of the decisions on averages, counts and revenue: ≥ 0 in the metric's own units; the core's default. */
-export const MAX_LOSS_AMOUNT = { name: 'max_loss', kind: 'real', min: 0 } as const satisfies NumberRule;
+/** `max_loss` of the decisions on averages, counts and revenue: 0 to 1e12 in the metric's own units; the core's default. */
+export const MAX_LOSS_AMOUNT = { name: 'max_loss', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
 /** `points` of density tables: whole number MIN_POINTS…MAX_POINTS (2…1000, stats/limits.ts), default 101. */
 export const POINTS = { name: 'points', kind: 'count', min: MIN_POINTS, max: MAX_POINTS, default: 101 } as const satisfies NumberRule;
-/** `mean_rate` of PRIOR_FROM_MEAN: in (0, 1). */
-export const MEAN_RATE = { name: 'mean_rate', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `strength` of PRIOR_FROM_MEAN: > 0 (the prior's worth in visitors). */
-export const STRENGTH = { name: 'strength', kind: 'real', above: 0 } as const satisfies NumberRule;
-/** `low` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const LOW = { name: 'low', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `high` of PRIOR_FROM_INTERVAL: in (0, 1). */
-export const HIGH = { name: 'high', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `baseline_rate`: in (0, 1). */
-export const BASELINE_RATE = { name: 'baseline_rate', kind: 'real', above: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
-/** `lift` of the planners: a relative lift as a fraction, greater than −1 and at most 1 (as `min_lift`). */
-export const LIFT = { name: 'lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
+/** A rate a user states about a prior or a plan: 1e-6 to 0.999999 (stats/limits.ts MIN_BASELINE, MAX_BASELINE). */
+const RATE_BOUNDS = { kind: 'real', min: MIN_BASELINE, max: MAX_BASELINE, fraction: 'rate' } as const;
+/** `mean_rate` of PRIOR_FROM_MEAN: 1e-6 to 0.999999. */
+export const MEAN_RATE = { name: 'mean_rate', ...RATE_BOUNDS } as const satisfies NumberRule;
+/**
+ * `strength` of PRIOR_FROM_MEAN: the prior's worth in visitors, from 0.002 to 2e6 (so that alpha and beta can
+ * each lie within the prior bounds; the wrapper checks the pair it makes).
+ */
+export const STRENGTH = { name: 'strength', kind: 'real', min: 2 * MIN_PRIOR, max: 2 * MAX_PRIOR } as const satisfies NumberRule;
+/** `low` of PRIOR_FROM_INTERVAL: 1e-6 to 0.999999. */
+export const LOW = { name: 'low', ...RATE_BOUNDS } as const satisfies NumberRule;
+/** `high` of PRIOR_FROM_INTERVAL: 1e-6 to 0.999999. */
+export const HIGH = { name: 'high', ...RATE_BOUNDS } as const satisfies NumberRule;
+/** `baseline_rate`: 1e-6 to 0.999999. */
+export const BASELINE_RATE = { name: 'baseline_rate', ...RATE_BOUNDS } as const satisfies NumberRule;
+/** `lift` of the planners: a relative lift as a fraction, from −0.99 (−99%) to 1 (+100%). */
+export const LIFT = { name: 'lift', kind: 'real', min: MIN_PLAN_LIFT, max: 1, fraction: 'lift' } as const satisfies NumberRule;
 /** `visitors_per_variant`: whole number ≥ 1. */
 export const VISITORS_PER_VARIANT = { name: 'visitors_per_variant', kind: 'count', min: 1 } as const satisfies NumberRule;
-/** `threshold` of the Bayesian planners: in (0, 1), default 0.95. */
-export const THRESHOLD = { name: 'threshold', kind: 'real', above: 0, below: 1, default: 0.95, fraction: 'rate' } as const satisfies NumberRule;
-/** `power`: in (0, 1), default 0.8. */
-export const POWER = { name: 'power', kind: 'real', above: 0, below: 1, default: 0.8, fraction: 'rate' } as const satisfies NumberRule;
-/** `alpha` of the classic test: in (0, 1), default 0.05. */
-export const ALPHA = { name: 'alpha', kind: 'real', above: 0, below: 1, default: 0.05, fraction: 'rate' } as const satisfies NumberRule;
+/** `threshold` of the Bayesian planners: 0.01 to 0.9999, default 0.95. */
+export const THRESHOLD = { name: 'threshold', ...LEVEL_BOUNDS, default: 0.95 } as const satisfies NumberRule;
+/** `power`: 0.01 to 0.9999, default 0.8. */
+export const POWER = { name: 'power', ...LEVEL_BOUNDS, default: 0.8 } as const satisfies NumberRule;
+/** `alpha` of the classic test: 0.0001 to 0.5, default 0.05. */
+export const ALPHA = {
+  name: 'alpha',
+  kind: 'real',
+  min: MIN_ALPHA,
+  max: MAX_ALPHA,
+  default: 0.05,
+  fraction: 'rate',
+} as const satisfies NumberRule;
 /** `sides`: 1 or 2, default 2. */
 export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 } as const satisfies NumberRule;
 

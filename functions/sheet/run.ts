@@ -4,11 +4,21 @@
  * - {@link ArgumentProblem} (found by the sheet layer) and a core `StatsError` with code
  *   `invalid_argument` become `#VALUE!` with their message.
  * - A core `StatsError` with code `not_available` becomes `#N/A` with its message.
- * - Anything else (a raw JavaScript error, a non-finite result) becomes `#VALUE!` with a message that says
- *   it is unexpected, so no raw error or NaN reaches a cell.
+ * - A core message that prints an infinity (a quantity overflowed) becomes `#N/A` with
+ *   {@link BEYOND_CELL_MESSAGE}; one that prints NaN becomes the catch-all below. No NaN or Infinity reaches
+ *   a cell's message.
+ * - Anything else (a raw JavaScript error, a NaN) becomes `#VALUE!` with {@link CATCH_ALL_MESSAGE}, plain
+ *   words with no code detail, so no raw error or NaN reaches a cell. Inside the declared domain (the
+ *   argument rules of rules.ts) nothing reaches this branch: the fuzzer (npm run fuzz) reports every call
+ *   that does.
  */
 import { StatsError } from '../stats/errors';
 import { ArgumentProblem } from './cells';
+import { BEYOND_CELL_MESSAGE } from './spill';
+
+/** The message of a failure the sheet layer did not foresee (no code detail reaches a cell). */
+export const CATCH_ALL_MESSAGE =
+  'could not compute this result for these inputs; check that every argument is within the range its help page gives';
 
 /** Longest message shown in a cell's error tooltip; longer ones are cut with an ellipsis. */
 const MAX_MESSAGE_LENGTH = 250;
@@ -29,15 +39,18 @@ export function toWorksheetError(thrown: unknown): CustomFunctions.Error {
     return new CustomFunctions.Error(CustomFunctions.ErrorCode.invalidValue, clip(thrown.message));
   }
   if (thrown instanceof StatsError) {
+    // a core message that had to print an overflowed number: the answer is beyond what a cell holds
+    if (/\bNaN\b/.test(thrown.message)) {
+      return new CustomFunctions.Error(CustomFunctions.ErrorCode.invalidValue, CATCH_ALL_MESSAGE);
+    }
+    if (/\bInfinity\b/.test(thrown.message)) {
+      return new CustomFunctions.Error(CustomFunctions.ErrorCode.notAvailable, BEYOND_CELL_MESSAGE);
+    }
     const code =
       thrown.code === 'not_available' ? CustomFunctions.ErrorCode.notAvailable : CustomFunctions.ErrorCode.invalidValue;
     return new CustomFunctions.Error(code, clip(thrown.message));
   }
-  const detail = thrown instanceof Error ? thrown.message : String(thrown);
-  return new CustomFunctions.Error(
-    CustomFunctions.ErrorCode.invalidValue,
-    clip(`unexpected problem while computing (please report it): ${detail}`),
-  );
+  return new CustomFunctions.Error(CustomFunctions.ErrorCode.invalidValue, CATCH_ALL_MESSAGE);
 }
 
 /**

@@ -8,22 +8,32 @@
  *
  * Every number is checked to be finite here, the last line of defence before a cell.
  */
+import { StatsError } from '../stats/errors';
 import type { BetaPrior, DensityTable, Interval, IntervalWithMedian } from '../stats/types';
 import type { VariantTable } from './variants';
 
 /** One output cell: a finite number or text (`""` for an empty slot). */
 export type OutputCell = number | string;
 
+/** What a cell says when an exact answer exists but is larger than any number a cell holds. */
+export const BEYOND_CELL_MESSAGE =
+  'a result is larger than the largest number a cell holds (about 1.8E+308): under this prior a variant\'s ' +
+  'rate can be so close to 0 that a ratio to it has no usable bound; compare the variants by their ' +
+  'difference, or use a prior with more weight';
+
 /**
  * Throws unless `x` is finite, so no NaN or infinity reaches a cell.
  *
  * Cost O(1).
- * @throws {Error} "the result is not a finite number" (mapped to #VALUE! by run.ts).
+ * @throws {StatsError} `not_available` ({@link BEYOND_CELL_MESSAGE}) for an infinite value: the question has
+ *   no answer a cell can show (#N/A).
+ * @throws {Error} for NaN, which no computation inside the declared domain returns (run.ts's catch-all).
  * @example finite(0.5) //=> 0.5
  */
 export function finite(x: number): number {
-  if (!Number.isFinite(x)) throw new Error(`the result is not a finite number (${String(x)})`);
-  return x;
+  if (Number.isFinite(x)) return x;
+  if (x === Infinity || x === -Infinity) throw new StatsError('not_available', BEYOND_CELL_MESSAGE);
+  throw new Error('a result is not a number');
 }
 
 /** Lays rows of values (one row per position) out in the table's orientation. */
@@ -119,14 +129,25 @@ export function spillTable(
   });
 }
 
-/** Rows `[lower, upper]` of credible intervals, for {@link spillBlock}. */
-export function intervalRows(intervals: readonly Interval[]): number[][] {
-  return intervals.map((iv) => [iv.lower, iv.upper]);
+/**
+ * Puts the ends of an interval in order. Each end comes from its own root search, accurate to an absolute
+ * tolerance; where two true values are closer than that (a symmetric difference whose median is 0 and
+ * whose 10% point is −1e-50), the estimates can cross. Sorting them never moves a value further from its
+ * true value than the worse of the two errors (if a ≤ b and |x − a|, |y − b| ≤ ε, then min(x, y) and
+ * max(x, y) are within ε of a and b), so the cell shows an ordered interval as accurate as the search.
+ */
+function ordered(values: number[]): number[] {
+  return values.sort((a, b) => a - b);
 }
 
-/** Rows `[lower, median, upper]`, for {@link spillBlockVersusControl}. */
+/** Rows `[lower, upper]` of credible intervals, for {@link spillBlock}; each row in order. */
+export function intervalRows(intervals: readonly Interval[]): number[][] {
+  return intervals.map((iv) => ordered([iv.lower, iv.upper]));
+}
+
+/** Rows `[lower, median, upper]`, for {@link spillBlockVersusControl}; each row in order. */
 export function medianRows(intervals: readonly IntervalWithMedian[]): number[][] {
-  return intervals.map((iv) => [iv.lower, iv.median, iv.upper]);
+  return intervals.map((iv) => ordered([iv.lower, iv.median, iv.upper]));
 }
 
 /**

@@ -21,6 +21,40 @@ export const MIN_POINTS = 2;
  */
 export const MAX_POINTS = 1000;
 
+/*
+ * The declared domain of the worksheet functions: the bounds the sheet layer (functions/sheet/rules.ts)
+ * enforces at the door and the help pages state. Inside them the reference tests (test/reference, the
+ * *_extremes scripts with mpmath) check the answers at the corners; outside them a call answers #VALUE!
+ * naming the argument, its value and these bounds. Each bound is chosen from what the numerics are shown
+ * to handle, not from what users might type: every one is far beyond what an experiment produces.
+ */
+
+/** Weakest prior parameter accepted (prior_alpha, prior_beta, prior_shape): 0.001, weaker than Jeffreys' 0.5. */
+export const MIN_PRIOR = 0.001;
+/** Strongest prior parameter accepted: a prior worth a million visitors (or events). */
+export const MAX_PRIOR = 1e6;
+/** Largest prior_rate (prior exposure) of the Gamma prior, in the unit of `exposure`. */
+export const MAX_PRIOR_RATE = 1e12;
+/** Smallest and largest exposure of one variant (counts per exposure), in the user's unit. */
+export const MIN_EXPOSURE = 1e-6;
+export const MAX_EXPOSURE = 1e12;
+/** Largest magnitude of a mean (Normal model): means from −1e12 to 1e12. */
+export const MAX_MEAN_SIZE = 1e12;
+/** Smallest nonzero and largest standard deviation (Normal model); 0 is allowed (every value equal). */
+export const MIN_SD = 1e-6;
+export const MAX_SD = 1e12;
+/** Narrowest and widest credible level, threshold or power: 0.01 to 0.9999 (99.99%). */
+export const MIN_LEVEL = 0.01;
+export const MAX_LEVEL = 0.9999;
+/** Smallest and largest baseline conversion rate of the planners. */
+export const MIN_BASELINE = 1e-6;
+export const MAX_BASELINE = 0.999999;
+/** Smallest relative lift a planner plans for: −99% (a lift of −100% leaves no rate to compare). */
+export const MIN_PLAN_LIFT = -0.99;
+/** Significance level of the classic test: 0.0001 to 0.5. */
+export const MIN_ALPHA = 0.0001;
+export const MAX_ALPHA = 0.5;
+
 /**
  * Checks a credible level: a finite number strictly between 0 and 1. The message follows the input
  * policy of the sheet layer (argument: value, problem, what is allowed) with an example of a level.

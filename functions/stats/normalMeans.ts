@@ -466,10 +466,15 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
   const only = singleSpread(ps);
   if (points > 0 && only !== undefined) {
     // One uncertain mean X against exact ones with largest value M: choosing X loses E[(M − X)^+], the
-    // integrated cdf G_X(M) (TabulatedDistribution.logLowerMoment); choosing the exact c loses E[max(M, X)] − c = mean_X + G_X(M) − c.
+    // integrated cdf G_X(M) (TabulatedDistribution.logLowerMoment); choosing the exact c loses
+    // E[max(M, X)] − c = (M − c) + E[(X − M)^+]. The t posterior is symmetric about its centre, so
+    // E[(X − M)^+] = G_X(2·centre − M): a sum of two terms ≥ 0, never the difference of two large ones
+    // (mean_X + G_X(M) − c cancels to a wrong sign when M − mean_X is large).
     const top = Math.max(...ps.filter(isPoint).map((p) => p.centre));
-    const lowerMoment = Math.exp(tabulateOne(only).logLowerMoment(top));
-    return ps.map((p) => (isPoint(p) ? only.centre + lowerMoment - p.centre : lowerMoment));
+    const table = tabulateOne(only);
+    const lowerMoment = Math.exp(table.logLowerMoment(top));
+    const upperMoment = Math.exp(table.logLowerMoment(only.centre + (only.centre - top)));
+    return ps.map((p) => (isPoint(p) ? top - p.centre + upperMoment : lowerMoment));
   }
   if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
   return expectedLosses(tabulateForComparison(ps));
@@ -485,7 +490,7 @@ function checkLiftControl(control: MeanPosterior): number {
     throw new StatsError(
       'not_available',
       `the control's mean could plausibly be zero or negative (${percent(belowZero)}), so a relative lift ` +
-        'is undefined; use MEAN_DIFF_INTERVAL for the absolute difference',
+        'has no meaning; use MEAN_DIFF_INTERVAL for the absolute difference',
     );
   }
   return belowZero;

@@ -19,7 +19,7 @@ import { srmPValue } from '../stats/srm';
  * @customfunction SRM_PVALUE
  * @helpurl https://localhost:3000/help/SRM_PVALUE.html
  * @param visitors Visitors of each variant (2 to 50 variants in a row or a column; whole numbers, 0 or more).
- * @param [planned_shares] Planned share of each variant, same shape as visitors, any positive weights (optional; default equal shares).
+ * @param [planned_shares] Planned share of each variant, same shape as visitors, positive weights from 1E-6 to 1E+12 (optional; default equal shares).
  * @returns A p-value between 0 and 1.
  * @method Pearson's chi-square goodness-of-fit statistic with k − 1 degrees of freedom; the upper tail is computed directly so tiny p-values keep their digits.
  * @source Sample ratio mismatch: A. Fabijan et al., "Diagnosing Sample Ratio Mismatch in Online Controlled Experiments", KDD 2019.

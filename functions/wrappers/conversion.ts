@@ -21,8 +21,8 @@ import * as conversion from '../stats/conversion';
  * @helpurl https://localhost:3000/help/POSTERIOR_MEAN.html
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns The posterior mean rate of each variant, as a fraction (0.05 is 5%).
  * @method Beta–Binomial conjugate update: the posterior is Beta(alpha + conversions, beta + visitors − conversions), whose mean is (alpha + conversions) / (alpha + beta + visitors).
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4.
@@ -46,9 +46,9 @@ export function posteriorMean(
  * @helpurl https://localhost:3000/help/RATE_INTERVAL.html
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @param [method] "central" for equal tails or "hdi" for the narrowest (highest-density) interval (optional; default "central").
  * @returns Lower and upper bound of the interval for each variant, as fractions.
  * @method Quantiles of the Beta posterior. "central" puts (1 − level)/2 in each tail; "hdi" is the shortest interval with the given probability, where the density is equal at both ends.
@@ -75,8 +75,8 @@ export function rateInterval(
  * @helpurl https://localhost:3000/help/PROB_HIGHEST.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, the probability (0 to 1) that its rate is the highest.
  * @method P(variant i is highest) = ∫ f_i(x) · Π F_j(x) dx (the product over every other variant j) over the Beta posteriors, computed deterministically by Gauss–Legendre quadrature (no simulation).
  * @source Closed form for two variants: E. Miller, "Formulas for Bayesian A/B Testing" (2015); the integral is the definition of the probability.
@@ -100,8 +100,8 @@ export function probHighest(
  * @helpurl https://localhost:3000/help/PROB_ABOVE_CONTROL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each challenger, P(its rate > the control's rate); empty text for the control.
  * @method P(B > A) for the Beta posteriors: Evan Miller's exact sum when a posterior parameter is a whole number and the sum is short (the default prior, up to tens of thousands of visitors), otherwise the integral ∫ f_B(x) F_A(x) dx by quadrature, with the smaller of P(B > A) and P(A > B) computed directly so tiny probabilities keep their digits.
  * @source E. Miller, "Formulas for Bayesian A/B Testing" (2015), closed form for whole-number parameters.
@@ -125,9 +125,9 @@ export function probAboveControl(
  * @helpurl https://localhost:3000/help/LIFT_INTERVAL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns Lower, median and upper relative lift of each challenger, as fractions.
  * @method Quantiles of the ratio of two independent Beta posteriors: P(B/A − 1 ≤ r) = ∫ f_A(x) F_B((1 + r)x) dx, inverted by Brent's method.
  * @source Distribution of a ratio of independent variables: the product-integral definition (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.
@@ -152,9 +152,9 @@ export function liftInterval(
  * @helpurl https://localhost:3000/help/RATE_DIFF_INTERVAL.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns Lower, median and upper difference of each challenger, in rate units.
  * @method Quantiles of the difference of two independent Beta posteriors: P(B − A ≤ d) = ∫ f_A(x) F_B(x + d) dx, inverted by Brent's method.
  * @source Convolution of independent variables (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.
@@ -179,8 +179,8 @@ export function rateDiffInterval(
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
  * @param min_lift The smallest relative lift that matters to you, as a fraction greater than -1 and at most 1 (required; 0.05 is +5%).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each challenger, P(rate ÷ control's rate − 1 > min_lift); empty text for the control.
  * @method P(B/A − 1 > m) = ∫ f_A(x) (1 − F_B((1 + m)x)) dx for the Beta posteriors, by quadrature.
  * @source Region of practical equivalence reasoning: J. K. Kruschke, Doing Bayesian Data Analysis, 2nd ed. (2015), §12.1.
@@ -204,8 +204,8 @@ export function probLiftAbove(
  * @helpurl https://localhost:3000/help/EXPECTED_LOSS.html
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns For each variant, E[highest rate − its rate], in rate units (0.001 is 0.1 percentage points).
  * @method Expected loss = E[max_j p_j] − E[p_i], with E[max] = ∫ (1 − Π F_j(x)) dx (the product over all variants) over the Beta posteriors, by quadrature.
  * @source C. Stucchio, "Bayesian A/B Testing at VWO" (2015), expected-loss decision rule.
@@ -231,8 +231,8 @@ export function expectedLoss(
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
  * @param [max_loss] The largest expected loss you accept, as a rate of 0 or more and less than 1 (optional; default 1% of the control's posterior mean rate).
  * @param [labels] Names of the variants, same shape as conversions (optional; default A, B, C… by position).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss.
  * @method The variant with the smallest expected loss is chosen when that loss is at most max_loss; otherwise the text names the current leader and its loss.
  * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).
@@ -259,8 +259,8 @@ export function decision(
  * @param conversions Conversions of each variant (a row or a column of whole numbers; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
  * @param [points] Number of rows of the table, 2 to 1000 (optional; default 101).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the rate grid in the first column, then the posterior density of each variant.
  * @method Beta posterior densities evaluated on an evenly spaced grid covering where any variant's posterior has visible mass.
  * @source Beta–Binomial conjugate posterior: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4.
@@ -286,8 +286,8 @@ export function posteriorDensity(
  * @param conversions Conversions of each variant (2 to 50 variants in a row or a column; the first is the control).
  * @param visitors Visitors of each variant, same shape as conversions (whole numbers, 1 or more).
  * @param [points] Number of rows of the table, 2 to 1000, and rows × challengers at most 5000 (optional; default 101, which fits 50 variants).
- * @param [prior_alpha] Prior alpha, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns points rows: the lift grid in the first column, then the density of each challenger's lift.
  * @method Density of the ratio B/A − 1 of independent Beta posteriors, g(r) = ∫ x f_A(x) f_B((1 + r)x) dx, by quadrature. The lifts are evenly spaced from the lowest to the highest challenger's 1% to 99% lift quantiles, each end kept within 3 interquartile ranges of the nearer quartile, so the long tail of a control with few conversions does not squeeze the chart into one spike.
  * @source Density of a ratio of independent variables (common practice); Beta posteriors as in Gelman et al., Bayesian Data Analysis, 3rd ed., §2.4.

@@ -19,10 +19,10 @@ import * as eventRates from '../stats/eventRates';
  * @customfunction EVENTS_RATE_INTERVAL
  * @helpurl https://localhost:3000/help/EVENTS_RATE_INTERVAL.html
  * @param events Events of each variant (a row or a column of whole numbers, 0 or more; the first is the control).
- * @param exposure Exposure of each variant, same shape as events (greater than 0: user-days, sessions…).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param exposure Exposure of each variant, same shape as events (1E-6 to 1E+12: user-days, sessions…).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns Lower and upper bound of each variant's events per unit of exposure.
  * @method Gamma–Poisson conjugate update: the posterior is Gamma(prior_shape + events, prior_rate + exposure); the interval is its central quantiles.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.6.
@@ -47,9 +47,9 @@ export function eventsRateInterval(
  * @customfunction EVENTS_PROB_HIGHEST
  * @helpurl https://localhost:3000/help/EVENTS_PROB_HIGHEST.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
- * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param exposure Exposure of each variant, same shape as events (1E-6 to 1E+12).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns For each variant, the probability (0 to 1) that its rate is the highest.
  * @method P(i highest) = ∫ f_i · Π F_j (the product over every other variant j) over the Gamma posteriors, by quadrature.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.6 (Gamma–Poisson posterior).
@@ -72,9 +72,9 @@ export function eventsProbHighest(
  * @customfunction EVENTS_PROB_ABOVE_CONTROL
  * @helpurl https://localhost:3000/help/EVENTS_PROB_ABOVE_CONTROL.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
- * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param exposure Exposure of each variant, same shape as events (1E-6 to 1E+12).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns For each challenger, P(its rate > the control's rate); empty text for the control.
  * @method Closed form P(λ_B > λ_A) = I_z(a_A, a_B) with z = b_A/(b_A + b_B), the regularised incomplete beta function of the posterior shapes a and rates b.
  * @source Gamma–Poisson comparison via the Beta distribution of λ_A/(λ_A + λ_B) (common practice; docs/check-values.md).
@@ -98,10 +98,10 @@ export function eventsProbAboveControl(
  * @customfunction EVENTS_LIFT_INTERVAL
  * @helpurl https://localhost:3000/help/EVENTS_LIFT_INTERVAL.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
- * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param exposure Exposure of each variant, same shape as events (1E-6 to 1E+12).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns Lower, median and upper relative lift of each challenger.
  * @method The ratio of independent Gamma posteriors is a scaled Beta-prime (F) variable; its quantiles give the interval.
  * @source Ratio of independent Gamma variables (common practice); posterior as in Gelman et al., BDA3 §2.6.
@@ -126,9 +126,9 @@ export function eventsLiftInterval(
  * @customfunction EVENTS_EXPECTED_LOSS
  * @helpurl https://localhost:3000/help/EVENTS_EXPECTED_LOSS.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
- * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param exposure Exposure of each variant, same shape as events (1E-6 to 1E+12).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns For each variant, E[highest rate − its rate], in events per unit of exposure.
  * @method E[max_j λ_j] − E[λ_i] over the Gamma posteriors, with E[max] by quadrature.
  * @source C. Stucchio, "Bayesian A/B Testing at VWO" (2015), expected loss; Gamma posterior as in BDA3 §2.6.

@@ -19,9 +19,9 @@ import * as normalMeans from '../stats/normalMeans';
  * @customfunction MEAN_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (whole numbers, 2 or more; the first is the control).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns Lower and upper bound of each variant's average.
  * @method With the reference prior p(μ, σ²) ∝ 1/σ², the mean's posterior is Student t with count − 1 degrees of freedom, centre mean and scale sd/√count; the interval is its central quantiles.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2.
@@ -40,8 +40,8 @@ export function meanInterval(count: any[][], mean: any[][], sd: any[][], level?:
  * @customfunction MEAN_PROB_HIGHEST
  * @helpurl https://localhost:3000/help/MEAN_PROB_HIGHEST.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
  * @returns For each variant, the probability (0 to 1) that its average is the highest.
  * @method P(i highest) = ∫ f_i · Π F_j (the product over every other variant j) over the Student t posteriors, by quadrature.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2 (posterior of a normal mean).
@@ -58,8 +58,8 @@ export function meanProbHighest(count: any[][], mean: any[][], sd: any[][]): any
  * @customfunction MEAN_PROB_ABOVE_CONTROL
  * @helpurl https://localhost:3000/help/MEAN_PROB_ABOVE_CONTROL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
  * @returns For each challenger, P(its average > the control's average); empty text for the control.
  * @method P(B > A) = ∫ f_B F_A over the Student t posteriors, by quadrature.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2.
@@ -78,9 +78,9 @@ export function meanProbAboveControl(count: any[][], mean: any[][], sd: any[][])
  * @customfunction MEAN_DIFF_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_DIFF_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns Lower, median and upper difference of each challenger.
  * @method Quantiles of the difference of two independent Student t posteriors (the Behrens–Fisher problem), P(B − A ≤ d) = ∫ f_A(x) F_B(x + d) dx, inverted by Brent's method.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2 and exercise 3.3 (difference of two normal means).
@@ -98,9 +98,9 @@ export function meanDiffInterval(count: any[][], mean: any[][], sd: any[][], lev
  * @customfunction MEAN_LIFT_INTERVAL
  * @helpurl https://localhost:3000/help/MEAN_LIFT_INTERVAL.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns Lower, median and upper relative lift of each challenger; an error naming the control if its average could plausibly be 0 or less.
  * @method Quantiles of the ratio B/A − 1 of independent Student t posteriors, P(B/A − 1 ≤ r) = ∫ f_A(x) F_B((1 + r)x) dx over A > 0.
  * @source Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §3.2; ratio distribution by its product-integral definition (common practice).
@@ -118,8 +118,8 @@ export function meanLiftInterval(count: any[][], mean: any[][], sd: any[][], lev
  * @customfunction MEAN_EXPECTED_LOSS
  * @helpurl https://localhost:3000/help/MEAN_EXPECTED_LOSS.html
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 2 or more).
- * @param mean Average of each variant, as AVERAGE gives, same shape as count.
- * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
+ * @param mean Average of each variant, as AVERAGE gives (−1E+12 to 1E+12), same shape as count.
+ * @param sd Standard deviation of each variant, as STDEV.S gives (0, or 1E-6 to 1E+12), same shape as count.
  * @returns For each variant, E[highest average − its average], in the metric's units.
  * @method E[max_j μ_j] − E[μ_i] over the Student t posteriors, with E[max] by quadrature.
  * @source C. Stucchio, "Bayesian A/B Testing at VWO" (2015), expected loss; Gelman et al., BDA3 §3.2 for the posterior.

@@ -20,12 +20,12 @@ import { thresholdForVariants as variantsThreshold } from '../stats/manyVariants
  * Chance that a two-variant test with this many visitors per variant ends with the challenger declared better (PROB_ABOVE_CONTROL at or above the threshold), if its true rate is baseline × (1 + lift). With lift 0 it is the false-alarm rate.
  * @customfunction DECISION_POWER
  * @helpurl https://localhost:3000/help/DECISION_POWER.html
- * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The challenger's true relative lift, as a fraction greater than -1 and at most 1 (0.1 is +10%).
+ * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
+ * @param lift The challenger's true relative lift, as a fraction from -0.99 to 1 (0.1 is +10%).
  * @param visitors_per_variant Visitors in each of the two variants (whole number, 1 or more).
- * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, between 0 and 1 (optional; default 0.95).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A probability between 0 and 1.
  * @method Exact sum over the binomial outcomes of both variants of the probability that the Beta posterior read-out reaches the threshold (no simulation).
  * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, "Bayesian assessment of sample size for clinical trials of cost-effectiveness", Medical Decision Making 21 (2001).
@@ -51,12 +51,12 @@ export function decisionPower(
  * Smallest number of visitors per variant for which DECISION_POWER reaches the power you want.
  * @customfunction VISITORS_NEEDED
  * @helpurl https://localhost:3000/help/VISITORS_NEEDED.html
- * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The smallest relative lift you want to detect, as a fraction greater than -1 and at most 1, not 0 (0.1 is +10%).
- * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, between 0 and 1 (optional; default 0.95).
- * @param [power] Chance of declaring the winner you want, between 0 and 1 (optional; default 0.8).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
+ * @param lift The smallest relative lift you want to detect, as a fraction from -0.99 to 1, not 0 (0.1 is +10%).
+ * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, 0.01 to 0.9999 (optional; default 0.95).
+ * @param [power] Chance of declaring the winner you want, 0.01 to 0.9999 (optional; default 0.8).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns Visitors per variant (a whole number).
  * @method Search over whole numbers of visitors for the first one whose exact DECISION_POWER reaches power.
  * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, Medical Decision Making 21 (2001).
@@ -83,10 +83,10 @@ export function visitorsNeeded(
  * Visitors per variant for the classic two-proportion z-test, for comparison with textbook plans.
  * @customfunction CLASSIC_SAMPLE_SIZE
  * @helpurl https://localhost:3000/help/CLASSIC_SAMPLE_SIZE.html
- * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The smallest relative lift you want to detect, as a fraction greater than -1 and at most 1, not 0 (0.1 is +10%).
- * @param [alpha] Significance level, between 0 and 1 (optional; default 0.05).
- * @param [power] Chance of detecting the lift, between 0 and 1 (optional; default 0.8).
+ * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
+ * @param lift The smallest relative lift you want to detect, as a fraction from -0.99 to 1, not 0 (0.1 is +10%).
+ * @param [alpha] Significance level, 0.0001 to 0.5 (optional; default 0.05).
+ * @param [power] Chance of detecting the lift, 0.01 to 0.9999 (optional; default 0.8).
  * @param [sides] 1 for a one-sided test, 2 for two-sided (optional; default 2).
  * @returns Visitors per variant, rounded up to a whole number.
  * @method n = (z_(1−alpha/sides) √(2 p̄(1 − p̄)) + z_power √(p1(1 − p1) + p2(1 − p2)))² / (p2 − p1)², with the pooled rate p̄ under the null and no continuity correction, rounded up.

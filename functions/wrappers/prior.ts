@@ -11,15 +11,15 @@
  * runs it through the wrapper.
  */
 import { CATALOGUE } from '../catalogue';
-import { priorRow, runFunction } from '../sheet';
+import { fittedPriorInDomain, priorFromMeanInDomain, priorRow, runFunction } from '../sheet';
 import * as prior from '../stats/prior';
 
 /**
  * A Beta prior from a typical conversion rate and how many visitors' worth of belief it carries. Spills alpha and beta in one row.
  * @customfunction PRIOR_FROM_MEAN
  * @helpurl https://localhost:3000/help/PRIOR_FROM_MEAN.html
- * @param mean_rate The rate you expect, between 0 and 1 (0.05 is 5%).
- * @param strength How many visitors the prior is worth, greater than 0 (e.g. 100 for a weak prior).
+ * @param mean_rate The rate you expect, 0.000001 to 0.999999 (0.05 is 5%).
+ * @param strength How many visitors the prior is worth, 0.002 to 2E+6 (e.g. 100 for a weak prior).
  * @returns alpha and beta in one row, with alpha ÷ (alpha + beta) = mean_rate and alpha + beta = strength.
  * @method alpha = mean_rate × strength, beta = (1 − mean_rate) × strength.
  * @source A Beta(a, b) prior is read as "worth a + b visitors" with mean a/(a + b) (common practice).
@@ -28,7 +28,7 @@ import * as prior from '../stats/prior';
  */
 export function priorFromMean(mean_rate: number, strength: number): any[][] {
   return runFunction(CATALOGUE.PRIOR_FROM_MEAN, { mean_rate, strength }, (a) =>
-    priorRow(prior.priorFromMean(a.mean_rate, a.strength)),
+    priorRow(priorFromMeanInDomain(prior.priorFromMean(a.mean_rate, a.strength), a.mean_rate, a.strength)),
   );
 }
 
@@ -36,9 +36,9 @@ export function priorFromMean(mean_rate: number, strength: number): any[][] {
  * A Beta prior whose central interval is the range of rates you believe in (e.g. "between 3% and 7%, 9 times in 10"). Spills alpha and beta in one row.
  * @customfunction PRIOR_FROM_INTERVAL
  * @helpurl https://localhost:3000/help/PRIOR_FROM_INTERVAL.html
- * @param low Lower end of the plausible rates, between 0 and 1.
- * @param high Upper end of the plausible rates, between 0 and 1 and above low.
- * @param [level] How sure you are the rate lies between low and high, between 0 and 1 (optional; default 0.90).
+ * @param low Lower end of the plausible rates, 0.000001 to 0.999999.
+ * @param high Upper end of the plausible rates, 0.000001 to 0.999999 and above low.
+ * @param [level] How sure you are the rate lies between low and high, 0.01 to 0.9999 (optional; default 0.90).
  * @returns alpha and beta in one row.
  * @method Solves BETA.INV((1 − level)/2, alpha, beta) = low and BETA.INV((1 + level)/2, alpha, beta) = high for alpha and beta by a safeguarded Newton/Brent search.
  * @source Quantile matching for prior elicitation: A. O'Hagan et al., Uncertain Judgements: Eliciting Experts' Probabilities (2006), ch. 6.
@@ -48,7 +48,12 @@ export function priorFromMean(mean_rate: number, strength: number): any[][] {
  */
 export function priorFromInterval(low: number, high: number, level?: number): any[][] {
   return runFunction(CATALOGUE.PRIOR_FROM_INTERVAL, { low, high, level }, (a) =>
-    priorRow(prior.priorFromInterval(a.low, a.high, a.level)),
+    priorRow(
+      fittedPriorInDomain(
+        prior.priorFromInterval(a.low, a.high, a.level),
+        'low and high are too close together (or too far apart) for this level; widen or narrow the range',
+      ),
+    ),
   );
 }
 
@@ -68,10 +73,13 @@ export function priorFromInterval(low: number, high: number, level?: number): an
 export function priorFromHistory(conversions: any[][], visitors: any[][], method?: string): any[][] {
   return runFunction(CATALOGUE.PRIOR_FROM_HISTORY, { conversions, visitors, method }, (a) =>
     priorRow(
-      prior.priorFromHistory(
-        a.variants.map((v) => v.conversions),
-        a.variants.map((v) => v.visitors),
-        a.method,
+      fittedPriorInDomain(
+        prior.priorFromHistory(
+          a.variants.map((v) => v.conversions),
+          a.variants.map((v) => v.visitors),
+          a.method,
+        ),
+        'the past rates (conversions out of visitors) hardly differ or differ wildly; choose a prior with PRIOR_FROM_MEAN',
       ),
     ),
   );

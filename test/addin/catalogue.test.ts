@@ -105,7 +105,8 @@ describe('the wrappers', () => {
   });
 
   test('the Excel help of each number argument states its rule\'s bounds and default', () => {
-    const numbers = (text: string): number[] => [...text.matchAll(/-?\d+(?:\.\d+)?/g)].map((m) => Number(m[0]));
+    const numbers = (text: string): number[] =>
+      [...text.matchAll(/[-−]?\d+(?:\.\d+)?(?:E[+-]?\d+)?/gi)].map((m) => Number(m[0].replace('−', '-')));
     const problems: string[] = [];
     for (const fn of CATALOGUE_LIST) {
       const doc = docs.find((d) => d.id === fn.id) as FunctionDoc;

@@ -286,7 +286,7 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.rateInterval(col([1, 2]), col([10, 20]), 1))).toEqual({
       code: '#VALUE!',
-      message: 'level: 1 is not allowed; enter a number greater than 0 and less than 1',
+      message: 'level: 1 is not allowed; enter a number from 0.01 to 0.9999',
     });
     expect(sheetError(() => F.rateInterval(col([1]), col([10]), 0.9, 1, 1, 'widest'))).toEqual({
       code: '#VALUE!',
@@ -315,7 +315,7 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.posteriorDensity(col([1]), col([10]), 1))).toEqual({
       code: '#VALUE!',
-      message: 'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
+      message: 'points: 1 is not allowed; enter a whole number from 2 to 1000',
     });
     const fiftyOne = Array.from({ length: 51 }, () => 5);
     expect(sheetError(() => F.probHighest(col(fiftyOne), col(fiftyOne.map(() => 50))))).toEqual({
@@ -388,11 +388,11 @@ describe('priors', () => {
   test('priors: scalar checks name the argument', () => {
     expect(sheetError(() => F.priorFromMean(1.2, 100))).toEqual({
       code: '#VALUE!',
-      message: 'mean_rate: 1.2 is not allowed; enter a number greater than 0 and less than 1',
+      message: 'mean_rate: 1.2 is not allowed; enter a number from 1E-6 to 0.999999',
     });
     expect(sheetError(() => F.priorFromMean(0.1, 0))).toEqual({
       code: '#VALUE!',
-      message: 'strength: 0 is not allowed; enter a number greater than 0',
+      message: 'strength: 0 is not allowed; enter a number from 0.002 to 2E+6',
     });
   });
 });
@@ -428,7 +428,7 @@ describe('planning', () => {
   test('planning: argument checks', () => {
     expect(sheetError(() => F.classicSampleSize(0.1, 0.5, 0.05, 0.8, 3))).toEqual({
       code: '#VALUE!',
-      message: 'sides: 3 is not allowed; enter a whole number, at least 1 and at most 2',
+      message: 'sides: 3 is not allowed; enter a whole number from 1 to 2',
     });
     expect(sheetError(() => F.decisionPower(0.1, 0.2, 100.5))).toEqual({
       code: '#VALUE!',
@@ -436,7 +436,7 @@ describe('planning', () => {
     });
     expect(sheetError(() => F.visitorsNeeded(0, 0.2))).toEqual({
       code: '#VALUE!',
-      message: 'baseline_rate: 0 is not allowed; enter a number greater than 0 and less than 1',
+      message: 'baseline_rate: 0 is not allowed; enter a number from 1E-6 to 0.999999',
     });
   });
 });
@@ -459,7 +459,7 @@ describe('SRM_PVALUE against R chisq.test', () => {
       message: 'at least 2 variants are needed to compare; only 1 was given',
     });
     expect(sheetError(() => F.srmPvalue(col([100, 120]), col([1, '']))).message).toBe(
-      'planned_shares, item 2: is blank; enter a number greater than 0',
+      'planned_shares, item 2: is blank; enter a number from 1E-6 to 1E+12',
     );
   });
 });
@@ -549,11 +549,11 @@ describe('counts per exposure (Gamma posteriors) against scipy', () => {
     });
     expect(sheetError(() => F.eventsExpectedLoss(col([3, 4]), col([10, 0])))).toEqual({
       code: '#VALUE!',
-      message: 'exposure, item 2: 0 is not allowed; enter a number greater than 0',
+      message: 'exposure, item 2: 0 is not allowed; enter a number from 1E-6 to 1E+12',
     });
     expect(sheetError(() => F.eventsProbAboveControl(col([3, 4]), col([10, 10]), 0))).toEqual({
       code: '#VALUE!',
-      message: 'prior_shape: 0 is not allowed; enter a number greater than 0',
+      message: 'prior_shape: 0 is not allowed; enter a number from 0.001 to 1E+6',
     });
   });
 });

@@ -91,7 +91,7 @@ test('each page states every argument\'s allowed values, as the catalogue\'s rul
     }
   }
   // spot check of the words themselves (rules.ts): a level is a fraction strictly between 0 and 1
-  expect(pages.get('RATE_INTERVAL.html')).toContain('<td>a number greater than 0 and less than 1; default 0.95</td>');
+  expect(pages.get('RATE_INTERVAL.html')).toContain('<td>a number from 0.01 to 0.9999; default 0.95</td>');
 });
 
 test('cross-checks with built-in formulas are given where the catalogue promises one', () => {

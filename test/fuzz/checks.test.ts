@@ -25,7 +25,8 @@ const { checkResult, internalWording } = require('../../fuzz/checks.js') as {
   checkResult(model: Model, args: unknown[], result: Record<string, unknown>, limits: { memoryMb: number }): Finding[];
   internalWording(message: string): string[];
 };
-const { judge } = require('../../fuzz/spec.js') as {
+const { judge, numberProblem } = require('../../fuzz/spec.js') as {
+  numberProblem(rule: object, cell: unknown): string | undefined;
   judge(
     model: Model,
     args: unknown[],
@@ -106,7 +107,11 @@ describe('fuzzer oracle: the declared rules read independently of the sheet laye
       'conversions: shape differs',
     ]);
     expect(why('PROB_HIGHEST', [...COLUMN, 0.5])).toEqual(['prior_alpha: given without prior_beta']);
-    expect(why('PROB_HIGHEST', [...COLUMN, 0, 1])).toEqual(['prior_alpha: not above 0']);
+    expect(why('PROB_HIGHEST', [...COLUMN, 0, 1])).toEqual(['prior_alpha: below min 0.001']);
+    // a rule that allows 0 besides its bounds (sd: 0, or 1E-6 to 1E+12)
+    const sd = { name: 'sd', kind: 'real', min: 1e-6, max: 1e12, orZero: true };
+    expect([0, -0, 1e-6, 1e12].map((x) => numberProblem(sd, x))).toEqual([undefined, undefined, undefined, undefined]);
+    expect([5e-324, 1e-7, -1].map((x) => numberProblem(sd, x))).toEqual(Array(3).fill('below min 0.000001'));
     expect(why('SRM_PVALUE', [[[1], [2 ** 53 + 2]]])).toEqual(['visitors: count above 2^53 at item 2']);
     expect(why('RATE_INTERVAL', [...COLUMN, null, null, null, ' HDI '])).toEqual([]);
     expect(why('RATE_INTERVAL', [...COLUMN, null, null, null, 'exact'])).toEqual(['method: not one of the choices']);

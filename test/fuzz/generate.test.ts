@@ -12,6 +12,7 @@ import * as catalogue from '../../functions/catalogue';
 import { entry, optional, priorPart, range } from '../../functions/sheet/entry';
 import * as rules from '../../functions/sheet/rules';
 import { COMPARISON } from '../../functions/sheet/variants';
+import { MAX_LEVEL, MIN_PRIOR } from '../../functions/stats/limits';
 
 interface Model {
   id: string;
@@ -123,7 +124,8 @@ describe('fuzzer inputs', () => {
       has('-0', (c) => cells(c).some((x) => Object.is(x, -0))),
       has('a prior of 1e-12', (c) => argOf(c, 'prior_alpha') === 1e-12 || argOf(c, 'prior_beta') === 1e-12),
       has('a prior of 1e12', (c) => argOf(c, 'prior_alpha') === 1e12 || argOf(c, 'prior_beta') === 1e12),
-      has('a level next to 1', (c) => argOf(c, 'level') === 1 - 2 ** -53),
+      has('a level at its largest allowed value', (c) => argOf(c, 'level') === MAX_LEVEL),
+      has('a prior at its smallest allowed value', (c) => argOf(c, 'prior_alpha') === MIN_PRIOR),
       has('50 variants', (c) => ranges(c).some((r) => r.flat().length === 50)),
       has('51 variants', (c) => judge(model(c), c.args).countProblem && ranges(c).some((r) => r.flat().length > 50)),
       has('a value just outside its bounds', (c) =>

@@ -31,6 +31,15 @@ test('an entity is read as the text it shows: a label, and text where a count be
   expect(error.message).toBe('visitors, item 2: "Big basket icon" is text, not a number; enter a whole number, at least 1 (convert text with VALUE() if needed)');
 });
 
-test('an object without a plain value stays "not a number"', () => {
-  expect(classifyCell({ type: 'Entity', basicValue: { nested: true } })).toEqual({ kind: 'other', description: 'a object value' });
+test('an entity whose basic value is a number is still the text it shows (a card is a label, not a count)', () => {
+  const card = { type: 'Entity', basicType: 'Double', basicValue: 2428, text: '2428', properties: {} };
+  expect(classifyCell(card)).toEqual({ kind: 'text', text: '2428' });
+  expect(classifyCell({ type: 'Entity', basicValue: { nested: true } })).toEqual({ kind: 'text', text: 'a linked data type' });
+});
+
+test('an object without a plain value stays "not a number", in plain words', () => {
+  expect(classifyCell({ type: 'Other', basicValue: { nested: true } })).toEqual({
+    kind: 'other',
+    description: 'a value that is not a plain number',
+  });
 });

@@ -33,6 +33,10 @@ import {
   BASELINE_RATE,
   percentHint,
   variantLetter,
+  BEYOND_CELL_MESSAGE,
+  CATCH_ALL_MESSAGE,
+  intervalRows,
+  medianRows,
 } from '../../functions/sheet';
 import { amountDecisionCell, decisionText, defaultLabel, formatAmount, formatPercent, labelOf } from '../../functions/sheet/decision';
 import { readArgs } from '../../functions/sheet/args';
@@ -238,26 +242,36 @@ describe('priors and scalars', () => {
     expect(sheetError(() => readBetaPrior(null, 5)).message).toMatch(/^prior_alpha and prior_beta: give both or neither \(prior_alpha is missing\)/);
   });
 
-  test('prior parameters must be positive', () => {
+  test('prior parameters lie in the declared domain, 0.001 to 1E+6 (stats/limits.ts), both ends included', () => {
     expect(sheetError(() => readBetaPrior(0, 1))).toEqual({
       code: '#VALUE!',
-      message: 'prior_alpha: 0 is not allowed; enter a number greater than 0',
+      message: 'prior_alpha: 0 is not allowed; enter a number from 0.001 to 1E+6',
     });
+    expect(sheetError(() => readBetaPrior(1, 1e-12))).toEqual({
+      code: '#VALUE!',
+      message: 'prior_beta: 1e-12 is not allowed; enter a number from 0.001 to 1E+6',
+    });
+    expect(sheetError(() => readGammaPrior(2e6, 1)).message).toBe(
+      'prior_shape: 2000000 is not allowed; enter a number from 0.001 to 1E+6',
+    );
+    expect(readBetaPrior(0.001, 1e6)).toEqual({ alpha: 0.001, beta: 1e6 });
   });
 
   test('the Gamma prior takes each default on its own: shape 1, rate 0', () => {
     expect(readGammaPrior(undefined, undefined)).toEqual({ shape: 1, rate: 0 });
     expect(readGammaPrior(3, undefined)).toEqual({ shape: 3, rate: 0 });
-    expect(sheetError(() => readGammaPrior(1, -1)).message).toBe('prior_rate: -1 is not allowed; enter a number at least 0');
+    expect(sheetError(() => readGammaPrior(1, -1)).message).toBe('prior_rate: -1 is not allowed; enter a number from 0 to 1E+12');
   });
 
-  test('levels lie strictly between 0 and 1; omitted gives 0.95', () => {
+  test('levels lie from 0.01 to 0.9999 (the declared domain); omitted gives 0.95', () => {
     expect(readOptionalNumber(LEVEL, null)).toBe(0.95);
     expect(readOptionalNumber(LEVEL, 0.8)).toBe(0.8);
-    for (const bad of [0, 1, 1.5, -0.1]) {
+    expect(readOptionalNumber(LEVEL, 0.9999)).toBe(0.9999);
+    expect(readOptionalNumber(LEVEL, 0.01)).toBe(0.01);
+    for (const bad of [0, 1, 1.5, -0.1, 0.99999, 0.001]) {
       expect(sheetError(() => readOptionalNumber(LEVEL, bad))).toEqual({
         code: '#VALUE!',
-        message: `level: ${bad} is not allowed; enter a number greater than 0 and less than 1`,
+        message: `level: ${bad} is not allowed; enter a number from 0.01 to 0.9999`,
       });
     }
   });
@@ -271,7 +285,7 @@ describe('priors and scalars', () => {
   test('points must be a whole number from 2 to 1000', () => {
     expect(readOptionalNumber(POINTS, undefined)).toBe(101);
     expect(sheetError(() => readOptionalNumber(POINTS, 1)).message).toBe(
-      'points: 1 is not allowed; enter a whole number, at least 2 and at most 1000',
+      'points: 1 is not allowed; enter a whole number from 2 to 1000',
     );
     expect(sheetError(() => readOptionalNumber(POINTS, 10.5)).message).toBe('points: 10.5 is not a whole number');
   });
@@ -298,7 +312,7 @@ describe('other families', () => {
       'count, item 1: 1 is not allowed; enter a whole number, at least 2',
     );
     expect(sheetError(() => readMeans(col(10, 12), col(1, 2), col(1, -3), COMPARISON)).message).toBe(
-      'sd, item 2: -3 is not allowed; enter a number at least 0',
+      'sd, item 2: -3 is not allowed; enter 0, or a number from 1E-6 to 1E+12',
     );
     expect(sheetError(() => readMeans(col(10, 12), col(1, ''), col(1, 3), COMPARISON)).message).toBe(
       'mean, item 2: is blank while count has a value; fill in both or leave both blank',
@@ -342,7 +356,7 @@ describe('other families', () => {
       'planned_shares must have the same shape as visitors: planned_shares is 1 row × 2 columns, visitors is 2 rows × 1 column',
     );
     expect(sheetError(() => readSplit(col(500, 520), col(1, 0), COMPARISON)).message).toBe(
-      'planned_shares, item 2: 0 is not allowed; enter a number greater than 0',
+      'planned_shares, item 2: 0 is not allowed; enter a number from 1E-6 to 1E+12',
     );
   });
 });
@@ -385,11 +399,24 @@ describe('spills', () => {
     ]);
   });
 
+  test('interval rows are put in order; values closer than the search tolerance may have crossed', () => {
+    // RATE_DIFF_INTERVAL({1,1},{1,1},0.8,0.001,0.001): a symmetric difference, median 0 and 10% point a tiny
+    // negative number; the searches returned 0 and −2.9e-16, both within their tolerance of the true values
+    expect(medianRows([{ lower: 0, median: -2.868e-16, upper: 0 }])).toEqual([[-2.868e-16, 0, 0]]);
+    expect(intervalRows([{ lower: 0.2, upper: 0.1 }, { lower: -1, upper: 1 }])).toEqual([[0.1, 0.2], [-1, 1]]);
+  });
+
   test('a non-finite number never reaches a cell', () => {
     expect(sheetError(() => spillPerVariant(columnTable, [0.1, Number.NaN, 0.3]))).toEqual({
       code: '#VALUE!',
-      message: 'unexpected problem while computing (please report it): the result is not a finite number (NaN)',
+      message: CATCH_ALL_MESSAGE,
     });
+  });
+
+  test('an infinite answer is #N/A saying it is beyond what a cell holds, in plain words', () => {
+    const error = sheetError(() => spillBlockVersusControl(columnTable, [[0, 1, Number.POSITIVE_INFINITY], [0, 1, 2]], 3));
+    expect(error).toEqual({ code: '#N/A', message: BEYOND_CELL_MESSAGE });
+    expect(error.message).not.toMatch(/Infinity|NaN|unexpected|report/);
   });
 });
 
@@ -408,11 +435,18 @@ describe('the one error mapping', () => {
     });
   });
 
-  test('a raw JavaScript error becomes #VALUE! with an explanation', () => {
+  test('a raw JavaScript error becomes #VALUE! in plain words, without its code detail', () => {
     expect(sheetError(() => { throw new TypeError('x is undefined'); })).toEqual({
       code: '#VALUE!',
-      message: 'unexpected problem while computing (please report it): x is undefined',
+      message: 'could not compute this result for these inputs; check that every argument is within the range its help page gives',
     });
+  });
+
+  test('a core message that prints an overflowed number never reaches the cell as such', () => {
+    const overflow = new StatsError('invalid_argument', 'a relative lift must be a finite number greater than -1, not Infinity');
+    expect(sheetError(() => { throw overflow; })).toEqual({ code: '#N/A', message: BEYOND_CELL_MESSAGE });
+    const nan = new StatsError('invalid_argument', 'x must be a number, got NaN');
+    expect(sheetError(() => { throw nan; })).toEqual({ code: '#VALUE!', message: CATCH_ALL_MESSAGE });
   });
 
   test('results pass through unchanged', () => {
@@ -489,10 +523,10 @@ describe('a percentage typed where a fraction belongs gets a hint', () => {
 
   test('outside 2…100 the plain rule is stated (1.5 and 150 are not percentages of a fraction)', () => {
     expect(sheetError(() => readOptionalNumber(LEVEL, 150)).message).toBe(
-      'level: 150 is not allowed; enter a number greater than 0 and less than 1',
+      'level: 150 is not allowed; enter a number from 0.01 to 0.9999',
     );
     expect(sheetError(() => readOptionalNumber(LEVEL, -50)).message).toBe(
-      'level: -50 is not allowed; enter a number greater than 0 and less than 1',
+      'level: -50 is not allowed; enter a number from 0.01 to 0.9999',
     );
     expect(percentHint(LEVEL, 1.5)).toBeUndefined();
     expect(percentHint(POINTS, 50)).toBeUndefined();

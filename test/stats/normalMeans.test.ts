@@ -100,7 +100,7 @@ describe.each(cases.map((c) => [c.name, c]))('normalMeans against scipy: %s', (_
       const pct = 100 * c.controlBelowZero;
       const shown = pct >= 0.1 ? `${pct.toFixed(1)}%` : `${pct.toPrecision(2)}%`;
       expect(e.message).toBe(
-        `the control's mean could plausibly be zero or negative (${shown}), so a relative lift is undefined; ` +
+        `the control's mean could plausibly be zero or negative (${shown}), so a relative lift has no meaning; ` +
           'use MEAN_DIFF_INTERVAL for the absolute difference',
       );
       return;
@@ -211,7 +211,7 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
     expectStatsErrorExact(
       () => meanLiftInterval(pm.zero_control?.variants ?? []),
       'not_available',
-      "the control's mean could plausibly be zero or negative (100.0%), so a relative lift is undefined; " +
+      "the control's mean could plausibly be zero or negative (100.0%), so a relative lift has no meaning; " +
         'use MEAN_DIFF_INTERVAL for the absolute difference',
     );
   });
