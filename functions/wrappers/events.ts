@@ -153,8 +153,8 @@ export function eventsExpectedLoss(
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
  * @param exposure Exposure of each variant, same shape as events (greater than 0).
  * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is a 5% higher rate; −0.05 asks "no worse than 5% lower").
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns For each challenger, P(its rate / the control's rate − 1 > min_lift); empty text for the control.
  * @method Closed form: with a = shape + events and b = rate + exposure, P(λ_i/λ_0 ≤ k) = I_x(a_i, a_0) with x = k·b_i/(b_0 + k·b_i), k = 1 + the minimum lift (the scaled ratio is F-distributed); the upper tail is computed directly.
  * @source Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions, vol. 2, ch. 27; checked against scipy.special.betaincc and quadrature (the lift-above reference script in test/reference).
@@ -180,10 +180,10 @@ export function eventsProbLiftAbove(
  * @helpurl https://localhost:3000/help/EVENTS_DECISION.html
  * @param events Events of each variant (2 to 50 variants; whole numbers, 0 or more).
  * @param exposure Exposure of each variant, same shape as events (greater than 0).
- * @param [max_loss] The largest expected loss you accept, in events per unit of exposure, 0 or more (optional; default 1% of the control's posterior mean rate).
+ * @param [max_loss] The largest expected loss you accept, in events per unit of exposure, 0 to 1E+12 (optional; default 1% of the control's posterior mean rate).
  * @param [labels] Names of the variants, same shape as events (optional; default A, B, C… by position).
- * @param [prior_shape] Gamma prior shape, greater than 0 (optional; default 1).
- * @param [prior_rate] Gamma prior rate, 0 or more (optional; default 0, flat on the rate).
+ * @param [prior_shape] Gamma prior shape, 0.001 to 1E+6 (optional; default 1).
+ * @param [prior_rate] Gamma prior rate, 0 to 1E+12 (optional; default 0, flat on the rate).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss in events per unit of exposure.
  * @method DECISION's rule on event rates: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.
  * @source Expected-loss stopping rule: C. Stucchio, "Bayesian A/B Testing at VWO" (2015).

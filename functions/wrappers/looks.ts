@@ -20,12 +20,12 @@ import { POSTERIOR_TABLES } from '../posteriorTables';
  * Chance that a test with no true difference declares a winner at one of several looks, stopping at the first: the false-alarm rate of looking often.
  * @customfunction FALSE_ALARM_WITH_LOOKS
  * @helpurl https://localhost:3000/help/FALSE_ALARM_WITH_LOOKS.html
- * @param baseline_rate The conversion rate of both variants, between 0 and 1.
+ * @param baseline_rate The conversion rate of both variants, 0.000001 to 0.999999.
  * @param visitors_at_looks Visitors per variant at each look, cumulative and increasing (a row or a column of 1 to 100 whole numbers, each 1 to 1000000000).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner at a look, greater than 0.5 and at most 0.999999 (optional; default 0.95).
  * @param [sides] 1: only the challenger can be declared; 2: either variant, when its chance of being higher reaches the threshold (optional; 1 or 2, default 1).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A probability between 0 and 1; compare it with 1 − threshold, the rate of a single look.
  * @method Small tests: exact enumeration of both variants' conversion counts from look to look, with the read-out's own decision at every count (exact up to rounding: within 1e-11 of an independent enumeration in scipy). Larger tests: each look's own chance of a declaration computed exactly (as DECISION_POWER), joined across the looks by recursive numerical integration of the normal limit; within 0.001 of the exact enumeration (measured), closer as the counts grow.
  * @source P. Armitage, C. K. McPherson and B. C. Rowe, "Repeated significance tests on accumulating data", JRSS A 132 (1969); C. Jennison and B. W. Turnbull, Group Sequential Methods with Applications to Clinical Trials (2000), ch. 1 and 19.
@@ -54,12 +54,12 @@ export function falseAlarmWithLooks(
  * Chance that a challenger truly at baseline × (1 + lift) is declared better at one of several looks, stopping at the first.
  * @customfunction POWER_WITH_LOOKS
  * @helpurl https://localhost:3000/help/POWER_WITH_LOOKS.html
- * @param baseline_rate The control's conversion rate, between 0 and 1.
- * @param lift The challenger's true relative lift, as a fraction greater than -1 and at most 1 (0.1 is +10%).
+ * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
+ * @param lift The challenger's true relative lift, as a fraction from -0.99 to 1 (0.1 is +10%).
  * @param visitors_at_looks Visitors per variant at each look, cumulative and increasing (a row or a column of 1 to 100 whole numbers, each 1 to 1000000000).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare the challenger at a look, greater than 0.5 and at most 0.999999 (optional; default 0.95).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A probability between 0 and 1.
  * @method The same method as the false-alarm rate with looks, with the challenger at baseline × (1 + lift): exact enumeration for small tests, each look's exact chance joined by recursive integration for larger ones (within 0.001 of the exact enumeration).
  * @source P. Armitage, C. K. McPherson and B. C. Rowe, JRSS A 132 (1969); C. Jennison and B. W. Turnbull, Group Sequential Methods (2000), ch. 19.
@@ -86,12 +86,12 @@ export function powerWithLooks(
  * The one PROB_ABOVE_CONTROL threshold to use at every look so that the chance of any false declaration stays at false_alarm.
  * @customfunction THRESHOLD_FOR_LOOKS
  * @helpurl https://localhost:3000/help/THRESHOLD_FOR_LOOKS.html
- * @param baseline_rate The conversion rate of both variants, between 0 and 1.
+ * @param baseline_rate The conversion rate of both variants, 0.000001 to 0.999999.
  * @param visitors_at_looks Visitors per variant at each look, cumulative and increasing (a row or a column of 1 to 100 whole numbers, each 1 to 1000000000).
  * @param [false_alarm] The overall false-alarm rate to keep, at least 0.000001 and at most 0.5 (optional; default 0.05).
  * @param [sides] 1: only the challenger can be declared; 2: either variant (optional; 1 or 2, default 1).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A threshold between 0.5 and 0.999999: declare at a look only when PROB_ABOVE_CONTROL reaches it.
  * @method Solves: the false-alarm rate with these looks at the threshold equals the rate asked, by the same method as that rate (so the rate at the result is at most the one asked), to 0.0001 on the normal-quantile scale of the threshold; for small tests the rate moves in steps and the middle of the step reached is returned. With large looks it is the constant boundary of Pocock (1977).
  * @source S. J. Pocock, "Group sequential methods in the design and analysis of clinical trials", Biometrika 64 (1977); C. Jennison and B. W. Turnbull, Group Sequential Methods (2000), ch. 2 and 19.
@@ -120,8 +120,8 @@ export function thresholdForLooks(
  * @helpurl https://localhost:3000/help/PROB_ABOVE_CONTROL_BY_DAY.html
  * @param conversions_by_day Conversions of each day (rows) and variant (columns, the control first); counts of that day, not running totals.
  * @param visitors_by_day Visitors of each day and variant, same shape as conversions_by_day. A row left blank in both is a day without data.
- * @param [prior_alpha] Prior alpha of every variant's rate, greater than 0 (optional; default 1, give together with prior_beta).
- * @param [prior_beta] Prior beta of every variant's rate, greater than 0 (optional; default 1, give together with prior_alpha).
+ * @param [prior_alpha] Prior alpha of every variant's rate, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta of every variant's rate, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns One row per day and one column per challenger; a blank day gives a blank row, and a challenger without visitors yet a blank cell.
  * @method P(beats control) as in the read-out, on the running totals of each day: Evan Miller's exact sum where it applies, otherwise quadrature of the Beta posteriors.
  * @source E. Miller, "Formulas for Bayesian A/B Testing" (2015); A. Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4.

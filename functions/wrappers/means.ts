@@ -160,7 +160,7 @@ export function meanProbLiftAbove(count: any[][], mean: any[][], sd: any[][], mi
  * @param count Number of values of each variant, as COUNT gives (2 to 50 variants; whole numbers, 3 or more for a finite loss).
  * @param mean Average of each variant, as AVERAGE gives, same shape as count.
  * @param sd Standard deviation of each variant, as STDEV.S gives (0 or more), same shape as count.
- * @param [max_loss] The largest expected loss you accept, in the metric's own units, 0 or more (optional; default 1% of the control's average).
+ * @param [max_loss] The largest expected loss you accept, in the metric's own units, 0 to 1E+12 (optional; default 1% of the control's average).
  * @param [labels] Names of the variants, same shape as count (optional; default A, B, C… by position).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss in the metric's units.
  * @method DECISION's rule on averages: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.

@@ -110,12 +110,12 @@ export function classicSampleSize(
  * The smallest relative lift a test of this size detects with the power you want: the fixed-budget question ("what can we detect in four weeks?").
  * @customfunction SMALLEST_DETECTABLE_LIFT
  * @helpurl https://localhost:3000/help/SMALLEST_DETECTABLE_LIFT.html
- * @param baseline_rate The control's conversion rate, between 0 and 1.
+ * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
  * @param visitors_per_variant Visitors in each of the two variants (whole number, at least 1 and at most 1000000000).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, greater than 0.5 and at most 0.999999 (optional; default 0.95).
- * @param [power] Chance of declaring the winner, between 0 and 1 (optional; default 0.8).
- * @param [prior_alpha] Prior alpha used in the read-out, greater than 0 (optional; default 1, give together with prior_beta; 0.001 to 10000000 here).
- * @param [prior_beta] Prior beta used in the read-out, greater than 0 (optional; default 1, give together with prior_alpha; 0.001 to 10000000 here).
+ * @param [power] Chance of declaring the winner, 0.01 to 0.9999 (optional; default 0.8).
+ * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
+ * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A relative lift (0.2 is +20%).
  * @method The lift at which DECISION_POWER at exactly this size equals power (decision power rises strictly with the lift, so there is one): the read-out's declaring outcomes are found once, then the power at a lift is a sum over the challenger's binomial outcomes, solved by Brent's method to about 1e-10.
  * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, Medical Decision Making 21 (2001); the inverse of DECISION_POWER.

@@ -34,7 +34,7 @@ function totals(
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns Lower and upper bound of each variant's revenue per visitor (same currency as revenue).
  * @method Revenue per visitor is rate × order value, independent: rate ~ Beta(1 + orders, 1 + visitors − orders); order value exponential with 1/value ~ Gamma(orders, revenue), or with an order sd s a Student t (orders − 1 df, centre revenue/orders, scale s/√orders). Its distribution is a one-dimensional integral over the rate, tabulated and read at its central quantiles.
  * @source Beta–Binomial and Gamma posteriors: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013), §2.4–2.6 and §3.2; the product's density by quadrature (checked against nested scipy quadrature).
@@ -99,7 +99,7 @@ export function revenueProbAboveControl(orders: any[][], visitors: any[][], reve
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
- * @param [level] Probability the interval holds, between 0 and 1 (optional; default 0.95).
+ * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns For each challenger, the lower, median and upper relative lift (0.1 is 10% more revenue per visitor); empty text for the control.
  * @method Quantiles of the ratio of the tabulated posteriors (Newton's method on the smaller tail). With an order sd, a control whose average order value could be zero or negative (chance above 1e-6) has no lift (#N/A), as for averages; below that its small negative part is kept exactly.
  * @source The product model of the revenue interval; quantiles checked against nested scipy quadrature and brentq.
@@ -169,7 +169,7 @@ export function revenueExpectedLoss(orders: any[][], visitors: any[][], revenue:
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
  * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
- * @param [max_loss] The largest expected loss you accept, in the revenue's currency per visitor, 0 or more (optional; default 1% of the control's posterior mean revenue per visitor).
+ * @param [max_loss] The largest expected loss you accept, in the revenue's currency per visitor, 0 to 1E+12 (optional; default 1% of the control's posterior mean revenue per visitor).
  * @param [labels] Names of the variants, same shape as orders (optional; default A, B, C… by position).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss per visitor (no currency symbol: the add-in cannot know the currency).
  * @method DECISION's rule on revenue per visitor: the variant with the smallest expected loss is chosen when that loss is at most the largest acceptable loss; otherwise the text names the current leader and its loss.

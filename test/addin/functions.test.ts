@@ -613,7 +613,7 @@ describe('P(lift > min_lift) and the decision for averages and counts', () => {
     });
     expect(sheetError(() => F.eventsDecision(col([3, 4]), col([10, 10]), -1))).toEqual({
       code: '#VALUE!',
-      message: 'max_loss: -1 is not allowed; enter a number at least 0',
+      message: 'max_loss: -1 is not allowed; enter a number from 0 to 1E+12',
     });
   });
 });
@@ -677,7 +677,7 @@ describe('revenue per visitor from totals against nested scipy quadrature', () =
     });
     expect(sheetError(() => F.revenueProbAboveControl(col([120, 150]), col([2400, 2380]), col([7200, 8100]), col([55, ''])))).toEqual({
       code: '#VALUE!',
-      message: 'order_sd, item 2: is blank; enter a number at least 0',
+      message: 'order_sd, item 2: is blank; enter 0, or a number from 1E-6 to 1E+12',
     });
     expect(sheetError(() => F.revenueExpectedLoss(col([1, 3]), col([50, 55]), col([40, 150])))).toEqual({
       code: '#N/A',

@@ -334,16 +334,16 @@ describe('other families', () => {
       'orders, item 2: 150 is more than the 140 visitors',
     );
     expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, -1))).message).toBe(
-      'revenue, item 2: -1 is not allowed; enter a number at least 0',
+      'revenue, item 2: -1 is not allowed; enter a number from 0 to 1E+12',
     );
     expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), col(55, ''))).message).toBe(
-      'order_sd, item 2: is blank; enter a number at least 0',
+      'order_sd, item 2: is blank; enter 0, or a number from 1E-6 to 1E+12',
     );
     expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), row(55, 60))).message).toBe(
       'order_sd must have the same shape as orders: order_sd is 1 row × 2 columns, orders is 2 rows × 1 column',
     );
     expect(sheetError(() => read(col(120, 150), col(2400, 2380), col(7200, 8100), col(55, -2))).message).toBe(
-      'order_sd, item 2: -2 is not allowed; enter a number at least 0',
+      'order_sd, item 2: -2 is not allowed; enter 0, or a number from 1E-6 to 1E+12',
     );
   });
 
