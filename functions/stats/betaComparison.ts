@@ -12,7 +12,7 @@ import { logBeta } from './special/gamma';
  * Largest |log B| of the first term's two log-betas for which the closed form is used. The first term is
  * exp(log B(aX, bX + bY) − log B(aX, bX)), and that difference carries an absolute error of about
  * 2e-16 × the larger |log B|, which becomes the relative error of the result. Measured against mpmath at
- * 40 digits (test/reference/beta_comparison.json, the bound lifted): 2e-13 relative at |log B| ≈ 740,
+ * 40 digits (test/reference/conversion/beta_comparison.json, the bound lifted): 2e-13 relative at |log B| ≈ 740,
  * 3.2e-13 at ≈ 2900, 1.3e-12 at ≈ 6600, 2.8e-12 at ≈ 19000 (at most 2.7e-16 × |log B| in every case).
  * The bound 3000 keeps the result within 1e-12 relative (at most ~8e-13; largest seen 3.2e-13). In
  * counts: with 1% rates up to ~45 000 visitors a variant, with 20% rates ~4 500, with 50% rates ~3 000.

@@ -78,7 +78,7 @@ function declaringChance(
  * decisions as decisionPower, exact for any prior); then the power at a lift is Σ_j Bin(j; n, p1)·G(j),
  * G(j) the control's chance of a boundary at or below j (one pass over the challenger's pmf), and Brent's method on Φ⁻¹(power) (nearly linear in the lift) finds L*
  * from a bracket around the normal approximation (z_threshold + z_power)·√(2p(1 − p)/n)/p. L* to ~1e-10 relative; decisionPower(L*) equals
- * power to ~1e-12 (test/stats/detectableLift.test.ts, and scipy in test/reference/looks_reference.py).
+ * power to ~1e-12 (test/stats/detectableLift.test.ts, and scipy in test/reference/looks/looks_reference.py).
  * Cost: one boundary walk and ~6–10 sums, each O(√(n p (1 − p))): under 1 ms to 1e5 visitors, ~70 ms at
  * 1e9 and a rate of ½.
  * Throws StatsError('invalid_argument') for a rate outside (0, 1), visitors that are not a whole number

@@ -15,7 +15,7 @@
  *   outcomes (decisionLattice.ts lookPower, the same number as DECISION_POWER at that size), turned into a
  *   bound z_k = Φ⁻¹(1 − P_k) on the standardised statistic, and the looks are joined by the correlation
  *   √(n_j/n_k) of a process with independent increments (recursive integration, brownianCrossing.ts). Its
- *   error against the exact programme, measured in test/reference/looks_reference.py, falls like
+ *   error against the exact programme, measured in test/reference/looks/looks_reference.py, falls like
  *   1/(n p (1 − p)) and grows with the number of looks; it stays below 1e-3 where this module uses it.
  *
  * Cautions: these chances assume the looks happen at the planned sizes and that the split of traffic is as
@@ -274,7 +274,7 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
  * (about 6–66 million multiply-adds, growing with the looks), else the calibrated normal method (each look's
  * own chance computed exactly, the looks joined by recursive integration); see the module comment.
  * Accuracy: exact up to rounding on the first (within 1e-11 of scipy's enumeration); within 1e-3 of the
- * exact enumeration on the second (measured, test/reference/looks_reference.py), and within ~1e-4 once n·p·(1 − p) ≥ 2000 at the last look.
+ * exact enumeration on the second (measured, test/reference/looks/looks_reference.py), and within ~1e-4 once n·p·(1 − p) ≥ 2000 at the last look.
  * Cost: ≤ ~30 ms (exact), or O(Σ_k √(n_k p(1 − p))) walk steps plus O(K·(12r)²) for the integration.
  * Throws StatsError('invalid_argument') for a rate outside (0, 1), looks that are not 1 … 100 increasing
  * whole numbers from 1 to 1e9, a threshold outside (0.5, 0.999999], sides other than 1 and 2, a prior

@@ -518,7 +518,7 @@ function pointOverControlAbove(c: number, control: MeanPosterior, k: number, bel
  * challenger. With sd = 0: a point-mass control c0 > 0 gives
  * the challenger's t tail at k·c0 exactly; a point-mass challenger c gives P(0 < X < c/k) (or
  * P(c/k < X < 0) for c < 0) through the control's t; two point masses give 1, 0 or ½ at equality.
- * Accuracy 1e-9 absolute (against scipy quadrature, test/reference/means_lift_above.py).
+ * Accuracy 1e-9 absolute (against scipy quadrature, test/reference/means/lift_above_reference.py).
  * Cost: tabulation plus one or two node sums of O(panels) per challenger.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) or minLift ≤ −1 or not finite,
  * and StatsError('not_available') naming the control when its mean could plausibly be ≤ 0 (as

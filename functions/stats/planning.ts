@@ -262,7 +262,7 @@ function exactWork(what: string): ExactWork {
 /**
  * Error allowed for {@link approximateProbAbove} as a function of the smallest of the four shapes m:
  * measured against the exact closed form (Evan Miller 2015) and scipy quadrature on seeded random cases
- * with P in [0.5, 0.99999] (test/reference/planning_edgeworth.py, 3600 cases), the error stays below
+ * with P in [0.5, 0.99999] (test/reference/planning/planning_edgeworth.py, 3600 cases), the error stays below
  * 0.0095·m^−1.5 (0.001·m^−1.5 for m ≥ 512); we allow 0.1·m^−1.5 + 1e-9, ten times that, and compute
  * exactly below m = 3.
  */
@@ -435,7 +435,7 @@ function powerOf(p0: number, p1: number, n: number, threshold: number, prior: Be
  * "smallest" is defined as a crossing: the n returned has decisionPower(n) ≥ power > decisionPower(n − 1).
  * Where the saw-tooth straddles the target another crossing may exist a few visitors away; beyond
  * that the steady rise dominates (scipy's values around 537, 443 and 3024 visitors in
- * test/reference/planning_power.json each show a single crossing).
+ * test/reference/planning/planning_power.json each show a single crossing).
  * Cost: about 8–20 evaluations of decisionPower: measured 1.5–9 ms for plans of 16 000–45 000 visitors
  * with the uniform prior, ~10–15 ms with fractional priors (`npm run bench`).
  * Throws StatsError('invalid_argument') for a bad rate, a lift ≤ 0, a threshold or power outside (0, 1)

@@ -229,7 +229,7 @@ export function revenueMean(variants: readonly RevenueTotals[]): number[] {
  * Per variant: the central credible interval of its revenue per visitor at `level` (equal tails, each
  * end the tabulated posterior's quantile, the upper one from its upper tail directly).
  * Accuracy: within 1e-9 relative of the value (checked against mpmath quadrature of the product model,
- * test/reference/revenue_reference.py). Cost: one tabulation and two quantiles per variant.
+ * test/reference/revenue/revenue_reference.py). Cost: one tabulation and two quantiles per variant.
  * Throws StatsError('invalid_argument') for bad totals or level; StatsError('not_available') where a
  * variant has no posterior. 1 to 50 variants.
  * @example revenueInterval([{ orders: 40, visitors: 1000, revenue: 2000 }], 0.95) // [{ lower: 1.44…, upper: 2.89… }]
@@ -283,7 +283,7 @@ function liftControl(variants: readonly RevenueTotals[], ds: readonly TabulatedD
       'not_available',
       `order_sd, item 1: the control's average order value could plausibly be zero or negative ` +
         `(${percent >= 0.1 ? percent.toFixed(1) : percent.toPrecision(2)}% under the t model, whose order_sd is ` +
-        'large beside revenue/orders), so a relative lift is undefined; compare with REVENUE_PROB_ABOVE_CONTROL',
+        'large beside revenue/orders), so a relative lift has no meaning; compare with REVENUE_PROB_ABOVE_CONTROL',
     );
   }
   // A table read in log R (or order_sd 0) is the posterior given R > 0, which the read-out uses whenever

@@ -8,7 +8,7 @@
  * of each function's words (Excel's formula help and the help pages); an @example is an Excel formula with
  * array constants ({1;2} is a column) followed by "returns" and the result, run by
  * test/addin/examples.test.ts. The example values come from the scipy references in
- * test/reference/looks_values.json (looks_reference.py).
+ * test/reference/looks/looks_values.json (looks_reference.py).
  */
 import { CATALOGUE } from '../catalogue';
 import { ArgumentProblem, runFunction } from '../sheet';

@@ -9,7 +9,7 @@
  * (functions/stats/revenuePerVisitor.ts). The JSDoc is the one home of each function's words:
  * custom-functions-metadata turns the description and @param lines into Excel's formula help, and
  * help/build.js turns all of it into the help pages and the side panel's texts. The @example results were
- * checked against the nested scipy quadrature of test/reference/revenue_reference.py (the case
+ * checked against the nested scipy quadrature of test/reference/revenue/revenue_reference.py (the case
  * "exp_typical" and "t_typical" there use the same totals); test/addin/examples.test.ts runs them.
  */
 import { CATALOGUE } from '../catalogue';

@@ -69,8 +69,8 @@ function errorOf(id: string, ...args: unknown[]): { code: string; message: strin
 }
 const near = (a: unknown, b: number, rel = 1e-7): boolean => typeof a === 'number' && Math.abs(a - b) <= rel * Math.abs(b) + 1e-13;
 
-const ref = JSON.parse(fs.readFileSync(path.join(REF, 'addin_values.json'), 'utf8'));
-const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm_chisq.json'), 'utf8'));
+const ref = JSON.parse(fs.readFileSync(path.join(REF, 'addin/addin_values.json'), 'utf8'));
+const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm/srm_chisq.json'), 'utf8'));
 
 const CATALOGUE_IDS = CATALOGUE_LIST.map((f) => f.id); // functions/catalogue.ts
 

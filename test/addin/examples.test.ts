@@ -1,7 +1,7 @@
 /**
  * Every @example in functions/functions.ts that states a result ("=ABTEST.F(...) returns ...") is run
  * through the wrapper and compared to the digits it shows. The examples are what users read in the help
- * pages; their numbers were copied from the scipy references in test/reference/addin_values.json
+ * pages; their numbers were copied from the scipy references in test/reference/addin/addin_values.json
  * (and R for CLASSIC_SAMPLE_SIZE and SRM_PVALUE), so this test also ties the help pages to outside values.
  */
 import * as F from '../../functions/functions';

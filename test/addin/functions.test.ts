@@ -3,12 +3,12 @@
  * rows, the catalogue's error conventions, and values against outside references.
  *
  * Reference values:
- * - test/reference/addin_values.json — scipy 1.17 (scipy.stats beta/t/gamma/betabinom distributions,
+ * - test/reference/addin/addin_values.json — scipy 1.17 (scipy.stats beta/t/gamma/betabinom distributions,
  *   integrate.quad of the textbook integrals, optimize for quantiles and fits); made by
- *   test/reference/addin_values.py, the scenario invented (a garden-supply shop's checkout buttons);
- *   test/reference/addin_visitors_needed.json from addin_visitors_needed.py (same definitions).
- * - test/reference/srm_chisq.json — R 4.2 chisq.test (the SRM engineer's script srm_chisq.R).
- * - test/reference/planning_classic.json — R 4.2 power.prop.test (planning_classic.R).
+ *   test/reference/addin/addin_values.py, the scenario invented (a garden-supply shop's checkout buttons);
+ *   test/reference/addin/addin_visitors_needed.json from addin_visitors_needed.py (same definitions).
+ * - test/reference/srm/srm_chisq.json — R 4.2 chisq.test (the SRM engineer's script srm_chisq.R).
+ * - test/reference/planning/planning_classic.json — R 4.2 power.prop.test (planning_classic.R).
  * - closed forms named beside each check.
  */
 import * as fs from 'fs';
@@ -71,11 +71,11 @@ const ref = readJson<{
   priorFromIntervalLevel95: { low: number; high: number; level: number; ab: [number, number] };
   priorFromHistory: { conversions: number[]; visitors: number[]; likelihood: [number, number] };
   decisionPower: { baseline: number; lift: number; n: number; threshold: number; power: number }[];
-}>('addin_values.json');
+}>('addin/addin_values.json');
 const visitorsNeededRef = readJson<{ cases: { baseline: number; lift: number; n: number; threshold: number; power: number }[] }>(
-  'addin_visitors_needed.json',
+  'addin/addin_visitors_needed.json',
 );
-const srm = readJson<{ cases: { visitors: number[]; shares: number[]; pValue: number }[] }>('srm_chisq.json');
+const srm = readJson<{ cases: { visitors: number[]; shares: number[]; pValue: number }[] }>('srm/srm_chisq.json');
 
 /**
  * Relative tolerance against the scipy references (quad at epsrel 1e-12, brentq at rtol 1e-13, so the
@@ -558,12 +558,12 @@ describe('counts per exposure (Gamma posteriors) against scipy', () => {
   });
 });
 
-// The functions of issue #13, against their references: test/reference/lift_above_reference.py (scipy quad
-// and betaincc) and test/reference/revenue_reference.py (nested scipy quadrature of R = p × v).
+// The functions of issue #13, against their references: test/reference/means/lift_above_reference.py (scipy quad
+// and betaincc) and test/reference/revenue/revenue_reference.py (nested scipy quadrature of R = p × v).
 const liftAbove = readJson<{
   means: { name: string; variants: { count: number; mean: number; sd: number }[]; minLifts: number[]; above: number[][] }[];
   events: { name: string; variants: { events: number; exposure: number }[]; minLifts: number[]; aboveClosedForm: number[][] }[];
-}>('lift_above_values.json');
+}>('means/lift_above_values.json');
 interface RevenueCase {
   name: string;
   variants: { orders: number; visitors: number; revenue: number; orderSd?: number }[];
@@ -574,7 +574,7 @@ interface RevenueCase {
   liftAbove?: { minLift: number; above: number }[];
   liftInterval?: number[];
 }
-const revenueRef = readJson<{ cases: RevenueCase[] }>('revenue_values.json');
+const revenueRef = readJson<{ cases: RevenueCase[] }>('revenue/revenue_values.json');
 const revenueCase = (name: string): RevenueCase => {
   const found = revenueRef.cases.find((c) => c.name === name);
   if (found === undefined) throw new Error(`no revenue reference case ${name}`);

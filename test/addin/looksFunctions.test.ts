@@ -1,13 +1,13 @@
 /**
  * The worksheet functions of issue #14 through their wrappers (functions/wrappers/looks.ts and planning.ts):
- * values against the outside references of test/reference/looks_values.json (looks_reference.py: scipy's
+ * values against the outside references of test/reference/looks/looks_values.json (looks_reference.py: scipy's
  * exact enumeration over both variants' outcomes, scipy's multivariate normal, Dunnett's integral, scipy
  * decision powers, scipy.stats.chisquare), defaults, orientation, blank days, and the errors that reach
  * the cell (code and message).
  */
 import * as F from '../../functions/functions';
 import { thrownWorksheetError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 const col = (xs: readonly unknown[]): unknown[][] => xs.map((x) => [x]);
 const row = (xs: readonly unknown[]): unknown[][] => [[...xs]];

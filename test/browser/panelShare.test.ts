@@ -7,8 +7,8 @@
  * - the same on an Excel without notes (`?api=1.16`): the panel says so first, and the formulas go into a
  *   "How computed" column;
  * - the summary for people who decide from the demo's variant table, on a new sheet set to print on one
- *   page: its chances of being best and lift ranges agree with scipy (test/reference/summary_values.json,
- *   case "checkout_demo", made by test/reference/summary_reference.py).
+ *   page: its chances of being best and lift ranges agree with scipy (test/reference/addin/summary_values.json,
+ *   case "checkout_demo", made by test/reference/addin/summary_reference.py).
  * Screenshots go to test-artifacts/ (full width and with the panel at 350 px).
  */
 import * as fs from 'fs';
@@ -29,7 +29,7 @@ interface ReferenceCase {
   srm_pvalue: number;
 }
 const REFERENCE = (
-  JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'reference', 'summary_values.json'), 'utf8')) as Record<string, ReferenceCase>
+  JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8')) as Record<string, ReferenceCase>
 ).checkout_demo as ReferenceCase;
 
 /** A cell of a sheet as the preview holds it: what was typed or written, its value, format and note. */

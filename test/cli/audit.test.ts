@@ -200,7 +200,7 @@ describe('cell types: shared and inline strings, booleans, errors', () => {
   };
   function addinRate(method: 'central' | 'hdi', end: 0 | 1): number {
     const refs = JSON.parse(
-      fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8'),
+      fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin/addin_values.json'), 'utf8'),
     ).conversionTwo;
     return (method === 'central' ? refs.rateIntervalCentral : refs.rateIntervalHdi)[0][end];
   }
@@ -326,7 +326,7 @@ describe('files the audit must refuse or handle', () => {
 
 test('the closed forms the books use match scipy (BDA3 §2.4 posterior mean with a uniform prior)', () => {
   const refs = JSON.parse(
-    fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin_values.json'), 'utf8'),
+    fs.readFileSync(path.join(REPO_ROOT, 'test', 'reference', 'addin/addin_values.json'), 'utf8'),
   ).conversionTwo;
   expect(MEAN_A).toBeCloseTo(refs.posteriorMean[0], 15);
   expect(MEAN_B).toBeCloseTo(refs.posteriorMean[1], 15);

@@ -5,7 +5,7 @@
  *
  * Every ABTEST cell of the workbook is compared with the statistics core called directly
  * (functions/stats/…), and a few with values from outside the project: closed forms, scipy
- * (test/reference/preview_workbook.py → preview_workbook.json) and R (docs/check-values.md).
+ * (test/reference/addin/preview_workbook.py → preview_workbook.json) and R (docs/check-values.md).
  */
 import * as fs from 'fs';
 import * as path from 'path';
@@ -62,7 +62,7 @@ import { buildDemoWorkbook, columnLetters, parseA1 } from '../../preview/src/dem
 import { PreviewWorkbook } from '../../preview/src/previewWorkbook';
 import { SPILL_RULES } from '../../preview/src/spillLayout';
 import { loadAndRegister, REPO_ROOT } from './loadBundle';
-import reference from '../reference/preview_workbook.json';
+import reference from '../reference/addin/preview_workbook.json';
 
 type Cell = number | string | boolean;
 
@@ -281,7 +281,7 @@ describe('preview demo workbook with the built add-in', () => {
     }
   });
 
-  it('agrees with outside references on the demo numbers (scipy, test/reference/preview_workbook.json)', () => {
+  it('agrees with outside references on the demo numbers (scipy, test/reference/addin/preview_workbook.json)', () => {
     // Beta posterior mean (1 + x) / (2 + n), uniform prior: closed form, common practice
     reference.posterior_mean.forEach((m, i) => expectNumber(num('Checkout test', `B${11 + i}`), m, `posterior mean ${i + 1}`, 1e-13));
     // scipy.stats.beta.ppf(0.025 | 0.975, 1 + x, 1 + n − x)

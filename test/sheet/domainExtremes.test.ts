@@ -3,7 +3,7 @@
  * inside, the worksheet functions answer the reference values; just outside, they answer #VALUE! naming the
  * argument, its value and the allowed range in plain words.
  *
- * Reference values: test/reference/domain_extremes.json, made by test/reference/domain_extremes.py with
+ * Reference values: test/reference/domain/domain_extremes.json, made by test/reference/domain/domain_extremes.py with
  * mpmath 1.3 at 60 digits (regularised incomplete beta and gamma functions, Student t, mpmath.quad), and
  * scipy 1.17 where a Beta or Gamma shape or a t's degrees of freedom reach 1000 (named in the script).
  */
@@ -24,7 +24,7 @@ interface Ref {
   liftInterval: { conversions: number[]; visitors: number[]; prior: number[]; level: number; upper: number }[];
 }
 const REF = JSON.parse(
-  fs.readFileSync(path.join(__dirname, '..', 'reference', 'domain_extremes.json'), 'utf8'),
+  fs.readFileSync(path.join(__dirname, '..', 'reference', 'domain/domain_extremes.json'), 'utf8'),
 ) as Ref;
 
 const col = (xs: readonly number[]): number[][] => xs.map((x) => [x]);

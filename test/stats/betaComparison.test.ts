@@ -3,11 +3,11 @@ import { CLOSED_FORM_MAX_LOG_BETA, closedFormLogProbGreater } from '../../functi
 import { probabilityGreater } from '../../functions/stats/compare';
 import { posteriorOf } from '../../functions/stats/conversion';
 import { logBeta } from '../../functions/stats/special/gamma';
-import reference from '../reference/beta_comparison.json';
+import reference from '../reference/conversion/beta_comparison.json';
 import { relativeError, thrownStatsError } from '../helpers/assertions';
 
 /*
- * Reference values: test/reference/beta_comparison.json, printed by test/reference/beta_comparison.py
+ * Reference values: test/reference/conversion/beta_comparison.json, printed by test/reference/conversion/beta_comparison.py
  * (mpmath 1.3.0 at 40 digits; whole-number shapes by the binomial form of the incomplete beta summed
  * term by term, the others by mpmath.quad with betainc; neither is Miller's sum).
  */

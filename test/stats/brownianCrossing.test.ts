@@ -1,13 +1,13 @@
 import { brownianCrossing } from '../../functions/stats/brownianCrossing';
 import { normalCdf } from '../../functions/stats/special/normal';
 import { thrownStatsError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 const spaced = (k: number): number[] => Array.from({ length: k }, (_, i) => i + 1);
 const Z975 = 1.959963984540054;
 const Z95 = 1.6448536269514722;
 
-describe('brownianCrossing against scipy multivariate normal (test/reference/looks_reference.py, section normal)', () => {
+describe('brownianCrossing against scipy multivariate normal (test/reference/looks/looks_reference.py, section normal)', () => {
   // scipy.stats.multivariate_normal.cdf (Genz's quasi-Monte Carlo) of the partial-sum z-statistics,
   // corr(Z_j, Z_k) = √(t_j/t_k), mean of 3 seeds; its own seed-to-seed spread is stated with each value.
   it.each(values.normal.twoSided196.map((c) => [c.looks, c] as const))('%p equally spaced looks, |Z| ≥ 1.96', (K, c) => {

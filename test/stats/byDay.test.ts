@@ -2,14 +2,14 @@ import { probAboveControlByDay, srmPValueByDay } from '../../functions/stats/byD
 import { probAboveControl } from '../../functions/stats/conversion';
 import { srmPValue } from '../../functions/stats/srm';
 import { thrownStatsError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 const table = values.byday;
 const days = table.visitors.map((row, d) =>
   row.map((visitors, i) => ({ visitors, conversions: (table.conversions[d] as number[])[i] as number })),
 );
 
-describe('PROB_ABOVE_CONTROL_BY_DAY against scipy (test/reference/looks_reference.py, section byday)', () => {
+describe('PROB_ABOVE_CONTROL_BY_DAY against scipy (test/reference/looks/looks_reference.py, section byday)', () => {
   // An invented test (a control and two challengers over a week, one day without traffic): P(beats
   // control) on the cumulative counts by Evan Miller's closed form in scipy (uniform prior).
   it('matches every day and challenger to 1e-11', () => {

@@ -16,12 +16,12 @@ import {
 import { betaQuantile, betaQuantileUpper } from '../../functions/stats/special/incompleteBeta';
 import type { ConversionCounts, IntervalWithMedian } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import reference from '../reference/conversion_values.json';
+import reference from '../reference/conversion/conversion_values.json';
 import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 /*
- * Reference values: test/reference/conversion_values.json, printed by
- * test/reference/conversion_reference.py (mpmath at 40 digits, an independent construction of the
+ * Reference values: test/reference/conversion/conversion_values.json, printed by
+ * test/reference/conversion/conversion_reference.py (mpmath at 40 digits, an independent construction of the
  * posteriors and of every comparison integral; see that script). The accuracy bar of the read-out:
  * probabilities, lifts and interval ends to 1e-9 absolute, tail probabilities and losses to 1e-6
  * relative. The tolerances below are tighter than the bar where the code is.

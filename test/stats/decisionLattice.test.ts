@@ -1,10 +1,10 @@
 import { binomialWindow, DecisionCursor, lookPower, probAboveOnLattice, upperTails } from '../../functions/stats/decisionLattice';
 import { thrownStatsError } from '../helpers/assertions';
-import betaComparison from '../reference/beta_comparison.json';
-import planningPower from '../reference/planning_power.json';
+import betaComparison from '../reference/conversion/beta_comparison.json';
+import planningPower from '../reference/planning/planning_power.json';
 
 /**
- * The mpmath cases (40 digits, test/reference/beta_comparison.py) whose two posteriors come from the same
+ * The mpmath cases (40 digits, test/reference/conversion/beta_comparison.py) whose two posteriors come from the same
  * number of visitors: shapes (α + x, β + n − x) with a shared prior. Returns n, x_A, x_B and the prior.
  */
 function sameVisitors(c: { aX: number; bX: number; aY: number; bY: number }):
@@ -22,7 +22,7 @@ function sameVisitors(c: { aX: number; bX: number; aY: number; bY: number }):
   return { n, xA, xB, alpha, beta };
 }
 
-describe('P(B beats A) on the lattice against mpmath at 40 digits (test/reference/beta_comparison.json)', () => {
+describe('P(B beats A) on the lattice against mpmath at 40 digits (test/reference/conversion/beta_comparison.json)', () => {
   const cases = betaComparison.cases
     .map((c) => ({ c, lattice: sameVisitors(c) }))
     .filter((x) => x.lattice !== undefined);
@@ -86,7 +86,7 @@ describe('binomialWindow', () => {
   });
 });
 
-describe('lookPower against scipy decision powers (test/reference/planning_power.json)', () => {
+describe('lookPower against scipy decision powers (test/reference/planning/planning_power.json)', () => {
   // scipy's exact sum over every outcome pair (or each x_A's boundary by bisection) with Evan Miller's
   // closed form / scipy quad for P(p_B > p_A), scipy.stats.binom pmfs.
   const cases = planningPower.power.filter((c) => c.threshold > 0.5);

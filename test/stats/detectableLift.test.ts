@@ -1,9 +1,9 @@
 import { smallestDetectableLift } from '../../functions/stats/detectableLift';
 import { decisionPower } from '../../functions/stats/planning';
 import { thrownStatsError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
-describe('SMALLEST_DETECTABLE_LIFT against scipy (test/reference/looks_reference.py, section lift)', () => {
+describe('SMALLEST_DETECTABLE_LIFT against scipy (test/reference/looks/looks_reference.py, section lift)', () => {
   // scipy: the exact decision power (Evan Miller's closed form or scipy quad for P(p_B > p_A), each x_A's
   // boundary by bisection, scipy.stats.binom tails) and brentq on the lift to 1e-13 relative.
   it.each(values.lift.map((c) => [c.baselineRate, c.visitors, c.threshold, c.power, c.prior.join(', '), c] as const))(

@@ -1,8 +1,8 @@
 /**
  * The Gamma working density in z = log λ (functions/stats/gammaDensity.ts) against mpmath and scipy
- * log densities (test/reference/events_density.py → events_density.json).
+ * log densities (test/reference/events/events_density.py → events_density.json).
  */
-import reference from '../reference/events_density.json';
+import reference from '../reference/events/events_density.json';
 import { gammaWorkingDensity } from '../../functions/stats/gammaDensity';
 import { expectStatsErrorExact } from '../helpers/assertions';
 

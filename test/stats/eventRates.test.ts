@@ -1,11 +1,11 @@
 /**
  * Counts per exposure (functions/stats/eventRates.ts) against outside references:
- * test/reference/events_reference.py → events_values.json (scipy.stats.gamma, scipy.special.betainc and
+ * test/reference/events/events_reference.py → events_values.json (scipy.stats.gamma, scipy.special.betainc and
  * betaincinv, scipy.integrate.quad at epsrel 1e-13, optimize.brentq; and 50-digit mpmath for the
  * two-variant probability and the closed-form expected loss). The scenario numbers are invented
  * (a garden-supply shop's store visits per user-day).
  */
-import reference from '../reference/events_values.json';
+import reference from '../reference/events/events_values.json';
 import {
   eventsExpectedLoss,
   eventsLiftInterval,

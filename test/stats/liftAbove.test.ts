@@ -1,11 +1,11 @@
 /**
  * MEAN_PROB_LIFT_ABOVE and EVENTS_PROB_LIFT_ABOVE (normalMeans.meanProbLiftAbove,
- * eventRates.eventsProbLiftAbove) against test/reference/lift_above_reference.py → lift_above_values.json:
+ * eventRates.eventsProbLiftAbove) against test/reference/means/lift_above_reference.py → lift_above_values.json:
  * scipy.integrate.quad of the ratio distribution (epsrel 1e-13, both signs of the control for the t
  * posteriors) and, for event rates, the closed form 1 − I_x(a_i, a_0) through scipy.special.betaincc.
  * The summaries are invented.
  */
-import reference from '../reference/lift_above_values.json';
+import reference from '../reference/means/lift_above_values.json';
 import { eventsProbAboveControl, eventsProbLiftAbove } from '../../functions/stats/eventRates';
 import { meanProbAboveControl, meanProbLiftAbove } from '../../functions/stats/normalMeans';
 import type { EventCounts, GammaPrior, MeanSummary } from '../../functions/stats/types';
@@ -34,7 +34,7 @@ describe.each((reference.means as MeanCase[]).map((c) => [c.name, c]))('meanProb
     test("the control's mean could plausibly be ≤ 0: not available, as MEAN_LIFT_INTERVAL", () => {
       const e = thrownStatsError(() => meanProbLiftAbove(c.variants, 0));
       expect(e.code).toBe('not_available');
-      expect(e.message).toMatch(/^the control's mean could plausibly be zero or negative \(0\.2%\), so a relative lift is undefined/);
+      expect(e.message).toMatch(/^the control's mean could plausibly be zero or negative \(0\.2%\), so a relative lift has no meaning/);
     });
     return;
   }

@@ -1,6 +1,6 @@
 import { liftDensityTable } from '../../functions/stats/conversion';
 import { StatsError } from '../../functions/stats/errors';
-import reference from '../reference/lift_chart_range.json';
+import reference from '../reference/addin/lift_chart_range.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
@@ -8,8 +8,8 @@ import { relativeError } from '../helpers/assertions';
  * chart ranges, each its lift's 1%–99% quantiles kept within three interquartile ranges of the quartiles
  * (Tukey's far-out fences, common practice), as the function's help says.
  *
- * Reference values: test/reference/lift_chart_range.json, printed by
- *   python3 test/reference/lift_chart_range.py > test/reference/lift_chart_range.json
+ * Reference values: test/reference/addin/lift_chart_range.json, printed by
+ *   python3 test/reference/addin/lift_chart_range.py > test/reference/addin/lift_chart_range.json
  * (scipy: the lift's cdf ∫ f_X(x) F_Y((1 + l)x) dx by scipy.integrate.quad, quantiles by brentq, the ends by
  * the rule above). The counts are invented.
  */

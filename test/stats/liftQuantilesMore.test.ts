@@ -2,15 +2,15 @@ import { differenceCdf, differenceSf, ratioCdf, ratioSf } from '../../functions/
 import { liftInterval, posteriorOf, rateDiffInterval } from '../../functions/stats/conversion';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import type { IntervalWithMedian } from '../../functions/stats/types';
-import reference from '../reference/lift_quantiles_more.json';
+import reference from '../reference/conversion/lift_quantiles_more.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
  * Quantiles of the lift p_B/p_A − 1 and of the difference p_B − p_A (compare/ ratioQuantile and
  * differenceQuantile through conversion.liftInterval and rateDiffInterval at the 95% level).
  *
- * Reference values: test/reference/lift_quantiles_more.json, printed by
- *   python3 test/reference/lift_quantiles_more.py > test/reference/lift_quantiles_more.json
+ * Reference values: test/reference/conversion/lift_quantiles_more.json, printed by
+ *   python3 test/reference/conversion/lift_quantiles_more.py > test/reference/conversion/lift_quantiles_more.json
  * (mpmath 1.3.0 at 30 digits: the ratio and difference tails as composite Gauss–Legendre integrals of one
  * posterior's density against the other's tail, Newton’s method on them to 1e-22; its tails-sum-to-one
  * self-check is printed under "checks").

@@ -8,7 +8,7 @@ import {
 import { decisionPower } from '../../functions/stats/planning';
 import { normalQuantile } from '../../functions/stats/special/normal';
 import { thrownStatsError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 const UNIFORM = { alpha: 1, beta: 1 };
 const spaced = (k: number, step: number): number[] => Array.from({ length: k }, (_, i) => (i + 1) * step);

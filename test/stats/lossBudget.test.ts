@@ -4,7 +4,7 @@ import { expectedLoss } from '../../functions/stats/conversion';
 import { StatsError } from '../../functions/stats/errors';
 import { eventsExpectedLoss } from '../../functions/stats/eventRates';
 import { tabulate } from '../../functions/stats/quadrature';
-import reference from '../reference/loss_extreme_priors.json';
+import reference from '../reference/conversion/loss_extreme_priors.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
@@ -13,8 +13,8 @@ import { relativeError } from '../helpers/assertions';
  * long in logit. The grid is graded away from its anchors, so its size grows with the logarithm of
  * that length; beyond its cell budget it stops with a clear error.
  *
- * Reference values: test/reference/loss_extreme_priors.json, printed by
- *   python3 test/reference/loss_extreme_priors.py > test/reference/loss_extreme_priors.json
+ * Reference values: test/reference/conversion/loss_extreme_priors.json, printed by
+ *   python3 test/reference/conversion/loss_extreme_priors.py > test/reference/conversion/loss_extreme_priors.json
  * (mpmath 1.3.0 at 40 digits: loss_i = ∫ F_i (1 − Π_{j≠i} F_j) dx by mpmath.quad with F from mpmath.betainc
  * or mpmath.gammainc; the 60,000-visitor case by scipy.special.betainc and scipy.integrate.quad, as marked
  * in the JSON's "by").

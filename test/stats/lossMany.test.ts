@@ -4,15 +4,15 @@ import { expectedLosses } from '../../functions/stats/compare';
 import { expectedLoss } from '../../functions/stats/conversion';
 import { tabulate } from '../../functions/stats/quadrature';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import reference from '../reference/loss_many_values.json';
+import reference from '../reference/conversion/loss_many_values.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
  * Expected loss of 3–6 conversion variants (the shared-grid path of compare/losses.ts expectedLosses, taken for
  * three or more posteriors in the 'logit' coordinate).
  *
- * Reference values: test/reference/loss_many_values.json, printed by
- *   python3 test/reference/loss_many_reference.py > test/reference/loss_many_values.json
+ * Reference values: test/reference/conversion/loss_many_values.json, printed by
+ *   python3 test/reference/conversion/loss_many_reference.py > test/reference/conversion/loss_many_values.json
  * (mpmath 1.3.0 at 38 digits: loss_i = ∫ F_i (1 − Π_{j≠i} F_j) dx by a composite 12-point Gauss–Legendre
  * rule in logit, F from the density by the same rule; step halving, mpmath.quad with mpmath.betainc on
  * the small case and the mean identity are its self-checks, printed under "checks").

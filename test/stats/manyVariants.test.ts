@@ -1,7 +1,7 @@
 import { anyAbove, dunnettCritical, thresholdForVariants } from '../../functions/stats/manyVariants';
 import { normalCdf, normalQuantile } from '../../functions/stats/special/normal';
 import { thrownStatsError } from '../helpers/assertions';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 describe('THRESHOLD_FOR_VARIANTS against Dunnett (1955), one-sided, infinite degrees of freedom', () => {
   // Dunnett's one-sided 5% critical values for df = ∞ as quoted in issue #14 (from Dunnett 1955, Table 1):
@@ -16,7 +16,7 @@ describe('THRESHOLD_FOR_VARIANTS against Dunnett (1955), one-sided, infinite deg
   });
 });
 
-describe('THRESHOLD_FOR_VARIANTS against scipy (test/reference/looks_reference.py, section dunnett)', () => {
+describe('THRESHOLD_FOR_VARIANTS against scipy (test/reference/looks/looks_reference.py, section dunnett)', () => {
   // scipy.integrate.quad of ∫ φ(y)[1 − Φ(y + c√2)^m] dy solved by brentq (c to 1e-12), and for up to 8
   // challengers scipy's multivariate normal with correlation ½ (quasi-Monte Carlo, 3 seeds).
   it.each(values.dunnett.map((c) => [c.challengers, c.alpha, c] as const))('%p challengers, false alarm %p', (m, alpha, c) => {

@@ -1,9 +1,9 @@
 /**
  * The Student t working density (functions/stats/studentTDensity.ts) against scipy and mpmath log
- * densities (test/reference/means_density.py → means_density.json), and its slope and curvature
+ * densities (test/reference/means/means_density.py → means_density.json), and its slope and curvature
  * against differences of its own log density.
  */
-import reference from '../reference/means_density.json';
+import reference from '../reference/means/means_density.json';
 import { studentTWorkingDensity } from '../../functions/stats/studentTDensity';
 import { expectStatsErrorExact } from '../helpers/assertions';
 

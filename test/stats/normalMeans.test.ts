@@ -1,14 +1,14 @@
 /**
  * Revenue and other averages (functions/stats/normalMeans.ts) against outside references:
- * test/reference/means_reference.py → means_values.json (scipy.stats.t ppf/isf; scipy.special.stdtr and
+ * test/reference/means/means_reference.py → means_values.json (scipy.stats.t ppf/isf; scipy.special.stdtr and
  * the t pdf inside scipy.integrate.quad at epsrel 1e-13; optimize.brentq; 50-digit mpmath checks).
  * Model: Gelman et al., Bayesian Data Analysis, 3rd ed., §3.2 (Student t, n − 1 df, centre x̄, scale s/√n).
  * The scenario numbers are invented (a garden-supply shop's revenue per visitor, in dollars).
  */
-import reference from '../reference/means_values.json';
-import signedRatio from '../reference/means_signed_ratio.json';
-import heavyTails from '../reference/means_heavy_tails.json';
-import pointMassHighest from '../reference/means_point_mass.json';
+import reference from '../reference/means/means_values.json';
+import signedRatio from '../reference/means/means_signed_ratio.json';
+import heavyTails from '../reference/means/means_heavy_tails.json';
+import pointMassHighest from '../reference/means/means_point_mass.json';
 import {
   meanDiffInterval,
   meanExpectedLoss,

@@ -6,8 +6,8 @@ import {
   visitorsNeeded,
 } from '../../functions/stats/planning';
 import { betaLogDensity } from '../../functions/stats/special/incompleteBeta';
-import classic from '../reference/planning_classic.json';
-import power from '../reference/planning_power.json';
+import classic from '../reference/planning/planning_classic.json';
+import power from '../reference/planning/planning_power.json';
 import { thrownStatsError } from '../helpers/assertions';
 
 describe('classicSampleSize against R power.prop.test (shared/check-values.md)', () => {
@@ -28,7 +28,7 @@ describe('classicSampleSize against R power.prop.test (shared/check-values.md)',
   });
 });
 
-describe('classicSampleSize against R (test/reference/planning_classic.R, planning_classic.json)', () => {
+describe('classicSampleSize against R (test/reference/planning/planning_classic.R, planning_classic.json)', () => {
   it.each(classic.cases.map((c) => [c.baselineRate, c.lift, c] as const))('baseline %p, lift %p', (_p, _l, c) => {
     const sides = c.sides as 1 | 2;
     const exact = classicSampleSizeExact(c.baselineRate, c.lift, c.alpha, c.power, sides);
@@ -106,7 +106,7 @@ describe('decisionPower equals the brute-force sum over every outcome pair with 
   });
 });
 
-describe('decisionPower against scipy (test/reference/planning_power.py, planning_power.json)', () => {
+describe('decisionPower against scipy (test/reference/planning/planning_power.py, planning_power.json)', () => {
   // Evan Miller's closed form for P(p_B > p_A) (or scipy quad for a non-integer prior) summed over every
   // pair (bruteForce) or over each x_A's boundary found by bisection; scipy.stats.binom for the pmf.
   it.each(power.power.map((c) => [c.n, c.baselineRate, c.lift, c.threshold, c.alpha, c.beta, c] as const))(

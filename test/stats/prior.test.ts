@@ -1,7 +1,7 @@
 import { priorFromHistory, priorFromInterval, priorFromMean } from '../../functions/stats/prior';
 import { betaCdf, betaSf } from '../../functions/stats/special/incompleteBeta';
 import { logBeta } from '../../functions/stats/special/gamma';
-import reference from '../reference/prior_fits.json';
+import reference from '../reference/priors/prior_fits.json';
 import { relativeError, thrownStatsError } from '../helpers/assertions';
 
 /** Beta–Binomial log likelihood without the binomial coefficients. */
@@ -31,7 +31,7 @@ describe('priorFromMean', () => {
   });
 });
 
-describe('priorFromInterval against scipy (test/reference/prior_fits.py, prior_fits.json)', () => {
+describe('priorFromInterval against scipy (test/reference/priors/prior_fits.py, prior_fits.json)', () => {
   it.each(reference.interval.map((c) => [c.low, c.high, c.level, c] as const))(
     '[%p, %p] at level %p',
     (low, high, level, c) => {

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { PANEL_NODES, panelLogIntegral, tabulate } from '../../functions/stats/quadrature';
 import { log1mExp, logAddExp } from '../../functions/stats/numeric';
-import marginals from '../reference/conversion_marginals.json';
+import marginals from '../reference/conversion/conversion_marginals.json';
 import { relativeErrorFloored as relativeError, thrownStatsError as thrown } from '../helpers/assertions';
 
 const logit = { coordinate: 'logit' } as const;
@@ -40,7 +40,7 @@ describe('Beta tabulation against the values in shared/check-values.md', () => {
   });
 });
 
-describe('Beta tabulation against mpmath (test/reference/conversion_marginals.json, 40 digits)', () => {
+describe('Beta tabulation against mpmath (test/reference/conversion/conversion_marginals.json, 40 digits)', () => {
   // Points at the mode ± {0 … 30} standard deviations in logit, both tails, shapes 0.1 … 1e9.
   for (const c of marginals.cases) {
     it(`Beta(${c.a}, ${c.b}): cdf and sf relative to themselves, relative log density to 1e-12`, () => {

@@ -1,14 +1,14 @@
 import { betaWorkingDensity, logit } from '../../functions/stats/betaDensity';
 import { TabulatedDistribution, tabulate } from '../../functions/stats/quadrature';
-import medians from '../reference/beta_medians.json';
-import marginals from '../reference/conversion_marginals.json';
+import medians from '../reference/conversion/beta_medians.json';
+import marginals from '../reference/conversion/conversion_marginals.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
  * TabulatedDistribution.logTailAt, nodeValue, nodeLogValue, median and Beta's logJacobianAtValue.
  *
- * Reference values: test/reference/beta_medians.json, printed by
- *   python3 test/reference/beta_medians.py > test/reference/beta_medians.json
+ * Reference values: test/reference/conversion/beta_medians.json, printed by
+ *   python3 test/reference/conversion/beta_medians.py > test/reference/conversion/beta_medians.json
  * (scipy 1.17.1 scipy.special.betaincinv(a, b, 0.5); mpmath.findroot on mpmath.betainc agrees to the
  * digits printed under "checks" where betainc converges). The other checks are identities between the
  * new caches and the functions they cache.

@@ -1,11 +1,11 @@
 /**
  * Revenue per visitor from totals (functions/stats/revenuePerVisitor.ts) against an outside reference:
- * test/reference/revenue_reference.py → revenue_values.json, nested scipy.integrate.quad (QUADPACK,
+ * test/reference/revenue/revenue_reference.py → revenue_values.json, nested scipy.integrate.quad (QUADPACK,
  * epsrel 1e-12) of the product model R = p × v, with brentq for interval ends and lift quantiles; for
  * exponential order values also P(R_B > R_A) through the closed-form inner probability I_x(a_B, a_A)
  * averaged over both rates (derived in the script). The totals are invented.
  */
-import reference from '../reference/revenue_values.json';
+import reference from '../reference/revenue/revenue_values.json';
 import {
   revenueDecide,
   revenueExpectedLoss,

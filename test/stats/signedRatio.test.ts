@@ -4,18 +4,18 @@ import { tabulate } from '../../functions/stats/quadrature';
 import { studentTWorkingDensity } from '../../functions/stats/studentTDensity';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import type { MeanSummary } from '../../functions/stats/types';
-import liftReference from '../reference/lift_quantiles_more.json';
-import signedReference from '../reference/means_signed_ratio.json';
+import liftReference from '../reference/conversion/lift_quantiles_more.json';
+import signedReference from '../reference/means/means_signed_ratio.json';
 import { expectStatsErrorExact, relativeError } from '../helpers/assertions';
 
 /*
  * The ratio engine over both signs (compare/ratio.ts signedRatioQuantile, signedRatioCdf): the lift
  * Y/X − 1 when the denominator X may be negative with a small probability and the numerator Y may take
  * either sign, as the Normal model needs. Checked against
- *  - mpmath lift quantiles of two Beta posteriors (test/reference/lift_quantiles_more.json, printed by
+ *  - mpmath lift quantiles of two Beta posteriors (test/reference/conversion/lift_quantiles_more.json, printed by
  *    lift_quantiles_more.py; 30 digits): on positive variables the signed engine must give what the
  *    positive one gives;
- *  - scipy quadrature over both signs of the control (test/reference/means_signed_ratio.json, printed by
+ *  - scipy quadrature over both signs of the control (test/reference/means/means_signed_ratio.json, printed by
  *    means_signed_ratio.py: scipy.integrate.quad at epsrel 1e-13 and brentq), with a control whose
  *    posterior puts 4e-7 below zero and a challenger whose lift lies below −1;
  * and by the identity cdf(quantile(p)) = p.

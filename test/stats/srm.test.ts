@@ -1,6 +1,6 @@
 import { srmPValue, srmTest } from '../../functions/stats/srm';
 import { chiSquareSf } from '../../functions/stats/special/chiSquare';
-import reference from '../reference/srm_chisq.json';
+import reference from '../reference/srm/srm_chisq.json';
 import { relativeErrorFloored, thrownStatsError } from '../helpers/assertions';
 
 describe('srmTest against the values in shared/check-values.md', () => {
@@ -26,7 +26,7 @@ describe('srmTest against the values in shared/check-values.md', () => {
   });
 });
 
-describe('srmTest against R chisq.test (test/reference/srm_chisq.R, srm_chisq.json)', () => {
+describe('srmTest against R chisq.test (test/reference/srm/srm_chisq.R, srm_chisq.json)', () => {
   it.each(reference.cases.map((c) => [c.visitors.join('/'), c] as const))('split %s', (_label, c) => {
     const weights = c.shares.every((s) => s === c.shares[0]) ? undefined : c.shares;
     const result = srmTest(c.visitors, weights);

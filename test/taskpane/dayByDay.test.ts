@@ -1,13 +1,13 @@
 /**
  * The Day by day section's logic (taskpane/logic/dayByDay.ts): reading a table of daily counts, the
  * verdict for today under the plan's threshold, and the block of live formulas it inserts. The verdict's
- * numbers are held to scipy (test/reference/looks_reference.py, section byday: Evan Miller's closed form
+ * numbers are held to scipy (test/reference/looks/looks_reference.py, section byday: Evan Miller's closed form
  * for P(beats control) on the running totals, scipy.stats.chisquare for the split check) on the invented
  * daily table there; the block to the functions' catalogue signatures.
  */
 import { dailyArea, dailyBlock, dailyVerdict, readDailyTable, SPLIT_ALARM } from '../../taskpane/logic/dayByDay';
 import type { CellValue } from '../../taskpane/workbook/workbook';
-import values from '../reference/looks_values.json';
+import values from '../reference/looks/looks_values.json';
 
 const byday = values.byday;
 const names = ['Control', 'Wide', 'Short'];

@@ -2,7 +2,7 @@
  * The Explain section's pure module: parsing =ABTEST. calls, the words for every catalogue function,
  * and the built-in cross-check formulas. The cross-check formulas are evaluated with HyperFormula (an
  * independent spreadsheet engine) on an invented checkout-test sheet and held against scipy
- * (test/reference/taskpane_crosscheck.json, made by test/reference/taskpane_crosscheck.py) and R's
+ * (test/reference/addin/taskpane_crosscheck.json, made by test/reference/addin/taskpane_crosscheck.py) and R's
  * power.prop.test / chisq.test values from docs/check-values.md.
  */
 import { HyperFormula } from 'hyperformula';
@@ -20,8 +20,8 @@ import {
 import { eventsProbLiftAbove } from '../../functions/stats/eventRates';
 import { meanProbLiftAbove } from '../../functions/stats/normalMeans';
 import { revenueInterval, revenueLiftInterval, revenueProbAboveControl, revenueProbLiftAbove } from '../../functions/stats/revenuePerVisitor';
-import reference from '../reference/taskpane_crosscheck.json';
-import highest from '../reference/explain_highest.json';
+import reference from '../reference/addin/taskpane_crosscheck.json';
+import highest from '../reference/addin/explain_highest.json';
 
 function explained(formula: string, anchor = 'Z1'): Explanation {
   const result = explainFormula(formula, anchor);

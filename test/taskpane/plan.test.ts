@@ -23,7 +23,7 @@ import { localeOf } from '../../taskpane/logic/inputs';
 import { decisionPower, visitorsNeeded } from '../../functions/stats/planning';
 import { normalQuantile } from '../../functions/stats/special/normal';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
-import manyVariants from '../reference/plan_many_variants.json';
+import manyVariants from '../reference/planning/plan_many_variants.json';
 
 const inputs = {
   baselineRate: 0.1,

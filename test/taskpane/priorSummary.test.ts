@@ -1,9 +1,9 @@
 /**
  * The Prior section's summaries: 90% range, mean, worth and the weight rule, and the density curve,
- * against scipy (test/reference/taskpane_crosscheck.json from test/reference/taskpane_crosscheck.py).
+ * against scipy (test/reference/addin/taskpane_crosscheck.json from test/reference/addin/taskpane_crosscheck.py).
  */
 import { PRIOR_WEIGHT_RULE, priorDensityCurve, summarizePrior } from '../../taskpane/logic/priorSummary';
-import reference from '../reference/taskpane_crosscheck.json';
+import reference from '../reference/addin/taskpane_crosscheck.json';
 
 const ref = reference as unknown as Record<string, Record<string, number>>;
 const rel = (got: number, want: number): number => Math.abs(got / want - 1);

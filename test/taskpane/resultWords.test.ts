@@ -19,7 +19,7 @@ import {
   resultWords,
   variantLabel,
 } from '../../taskpane/logic/resultWords';
-import reference from '../reference/lift_chart_reference.json';
+import reference from '../reference/addin/lift_chart_reference.json';
 
 const variants = [
   { conversions: 412, visitors: 10412 },

@@ -7,7 +7,7 @@
  * lacks notes — said in the panel before anything is written), a sheet changed in between is not copied,
  * and a sheet without results offers nothing. The summary is written from the selected variant table on a
  * new sheet; its chances of being best and lift ranges are checked against scipy (test/reference/
- * summary_values.json, case "signup", made by test/reference/summary_reference.py). The sheets are
+ * summary_values.json, case "signup", made by test/reference/addin/summary_reference.py). The sheets are
  * invented; the mock does not calculate, so the copy's values are placeholders the mock carries.
  */
 jest.mock('office-addin-manifest', () => ({
@@ -202,7 +202,7 @@ interface ReferenceCase {
 }
 
 const REFERENCE = JSON.parse(
-  fs.readFileSync(path.join(__dirname, '..', 'reference', 'summary_values.json'), 'utf8'),
+  fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8'),
 ) as Record<string, ReferenceCase>;
 
 describe('Share section: the summary for people who decide', () => {

@@ -1,6 +1,6 @@
 /**
  * The summary for decision-makers: its numbers are the statistics core's, checked against scipy for three
- * invented experiments (test/reference/summary_reference.py → summary_values.json: P(best) and expected
+ * invented experiments (test/reference/addin/summary_reference.py → summary_values.json: P(best) and expected
  * loss by quadrature over the Beta posteriors, lift quantiles by root finding on the ratio's CDF, the split
  * check by scipy.stats.chisquare), and every number in its words is one of those values as shown. Also the
  * page itself: guardrails (none, passing, failing), the split check, the cautions that apply, lines short
@@ -40,7 +40,7 @@ interface ReferenceCase {
 }
 
 const REFERENCE = JSON.parse(
-  fs.readFileSync(path.join(__dirname, '..', 'reference', 'summary_values.json'), 'utf8'),
+  fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8'),
 ) as Record<string, ReferenceCase>;
 
 const AT = new Date(Date.UTC(2025, 6, 4, 9, 30, 0));

@@ -16,7 +16,7 @@ const EULER_GAMMA = 0.5772156649015328606065;
 
 /**
  * ζ(k) − 1 for k = 2, 3, …, 41 (computed with mpmath 1.2 at 40 digits; see
- * test/reference/special_reference.py, which checks the same numbers). Used in the series
+ * test/reference/special/special_reference.py, which checks the same numbers). Used in the series
  * log Γ(2 + z) = (1 − γ) z + Σ_{k≥2} (−1)^k (ζ(k) − 1) z^k / k (Abramowitz & Stegun 6.1.33).
  */
 const ZETA_MINUS_ONE: readonly number[] = [

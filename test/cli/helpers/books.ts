@@ -2,11 +2,11 @@
  * Test helper (not a suite): the workbooks the CLI tests use, built with the hand-made writer.
  *
  * Cached values are NOT computed by the add-in (that would make the audit agree with itself): they are
- * - scipy references from test/reference/addin_values.json (made by addin_values.py), accurate to about
+ * - scipy references from test/reference/addin/addin_values.json (made by addin_values.py), accurate to about
  *   1e-8 relative, so the tests audit with a tolerance of 1e-7, as test/addin/bundle.test.ts compares;
  * - closed forms: the Beta–Binomial posterior mean (alpha + conversions) / (alpha + beta + visitors)
  *   (Gelman et al., BDA3 §2.4) and the prior from a mean and a strength, alpha = mean × strength;
- * - R's chisq.test p-value from test/reference/srm_chisq.json;
+ * - R's chisq.test p-value from test/reference/srm/srm_chisq.json;
  * - the DECISION wording documented in the function catalogue's example for these counts.
  * The counts (120 of 2400 against 150 of 2380) are the invented example of the catalogue.
  */
@@ -15,8 +15,8 @@ import * as path from 'path';
 import type { TestBook, TestCell, TestSheet } from './xlsxWriter';
 
 const REF = path.join(__dirname, '..', '..', 'reference');
-const addin = JSON.parse(fs.readFileSync(path.join(REF, 'addin_values.json'), 'utf8'));
-const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm_chisq.json'), 'utf8'));
+const addin = JSON.parse(fs.readFileSync(path.join(REF, 'addin/addin_values.json'), 'utf8'));
+const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm/srm_chisq.json'), 'utf8'));
 
 /** scipy references for conversions {120;150} of visitors {2400;2380} (addin_values.py). */
 export const two = addin.conversionTwo as {

@@ -1,9 +1,9 @@
 /**
- * Chi-square tails against mpmath 1.2 (gammainc at 40 digits; test/reference/special_reference.py),
+ * Chi-square tails against mpmath 1.2 (gammainc at 40 digits; test/reference/special/special_reference.py),
  * Excel's CHISQ.TEST help example and R's chisq.test values (both from docs/check-values.md).
  */
 import { chiSquareCdf, chiSquareSf } from '../../../functions/stats/special/chiSquare';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument, relativeErrorOrAbsoluteAtZero } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */

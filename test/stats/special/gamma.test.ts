@@ -1,6 +1,6 @@
 /**
  * The gamma family against mpmath 1.2 (40 digits; 80 digits for the Stirling error, which cancels):
- * values in test/reference/special_values.json, made by test/reference/special_reference.py.
+ * values in test/reference/special/special_values.json, made by test/reference/special_reference.py.
  */
 import {
   binomialDeviance,
@@ -12,8 +12,8 @@ import {
   tetragamma,
   trigamma,
 } from '../../../functions/stats/special/gamma';
-import polygammas from '../../reference/polygamma_values.json';
-import reference from '../../reference/special_values.json';
+import polygammas from '../../reference/special/polygamma_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */
@@ -60,7 +60,7 @@ describe('digamma and trigamma against mpmath psi', () => {
 });
 
 describe('tetragamma and pentagamma against mpmath psi(2, x) and psi(3, x)', () => {
-  // Values: test/reference/polygamma_values.json, printed by test/reference/polygamma_reference.py
+  // Values: test/reference/special/polygamma_values.json, printed by test/reference/special/polygamma_reference.py
   // (mpmath, 40 digits). Tolerances: the first term the asymptotic series leaves out at x = 10, where
   // it takes over from the recurrence, relative to the value there: B₁₂·13/10¹⁴ / |ψ″(10)| = 3.0e-12
   // and B₁₂·13·14/10¹⁵ / ψ‴(10) = 2.0e-11 (Abramowitz & Stegun 6.4.11; B₁₂ = −691/2730). Far from

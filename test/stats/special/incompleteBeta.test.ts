@@ -1,6 +1,6 @@
 /**
  * Incomplete beta, Beta density and quantiles against outside references:
- *  - mpmath 1.2 at 40 digits (test/reference/special_reference.py → special_values.json): betainc
+ *  - mpmath 1.2 at 40 digits (test/reference/special/special_reference.py → special_values.json): betainc
  *    (regularized) for a + b ≤ 2000, and for larger shapes tanh-sinh quadrature of the exact log density in
  *    logit x (the script cross-checks both routes to 1e-25 where they overlap);
  *  - R 4.2 and Microsoft Excel's documented examples as listed in docs/check-values.md.
@@ -15,7 +15,7 @@ import {
   betaSf,
   betaTailLog,
 } from '../../../functions/stats/special/incompleteBeta';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument, relativeErrorOrAbsoluteAtZero } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */

@@ -1,7 +1,7 @@
 /**
  * Regularized incomplete gamma P, Q and the Gamma quantiles against mpmath 1.2 (gammainc at 40 digits for
  * a ≤ 2e4, tanh-sinh quadrature of the exact log density in log x above, cross-checked where both run;
- * test/reference/special_reference.py) and Excel's GAMMA.DIST help example (check-values.md).
+ * test/reference/special/special_reference.py) and Excel's GAMMA.DIST help example (check-values.md).
  */
 import fc from 'fast-check';
 import {
@@ -11,7 +11,7 @@ import {
   gammaQuantileUpper,
   gammaTailLog,
 } from '../../../functions/stats/special/incompleteGamma';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument, relativeErrorOrAbsoluteAtZero } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */

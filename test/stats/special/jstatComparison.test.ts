@@ -5,7 +5,7 @@
  * "inaccurate" claim asserts the size of the error seen.
  */
 import { betaCdf } from '../../../functions/stats/special/incompleteBeta';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { relativeError } from '../../helpers/assertions';
 
 // jStat ships no types; its shape is declared here for the few functions compared.

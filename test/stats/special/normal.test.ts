@@ -1,9 +1,9 @@
 /**
  * Standard normal Φ, Φ⁻¹ and log φ against mpmath 1.2 (ncdf and findroot at 40 digits;
- * test/reference/special_reference.py → special_values.json).
+ * test/reference/special/special_reference.py → special_values.json).
  */
 import { normalCdf, normalLogDensity, normalQuantile } from '../../../functions/stats/special/normal';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument, relativeErrorOrAbsoluteAtZero } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */

@@ -1,10 +1,10 @@
 /**
  * Student t against mpmath 1.2 (40 digits: the incomplete beta route P(T ≤ −|t|) = ½ I_x(ν/2, ½) in
  * mpmath's betainc, and the closed-form log density with mpmath's loggamma;
- * test/reference/special_reference.py) plus closed forms for ν = 1 and 2.
+ * test/reference/special/special_reference.py) plus closed forms for ν = 1 and 2.
  */
 import { studentTCdf, studentTLogDensity, studentTQuantile } from '../../../functions/stats/special/studentT';
-import reference from '../../reference/special_values.json';
+import reference from '../../reference/special/special_values.json';
 import { expectInvalidArgument, relativeErrorOrAbsoluteAtZero } from '../../helpers/assertions';
 
 /** One reference row; each table uses its leading columns (see special_reference.py). */
