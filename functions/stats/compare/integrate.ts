@@ -5,7 +5,9 @@
  *  - both tails are kept: of a pair P(A), 1 − P(A) the smaller is integrated directly and the other is
  *    1 − smaller (LogTails, pairFromBoth), so a probability of 1e-30 is accurate relative to itself;
  *  - panels whose upper bound (panel mass × the factors' largest values on it, from their monotonicity)
- *    is below e^-46 of the running total are skipped — they cannot change the result;
+ *    is below e^-46 of the running total are skipped — they cannot change the result; panels are visited
+ *    by a first bound that counts the factors' windows (visitOrder), and the pieces of a split panel are
+ *    bounded and skipped the same way, leaving out the tail factors that are 1 on them (PieceTail);
  *  - a base panel that holds two or more panels of a narrower factor is split at the factor's panel
  *    edges (factors.ts innerEdges), so a posterior of 1e9 visitors is resolved inside one of 100 visitors.
  * All of it is deterministic.
