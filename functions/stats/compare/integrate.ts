@@ -70,6 +70,8 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
   const breaks: number[] = [];
   const skip = new Uint8Array(count);
   const pieceSkip = new Uint8Array(count);
+  const mids: number[] = [];
+  const halves: number[] = [];
   const tails = count >= 2 ? factors.map((f, i) => pieceTail(base, f, direct[i] as boolean)) : undefined;
   const { order, first } = visitOrder(base, tails);
   for (let r = 0; r < panels; r++) {
@@ -132,26 +134,46 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
       continue;
     }
-    forEachPiece(a, b, breaks, (mid, half) => {
-      // Per piece: a direct tail factor that is 1 to double precision on the whole piece is left out, and
-      // a piece below some factor's window (its tail there ≤ its window's end value, ~e^-207) is skipped
-      // like a panel when its bound falls e^-46 below the running total (see pieceTails).
-      if (tails !== undefined) {
-        const left = mid - half;
-        const right = mid + half;
-        let pieceBound = bound;
-        for (let i = 0; i < count; i++) {
-          pieceSkip[i] = skip[i] as number;
-          const t = tails[i];
-          if (t === undefined || skip[i] === 1) continue;
-          if (t.upper ? right <= t.one : left >= t.one) pieceSkip[i] = 1;
-          else if (t.upper ? left >= t.windowEnd : right <= t.windowEnd) {
-            // The panel's bound holds this factor's largest value on the panel; the piece's is at most `beyond`.
-            pieceBound += Math.min(0, t.beyond - edgeFactor(t.upper ? p : p + 1, i));
-          }
+    // Per piece: a tail factor that is 1 to double precision on the whole piece is left out (pieceSkip),
+    // and a piece below some factor's window (its tail there ≤ its window's end value, ~e^-207) has a
+    // bound that much lower; returns the piece's bound.
+    const pieceBoundOf = (mid: number, half: number): number => {
+      const left = mid - half;
+      const right = mid + half;
+      let pieceBound = bound;
+      for (let i = 0; i < count; i++) {
+        pieceSkip[i] = skip[i] as number;
+        const t = tails === undefined ? undefined : tails[i];
+        if (t === undefined || skip[i] === 1) continue;
+        if (t.upper ? right <= t.one : left >= t.one) pieceSkip[i] = 1;
+        else if (t.upper ? left >= t.windowEnd : right <= t.windowEnd) {
+          // The panel's bound holds this factor's largest value on the panel; the piece's is at most `beyond`.
+          pieceBound += Math.min(0, t.beyond - edgeFactor(t.upper ? p : p + 1, i));
         }
-        if (pieceBound < total - PRUNE) return;
       }
+      return pieceBound;
+    };
+    // The pieces by decreasing bound (ties left to right), each skipped like a panel when its bound falls
+    // e^-46 below the running total: the pieces that hold the integral come first.
+    mids.length = 0;
+    halves.length = 0;
+    forEachPiece(a, b, breaks, (mid, half) => {
+      mids.push(mid);
+      halves.push(half);
+    });
+    const pieceOrder = mids.map((_, s) => s);
+    if (tails !== undefined) {
+      const pieceBounds = mids.map((mid, s) => pieceBoundOf(mid, halves[s] as number));
+      pieceOrder.sort((u, v) => {
+        const bu = pieceBounds[u] as number;
+        const bv = pieceBounds[v] as number;
+        return bu > bv ? -1 : bu < bv ? 1 : u - v;
+      });
+    }
+    for (const s of pieceOrder) {
+      const mid = mids[s] as number;
+      const half = halves[s] as number;
+      if (tails !== undefined && pieceBoundOf(mid, half) < total - PRUNE) continue;
       const use = tails !== undefined ? pieceSkip : skip;
       if (batched) {
         for (let k = 0; k < n; k++) {
@@ -170,7 +192,7 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
         }
       }
       total = logAddExp(total, panelLogIntegral(values, 0, half));
-    });
+    }
   }
   return total + logOffset;
 }
