@@ -5,7 +5,9 @@
  *  - both tails are kept: of a pair P(A), 1 − P(A) the smaller is integrated directly and the other is
  *    1 − smaller (LogTails, pairFromBoth), so a probability of 1e-30 is accurate relative to itself;
  *  - panels whose upper bound (panel mass × the factors' largest values on it, from their monotonicity)
- *    is below e^-46 of the running total are skipped — they cannot change the result;
+ *    is below e^-46 of the running total are skipped — they cannot change the result; panels are visited
+ *    by a first bound that counts the factors' windows (visitOrder), and the pieces of a split panel are
+ *    bounded and skipped the same way, leaving out the tail factors that are 1 on them (PieceTail);
  *  - a base panel that holds two or more panels of a narrower factor is split at the factor's panel
  *    edges (factors.ts innerEdges), so a posterior of 1e9 visitors is resolved inside one of 100 visitors.
  * All of it is deterministic.
@@ -67,11 +69,15 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
   const points = new Float64Array(n);
   const breaks: number[] = [];
   const skip = new Uint8Array(count);
-  const order = base.panelOrder;
+  const pieceSkip = new Uint8Array(count);
+  const mids: number[] = [];
+  const halves: number[] = [];
+  const tails = count >= 2 ? factors.map((f, i) => pieceTail(base, f, direct[i] as boolean)) : undefined;
+  const { order, first } = visitOrder(base, tails);
   for (let r = 0; r < panels; r++) {
     const p = order[r] as number;
     const mass = base.panelLogMass[p] as number;
-    if (mass + globalBound < total - PRUNE || mass === -Infinity) break;
+    if ((first[p] as number) + globalBound < total - PRUNE || mass === -Infinity) break;
     let bound = mass;
     for (let i = 0; i < count; i++) {
       const side = sides[i];
@@ -128,7 +134,47 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
       total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
       continue;
     }
+    // Per piece: a tail factor that is 1 to double precision on the whole piece is left out (pieceSkip),
+    // and a piece below some factor's window (its tail there ≤ its window's end value, ~e^-207) has a
+    // bound that much lower; returns the piece's bound.
+    const pieceBoundOf = (mid: number, half: number): number => {
+      const left = mid - half;
+      const right = mid + half;
+      let pieceBound = bound;
+      for (let i = 0; i < count; i++) {
+        pieceSkip[i] = skip[i] as number;
+        const t = tails === undefined ? undefined : tails[i];
+        if (t === undefined || skip[i] === 1) continue;
+        if (t.upper ? right <= t.one : left >= t.one) pieceSkip[i] = 1;
+        else if (t.upper ? left >= t.windowEnd : right <= t.windowEnd) {
+          // The panel's bound holds this factor's largest value on the panel; the piece's is at most `beyond`.
+          pieceBound += Math.min(0, t.beyond - edgeFactor(t.upper ? p : p + 1, i));
+        }
+      }
+      return pieceBound;
+    };
+    // The pieces by decreasing bound (ties left to right), each skipped like a panel when its bound falls
+    // e^-46 below the running total: the pieces that hold the integral come first.
+    mids.length = 0;
+    halves.length = 0;
     forEachPiece(a, b, breaks, (mid, half) => {
+      mids.push(mid);
+      halves.push(half);
+    });
+    const pieceOrder = mids.map((_, s) => s);
+    if (tails !== undefined) {
+      const pieceBounds = mids.map((mid, s) => pieceBoundOf(mid, halves[s] as number));
+      pieceOrder.sort((u, v) => {
+        const bu = pieceBounds[u] as number;
+        const bv = pieceBounds[v] as number;
+        return bu > bv ? -1 : bu < bv ? 1 : u - v;
+      });
+    }
+    for (const s of pieceOrder) {
+      const mid = mids[s] as number;
+      const half = halves[s] as number;
+      if (tails !== undefined && pieceBoundOf(mid, half) < total - PRUNE) continue;
+      const use = tails !== undefined ? pieceSkip : skip;
       if (batched) {
         for (let k = 0; k < n; k++) {
           const z = mid + half * (PANEL_NODES[k] as number);
@@ -136,19 +182,118 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
           values[k] = base.logDensityAt(z);
         }
         for (let i = 0; i < count; i++) {
-          if (skip[i] === 1) continue;
+          if (use[i] === 1) continue;
           (factors[i] as Factor).dist.addLogTailsAt(points, 0, n, values, (factors[i] as Factor).kind === 'sf');
         }
       } else {
         for (let k = 0; k < n; k++) {
           const z = mid + half * (PANEL_NODES[k] as number);
-          values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z), skip);
+          values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.logDensityAt(z), use);
         }
       }
       total = logAddExp(total, panelLogIntegral(values, 0, half));
-    });
+    }
   }
   return total + logOffset;
+}
+
+/**
+ * Where a direct cdf (or survival) factor is 1 to double precision and what it is at most beyond the
+ * other end of its window, for the per-piece skipping of logIntegral: the cdf is taken as 1 from `one`
+ * on, the first of its panel edges with 1 − F < 1e-18 (so log F > −1e-18, the panel rule's threshold;
+ * the survival function mirrored), and below its window's left end (`windowEnd`) it is at most its value
+ * there (`beyond`, the window's tail mass, ~e^-207).
+ */
+interface PieceTail {
+  readonly upper: boolean;
+  readonly one: number;
+  readonly windowEnd: number;
+  readonly beyond: number;
+}
+
+const ONE_LOG_TAIL = Math.log(1e-18);
+const pieceTailCache = new WeakMap<TabulatedDistribution, { cdf: PieceTail; sf: PieceTail }>();
+
+/**
+ * The factor's PieceTail in the base's working coordinate: its own for a direct factor, else its two
+ * points mapped through x = (u − shift)/scale (toValue and toWorking are increasing; scale > 0 only).
+ */
+function pieceTail(base: TabulatedDistribution, f: Factor, direct: boolean): PieceTail | undefined {
+  if (f.kind !== 'cdf' && f.kind !== 'sf') return undefined;
+  const own = ownPieceTail(f);
+  if (direct) return own;
+  if (!(f.scale > 0)) return undefined;
+  const [lo, hi] = base.source.valueRange;
+  const toBase = (z: number): number => {
+    if (z === Infinity || z === -Infinity) return z;
+    const x = (f.dist.source.toValue(z) - f.shift) / f.scale;
+    return x <= lo ? -Infinity : x >= hi ? Infinity : base.source.toWorking(x);
+  };
+  return { upper: own.upper, one: toBase(own.one), windowEnd: toBase(own.windowEnd), beyond: own.beyond };
+}
+
+function ownPieceTail(f: Factor): PieceTail {
+  const d = f.dist;
+  let known = pieceTailCache.get(d);
+  if (known === undefined) {
+    const last = d.edges.length - 1;
+    // The smallest edge with log(1 − F) < log 1e-18 (edgeLogSf decreases), and mirrored for F.
+    let cdfOne = Infinity;
+    for (let e = 0; e <= last; e++) {
+      if ((d.edgeLogSf[e] as number) < ONE_LOG_TAIL) {
+        cdfOne = d.edges[e] as number;
+        break;
+      }
+    }
+    let sfOne = -Infinity;
+    for (let e = last; e >= 0; e--) {
+      if ((d.edgeLogCdf[e] as number) < ONE_LOG_TAIL) {
+        sfOne = d.edges[e] as number;
+        break;
+      }
+    }
+    known = {
+      cdf: { upper: false, one: cdfOne, windowEnd: d.windowLeft, beyond: Math.min(0, d.edgeLogCdf[0] as number) },
+      sf: { upper: true, one: sfOne, windowEnd: d.windowRight, beyond: Math.min(0, d.edgeLogSf[last] as number) },
+    };
+    pieceTailCache.set(d, known);
+  }
+  return f.kind === 'cdf' ? known.cdf : known.sf;
+}
+
+/**
+ * The order logIntegral visits the base's panels in, and a first bound for each (log of the panel's mass
+ * times what its direct tail factors are at most there, before the factors' global maxima): by decreasing
+ * mass, unless some panel lies wholly beyond a factor's window (that factor's tail is ≤ ~e^-207 there),
+ * then by decreasing first bound (ties in mass order), so the panels that hold the integral come first and
+ * the pruning skips the rest. Cost: O(panels × factors) comparisons, plus a sort when reordered.
+ */
+function visitOrder(
+  base: TabulatedDistribution,
+  tails: readonly (PieceTail | undefined)[] | undefined,
+): { order: ArrayLike<number>; first: Float64Array } {
+  const panels = base.panelCount;
+  const first = Float64Array.from(base.panelLogMass);
+  if (tails === undefined) return { order: base.panelOrder, first };
+  let reordered = false;
+  for (let p = 0; p < panels; p++) {
+    const a = base.edges[p] as number;
+    const b = base.edges[p + 1] as number;
+    for (const t of tails) {
+      if (t !== undefined && (t.upper ? a >= t.windowEnd : b <= t.windowEnd) && t.beyond < 0) {
+        first[p] = (first[p] as number) + t.beyond;
+        reordered = true;
+      }
+    }
+  }
+  if (!reordered) return { order: base.panelOrder, first };
+  // Array.prototype.sort is stable, so equal bounds keep the mass order.
+  const order = Array.from(base.panelOrder).sort((u, v) => {
+    const fu = first[u] as number;
+    const fv = first[v] as number;
+    return fu > fv ? -1 : fu < fv ? 1 : 0;
+  });
+  return { order, first };
 }
 
 /** A tail integral and the matching density integral, from one pass over the base's nodes. */
