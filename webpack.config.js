@@ -45,8 +45,10 @@ class AddinAssetsPlugin {
         { name: 'AddinAssetsPlugin', stage: Compilation.PROCESS_ASSETS_STAGE_ADDITIONAL },
         () => {
           compilation.emitAsset('manifest.xml', new sources.RawSource(productionManifest(this.baseUrl)));
-          for (const size of ICON_SIZES) compilation.emitAsset(`assets/icon-${size}.png`, new sources.RawSource(drawIcon(size)));
-          for (const [name, html] of buildHelpPages()) compilation.emitAsset(`help/${name}`, new sources.RawSource(html));
+          for (const size of ICON_SIZES)
+            compilation.emitAsset(`assets/icon-${size}.png`, new sources.RawSource(drawIcon(size)));
+          for (const [name, html] of buildHelpPages())
+            compilation.emitAsset(`help/${name}`, new sources.RawSource(html));
         },
       );
       compilation.hooks.processAssets.tap(
@@ -108,7 +110,11 @@ module.exports = async (env = {}, argv = {}) => {
           exclude: /node_modules/,
           use: {
             loader: 'ts-loader',
-            options: { transpileOnly: true, configFile: path.join(__dirname, 'tsconfig.json'), compilerOptions: { module: 'es2020', sourceMap: mode === 'development' } },
+            options: {
+              transpileOnly: true,
+              configFile: path.join(__dirname, 'tsconfig.json'),
+              compilerOptions: { module: 'es2020', sourceMap: mode === 'development' },
+            },
           },
         },
       ],

@@ -228,8 +228,18 @@ section('core', () => {
   }
   printTable(
     'Two variants (control 5%, challenger +2% relative)',
-    ['visitors/variant', 'P(beats control)', 'time (≤0.2 ms)', 'MC time', 'speed-up (≥20×)', 'MC error',
-      'lift interval (≤2 ms)', 'MC error (lower end)', 'expected loss', 'MC error (control)'],
+    [
+      'visitors/variant',
+      'P(beats control)',
+      'time (≤0.2 ms)',
+      'MC time',
+      'speed-up (≥20×)',
+      'MC error',
+      'lift interval (≤2 ms)',
+      'MC error (lower end)',
+      'expected loss',
+      'MC error (control)',
+    ],
     rows,
   );
 });
@@ -256,8 +266,15 @@ section('variants', () => {
   }
   printTable(
     'Many variants',
-    ['visitors/variant', 'variants', 'P(highest) (10: ≤3 ms)', 'P(beats control), all', 'expected loss, all',
-      'MC time', 'MC max error'],
+    [
+      'visitors/variant',
+      'variants',
+      'P(highest) (10: ≤3 ms)',
+      'P(beats control), all',
+      'expected loss, all',
+      'MC time',
+      'MC max error',
+    ],
     rows,
   );
 });
@@ -311,36 +328,76 @@ section('looks', () => {
     const tFalse = medianMs(() => looks.falseAlarmWithLooks(p, at, 0.95, 1), 300, 20);
     const tTwo = medianMs(() => looks.falseAlarmWithLooks(p, at, 0.975, 2), 300, 20);
     const tPower = medianMs(() => looks.powerWithLooks(p, 0.1, at), 300, 20);
-    rows.push([`FALSE_ALARM / POWER_WITH_LOOKS, ${name}`, `${falseAlarm.probability.toFixed(4)} (${falseAlarm.method})`,
-      `${mark(tFalse, 100)} / 2 sides ${mark(tTwo, 100)} / power ${mark(tPower, 100)}`]);
+    rows.push([
+      `FALSE_ALARM / POWER_WITH_LOOKS, ${name}`,
+      `${falseAlarm.probability.toFixed(4)} (${falseAlarm.method})`,
+      `${mark(tFalse, 100)} / 2 sides ${mark(tTwo, 100)} / power ${mark(tPower, 100)}`,
+    ]);
   }
   for (const [name, p, at] of [lookCases[1], lookCases[0], lookCases[3], lookCases[5]]) {
     for (const sides of [1, 2]) {
       const t = looks.thresholdForLooks(p, at, 0.05, sides);
       const time = medianMs(() => looks.thresholdForLooks(p, at, 0.05, sides), 600, 5);
-      rows.push([`THRESHOLD_FOR_LOOKS, ${name}, ${sides} side${sides === 2 ? 's' : ''}`, t.toFixed(6), mark(time, 200)]);
+      rows.push([
+        `THRESHOLD_FOR_LOOKS, ${name}, ${sides} side${sides === 2 ? 's' : ''}`,
+        t.toFixed(6),
+        mark(time, 200),
+      ]);
     }
   }
   for (const v of [3, 11, 50]) {
     const t = many.thresholdForVariants(v);
-    rows.push([`THRESHOLD_FOR_VARIANTS(${v})`, t.toFixed(6), mark(medianMs(() => many.thresholdForVariants(v), 300, 50), 200)]);
+    rows.push([
+      `THRESHOLD_FOR_VARIANTS(${v})`,
+      t.toFixed(6),
+      mark(
+        medianMs(() => many.thresholdForVariants(v), 300, 50),
+        200,
+      ),
+    ]);
   }
-  for (const [p, n] of [[0.1, 3000], [0.05, 1e5], [0.02, 1e7], [0.5, 1e9]]) {
+  for (const [p, n] of [
+    [0.1, 3000],
+    [0.05, 1e5],
+    [0.02, 1e7],
+    [0.5, 1e9],
+  ]) {
     const l = lift.smallestDetectableLift(p, n);
-    rows.push([`SMALLEST_DETECTABLE_LIFT(${p}, ${fmtN(n)})`, l.toPrecision(6), mark(medianMs(() => lift.smallestDetectableLift(p, n), 300, 20), 100)]);
+    rows.push([
+      `SMALLEST_DETECTABLE_LIFT(${p}, ${fmtN(n)})`,
+      l.toPrecision(6),
+      mark(
+        medianMs(() => lift.smallestDetectableLift(p, n), 300, 20),
+        100,
+      ),
+    ]);
   }
   // 60 days of a control and three challengers, ~1,000 visitors a day each (invented).
-  const days = Array.from({ length: 60 }, (_, d) => [0, 1, 2, 3].map((i) => {
-    const visitors = 950 + ((d * 37 + i * 11) % 100);
-    return { visitors, conversions: Math.round(visitors * (0.05 + 0.002 * i)) };
-  }));
+  const days = Array.from({ length: 60 }, (_, d) =>
+    [0, 1, 2, 3].map((i) => {
+      const visitors = 950 + ((d * 37 + i * 11) % 100);
+      return { visitors, conversions: Math.round(visitors * (0.05 + 0.002 * i)) };
+    }),
+  );
   const cells = days.length * 3;
   const tDays = medianMs(() => byDay.probAboveControlByDay(days), 300, 20);
-  rows.push([`PROB_ABOVE_CONTROL_BY_DAY, 60 days × 3 challengers`, `${fmtMs(tDays / cells)} per cell`, mark(tDays / cells, 1)]);
+  rows.push([
+    `PROB_ABOVE_CONTROL_BY_DAY, 60 days × 3 challengers`,
+    `${fmtMs(tDays / cells)} per cell`,
+    mark(tDays / cells, 1),
+  ]);
   const visitors = days.map((d) => d.map((v) => v.visitors));
   const tSplit = medianMs(() => byDay.srmPValueByDay(visitors), 300, 50);
-  rows.push([`SRM_PVALUE_BY_DAY, 60 days × 4 variants`, `${fmtMs(tSplit / (days.length * 4))} per cell`, mark(tSplit / (days.length * 4), 1)]);
-  printTable('Looks, many variants, fixed budgets, day by day', ['call', 'value', 'time (looks ≤100 ms, thresholds ≤200 ms, lift ≤100 ms, by day ≤1 ms a cell)'], rows);
+  rows.push([
+    `SRM_PVALUE_BY_DAY, 60 days × 4 variants`,
+    `${fmtMs(tSplit / (days.length * 4))} per cell`,
+    mark(tSplit / (days.length * 4), 1),
+  ]);
+  printTable(
+    'Looks, many variants, fixed budgets, day by day',
+    ['call', 'value', 'time (looks ≤100 ms, thresholds ≤200 ms, lift ≤100 ms, by day ≤1 ms a cell)'],
+    rows,
+  );
 });
 
 section('models', () => {
@@ -380,8 +437,18 @@ section('models', () => {
   }
   printTable(
     'Revenue (Normal model) and counts (Gamma–Poisson)',
-    ['count/exposure', 'variants', 'MEAN P(beats)', 'MEAN P(highest)', 'MEAN lift', 'MEAN loss',
-      'EVENTS P(beats)', 'EVENTS P(highest)', 'EVENTS lift', 'EVENTS loss'],
+    [
+      'count/exposure',
+      'variants',
+      'MEAN P(beats)',
+      'MEAN P(highest)',
+      'MEAN lift',
+      'MEAN loss',
+      'EVENTS P(beats)',
+      'EVENTS P(highest)',
+      'EVENTS lift',
+      'EVENTS loss',
+    ],
     rows,
   );
 });
@@ -460,8 +527,17 @@ section('revenue', () => {
   }
   printTable(
     'Revenue per visitor from totals (R = conversion × order value)',
-    ['order values', 'visitors/variant', 'P(beats) 2 var. (≤5 ms)', 'MC 100k', 'faster', 'MC error',
-      'P(highest) 10 var. (≤30 ms)', 'MC 100k', 'faster'],
+    [
+      'order values',
+      'visitors/variant',
+      'P(beats) 2 var. (≤5 ms)',
+      'MC 100k',
+      'faster',
+      'MC error',
+      'P(highest) 10 var. (≤30 ms)',
+      'MC 100k',
+      'faster',
+    ],
     rows,
     'Targets (issue #13) on the exponential rows; "faster" is the Monte Carlo of the same model, timed in the same run (≥ 20×).',
   );
@@ -504,7 +580,15 @@ section('addin', () => {
     return { conv, vis: [[visitors], [visitors], [visitors]] };
   });
   // The seven functions of (conversions, visitors), then SRM_PVALUE of the visitors.
-  const NAMES = ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'PROB_HIGHEST', 'PROB_ABOVE_CONTROL', 'LIFT_INTERVAL', 'EXPECTED_LOSS', 'DECISION'];
+  const NAMES = [
+    'POSTERIOR_MEAN',
+    'RATE_INTERVAL',
+    'PROB_HIGHEST',
+    'PROB_ABOVE_CONTROL',
+    'LIFT_INTERVAL',
+    'EXPECTED_LOSS',
+    'DECISION',
+  ];
   const readOut = () => {
     for (const { conv, vis } of experiments) {
       for (const name of NAMES) call(name, conv, vis);
@@ -532,20 +616,29 @@ section('addin', () => {
   const kept = live() - before;
   const size = fs.statSync(bundlePath).size;
   const gz = zlib.gzipSync(fs.readFileSync(bundlePath)).length;
-  printTable('The add-in bundle', ['measure', 'value', 'target'], [
-    ['read-out of 1,000 experiments × 8 functions through dist/functions.js', mark(t, 2000), '≤ 2 s'],
-    ['the same, one function at a time over all 1,000 (few table-memo hits)', fmtMs(tColumns), ''],
-    ['memory kept afterwards (the table memo, budget 400,000 nodes)', `${(kept / 1e6).toFixed(1)} MB`, ''],
-    ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
-    ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
-  ]);
+  printTable(
+    'The add-in bundle',
+    ['measure', 'value', 'target'],
+    [
+      ['read-out of 1,000 experiments × 8 functions through dist/functions.js', mark(t, 2000), '≤ 2 s'],
+      ['the same, one function at a time over all 1,000 (few table-memo hits)', fmtMs(tColumns), ''],
+      ['memory kept afterwards (the table memo, budget 400,000 nodes)', `${(kept / 1e6).toFixed(1)} MB`, ''],
+      ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
+      ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
+    ],
+  );
 });
 
 section('worst', () => {
   const bundlePath = path.join(root, 'dist', 'functions.js');
   if (!fs.existsSync(bundlePath)) throw new Error('dist/functions.js is missing: run `npm run build` first');
   const { HEADERS, NOTE, worstCaseRows } = require('./worstCases');
-  printTable('Worst cases (issue #10 reproductions and the slowest call found per function)', HEADERS, worstCaseRows(fmtMs), NOTE);
+  printTable(
+    'Worst cases (issue #10 reproductions and the slowest call found per function)',
+    HEADERS,
+    worstCaseRows(fmtMs),
+    NOTE,
+  );
 });
 
 section('tableDetect', () => {

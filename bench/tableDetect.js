@@ -48,8 +48,15 @@ for (const n of [1000, 2000, 4999, 10000, 20000]) {
       shown = checked.ok ? '' : checked.problems.join('; ');
       outcome = checked.ok ? 'read-out possible' : 'refused by the check';
     });
-    const time = ms < 0.01 ? `${(ms * 1000).toFixed(1)} µs` : ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : `${ms.toFixed(1)} ms`;
-    rows.push([n.toLocaleString('en-US'), text ? 'text visitors' : 'numbers', time, outcome, shown.length.toLocaleString('en-US')]);
+    const time =
+      ms < 0.01 ? `${(ms * 1000).toFixed(1)} µs` : ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : `${ms.toFixed(1)} ms`;
+    rows.push([
+      n.toLocaleString('en-US'),
+      text ? 'text visitors' : 'numbers',
+      time,
+      outcome,
+      shown.length.toLocaleString('en-US'),
+    ]);
   }
 }
 const headers = ['data rows', 'visitors column', 'detect + check', 'outcome', 'problem text (chars)'];

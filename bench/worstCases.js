@@ -79,15 +79,31 @@ const E50 = unevenEvents(50);
  */
 const CASES = [
   // Issue #10's reproductions.
-  ['EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.000001,0.999999)', 'EXPECTED_LOSS',
-    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.000001, 0.999999], false],
-  ['EVENTS_EXPECTED_LOSS({0;0;5},{1000;1000;1000},0.000001)', 'EVENTS_EXPECTED_LOSS',
-    [col([0, 0, 5]), col([1000, 1000, 1000]), 0.000001], false],
-  ['DECISION({0;30000;0},{60000;60000;60000},,,1E-12,1)', 'DECISION',
-    [col([0, 30000, 0]), col([60000, 60000, 60000]), null, null, 1e-12, 1], false],
+  [
+    'EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.000001,0.999999)',
+    'EXPECTED_LOSS',
+    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.000001, 0.999999],
+    false,
+  ],
+  [
+    'EVENTS_EXPECTED_LOSS({0;0;5},{1000;1000;1000},0.000001)',
+    'EVENTS_EXPECTED_LOSS',
+    [col([0, 0, 5]), col([1000, 1000, 1000]), 0.000001],
+    false,
+  ],
+  [
+    'DECISION({0;30000;0},{60000;60000;60000},,,1E-12,1)',
+    'DECISION',
+    [col([0, 30000, 0]), col([60000, 60000, 60000]), null, null, 1e-12, 1],
+    false,
+  ],
   ['VISITORS_NEEDED(0.01,0.01,0.999999999,0.95)', 'VISITORS_NEEDED', [0.01, 0.01, 0.999999999, 0.95], false],
-  ['VISITORS_NEEDED(0.03,0.05,0.999999999,0.9,0.001,1E-12)', 'VISITORS_NEEDED',
-    [0.03, 0.05, 0.999999999, 0.9, 0.001, 1e-12], false],
+  [
+    'VISITORS_NEEDED(0.03,0.05,0.999999999,0.9,0.001,1E-12)',
+    'VISITORS_NEEDED',
+    [0.03, 0.05, 0.999999999, 0.9, 0.001, 1e-12],
+    false,
+  ],
   ['EXPECTED_LOSS, 50 uneven variants', 'EXPECTED_LOSS', [U50.conversions, U50.visitors], true],
   ['DECISION, 50 uneven variants', 'DECISION', [U50.conversions, U50.visitors], true],
   ['MEAN_EXPECTED_LOSS, 50 uneven variants', 'MEAN_EXPECTED_LOSS', [M50.count, M50.mean, M50.sd], true],
@@ -97,33 +113,76 @@ const CASES = [
   ['LIFT_DENSITY, 50 close variants × 1000 points', 'LIFT_DENSITY', [C50.conversions, C50.visitors, 1000], false],
   ['PROB_HIGHEST, 50 uneven variants', 'PROB_HIGHEST', [U50.conversions, U50.visitors], true],
   // Worst found per function inside the domain (priors down to 0.001, thresholds up to 0.9999).
-  ['EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.001,1)', 'EXPECTED_LOSS',
-    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.001, 1], true],
-  ['EXPECTED_LOSS, 50 uneven variants, prior 0.001', 'EXPECTED_LOSS', [U50.conversions, U50.visitors, 0.001, 0.001], true],
+  [
+    'EXPECTED_LOSS({0;15;9},{5000;5000;5000},0.001,1)',
+    'EXPECTED_LOSS',
+    [col([0, 15, 9]), col([5000, 5000, 5000]), 0.001, 1],
+    true,
+  ],
+  [
+    'EXPECTED_LOSS, 50 uneven variants, prior 0.001',
+    'EXPECTED_LOSS',
+    [U50.conversions, U50.visitors, 0.001, 0.001],
+    true,
+  ],
   ['PROB_HIGHEST, 50 close variants', 'PROB_HIGHEST', [C50.conversions, C50.visitors], true],
   ['PROB_ABOVE_CONTROL, 50 uneven variants', 'PROB_ABOVE_CONTROL', [U50.conversions, U50.visitors], true],
   ['LIFT_INTERVAL, 50 uneven variants', 'LIFT_INTERVAL', [U50.conversions, U50.visitors, 0.9999], true],
   ['RATE_DIFF_INTERVAL, 50 uneven variants', 'RATE_DIFF_INTERVAL', [U50.conversions, U50.visitors, 0.9999], true],
   ['PROB_LIFT_ABOVE, 50 uneven variants', 'PROB_LIFT_ABOVE', [U50.conversions, U50.visitors, 0.05], true],
-  ['POSTERIOR_DENSITY, 50 uneven variants × 1000 points', 'POSTERIOR_DENSITY',
-    [U50.conversions, U50.visitors, 1000], true],
-  ['LIFT_DENSITY, 50 uneven variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
-    [U50.conversions, U50.visitors, 102], true],
-  ['LIFT_DENSITY, 50 close variants × 102 points (most rows allowed)', 'LIFT_DENSITY',
-    [C50.conversions, C50.visitors, 102], true],
-  ['LIFT_DENSITY({0;10},{1000;1000},1000) (no conversions in the control)', 'LIFT_DENSITY',
-    [col([0, 10]), col([1000, 1000]), 1000], true],
-  ['LIFT_DENSITY({0;3},{1000;1000},1000,0.001,0.001)', 'LIFT_DENSITY',
-    [col([0, 3]), col([1000, 1000]), 1000, 0.001, 0.001], true],
+  [
+    'POSTERIOR_DENSITY, 50 uneven variants × 1000 points',
+    'POSTERIOR_DENSITY',
+    [U50.conversions, U50.visitors, 1000],
+    true,
+  ],
+  [
+    'LIFT_DENSITY, 50 uneven variants × 102 points (most rows allowed)',
+    'LIFT_DENSITY',
+    [U50.conversions, U50.visitors, 102],
+    true,
+  ],
+  [
+    'LIFT_DENSITY, 50 close variants × 102 points (most rows allowed)',
+    'LIFT_DENSITY',
+    [C50.conversions, C50.visitors, 102],
+    true,
+  ],
+  [
+    'LIFT_DENSITY({0;10},{1000;1000},1000) (no conversions in the control)',
+    'LIFT_DENSITY',
+    [col([0, 10]), col([1000, 1000]), 1000],
+    true,
+  ],
+  [
+    'LIFT_DENSITY({0;3},{1000;1000},1000,0.001,0.001)',
+    'LIFT_DENSITY',
+    [col([0, 3]), col([1000, 1000]), 1000, 0.001, 0.001],
+    true,
+  ],
   ['MEAN_PROB_HIGHEST, 50 uneven variants', 'MEAN_PROB_HIGHEST', [M50.count, M50.mean, M50.sd], true],
   ['MEAN_LIFT_INTERVAL, 50 uneven variants', 'MEAN_LIFT_INTERVAL', [M50.count, M50.mean, M50.sd, 0.9999], true],
-  ['EVENTS_EXPECTED_LOSS, 50 uneven variants, prior 0.001', 'EVENTS_EXPECTED_LOSS',
-    [E50.events, E50.exposure, 0.001, 0.001], true],
+  [
+    'EVENTS_EXPECTED_LOSS, 50 uneven variants, prior 0.001',
+    'EVENTS_EXPECTED_LOSS',
+    [E50.events, E50.exposure, 0.001, 0.001],
+    true,
+  ],
   ['EVENTS_PROB_HIGHEST, 50 uneven variants', 'EVENTS_PROB_HIGHEST', [E50.events, E50.exposure], true],
   ['EVENTS_LIFT_INTERVAL, 50 uneven variants', 'EVENTS_LIFT_INTERVAL', [E50.events, E50.exposure, 0.9999], true],
   ['VISITORS_NEEDED(0.001,0.01,0.9999,0.99)', 'VISITORS_NEEDED', [0.001, 0.01, 0.9999, 0.99], true],
-  ['VISITORS_NEEDED(0.03,0.05,0.9999,0.9,0.001,0.001)', 'VISITORS_NEEDED', [0.03, 0.05, 0.9999, 0.9, 0.001, 0.001], true],
-  ['VISITORS_NEEDED(0.5,0.01,0.9999,0.99,0.001,0.001)', 'VISITORS_NEEDED', [0.5, 0.01, 0.9999, 0.99, 0.001, 0.001], true],
+  [
+    'VISITORS_NEEDED(0.03,0.05,0.9999,0.9,0.001,0.001)',
+    'VISITORS_NEEDED',
+    [0.03, 0.05, 0.9999, 0.9, 0.001, 0.001],
+    true,
+  ],
+  [
+    'VISITORS_NEEDED(0.5,0.01,0.9999,0.99,0.001,0.001)',
+    'VISITORS_NEEDED',
+    [0.5, 0.01, 0.9999, 0.99, 0.001, 0.001],
+    true,
+  ],
   ['DECISION_POWER(0.5,0.01,1E9,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e9, 0.9999], true],
   ['DECISION_POWER(0.5,0.01,1E10,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e10, 0.9999], true],
   ['PRIOR_FROM_HISTORY, 50 uneven rows', 'PRIOR_FROM_HISTORY', [U50.conversions, U50.visitors], true],
@@ -163,7 +222,15 @@ function worstCaseRows(fmtMs) {
     const target = inDomain ? 250 : 1000;
     const time = r.failure ? '—' : `${fmtMs(r.cpuMs)} ${r.cpuMs <= target ? '✓' : '✗'}`;
     const mb = r.failure ? '—' : `${(r.memory / 1e6).toFixed(1)} MB ${r.memory <= 50e6 ? '✓' : '✗'}`;
-    return [c[0], inDomain ? 'inside' : 'edge/outside', time, inDomain ? '≤ 250 ms' : '≤ 1 s', mb, '≤ 50 MB', outcome(r)];
+    return [
+      c[0],
+      inDomain ? 'inside' : 'edge/outside',
+      time,
+      inDomain ? '≤ 250 ms' : '≤ 1 s',
+      mb,
+      '≤ 50 MB',
+      outcome(r),
+    ];
   });
 }
 
@@ -176,7 +243,8 @@ const NOTE =
 module.exports = { CASES, HEADERS, NOTE, worstCaseRows };
 
 if (require.main === module) {
-  const fmtMs = (ms) => (ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : ms < 100 ? `${ms.toFixed(2)} ms` : `${ms.toFixed(0)} ms`);
+  const fmtMs = (ms) =>
+    ms < 1 ? `${(ms * 1000).toFixed(0)} µs` : ms < 100 ? `${ms.toFixed(2)} ms` : `${ms.toFixed(0)} ms`;
   const rows = worstCaseRows(fmtMs);
   const widths = HEADERS.map((h, i) => Math.max(h.length, ...rows.map((r) => String(r[i]).length)));
   const line = (cells) => `| ${cells.map((c, i) => String(c).padEnd(widths[i])).join(' | ')} |`;

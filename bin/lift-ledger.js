@@ -9,7 +9,9 @@ const path = require('path');
 try {
   require.resolve('typescript');
 } catch {
-  process.stderr.write("lift-ledger: the project's dependencies are not installed: run `npm install` in the project folder first\n");
+  process.stderr.write(
+    "lift-ledger: the project's dependencies are not installed: run `npm install` in the project folder first\n",
+  );
   process.exit(2);
 }
 require(path.join(__dirname, '..', 'scripts', 'tsRequire.js'));

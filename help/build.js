@@ -31,7 +31,9 @@ const NAMESPACE = 'ABTEST';
  */
 function wrapperFiles() {
   const text = fs.readFileSync(ENTRY, 'utf8');
-  const found = [...text.matchAll(/^export \* from '\.\/(wrappers\/[\w-]+)';$/gm)].map((m) => path.join(ROOT, 'functions', `${m[1]}.ts`));
+  const found = [...text.matchAll(/^export \* from '\.\/(wrappers\/[\w-]+)';$/gm)].map((m) =>
+    path.join(ROOT, 'functions', `${m[1]}.ts`),
+  );
   if (found.length === 0) throw new Error('functions/functions.ts exports no wrapper files');
   return found;
 }
@@ -44,7 +46,10 @@ function catalogue() {
 function commentText(comment) {
   if (comment === undefined) return '';
   if (typeof comment === 'string') return comment.trim();
-  return comment.map((part) => part.text).join('').trim();
+  return comment
+    .map((part) => part.text)
+    .join('')
+    .trim();
 }
 
 /**
@@ -75,7 +80,10 @@ function readFileDocs(sourcePath) {
     if (!cf) return;
     const id = commentText(cf.comment).split(/\s+/)[0] || node.name.text.toUpperCase();
     const paramDocs = new Map(
-      tag('param').map((t) => [t.name.getText().replace(/^\[|\]$/g, ''), { text: commentText(t.comment), bracketed: t.isBracketed }]),
+      tag('param').map((t) => [
+        t.name.getText().replace(/^\[|\]$/g, ''),
+        { text: commentText(t.comment), bracketed: t.isBracketed },
+      ]),
     );
     const params = node.parameters.map((p) => {
       const name = p.name.getText();
@@ -113,7 +121,9 @@ function parseExample(example) {
   const m = /^(=ABTEST\.[A-Z_]+\(.*\))\s+returns\s+(.+)$/s.exec(example);
   if (m) return { formula: m[1], result: m[2].trim(), words: undefined };
   const f = /^(=ABTEST\.[A-Z_]+\(.*?\))\s*(.*)$/s.exec(example);
-  return f ? { formula: f[1], result: undefined, words: f[2].trim() } : { formula: '', result: undefined, words: example };
+  return f
+    ? { formula: f[1], result: undefined, words: f[2].trim() }
+    : { formula: '', result: undefined, words: example };
 }
 
 function escapeHtml(s) {
@@ -153,13 +163,20 @@ function functionPageBody(doc) {
         `<td>${escapeHtml(allowed.get(p.name) ?? '')}</td></tr>`,
     )
     .join('\n');
-  parts.push(`<h2>Arguments</h2>\n<table><tr><th>argument</th><th>what to give</th><th>allowed</th></tr>\n${rows}</table>`);
+  parts.push(
+    `<h2>Arguments</h2>\n<table><tr><th>argument</th><th>what to give</th><th>allowed</th></tr>\n${rows}</table>`,
+  );
   parts.push(`<h2>Result</h2>\n${paragraphHtml(doc.returns)}`);
   if (doc.examples.length > 0) {
     const items = doc.examples.map((e) => {
       const ex = parseExample(e);
       const formula = ex.formula ? `<pre>${escapeHtml(ex.formula)}</pre>` : '';
-      const result = ex.result !== undefined ? `<p>returns <code>${escapeHtml(ex.result)}</code></p>` : ex.words ? `<p>${escapeHtml(ex.words)}</p>` : '';
+      const result =
+        ex.result !== undefined
+          ? `<p>returns <code>${escapeHtml(ex.result)}</code></p>`
+          : ex.words
+            ? `<p>${escapeHtml(ex.words)}</p>`
+            : '';
       return `${formula}\n${result}`;
     });
     parts.push(
@@ -200,7 +217,8 @@ function allowedValues(id) {
  */
 function functionTexts(docs = readFunctionDocs()) {
   const texts = {};
-  for (const d of docs) texts[d.id] = { description: d.description, method: d.method, source: d.source, cautions: d.cautions };
+  for (const d of docs)
+    texts[d.id] = { description: d.description, method: d.method, source: d.source, cautions: d.cautions };
   return texts;
 }
 
@@ -217,7 +235,10 @@ function writeFunctionTexts() {
 
 function indexBody(docs) {
   const rows = docs
-    .map((d) => `<tr><td><a href="${escapeHtml(d.id)}.html"><code>${escapeHtml(d.id)}</code></a></td><td>${escapeHtml(d.description.split('\n')[0])}</td></tr>`)
+    .map(
+      (d) =>
+        `<tr><td><a href="${escapeHtml(d.id)}.html"><code>${escapeHtml(d.id)}</code></a></td><td>${escapeHtml(d.description.split('\n')[0])}</td></tr>`,
+    )
     .join('\n');
   return [
     '<h1>Lift Ledger worksheet functions</h1>',

@@ -26,7 +26,8 @@ function normaliseBaseUrl(raw) {
   } catch {
     throw new Error(`ADDIN_BASE_URL "${raw}" is not an absolute URL`);
   }
-  if (url.protocol !== 'https:') throw new Error(`ADDIN_BASE_URL "${raw}" must use https (Office loads add-ins over https only)`);
+  if (url.protocol !== 'https:')
+    throw new Error(`ADDIN_BASE_URL "${raw}" must use https (Office loads add-ins over https only)`);
   if (url.search || url.hash) throw new Error(`ADDIN_BASE_URL "${raw}" must not have a query or fragment`);
   const href = url.href;
   return href.endsWith('/') ? href : `${href}/`;
@@ -73,7 +74,10 @@ function rewriteMetadata(metadataJson, baseUrl) {
  */
 function manifestVersion(packageVersion) {
   const m = /^(\d+)\.(\d+)\.(\d+)$/.exec(String(packageVersion));
-  if (!m) throw new Error(`package.json version "${packageVersion}" must be three whole numbers (x.y.z) to become a manifest version`);
+  if (!m)
+    throw new Error(
+      `package.json version "${packageVersion}" must be three whole numbers (x.y.z) to become a manifest version`,
+    );
   return `${m[1]}.${m[2]}.${m[3]}.0`;
 }
 
@@ -97,7 +101,15 @@ function productionManifest(baseUrl) {
   return withVersion(rewriteManifest(fs.readFileSync(path.join(__dirname, 'manifest.xml'), 'utf8'), baseUrl), version);
 }
 
-module.exports = { DEV_BASE_URL, normaliseBaseUrl, rewriteManifest, rewriteMetadata, manifestVersion, withVersion, productionManifest };
+module.exports = {
+  DEV_BASE_URL,
+  normaliseBaseUrl,
+  rewriteManifest,
+  rewriteMetadata,
+  manifestVersion,
+  withVersion,
+  productionManifest,
+};
 
 if (require.main === module) {
   const base = process.argv[2] || process.env.ADDIN_BASE_URL || DEV_BASE_URL;

@@ -92,7 +92,10 @@ function writeStamp(stamp) {
 
 function runWebpack(args, log) {
   log(`Building: webpack ${args.join(' ')}`);
-  const result = spawnSync(process.execPath, [WEBPACK_CLI, ...args], { cwd: REPO_ROOT, stdio: ['ignore', 'inherit', 'inherit'] });
+  const result = spawnSync(process.execPath, [WEBPACK_CLI, ...args], {
+    cwd: REPO_ROOT,
+    stdio: ['ignore', 'inherit', 'inherit'],
+  });
   if (result.status !== 0) throw new Error(`webpack ${args.join(' ')} failed (exit ${result.status})`);
 }
 
@@ -105,10 +108,14 @@ function ensureAddinBuilt({ log = console.log, force = false } = {}) {
   const outputs = ['functions.js', 'functions.json', 'taskpane.html'].map((f) => path.join(DIST, f));
   const config = path.join(REPO_ROOT, 'webpack.config.js');
   if (!fs.existsSync(config)) {
-    log('The add-in build (webpack.config.js) is not in this checkout yet; the preview needs dist/functions.js and dist/functions.json.');
+    log(
+      'The add-in build (webpack.config.js) is not in this checkout yet; the preview needs dist/functions.js and dist/functions.json.',
+    );
     return false;
   }
-  const sources = newestMtime(['functions', 'taskpane', 'help', 'manifest', 'scripts', 'webpack.config.js'].map((p) => path.join(REPO_ROOT, p)));
+  const sources = newestMtime(
+    ['functions', 'taskpane', 'help', 'manifest', 'scripts', 'webpack.config.js'].map((p) => path.join(REPO_ROOT, p)),
+  );
   const stamp = path.join(DIST, '.preview-built');
   if (!force && builtAt(outputs, stamp) >= sources) return false;
   runWebpack(['--mode', 'production'], log);
@@ -119,7 +126,11 @@ function ensureAddinBuilt({ log = console.log, force = false } = {}) {
 /** Builds the preview bundle (preview/build/) when missing or older than preview/src or its config. */
 function ensurePreviewBuilt({ log = console.log, force = false } = {}) {
   const outputs = ['index.html', 'preview.js'].map((f) => path.join(PREVIEW_BUILD, f));
-  const sources = newestMtime([path.join(__dirname, 'src'), path.join(__dirname, 'webpack.config.js'), path.join(REPO_ROOT, 'node_modules', 'hyperformula', 'package.json')]);
+  const sources = newestMtime([
+    path.join(__dirname, 'src'),
+    path.join(__dirname, 'webpack.config.js'),
+    path.join(REPO_ROOT, 'node_modules', 'hyperformula', 'package.json'),
+  ]);
   const stamp = path.join(PREVIEW_BUILD, '.built');
   if (!force && builtAt(outputs, stamp) >= sources) return false;
   runWebpack(['--config', path.join(__dirname, 'webpack.config.js'), '--mode', 'production'], log);
@@ -210,7 +221,12 @@ function route(req, res, asBuilt) {
   if (urlPath === '/taskpane.html' && !asBuilt) {
     return fs.readFile(path.join(DIST, 'taskpane.html'), 'utf8', (error, html) => {
       if (error) {
-        return send(res, 200, '<!doctype html><meta charset="utf-8"><p style="font-family:sans-serif">The side panel is not built yet: run <code>npm run build</code>.</p>', CONTENT_TYPES['.html']);
+        return send(
+          res,
+          200,
+          '<!doctype html><meta charset="utf-8"><p style="font-family:sans-serif">The side panel is not built yet: run <code>npm run build</code>.</p>',
+          CONTENT_TYPES['.html'],
+        );
       }
       send(res, 200, rewriteTaskpane(html), CONTENT_TYPES['.html']);
     });

@@ -27,11 +27,14 @@ async function main() {
   try {
     ensureAddinBuilt();
   } catch (error) {
-    console.error(`The add-in build failed: ${error.message}. The preview will start, but its functions may be missing.`);
+    console.error(
+      `The add-in build failed: ${error.message}. The preview will start, but its functions may be missing.`,
+    );
   }
   ensurePreviewBuilt();
   const requested = process.env.PORT !== undefined ? Number(process.env.PORT) : 3100;
-  if (!Number.isInteger(requested) || requested < 0 || requested > 65535) throw new Error(`PORT must be a port number, got ${process.env.PORT}`);
+  if (!Number.isInteger(requested) || requested < 0 || requested > 65535)
+    throw new Error(`PORT must be a port number, got ${process.env.PORT}`);
   const server = await startPreviewServer({ port: requested });
   console.log(`Lift Ledger preview (invented demo data): ${server.url}`);
   console.log('Press Ctrl+C to stop');

@@ -19,10 +19,20 @@ module.exports = (env, argv) => ({
       {
         test: /\.ts$/,
         exclude: /node_modules/,
-        use: { loader: 'ts-loader', options: { transpileOnly: true, configFile: path.join(__dirname, '..', 'tsconfig.json') } },
+        use: {
+          loader: 'ts-loader',
+          options: { transpileOnly: true, configFile: path.join(__dirname, '..', 'tsconfig.json') },
+        },
       },
     ],
   },
   performance: { hints: false },
-  plugins: [new HtmlWebpackPlugin({ template: './src/index.html', filename: 'index.html', inject: 'body', scriptLoading: 'defer' })],
+  plugins: [
+    new HtmlWebpackPlugin({
+      template: './src/index.html',
+      filename: 'index.html',
+      inject: 'body',
+      scriptLoading: 'defer',
+    }),
+  ],
 });

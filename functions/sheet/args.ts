@@ -51,11 +51,16 @@ type AlignedArgs<E extends FunctionEntry> = {
     : unknown[] | undefined;
 };
 type ListArgs<E extends FunctionEntry> = {
-  readonly [P in OfKind<E, 'list'> as P['name']]: P extends { readonly optional: false } ? number[] : number[] | undefined;
+  readonly [P in OfKind<E, 'list'> as P['name']]: P extends { readonly optional: false }
+    ? number[]
+    : number[] | undefined;
 };
 type DaysArgs<E extends FunctionEntry> = [OfKind<E, 'days'>] extends [never]
   ? unknown
-  : { readonly days: DayTable; readonly dayColumns: { readonly [P in OfKind<E, 'days'> as P['name']]: readonly (readonly number[])[] } };
+  : {
+      readonly days: DayTable;
+      readonly dayColumns: { readonly [P in OfKind<E, 'days'> as P['name']]: readonly (readonly number[])[] };
+    };
 type PriorArgs<E extends FunctionEntry> = [OfKind<E, 'prior'>] extends [never]
   ? unknown
   : OfKind<E, 'prior'> extends { readonly prior: 'beta' }
@@ -127,7 +132,10 @@ export function readArgs<const E extends FunctionEntry>(fn: E, input: ArgInput<E
   }
   const dayParams = fn.params.filter((p) => p.kind === 'days');
   if (dayParams.length > 0) {
-    const found = readDays(dayParams, dayParams.map((p) => given[p.name]));
+    const found = readDays(
+      dayParams,
+      dayParams.map((p) => given[p.name]),
+    );
     out.days = found;
     out.dayColumns = found.columns;
   }
@@ -210,7 +218,12 @@ export function shapeResult(
   const spill = fn.spill;
   if (spill.kind === 'byDay') {
     if (days === undefined) throw new Error(`internal: ${fn.id} spills by day but reads no day tables`);
-    if (spill.per === 'day') return spillByDay(days, (values as readonly (number | null)[]).map((v) => [v]), 1);
+    if (spill.per === 'day')
+      return spillByDay(
+        days,
+        (values as readonly (number | null)[]).map((v) => [v]),
+        1,
+      );
     return spillByDay(days, values as readonly (readonly (number | null)[])[], days.width - 1);
   }
   if (spill.kind === 'one') {

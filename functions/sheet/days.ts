@@ -42,7 +42,9 @@ export function readList(param: ListParam, value: unknown): number[] | undefined
   const { name, rule, count } = param;
   if (value === null || value === undefined || (!Array.isArray(value) && classifyCell(value).kind === 'blank')) {
     if (param.optional) return undefined;
-    throw new ArgumentProblem(`${name}: is missing; enter a row or a column of ${count.min} to ${count.max} ${count.noun ?? 'values'}`);
+    throw new ArgumentProblem(
+      `${name}: is missing; enter a row or a column of ${count.min} to ${count.max} ${count.noun ?? 'values'}`,
+    );
   }
   const cells = readCellList(name, value).cells;
   const out: number[] = [];
@@ -61,12 +63,16 @@ export function readList(param: ListParam, value: unknown): number[] | undefined
   });
   if (out.length < count.min) {
     const noun = count.noun ?? 'values';
-    const needed = count.min === 1 ? `at least 1 ${noun.replace(/s$/, '')} is needed` : `at least ${count.min} ${noun} are needed`;
-    const given = out.length === 0 ? 'every cell is blank' : `only ${out.length} ${out.length === 1 ? 'was' : 'were'} given`;
+    const needed =
+      count.min === 1 ? `at least 1 ${noun.replace(/s$/, '')} is needed` : `at least ${count.min} ${noun} are needed`;
+    const given =
+      out.length === 0 ? 'every cell is blank' : `only ${out.length} ${out.length === 1 ? 'was' : 'were'} given`;
     throw new ArgumentProblem(`${name}: ${needed}; ${given}`);
   }
   if (out.length > count.max) {
-    throw new ArgumentProblem(`${name}: at most ${count.max} ${count.noun ?? 'values'} can be used; ${out.length} were given`);
+    throw new ArgumentProblem(
+      `${name}: at most ${count.max} ${count.noun ?? 'values'} can be used; ${out.length} were given`,
+    );
   }
   return out;
 }
@@ -143,7 +149,9 @@ export function readDays(params: readonly DaysParam[], ranges: readonly unknown[
       if (limits === undefined) continue;
       (day[p.name] as number[]).forEach((value, c) => {
         if (value > (limits[c] as number)) {
-          throw new ArgumentProblem(`${p.name}, row ${r + 1}, column ${c + 1}: ${value} is more than the ${limits[c]} ${limitName}`);
+          throw new ArgumentProblem(
+            `${p.name}, row ${r + 1}, column ${c + 1}: ${value} is more than the ${limits[c]} ${limitName}`,
+          );
         }
       });
     }
@@ -151,7 +159,9 @@ export function readDays(params: readonly DaysParam[], ranges: readonly unknown[
     for (const p of params) (columns[p.name] as number[][]).push(day[p.name] as number[]);
   }
   if (rows.length === 0) {
-    throw new ArgumentProblem(`${first.name}: every row is blank; give at least one day of ${describeAllowed(first.rule as NumberRule)}`);
+    throw new ArgumentProblem(
+      `${first.name}: every row is blank; give at least one day of ${describeAllowed(first.rule as NumberRule)}`,
+    );
   }
   return { height, width, rows, columns };
 }

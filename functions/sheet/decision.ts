@@ -128,6 +128,11 @@ export function amountDecisionCell(
   if (position === undefined || !Number.isFinite(found.loss) || !Number.isFinite(found.maxLoss)) {
     throw new Error(`internal: the decision rule returned variant ${found.index}`);
   }
-  const outcome = { choose: found.choose, label: labelOf(labels?.[found.index], position), loss: found.loss, maxLoss: found.maxLoss };
+  const outcome = {
+    choose: found.choose,
+    label: labelOf(labels?.[found.index], position),
+    loss: found.loss,
+    maxLoss: found.maxLoss,
+  };
   return decisionWords(outcome, `${formatAmount(found.loss)} ${unit}`, `${formatAmount(found.maxLoss)} ${unit}`);
 }

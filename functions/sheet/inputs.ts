@@ -160,9 +160,13 @@ const showNumber = (x: number): string => formatBound(Number(x.toPrecision(6)));
  * @example priorFromMeanInDomain({ alpha: 10, beta: 190 }, 0.05, 200) //=> { alpha: 10, beta: 190 }
  */
 export function priorFromMeanInDomain(prior: BetaPrior, meanRate: number, strength: number): BetaPrior {
-  for (const [part, value] of [['alpha', prior.alpha], ['beta', prior.beta]] as const) {
+  for (const [part, value] of [
+    ['alpha', prior.alpha],
+    ['beta', prior.beta],
+  ] as const) {
     if (value >= MIN_PRIOR && value <= MAX_PRIOR) continue;
-    const side = value < MIN_PRIOR ? `below ${MIN_PRIOR}, the weakest` : `above ${formatBound(MAX_PRIOR)}, the strongest`;
+    const side =
+      value < MIN_PRIOR ? `below ${MIN_PRIOR}, the weakest` : `above ${formatBound(MAX_PRIOR)}, the strongest`;
     throw new ArgumentProblem(
       `strength: ${strength} with mean_rate ${meanRate} makes the prior's ${part} ${showNumber(value)}, ${side} ` +
         `prior the other functions accept; ${value < MIN_PRIOR ? 'raise' : 'lower'} strength`,

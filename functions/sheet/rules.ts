@@ -115,7 +115,9 @@ export function checkNumber(rule: NumberRule, cell: unknown, where: string): num
         `${where}: "${c.text}" is text, not a number; enter ${allowed} (convert text with VALUE() if needed)`,
       );
     case 'logical':
-      throw new ArgumentProblem(`${where}: ${c.value ? 'TRUE' : 'FALSE'} is a logical value, not a number; enter ${allowed}`);
+      throw new ArgumentProblem(
+        `${where}: ${c.value ? 'TRUE' : 'FALSE'} is a logical value, not a number; enter ${allowed}`,
+      );
     case 'other':
       throw new ArgumentProblem(`${where}: ${c.description} is not a number; enter ${allowed}`);
     case 'number':
@@ -130,9 +132,9 @@ export function checkNumber(rule: NumberRule, cell: unknown, where: string): num
   const outside =
     !(rule.orZero && x === 0) &&
     ((rule.min !== undefined && x < rule.min) ||
-    (rule.max !== undefined && x > rule.max) ||
-    (rule.above !== undefined && !(x > rule.above)) ||
-    (rule.below !== undefined && !(x < rule.below)));
+      (rule.max !== undefined && x > rule.max) ||
+      (rule.above !== undefined && !(x > rule.above)) ||
+      (rule.below !== undefined && !(x < rule.below)));
   if (outside) throw new ArgumentProblem(`${where}: ${x} is not allowed; enter ${percentHint(rule, x) ?? allowed}`);
   return x;
 }
@@ -191,7 +193,8 @@ export function readChoice<T extends string>(rule: ChoiceRule<T>, value: unknown
   if (c.kind === 'blank') return rule.default;
   const list = rule.choices.map((choice) => `"${choice}"`).join(' or ');
   if (c.kind !== 'text') {
-    const shown = c.kind === 'number' ? String(c.value) : c.kind === 'logical' ? String(c.value).toUpperCase() : c.description;
+    const shown =
+      c.kind === 'number' ? String(c.value) : c.kind === 'logical' ? String(c.value).toUpperCase() : c.description;
     throw new ArgumentProblem(`${rule.name}: ${shown} is not allowed; enter ${list}`);
   }
   const word = c.text.trim().toLowerCase();
@@ -204,30 +207,56 @@ export function readChoice<T extends string>(rule: ChoiceRule<T>, value: unknown
 // The declared rules of the catalogue's arguments.
 
 /** `conversions`: whole number, 0 ≤ conversions ≤ visitors at the same position. */
-export const CONVERSIONS = { name: 'conversions', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
+export const CONVERSIONS = {
+  name: 'conversions',
+  kind: 'count',
+  min: 0,
+  atMost: 'visitors',
+} as const satisfies NumberRule;
 /** `visitors`: whole number ≥ 1. */
 export const VISITORS = { name: 'visitors', kind: 'count', min: 1 } as const satisfies NumberRule;
 /** `visitors` of SRM_PVALUE: whole number ≥ 0 (an arm that received nobody is the worst mismatch). */
 export const SRM_VISITORS = { name: 'visitors', kind: 'count', min: 0 } as const satisfies NumberRule;
 /** `planned_shares`: positive weights, from 1e-6 to 1e12 (so that their sum is a finite number). */
-export const PLANNED_SHARES = { name: 'planned_shares', kind: 'real', min: 1e-6, max: 1e12 } as const satisfies NumberRule;
+export const PLANNED_SHARES = {
+  name: 'planned_shares',
+  kind: 'real',
+  min: 1e-6,
+  max: 1e12,
+} as const satisfies NumberRule;
 /** `count` of the Normal model: whole number ≥ 2 (a standard deviation needs two values). */
 export const COUNT = { name: 'count', kind: 'count', min: 2 } as const satisfies NumberRule;
 /** `mean`: from −1e12 to 1e12 (stats/limits.ts MAX_MEAN_SIZE). */
-export const MEAN = { name: 'mean', kind: 'real', min: -MAX_MEAN_SIZE, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
+export const MEAN = {
+  name: 'mean',
+  kind: 'real',
+  min: -MAX_MEAN_SIZE,
+  max: MAX_MEAN_SIZE,
+} as const satisfies NumberRule;
 /** `sd`: 0 (every value equal), or from 1e-6 to 1e12 (stats/limits.ts MIN_SD, MAX_SD). */
 export const SD = { name: 'sd', kind: 'real', min: MIN_SD, max: MAX_SD, orZero: true } as const satisfies NumberRule;
 /** `events`: whole number ≥ 0. */
 export const EVENTS = { name: 'events', kind: 'count', min: 0 } as const satisfies NumberRule;
 /** `exposure`: from 1e-6 to 1e12 in the user's unit (stats/limits.ts MIN_EXPOSURE, MAX_EXPOSURE). */
-export const EXPOSURE = { name: 'exposure', kind: 'real', min: MIN_EXPOSURE, max: MAX_EXPOSURE } as const satisfies NumberRule;
+export const EXPOSURE = {
+  name: 'exposure',
+  kind: 'real',
+  min: MIN_EXPOSURE,
+  max: MAX_EXPOSURE,
+} as const satisfies NumberRule;
 
 /** `orders` of revenue per visitor: whole number, 0 ≤ orders ≤ visitors at the same position. */
 export const ORDERS = { name: 'orders', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
 /** `revenue`: a variant's total revenue, from 0 to 1e12 in the user's currency (stats/limits.ts MAX_MEAN_SIZE). */
 export const REVENUE = { name: 'revenue', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
 /** `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`). */
-export const ORDER_SD = { name: 'order_sd', kind: 'real', min: MIN_SD, max: MAX_SD, orZero: true } as const satisfies NumberRule;
+export const ORDER_SD = {
+  name: 'order_sd',
+  kind: 'real',
+  min: MIN_SD,
+  max: MAX_SD,
+  orZero: true,
+} as const satisfies NumberRule;
 
 /** Levels, thresholds and power: from 0.01 to 0.9999 (stats/limits.ts MIN_LEVEL, MAX_LEVEL). */
 const LEVEL_BOUNDS = { kind: 'real', min: MIN_LEVEL, max: MAX_LEVEL, fraction: 'rate' } as const;
@@ -245,19 +274,48 @@ export const PRIOR_BETA = { name: 'prior_beta', ...PRIOR_BOUNDS } as const satis
 /** `prior_shape`: 0.001 to 1e6, default 1. */
 export const PRIOR_SHAPE = { name: 'prior_shape', ...PRIOR_BOUNDS } as const satisfies NumberRule;
 /** `prior_rate`: 0 to 1e12 (a prior exposure, in the unit of `exposure`), default 0. */
-export const PRIOR_RATE = { name: 'prior_rate', kind: 'real', min: 0, max: MAX_PRIOR_RATE, default: 0 } as const satisfies NumberRule;
+export const PRIOR_RATE = {
+  name: 'prior_rate',
+  kind: 'real',
+  min: 0,
+  max: MAX_PRIOR_RATE,
+  default: 0,
+} as const satisfies NumberRule;
 /**
  * `min_lift`: a relative lift as a fraction, greater than −1 (a rate cannot fall below zero) and at most 1
  * (+100%). A larger value is almost always a percentage typed as a whole number (5 for 5%), which would
  * silently ask about a sixfold rate.
  */
-export const MIN_LIFT = { name: 'min_lift', kind: 'real', above: -1, max: 1, fraction: 'lift' } as const satisfies NumberRule;
+export const MIN_LIFT = {
+  name: 'min_lift',
+  kind: 'real',
+  above: -1,
+  max: 1,
+  fraction: 'lift',
+} as const satisfies NumberRule;
 /** `max_loss`: a rate ≥ 0; no default here (the core uses 1% of the control's posterior mean). */
-export const MAX_LOSS = { name: 'max_loss', kind: 'real', min: 0, below: 1, fraction: 'rate' } as const satisfies NumberRule;
+export const MAX_LOSS = {
+  name: 'max_loss',
+  kind: 'real',
+  min: 0,
+  below: 1,
+  fraction: 'rate',
+} as const satisfies NumberRule;
 /** `max_loss` of the decisions on averages, counts and revenue: 0 to 1e12 in the metric's own units; the core's default. */
-export const MAX_LOSS_AMOUNT = { name: 'max_loss', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
+export const MAX_LOSS_AMOUNT = {
+  name: 'max_loss',
+  kind: 'real',
+  min: 0,
+  max: MAX_MEAN_SIZE,
+} as const satisfies NumberRule;
 /** `points` of density tables: whole number MIN_POINTS…MAX_POINTS (2…1000, stats/limits.ts), default 101. */
-export const POINTS = { name: 'points', kind: 'count', min: MIN_POINTS, max: MAX_POINTS, default: 101 } as const satisfies NumberRule;
+export const POINTS = {
+  name: 'points',
+  kind: 'count',
+  min: MIN_POINTS,
+  max: MAX_POINTS,
+  default: 101,
+} as const satisfies NumberRule;
 /** A rate a user states about a prior or a plan: 1e-6 to 0.999999 (stats/limits.ts MIN_BASELINE, MAX_BASELINE). */
 const RATE_BOUNDS = { kind: 'real', min: MIN_BASELINE, max: MAX_BASELINE, fraction: 'rate' } as const;
 /** `mean_rate` of PRIOR_FROM_MEAN: 1e-6 to 0.999999. */
@@ -266,7 +324,12 @@ export const MEAN_RATE = { name: 'mean_rate', ...RATE_BOUNDS } as const satisfie
  * `strength` of PRIOR_FROM_MEAN: the prior's worth in visitors, from 0.002 to 2e6 (so that alpha and beta can
  * each lie within the prior bounds; the wrapper checks the pair it makes).
  */
-export const STRENGTH = { name: 'strength', kind: 'real', min: 2 * MIN_PRIOR, max: 2 * MAX_PRIOR } as const satisfies NumberRule;
+export const STRENGTH = {
+  name: 'strength',
+  kind: 'real',
+  min: 2 * MIN_PRIOR,
+  max: 2 * MAX_PRIOR,
+} as const satisfies NumberRule;
 /** `low` of PRIOR_FROM_INTERVAL: 1e-6 to 0.999999. */
 export const LOW = { name: 'low', ...RATE_BOUNDS } as const satisfies NumberRule;
 /** `high` of PRIOR_FROM_INTERVAL: 1e-6 to 0.999999. */
@@ -274,9 +337,19 @@ export const HIGH = { name: 'high', ...RATE_BOUNDS } as const satisfies NumberRu
 /** `baseline_rate`: 1e-6 to 0.999999. */
 export const BASELINE_RATE = { name: 'baseline_rate', ...RATE_BOUNDS } as const satisfies NumberRule;
 /** `lift` of the planners: a relative lift as a fraction, from −0.99 (−99%) to 1 (+100%). */
-export const LIFT = { name: 'lift', kind: 'real', min: MIN_PLAN_LIFT, max: 1, fraction: 'lift' } as const satisfies NumberRule;
+export const LIFT = {
+  name: 'lift',
+  kind: 'real',
+  min: MIN_PLAN_LIFT,
+  max: 1,
+  fraction: 'lift',
+} as const satisfies NumberRule;
 /** `visitors_per_variant`: whole number ≥ 1. */
-export const VISITORS_PER_VARIANT = { name: 'visitors_per_variant', kind: 'count', min: 1 } as const satisfies NumberRule;
+export const VISITORS_PER_VARIANT = {
+  name: 'visitors_per_variant',
+  kind: 'count',
+  min: 1,
+} as const satisfies NumberRule;
 /** `threshold` of the Bayesian planners: 0.01 to 0.9999, default 0.95. */
 export const THRESHOLD = { name: 'threshold', ...LEVEL_BOUNDS, default: 0.95 } as const satisfies NumberRule;
 /** `power`: 0.01 to 0.9999, default 0.8. */
@@ -297,7 +370,12 @@ export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 
 // the statistics core's declared domain (functions/stats/looks.ts, manyVariants.ts, detectableLift.ts, byDay.ts).
 
 /** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9. */
-export const LIFT_VISITORS = { name: 'visitors_per_variant', kind: 'count', min: 1, max: 1e9 } as const satisfies NumberRule;
+export const LIFT_VISITORS = {
+  name: 'visitors_per_variant',
+  kind: 'count',
+  min: 1,
+  max: 1e9,
+} as const satisfies NumberRule;
 /** `threshold` where a declaration needs P(beats control) above ½: in (0.5, 0.999999], default 0.95. */
 export const DECLARE_THRESHOLD = {
   name: 'threshold',
@@ -307,7 +385,12 @@ export const DECLARE_THRESHOLD = {
   default: 0.95,
 } as const satisfies NumberRule;
 /** `visitors_at_looks`: cumulative visitors per variant at each look, whole numbers 1 … 1e9, increasing. */
-export const VISITORS_AT_LOOKS = { name: 'visitors_at_looks', kind: 'count', min: 1, max: 1e9 } as const satisfies NumberRule;
+export const VISITORS_AT_LOOKS = {
+  name: 'visitors_at_looks',
+  kind: 'count',
+  min: 1,
+  max: 1e9,
+} as const satisfies NumberRule;
 /** `sides` of the look planners: 1 or 2, default 1 (only the challenger is declared). */
 export const LOOK_SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 1 } as const satisfies NumberRule;
 /** `false_alarm`: the overall chance of a false declaration, in [0.000001, 0.5], default 0.05. */

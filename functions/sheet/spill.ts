@@ -17,7 +17,7 @@ export type OutputCell = number | string;
 
 /** What a cell says when an exact answer exists but is larger than any number a cell holds. */
 export const BEYOND_CELL_MESSAGE =
-  'a result is larger than the largest number a cell holds (about 1.8E+308): under this prior a variant\'s ' +
+  "a result is larger than the largest number a cell holds (about 1.8E+308): under this prior a variant's " +
   'rate can be so close to 0 that a ratio to it has no usable bound; compare the variants by their ' +
   'difference, or use a prior with more weight';
 
@@ -69,7 +69,11 @@ export function spillBlock(table: VariantTable, values: readonly (readonly numbe
  * @example spillPerVariant(rowTable, [0.2, 0.8]) //=> [[0.2, 0.8]]
  */
 export function spillPerVariant(table: VariantTable, values: readonly number[]): OutputCell[][] {
-  return spillBlock(table, values.map((v) => [v]), 1);
+  return spillBlock(
+    table,
+    values.map((v) => [v]),
+    1,
+  );
 }
 
 /**
@@ -100,7 +104,11 @@ export function spillBlockVersusControl(
  * @example spillVersusControl(columnTable, [0.93]) //=> [[''], [0.93]]
  */
 export function spillVersusControl(table: VariantTable, values: readonly number[]): OutputCell[][] {
-  return spillBlockVersusControl(table, values.map((v) => [v]), 1);
+  return spillBlockVersusControl(
+    table,
+    values.map((v) => [v]),
+    1,
+  );
 }
 
 /**
@@ -158,7 +166,11 @@ export function medianRows(intervals: readonly IntervalWithMedian[]): number[][]
  * Cost O(points × variants).
  * @example spillDensity(table, { grid: [0, 1], densities: [[1, 1]] }, 'variant') //=> [[0, 1], [1, 1]]
  */
-export function spillDensity(table: VariantTable, density: DensityTable, per: 'variant' | 'challenger'): OutputCell[][] {
+export function spillDensity(
+  table: VariantTable,
+  density: DensityTable,
+  per: 'variant' | 'challenger',
+): OutputCell[][] {
   const positions = per === 'variant' ? table.positions : table.positions.slice(1);
   const columnsAt = per === 'variant' ? positions : positions.map((p) => p - 1);
   // the control is the first non-blank position, so every challenger sits after it: column p - 1

@@ -53,7 +53,11 @@ export interface VariantTable {
  * readVariants([CONVERSIONS, VISITORS], [[[12], [15]], [[100], [100]]], COMPARISON)
  * //=> { orientation: 'column', length: 2, positions: [0, 1], columns: { conversions: [12, 15], visitors: [100, 100] } }
  */
-export function readVariants(rules: readonly NumberRule[], ranges: readonly unknown[], count: VariantCount): VariantTable {
+export function readVariants(
+  rules: readonly NumberRule[],
+  ranges: readonly unknown[],
+  count: VariantCount,
+): VariantTable {
   const lists: CellList[] = rules.map((rule, i) => readCellList(rule.name, ranges[i]));
   const first = lists[0] as CellList;
   const firstRule = rules[0] as NumberRule;
@@ -117,8 +121,7 @@ export function readAlignedCells(
   if (range === null || range === undefined) return undefined;
   const list = readCellList(name, range);
   const expected = table.orientation === 'row' ? [1, table.length] : [table.length, 1];
-  const matches =
-    list.cells.length === table.length && (table.length === 1 || list.orientation === table.orientation);
+  const matches = list.cells.length === table.length && (table.length === 1 || list.orientation === table.orientation);
   if (!matches) {
     throw new ArgumentProblem(
       `${name} must have the same shape as ${tableName}: ${name} is ${describeShape(list.rows, list.columns)}, ` +
@@ -146,6 +149,8 @@ export function checkVariantCount(found: number, count: VariantCount): void {
     throw new ArgumentProblem(`${what}; ${given}`);
   }
   if (found > count.max) {
-    throw new ArgumentProblem(`at most ${count.max} ${noun} can be ${noun === 'variants' ? 'compared' : 'used'}; ${found} were given`);
+    throw new ArgumentProblem(
+      `at most ${count.max} ${noun} can be ${noun === 'variants' ? 'compared' : 'used'}; ${found} were given`,
+    );
   }
 }

@@ -107,9 +107,15 @@ export function closedFormLogProbGreater(
     ['aX', aX],
     ['bX', bX],
   ] as const) {
-    ensure(Number.isFinite(shape) && shape > 0, `the shape ${name} must be a finite number greater than 0, not ${shape}`);
+    ensure(
+      Number.isFinite(shape) && shape > 0,
+      `the shape ${name} must be a finite number greater than 0, not ${shape}`,
+    );
   }
-  ensure(Number.isInteger(maxTerms) && maxTerms >= 0, `the largest number of terms must be a whole number of at least 0, not ${maxTerms}`);
+  ensure(
+    Number.isInteger(maxTerms) && maxTerms >= 0,
+    `the largest number of terms must be a whole number of at least 0, not ${maxTerms}`,
+  );
   const direct: Arrangement[] = [];
   if (wholeWithin(aY, maxTerms)) direct.push({ terms: aY, shapes: [aY, bY, aX, bX] });
   if (wholeWithin(bX, maxTerms)) direct.push({ terms: bX, shapes: [bX, aX, bY, aY] });

@@ -86,7 +86,10 @@ export function brownianCrossing(
   ensure(upper.length === K && (lower === undefined || lower.length === K), 'one bound per look is needed');
   for (let k = 0; k < K; k++) {
     const t = times[k] as number;
-    ensure(Number.isFinite(t) && t > 0 && (k === 0 || t > (times[k - 1] as number)), 'the look times must be positive and increasing');
+    ensure(
+      Number.isFinite(t) && t > 0 && (k === 0 || t > (times[k - 1] as number)),
+      'the look times must be positive and increasing',
+    );
     const hi = upper[k] as number;
     const lo = lower === undefined ? -Infinity : (lower[k] as number);
     ensure(!Number.isNaN(hi) && !Number.isNaN(lo) && lo < hi, 'each look needs a lower bound below its upper bound');

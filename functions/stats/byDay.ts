@@ -26,7 +26,10 @@ const MAX_COUNT = 2 ** 53;
 
 function checkDays<T>(days: readonly (readonly T[])[], what: string): number {
   ensure(Array.isArray(days), `${what} must be a list of days`);
-  ensure(days.length >= 1 && days.length <= MAX_DAYS, `${what}: there must be 1 to ${MAX_DAYS} days, got ${days.length}`);
+  ensure(
+    days.length >= 1 && days.length <= MAX_DAYS,
+    `${what}: there must be 1 to ${MAX_DAYS} days, got ${days.length}`,
+  );
   const width = (days[0] as readonly T[]).length;
   ensure(width >= 2 && width <= MAX_VARIANTS, `${what}: each day needs 2 to ${MAX_VARIANTS} variants, got ${width}`);
   days.forEach((day, d) => {
@@ -60,7 +63,10 @@ export function probAboveControlByDay(
   tables: TableSource = NO_MEMO,
 ): (number | null)[][] {
   const width = checkDays(days, 'the daily counts');
-  ensure(days.length * (width - 1) <= MAX_DAY_CELLS, `the daily counts: at most ${MAX_DAY_CELLS} days × challengers, got ${days.length * (width - 1)}`);
+  ensure(
+    days.length * (width - 1) <= MAX_DAY_CELLS,
+    `the daily counts: at most ${MAX_DAY_CELLS} days × challengers, got ${days.length * (width - 1)}`,
+  );
   const conversions = new Array<number>(width).fill(0);
   const visitors = new Array<number>(width).fill(0);
   return days.map((day, d) => {
@@ -99,14 +105,20 @@ export function probAboveControlByDay(
  * the planned shares.
  * @example srmPValueByDay([[500, 520], [480, 530]]) //=> [0.5311…, 0.1202…] (X² = 0.392 and 2.414, df 1)
  */
-export function srmPValueByDay(visitorsByDay: readonly (readonly number[])[], plannedShares?: readonly number[]): (number | null)[] {
+export function srmPValueByDay(
+  visitorsByDay: readonly (readonly number[])[],
+  plannedShares?: readonly number[],
+): (number | null)[] {
   const width = checkDays(visitorsByDay, 'the daily visitors');
   const totals = new Array<number>(width).fill(0);
   return visitorsByDay.map((day, d) => {
     day.forEach((v, i) => {
       checkCount(v, `day ${d + 1}, variant ${i + 1}, visitors`);
       totals[i] = (totals[i] as number) + v;
-      ensure((totals[i] as number) <= MAX_COUNT, `day ${d + 1}, variant ${i + 1}: the running total of visitors exceeds 2^53`);
+      ensure(
+        (totals[i] as number) <= MAX_COUNT,
+        `day ${d + 1}, variant ${i + 1}: the running total of visitors exceeds 2^53`,
+      );
     });
     if (totals.every((t) => t === 0)) return null;
     return srmPValue(totals, plannedShares);

@@ -61,7 +61,8 @@ const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) 
 /** COSINES[k·M + j] = cos(k·θ_j): Chebyshev coefficients from values at the points. */
 const COSINES = (() => {
   const table = new Float64Array(POINTS * POINTS);
-  for (let k = 0; k < POINTS; k++) for (let j = 0; j < POINTS; j++) table[k * POINTS + j] = Math.cos(k * (ANGLES[j] as number));
+  for (let k = 0; k < POINTS; k++)
+    for (let j = 0; j < POINTS; j++) table[k * POINTS + j] = Math.cos(k * (ANGLES[j] as number));
   return table;
 })();
 
@@ -210,13 +211,17 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     let evaluationNoise = 0;
     for (let j = 0; j < POINTS; j++) {
       const v = exact.evaluate(mid + half * (CHEB_POINTS[j] as number));
-      if (!Number.isFinite(v.logDensity)) throw failure(`the log density is not finite at ${mid + half * (CHEB_POINTS[j] as number)}`);
+      if (!Number.isFinite(v.logDensity))
+        throw failure(`the log density is not finite at ${mid + half * (CHEB_POINTS[j] as number)}`);
       logDensity[j] = v.logDensity - top;
       slope[j] = v.slope;
       curvature[j] = v.curvature;
       nearest = Math.min(nearest, Math.abs(v.logDensity - top));
       deepest = Math.max(deepest, Math.abs(v.logDensity - top));
-      conditioning = Math.max(conditioning, Math.abs(v.slope) * Math.max(1, Math.abs(mid + half * (CHEB_POINTS[j] as number))));
+      conditioning = Math.max(
+        conditioning,
+        Math.abs(v.slope) * Math.max(1, Math.abs(mid + half * (CHEB_POINTS[j] as number))),
+      );
       evaluationNoise = Math.max(evaluationNoise, v.noise ?? 0);
     }
     // An error ε in the log density d below the peak moves probabilities by ~e^-d·ε, and tail
@@ -277,10 +282,20 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       const p = pieces[i] as Piece;
       return interpolate(p.logDensity, (2 * z - p.left - p.right) / (p.right - p.left));
     },
-    slope: (z: number): number => at(z, (p) => p.slope, (v) => v.slope),
+    slope: (z: number): number =>
+      at(
+        z,
+        (p) => p.slope,
+        (v) => v.slope,
+      ),
     curvature: (z: number): number => {
       let c: number;
-      if (logConcave) c = at(z, (p) => p.curvature, (v) => v.curvature);
+      if (logConcave)
+        c = at(
+          z,
+          (p) => p.curvature,
+          (v) => v.curvature,
+        );
       else {
         const i = pieceOf(z);
         c = i < 0 ? beyond(z).curvature : (bends[i] as number);
@@ -296,7 +311,10 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
   };
   const withJacobian =
     exact.logJacobianAtValue !== undefined
-      ? { ...density, logJacobianAtValue: (x: number): number => (exact.logJacobianAtValue as (x: number) => number)(x) }
+      ? {
+          ...density,
+          logJacobianAtValue: (x: number): number => (exact.logJacobianAtValue as (x: number) => number)(x),
+        }
       : density;
   return exact.exactMean !== undefined ? { ...withJacobian, exactMean: exact.exactMean } : withJacobian;
 }

@@ -36,7 +36,10 @@ function checkPrior(prior: BetaPrior): void {
     Number.isFinite(prior.alpha) && prior.alpha > 0,
     `the prior's alpha must be a number greater than 0, not ${prior.alpha}`,
   );
-  ensure(Number.isFinite(prior.beta) && prior.beta > 0, `the prior's beta must be a number greater than 0, not ${prior.beta}`);
+  ensure(
+    Number.isFinite(prior.beta) && prior.beta > 0,
+    `the prior's beta must be a number greater than 0, not ${prior.beta}`,
+  );
 }
 
 function checkCounts(variants: readonly ConversionCounts[], minimum: number, maximum: number): void {
@@ -59,7 +62,10 @@ function checkCounts(variants: readonly ConversionCounts[], minimum: number, max
       Number.isInteger(v.conversions) && v.conversions >= 0,
       `${where}: conversions must be a whole number of at least 0, not ${v.conversions}`,
     );
-    ensure(v.conversions <= v.visitors, `${where}: conversions (${v.conversions}) cannot exceed visitors (${v.visitors})`);
+    ensure(
+      v.conversions <= v.visitors,
+      `${where}: conversions (${v.conversions}) cannot exceed visitors (${v.visitors})`,
+    );
   });
 }
 
@@ -92,7 +98,11 @@ function betaTable(a: number, b: number, tables: TableSource): TabulatedDistribu
  * same counts share one TabulatedDistribution (a table is read-only apart from its deterministic lazy
  * parts, so sharing it changes no value), which compare/ also uses to integrate once per distinct one.
  */
-function posteriors(variants: readonly ConversionCounts[], prior: BetaPrior, tables: TableSource): TabulatedDistribution[] {
+function posteriors(
+  variants: readonly ConversionCounts[],
+  prior: BetaPrior,
+  tables: TableSource,
+): TabulatedDistribution[] {
   const seen = new Map<string, TabulatedDistribution>();
   return variants.map((v) => {
     const key = `${v.conversions}/${v.visitors}`;
@@ -201,7 +211,11 @@ function hdiOf(d: TabulatedDistribution, a: number, b: number, level: number): I
  * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
  */
-export function probHighest(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
+export function probHighest(
+  variants: readonly ConversionCounts[],
+  prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
+): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   return highestProbabilities(posteriors(variants, prior, tables));
@@ -220,7 +234,11 @@ export function probHighest(variants: readonly ConversionCounts[], prior: BetaPr
  * @example probAboveControl([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.80650154798761…] (521/646 = 0.8065015479876161)
  */
-export function probAboveControl(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
+export function probAboveControl(
+  variants: readonly ConversionCounts[],
+  prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
+): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   const [aC, bC] = shapes(variants[0] as ConversionCounts, prior);
@@ -335,7 +353,11 @@ export function probLiftAbove(
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form)
  */
-export function expectedLoss(variants: readonly ConversionCounts[], prior: BetaPrior = UNIFORM_PRIOR, tables: TableSource = NO_MEMO): number[] {
+export function expectedLoss(
+  variants: readonly ConversionCounts[],
+  prior: BetaPrior = UNIFORM_PRIOR,
+  tables: TableSource = NO_MEMO,
+): number[] {
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   return expectedLosses(posteriors(variants, prior, tables));
@@ -370,7 +392,10 @@ export function decide(
   checkPrior(prior);
   checkCounts(variants, 2, MAX_VARIANTS);
   if (maxLoss !== undefined) {
-    ensure(Number.isFinite(maxLoss) && maxLoss >= 0, `the largest acceptable loss must be a number of at least 0, not ${maxLoss}`);
+    ensure(
+      Number.isFinite(maxLoss) && maxLoss >= 0,
+      `the largest acceptable loss must be a number of at least 0, not ${maxLoss}`,
+    );
   }
   const threshold = maxLoss ?? 0.01 * (posteriorMean([variants[0] as ConversionCounts], prior)[0] as number);
   const losses = expectedLoss(variants, prior, tables);
@@ -431,7 +456,7 @@ export function liftChartRange(challenger: TabulatedDistribution, control: Tabul
   if (!(Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) {
     throw new StatsError(
       'not_available',
-      'the lift is spread too widely for a chart table (the prior is so weak that the control\'s rate could ' +
+      "the lift is spread too widely for a chart table (the prior is so weak that the control's rate could " +
         'be almost zero); use a stronger prior, such as 1 and 1',
     );
   }

@@ -46,7 +46,9 @@ export function lossThreshold(maxLoss: number | undefined, controlMean: number):
  */
 export function chooseByLoss(losses: readonly number[], maxLoss: number): LossDecision {
   ensure(losses.length > 0, 'at least one expected loss is needed');
-  losses.forEach((l, i) => ensure(l >= 0 && Number.isFinite(l), `the expected loss of variant ${i + 1} is not a number of at least 0: ${l}`));
+  losses.forEach((l, i) =>
+    ensure(l >= 0 && Number.isFinite(l), `the expected loss of variant ${i + 1} is not a number of at least 0: ${l}`),
+  );
   let index = 0;
   losses.forEach((l, i) => {
     if (l < (losses[index] as number)) index = i;

@@ -26,7 +26,12 @@ const MIN_LIFT_PRIOR = 1e-3;
 const MAX_LIFT_PRIOR = 1e7;
 
 /** The declaring boundary of one look: c[x_A − lo] = smallest x_B with P(B beats A) ≥ threshold (n + 1: none). */
-function declaringBoundary(n: number, window: BinomialWindow, threshold: number, prior: BetaPrior): Int32Array | Float64Array {
+function declaringBoundary(
+  n: number,
+  window: BinomialWindow,
+  threshold: number,
+  prior: BetaPrior,
+): Int32Array | Float64Array {
   const size = window.hi - window.lo + 1;
   const c = n + 1 <= 2 ** 31 - 1 ? new Int32Array(size) : new Float64Array(size);
   const cursor = new DecisionCursor(n, prior, window.lo);
@@ -107,7 +112,10 @@ export function smallestDetectableLift(
     typeof threshold === 'number' && threshold > 0.5 && threshold <= 0.999999,
     `the threshold must be above 0.5 and at most 0.999999, got ${String(threshold)}`,
   );
-  ensure(typeof power === 'number' && power > 0 && power < 1, `the power must be between 0 and 1 (exclusive), got ${String(power)}`);
+  ensure(
+    typeof power === 'number' && power > 0 && power < 1,
+    `the power must be between 0 and 1 (exclusive), got ${String(power)}`,
+  );
   const okPrior = (v: number): boolean => typeof v === 'number' && v >= MIN_LIFT_PRIOR && v <= MAX_LIFT_PRIOR;
   ensure(
     typeof prior === 'object' && prior !== null && okPrior(prior.alpha) && okPrior(prior.beta),

@@ -48,10 +48,7 @@ function posteriors(variants: readonly EventCounts[], prior: GammaPrior, minimum
       ? 'at least one variant is needed'
       : `at least ${minimum} variants are needed (the first is the control), got ${variants.length}`,
   );
-  ensure(
-    variants.length <= MAX_VARIANTS,
-    `at most ${MAX_VARIANTS} variants are allowed, got ${variants.length}`,
-  );
+  ensure(variants.length <= MAX_VARIANTS, `at most ${MAX_VARIANTS} variants are allowed, got ${variants.length}`);
   return variants.map((v, i) => {
     const item = i + 1;
     ensure(Number.isFinite(v.events), `events, item ${item}: ${v.events} is not a number`);
@@ -118,10 +115,7 @@ export function eventsRateInterval(
  * @example eventsProbHighest([{ events: 120, exposure: 1000 }, { events: 145, exposure: 1010 }], FLAT_GAMMA_PRIOR)
  * //=> [0.07320343562…, 0.92679656437…]
  */
-export function eventsProbHighest(
-  variants: readonly EventCounts[],
-  prior: GammaPrior = FLAT_GAMMA_PRIOR,
-): number[] {
+export function eventsProbHighest(variants: readonly EventCounts[], prior: GammaPrior = FLAT_GAMMA_PRIOR): number[] {
   const ps = posteriors(variants, prior, 2);
   const [a, b] = ps;
   if (ps.length === 2 && a !== undefined && b !== undefined) return [probGreater(a, b), probGreater(b, a)];
@@ -204,10 +198,7 @@ export function eventsLiftInterval(
  * @example eventsExpectedLoss([{ events: 120, exposure: 1000 }, { events: 145, exposure: 1010 }], FLAT_GAMMA_PRIOR)
  * //=> [0.0240855701596…, 0.000531114714063…]
  */
-export function eventsExpectedLoss(
-  variants: readonly EventCounts[],
-  prior: GammaPrior = FLAT_GAMMA_PRIOR,
-): number[] {
+export function eventsExpectedLoss(variants: readonly EventCounts[], prior: GammaPrior = FLAT_GAMMA_PRIOR): number[] {
   return expectedLosses(tabulateAll(posteriors(variants, prior, 2)));
 }
 

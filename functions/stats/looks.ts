@@ -25,7 +25,14 @@
 import { ensure, StatsError } from './errors';
 import { brownianCrossing } from './brownianCrossing';
 import { type BinomialWindow, binomialWindow, lookPower, upperTails } from './decisionLattice';
-import { type CrossingMemo, crossingMemo, exactCrossing, exactWork, type LookLattice, lookLattices } from './looksExact';
+import {
+  type CrossingMemo,
+  crossingMemo,
+  exactCrossing,
+  exactWork,
+  type LookLattice,
+  lookLattices,
+} from './looksExact';
 import { normalCdf, normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
 
@@ -110,11 +117,17 @@ export function checkLooks(visitorsAtLooks: readonly number[]): number[] {
     `there must be 1 to ${MAX_LOOKS} looks, got ${visitorsAtLooks.length}`,
   );
   visitorsAtLooks.forEach((n, i) => {
-    ensure(typeof n === 'number' && Number.isInteger(n), `look ${i + 1}: ${String(n)} is not a whole number of visitors`);
+    ensure(
+      typeof n === 'number' && Number.isInteger(n),
+      `look ${i + 1}: ${String(n)} is not a whole number of visitors`,
+    );
     ensure(n >= 1 && n <= MAX_LOOK_VISITORS, `look ${i + 1}: ${n} visitors is outside 1 to ${MAX_LOOK_VISITORS}`);
     if (i > 0) {
       const before = visitorsAtLooks[i - 1] as number;
-      ensure(n > before, `look ${i + 1}: ${n} visitors is not more than the ${before} of look ${i} (the counts are cumulative)`);
+      ensure(
+        n > before,
+        `look ${i + 1}: ${n} visitors is not more than the ${before} of look ${i} (the counts are cumulative)`,
+      );
     }
   });
   return [...visitorsAtLooks];
@@ -168,7 +181,15 @@ function makePlan(
   const work = exactWork(looks, pA, pB);
   const exactFits = work.perRun + SETUP_WEIGHT * work.setup <= exactBudget(looks.length);
   if (method === 'exact' || (method === 'auto' && exactFits)) {
-    return { looks, pA, pB, prior, method: 'exact', lattices: lookLattices(looks, pA, pB, prior), runCost: work.perRun };
+    return {
+      looks,
+      pA,
+      pB,
+      prior,
+      method: 'exact',
+      lattices: lookLattices(looks, pA, pB, prior),
+      runCost: work.perRun,
+    };
   }
   return normalPlan(looks, pA, pB, prior, what, walkBudget);
 }
@@ -233,13 +254,23 @@ function upperBound(p: number): number {
 }
 
 /** The normal method's crossing probability, given the chance of declaring at each look alone. */
-function calibratedCrossing(looks: readonly number[], marginals: readonly number[], sides: 1 | 2): { probability: number; byLook: number[] } {
+function calibratedCrossing(
+  looks: readonly number[],
+  marginals: readonly number[],
+  sides: 1 | 2,
+): { probability: number; byLook: number[] } {
   const upper = marginals.map(upperBound);
   const first = upper.findIndex((b) => b === -Infinity);
   if (first >= 0) {
     // A look that declares for certain: nothing after it matters.
-    const before = first === 0 ? { probability: 0, byLook: [] as number[] } : calibratedCrossing(looks.slice(0, first), marginals.slice(0, first), sides);
-    return { probability: 1, byLook: [...before.byLook, 1 - before.probability, ...looks.slice(first + 1).map(() => 0)] };
+    const before =
+      first === 0
+        ? { probability: 0, byLook: [] as number[] }
+        : calibratedCrossing(looks.slice(0, first), marginals.slice(0, first), sides);
+    return {
+      probability: 1,
+      byLook: [...before.byLook, 1 - before.probability, ...looks.slice(first + 1).map(() => 0)],
+    };
   }
   const lower = sides === 2 ? upper.map((b) => -b) : undefined;
   return brownianCrossing(looks, upper, lower);
@@ -313,7 +344,10 @@ export function powerWithLooks(
   prior: BetaPrior = UNIFORM_PRIOR,
 ): LooksResult {
   checkRate(baselineRate, 'the baseline rate');
-  ensure(typeof lift === 'number' && Number.isFinite(lift) && lift > -1, `the lift must be a number greater than -1, got ${String(lift)}`);
+  ensure(
+    typeof lift === 'number' && Number.isFinite(lift) && lift > -1,
+    `the lift must be a number greater than -1, got ${String(lift)}`,
+  );
   const challenger = baselineRate * (1 + lift);
   ensure(challenger > 0 && challenger < 1, `baseline rate × (1 + lift) must be between 0 and 1, got ${challenger}`);
   const looks = checkLooks(visitorsAtLooks);
@@ -387,7 +421,12 @@ const COARSE_GRID = 6;
 /** Normal-limit guess: the z with P(some |Z_k| ≥ z) (or Z_k ≥ z) = target for equal bounds. */
 function normalLimitGuess(looks: readonly number[], target: number, sides: 1 | 2): number {
   const rate = (z: number): number =>
-    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined, COARSE_GRID).probability;
+    brownianCrossing(
+      looks,
+      looks.map(() => z),
+      sides === 2 ? looks.map(() => -z) : undefined,
+      COARSE_GRID,
+    ).probability;
   // Secant on log(rate) against z, from the one-look value, kept in [U_MIN, 8].
   let z0 = -normalQuantile(target / sides);
   let f0 = Math.log(rate(z0) / target);
@@ -466,7 +505,10 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
   let step = Math.max(Math.abs(last.u - before.u), 1e-3);
   while (hi === Infinity || lo === -Infinity) {
     if (hi === Infinity && lo >= U_MAX) {
-      throw new StatsError('not_available', `even the threshold ${MAX_THRESHOLD} gives a false-alarm rate above ${alpha} with these looks`);
+      throw new StatsError(
+        'not_available',
+        `even the threshold ${MAX_THRESHOLD} gives a false-alarm rate above ${alpha} with these looks`,
+      );
     }
     if (lo === -Infinity && hi <= U_MIN) {
       // Any threshold above ½ keeps the rate at or below alpha.
@@ -540,7 +582,12 @@ function clampU(u: number, from: number): number {
 /** d(rate)/du of the normal limit with equal bounds u at every look (negative). */
 function normalLimitSlope(looks: readonly number[], u: number, sides: 1 | 2): number {
   const rate = (z: number): number =>
-    brownianCrossing(looks, looks.map(() => z), sides === 2 ? looks.map(() => -z) : undefined, COARSE_GRID).probability;
+    brownianCrossing(
+      looks,
+      looks.map(() => z),
+      sides === 2 ? looks.map(() => -z) : undefined,
+      COARSE_GRID,
+    ).probability;
   const d = 1e-3;
   return (rate(u + d) - rate(u - d)) / (2 * d);
 }

@@ -190,12 +190,17 @@ export function exactCrossing(
   }
   let start = 0;
   if (memo !== undefined && memo.sides === sides) {
-    while (start < lattices.length && sameColumns(memo.cuts[start], cuts[start] as Int32Array) && sameColumns(memo.lows[start], lows[start] as Int32Array)) {
+    while (
+      start < lattices.length &&
+      sameColumns(memo.cuts[start], cuts[start] as Int32Array) &&
+      sameColumns(memo.lows[start], lows[start] as Int32Array)
+    ) {
       start++;
     }
   }
   const byLook: number[] = memo !== undefined && start > 0 ? memo.byLook.slice(0, start) : [];
-  let state: Float64Array = start > 0 ? ((memo as CrossingMemo).states[start - 1] as Float64Array) : new Float64Array(0);
+  let state: Float64Array =
+    start > 0 ? ((memo as CrossingMemo).states[start - 1] as Float64Array) : new Float64Array(0);
   let first: Int32Array = start > 0 ? ((memo as CrossingMemo).firsts[start - 1] as Int32Array) : new Int32Array(0);
   let last: Int32Array = start > 0 ? ((memo as CrossingMemo).lasts[start - 1] as Int32Array) : new Int32Array(0);
   for (let k = start; k < lattices.length; k++) {
@@ -259,7 +264,13 @@ export function exactCrossing(
 const NEGLIGIBLE_STATE = 1e-20;
 
 /** Moves the undeclared mass of look `from` to look `to`: convolution along x_B, then along x_A. */
-function propagate(state: Float64Array, first: Int32Array, last: Int32Array, from: LookLattice, to: LookLattice): Float64Array {
+function propagate(
+  state: Float64Array,
+  first: Int32Array,
+  last: Int32Array,
+  from: LookLattice,
+  to: LookLattice,
+): Float64Array {
   const stepA = to.stepA as BinomialWindow;
   const stepB = to.stepB as BinomialWindow;
   const rowsFrom = from.windowA.hi - from.windowA.lo + 1;
@@ -285,7 +296,8 @@ function propagate(state: Float64Array, first: Int32Array, last: Int32Array, fro
       const m0 = Math.max(0, -base);
       const m1 = Math.min(lenB - 1, widthTo - 1 - base);
       if (m0 > m1) continue;
-      for (let m = m0; m <= m1; m++) middle[dst + base + m] = (middle[dst + base + m] as number) + v * (kB[m] as number);
+      for (let m = m0; m <= m1; m++)
+        middle[dst + base + m] = (middle[dst + base + m] as number) + v * (kB[m] as number);
       if (base + m0 < (rowFirst[i] as number)) rowFirst[i] = base + m0;
       if (base + m1 > (rowLast[i] as number)) rowLast[i] = base + m1;
     }

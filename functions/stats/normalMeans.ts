@@ -117,7 +117,8 @@ function sharedTDensity(p: MeanPosterior, centre: number, scale: number): Workin
     const aw = Math.abs(w);
     if (aw > FAR_W) return -(n1 / 2) * (2 * (logB + aw - Math.LN2) - logNu) + aw - Math.LN2;
     const t = a + b * Math.sinh(w);
-    const q = Math.abs(t) > 1e100 ? 2 * Math.log(Math.abs(t)) - logNu + Math.log1p(nu / t / t) : Math.log1p((t * t) / nu);
+    const q =
+      Math.abs(t) > 1e100 ? 2 * Math.log(Math.abs(t)) - logNu + Math.log1p(nu / t / t) : Math.log1p((t * t) / nu);
     return -(n1 / 2) * q + logCosh(w);
   };
   const slope = (w: number): number => {
@@ -503,7 +504,9 @@ function pointOverControlAbove(c: number, control: MeanPosterior, k: number, bel
   // c > 0: c/X > k exactly when 0 < X < c/k; c < 0: when c/k < X < 0.
   if (c > 0) {
     const below = cdfAt(control, x);
-    return below <= 0.5 ? below - belowZero : 1 - belowZero - studentTCdf((control.centre - x) / control.scale, control.df);
+    return below <= 0.5
+      ? below - belowZero
+      : 1 - belowZero - studentTCdf((control.centre - x) / control.scale, control.df);
   }
   return belowZero - cdfAt(control, x);
 }

@@ -91,19 +91,14 @@ export function logSumExp(values: ArrayLike<number>): number {
  * Throws StatsError('not_available') when the ends do not bracket a root.
  * @example findRoot((x) => x * x - 2, 0, 2) //=> 1.4142135623730951
  */
-export function findRoot(
-  f: (x: number) => number,
-  lo: number,
-  hi: number,
-  tolerance = 0,
-): number {
+export function findRoot(f: (x: number) => number, lo: number, hi: number, tolerance = 0): number {
   let a = lo;
   let b = hi;
   let fa = f(a);
   let fb = f(b);
   if (fa === 0) return a;
   if (fb === 0) return b;
-  if ((fa > 0) === (fb > 0) || Number.isNaN(fa) || Number.isNaN(fb)) {
+  if (fa > 0 === fb > 0 || Number.isNaN(fa) || Number.isNaN(fb)) {
     throw new StatsError('not_available', `no root between ${lo} and ${hi}`);
   }
   let c = a;
@@ -111,7 +106,7 @@ export function findRoot(
   let d = b - a;
   let e = d;
   for (let iteration = 0; iteration < 300; iteration++) {
-    if ((fb > 0) === (fc > 0)) {
+    if (fb > 0 === fc > 0) {
       c = a;
       fc = fa;
       d = b - a;
@@ -170,12 +165,7 @@ export function findRoot(
  * Cost: typically 3–6 evaluations of f and slope; at most 100 steps.
  * @example solveIncreasing((x) => x * x - 2, (x) => 2 * x, 0, 2) //=> 1.4142135623730951
  */
-export function solveIncreasing(
-  f: (z: number) => number,
-  slope: (z: number) => number,
-  a: number,
-  b: number,
-): number {
+export function solveIncreasing(f: (z: number) => number, slope: (z: number) => number, a: number, b: number): number {
   let lo = a;
   let hi = b;
   let flo = f(lo);

@@ -36,10 +36,7 @@ function challengerRate(baselineRate: number, lift: number): number {
   ensure(lift > -1, `the lift must be greater than -1 (a rate cannot fall below 0), got ${lift}`);
   const rate = baselineRate * (1 + lift);
   ensure(rate > 0, `the lift must be greater than -1 (a rate cannot fall below 0), got ${lift}`);
-  ensure(
-    rate < 1,
-    `baseline rate × (1 + lift) must be below 1, got ${rate} (baseline ${baselineRate}, lift ${lift})`,
-  );
+  ensure(rate < 1, `baseline rate × (1 + lift) must be below 1, got ${rate} (baseline ${baselineRate}, lift ${lift})`);
   return rate;
 }
 
@@ -48,7 +45,10 @@ function checkPrior(prior: BetaPrior): void {
     typeof prior === 'object' && prior !== null && Number.isFinite(prior.alpha) && Number.isFinite(prior.beta),
     'the prior must have finite alpha and beta',
   );
-  ensure(prior.alpha > 0 && prior.beta > 0, `the prior's alpha and beta must both be greater than 0, got ${prior.alpha} and ${prior.beta}`);
+  ensure(
+    prior.alpha > 0 && prior.beta > 0,
+    `the prior's alpha and beta must both be greater than 0, got ${prior.alpha} and ${prior.beta}`,
+  );
 }
 
 /**
@@ -81,8 +81,7 @@ export function classicSampleSizeExact(
   const pooled = (p1 + p2) / 2;
   const zAlpha = -normalQuantile(alpha / sides);
   const zPower = normalQuantile(power);
-  const numerator =
-    zAlpha * Math.sqrt(2 * pooled * (1 - pooled)) + zPower * Math.sqrt(p1 * (1 - p1) + p2 * (1 - p2));
+  const numerator = zAlpha * Math.sqrt(2 * pooled * (1 - pooled)) + zPower * Math.sqrt(p1 * (1 - p1) + p2 * (1 - p2));
   ensure(numerator > 0, `the power (${power}) must be above the false-alarm rate alpha/sides (${alpha / sides})`);
   const difference = p2 - p1;
   return (numerator * numerator) / (difference * difference);
@@ -105,7 +104,10 @@ export function classicSampleSize(
 ): number {
   const n = Math.ceil(classicSampleSizeExact(baselineRate, lift, alpha, power, sides));
   if (!(n <= 2 ** 53)) {
-    throw new StatsError('not_available', 'the classic sample size is beyond 2^53 visitors: the lift is too small to detect');
+    throw new StatsError(
+      'not_available',
+      'the classic sample size is beyond 2^53 visitors: the lift is too small to detect',
+    );
   }
   return n;
 }
@@ -196,8 +198,7 @@ function approximateProbAbove(a: LogitCumulants, b: LogitCumulants): number {
   const g1 = k3 / (k2 * sd);
   const g2 = k4 / (k2 * k2);
   const z2 = z * z;
-  const correction =
-    (g1 / 6) * (z2 - 1) + (g2 / 24) * z * (z2 - 3) + ((g1 * g1) / 72) * z * (z2 * z2 - 10 * z2 + 15);
+  const correction = (g1 / 6) * (z2 - 1) + (g2 / 24) * z * (z2 - 3) + ((g1 * g1) / 72) * z * (z2 * z2 - 10 * z2 + 15);
   return normalCdf(-z) + Math.exp(-0.5 * z2) * INV_SQRT_2PI * correction;
 }
 
@@ -467,7 +468,8 @@ export function visitorsNeeded(
   try {
     guess = classicSampleSizeExact(baselineRate, lift, 1 - threshold, power, 1);
   } catch (error) {
-    if (error instanceof StatsError && error.code === 'invalid_argument') guess = 1; // power below the false-alarm rate
+    if (error instanceof StatsError && error.code === 'invalid_argument')
+      guess = 1; // power below the false-alarm rate
     else throw error;
   }
   if (!(guess <= MAX_PLANNED_VISITORS * 4)) throw tooMany();

@@ -107,7 +107,10 @@ export function priorFromInterval(low: number, high: number, level = 0.9): BetaP
     // The mirror image 1 − X ~ Beta(b, a) gives the same tail if the direct one fails to evaluate.
     if (!Number.isFinite(above)) above = betaCdf(1 - high, b, a);
     if (!Number.isFinite(above)) {
-      throw new StatsError('not_available', `the Beta tail above ${high} could not be evaluated for a prior worth ${s} visitors`);
+      throw new StatsError(
+        'not_available',
+        `the Beta tail above ${high} could not be evaluated for a prior worth ${s} visitors`,
+      );
     }
     return above - tail;
   };
@@ -116,7 +119,10 @@ export function priorFromInterval(low: number, high: number, level = 0.9): BetaP
   const mid = (low + high) / 2;
   const halfWidth = (high - low) / 2;
   const z = Math.abs(logit(tail)) * 0.6; // close enough to Φ⁻¹(1 − t) for a starting guess
-  const guess = Math.min(Math.max((mid * (1 - mid) * z * z) / (halfWidth * halfWidth) - 1, 1), MAX_INTERVAL_STRENGTH / 10);
+  const guess = Math.min(
+    Math.max((mid * (1 - mid) * z * z) / (halfWidth * halfWidth) - 1, 1),
+    MAX_INTERVAL_STRENGTH / 10,
+  );
   const minLog = Math.log(MIN_INTERVAL_STRENGTH);
   const maxLog = Math.log(MAX_INTERVAL_STRENGTH);
   let lo = Math.log(guess) - 1;
@@ -163,7 +169,14 @@ const ALL_OR_NOTHING =
 
 /** B_2j / (2j) for j = 1 … 8: the coefficients of the asymptotic series of ψ (Abramowitz & Stegun 6.3.18). */
 const DIGAMMA_SERIES: readonly number[] = Object.freeze([
-  1 / 12, -1 / 120, 1 / 252, -1 / 240, 1 / 132, -691 / 32760, 1 / 12, -3617 / 8160,
+  1 / 12,
+  -1 / 120,
+  1 / 252,
+  -1 / 240,
+  1 / 132,
+  -691 / 32760,
+  1 / 12,
+  -3617 / 8160,
 ]);
 
 /** ψ(a + k) − ψ(a) for a > 0 and a whole k ≥ 0, without the cancellation of the two digammas at large a. */

@@ -100,7 +100,6 @@ export function rateTable(a: number, b: number, leftFloor: number): TabulatedDis
   });
 }
 
-
 /**
  * Revenue per visitor with exponential order values, evaluated exactly in ω = log R.
  *
@@ -266,7 +265,10 @@ class ExponentialRevenue implements ExactDensity {
  */
 export function exponentialRevenueDensity(orders: number, visitors: number, revenue: number): WorkingDensity {
   ensure(Number.isInteger(orders) && orders >= 1, `orders must be a whole number of at least 1, not ${orders}`);
-  ensure(Number.isInteger(visitors) && visitors >= orders, `visitors must be a whole number of at least orders, not ${visitors}`);
+  ensure(
+    Number.isInteger(visitors) && visitors >= orders,
+    `visitors must be a whole number of at least orders, not ${visitors}`,
+  );
   ensure(Number.isFinite(revenue) && revenue > 0, `revenue must be a finite number above 0, not ${revenue}`);
   return chebyshevDensity(new ExponentialRevenue(orders, visitors, revenue));
 }

@@ -70,7 +70,10 @@ function checkTotals(variants: readonly RevenueTotals[], minimum: number): boole
     const item = i + 1;
     ensure(Number.isFinite(v.visitors), `visitors, item ${item}: ${v.visitors} is not a number`);
     ensure(Number.isInteger(v.visitors), `visitors, item ${item}: ${v.visitors} is not a whole number`);
-    ensure(v.visitors >= 1, `visitors, item ${item}: ${v.visitors} is below 1; every variant needs at least one visitor`);
+    ensure(
+      v.visitors >= 1,
+      `visitors, item ${item}: ${v.visitors} is below 1; every variant needs at least one visitor`,
+    );
     ensure(v.visitors <= MAX_COUNT, `visitors, item ${item}: ${v.visitors} is above the largest count allowed, 2^53`);
     ensure(Number.isFinite(v.orders), `orders, item ${item}: ${v.orders} is not a number`);
     ensure(Number.isInteger(v.orders), `orders, item ${item}: ${v.orders} is not a whole number`);
@@ -141,7 +144,9 @@ function negativeMass(v: RevenueTotals): number {
 
 /** The frame every order_sd variant of one call is tabulated in (see LOG_FRAME_MASS and sinhFrame). */
 function frameFor(variants: readonly RevenueTotals[]): RevenueFrame {
-  const models = variants.filter((v) => (v.orderSd ?? 0) > 0).map((v) => studentModel(v.orders, v.visitors, v.revenue, v.orderSd as number));
+  const models = variants
+    .filter((v) => (v.orderSd ?? 0) > 0)
+    .map((v) => studentModel(v.orders, v.visitors, v.revenue, v.orderSd as number));
   if (models.every((m) => studentTCdf(-m.m / m.s, m.nu) < LOG_FRAME_MASS)) return logFrame();
   // One stretched sinh for all (so compare.ts reads every table in one coordinate): centred in the middle
   // of the means, as wide as twice the widest posterior (or a quarter of the means' range), stretched by
@@ -180,7 +185,9 @@ function posteriorOf(v: RevenueTotals, frame: RevenueFrame, tables: TableSource)
     );
   }
   return tables.table(`revenue-sd:${orders}:${visitors}:${revenue}:${orderSd}:${frame.coordinate}`, () =>
-    tabulate(studentRevenueDensity(studentModel(orders, visitors, revenue, orderSd), frame), { coordinate: frame.coordinate }),
+    tabulate(studentRevenueDensity(studentModel(orders, visitors, revenue, orderSd), frame), {
+      coordinate: frame.coordinate,
+    }),
   );
 }
 
@@ -234,7 +241,11 @@ export function revenueMean(variants: readonly RevenueTotals[]): number[] {
  * variant has no posterior. 1 to 50 variants.
  * @example revenueInterval([{ orders: 40, visitors: 1000, revenue: 2000 }], 0.95) // [{ lower: 1.44…, upper: 2.89… }]
  */
-export function revenueInterval(variants: readonly RevenueTotals[], level = 0.95, tables: TableSource = NO_MEMO): Interval[] {
+export function revenueInterval(
+  variants: readonly RevenueTotals[],
+  level = 0.95,
+  tables: TableSource = NO_MEMO,
+): Interval[] {
   checkLevel(level);
   const tail = (1 - level) / 2;
   return posteriors(variants, 1, tables).map((d) => ({ lower: d.quantile(tail), upper: d.quantileUpper(tail) }));
@@ -273,7 +284,11 @@ interface LiftControl {
   readonly whole: TabulatedDistribution;
 }
 
-function liftControl(variants: readonly RevenueTotals[], ds: readonly TabulatedDistribution[], tables: TableSource): LiftControl {
+function liftControl(
+  variants: readonly RevenueTotals[],
+  ds: readonly TabulatedDistribution[],
+  tables: TableSource,
+): LiftControl {
   const control = variants[0] as RevenueTotals;
   const whole = ds[0] as TabulatedDistribution;
   const negative = negativeMass(control);
@@ -406,7 +421,11 @@ function liftQuantile(y: TabulatedDistribution, c: LiftControl, p: number, guess
  * Throws as revenueLiftInterval, and StatsError('invalid_argument') for minLift ≤ −1 or not finite.
  * @example revenueProbLiftAbove([{ orders: 40, visitors: 1000, revenue: 2000 }, { orders: 52, visitors: 1000, revenue: 2500 }], -0.02) // [0.93…]
  */
-export function revenueProbLiftAbove(variants: readonly RevenueTotals[], minLift: number, tables: TableSource = NO_MEMO): number[] {
+export function revenueProbLiftAbove(
+  variants: readonly RevenueTotals[],
+  minLift: number,
+  tables: TableSource = NO_MEMO,
+): number[] {
   ensure(
     Number.isFinite(minLift) && minLift > -1,
     `min_lift: ${minLift} is not allowed; the minimum lift is a number greater than -1 (-0.02 asks "no worse than 2% below")`,
@@ -462,7 +481,11 @@ export function revenueExpectedLoss(variants: readonly RevenueTotals[], tables: 
  * maxLoss below 0.
  * @example revenueDecide([{ orders: 400, visitors: 10000, revenue: 20000 }, { orders: 520, visitors: 10000, revenue: 26000 }], undefined) // { choose: true, index: 1, … }
  */
-export function revenueDecide(variants: readonly RevenueTotals[], maxLoss: number | undefined, tables: TableSource = NO_MEMO): LossDecision {
+export function revenueDecide(
+  variants: readonly RevenueTotals[],
+  maxLoss: number | undefined,
+  tables: TableSource = NO_MEMO,
+): LossDecision {
   const losses = revenueExpectedLoss(variants, tables);
   const threshold = lossThreshold(maxLoss, revenueMean([variants[0] as RevenueTotals])[0] as number);
   return chooseByLoss(losses, threshold);

@@ -63,7 +63,10 @@ export function logFrame(): RevenueFrame {
  * @example sinhFrame(2, 0.5, 3).toValue(0) //=> 2
  */
 export function sinhFrame(C: number, S: number, K: number): RevenueFrame {
-  ensure(Number.isFinite(C) && Number.isFinite(S) && S > 0 && Number.isFinite(K) && K > 0, 'a revenue frame needs a finite centre and positive scales');
+  ensure(
+    Number.isFinite(C) && Number.isFinite(S) && S > 0 && Number.isFinite(K) && K > 0,
+    'a revenue frame needs a finite centre and positive scales',
+  );
   return {
     coordinate: `revenue-sinh:${C}:${S}:${K}`,
     valueRange: [-Infinity, Infinity] as const,
@@ -219,7 +222,11 @@ class StudentOverRate {
     const v = base + this.logFactor(tau);
     const nu = this.model.nu;
     const d = nu + tau * tau;
-    this.sum.add(v, (-2 * this.half * tau * inverse) / d, (-2 * this.half * (nu - tau * tau) * inverse * inverse) / (d * d));
+    this.sum.add(
+      v,
+      (-2 * this.half * tau * inverse) / d,
+      (-2 * this.half * (nu - tau * tau) * inverse * inverse) / (d * d),
+    );
   }
 
   /** The step in τ allowed from a point whose |τ| is t (see the class comment). */
@@ -251,12 +258,12 @@ class StudentOverRate {
     // Walk outwards from the point of [lo, hi] nearest τ = 0.
     const start = Math.min(Math.max(0, lo), hi);
     const taus: number[] = [start];
-    for (let t = start; t < hi; ) {
+    for (let t = start; t < hi;) {
       t = Math.min(hi, t + this.step(Math.abs(t)));
       taus.push(t);
       if (taus.length > MAX_PARTS) return false;
     }
-    for (let t = start; t > lo; ) {
+    for (let t = start; t > lo;) {
       t = Math.max(lo, t - this.step(Math.abs(t)));
       taus.unshift(t);
       if (taus.length > MAX_PARTS) return false;
@@ -419,7 +426,10 @@ class StudentRevenue implements ExactDensity {
  */
 export function studentModel(orders: number, visitors: number, revenue: number, orderSd: number): StudentModel {
   ensure(Number.isInteger(orders) && orders >= 2, `orders must be a whole number of at least 2, not ${orders}`);
-  ensure(Number.isInteger(visitors) && visitors >= orders, `visitors must be a whole number of at least orders, not ${visitors}`);
+  ensure(
+    Number.isInteger(visitors) && visitors >= orders,
+    `visitors must be a whole number of at least orders, not ${visitors}`,
+  );
   ensure(Number.isFinite(revenue), `revenue must be a finite number, not ${revenue}`);
   ensure(Number.isFinite(orderSd) && orderSd > 0, `order_sd must be a finite number above 0, not ${orderSd}`);
   const a = 1 + orders;

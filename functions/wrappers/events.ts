@@ -199,6 +199,11 @@ export function eventsDecision(
   prior_rate?: number,
 ): string {
   return runFunction(CATALOGUE.EVENTS_DECISION, { events, exposure, max_loss, labels, prior_shape, prior_rate }, (a) =>
-    amountDecisionCell(a.table, a.labels, eventRates.eventsDecide(a.variants, a.max_loss, a.prior), 'events per unit of exposure'),
+    amountDecisionCell(
+      a.table,
+      a.labels,
+      eventRates.eventsDecide(a.variants, a.max_loss, a.prior),
+      'events per unit of exposure',
+    ),
   );
 }

@@ -43,7 +43,13 @@ function totals(
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large (give order_sd, from STDEV.S of the order values, if you have it).
  * @caution No currency is assumed: the results are in the currency of revenue, per visitor.
  */
-export function revenueInterval(orders: any[][], visitors: any[][], revenue: any[][], order_sd?: any[][], level?: number): any[][] {
+export function revenueInterval(
+  orders: any[][],
+  visitors: any[][],
+  revenue: any[][],
+  order_sd?: any[][],
+  level?: number,
+): any[][] {
   return runFunction(CATALOGUE.REVENUE_INTERVAL, { orders, visitors, revenue, order_sd, level }, (a) =>
     intervalRows(revenuePerVisitor.revenueInterval(totals(a.variants, a.order_sd), a.level, POSTERIOR_TABLES)),
   );
@@ -85,7 +91,12 @@ export function revenueProbHighest(orders: any[][], visitors: any[][], revenue: 
  * @caution Stopping the first time this passes 95% (peeking) makes false wins more likely; check the traffic split with SRM_PVALUE.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
  */
-export function revenueProbAboveControl(orders: any[][], visitors: any[][], revenue: any[][], order_sd?: any[][]): any[][] {
+export function revenueProbAboveControl(
+  orders: any[][],
+  visitors: any[][],
+  revenue: any[][],
+  order_sd?: any[][],
+): any[][] {
   return runFunction(CATALOGUE.REVENUE_PROB_ABOVE_CONTROL, { orders, visitors, revenue, order_sd }, (a) =>
     revenuePerVisitor.revenueProbAboveControl(totals(a.variants, a.order_sd), POSTERIOR_TABLES),
   );
@@ -107,7 +118,13 @@ export function revenueProbAboveControl(orders: any[][], visitors: any[][], reve
  * @caution A wide interval means the data cannot yet tell; a few large orders can swing revenue more than conversions.
  * @caution Without order_sd, order values are taken as exponential: that understates the spread when a few orders are very large.
  */
-export function revenueLiftInterval(orders: any[][], visitors: any[][], revenue: any[][], order_sd?: any[][], level?: number): any[][] {
+export function revenueLiftInterval(
+  orders: any[][],
+  visitors: any[][],
+  revenue: any[][],
+  order_sd?: any[][],
+  level?: number,
+): any[][] {
   return runFunction(CATALOGUE.REVENUE_LIFT_INTERVAL, { orders, visitors, revenue, order_sd, level }, (a) =>
     medianRows(revenuePerVisitor.revenueLiftInterval(totals(a.variants, a.order_sd), a.level, POSTERIOR_TABLES)),
   );

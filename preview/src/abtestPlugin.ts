@@ -92,7 +92,9 @@ function toArgument(value: unknown): CellArgument | CellError {
 function fromResult(value: unknown): number | string | boolean | CellError {
   if (isCustomFunctionsError(value)) return toCellError(value);
   if (typeof value === 'number') {
-    return Number.isFinite(value) ? value : new CellError(ErrorType.NUM, `the function returned ${value}, which is a defect`);
+    return Number.isFinite(value)
+      ? value
+      : new CellError(ErrorType.NUM, `the function returned ${value}, which is a defect`);
   }
   if (typeof value === 'string' || typeof value === 'boolean') return value;
   if (value === null || value === undefined) return '';
@@ -187,7 +189,10 @@ export function buildAbtestPlugin(
     names.push(name);
   }
   (AbtestPlugin as unknown as { implementedFunctions: unknown }).implementedFunctions = implemented;
-  const translations = { enGB: Object.fromEntries(names.map((n) => [n, n])), enUS: Object.fromEntries(names.map((n) => [n, n])) };
+  const translations = {
+    enGB: Object.fromEntries(names.map((n) => [n, n])),
+    enUS: Object.fromEntries(names.map((n) => [n, n])),
+  };
   return { plugin: AbtestPlugin, translations, names };
 }
 
@@ -243,7 +248,9 @@ function callFunction(
     const single = Array.isArray(result) ? (result as unknown[][])[0]?.[0] : result;
     return fromResult(single);
   }
-  const matrix = Array.isArray(result) ? (result as unknown[]).map((row) => (Array.isArray(row) ? row : [row])) : [[result]];
+  const matrix = Array.isArray(result)
+    ? (result as unknown[]).map((row) => (Array.isArray(row) ? row : [row]))
+    : [[result]];
   const height = matrix.length;
   const width = Math.max(1, ...matrix.map((row) => row.length));
   if (height > reserved.rows || width > reserved.columns) {

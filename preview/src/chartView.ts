@@ -8,7 +8,10 @@ import type { PreviewChart, PreviewWorkbook } from './previewWorkbook';
 const SVG = 'http://www.w3.org/2000/svg';
 const SERIES_COLOURS = ['#2f6f4f', '#c8641e', '#3b5fa8', '#8a3f8f', '#9a8a1a', '#4c8c8c'];
 
-function svg<K extends keyof SVGElementTagNameMap>(name: K, attributes: Record<string, string | number>): SVGElementTagNameMap[K] {
+function svg<K extends keyof SVGElementTagNameMap>(
+  name: K,
+  attributes: Record<string, string | number>,
+): SVGElementTagNameMap[K] {
   const element = document.createElementNS(SVG, name);
   for (const [key, value] of Object.entries(attributes)) element.setAttribute(key, String(value));
   return element;
@@ -19,12 +22,18 @@ function svg<K extends keyof SVGElementTagNameMap>(name: K, attributes: Record<s
  * column one series; a text first row names the series. Non-numeric points are left out. Cost O(cells).
  * @example chartSeries([['x', 'A'], [0, 1], [1, 2]]); //=> { names: ['A'], points: [[[0, 1], [1, 2]]] }
  */
-export function chartSeries(values: (number | string | boolean)[][]): { names: string[]; points: [number, number][][] } {
+export function chartSeries(values: (number | string | boolean)[][]): {
+  names: string[];
+  points: [number, number][][];
+} {
   const first = values[0] ?? [];
   const hasHeader = first.slice(1).some((v) => typeof v === 'string' && v !== '');
   const body = hasHeader ? values.slice(1) : values;
   const count = Math.max(0, first.length - 1);
-  const names = Array.from({ length: count }, (_, i) => (hasHeader ? String(first[i + 1] ?? '') : '') || `Series ${i + 1}`);
+  const names = Array.from(
+    { length: count },
+    (_, i) => (hasHeader ? String(first[i + 1] ?? '') : '') || `Series ${i + 1}`,
+  );
   const points = names.map((_, i) =>
     body
       .map((row) => [row[0], row[i + 1]] as const)
@@ -40,18 +49,33 @@ export function chartSeries(values: (number | string | boolean)[][]): { names: s
  * source draws an empty frame with its title.
  * @example renderChart(book, chart, { left: 0, top: 0, width: 480, height: 280 }).tagName; //=> 'FIGURE'
  */
-export function renderChart(book: PreviewWorkbook, chart: PreviewChart, box: { left: number; top: number; width: number; height: number }): HTMLElement {
+export function renderChart(
+  book: PreviewWorkbook,
+  chart: PreviewChart,
+  box: { left: number; top: number; width: number; height: number },
+): HTMLElement {
   const frame = document.createElement('figure');
   frame.className = 'chart';
   frame.dataset.chartName = chart.name;
-  Object.assign(frame.style, { left: `${box.left}px`, top: `${box.top}px`, width: `${box.width}px`, height: `${box.height}px` });
+  Object.assign(frame.style, {
+    left: `${box.left}px`,
+    top: `${box.top}px`,
+    width: `${box.width}px`,
+    height: `${box.height}px`,
+  });
   const caption = document.createElement('figcaption');
   caption.textContent = chart.title || chart.name;
   frame.append(caption);
 
   const width = Math.max(120, box.width - 16);
   const height = Math.max(80, box.height - 56);
-  const plot = svg('svg', { width, height, viewBox: `0 0 ${width} ${height}`, role: 'img', 'aria-label': chart.title || chart.name });
+  const plot = svg('svg', {
+    width,
+    height,
+    viewBox: `0 0 ${width} ${height}`,
+    role: 'img',
+    'aria-label': chart.title || chart.name,
+  });
   const { names, points } = chartSeries(book.values(chart.source));
   const all = points.flat();
   const pad = { left: 44, right: 8, top: 8, bottom: 22 };
@@ -62,7 +86,15 @@ export function renderChart(book: PreviewWorkbook, chart: PreviewChart, box: { l
     const [y0, y1] = [Math.min(0, ...ys), Math.max(...ys)];
     const sx = (x: number) => pad.left + ((x - x0) / (x1 - x0 || 1)) * (width - pad.left - pad.right);
     const sy = (y: number) => height - pad.bottom - ((y - y0) / (y1 - y0 || 1)) * (height - pad.top - pad.bottom);
-    plot.append(svg('line', { x1: pad.left, y1: height - pad.bottom, x2: width - pad.right, y2: height - pad.bottom, class: 'axis' }));
+    plot.append(
+      svg('line', {
+        x1: pad.left,
+        y1: height - pad.bottom,
+        x2: width - pad.right,
+        y2: height - pad.bottom,
+        class: 'axis',
+      }),
+    );
     plot.append(svg('line', { x1: pad.left, y1: pad.top, x2: pad.left, y2: height - pad.bottom, class: 'axis' }));
     const label = (x: number, y: number, text: string, anchor: string) => {
       const t = svg('text', { x, y, 'text-anchor': anchor, class: 'tick' });
@@ -77,7 +109,14 @@ export function renderChart(book: PreviewWorkbook, chart: PreviewChart, box: { l
     points.forEach((series, i) => {
       if (series.length === 0) return;
       const d = series.map((p, j) => `${j === 0 ? 'M' : 'L'}${sx(p[0]).toFixed(1)},${sy(p[1]).toFixed(1)}`).join(' ');
-      plot.append(svg('path', { d, fill: 'none', stroke: SERIES_COLOURS[i % SERIES_COLOURS.length] ?? '#333', 'stroke-width': 2 }));
+      plot.append(
+        svg('path', {
+          d,
+          fill: 'none',
+          stroke: SERIES_COLOURS[i % SERIES_COLOURS.length] ?? '#333',
+          'stroke-width': 2,
+        }),
+      );
     });
   }
   frame.append(plot);

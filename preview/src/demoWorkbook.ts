@@ -68,7 +68,8 @@ function sheetBuilder(name: string) {
   /** Gives every cell of a block (e.g. a whole spill) a number format. */
   const formatBlock = (address: string, rows: number, columns: number, format: string): void => {
     const { row, col } = parseA1(address);
-    for (let r = 0; r < rows; r += 1) for (let c = 0; c < columns; c += 1) formats[`${columnLetters(col + c)}${row + r + 1}`] = format;
+    for (let r = 0; r < rows; r += 1)
+      for (let c = 0; c < columns; c += 1) formats[`${columnLetters(col + c)}${row + r + 1}`] = format;
   };
   const put = (address: string, value: DemoCell, format?: string): void => {
     const { row, col } = parseA1(address);
@@ -124,20 +125,39 @@ function checkoutSheet(): DemoSheet {
   s.put('A1', 'Checkout test: which checkout button sells best?');
   s.put('A2', DEMO_NOTICE);
   // Revenue is per visitor (zeros for visitors who bought nothing); basket adds are events over sessions.
-  const headers = ['Variant', 'Visitors', 'Conversions', 'Revenue count', 'Revenue mean', 'Revenue sd', 'Basket adds', 'Sessions', 'Planned share'];
+  const headers = [
+    'Variant',
+    'Visitors',
+    'Conversions',
+    'Revenue count',
+    'Revenue mean',
+    'Revenue sd',
+    'Basket adds',
+    'Sessions',
+    'Planned share',
+  ];
   headers.forEach((h, i) => s.put(`${columnLetters(i)}3`, h));
   s.strong('A1', ...headers.map((_, i) => `${columnLetters(i)}3`), 'A9', 'A55', 'A80', 'K9', 'K53');
   CHECKOUT_VARIANTS.forEach((variant, r) => {
     variant.forEach((value, c) => s.put(`${columnLetters(c)}${4 + r}`, value, c === 4 || c === 5 ? '0.00' : undefined));
   });
-  s.put('A8', 'Cautions: fix the sample size before starting and read the result once (peeking inflates false alarms); check the split (SRM below); with many variants some look good by chance; for health or other regulated decisions ask a qualified statistician.');
+  s.put(
+    'A8',
+    'Cautions: fix the sample size before starting and read the result once (peeking inflates false alarms); check the split (SRM below); with many variants some look good by chance; for health or other regulated decisions ask a qualified statistician.',
+  );
 
   const names = ['=$A$4', '=$A$5', '=$A$6'];
   /**
    * A spilled result at B`row`: its label (and column headings) in the row above, the variants' names
    * beside its rows, its format over the whole block.
    */
-  const spilled = (row: number, label: string, formula: string, format: string, columns: readonly string[] = []): void => {
+  const spilled = (
+    row: number,
+    label: string,
+    formula: string,
+    format: string,
+    columns: readonly string[] = [],
+  ): void => {
     s.put(`A${row - 1}`, label);
     columns.forEach((heading, c) => s.put(`${columnLetters(1 + c)}${row - 1}`, heading));
     names.forEach((name, i) => s.put(`A${row + i}`, name));
@@ -151,32 +171,136 @@ function checkoutSheet(): DemoSheet {
   };
   s.put('A9', 'Conversion read-out (Beta–Binomial, uniform prior)');
   spilled(11, 'Posterior mean conversion rate (POSTERIOR_MEAN)', '=ABTEST.POSTERIOR_MEAN(C4:C6, B4:B6)', '0.00%');
-  spilled(15, '95% credible interval for the rate (RATE_INTERVAL)', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6)', '0.00%', ['lower', 'upper']);
-  spilled(19, '90% highest-density interval (RATE_INTERVAL, "hdi")', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6, 0.9, , , "hdi")', '0.00%', ['lower', 'upper']);
+  spilled(15, '95% credible interval for the rate (RATE_INTERVAL)', '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6)', '0.00%', [
+    'lower',
+    'upper',
+  ]);
+  spilled(
+    19,
+    '90% highest-density interval (RATE_INTERVAL, "hdi")',
+    '=ABTEST.RATE_INTERVAL(C4:C6, B4:B6, 0.9, , , "hdi")',
+    '0.00%',
+    ['lower', 'upper'],
+  );
   spilled(23, 'Probability of having the highest rate (PROB_HIGHEST)', '=ABTEST.PROB_HIGHEST(C4:C6, B4:B6)', '0.0%');
-  spilled(27, 'Probability of beating the control (PROB_ABOVE_CONTROL)', '=ABTEST.PROB_ABOVE_CONTROL(C4:C6, B4:B6)', '0.0%');
-  spilled(31, 'Lift over the control, relative (LIFT_INTERVAL)', '=ABTEST.LIFT_INTERVAL(C4:C6, B4:B6)', '0.0%', ['lower', 'median', 'upper']);
-  spilled(35, 'Rate minus the control’s, in rate points (RATE_DIFF_INTERVAL)', '=ABTEST.RATE_DIFF_INTERVAL(C4:C6, B4:B6)', '0.000%', ['lower', 'median', 'upper']);
-  spilled(39, 'Probability the lift is above 5% (PROB_LIFT_ABOVE)', '=ABTEST.PROB_LIFT_ABOVE(C4:C6, B4:B6, 0.05)', '0.0%');
-  spilled(43, 'Expected loss if chosen, in rate points: 0.300% = 0.3 percentage points (EXPECTED_LOSS)', '=ABTEST.EXPECTED_LOSS(C4:C6, B4:B6)', '0.000%');
+  spilled(
+    27,
+    'Probability of beating the control (PROB_ABOVE_CONTROL)',
+    '=ABTEST.PROB_ABOVE_CONTROL(C4:C6, B4:B6)',
+    '0.0%',
+  );
+  spilled(31, 'Lift over the control, relative (LIFT_INTERVAL)', '=ABTEST.LIFT_INTERVAL(C4:C6, B4:B6)', '0.0%', [
+    'lower',
+    'median',
+    'upper',
+  ]);
+  spilled(
+    35,
+    'Rate minus the control’s, in rate points (RATE_DIFF_INTERVAL)',
+    '=ABTEST.RATE_DIFF_INTERVAL(C4:C6, B4:B6)',
+    '0.000%',
+    ['lower', 'median', 'upper'],
+  );
+  spilled(
+    39,
+    'Probability the lift is above 5% (PROB_LIFT_ABOVE)',
+    '=ABTEST.PROB_LIFT_ABOVE(C4:C6, B4:B6, 0.05)',
+    '0.0%',
+  );
+  spilled(
+    43,
+    'Expected loss if chosen, in rate points: 0.300% = 0.3 percentage points (EXPECTED_LOSS)',
+    '=ABTEST.EXPECTED_LOSS(C4:C6, B4:B6)',
+    '0.000%',
+  );
   single(47, 'What to do now (DECISION)', '=ABTEST.DECISION(C4:C6, B4:B6, , A4:A6)');
-  spilled(49, 'Probability of the highest rate with the prior fitted on "Past tests" (PROB_HIGHEST)', "=ABTEST.PROB_HIGHEST(C4:C6, B4:B6, 'Past tests'!B17, 'Past tests'!C17)", '0.0%');
-  single(53, 'Split check p-value; tiny means a broken split (SRM_PVALUE)', '=ABTEST.SRM_PVALUE(B4:B6, I4:I6)', '0.0000');
+  spilled(
+    49,
+    'Probability of the highest rate with the prior fitted on "Past tests" (PROB_HIGHEST)',
+    "=ABTEST.PROB_HIGHEST(C4:C6, B4:B6, 'Past tests'!B17, 'Past tests'!C17)",
+    '0.0%',
+  );
+  single(
+    53,
+    'Split check p-value; tiny means a broken split (SRM_PVALUE)',
+    '=ABTEST.SRM_PVALUE(B4:B6, I4:I6)',
+    '0.0000',
+  );
 
   s.put('A55', 'Revenue per visitor (Normal model from count, mean and sd)');
-  spilled(57, '95% credible interval for the mean revenue (MEAN_INTERVAL)', '=ABTEST.MEAN_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000', ['lower', 'upper']);
-  spilled(61, 'Probability of the highest mean (MEAN_PROB_HIGHEST)', '=ABTEST.MEAN_PROB_HIGHEST(D4:D6, E4:E6, F4:F6)', '0.0%');
-  spilled(65, 'Probability the mean beats the control (MEAN_PROB_ABOVE_CONTROL)', '=ABTEST.MEAN_PROB_ABOVE_CONTROL(D4:D6, E4:E6, F4:F6)', '0.0%');
-  spilled(69, 'Mean minus the control’s (MEAN_DIFF_INTERVAL)', '=ABTEST.MEAN_DIFF_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.000', ['lower', 'median', 'upper']);
-  spilled(73, 'Lift of the mean, relative (MEAN_LIFT_INTERVAL)', '=ABTEST.MEAN_LIFT_INTERVAL(D4:D6, E4:E6, F4:F6)', '0.0%', ['lower', 'median', 'upper']);
-  spilled(77, 'Expected loss of the mean if chosen, in revenue per visitor (MEAN_EXPECTED_LOSS)', '=ABTEST.MEAN_EXPECTED_LOSS(D4:D6, E4:E6, F4:F6)', '0.0000');
+  spilled(
+    57,
+    '95% credible interval for the mean revenue (MEAN_INTERVAL)',
+    '=ABTEST.MEAN_INTERVAL(D4:D6, E4:E6, F4:F6)',
+    '0.000',
+    ['lower', 'upper'],
+  );
+  spilled(
+    61,
+    'Probability of the highest mean (MEAN_PROB_HIGHEST)',
+    '=ABTEST.MEAN_PROB_HIGHEST(D4:D6, E4:E6, F4:F6)',
+    '0.0%',
+  );
+  spilled(
+    65,
+    'Probability the mean beats the control (MEAN_PROB_ABOVE_CONTROL)',
+    '=ABTEST.MEAN_PROB_ABOVE_CONTROL(D4:D6, E4:E6, F4:F6)',
+    '0.0%',
+  );
+  spilled(
+    69,
+    'Mean minus the control’s (MEAN_DIFF_INTERVAL)',
+    '=ABTEST.MEAN_DIFF_INTERVAL(D4:D6, E4:E6, F4:F6)',
+    '0.000',
+    ['lower', 'median', 'upper'],
+  );
+  spilled(
+    73,
+    'Lift of the mean, relative (MEAN_LIFT_INTERVAL)',
+    '=ABTEST.MEAN_LIFT_INTERVAL(D4:D6, E4:E6, F4:F6)',
+    '0.0%',
+    ['lower', 'median', 'upper'],
+  );
+  spilled(
+    77,
+    'Expected loss of the mean if chosen, in revenue per visitor (MEAN_EXPECTED_LOSS)',
+    '=ABTEST.MEAN_EXPECTED_LOSS(D4:D6, E4:E6, F4:F6)',
+    '0.0000',
+  );
 
   s.put('A80', 'Basket adds per session (Gamma–Poisson)');
-  spilled(82, '95% credible interval for adds per session (EVENTS_RATE_INTERVAL)', '=ABTEST.EVENTS_RATE_INTERVAL(G4:G6, H4:H6)', '0.0000', ['lower', 'upper']);
-  spilled(86, 'Probability of the highest rate (EVENTS_PROB_HIGHEST)', '=ABTEST.EVENTS_PROB_HIGHEST(G4:G6, H4:H6)', '0.0%');
-  spilled(90, 'Probability of beating the control (EVENTS_PROB_ABOVE_CONTROL)', '=ABTEST.EVENTS_PROB_ABOVE_CONTROL(G4:G6, H4:H6)', '0.0%');
-  spilled(94, 'Lift over the control, relative (EVENTS_LIFT_INTERVAL)', '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)', '0.0%', ['lower', 'median', 'upper']);
-  spilled(98, 'Expected loss if chosen, in adds per session (EVENTS_EXPECTED_LOSS)', '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)', '0.00000');
+  spilled(
+    82,
+    '95% credible interval for adds per session (EVENTS_RATE_INTERVAL)',
+    '=ABTEST.EVENTS_RATE_INTERVAL(G4:G6, H4:H6)',
+    '0.0000',
+    ['lower', 'upper'],
+  );
+  spilled(
+    86,
+    'Probability of the highest rate (EVENTS_PROB_HIGHEST)',
+    '=ABTEST.EVENTS_PROB_HIGHEST(G4:G6, H4:H6)',
+    '0.0%',
+  );
+  spilled(
+    90,
+    'Probability of beating the control (EVENTS_PROB_ABOVE_CONTROL)',
+    '=ABTEST.EVENTS_PROB_ABOVE_CONTROL(G4:G6, H4:H6)',
+    '0.0%',
+  );
+  spilled(
+    94,
+    'Lift over the control, relative (EVENTS_LIFT_INTERVAL)',
+    '=ABTEST.EVENTS_LIFT_INTERVAL(G4:G6, H4:H6)',
+    '0.0%',
+    ['lower', 'median', 'upper'],
+  );
+  spilled(
+    98,
+    'Expected loss if chosen, in adds per session (EVENTS_EXPECTED_LOSS)',
+    '=ABTEST.EVENTS_EXPECTED_LOSS(G4:G6, H4:H6)',
+    '0.00000',
+  );
 
   revenueFromTotals(s);
 
@@ -218,7 +342,13 @@ function revenueFromTotals(s: ReturnType<typeof sheetBuilder>): void {
   });
   const names = ['=$A$4', '=$A$5', '=$A$6'];
   /** A spilled result at B`row`, its label and headings in the row above and the names beside it. */
-  const spilled = (row: number, label: string, formula: string, format: string, columns: readonly string[] = []): void => {
+  const spilled = (
+    row: number,
+    label: string,
+    formula: string,
+    format: string,
+    columns: readonly string[] = [],
+  ): void => {
     s.put(`A${row - 1}`, label);
     columns.forEach((heading, c) => s.put(`${columnLetters(1 + c)}${row - 1}`, heading));
     names.forEach((name, i) => s.put(`A${row + i}`, name));
@@ -230,16 +360,62 @@ function revenueFromTotals(s: ReturnType<typeof sheetBuilder>): void {
     s.put(`B${row}`, formula);
   };
   const totals = 'B103:B105, C103:C105, D103:D105';
-  spilled(108, '95% credible interval for revenue per visitor (REVENUE_INTERVAL)', `=ABTEST.REVENUE_INTERVAL(${totals})`, '0.000', ['lower', 'upper']);
-  spilled(112, 'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)', `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`, '0.0%');
-  spilled(116, 'Probability of beating the control, with order sd (REVENUE_PROB_ABOVE_CONTROL)', `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E103:E105)`, '0.0%');
-  spilled(120, 'Lift over the control, relative, with order sd (REVENUE_LIFT_INTERVAL)', `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E103:E105)`, '0.0%', ['lower', 'median', 'upper']);
-  spilled(124, 'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)', `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E103:E105)`, '0.0%');
-  spilled(128, 'Expected loss if chosen, per visitor, with order sd (REVENUE_EXPECTED_LOSS)', `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E103:E105)`, '0.0000');
-  single(131, 'What to do on revenue (REVENUE_DECISION, with order sd)', `=ABTEST.REVENUE_DECISION(${totals}, E103:E105, , A103:A105)`);
-  spilled(134, 'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)', '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)', '0.0%');
+  spilled(
+    108,
+    '95% credible interval for revenue per visitor (REVENUE_INTERVAL)',
+    `=ABTEST.REVENUE_INTERVAL(${totals})`,
+    '0.000',
+    ['lower', 'upper'],
+  );
+  spilled(
+    112,
+    'Probability of the highest revenue per visitor (REVENUE_PROB_HIGHEST)',
+    `=ABTEST.REVENUE_PROB_HIGHEST(${totals})`,
+    '0.0%',
+  );
+  spilled(
+    116,
+    'Probability of beating the control, with order sd (REVENUE_PROB_ABOVE_CONTROL)',
+    `=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${totals}, E103:E105)`,
+    '0.0%',
+  );
+  spilled(
+    120,
+    'Lift over the control, relative, with order sd (REVENUE_LIFT_INTERVAL)',
+    `=ABTEST.REVENUE_LIFT_INTERVAL(${totals}, E103:E105)`,
+    '0.0%',
+    ['lower', 'median', 'upper'],
+  );
+  spilled(
+    124,
+    'Probability it is no worse than 2% below the control (REVENUE_PROB_LIFT_ABOVE)',
+    `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${totals}, -0.02, E103:E105)`,
+    '0.0%',
+  );
+  spilled(
+    128,
+    'Expected loss if chosen, per visitor, with order sd (REVENUE_EXPECTED_LOSS)',
+    `=ABTEST.REVENUE_EXPECTED_LOSS(${totals}, E103:E105)`,
+    '0.0000',
+  );
+  single(
+    131,
+    'What to do on revenue (REVENUE_DECISION, with order sd)',
+    `=ABTEST.REVENUE_DECISION(${totals}, E103:E105, , A103:A105)`,
+  );
+  spilled(
+    134,
+    'Revenue mean no worse than 2% below the control (MEAN_PROB_LIFT_ABOVE)',
+    '=ABTEST.MEAN_PROB_LIFT_ABOVE(D4:D6, E4:E6, F4:F6, -0.02)',
+    '0.0%',
+  );
   single(137, 'What to do on the revenue mean (MEAN_DECISION)', '=ABTEST.MEAN_DECISION(D4:D6, E4:E6, F4:F6, , A4:A6)');
-  spilled(140, 'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)', '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)', '0.0%');
+  spilled(
+    140,
+    'Basket adds more than 5% above the control (EVENTS_PROB_LIFT_ABOVE)',
+    '=ABTEST.EVENTS_PROB_LIFT_ABOVE(G4:G6, H4:H6, 0.05)',
+    '0.0%',
+  );
   single(143, 'What to do on basket adds (EVENTS_DECISION)', '=ABTEST.EVENTS_DECISION(G4:G6, H4:H6, , A4:A6)');
   s.put(
     'A145',
@@ -279,7 +455,10 @@ function pastTestsSheet(): DemoSheet {
   s.put('B21', '=ABTEST.PRIOR_FROM_INTERVAL(0.03, 0.06)');
   s.formatBlock('B17', 2, 2, '0.00');
   s.formatBlock('B20', 2, 2, '0.00');
-  s.put('A23', 'Caution: a strong prior pulls new results toward the past. Compare with the uniform prior before acting (prior sensitivity).');
+  s.put(
+    'A23',
+    'Caution: a strong prior pulls new results toward the past. Compare with the uniform prior before acting (prior sensitivity).',
+  );
   return s.done();
 }
 
@@ -308,7 +487,10 @@ function planSheet(): DemoSheet {
   s.put('B12', '=ABTEST.VISITORS_NEEDED(B4, B5, B7, B8)');
   s.put('A13', 'Visitors per variant for the classic z-test, alpha 5% (CLASSIC_SAMPLE_SIZE)');
   s.put('B13', '=ABTEST.CLASSIC_SAMPLE_SIZE(B4, B5, 0.05, B8)');
-  s.put('A15', 'Caution: decide the sample size first and read the result once at the end; stopping on a good day (peeking) inflates false alarms.');
+  s.put(
+    'A15',
+    'Caution: decide the sample size first and read the result once at the end; stopping on a good day (peeking) inflates false alarms.',
+  );
   return s.done();
 }
 
@@ -380,7 +562,9 @@ export function buildDemoWorkbook(): DemoSheet[] {
  * @example
  * Object.keys(demoSheetsForHyperFormula()); //=> ['Checkout test', 'Past tests', 'Plan', 'Daily test']
  */
-export function demoSheetsForHyperFormula(sheets: readonly DemoSheet[] = buildDemoWorkbook()): Record<string, DemoCell[][]> {
+export function demoSheetsForHyperFormula(
+  sheets: readonly DemoSheet[] = buildDemoWorkbook(),
+): Record<string, DemoCell[][]> {
   return Object.fromEntries(sheets.map((sheet) => [sheet.name, sheet.cells.map((row) => [...row])]));
 }
 

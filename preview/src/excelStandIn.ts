@@ -109,7 +109,8 @@ class RequestContext {
   }
   /** Fails the running command when the stand-in does not offer `version` (as an unknown API fails in Excel). */
   requireApi(version: string, what: string): void {
-    if (!versionAtMost(version, this.apiVersion)) this.fail('ApiNotFound', `The API you are trying to use could not be found (${what}).`);
+    if (!versionAtMost(version, this.apiVersion))
+      this.fail('ApiNotFound', `The API you are trying to use could not be found (${what}).`);
   }
   /** A command that changes the workbook; `reads` when it also needs up-to-date values first (autofit). */
   enqueue(run: () => void, reads = false): void {
@@ -137,7 +138,8 @@ class RequestContext {
           this.book.batch(() => {
             let written = 0;
             for (const command of commands) {
-              if (command.writes && written >= stopAfter) throw officeError(this.realm, failure?.code ?? 'GeneralException', failure?.message ?? 'failed');
+              if (command.writes && written >= stopAfter)
+                throw officeError(this.realm, failure?.code ?? 'GeneralException', failure?.message ?? 'failed');
               if (command.reads) this.book.settle();
               command.run();
               if (command.writes) written += 1;
@@ -146,7 +148,11 @@ class RequestContext {
           resolve();
         } catch (error) {
           const coded = error as { code?: unknown; message?: unknown };
-          reject(typeof coded.code === 'string' ? error : officeError(this.realm, 'GeneralException', String(coded.message ?? error)));
+          reject(
+            typeof coded.code === 'string'
+              ? error
+              : officeError(this.realm, 'GeneralException', String(coded.message ?? error)),
+          );
         }
       }, 0);
     });
@@ -156,7 +162,11 @@ class RequestContext {
 /** Parses the `load` argument: 'a, b', ['a', 'b'], { select: 'a,b' } or nothing (everything). */
 function loadList(properties: unknown): string[] | undefined {
   if (properties === undefined || properties === null) return undefined;
-  if (typeof properties === 'string') return properties.split(',').map((p) => p.trim()).filter(Boolean);
+  if (typeof properties === 'string')
+    return properties
+      .split(',')
+      .map((p) => p.trim())
+      .filter(Boolean);
   if (Array.isArray(properties)) return properties.map(String);
   const select = (properties as { select?: unknown }).select;
   return select === undefined ? undefined : loadList(select);
@@ -178,7 +188,8 @@ const RANGE_PROPERTIES = [
 type RangeProperty = (typeof RANGE_PROPERTIES)[number];
 
 /** Excel's message for an array that does not fit its range (as quoted in issue #11). */
-const SIZE_MISMATCH = "The number of rows or columns in the input array doesn't match the size or dimensions of the range.";
+const SIZE_MISMATCH =
+  "The number of rows or columns in the input array doesn't match the size or dimensions of the range.";
 
 /**
  * Checks that a 2-D array has the block's size. The API reference promises nothing for a single value
@@ -188,7 +199,10 @@ function shapeFor(ctx: RequestContext, block: CellBlock, data: unknown, what: st
   const rows = localRows(data);
   if (rows === undefined) return ctx.fail('InvalidArgument', `${what} must be a 2-D array`);
   if (rows.length !== block.rows || rows.some((row) => row.length !== block.columns)) {
-    ctx.fail('InvalidArgument', `${SIZE_MISMATCH} (${what}: the array is ${rows.length}×${rows[0]?.length ?? 0}, the range ${block.rows}×${block.columns})`);
+    ctx.fail(
+      'InvalidArgument',
+      `${SIZE_MISMATCH} (${what}: the array is ${rows.length}×${rows[0]?.length ?? 0}, the range ${block.rows}×${block.columns})`,
+    );
   }
   return rows;
 }
@@ -271,7 +285,10 @@ class RangeProxy {
           );
         }
         if (property === 'numberFormat') {
-          this.loadedValues.numberFormat = realmRows(realm, grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'));
+          this.loadedValues.numberFormat = realmRows(
+            realm,
+            grid(block, (r, c) => book.numberFormat(block.sheet, r, c) ?? 'General'),
+          );
         }
       }
     }
@@ -284,7 +301,11 @@ class RangeProxy {
 
   private read(property: RangeProperty): unknown {
     if (!(property in this.loadedValues)) {
-      throw officeError(this.ctx.realm, 'PropertyNotLoaded', `The property '${property}' is not available. Call load('${property}') and context.sync() first.`);
+      throw officeError(
+        this.ctx.realm,
+        'PropertyNotLoaded',
+        `The property '${property}' is not available. Call load('${property}') and context.sync() first.`,
+      );
     }
     return this.loadedValues[property];
   }
@@ -332,7 +353,11 @@ class RangeProxy {
     this.ctx.enqueue(() => {
       const block = this.resolve();
       const rows = shapeFor(this.ctx, block, data, 'numberFormat');
-      rows.forEach((line, r) => line.forEach((format, c) => this.ctx.book.setNumberFormat(block.sheet, block.row + r, block.col + c, String(format))));
+      rows.forEach((line, r) =>
+        line.forEach((format, c) =>
+          this.ctx.book.setNumberFormat(block.sheet, block.row + r, block.col + c, String(format)),
+        ),
+      );
       this.ctx.book.touch();
     });
   }
@@ -344,7 +369,10 @@ class RangeProxy {
       try {
         this.ctx.book.write(block.sheet, block.row, block.col, rows);
       } catch (error) {
-        this.ctx.fail('InvalidArgument', `cannot write ${this.ctx.book.qualifiedAddress(block)}: ${(error as Error).message}`);
+        this.ctx.fail(
+          'InvalidArgument',
+          `cannot write ${this.ctx.book.qualifiedAddress(block)}: ${(error as Error).message}`,
+        );
       }
     });
   }
@@ -390,7 +418,9 @@ class RangeProxy {
           return {
             format: {
               font: { bold: style?.bold === true, color: (style?.color ?? '#000000').toUpperCase() },
-              fill: style?.fill ? { color: style.fill.toUpperCase(), pattern: 'Solid' } : { color: '#FFFFFF', pattern: 'None' },
+              fill: style?.fill
+                ? { color: style.fill.toUpperCase(), pattern: 'Solid' }
+                : { color: '#FFFFFF', pattern: 'None' },
             },
           };
         }),
@@ -405,7 +435,9 @@ class RangeProxy {
       const rows = shapeFor(this.ctx, b, data, 'setCellProperties');
       rows.forEach((line, r) =>
         line.forEach((cell, c) => {
-          const format = (cell as { format?: { font?: { bold?: unknown; color?: unknown }; fill?: { color?: unknown } } }).format;
+          const format = (
+            cell as { format?: { font?: { bold?: unknown; color?: unknown }; fill?: { color?: unknown } } }
+          ).format;
           const patch: { bold?: boolean; color?: string; fill?: string } = {};
           if (format?.font?.bold !== undefined) patch.bold = Boolean(format.font.bold);
           if (format?.font?.color !== undefined) patch.color = String(format.font.color);
@@ -433,7 +465,8 @@ class RangeProxy {
   /** Clears contents, formats and notes ('All', the only kind the preview offers). */
   clear(applyTo?: string): void {
     this.ctx.enqueue(() => {
-      if (applyTo !== undefined && applyTo !== 'All') this.ctx.fail('InvalidArgument', `the preview clears All only, not ${applyTo}`);
+      if (applyTo !== undefined && applyTo !== 'All')
+        this.ctx.fail('InvalidArgument', `the preview clears All only, not ${applyTo}`);
       this.ctx.book.clearBlock(this.resolve());
     });
   }
@@ -456,7 +489,11 @@ class RangeProxy {
     this.ctx.enqueueRead(() => {
       const b = this.resolve();
       const anchor = this.ctx.book.spillAnchor(b.sheet, b.row, b.col);
-      result.settle(anchor === undefined ? null : this.ctx.book.qualifiedAddress({ sheet: b.sheet, row: anchor.row, col: anchor.col, rows: 1, columns: 1 }));
+      result.settle(
+        anchor === undefined
+          ? null
+          : this.ctx.book.qualifiedAddress({ sheet: b.sheet, row: anchor.row, col: anchor.col, rows: 1, columns: 1 }),
+      );
     });
     return result;
   }
@@ -477,7 +514,8 @@ class NullableRange {
     return this;
   }
   private known(): { address: string | null } {
-    if (this.state === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call context.sync() before reading this range.');
+    if (this.state === undefined)
+      return this.ctx.fail('PropertyNotLoaded', 'Call context.sync() before reading this range.');
     return this.state;
   }
   get isNullObject(): boolean {
@@ -490,11 +528,19 @@ class NullableRange {
 }
 
 function grid<T>(block: CellBlock, at: (row: number, col: number) => T): T[][] {
-  return Array.from({ length: block.rows }, (_, r) => Array.from({ length: block.columns }, (_, c) => at(block.row + r, block.col + c)));
+  return Array.from({ length: block.rows }, (_, r) =>
+    Array.from({ length: block.columns }, (_, c) => at(block.row + r, block.col + c)),
+  );
 }
 
 function checked(ctx: RequestContext, block: CellBlock): CellBlock {
-  if (block.row < 0 || block.col < 0 || block.rows < 1 || block.columns < 1 || !Number.isInteger(block.row + block.col + block.rows + block.columns)) {
+  if (
+    block.row < 0 ||
+    block.col < 0 ||
+    block.rows < 1 ||
+    block.columns < 1 ||
+    !Number.isInteger(block.row + block.col + block.rows + block.columns)
+  ) {
     ctx.fail('InvalidArgument', 'The range is outside the worksheet.');
   }
   return block;
@@ -510,7 +556,8 @@ class RangeFormatProxy {
     const style = (patch: { bold?: boolean; color?: string; fill?: string }) =>
       ctx.enqueue(() => {
         const b = range.resolve();
-        for (let r = 0; r < b.rows; r += 1) for (let c = 0; c < b.columns; c += 1) ctx.book.setStyle(b.sheet, b.row + r, b.col + c, patch);
+        for (let r = 0; r < b.rows; r += 1)
+          for (let c = 0; c < b.columns; c += 1) ctx.book.setStyle(b.sheet, b.row + r, b.col + c, patch);
         ctx.book.touch();
       });
     this.font = {
@@ -552,7 +599,11 @@ class RangeFormatProxy {
   }
 
   get columnWidth(): number {
-    if (this.loadedWidth === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'columnWidth' is not available. Call load('columnWidth') and context.sync() first.");
+    if (this.loadedWidth === undefined)
+      return this.ctx.fail(
+        'PropertyNotLoaded',
+        "The property 'columnWidth' is not available. Call load('columnWidth') and context.sync() first.",
+      );
     return this.loadedWidth;
   }
 
@@ -571,7 +622,8 @@ class RangeFormatProxy {
       const book = this.ctx.book;
       for (let c = 0; c < b.columns; c += 1) {
         let longest = 4;
-        for (let r = 0; r < b.rows; r += 1) longest = Math.max(longest, book.cell(b.sheet, b.row + r, b.col + c).text.length);
+        for (let r = 0; r < b.rows; r += 1)
+          longest = Math.max(longest, book.cell(b.sheet, b.row + r, b.col + c).text.length);
         book.setColumnWidth(b.sheet, b.col + c, Math.min(480, 16 + 7 * longest));
       }
       book.touch();
@@ -616,8 +668,12 @@ class ChartProxy {
       const chart = this.chart();
       const from = parseBlock(startCell, chart.sheet);
       const to = parseBlock(endCell ?? startCell, chart.sheet);
-      if (!from || !to) this.ctx.fail('InvalidArgument', `not a cell address: ${startCell}${endCell ? `, ${endCell}` : ''}`);
-      chart.position = { from: { row: from.row, col: from.col }, to: { row: to.row + to.rows - 1, col: to.col + to.columns - 1 } };
+      if (!from || !to)
+        this.ctx.fail('InvalidArgument', `not a cell address: ${startCell}${endCell ? `, ${endCell}` : ''}`);
+      chart.position = {
+        from: { row: from.row, col: from.col },
+        to: { row: to.row + to.rows - 1, col: to.col + to.columns - 1 },
+      };
       this.ctx.book.chartsChanged();
     });
   }
@@ -637,7 +693,8 @@ class UsedRange extends RangeProxy {
     if (this.exists) super.readNow(wanted);
   }
   override get isNullObject(): boolean {
-    if (this.exists === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    if (this.exists === undefined)
+      return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
     return !this.exists;
   }
 }
@@ -666,18 +723,21 @@ class NoteItem {
     return this;
   }
   get isNullObject(): boolean {
-    if (this.found === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    if (this.found === undefined)
+      return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
     return this.found.text === undefined;
   }
   get content(): string {
-    if (this.found?.text === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'content' is not available.");
+    if (this.found?.text === undefined)
+      return this.ctx.fail('PropertyNotLoaded', "The property 'content' is not available.");
     return this.found.text;
   }
   set content(text: string) {
     this.ctx.enqueue(() => {
       this.ctx.requireApi('1.18', 'Note.content');
       const b = this.cell();
-      if (this.ctx.book.note(b.sheet, b.row, b.col) === undefined) this.ctx.fail('ItemNotFound', 'The cell has no note.');
+      if (this.ctx.book.note(b.sheet, b.row, b.col) === undefined)
+        this.ctx.fail('ItemNotFound', 'The cell has no note.');
       this.ctx.book.setNote(b.sheet, b.row, b.col, String(text));
     });
   }
@@ -711,8 +771,10 @@ class WorksheetProxy {
       add: (type: string, source: RangeProxy, seriesBy?: string): ChartProxy => {
         let made: import('./previewWorkbook').PreviewChart | undefined;
         ctx.enqueue(() => {
-          if (type !== 'XYScatterSmoothNoMarkers' && type !== 'Line') ctx.fail('InvalidArgument', `chart type ${type} is not available in the preview`);
-          if (seriesBy !== undefined && seriesBy !== 'Columns' && seriesBy !== 'Auto') ctx.fail('InvalidArgument', `seriesBy ${seriesBy} is not available in the preview`);
+          if (type !== 'XYScatterSmoothNoMarkers' && type !== 'Line')
+            ctx.fail('InvalidArgument', `chart type ${type} is not available in the preview`);
+          if (seriesBy !== undefined && seriesBy !== 'Columns' && seriesBy !== 'Auto')
+            ctx.fail('InvalidArgument', `seriesBy ${seriesBy} is not available in the preview`);
           const block = source.resolve();
           made = ctx.book.addChart(this.resolveSheet(), type, block);
         });
@@ -737,13 +799,20 @@ class WorksheetProxy {
         return charts;
       },
       get items(): ChartItem[] {
-        return listed ?? ctx.fail('PropertyNotLoaded', "The property 'items' is not available. Call load('items') and context.sync() first.");
+        return (
+          listed ??
+          ctx.fail(
+            'PropertyNotLoaded',
+            "The property 'items' is not available. Call load('items') and context.sync() first.",
+          )
+        );
       },
     };
     this.charts = charts;
     const cellAt = (address: string): CellBlock => {
       const block = parseBlock(address, this.resolveSheet());
-      if (!block || block.rows !== 1 || block.columns !== 1) return ctx.fail('InvalidCellAddress', `${address} is not one cell.`);
+      if (!block || block.rows !== 1 || block.columns !== 1)
+        return ctx.fail('InvalidCellAddress', `${address} is not one cell.`);
       return block;
     };
     this.notes = {
@@ -752,7 +821,8 @@ class WorksheetProxy {
         ctx.enqueue(() => {
           ctx.requireApi('1.18', 'Worksheet.notes');
           const b = cellAt(address);
-          if (ctx.book.note(b.sheet, b.row, b.col) !== undefined) ctx.fail('InvalidArgument', `The cell ${address} has a note already.`);
+          if (ctx.book.note(b.sheet, b.row, b.col) !== undefined)
+            ctx.fail('InvalidArgument', `The cell ${address} has a note already.`);
           ctx.book.setNote(b.sheet, b.row, b.col, String(content));
         });
       },
@@ -797,18 +867,24 @@ class WorksheetProxy {
     this.ctx.enqueueRead(() => {
       const sheet = this.resolveSheetOrNull();
       this.existence = sheet !== undefined;
-      if (sheet !== undefined && (wanted === undefined || wanted.includes('name'))) this.loadedName = this.ctx.book.hf.getSheetName(sheet);
+      if (sheet !== undefined && (wanted === undefined || wanted.includes('name')))
+        this.loadedName = this.ctx.book.hf.getSheetName(sheet);
     });
     return this;
   }
   /** For getItemOrNullObject: known after a load and sync. */
   get isNullObject(): boolean {
-    if (this.existence === undefined) return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
+    if (this.existence === undefined)
+      return this.ctx.fail('PropertyNotLoaded', 'Call load() and context.sync() before reading isNullObject.');
     return !this.existence;
   }
   get name(): string {
     if (this.loadedName === undefined) {
-      throw officeError(this.ctx.realm, 'PropertyNotLoaded', "The property 'name' is not available. Call load('name') and context.sync() first.");
+      throw officeError(
+        this.ctx.realm,
+        'PropertyNotLoaded',
+        "The property 'name' is not available. Call load('name') and context.sync() first.",
+      );
     }
     return this.loadedName;
   }
@@ -830,7 +906,8 @@ class WorksheetProxy {
   copy(positionType?: string, relativeTo?: WorksheetProxy): WorksheetProxy {
     let made: number | undefined;
     this.ctx.enqueue(() => {
-      if (positionType !== 'After' || relativeTo === undefined) this.ctx.fail('InvalidArgument', 'the preview copies a sheet After a sheet only');
+      if (positionType !== 'After' || relativeTo === undefined)
+        this.ctx.fail('InvalidArgument', 'the preview copies a sheet After a sheet only');
       made = this.ctx.book.copySheet(this.resolveSheet());
     });
     return new WorksheetProxy(this.ctx, () => made);
@@ -838,7 +915,10 @@ class WorksheetProxy {
   getRange(address: string): RangeProxy {
     return new RangeProxy(this.ctx, () => {
       if (typeof address !== 'string' || address.includes('!')) {
-        return this.ctx.fail('InvalidArgument', `getRange needs an A1 address without a sheet name, got ${String(address)}`);
+        return this.ctx.fail(
+          'InvalidArgument',
+          `getRange needs an A1 address without a sheet name, got ${String(address)}`,
+        );
       }
       const block = parseBlock(address, this.resolveSheet());
       if (!block) return this.ctx.fail('InvalidArgument', `not a cell address: ${address}`);
@@ -872,7 +952,11 @@ class WorksheetCollection {
     return this;
   }
   get items(): { name: string }[] {
-    if (this.names === undefined) return this.ctx.fail('PropertyNotLoaded', "The property 'items' is not available. Call load('items/name') and context.sync() first.");
+    if (this.names === undefined)
+      return this.ctx.fail(
+        'PropertyNotLoaded',
+        "The property 'items' is not available. Call load('items/name') and context.sync() first.",
+      );
     return this.names.map((name) => ({ name }));
   }
   getItem(name: string): WorksheetProxy {
@@ -890,7 +974,8 @@ class WorksheetCollection {
   }
   add(name: string): WorksheetProxy {
     this.ctx.enqueue(() => {
-      if (this.ctx.book.sheetId(name) !== undefined) this.ctx.fail('ItemAlreadyExists', `A sheet named '${name}' already exists.`);
+      if (this.ctx.book.sheetId(name) !== undefined)
+        this.ctx.fail('ItemAlreadyExists', `A sheet named '${name}' already exists.`);
       try {
         this.ctx.book.addSheet(name);
       } catch (error) {
@@ -946,7 +1031,11 @@ export interface OfficeStandIn {
  *   return range.values; //=> [[0.042]]
  * });
  */
-export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm, apiVersion: string = OFFERED_API): OfficeStandIn {
+export function createOfficeStandIn(
+  book: PreviewWorkbook,
+  realm: Realm,
+  apiVersion: string = OFFERED_API,
+): OfficeStandIn {
   const info = { host: 'Excel', platform: 'OfficeOnline' };
   return {
     Office: {
@@ -961,7 +1050,8 @@ export function createOfficeStandIn(book: PreviewWorkbook, realm: Realm, apiVers
       HostType: { Excel: 'Excel' },
       context: {
         requirements: {
-          isSetSupported: (set: string, version = '1.1') => set === 'ExcelApi' && versionAtMost(String(version), apiVersion),
+          isSetSupported: (set: string, version = '1.1') =>
+            set === 'ExcelApi' && versionAtMost(String(version), apiVersion),
         },
       },
     },

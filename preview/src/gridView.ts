@@ -14,7 +14,14 @@
  */
 import { renderChart } from './chartView';
 import { columnLetters } from './demoWorkbook';
-import { blockAddress, DEFAULT_COLUMN_PX, fitNumber, type CellBlock, type CellView, type PreviewWorkbook } from './previewWorkbook';
+import {
+  blockAddress,
+  DEFAULT_COLUMN_PX,
+  fitNumber,
+  type CellBlock,
+  type CellView,
+  type PreviewWorkbook,
+} from './previewWorkbook';
 
 /** The page elements the grid drives (ids in preview/src/index.html). */
 export interface GridElements {
@@ -135,7 +142,14 @@ export class GridView {
   }
 
   /** One cell: `runOnPx` is the room to its right that text may run over. */
-  private renderCell(sheet: number, row: number, col: number, view: CellView, widthPx: number, runOnPx: number): HTMLTableCellElement {
+  private renderCell(
+    sheet: number,
+    row: number,
+    col: number,
+    view: CellView,
+    widthPx: number,
+    runOnPx: number,
+  ): HTMLTableCellElement {
     const td = document.createElement('td');
     td.dataset.cell = `${columnLetters(col)}${row + 1}`;
     td.dataset.row = String(row);
@@ -209,7 +223,12 @@ export class GridView {
       const top = from?.offsetTop ?? 0;
       const right = to ? to.offsetLeft + to.offsetWidth : left + 480;
       const bottom = to ? to.offsetTop + to.offsetHeight : top + 280;
-      return renderChart(this.book, chart, { left, top, width: Math.max(200, right - left), height: Math.max(160, bottom - top) });
+      return renderChart(this.book, chart, {
+        left,
+        top,
+        width: Math.max(200, right - left),
+        height: Math.max(160, bottom - top),
+      });
     });
     this.chartsLayer.replaceChildren(...frames);
   }
@@ -222,7 +241,8 @@ export class GridView {
   private showSelection(scroll = true): void {
     const sel = this.book.selection;
     if (sel.sheet !== this.book.activeSheet) return;
-    for (const td of Array.from(this.table.querySelectorAll('td.selected, td.active, td.in-spill'))) td.classList.remove('selected', 'active', 'in-spill');
+    for (const td of Array.from(this.table.querySelectorAll('td.selected, td.active, td.in-spill')))
+      td.classList.remove('selected', 'active', 'in-spill');
     for (let r = sel.row; r < sel.row + sel.rows; r += 1) {
       for (let c = sel.col; c < sel.col + sel.columns; c += 1) this.cellElement(r, c)?.classList.add('selected');
     }
@@ -237,7 +257,8 @@ export class GridView {
     const spill = spillFrom ? this.book.spillRange(sel.sheet, spillFrom.row, spillFrom.col) : undefined;
     if (spill) {
       for (let r = spill.row; r < spill.row + spill.rows; r += 1) {
-        for (let c = spill.col; c < spill.col + spill.columns; c += 1) this.cellElement(r, c)?.classList.add('in-spill');
+        for (let c = spill.col; c < spill.col + spill.columns; c += 1)
+          this.cellElement(r, c)?.classList.add('in-spill');
       }
     }
     // A spilled cell shows its formula greyed out and read-only, as the formula lives in the first cell.
@@ -248,13 +269,21 @@ export class GridView {
     if (!this.editing?.fromFormulaBar) this.el.formulaInput.value = shown;
     const first = source ? `${columnLetters(source.col)}${source.row + 1}` : 'its first cell';
     this.el.formulaMessage.textContent =
-      view.kind === 'error' ? `${view.text} ${view.message ?? ''}`.trim() : view.spilled ? `Part of a spilled result; edit the formula in ${first}.` : '';
+      view.kind === 'error'
+        ? `${view.text} ${view.message ?? ''}`.trim()
+        : view.spilled
+          ? `Part of a spilled result; edit the formula in ${first}.`
+          : '';
     this.el.formulaMessage.classList.toggle('is-error', view.kind === 'error');
   }
 
   private anchorCell(): { row: number; col: number } {
     const sel = this.book.selection;
-    const inside = this.anchor.row >= sel.row && this.anchor.row < sel.row + sel.rows && this.anchor.col >= sel.col && this.anchor.col < sel.col + sel.columns;
+    const inside =
+      this.anchor.row >= sel.row &&
+      this.anchor.row < sel.row + sel.rows &&
+      this.anchor.col >= sel.col &&
+      this.anchor.col < sel.col + sel.columns;
     return inside ? this.anchor : { row: sel.row, col: sel.col };
   }
 
@@ -268,7 +297,13 @@ export class GridView {
       return;
     }
     const a = this.anchor;
-    const block: CellBlock = { sheet, row: Math.min(a.row, r), col: Math.min(a.col, c), rows: Math.abs(a.row - r) + 1, columns: Math.abs(a.col - c) + 1 };
+    const block: CellBlock = {
+      sheet,
+      row: Math.min(a.row, r),
+      col: Math.min(a.col, c),
+      rows: Math.abs(a.row - r) + 1,
+      columns: Math.abs(a.col - c) + 1,
+    };
     this.book.select(block);
   }
 
@@ -316,7 +351,12 @@ export class GridView {
     input.className = 'cell-editor';
     input.value = initial ?? this.book.cell(this.book.activeSheet, row, col).input;
     input.setAttribute('aria-label', `Edit ${columnLetters(col)}${row + 1}`);
-    Object.assign(input.style, { left: `${td.offsetLeft}px`, top: `${td.offsetTop}px`, width: `${Math.max(td.offsetWidth, 120)}px`, height: `${td.offsetHeight}px` });
+    Object.assign(input.style, {
+      left: `${td.offsetLeft}px`,
+      top: `${td.offsetTop}px`,
+      width: `${Math.max(td.offsetWidth, 120)}px`,
+      height: `${td.offsetHeight}px`,
+    });
     this.el.scroller.append(input);
     this.editor = input;
     this.editing = { row, col, fromFormulaBar: false };
@@ -399,7 +439,12 @@ export class GridView {
       if (this.editor) return;
       const { row, col } = this.anchorCell();
       const sel = this.book.selection;
-      const moves: Record<string, [number, number]> = { ArrowUp: [-1, 0], ArrowDown: [1, 0], ArrowLeft: [0, -1], ArrowRight: [0, 1] };
+      const moves: Record<string, [number, number]> = {
+        ArrowUp: [-1, 0],
+        ArrowDown: [1, 0],
+        ArrowLeft: [0, -1],
+        ArrowRight: [0, 1],
+      };
       const move = moves[event.key];
       if (move) {
         event.preventDefault();

@@ -93,7 +93,10 @@ async function start(): Promise<void> {
       const frameHost = createCustomFunctionsStandIn();
       // `?api=1.16` plays an Excel that offers the Excel JavaScript API only up to that version (no notes before 1.18).
       const api = new URLSearchParams(location.search).get('api');
-      const stand = api !== null && /^1\.\d{1,2}$/.test(api) ? createOfficeStandIn(workbook, realm, api) : createOfficeStandIn(workbook, realm);
+      const stand =
+        api !== null && /^1\.\d{1,2}$/.test(api)
+          ? createOfficeStandIn(workbook, realm, api)
+          : createOfficeStandIn(workbook, realm);
       return { ...stand, CustomFunctions: frameHost.api };
     },
     cellValue(sheetName: string, address: string) {

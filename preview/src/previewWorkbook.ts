@@ -297,7 +297,8 @@ export class PreviewWorkbook {
         this.respill();
         const events = [...this.pendingEvents];
         this.pendingEvents.clear();
-        for (const event of (['sheet', 'cells', 'charts', 'selection'] as const).filter((e) => events.includes(e))) this.emit(event);
+        for (const event of (['sheet', 'cells', 'charts', 'selection'] as const).filter((e) => events.includes(e)))
+          this.emit(event);
       }
     }
   }
@@ -365,13 +366,17 @@ export class PreviewWorkbook {
         // A spilled cell is not content: its formula cell fills it again in the copy.
         const spilled = this.hf.isCellPartOfArray(at) && !this.hf.doesCellHaveFormula(at);
         const serialized = spilled ? null : this.hf.getCellSerialized(at);
-        line.push(serialized === undefined || serialized === '' ? null : (serialized as string | number | boolean | null));
+        line.push(
+          serialized === undefined || serialized === '' ? null : (serialized as string | number | boolean | null),
+        );
       }
       contents.push(line);
     }
     if (height > 0 && width > 0) this.hf.setSheetContent(id, contents);
     this.formats[id] = new Map(this.formats[source]);
-    this.styles[id] = new Map([...(this.styles[source] ?? new Map<string, CellStyle>())].map(([k, v]) => [k, { ...v }]));
+    this.styles[id] = new Map(
+      [...(this.styles[source] ?? new Map<string, CellStyle>())].map(([k, v]) => [k, { ...v }]),
+    );
     this.widths[id] = { ...this.widths[source] };
     this.notesBySheet[id] = new Map(this.notesBySheet[source]);
     this.layouts[id] = { ...this.layouts[source] };
@@ -397,7 +402,8 @@ export class PreviewWorkbook {
    * formula; number formats, styles, notes and charts move with their cells. Fires 'cells' and 'charts'.
    */
   insertRows(sheet: number, at: number, count: number): void {
-    if (!(Number.isInteger(at) && at >= 0 && Number.isInteger(count) && count >= 1)) throw new Error('rows to insert must be whole numbers');
+    if (!(Number.isInteger(at) && at >= 0 && Number.isInteger(count) && count >= 1))
+      throw new Error('rows to insert must be whole numbers');
     if (this.batchDepth > 0 && !this.hf.isEvaluationSuspended()) this.hf.suspendEvaluation();
     this.hf.addRows(sheet, [at, count]);
     const moveKey = (key: string): string => {
@@ -501,7 +507,8 @@ export class PreviewWorkbook {
     this.widths[sheet] = {};
     this.notesBySheet[sheet] = new Map();
     this.layouts[sheet] = {};
-    for (let i = this.chartList.length - 1; i >= 0; i -= 1) if (this.chartList[i]?.sheet === sheet) this.chartList.splice(i, 1);
+    for (let i = this.chartList.length - 1; i >= 0; i -= 1)
+      if (this.chartList[i]?.sheet === sheet) this.chartList.splice(i, 1);
     if (this.active === sheet) {
       this.active = this.sheetIds()[0] ?? 0;
       this.selected = { sheet: this.active, row: 0, col: 0, rows: 1, columns: 1 };
@@ -617,7 +624,10 @@ export class PreviewWorkbook {
   spillRange(sheet: number, row: number, col: number): CellBlock | undefined {
     const at = (r: number, c: number) => ({ sheet, row: r, col: c });
     if (!this.hf.doesCellHaveFormula(at(row, col)) || !this.hf.isCellPartOfArray(at(row, col))) return undefined;
-    const child = (r: number, c: number) => this.hf.isCellPartOfArray(at(r, c)) && !this.hf.doesCellHaveFormula(at(r, c)) && this.spillAnchorIs(sheet, r, c, row, col);
+    const child = (r: number, c: number) =>
+      this.hf.isCellPartOfArray(at(r, c)) &&
+      !this.hf.doesCellHaveFormula(at(r, c)) &&
+      this.spillAnchorIs(sheet, r, c, row, col);
     let columns = 1;
     while (child(row, col + columns)) columns += 1;
     let rows = 1;
@@ -640,8 +650,10 @@ export class PreviewWorkbook {
     if (value instanceof DetailedCellError) {
       // A formula that returns an error shows it in its own cell only (HyperFormula repeats it over the
       // block it reserved; Excel does not spill an error).
-      if (spilled && this.repeatsAnchorError(sheet, row, col, value)) return { text: '', kind: 'empty', value: '', input, spilled };
-      const message = value.message || (value.type === 'NAME' && input.startsWith('=') ? this.beyondSheet(input) : undefined);
+      if (spilled && this.repeatsAnchorError(sheet, row, col, value))
+        return { text: '', kind: 'empty', value: '', input, spilled };
+      const message =
+        value.message || (value.type === 'NAME' && input.startsWith('=') ? this.beyondSheet(input) : undefined);
       return { text: value.value, kind: 'error', value: value.value, message, input, spilled };
     }
     if (value === null || value === undefined || value === '') {
@@ -723,7 +735,10 @@ export class PreviewWorkbook {
       source,
       title: '',
       name: `Chart ${id}`,
-      position: { from: { row: source.row, col: source.col + source.columns + 1 }, to: { row: source.row + 14, col: source.col + source.columns + 7 } },
+      position: {
+        from: { row: source.row, col: source.col + source.columns + 1 },
+        to: { row: source.row + 14, col: source.col + source.columns + 7 },
+      },
     };
     this.chartList.push(chart);
     this.emit('charts');

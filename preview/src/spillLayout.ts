@@ -108,7 +108,10 @@ export function spillSize(fn: FunctionMetadata, shapes: ArgumentShapes): SpillSi
     case 'fixed':
       return { rows: rule.height ?? 1, columns: rule.width ?? 1 };
     case 'densityTable': {
-      const points = shapes.points !== undefined && Number.isInteger(shapes.points) && shapes.points > 0 ? shapes.points : DEFAULT_POINTS;
+      const points =
+        shapes.points !== undefined && Number.isInteger(shapes.points) && shapes.points > 0
+          ? shapes.points
+          : DEFAULT_POINTS;
       return { rows: points, columns: 1 + Math.max(1, variants - (rule.seriesLessThanVariants ?? 0)) };
     }
     case 'byDay':

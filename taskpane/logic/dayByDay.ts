@@ -26,7 +26,8 @@ export interface DailyTable {
   readonly dayLabels: readonly CellValue[];
 }
 
-export type DailyReading = { readonly ok: true; readonly table: DailyTable } | { readonly ok: false; readonly problems: string[] };
+export type DailyReading =
+  { readonly ok: true; readonly table: DailyTable } | { readonly ok: false; readonly problems: string[] };
 
 const isBlank = (v: CellValue | undefined): boolean => v === undefined || v === '' || v === null;
 
@@ -52,7 +53,8 @@ export function readDailyTable(values: readonly (readonly CellValue[])[]): Daily
   }
   const k = counts / 2;
   if (k > MAX_VARIANTS) return { ok: false, problems: [`at most ${MAX_VARIANTS} variants, got ${k}`] };
-  if (values.length - 1 > MAX_DAYS) return { ok: false, problems: [`at most ${MAX_DAYS} days, got ${values.length - 1}`] };
+  if (values.length - 1 > MAX_DAYS)
+    return { ok: false, problems: [`at most ${MAX_DAYS} days, got ${values.length - 1}`] };
   const names = Array.from({ length: k }, (_, i) => {
     const text = String(header[1 + i] ?? '').trim();
     const name = text.replace(/\s*visitors$/i, '').trim();
@@ -79,7 +81,8 @@ export function readDailyTable(values: readonly (readonly CellValue[])[]): Daily
     });
     if (visitors.length === k && conversions.length === k) {
       conversions.forEach((x, i) => {
-        if (x > visitors[i]!) problems.push(`row ${r + 2}: ${names[i]} has more conversions (${x}) than visitors (${visitors[i]})`);
+        if (x > visitors[i]!)
+          problems.push(`row ${r + 2}: ${names[i]} has more conversions (${x}) than visitors (${visitors[i]})`);
       });
     }
     days.push({ visitors, conversions });
@@ -109,9 +112,15 @@ export interface DailyVerdict {
  * once over the table (≤ 1 ms per day and variant in the bench).
  * Throws StatsError from the core for counts it rejects.
  */
-export function dailyVerdict(table: DailyTable, threshold: number, locale: NumberLocale = DEFAULT_LOCALE): DailyVerdict {
+export function dailyVerdict(
+  table: DailyTable,
+  threshold: number,
+  locale: NumberLocale = DEFAULT_LOCALE,
+): DailyVerdict {
   const rows = table.days.filter((d): d is { visitors: number[]; conversions: number[] } => d !== null);
-  const probs = probAboveControlByDay(rows.map((d) => d.visitors.map((v, i) => ({ visitors: v, conversions: d.conversions[i]! }))));
+  const probs = probAboveControlByDay(
+    rows.map((d) => d.visitors.map((v, i) => ({ visitors: v, conversions: d.conversions[i]! }))),
+  );
   const split = srmPValueByDay(rows.map((d) => d.visitors));
   const last = probs[probs.length - 1] ?? [];
   const splitPValue = split[split.length - 1] ?? null;
@@ -154,7 +163,12 @@ export interface DailySource {
 /** The block and the addresses of its parts. */
 export interface DailyBlock {
   readonly block: FormulaBlock;
-  readonly cells: { readonly threshold: string; readonly verdict: string; readonly firstProb: string; readonly split: string };
+  readonly cells: {
+    readonly threshold: string;
+    readonly verdict: string;
+    readonly firstProb: string;
+    readonly split: string;
+  };
   /** The chart's source: the header row and the day rows, day column to split-check column. */
   readonly chartSource: string;
   readonly chartTopLeft: string;
@@ -178,7 +192,8 @@ export function dailyBlock(source: DailySource, threshold: number, topLeft: stri
   const days = table.end.row - table.start.row;
   const first = table.start.row + 1;
   const ref = (row: number, column: number, rows = 1, columns = 1): string => {
-    const local = rows === 1 && columns === 1 ? cellAddress({ row, column }) : rangeAddress({ row, column }, rows, columns);
+    const local =
+      rows === 1 && columns === 1 ? cellAddress({ row, column }) : rangeAddress({ row, column }, rows, columns);
     return source.sheet !== undefined && source.sheet !== sheet ? `${quoteSheet(source.sheet)}!${local}` : local;
   };
   const visitors = ref(first, table.start.column + 1, days, k);
@@ -193,7 +208,12 @@ export function dailyBlock(source: DailySource, threshold: number, topLeft: stri
   const formats: (string | null)[][] = [];
   const blankRow = (): CellValue[] => Array<CellValue>(columns).fill('');
   cells.push(['Day by day (Lift Ledger)', ...Array<CellValue>(columns - 1).fill('')]);
-  cells.push(['Day', ...source.names.slice(1).map((n) => `P(${n} beats control)`), "Plan's threshold", 'Split check p-value']);
+  cells.push([
+    'Day',
+    ...source.names.slice(1).map((n) => `P(${n} beats control)`),
+    "Plan's threshold",
+    'Split check p-value',
+  ]);
   formats.push(Array(columns).fill(null), Array(columns).fill(null));
   for (let d = 0; d < days; d++) {
     const row = blankRow();

@@ -83,14 +83,35 @@ export function mathPieces(text: string): MathPiece[] {
 
 /** The method in plain words, before its formula, for the functions whose method is an integral. */
 const PLAIN_METHODS: readonly [RegExp, string][] = [
-  [/PROB_HIGHEST$/, 'In words: for every possible value, the chance that this variant has that value while every other variant is below it, added up over all values.'],
-  [/PROB_ABOVE_CONTROL$/, 'In words: for every possible value of the challenger, the chance that the control is below it, averaged over what the challenger\'s value may be.'],
-  [/LIFT_INTERVAL$/, 'In words: for any lift r, the chance that the true lift is below r comes from averaging over what the control\'s value may be; the interval\'s ends are the lifts where that chance is (1 − level)/2 and 1 − (1 − level)/2, the median where it is ½.'],
-  [/DIFF_INTERVAL$/, 'In words: for any difference d, the chance that the true difference is below d comes from averaging over what the control\'s value may be; the interval\'s ends are where that chance is (1 − level)/2 and 1 − (1 − level)/2.'],
-  [/PROB_LIFT_ABOVE$/, 'In words: the chance that the challenger beats the control by more than min_lift, averaged over what the control\'s value may be.'],
-  [/DECISION$/, 'In words: the expected loss of each variant is worked out first; the variant with the smallest one is recommended once that loss is at most max_loss, otherwise the test should go on.'],
-  [/EXPECTED_LOSS$/, 'In words: how much you give up on average if you choose this variant and another one is in fact better; zero when it is surely the best.'],
-  [/^LIFT_DENSITY$/, 'In words: how plausible each lift is, from averaging over what the control\'s rate may be.'],
+  [
+    /PROB_HIGHEST$/,
+    'In words: for every possible value, the chance that this variant has that value while every other variant is below it, added up over all values.',
+  ],
+  [
+    /PROB_ABOVE_CONTROL$/,
+    "In words: for every possible value of the challenger, the chance that the control is below it, averaged over what the challenger's value may be.",
+  ],
+  [
+    /LIFT_INTERVAL$/,
+    "In words: for any lift r, the chance that the true lift is below r comes from averaging over what the control's value may be; the interval's ends are the lifts where that chance is (1 − level)/2 and 1 − (1 − level)/2, the median where it is ½.",
+  ],
+  [
+    /DIFF_INTERVAL$/,
+    "In words: for any difference d, the chance that the true difference is below d comes from averaging over what the control's value may be; the interval's ends are where that chance is (1 − level)/2 and 1 − (1 − level)/2.",
+  ],
+  [
+    /PROB_LIFT_ABOVE$/,
+    "In words: the chance that the challenger beats the control by more than min_lift, averaged over what the control's value may be.",
+  ],
+  [
+    /DECISION$/,
+    'In words: the expected loss of each variant is worked out first; the variant with the smallest one is recommended once that loss is at most max_loss, otherwise the test should go on.',
+  ],
+  [
+    /EXPECTED_LOSS$/,
+    'In words: how much you give up on average if you choose this variant and another one is in fact better; zero when it is surely the best.',
+  ],
+  [/^LIFT_DENSITY$/, "In words: how plausible each lift is, from averaging over what the control's rate may be."],
 ];
 
 /** Why a formula could not be explained. */
@@ -152,7 +173,7 @@ export function parseAbtestCall(formula: string): ParsedCall | null {
   for (let i = open; i < formula.length; i += 1) {
     const ch = formula.charAt(i);
     if (quote !== null) {
-      if (ch === quote) quote = formula.charAt(i + 1) === quote ? (i += 1, quote) : null;
+      if (ch === quote) quote = formula.charAt(i + 1) === quote ? ((i += 1), quote) : null;
       continue;
     }
     if (ch === '"' || ch === "'") quote = ch;
@@ -225,7 +246,9 @@ function spillOf(anchor: string, dataReference: string, count: number): string {
     const data = parseAddress(dataReference.trim());
     const start = parseAddress(anchor).start;
     const alongRow = data.start.row === data.end.row && data.end.column > data.start.column;
-    const end = alongRow ? { row: start.row, column: start.column + count - 1 } : { row: start.row + count - 1, column: start.column };
+    const end = alongRow
+      ? { row: start.row, column: start.column + count - 1 }
+      : { row: start.row + count - 1, column: start.column };
     return `${cellAddress(start)}:${cellAddress(end)}`;
   } catch {
     return `${anchor}#`;
@@ -253,7 +276,10 @@ function highestCheck(pairwise: CrossCheck, dataReference: string, anchor: strin
       count === null
         ? `an upper limit for the second variant's value: ${bound}; with more variants its chance of the highest ${noun} is lower`
         : `that the ${count} values add up to 1 (first formula), and an upper limit for the second variant's value: ${bound} (second formula). With ${count} variants its chance of the highest ${noun} is lower than that, so the two numbers do not match`,
-    formulas: count === null ? [...pairwise.formulas] : [`=SUM(${spillOf(anchor, dataReference, count)})`, ...pairwise.formulas],
+    formulas:
+      count === null
+        ? [...pairwise.formulas]
+        : [`=SUM(${spillOf(anchor, dataReference, count)})`, ...pairwise.formulas],
   };
 }
 
@@ -287,12 +313,16 @@ function percent(levelText: string): string {
 export function explainFormula(formula: string, anchor: string): Explanation | NotExplained {
   const call = parseAbtestCall(formula);
   if (call === null) {
-    return { problem: 'this cell holds no =ABTEST. formula; select a cell with one (the first cell of a spilled result)' };
+    return {
+      problem: 'this cell holds no =ABTEST. formula; select a cell with one (the first cell of a spilled result)',
+    };
   }
   const signature = SIGNATURES[call.name];
   if (signature === undefined) return { problem: `ABTEST.${call.name} is not one of Lift Ledger's functions` };
   if (call.args.length > signature.args.length) {
-    return { problem: `ABTEST.${call.name} takes at most ${signature.args.length} arguments; this formula gives ${call.args.length}` };
+    return {
+      problem: `ABTEST.${call.name} takes at most ${signature.args.length} arguments; this formula gives ${call.args.length}`,
+    };
   }
   const args: CallArgument[] = signature.args.map((name, i) => ({
     name,
@@ -337,12 +367,7 @@ function gammaPriorWords(get: Getter): string {
     : `a Gamma(${get('prior_shape')}, ${get('prior_rate') === '' ? '0' : get('prior_rate')}) prior`;
 }
 
-function describeCall(
-  name: string,
-  get: Getter,
-  or: Defaulting,
-  anchor: string,
-): CallWords | null {
+function describeCall(name: string, get: Getter, or: Defaulting, anchor: string): CallWords | null {
   const x = get('conversions');
   const n = get('visitors');
   const a = or('prior_alpha', '1');
@@ -374,7 +399,7 @@ function describeCall(
         summary: `The posterior mean conversion rate of each variant, from ${on}, with ${betaPriorWords(get)}.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the first variant\'s value, by the closed form (alpha + conversions)/(alpha + beta + visitors)',
+          what: "the first variant's value, by the closed form (alpha + conversions)/(alpha + beta + visitors)",
           formulas: [`=(${a}+${x1})/(${a}+${b}+${n1})`],
         },
       };
@@ -391,7 +416,7 @@ function describeCall(
             }
           : {
               kind: 'reproduces',
-              what: 'the first variant\'s lower and upper bounds, with Excel\'s Beta quantile',
+              what: "the first variant's lower and upper bounds, with Excel's Beta quantile",
               formulas: [`=BETA.INV(${tail},${postA1},${postB1})`, `=BETA.INV(1-${tail},${postA1},${postB1})`],
             },
       };
@@ -410,7 +435,7 @@ function describeCall(
     case 'RATE_DIFF_INTERVAL': {
       const lift = name === 'LIFT_INTERVAL';
       return {
-        summary: `For each challenger, the ${percent(level)} credible interval and median of the ${lift ? 'relative lift (its rate ÷ the control\'s rate − 1)' : 'difference in rate (its rate − the control\'s rate, in rate units)'}, from ${on}, with ${betaPriorWords(get)}. It spills lower, median, upper; the control's row is empty.`,
+        summary: `For each challenger, the ${percent(level)} credible interval and median of the ${lift ? "relative lift (its rate ÷ the control's rate − 1)" : "difference in rate (its rate − the control's rate, in rate units)"}, from ${on}, with ${betaPriorWords(get)}. It spills lower, median, upper; the control's row is empty.`,
         crossCheck: null,
       };
     }
@@ -426,7 +451,7 @@ function describeCall(
       };
     case 'DECISION':
       return {
-        summary: `One sentence: which variant to choose, if its expected loss is at most ${get('max_loss') === '' ? '1% of the control\'s posterior mean rate (the default)' : get('max_loss')}; otherwise that more data is needed, naming the current leader and its loss. From ${on}${get('labels') === '' ? '' : `, names in ${get('labels')}`}, with ${betaPriorWords(get)}.`,
+        summary: `One sentence: which variant to choose, if its expected loss is at most ${get('max_loss') === '' ? "1% of the control's posterior mean rate (the default)" : get('max_loss')}; otherwise that more data is needed, naming the current leader and its loss. From ${on}${get('labels') === '' ? '' : `, names in ${get('labels')}`}, with ${betaPriorWords(get)}.`,
         crossCheck: null,
       };
     case 'POSTERIOR_DENSITY':
@@ -434,7 +459,7 @@ function describeCall(
         summary: `A table for a chart: ${or('points', '101')} rows; the first column is a grid of conversion rates, then one column per variant with its posterior density, from ${on}, with ${betaPriorWords(get)}.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the first variant\'s density in the first row, with Excel\'s Beta density at the grid value in this cell',
+          what: "the first variant's density in the first row, with Excel's Beta density at the grid value in this cell",
           formulas: [`=BETA.DIST(${anchor},${postA1},${postB1},FALSE)`],
         },
       };
@@ -448,7 +473,11 @@ function describeCall(
       const s = get('strength');
       return {
         summary: `A Beta prior (alpha, beta in one row) with mean ${m} and worth ${s} visitors (alpha + beta = ${s}).`,
-        crossCheck: { kind: 'reproduces', what: 'alpha and beta', formulas: [`=${p(m)}*${p(s)}`, `=(1-${p(m)})*${p(s)}`] },
+        crossCheck: {
+          kind: 'reproduces',
+          what: 'alpha and beta',
+          formulas: [`=${p(m)}*${p(s)}`, `=(1-${p(m)})*${p(s)}`],
+        },
       };
     }
     case 'PRIOR_FROM_INTERVAL': {
@@ -498,7 +527,7 @@ function describeCall(
         summary: `Visitors per variant for the classic two-proportion z-test: baseline rate ${base}, relative lift ${lift}, significance level ${or('alpha', '0.05')}, power ${or('power', '0.8')}, ${or('sides', '2')}-sided; rounded up.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the size, with Excel\'s normal quantile',
+          what: "the size, with Excel's normal quantile",
           formulas: [classicFormula(base, lift, or('alpha', '0.05'), or('power', '0.8'), or('sides', '2'))],
         },
       };
@@ -511,7 +540,7 @@ function describeCall(
         summary: `The p-value of the chi-square test of the visitors in ${v} against the planned split (${shares === '' ? 'equal shares' : `shares in ${shares}`}). A value below 0.001 says the split looks broken (sample ratio mismatch).`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the p-value with Excel\'s CHISQ.TEST on observed and expected visitors',
+          what: "the p-value with Excel's CHISQ.TEST on observed and expected visitors",
           formulas: [`=CHISQ.TEST(${v},${expected})`],
         },
       };
@@ -552,7 +581,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
           summary: `The ${percent(level)} credible interval for each variant's mean, from ${on}.`,
           crossCheck: {
             kind: 'reproduces',
-            what: 'the first variant\'s lower and upper bounds with Excel\'s Student t quantile',
+            what: "the first variant's lower and upper bounds with Excel's Student t quantile",
             formulas: [
               `=${m1}-T.INV(1-(1-${p(level)})/2,${c1}-1)*${s1}/SQRT(${c1})`,
               `=${m1}+T.INV(1-(1-${p(level)})/2,${c1}-1)*${s1}/SQRT(${c1})`,
@@ -579,7 +608,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
           summary: `For each challenger, the ${percent(level)} credible interval and median of its mean − the control's mean, from ${on}.`,
           crossCheck: {
             kind: 'approximates',
-            what: 'the first challenger\'s lower and upper bounds by a normal approximation (close for large counts)',
+            what: "the first challenger's lower and upper bounds by a normal approximation (close for large counts)",
             formulas: [
               `=${m2}-${m1}-NORM.S.INV(1-(1-${p(level)})/2)*${se}`,
               `=${m2}-${m1}+NORM.S.INV(1-(1-${p(level)})/2)*${se}`,
@@ -602,7 +631,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
           summary: `For each challenger, the probability that its true mean is more than min_lift (${get('min_lift')}) above the control's, relative (a negative min_lift asks "no worse than"), from ${on}.`,
           crossCheck: {
             kind: 'approximates',
-            what: 'for the first challenger, a normal approximation of its mean minus (1 + min_lift) × the control\'s (close for large counts and a control mean far from 0)',
+            what: "for the first challenger, a normal approximation of its mean minus (1 + min_lift) × the control's (close for large counts and a control mean far from 0)",
             formulas: [`=NORM.S.DIST((${m2}-${k}*${m1})/SQRT(${s2}^2/${c2}+${k}^2*${s1}^2/${c1}),TRUE)`],
           },
         };
@@ -635,7 +664,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
         summary: `The ${percent(level)} credible interval for each variant's events per unit of exposure, from ${on}.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the first variant\'s bounds with Excel\'s Gamma quantile (GAMMA.INV takes a scale, 1/rate)',
+          what: "the first variant's bounds with Excel's Gamma quantile (GAMMA.INV takes a scale, 1/rate)",
           formulas: [
             `=GAMMA.INV((1-${p(level)})/2,${shape1},1/(${rate1}))`,
             `=GAMMA.INV(1-(1-${p(level)})/2,${shape1},1/(${rate1}))`,
@@ -646,7 +675,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
     case 'EVENTS_PROB_ABOVE_CONTROL': {
       const pairwise: CrossCheck = {
         kind: 'reproduces',
-        what: 'the first challenger\'s value, by the regularized incomplete beta closed form',
+        what: "the first challenger's value, by the regularized incomplete beta closed form",
         formulas: [`=BETA.DIST((${rate1})/((${rate1})+(${rate2})),${shape1},${shape2},TRUE)`],
       };
       return {
@@ -664,7 +693,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
         summary: `For each challenger, the ${percent(level)} credible interval and median of its event rate ÷ the control's − 1, from ${on}.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the first challenger\'s lower bound, median and upper bound with Excel\'s Beta quantile',
+          what: "the first challenger's lower bound, median and upper bound with Excel's Beta quantile",
           formulas: [lift(`(1-${p(level)})/2`), lift('0.5'), lift(`1-(1-${p(level)})/2`)],
         },
       };
@@ -680,7 +709,7 @@ function describeMeanOrEvents(name: string, get: Getter, or: Defaulting, anchor:
         summary: `For each challenger, the probability that its true event rate is more than min_lift (${get('min_lift')}) above the control's, relative (a negative min_lift asks "no worse than"), from ${on}.`,
         crossCheck: {
           kind: 'reproduces',
-          what: 'the first challenger\'s value, by the regularized incomplete beta closed form (rate_B > (1 + min_lift) × rate_A)',
+          what: "the first challenger's value, by the regularized incomplete beta closed form (rate_B > (1 + min_lift) × rate_A)",
           formulas: [`=BETA.DIST((${rate1})/((${rate1})+${k}*(${rate2})),${shape1},${shape2},TRUE)`],
         },
       };
@@ -709,8 +738,15 @@ function describeRevenue(name: string, get: Getter, or: Defaulting, anchor: stri
   const sd = get('order_sd');
   const on =
     `orders in ${orders}, visitors in ${visitors} and revenue in ${revenue}` +
-    (sd === '' ? ', order values taken as exponential (no order_sd given)' : `, with the order values' standard deviations in ${sd}`);
-  const item = (i: number) => ({ o: itemOf(orders, i), v: itemOf(visitors, i), r: itemOf(revenue, i), s: sd === '' ? '' : itemOf(sd, i) });
+    (sd === ''
+      ? ', order values taken as exponential (no order_sd given)'
+      : `, with the order values' standard deviations in ${sd}`);
+  const item = (i: number) => ({
+    o: itemOf(orders, i),
+    v: itemOf(visitors, i),
+    r: itemOf(revenue, i),
+    s: sd === '' ? '' : itemOf(sd, i),
+  });
   const variance = (i: number): string => {
     const { o, v, r, s } = item(i);
     const orderValue = s === '' ? `1/${o}` : `(${s}/(${r}/${o}))^2/${o}`;
@@ -742,7 +778,8 @@ function describeRevenue(name: string, get: Getter, or: Defaulting, anchor: stri
           name === 'REVENUE_PROB_HIGHEST'
             ? `The probability that each variant has the highest true revenue per visitor, from ${on}. The values add up to 1.`
             : `For each challenger, the probability that its true revenue per visitor is above the control's, from ${on}.`,
-        crossCheck: name === 'REVENUE_PROB_HIGHEST' ? highestCheck(pairwise, orders, anchor, 'revenue per visitor') : pairwise,
+        crossCheck:
+          name === 'REVENUE_PROB_HIGHEST' ? highestCheck(pairwise, orders, anchor, 'revenue per visitor') : pairwise,
       };
     }
     case 'REVENUE_LIFT_INTERVAL':

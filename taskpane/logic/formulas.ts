@@ -119,7 +119,12 @@ function at(origin: CellPosition, row: number, column: number): string {
  * columns (label, value). Cost O(1).
  * @example planBlock(inputs, "A1").cells.visitorsPerVariant //=> "B12"
  */
-export function planBlock(inputs: PlanInputs, topLeft: string, sheet?: string, source: ThresholdSource = PLAN_THRESHOLD_SOURCE): LabelledBlock {
+export function planBlock(
+  inputs: PlanInputs,
+  topLeft: string,
+  sheet?: string,
+  source: ThresholdSource = PLAN_THRESHOLD_SOURCE,
+): LabelledBlock {
   const origin = parseAddress(topLeft).start;
   const rows: [string, CellValue, string | null][] = [];
   const names: Record<string, string> = {};
@@ -217,7 +222,6 @@ export interface ReadoutBlock extends LabelledBlock {
   readonly chartBottomRight: string;
 }
 
-
 /** What the expected-loss column means, written under the table (the loss is a difference of rates, not a relative change). */
 export const LOSS_NOTE =
   'Expected loss is in conversion-rate points: 0.300% means choosing that variant gives up 0.3 percentage points ' +
@@ -238,7 +242,11 @@ function guardrailBand(guardrails: number): number {
  * guardrails. Cost O(1).
  * @example readoutArea(3, 61) //=> { rowCount: 77, columnCount: 11 }
  */
-export function readoutArea(variants: number, densityPoints: number, guardrails = 0): { rowCount: number; columnCount: number } {
+export function readoutArea(
+  variants: number,
+  densityPoints: number,
+  guardrails = 0,
+): { rowCount: number; columnCount: number } {
   return {
     rowCount: variants + 13 + densityPoints + guardrailBand(guardrails),
     columnCount: Math.max(READOUT_WIDTH + guardrails, variants + 1 + CHART_COLUMNS),
@@ -292,7 +300,8 @@ export function readoutBlock(
   };
   // References to the table, qualified when the block is on another sheet.
   const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
-  const ref = (local: string): string => (other ? referenceFrom(sheet as string, source.sheet as string, local) : local);
+  const ref = (local: string): string =>
+    other ? referenceFrom(sheet as string, source.sheet as string, local) : local;
 
   const level = at(origin, settingsRow, 1);
   const alpha = at(origin, settingsRow + 1, 1);
@@ -354,7 +363,11 @@ export function readoutBlock(
   names.maxLoss = put(settingsRow + 3, 1, `=0.01*${controlMean}`, '0.000%');
   put(settingsRow + 4, 0, 'Decision');
   names.decision = put(settingsRow + 4, 1, `=ABTEST.DECISION(${conv},${vis},${names.maxLoss},${labels}${prior})`);
-  put(settingsRow + 5, 0, source.sharesRef === null ? 'Split check: SRM p-value (equal shares)' : 'Split check: SRM p-value (planned shares)');
+  put(
+    settingsRow + 5,
+    0,
+    source.sharesRef === null ? 'Split check: SRM p-value (equal shares)' : 'Split check: SRM p-value (planned shares)',
+  );
   const shares = source.sharesRef === null ? '' : `,${ref(source.sharesRef)}`;
   names.srmPValue = put(settingsRow + 5, 1, `=ABTEST.SRM_PVALUE(${vis}${shares})`, '0.0000');
   names.srmVerdict = put(
@@ -364,7 +377,8 @@ export function readoutBlock(
   );
 
   const guardrailRefs: Partial<Record<MetricRole, string>> = {};
-  for (const [role, local] of Object.entries(source.refs ?? {}) as [MetricRole, string][]) guardrailRefs[role] = ref(local);
+  for (const [role, local] of Object.entries(source.refs ?? {}) as [MetricRole, string][])
+    guardrailRefs[role] = ref(local);
   Object.assign(
     names,
     writeGuardrails(
@@ -384,12 +398,17 @@ export function readoutBlock(
       {
         put,
         formatColumn,
-        rangeAt: (row, column, rows) => rangeAddress({ row: origin.row + row, column: origin.column + column }, rows, 1),
+        rangeAt: (row, column, rows) =>
+          rangeAddress({ row: origin.row + row, column: origin.column + column }, rows, 1),
       },
     ),
   );
 
-  put(densityTitleRow, 0, 'Lift densities, for the chart: lift relative to the control (first column), density of each challenger');
+  put(
+    densityTitleRow,
+    0,
+    'Lift densities, for the chart: lift relative to the control (first column), density of each challenger',
+  );
   names.densityHeader = put(densityHeaderRow, 0, 'Lift');
   for (let i = 1; i < k; i += 1) {
     put(densityHeaderRow, i, `=${cellAddress({ row: origin.row + 2 + i, column: origin.column })}`);
@@ -416,13 +435,25 @@ export function readoutBlock(
     { row: densityHeaderRow, column: 0, columnCount: k, style: { bold: true } },
   ];
   if (settings.currentSrmPValue < SRM_ALARM) {
-    styles.push({ row: settingsRow + 5, column: 1, columnCount: 2, style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true } });
+    styles.push({
+      row: settingsRow + 5,
+      column: 1,
+      columnCount: 2,
+      style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true },
+    });
   }
 
-  const chartSource = rangeAddress({ row: origin.row + densityHeaderRow, column: origin.column }, settings.densityPoints + 1, k);
+  const chartSource = rangeAddress(
+    { row: origin.row + densityHeaderRow, column: origin.column },
+    settings.densityPoints + 1,
+    k,
+  );
   const chartLeft = origin.column + k + 1;
   const chartTopLeft = cellAddress({ row: origin.row + densityHeaderRow, column: chartLeft });
-  const chartBottomRight = cellAddress({ row: origin.row + Math.min(height - 1, densityHeaderRow + 16), column: chartLeft + CHART_COLUMNS - 1 });
+  const chartBottomRight = cellAddress({
+    row: origin.row + Math.min(height - 1, densityHeaderRow + 16),
+    column: chartLeft + CHART_COLUMNS - 1,
+  });
   names.chartSource = chartSource;
   return {
     block: {

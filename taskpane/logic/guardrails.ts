@@ -43,7 +43,11 @@ export function dataArgs(kind: MetricKind, ref: (role: MetricRole) => string): s
  * @example guardrailFormula('revenue', { conversions: 'B2:B3', visitors: 'C2:C3', revenue: 'D2:D3' }, 'B9')
  * //=> "=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B3,C2:C3,D2:D3,B9)"
  */
-export function guardrailFormula(kind: MetricKind, refs: Readonly<Partial<Record<MetricRole, string>>>, limitCell: string): string {
+export function guardrailFormula(
+  kind: MetricKind,
+  refs: Readonly<Partial<Record<MetricRole, string>>>,
+  limitCell: string,
+): string {
   const ref = (role: MetricRole): string => {
     const r = refs[role];
     if (r === undefined) throw new RangeError(`the guardrail on ${KIND_SHORT[kind]} needs its ${role} column`);
@@ -129,7 +133,11 @@ export function writeGuardrails(
     const required = writer.put(row + 1, 1, g.required, '0%');
     names[`guardrail${n}Limit`] = limit;
     names[`guardrail${n}Required`] = required;
-    writer.put(place.headerRow, column, `="Guardrail ${n}: P(${KIND_SHORT[g.kind]} lift > "&ROUND(100*${limit},2)&"%)"`);
+    writer.put(
+      place.headerRow,
+      column,
+      `="Guardrail ${n}: P(${KIND_SHORT[g.kind]} lift > "&ROUND(100*${limit},2)&"%)"`,
+    );
     names[`guardrail${n}`] = writer.put(place.headerRow + 1, column, guardrailFormula(g.kind, refs, limit));
     writer.formatColumn(place.headerRow + 1, column, '0.0%');
     const p = `INDEX(${writer.rangeAt(place.headerRow + 1, column, place.variants)},${index})`;

@@ -215,7 +215,13 @@ export function detectableInWeeks(inputs: LooksPlanInputs, weeks: number): Detec
   if (looks.length === 0) {
     throw new RangeError(`fewer than one visitor per variant in ${weeks} week(s): the test cannot be looked at`);
   }
-  const threshold = thresholdForLooks(inputs.baselineRate, looks, falseAlarmPerChallenger(inputs.threshold, inputs.variants), 1, prior);
+  const threshold = thresholdForLooks(
+    inputs.baselineRate,
+    looks,
+    falseAlarmPerChallenger(inputs.threshold, inputs.variants),
+    1,
+    prior,
+  );
   const n = looks[looks.length - 1]!;
   let lift: number | null;
   try {

@@ -32,7 +32,9 @@ export interface MetricSettings {
 const TABLE_WIDTH = 10;
 
 /** The unit words of each kind's values and losses. */
-const UNITS: Readonly<Record<Exclude<MetricKind, 'conversions'>, { value: string; loss: string; format: string; note: string }>> = {
+const UNITS: Readonly<
+  Record<Exclude<MetricKind, 'conversions'>, { value: string; loss: string; format: string; note: string }>
+> = {
   revenue: {
     value: 'Revenue per visitor (observed)',
     loss: 'Expected loss (revenue per visitor)',
@@ -64,7 +66,10 @@ function at(origin: CellPosition, row: number, column: number): string {
  * @example metricReadoutArea(3, 1) //=> { rowCount: 16, columnCount: 11 }
  */
 export function metricReadoutArea(variants: number, guardrails: number): { rowCount: number; columnCount: number } {
-  return { rowCount: variants + 10 + guardrailRows(guardrails), columnCount: Math.max(TABLE_WIDTH + guardrails, variants) };
+  return {
+    rowCount: variants + 10 + guardrailRows(guardrails),
+    columnCount: Math.max(TABLE_WIDTH + guardrails, variants),
+  };
 }
 
 /**
@@ -107,7 +112,8 @@ export function metricReadoutBlock(
     for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
   };
   const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
-  const qualify = (local: string): string => (other ? referenceFrom(sheet as string, source.sheet as string, local) : local);
+  const qualify = (local: string): string =>
+    other ? referenceFrom(sheet as string, source.sheet as string, local) : local;
   const refs: Partial<Record<MetricRole, string>> = {};
   for (const [role, local] of Object.entries(source.refs) as [MetricRole, string][]) refs[role] = qualify(local);
   const ref = (role: MetricRole): string => {
@@ -149,7 +155,9 @@ export function metricReadoutBlock(
     put(
       2 + i,
       0,
-      source.namesRef === null ? variantLetter(i) : `=${qualify(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`,
+      source.namesRef === null
+        ? variantLetter(i)
+        : `=${qualify(cellAddress({ row: namesStart.row + i, column: namesStart.column }))}`,
     );
     const observed =
       kind === 'revenue'
@@ -193,7 +201,11 @@ export function metricReadoutBlock(
     put(settingsRow + 3, 0, 'Split check: check the split on the visitors (exposure is not a count of visitors)');
   } else {
     const counted = kind === 'revenue' ? ref('visitors') : ref('count');
-    put(settingsRow + 3, 0, `Split check: SRM p-value on the ${kind === 'revenue' ? 'visitors' : 'counts'} (equal shares)`);
+    put(
+      settingsRow + 3,
+      0,
+      `Split check: SRM p-value on the ${kind === 'revenue' ? 'visitors' : 'counts'} (equal shares)`,
+    );
     names.srmPValue = put(settingsRow + 3, 1, `=ABTEST.SRM_PVALUE(${counted})`, '0.0000');
     names.srmVerdict = put(
       settingsRow + 3,
@@ -201,7 +213,12 @@ export function metricReadoutBlock(
       `=IF(${names.srmPValue}<${numberLiteral(SRM_ALARM)},"split looks broken: check how visitors are assigned","split looks as planned")`,
     );
     if (settings.currentSrmPValue < SRM_ALARM) {
-      styles.push({ row: settingsRow + 3, column: 1, columnCount: 2, style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true } });
+      styles.push({
+        row: settingsRow + 3,
+        column: 1,
+        columnCount: 2,
+        style: { fillColor: WARNING_FILL, fontColor: WARNING_TEXT, bold: true },
+      });
     }
   }
   const writer = {

@@ -20,7 +20,8 @@ import { describeCell, MAX_LISTED, MAX_TABLE_ROWS, usedRows, type TableMapping }
 export type MetricKind = 'conversions' | 'revenue' | 'averages' | 'counts';
 
 /** A column a metric kind reads. */
-export type MetricRole = 'visitors' | 'conversions' | 'revenue' | 'orderSd' | 'count' | 'mean' | 'sd' | 'events' | 'exposure';
+export type MetricRole =
+  'visitors' | 'conversions' | 'revenue' | 'orderSd' | 'count' | 'mean' | 'sd' | 'events' | 'exposure';
 
 /** The kinds in the order the panel lists them. */
 export const METRIC_KINDS: readonly MetricKind[] = ['conversions', 'revenue', 'averages', 'counts'];
@@ -42,7 +43,9 @@ export const KIND_SHORT: Readonly<Record<MetricKind, string>> = {
 };
 
 /** The columns each kind needs, then its optional ones. */
-export const KIND_ROLES: Readonly<Record<MetricKind, { required: readonly MetricRole[]; optional: readonly MetricRole[] }>> = {
+export const KIND_ROLES: Readonly<
+  Record<MetricKind, { required: readonly MetricRole[]; optional: readonly MetricRole[] }>
+> = {
   conversions: { required: ['visitors', 'conversions'], optional: [] },
   revenue: { required: ['conversions', 'visitors', 'revenue'], optional: ['orderSd'] },
   averages: { required: ['count', 'mean', 'sd'], optional: [] },
@@ -108,7 +111,10 @@ export function availableKinds(columns: RoleColumns): MetricKind[] {
  * Cost O(rows · columns) with rows ≤ MAX_TABLE_ROWS. Never throws.
  * @example detectMetrics([["Variant","Orders","Visitors","Revenue"],["A",40,1000,2400],["B",52,1010,2990]], null).proposed //=> "revenue"
  */
-export function detectMetrics(values: readonly (readonly CellValue[])[], mapping: TableMapping | null): MetricDetection {
+export function detectMetrics(
+  values: readonly (readonly CellValue[])[],
+  mapping: TableMapping | null,
+): MetricDetection {
   const rows = Math.min(usedRows(values), MAX_TABLE_ROWS);
   const first = values[0] ?? [];
   let width = 0;
@@ -124,7 +130,15 @@ export function detectMetrics(values: readonly (readonly CellValue[])[], mapping
     }
   }
   const columns: Record<MetricRole, number | null> = {
-    visitors: null, conversions: null, revenue: null, orderSd: null, count: null, mean: null, sd: null, events: null, exposure: null,
+    visitors: null,
+    conversions: null,
+    revenue: null,
+    orderSd: null,
+    count: null,
+    mean: null,
+    sd: null,
+    events: null,
+    exposure: null,
   };
   const taken = new Set<number>(namesColumn === null ? [] : [namesColumn]);
   if (mapping !== null) {
@@ -203,7 +217,10 @@ export function checkMetrics(
     if (problems.length < MAX_LISTED) problems.push(text);
   };
   if (values.length > MAX_TABLE_ROWS) {
-    return { ok: false, problems: [`the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table`] };
+    return {
+      ok: false,
+      problems: [`the selection has more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows; select only the table`],
+    };
   }
   const rows = usedRows(values);
   const start = table.hasHeader ? 1 : 0;
@@ -246,9 +263,11 @@ export function checkMetrics(
     names.push(raw === undefined || raw === '' ? variantLetter(r - start) : String(raw));
   }
   if (names.length < 2) problem('a read-out needs at least two variants');
-  if (names.length > 50) problem(`at most 50 variants (the selection has ${names.length.toLocaleString('en-US')} data rows)`);
+  if (names.length > 50)
+    problem(`at most 50 variants (the selection has ${names.length.toLocaleString('en-US')} data rows)`);
   if (count > 0) {
-    if (count > problems.length) problems.push(`and ${(count - problems.length).toLocaleString('en-US')} more problems of the same kinds`);
+    if (count > problems.length)
+      problems.push(`and ${(count - problems.length).toLocaleString('en-US')} more problems of the same kinds`);
     return { ok: false, problems };
   }
   return { ok: true, names, values: out, firstRow: start, lastRow: rows - 1 };
@@ -275,7 +294,9 @@ export function orderSdWarnings(
     const sd = orderSd[i] as number;
     const average = (revenue[i] as number) / o;
     if (!(o > 0) || !(average > 0) || !(sd >= ORDER_SD_WARNING_RATIO * average)) return;
-    out.push(`${name}: order sd ${+sd.toPrecision(6)} is ${(sd / average).toFixed(1)} × the average order value ${+average.toPrecision(6)}`);
+    out.push(
+      `${name}: order sd ${+sd.toPrecision(6)} is ${(sd / average).toFixed(1)} × the average order value ${+average.toPrecision(6)}`,
+    );
   });
   return out;
 }

@@ -43,7 +43,11 @@ export const PRIOR_WEIGHT_RULE =
  * planned size that is not a positive number.
  * @example summarizePrior({ alpha: 20, beta: 480 }, 10000).weight //=> "light" (mean 0.04, worth 500)
  */
-export function summarizePrior(prior: BetaPrior, plannedPerVariant: number, locale: NumberLocale = DEFAULT_LOCALE): PriorSummary {
+export function summarizePrior(
+  prior: BetaPrior,
+  plannedPerVariant: number,
+  locale: NumberLocale = DEFAULT_LOCALE,
+): PriorSummary {
   if (!(plannedPerVariant > 0) || !Number.isFinite(plannedPerVariant)) {
     throw new RangeError('the planned visitors per variant must be a positive number');
   }
@@ -51,7 +55,8 @@ export function summarizePrior(prior: BetaPrior, plannedPerVariant: number, loca
   const low90 = betaQuantile(0.05, alpha, beta);
   const high90 = betaQuantile(0.95, alpha, beta);
   const worth = alpha + beta;
-  const weight: PriorWeight = worth > plannedPerVariant ? 'dominant' : worth > plannedPerVariant / 4 ? 'noticeable' : 'light';
+  const weight: PriorWeight =
+    worth > plannedPerVariant ? 'dominant' : worth > plannedPerVariant / 4 ? 'noticeable' : 'light';
   const worthText = formatCount(worth, locale);
   const plannedText = formatCount(plannedPerVariant, locale);
   const warning =

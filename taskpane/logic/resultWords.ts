@@ -58,7 +58,11 @@ export function resultSize(shape: ResultShape, data: { rows: number; columns: nu
     }
     case 'byDay':
       // One row per day of the day table; one column per challenger, or one column of daily values.
-      return { rows: data.rows, columns: shape.per === 'challenger' ? Math.max(1, data.columns - 1) : 1, alongRow: false };
+      return {
+        rows: data.rows,
+        columns: shape.per === 'challenger' ? Math.max(1, data.columns - 1) : 1,
+        alongRow: false,
+      };
   }
 }
 

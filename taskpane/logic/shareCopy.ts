@@ -13,7 +13,14 @@
  */
 import { frozenHeaderLine, frozenTime, howComputedNote, isAbtestResult } from '../../cli/core/frozenCopy';
 import { displayFormula, tokenize } from '../../cli/core/formula';
-import { cellAddress, columnLetters, parseAddress, quoteSheet, rangeAddress, type ParsedAddress } from '../workbook/address';
+import {
+  cellAddress,
+  columnLetters,
+  parseAddress,
+  quoteSheet,
+  rangeAddress,
+  type ParsedAddress,
+} from '../workbook/address';
 import { newSheetName } from '../workbook/placement';
 import type { Capabilities, FormulaCell, SheetCopyEdits, SheetScan } from '../workbook/workbook';
 import { OPTIONAL_API } from '../workbook/workbook';
@@ -58,7 +65,12 @@ export interface CopyPlan {
 }
 
 function overlaps(a: ParsedAddress, b: ParsedAddress): boolean {
-  return a.start.row <= b.end.row && b.start.row <= a.end.row && a.start.column <= b.end.column && b.start.column <= a.end.column;
+  return (
+    a.start.row <= b.end.row &&
+    b.start.row <= a.end.row &&
+    a.start.column <= b.end.column &&
+    b.start.column <= a.end.column
+  );
 }
 
 function contains(outer: ParsedAddress, inner: ParsedAddress): boolean {
@@ -95,7 +107,12 @@ export function readsOnlyInside(formula: string, sheet: string, keep: ParsedAddr
     if (token.type !== 'ref') continue;
     if (token.sheet !== undefined && token.sheet.name.toLowerCase() !== sheet.toLowerCase()) continue;
     const last = token.last ?? token.first;
-    if (token.first.row === undefined || token.first.col === undefined || last.row === undefined || last.col === undefined) {
+    if (
+      token.first.row === undefined ||
+      token.first.col === undefined ||
+      last.row === undefined ||
+      last.col === undefined
+    ) {
       return false;
     }
     const read: ParsedAddress = {
@@ -145,7 +162,8 @@ export function planCopy(scan: SheetScan, scope: CopyScope): CopyPlan {
   for (const cell of scan.formulaCells) {
     if (!inside(cell)) continue;
     if (isAbtestResult(cell.formula)) frozen.push({ ...cell, why: 'result' });
-    else if (keep !== null && !readsOnlyInside(cell.formula, scan.sheet, keep)) frozen.push({ ...cell, why: 'reads-outside' });
+    else if (keep !== null && !readsOnlyInside(cell.formula, scan.sheet, keep))
+      frozen.push({ ...cell, why: 'reads-outside' });
   }
   const results = frozen.filter((cell) => cell.why === 'result');
   const notReady = results
@@ -177,7 +195,8 @@ export function copyProblem(plan: CopyPlan): string | null {
       : `${where} holds no ABTEST result, so there is nothing to freeze`;
   }
   if (plan.notReady.length > 0) {
-    const cells = plan.notReady.slice(0, 6).join(', ') + (plan.notReady.length > 6 ? ` and ${plan.notReady.length - 6} more` : '');
+    const cells =
+      plan.notReady.slice(0, 6).join(', ') + (plan.notReady.length > 6 ? ` and ${plan.notReady.length - 6} more` : '');
     return `${plan.notReady.length === 1 ? 'a result is' : `${plan.notReady.length} results are`} still being computed (${cells}); wait until they show numbers, then make the copy`;
   }
   return null;
@@ -233,7 +252,10 @@ export function copyEdits(
   let formulasKept = 'in a note';
   let keepEnd = source.end.column;
   if (options.notes) {
-    notes = described.map(({ cell, at, formula, spill }) => ({ address: at, text: noteText(cell, formula, spill, options.frozenAt) }));
+    notes = described.map(({ cell, at, formula, spill }) => ({
+      address: at,
+      text: noteText(cell, formula, spill, options.frozenAt),
+    }));
   } else {
     const column = howComputedColumn(plan);
     keepEnd = column;
@@ -241,7 +263,10 @@ export function copyEdits(
     const byRow = new Map<number, string[]>();
     for (const { at, formula, spill, cell } of described) {
       const row = parseAddress(at).start.row;
-      const what = cell.why === 'result' ? displayFormula(formula) : `was ${displayFormula(formula)} (it read cells left out of this copy)`;
+      const what =
+        cell.why === 'result'
+          ? displayFormula(formula)
+          : `was ${displayFormula(formula)} (it read cells left out of this copy)`;
       const entry = `${at}: ${what}${spill ? ` (filled ${spill})` : ''}`;
       byRow.set(row, [...(byRow.get(row) ?? []), entry]);
     }

@@ -153,7 +153,8 @@ function listWords(items: readonly string[]): string {
 }
 
 /** What one line of the page is. */
-export type SummaryLineKind = 'title' | 'note' | 'heading' | 'text' | 'strong' | 'warning' | 'tableHead' | 'tableRow' | 'blank';
+export type SummaryLineKind =
+  'title' | 'note' | 'heading' | 'text' | 'strong' | 'warning' | 'tableHead' | 'tableRow' | 'blank';
 
 /** One row of the page: its kind, its cells (from column A) and their number formats. */
 export interface SummaryLine {
@@ -171,7 +172,11 @@ function levelWords(level: number): string {
  * The page, line by line, in plain words. Cost O(versions + guardrails).
  * @example summaryLines(input, summaryNumbers(input))[0] //=> { kind: 'title', cells: ['Summary for decision-makers: Sign-up form'] }
  */
-export function summaryLines(input: SummaryInput, numbers: SummaryNumbers, locale: NumberLocale = DEFAULT_LOCALE): SummaryLine[] {
+export function summaryLines(
+  input: SummaryInput,
+  numbers: SummaryNumbers,
+  locale: NumberLocale = DEFAULT_LOCALE,
+): SummaryLine[] {
   const lines: SummaryLine[] = [];
   const k = input.names.length;
   const label = (i: number): string => variantLabel(input.names[i] ?? '', i);
@@ -195,7 +200,8 @@ export function summaryLines(input: SummaryInput, numbers: SummaryNumbers, local
   );
 
   heading('What was tested');
-  const how = input.days === null ? '' : ` over ${formatCount(input.days, locale)} ${input.days === 1 ? 'day' : 'days'}`;
+  const how =
+    input.days === null ? '' : ` over ${formatCount(input.days, locale)} ${input.days === 1 ? 'day' : 'days'}`;
   const when = input.dates.trim() === '' ? '' : ` (${input.dates.trim()})`;
   paragraph(
     `${input.title}: ${k} versions, ${listWords(input.names.map((_, i) => label(i)))}, shown to ` +

@@ -369,9 +369,7 @@ export function checkTable(values: readonly (readonly CellValue[])[], mapping: T
         problem(`${label}: planned share ${isNumber(share) ? share : describeCell(share)} is not a number above 0`);
       shares.push(isNumber(share) ? share : NaN);
     }
-    names.push(
-      rawName === undefined || isBlank(rawName) ? variantLetter(r - start) : String(rawName),
-    );
+    names.push(rawName === undefined || isBlank(rawName) ? variantLetter(r - start) : String(rawName));
     visitors.push(isNumber(n) ? n : NaN);
     conversions.push(isNumber(x) ? x : NaN);
   }

@@ -120,7 +120,7 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook, options:
 
   const tabOf = (target: EventTarget | null): TabId | null => {
     const index = tabElements.findIndex((tab) => tab === target || tab.contains(target as Node));
-    return index < 0 ? null : ((TABS[index] as readonly [TabId, string])[0]);
+    return index < 0 ? null : (TABS[index] as readonly [TabId, string])[0];
   };
   tablist.addEventListener('change', () => {
     const active = (tablist as HTMLElement & { activeid?: string }).activeid ?? tablist.getAttribute('activeid') ?? '';
@@ -131,7 +131,14 @@ export async function mountPanel(root: HTMLElement, workbook: Workbook, options:
     const current = tabOf(event.target) ?? view.active;
     const index = TABS.findIndex(([id]) => id === current);
     const last = TABS.length - 1;
-    const moves: Record<string, number> = { ArrowRight: index + 1, ArrowDown: index + 1, ArrowLeft: index - 1, ArrowUp: index - 1, Home: 0, End: last };
+    const moves: Record<string, number> = {
+      ArrowRight: index + 1,
+      ArrowDown: index + 1,
+      ArrowLeft: index - 1,
+      ArrowUp: index - 1,
+      Home: 0,
+      End: last,
+    };
     if (event.key in moves) {
       const next = ((moves[event.key] as number) + TABS.length) % TABS.length;
       event.preventDefault();

@@ -39,7 +39,11 @@ export interface PanelContext {
  * A panel context with fresh state and its own listener lists. Cost O(1).
  * @example const context = createContext(workbook, (id) => tabs.open('cautions', id), localeOf('de-DE'))
  */
-export function createContext(workbook: Workbook, showCautions: (id?: string) => void, locale: NumberLocale = DEFAULT_LOCALE): PanelContext {
+export function createContext(
+  workbook: Workbook,
+  showCautions: (id?: string) => void,
+  locale: NumberLocale = DEFAULT_LOCALE,
+): PanelContext {
   const listeners = new Map<PanelEvent, (() => void)[]>();
   return {
     workbook,

@@ -23,19 +23,21 @@ import { writePlace } from './writePlace';
 export function daySection(context: PanelContext): HTMLElement {
   const root = el('section', { id: 'section-days', class: 'section', hidden: true });
   const useButton = button('days-use-selection', 'Use the selected table', 'primary');
-  const threshold = textField(
-    'days-threshold',
-    "The plan's threshold: P(beats control) at each look",
-    '95',
-    { unit: '%', hint: 'The Plan section fills this in with the threshold for the looks you planned.' },
-  );
+  const threshold = textField('days-threshold', "The plan's threshold: P(beats control) at each look", '95', {
+    unit: '%',
+    hint: 'The Plan section fills this in with the threshold for the looks you planned.',
+  });
   const tableInfo = el('div', { id: 'days-table', 'aria-live': 'polite' });
   const verdictArea = el('div', { id: 'days-verdict', 'aria-live': 'polite' });
   const insertButton = button('days-insert', 'Insert day by day', 'primary');
   setBusy(insertButton, true);
   const status = el('div', { id: 'days-status' });
   const place = writePlace(context, 'days');
-  const cautionLink = el('fluent-link', { href: '#', id: 'days-cautions' }, 'Why looking every day needs its own threshold');
+  const cautionLink = el(
+    'fluent-link',
+    { href: '#', id: 'days-cautions' },
+    'Why looking every day needs its own threshold',
+  );
   cautionLink.addEventListener('click', (event) => {
     event.preventDefault();
     context.showCautions('peeking');
@@ -97,11 +99,7 @@ export function daySection(context: PanelContext): HTMLElement {
     }
     try {
       const verdict = dailyVerdict(table, t, context.locale);
-      showMessage(
-        verdictArea,
-        verdict.splitBroken ? 'error' : verdict.mayStop ? 'success' : 'info',
-        verdict.text,
-      );
+      showMessage(verdictArea, verdict.splitBroken ? 'error' : verdict.mayStop ? 'success' : 'info', verdict.text);
       setBusy(insertButton, false);
     } catch (error) {
       showMessage(verdictArea, 'error', `Cannot read the test: ${(error as Error).message}`);
@@ -119,7 +117,11 @@ export function daySection(context: PanelContext): HTMLElement {
         view.table = null;
         view.selection = null;
         tableInfo.replaceChildren(
-          el('p', { class: 'error-text', id: 'days-problems' }, `The table has problems: ${reading.problems.join('; ')}.`),
+          el(
+            'p',
+            { class: 'error-text', id: 'days-problems' },
+            `The table has problems: ${reading.problems.join('; ')}.`,
+          ),
         );
         showMessage(verdictArea, 'info', null);
         place.reset();

@@ -48,10 +48,21 @@ export interface FieldOptions {
  */
 export function textField(id: string, label: string, value: string, options: FieldOptions | string = {}): Field {
   const { hint, unit } = typeof options === 'string' ? { hint: options, unit: undefined } : options;
-  const input = el('fluent-text-input', { id, value, slot: 'input', 'data-field': id, ...(unit ? { 'data-unit': unit } : {}) }) as ValueElement;
+  const input = el('fluent-text-input', {
+    id,
+    value,
+    slot: 'input',
+    'data-field': id,
+    ...(unit ? { 'data-unit': unit } : {}),
+  }) as ValueElement;
   input.setAttribute('aria-label', unit === '%' ? `${label}, in percent` : label);
   if (unit) input.append(el('span', { slot: 'end', class: 'unit', 'aria-hidden': 'true' }, unit));
-  const field = el('fluent-field', { 'label-position': 'above' }, el('label', { slot: 'label', for: id }, label), input);
+  const field = el(
+    'fluent-field',
+    { 'label-position': 'above' },
+    el('label', { slot: 'label', for: id }, label),
+    input,
+  );
   const wrapper = el('div', { class: 'field' }, field);
   if (hint) wrapper.append(el('p', { class: 'hint field-hint' }, hint));
   const message = el('p', { id: `${id}-message`, class: 'field-message', 'aria-live': 'polite', hidden: true });
@@ -112,7 +123,12 @@ export interface Check {
  */
 export function checkbox(id: string, label: string, checked: boolean): Check {
   const box = el('fluent-checkbox', { id, slot: 'input', ...(checked ? { checked: true } : {}) });
-  const field = el('fluent-field', { 'label-position': 'after', class: 'check' }, el('label', { slot: 'label', for: id }, label), box);
+  const field = el(
+    'fluent-field',
+    { 'label-position': 'after', class: 'check' },
+    el('label', { slot: 'label', for: id }, label),
+    box,
+  );
   return { element: field, box, checked: () => (box as HTMLElement & { checked?: boolean }).checked === true };
 }
 
@@ -120,7 +136,11 @@ export function checkbox(id: string, label: string, checked: boolean): Check {
  * A Fluent button. Cost O(1).
  * @example button('prior-write', 'Write to sheet', 'primary') //=> <fluent-button id="prior-write" appearance="primary">
  */
-export function button(id: string, label: string, appearance: 'primary' | 'secondary' | 'subtle' = 'secondary'): HTMLElement {
+export function button(
+  id: string,
+  label: string,
+  appearance: 'primary' | 'secondary' | 'subtle' = 'secondary',
+): HTMLElement {
   return el('fluent-button', { id, appearance, type: 'button' }, label);
 }
 
@@ -140,7 +160,11 @@ export type Intent = 'info' | 'success' | 'warning' | 'error';
 export function showMessage(area: HTMLElement, intent: Intent, text: string | null, ...actions: HTMLElement[]): void {
   area.replaceChildren();
   if (text === null) return;
-  const bar = el('fluent-message-bar', { intent, layout: 'multiline', role: intent === 'error' ? 'alert' : 'status' }, text);
+  const bar = el(
+    'fluent-message-bar',
+    { intent, layout: 'multiline', role: intent === 'error' ? 'alert' : 'status' },
+    text,
+  );
   for (const action of actions) {
     action.setAttribute('slot', 'actions');
     bar.append(action);
@@ -152,7 +176,12 @@ export function showMessage(area: HTMLElement, intent: Intent, text: string | nu
  * A native select styled to sit beside Fluent fields (used for column mappings). Cost O(options).
  * @example select('map-visitors', 'Visitors column', [['1','B']], '1')
  */
-export function select(id: string, label: string, options: readonly [string, string][], chosen: string): { element: HTMLElement; input: HTMLSelectElement } {
+export function select(
+  id: string,
+  label: string,
+  options: readonly [string, string][],
+  chosen: string,
+): { element: HTMLElement; input: HTMLSelectElement } {
   const input = el('select', { id, class: 'native-select' }) as HTMLSelectElement;
   for (const [value, text] of options) {
     const option = el('option', { value }, text) as HTMLOptionElement;

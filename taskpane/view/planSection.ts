@@ -267,7 +267,9 @@ export function planSection(context: PanelContext): HTMLElement {
     const chosen = cadence.input.value as LookCadence;
     const looksInputs: LooksPlanInputs = { ...inputs, cadence: chosen };
     const pct = (x: number): string => formatPercent(x, locale);
-    looksResults.replaceChildren(el('p', { class: 'hint' }, `Working out the threshold for looking ${CADENCE_WORDS[chosen]}…`));
+    looksResults.replaceChildren(
+      el('p', { class: 'hint' }, `Working out the threshold for looking ${CADENCE_WORDS[chosen]}…`),
+    );
     detectable.replaceChildren();
     try {
       const result = await planWithLooks(looksInputs, {
@@ -275,7 +277,11 @@ export function planSection(context: PanelContext): HTMLElement {
         cancelled: () => myRun !== run.id,
         onStep: (weeks) => {
           looksResults.replaceChildren(
-            el('p', { class: 'hint' }, `Working out the threshold for looking ${CADENCE_WORDS[chosen]}… (tried ${weeks} weeks)`),
+            el(
+              'p',
+              { class: 'hint' },
+              `Working out the threshold for looking ${CADENCE_WORDS[chosen]}… (tried ${weeks} weeks)`,
+            ),
           );
         },
       });
@@ -330,7 +336,10 @@ export function planSection(context: PanelContext): HTMLElement {
     const weeks = Number(text);
     const top = maxWeeks(inputs.cadence);
     if (!/^\d+$/.test(text) || weeks < 1 || weeks > top) {
-      weeksAvailable.say('error', `Weeks you can run: a whole number from 1 to ${top} when looking ${CADENCE_WORDS[inputs.cadence]}.`);
+      weeksAvailable.say(
+        'error',
+        `Weeks you can run: a whole number from 1 to ${top} when looking ${CADENCE_WORDS[inputs.cadence]}.`,
+      );
       detectable.replaceChildren();
       return;
     }

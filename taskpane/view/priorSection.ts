@@ -26,11 +26,39 @@ import { button, el, radioGroup, setBusy, shortNumber, showMessage, textField, t
 type Mode = 'mean' | 'interval' | 'history';
 
 /** A rate field: a percent strictly between 0% and 100%. */
-const RATE_RULE = (name: string): PercentRule => ({ name, min: 0, minIncluded: false, max: 1, maxIncluded: false, example: '4' });
+const RATE_RULE = (name: string): PercentRule => ({
+  name,
+  min: 0,
+  minIncluded: false,
+  max: 1,
+  maxIncluded: false,
+  example: '4',
+});
 /** The chance of the plausible range: a percent from 10% to below 100% (below 10% is a likely slip). */
-const LEVEL_RULE: PercentRule = { name: 'Chance the rate is in that range', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '90' };
-const WORTH_RULE: CountRule = { name: 'Worth in visitors', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '200' };
-const PLANNED_RULE: CountRule = { name: 'Visitors per variant you expect', min: 0, minIncluded: false, max: Number.POSITIVE_INFINITY, whole: false, example: '10000' };
+const LEVEL_RULE: PercentRule = {
+  name: 'Chance the rate is in that range',
+  min: 0.1,
+  minIncluded: true,
+  max: 1,
+  maxIncluded: false,
+  example: '90',
+};
+const WORTH_RULE: CountRule = {
+  name: 'Worth in visitors',
+  min: 0,
+  minIncluded: false,
+  max: Number.POSITIVE_INFINITY,
+  whole: false,
+  example: '200',
+};
+const PLANNED_RULE: CountRule = {
+  name: 'Visitors per variant you expect',
+  min: 0,
+  minIncluded: false,
+  max: Number.POSITIVE_INFINITY,
+  whole: false,
+  example: '10000',
+};
 
 /** Past results picked from the sheet for PRIOR_FROM_HISTORY. */
 interface History {
@@ -47,19 +75,30 @@ interface History {
  * @example section.append(priorSection(context))
  */
 export function priorSection(context: PanelContext): HTMLElement {
-  const root = el('section', { id: 'section-prior', class: 'section', role: 'tabpanel', 'aria-labelledby': 'tab-prior' });
+  const root = el('section', {
+    id: 'section-prior',
+    class: 'section',
+    role: 'tabpanel',
+    'aria-labelledby': 'tab-prior',
+  });
   const modes = radioGroup('prior-mode', 'How to choose the prior', [
     ['mean', 'From a typical rate and how many visitors that belief is worth', 'prior-mode-mean'],
     ['interval', 'From a plausible range', 'prior-mode-interval'],
     ['history', 'Fitted to past results on the sheet', 'prior-mode-history'],
   ]);
   const mean = textField('prior-mean', 'Typical conversion rate', '4', { unit: '%' });
-  const strength = textField('prior-strength', 'Worth in visitors', '200', { hint: 'alpha + beta: how many visitors this belief counts for' });
+  const strength = textField('prior-strength', 'Worth in visitors', '200', {
+    hint: 'alpha + beta: how many visitors this belief counts for',
+  });
   const low = textField('prior-low', 'Plausible low', '3', { unit: '%' });
   const high = textField('prior-high', 'Plausible high', '6', { unit: '%' });
   const level = textField('prior-level', 'Chance the rate is in that range', '90', { unit: '%' });
   const historyButton = button('prior-use-selection', 'Use the selected past results');
-  const historyInfo = el('p', { id: 'prior-history-info', class: 'hint' }, 'Select the past results (one row per past test or arm: conversions and visitors columns, a heading row is fine), then press the button.');
+  const historyInfo = el(
+    'p',
+    { id: 'prior-history-info', class: 'hint' },
+    'Select the past results (one row per past test or arm: conversions and visitors columns, a heading row is fine), then press the button.',
+  );
   const method = radioGroup(
     'prior-method',
     'Fitting method',
@@ -69,10 +108,18 @@ export function priorSection(context: PanelContext): HTMLElement {
     ],
     'horizontal',
   );
-  const planned = textField('prior-planned', 'Visitors per variant you expect', '10000', { hint: 'Filled in from the Plan section' });
+  const planned = textField('prior-planned', 'Visitors per variant you expect', '10000', {
+    hint: 'Filled in from the Plan section',
+  });
   const groups: Record<Mode, HTMLElement> = {
     mean: el('div', { class: 'group', id: 'prior-group-mean' }, mean.element, strength.element),
-    interval: el('div', { class: 'group', id: 'prior-group-interval', hidden: true }, low.element, high.element, level.element),
+    interval: el(
+      'div',
+      { class: 'group', id: 'prior-group-interval', hidden: true },
+      low.element,
+      high.element,
+      level.element,
+    ),
     history: el('div', { class: 'group', id: 'prior-group-history', hidden: true }, historyInfo, historyButton, method),
   };
   const summary = el('div', { id: 'prior-summary', class: 'summary', 'aria-live': 'polite' });
@@ -88,7 +135,11 @@ export function priorSection(context: PanelContext): HTMLElement {
 
   root.append(
     el('h2', {}, 'Prior'),
-    el('p', { class: 'hint' }, 'What you believe about the conversion rate before the test, as a Beta prior. Leave it out and every read-out uses the uniform prior Beta(1, 1).'),
+    el(
+      'p',
+      { class: 'hint' },
+      'What you believe about the conversion rate before the test, as a Beta prior. Leave it out and every read-out uses the uniform prior Beta(1, 1).',
+    ),
     modes,
     groups.mean,
     groups.interval,
@@ -98,7 +149,11 @@ export function priorSection(context: PanelContext): HTMLElement {
     warning,
     el('div', { class: 'chart' }, slot.canvas),
     el('div', { class: 'actions' }, writeButton),
-    el('p', { class: 'hint' }, 'Writes a live =ABTEST.PRIOR_FROM_… formula into the selected cell; it spills alpha and beta into two cells.'),
+    el(
+      'p',
+      { class: 'hint' },
+      'Writes a live =ABTEST.PRIOR_FROM_… formula into the selected cell; it spills alpha and beta into two cells.',
+    ),
     status,
     cautionLink,
   );
@@ -131,13 +186,20 @@ export function priorSection(context: PanelContext): HTMLElement {
         const hi = value(high, readPercent(high.text(), RATE_RULE('Plausible high'), locale));
         const lv = value(level, readPercent(level.text(), LEVEL_RULE, locale));
         if (lo === null || hi === null || lv === null) return 'Check the fields marked in red above.';
-        if (!(lo < hi)) return `The plausible low (${formatPercent(lo, locale)}) must be below the plausible high (${formatPercent(hi, locale)}).`;
+        if (!(lo < hi))
+          return `The plausible low (${formatPercent(lo, locale)}) must be below the plausible high (${formatPercent(hi, locale)}).`;
         return { kind: 'interval', low: lo, high: hi, level: lv };
       }
       case 'history': {
-        if (view.history === null) return 'Select the past results on the sheet and press "Use the selected past results".';
+        if (view.history === null)
+          return 'Select the past results on the sheet and press "Use the selected past results".';
         const m = method.value === 'moments' ? 'moments' : 'likelihood';
-        return { kind: 'history', conversionsRef: view.history.conversionsRef, visitorsRef: view.history.visitorsRef, method: m };
+        return {
+          kind: 'history',
+          conversionsRef: view.history.conversionsRef,
+          visitorsRef: view.history.visitorsRef,
+          method: m,
+        };
       }
     }
   };
@@ -173,13 +235,21 @@ export function priorSection(context: PanelContext): HTMLElement {
       const prior = compute(c);
       const locale = context.locale;
       const plannedReading = readCount(planned.text(), PLANNED_RULE, locale);
-      planned.say(plannedReading.ok ? 'note' : 'error', plannedReading.ok ? plannedReading.note : `${plannedReading.message} Using 10,000 meanwhile.`);
+      planned.say(
+        plannedReading.ok ? 'note' : 'error',
+        plannedReading.ok ? plannedReading.note : `${plannedReading.message} Using 10,000 meanwhile.`,
+      );
       const s = summarizePrior(prior, plannedReading.ok ? plannedReading.value : 10000, locale);
       summary.replaceChildren(
         el('p', { id: 'prior-parameters' }, `Beta(alpha = ${shortNumber(s.alpha)}, beta = ${shortNumber(s.beta)})`),
-        el('p', { id: 'prior-facts' }, `Mean ${formatPercent(s.mean, locale)}; 90% of the belief lies between ${formatPercent(s.low90, locale)} and ${formatPercent(s.high90, locale)}; worth about ${formatCount(s.worth, locale)} visitors.`),
+        el(
+          'p',
+          { id: 'prior-facts' },
+          `Mean ${formatPercent(s.mean, locale)}; 90% of the belief lies between ${formatPercent(s.low90, locale)} and ${formatPercent(s.high90, locale)}; worth about ${formatCount(s.worth, locale)} visitors.`,
+        ),
       );
-      if (s.warning !== null) showMessage(warning, s.weight === 'dominant' ? 'warning' : 'info', `${s.warning} ${PRIOR_WEIGHT_RULE}`);
+      if (s.warning !== null)
+        showMessage(warning, s.weight === 'dominant' ? 'warning' : 'info', `${s.warning} ${PRIOR_WEIGHT_RULE}`);
       else showMessage(warning, 'info', null);
       drawPriorChart(slot, priorDensityCurve(prior), s, locale);
       const changed = context.state.prior?.alpha !== prior.alpha || context.state.prior?.beta !== prior.beta;
@@ -210,7 +280,8 @@ export function priorSection(context: PanelContext): HTMLElement {
         } else {
           const start = parseAddress(selection.localAddress).start;
           const rows = checked.lastRow - checked.firstRow + 1;
-          const column = (c: number): string => rangeAddress({ row: start.row + checked.firstRow, column: start.column + c }, rows, 1);
+          const column = (c: number): string =>
+            rangeAddress({ row: start.row + checked.firstRow, column: start.column + c }, rows, 1);
           view.history = {
             sheet: selection.sheet,
             conversionsRef: column(detection.mapping.conversionsColumn),
@@ -246,7 +317,12 @@ export function priorSection(context: PanelContext): HTMLElement {
               visitorsRef: referenceFrom(selection.sheet, view.history.sheet, view.history.visitorsRef),
             }
           : c;
-      const outcome = await writeAsking(context.workbook, priorBlock(placed, topLeft, selection.sheet), status, 'the prior');
+      const outcome = await writeAsking(
+        context.workbook,
+        priorBlock(placed, topLeft, selection.sheet),
+        status,
+        'the prior',
+      );
       if (outcome !== null) {
         const { intent, text } = outcomeText(outcome, 'the prior');
         showMessage(status, intent, text);

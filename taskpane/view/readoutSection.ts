@@ -39,10 +39,24 @@ import { button, checkbox, el, select, setBusy, shortNumber, showMessage, textFi
 import { writePlace } from './writePlace';
 
 /** The credible level takes a percent from 10% (below is a likely slip: 0.95 typed for 95%). */
-const CREDIBLE_LEVEL_RULE: PercentRule = { name: 'Credible level', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '95' };
+const CREDIBLE_LEVEL_RULE: PercentRule = {
+  name: 'Credible level',
+  min: 0.1,
+  minIncluded: true,
+  max: 1,
+  maxIncluded: false,
+  example: '95',
+};
 
 /** A guardrail's limit: a relative lift from −99% to +100%. */
-const GUARDRAIL_LIMIT_RULE: PercentRule = { name: 'Guardrail limit', min: -0.99, minIncluded: true, max: 1, maxIncluded: true, example: '-2' };
+const GUARDRAIL_LIMIT_RULE: PercentRule = {
+  name: 'Guardrail limit',
+  min: -0.99,
+  minIncluded: true,
+  max: 1,
+  maxIncluded: true,
+  example: '-2',
+};
 /** A guardrail's required probability: from 50% to below 100%. */
 const GUARDRAIL_PROBABILITY_RULE: PercentRule = {
   name: 'Guardrail probability',
@@ -161,7 +175,8 @@ export function readoutSection(context: PanelContext): HTMLElement {
     if (selection === null) return;
     const g = view.guardrails.length;
     view.placedFor = `${view.kind}:${variants}:${g}`;
-    const area = view.kind === 'conversions' ? readoutArea(variants, DENSITY_POINTS, g) : metricReadoutArea(variants, g);
+    const area =
+      view.kind === 'conversions' ? readoutArea(variants, DENSITY_POINTS, g) : metricReadoutArea(variants, g);
     await place.find({
       sheet: selection.sheet,
       table: selection.localAddress,
@@ -200,7 +215,11 @@ export function readoutSection(context: PanelContext): HTMLElement {
     if (checked === null) return;
     if (!checked.ok) {
       tableInfo.replaceChildren(
-        el('p', { class: 'error-text', id: 'readout-problems' }, `The table has problems: ${checked.problems.join('; ')}.`),
+        el(
+          'p',
+          { class: 'error-text', id: 'readout-problems' },
+          `The table has problems: ${checked.problems.join('; ')}.`,
+        ),
       );
       showMessage(splitArea, 'info', null);
       setBusy(insertButton, true);
@@ -223,7 +242,11 @@ export function readoutSection(context: PanelContext): HTMLElement {
     tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
     const counted = view.kind === 'revenue' ? values.visitors : view.kind === 'averages' ? values.count : undefined;
     if (counted === undefined) {
-      showMessage(splitArea, 'info', 'Split check: exposure is not a count of visitors; check the split on the visitors table.');
+      showMessage(
+        splitArea,
+        'info',
+        'Split check: exposure is not a count of visitors; check the split on the visitors table.',
+      );
     } else {
       const p = srmPValue(counted);
       showMessage(
@@ -245,7 +268,9 @@ export function readoutSection(context: PanelContext): HTMLElement {
       }
     }
     if (checked.names.length > 4) {
-      tableInfo.append(el('p', { class: 'hint' }, 'Many variants: the best-looking one is often lucky. See the cautions.'));
+      tableInfo.append(
+        el('p', { class: 'hint' }, 'Many variants: the best-looking one is often lucky. See the cautions.'),
+      );
     }
     setBusy(insertButton, false);
     if (view.placedFor !== placeKey(checked.names.length)) void findPlaces(checked.names.length);
@@ -263,13 +288,12 @@ export function readoutSection(context: PanelContext): HTMLElement {
     const checked = checkTable(selection.values, mapping);
     const guard = checkedMetrics();
     if (!checked.ok || (guard !== null && !guard.ok)) {
-      const problems = [...(checked.ok ? [] : checked.problems), ...(guard !== null && !guard.ok ? guard.problems : [])];
+      const problems = [
+        ...(checked.ok ? [] : checked.problems),
+        ...(guard !== null && !guard.ok ? guard.problems : []),
+      ];
       tableInfo.replaceChildren(
-        el(
-          'p',
-          { class: 'error-text', id: 'readout-problems' },
-          `The table has problems: ${problems.join('; ')}.`,
-        ),
+        el('p', { class: 'error-text', id: 'readout-problems' }, `The table has problems: ${problems.join('; ')}.`),
       );
       showMessage(splitArea, 'info', null);
       setBusy(insertButton, true);
@@ -279,7 +303,13 @@ export function readoutSection(context: PanelContext): HTMLElement {
     }
     const list = el('ul', { id: 'readout-variants' });
     checked.names.forEach((name, i) =>
-      list.append(el('li', {}, `${variantLabel(name, i)}: ${formatCount(checked.conversions[i] ?? NaN, context.locale)} conversions of ${formatCount(checked.visitors[i] ?? NaN, context.locale)} visitors`)),
+      list.append(
+        el(
+          'li',
+          {},
+          `${variantLabel(name, i)}: ${formatCount(checked.conversions[i] ?? NaN, context.locale)} conversions of ${formatCount(checked.visitors[i] ?? NaN, context.locale)} visitors`,
+        ),
+      ),
     );
     tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
     const p = srmPValue(checked.visitors, checked.shares ?? undefined);
@@ -306,7 +336,10 @@ export function readoutSection(context: PanelContext): HTMLElement {
     const start = parseAddress(selection.localAddress).start;
     const header = selection.values[0] ?? [];
     const width = Math.max(...selection.values.slice(0, 2).map((row) => row.length));
-    return Array.from({ length: width }, (_, c) => [String(c), columnName(start.column, c, header[c], tableShape().hasHeader)]);
+    return Array.from({ length: width }, (_, c) => [
+      String(c),
+      columnName(start.column, c, header[c], tableShape().hasHeader),
+    ]);
   };
 
   const renderKind = (): void => {
@@ -349,10 +382,24 @@ export function readoutSection(context: PanelContext): HTMLElement {
     }
     if (roles.length === 0) return;
     const options = columnOptions();
-    columnsArea.append(el('p', { class: 'hint' }, `Columns of ${kinds.map((k) => KIND_SHORT[k]).filter((k, i, a) => a.indexOf(k) === i).join(' and ')}:`));
+    columnsArea.append(
+      el(
+        'p',
+        { class: 'hint' },
+        `Columns of ${kinds
+          .map((k) => KIND_SHORT[k])
+          .filter((k, i, a) => a.indexOf(k) === i)
+          .join(' and ')}:`,
+      ),
+    );
     for (const [role, kind] of roles) {
       const column = view.columns[role];
-      const choice = select(`readout-column-${role}`, roleName(role, kind), [['none', 'not in the table'], ...options], column === null ? 'none' : String(column));
+      const choice = select(
+        `readout-column-${role}`,
+        roleName(role, kind),
+        [['none', 'not in the table'], ...options],
+        column === null ? 'none' : String(column),
+      );
       choice.input.addEventListener('change', () => {
         view.columns[role] = choice.input.value === 'none' ? null : Number(choice.input.value);
         renderCheck();
@@ -373,7 +420,12 @@ export function readoutSection(context: PanelContext): HTMLElement {
     const others = METRIC_KINDS.filter((kind) => kind !== view.kind);
     view.guardrails.forEach((g, j) => {
       const n = j + 1;
-      const kind = select(`readout-guardrail-${n}-kind`, `Guardrail ${n}: metric`, others.map((k) => [k, KIND_NAMES[k]]), g.kind);
+      const kind = select(
+        `readout-guardrail-${n}-kind`,
+        `Guardrail ${n}: metric`,
+        others.map((k) => [k, KIND_NAMES[k]]),
+        g.kind,
+      );
       const direction = select(
         `readout-guardrail-${n}-direction`,
         'Must be',
@@ -383,8 +435,13 @@ export function readoutSection(context: PanelContext): HTMLElement {
         ],
         g.direction,
       );
-      const limit = textField(`readout-guardrail-${n}-limit`, 'Lift limit', g.limit, { unit: '%', hint: 'relative to the control: −2 allows at most a 2% drop' });
-      const required = textField(`readout-guardrail-${n}-required`, 'With probability at least', g.required, { unit: '%' });
+      const limit = textField(`readout-guardrail-${n}-limit`, 'Lift limit', g.limit, {
+        unit: '%',
+        hint: 'relative to the control: −2 allows at most a 2% drop',
+      });
+      const required = textField(`readout-guardrail-${n}-required`, 'With probability at least', g.required, {
+        unit: '%',
+      });
       const remove = button(`readout-guardrail-${n}-remove`, `Remove guardrail ${n}`, 'subtle');
       kind.input.addEventListener('change', () => {
         g.kind = kind.input.value as MetricKind;
@@ -394,7 +451,10 @@ export function readoutSection(context: PanelContext): HTMLElement {
         g.direction = direction.input.value as GuardrailDirection;
         if (g.direction === 'noHigher' && g.limit.trim().startsWith('-')) limit.set(g.limit.trim().slice(1));
       });
-      for (const [field, key] of [[limit, 'limit'], [required, 'required']] as const) {
+      for (const [field, key] of [
+        [limit, 'limit'],
+        [required, 'required'],
+      ] as const) {
         field.element.addEventListener('input', () => {
           g[key] = field.text();
         });
@@ -407,7 +467,15 @@ export function readoutSection(context: PanelContext): HTMLElement {
         renderAll();
       });
       guardrailArea.append(
-        el('div', { class: 'group', id: `readout-guardrail-${n}` }, kind.element, direction.element, limit.element, required.element, el('div', { class: 'actions' }, remove)),
+        el(
+          'div',
+          { class: 'group', id: `readout-guardrail-${n}` },
+          kind.element,
+          direction.element,
+          limit.element,
+          required.element,
+          el('div', { class: 'actions' }, remove),
+        ),
       );
     });
     if (view.guardrails.length < MAX_GUARDRAILS) {
@@ -415,7 +483,10 @@ export function readoutSection(context: PanelContext): HTMLElement {
       add.addEventListener('click', () => {
         const available = view.metrics?.available ?? [];
         const used = new Set(view.guardrails.map((g) => g.kind));
-        const kind = others.find((k) => available.includes(k) && !used.has(k)) ?? others.find((k) => !used.has(k)) ?? (others[0] as MetricKind);
+        const kind =
+          others.find((k) => available.includes(k) && !used.has(k)) ??
+          others.find((k) => !used.has(k)) ??
+          (others[0] as MetricKind);
         view.guardrails.push({ kind, direction: 'noWorse', limit: '-2', required: '95' });
         renderAll();
       });
@@ -537,7 +608,9 @@ export function readoutSection(context: PanelContext): HTMLElement {
         : detectTable(selection.values);
       view.selection = selection;
       view.placedFor = '';
-      const metrics = selection.truncated ? null : detectMetrics(selection.values, detection.ok ? detection.mapping : null);
+      const metrics = selection.truncated
+        ? null
+        : detectMetrics(selection.values, detection.ok ? detection.mapping : null);
       view.metrics = metrics;
       view.columns = { ...(metrics?.columns ?? {}) } as Record<MetricRole, number | null>;
       if (!detection.ok && (metrics === null || metrics.proposed === null)) {
@@ -550,7 +623,11 @@ export function readoutSection(context: PanelContext): HTMLElement {
         showMessage(splitArea, 'info', null);
         place.reset();
         tableInfo.replaceChildren(
-          el('p', { class: 'error-text', id: 'readout-problems' }, `${selection.address}: ${detection.ok ? '' : detection.problem}.`),
+          el(
+            'p',
+            { class: 'error-text', id: 'readout-problems' },
+            `${selection.address}: ${detection.ok ? '' : detection.problem}.`,
+          ),
         );
         setBusy(insertButton, true);
         return;
@@ -575,7 +652,13 @@ export function readoutSection(context: PanelContext): HTMLElement {
       renderGuardrails();
       renderCheck();
       tableInfo.append(
-        el('p', { class: 'hint' }, detection.ok && view.kind === 'conversions' ? `Detected: ${detection.note}.` : 'Detected: columns chosen by their headings; check them below.'),
+        el(
+          'p',
+          { class: 'hint' },
+          detection.ok && view.kind === 'conversions'
+            ? `Detected: ${detection.note}.`
+            : 'Detected: columns chosen by their headings; check them below.',
+        ),
       );
     } catch (error) {
       tableInfo.replaceChildren(
@@ -663,7 +746,11 @@ export function readoutSection(context: PanelContext): HTMLElement {
           target.sheet,
           guardrails,
         );
-      const counted = metrics?.ok ? (view.kind === 'revenue' ? metrics.values.visitors : metrics.values.count) : undefined;
+      const counted = metrics?.ok
+        ? view.kind === 'revenue'
+          ? metrics.values.visitors
+          : metrics.values.count
+        : undefined;
       const buildMetric = (target: { sheet: string; topLeft: string }) =>
         metricReadoutBlock(
           view.kind,
@@ -674,7 +761,10 @@ export function readoutSection(context: PanelContext): HTMLElement {
           target.sheet,
         );
       const written = await place.write(
-        (target) => ({ ...(conversions ? buildConversions(target) : buildMetric(target)).block, newSheet: target.newSheet }),
+        (target) => ({
+          ...(conversions ? buildConversions(target) : buildMetric(target)).block,
+          newSheet: target.newSheet,
+        }),
         'the read-out',
         status,
       );

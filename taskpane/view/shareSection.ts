@@ -11,7 +11,16 @@
  *
  * Both write only on new sheets, so no cell of the user's is ever overwritten.
  */
-import { copyEdits, copyProblem, describeCopy, howComputedColumn, planCopy, HEADER_ROWS, type CopyPlan, type CopyScope } from '../logic/shareCopy';
+import {
+  copyEdits,
+  copyProblem,
+  describeCopy,
+  howComputedColumn,
+  planCopy,
+  HEADER_ROWS,
+  type CopyPlan,
+  type CopyScope,
+} from '../logic/shareCopy';
 import { summaryBlock, summaryNumbers, type SummaryInput } from '../logic/summary';
 import { formatCount, parseNumber, readCount, readPercent, type CountRule, type PercentRule } from '../logic/inputs';
 import { variantLabel } from '../logic/resultWords';
@@ -21,11 +30,29 @@ import type { CopyOutcome, CopyRequest, RangeContents, SheetScan } from '../work
 import { type PanelContext } from './context';
 import { button, el, radioGroup, setBusy, showMessage, textField, type Intent } from './dom';
 
-const LEVEL_RULE: PercentRule = { name: 'Credible level', min: 0.1, minIncluded: true, max: 1, maxIncluded: false, example: '95' };
-const DAYS_RULE: CountRule = { name: 'Days the test ran', min: 1, minIncluded: true, max: 3650, whole: true, example: '28' };
+const LEVEL_RULE: PercentRule = {
+  name: 'Credible level',
+  min: 0.1,
+  minIncluded: true,
+  max: 1,
+  maxIncluded: false,
+  example: '95',
+};
+const DAYS_RULE: CountRule = {
+  name: 'Days the test ran',
+  min: 1,
+  minIncluded: true,
+  max: 3650,
+  whole: true,
+  example: '28',
+};
 
 /** The words for how a copy ended. */
-export function copyOutcomeText(outcome: CopyOutcome, plan: CopyPlan, notes: boolean): { intent: Intent; text: string } {
+export function copyOutcomeText(
+  outcome: CopyOutcome,
+  plan: CopyPlan,
+  notes: boolean,
+): { intent: Intent; text: string } {
   switch (outcome.kind) {
     case 'written': {
       const charts =
@@ -77,7 +104,11 @@ export function shareSection(context: PanelContext): HTMLElement {
   const fallbackArea = el('div', { id: 'share-fallback' });
   const copyButton = button('share-copy', 'Make the shareable copy', 'primary');
   setBusy(copyButton, true);
-  const copyProgress = el('fluent-progress-bar', { id: 'share-progress', hidden: true, 'aria-label': 'Making the copy' });
+  const copyProgress = el('fluent-progress-bar', {
+    id: 'share-progress',
+    hidden: true,
+    'aria-label': 'Making the copy',
+  });
   const copyStatus = el('div', { id: 'share-status' });
 
   // ---- The summary ----
@@ -217,7 +248,11 @@ export function shareSection(context: PanelContext): HTMLElement {
           // Whole rows or columns ("E:E") are not a block of cells the panel reads.
           if (!(error instanceof RangeError)) throw error;
           resetPlan(null);
-          showMessage(copyStatus, 'error', 'Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.');
+          showMessage(
+            copyStatus,
+            'error',
+            'Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.',
+          );
           return;
         }
         scopeNow = { kind: 'cells', range: selection.localAddress };
@@ -246,7 +281,11 @@ export function shareSection(context: PanelContext): HTMLElement {
     copyProgress.hidden = false;
     const scopeNow = view.scope;
     const notes = context.workbook.capabilities().notes;
-    showMessage(copyStatus, 'info', `Making "${plan.newSheet}" from "${plan.sheet}"… (a large sheet takes a few seconds)`);
+    showMessage(
+      copyStatus,
+      'info',
+      `Making "${plan.newSheet}" from "${plan.sheet}"… (a large sheet takes a few seconds)`,
+    );
     const frozenAt = new Date();
     const request: CopyRequest = {
       source: plan.sheet,
@@ -277,7 +316,8 @@ export function shareSection(context: PanelContext): HTMLElement {
     if (view.plan !== null) resetPlan('What to copy changed: look again.');
   });
   context.listen('selection', () => {
-    if (view.plan !== null && !view.copying && view.scope.kind === 'cells') resetPlan('The selection changed: look again.');
+    if (view.plan !== null && !view.copying && view.scope.kind === 'cells')
+      resetPlan('The selection changed: look again.');
   });
   lookButton.addEventListener('click', () => void look());
   copyButton.addEventListener('click', () => void makeCopy());
@@ -299,13 +339,19 @@ export function shareSection(context: PanelContext): HTMLElement {
         ? ({ ok: false, problem: 'the selection is too large; select only the variant table' } as const)
         : detectTable(selection.values);
       if (!detection.ok) {
-        tableArea.replaceChildren(el('p', { class: 'error-text', id: 'summary-problems' }, `${selection.address}: ${detection.problem}.`));
+        tableArea.replaceChildren(
+          el('p', { class: 'error-text', id: 'summary-problems' }, `${selection.address}: ${detection.problem}.`),
+        );
         return;
       }
       const checked = checkTable(selection.values, detection.mapping);
       if (!checked.ok) {
         tableArea.replaceChildren(
-          el('p', { class: 'error-text', id: 'summary-problems' }, `The table has problems: ${checked.problems.join('; ')}.`),
+          el(
+            'p',
+            { class: 'error-text', id: 'summary-problems' },
+            `The table has problems: ${checked.problems.join('; ')}.`,
+          ),
         );
         return;
       }
@@ -323,7 +369,11 @@ export function shareSection(context: PanelContext): HTMLElement {
         ),
       );
       tableArea.replaceChildren(
-        el('p', {}, `${checked.names.length} variants in ${selection.address} (${checked.shares === null ? 'equal shares planned' : 'with planned shares'}):`),
+        el(
+          'p',
+          {},
+          `${checked.names.length} variants in ${selection.address} (${checked.shares === null ? 'equal shares planned' : 'with planned shares'}):`,
+        ),
         list,
       );
       if (!view.confirmed) {
@@ -342,7 +392,9 @@ export function shareSection(context: PanelContext): HTMLElement {
       }
       if (title.text().trim() === '') title.set(selection.sheet);
     } catch (error) {
-      tableArea.replaceChildren(el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`));
+      tableArea.replaceChildren(
+        el('p', { class: 'error-text' }, `Could not read the selection: ${(error as Error).message}`),
+      );
     } finally {
       setBusy(useButton, false);
       refreshWrite();
@@ -405,7 +457,11 @@ export function shareSection(context: PanelContext): HTMLElement {
         numbers = summaryNumbers(input);
       } catch (error) {
         const coded = error as { code?: unknown; message?: string };
-        showMessage(summaryStatus, 'error', `Nothing was written: ${coded.message ?? String(error)}${typeof coded.code === 'string' ? ` (${coded.code})` : ''}.`);
+        showMessage(
+          summaryStatus,
+          'error',
+          `Nothing was written: ${coded.message ?? String(error)}${typeof coded.code === 'string' ? ` (${coded.code})` : ''}.`,
+        );
         return;
       }
       const places = await context.workbook.findPlaces({
@@ -428,7 +484,9 @@ export function shareSection(context: PanelContext): HTMLElement {
         showMessage(
           summaryStatus,
           'error',
-          outcome.restored ? `Could not write the summary: ${outcome.message}. The workbook is as it was.` : `Could not write the summary: ${outcome.message}.`,
+          outcome.restored
+            ? `Could not write the summary: ${outcome.message}. The workbook is as it was.`
+            : `Could not write the summary: ${outcome.message}.`,
         );
       } else {
         showMessage(summaryStatus, 'error', `Nothing was written: ${outcome.address} is not empty.`);

@@ -229,7 +229,10 @@ function localOf(address: string): string {
 /** The local address `rows` rows further down. */
 function shiftedDown(local: string, rows: number): string {
   const parsed = parseAddress(local);
-  const size = { rowCount: parsed.end.row - parsed.start.row + 1, columnCount: parsed.end.column - parsed.start.column + 1 };
+  const size = {
+    rowCount: parsed.end.row - parsed.start.row + 1,
+    columnCount: parsed.end.column - parsed.start.column + 1,
+  };
   return rangeAddress({ row: parsed.start.row + rows, column: parsed.start.column }, size.rowCount, size.columnCount);
 }
 
@@ -238,7 +241,12 @@ function sameFormulaCells(a: SheetScan, b: SheetScan): boolean {
   if (a.tooLarge !== b.tooLarge || a.formulaCells.length !== b.formulaCells.length) return false;
   return a.formulaCells.every((cell, i) => {
     const other = b.formulaCells[i];
-    return other !== undefined && other.address === cell.address && other.formula === cell.formula && other.result === cell.result;
+    return (
+      other !== undefined &&
+      other.address === cell.address &&
+      other.formula === cell.formula &&
+      other.result === cell.result
+    );
   });
 }
 
@@ -766,7 +774,10 @@ export function createOfficeWorkbook(
     }
     if (!sameFormulaCells(fresh, request.shown)) return { kind: 'changed', scan: fresh };
     if (fresh.tooLarge) {
-      return fail('InvalidArgument', `"${request.source}" is too large for the panel to copy (${fresh.range}); nothing was copied`);
+      return fail(
+        'InvalidArgument',
+        `"${request.source}" is too large for the panel to copy (${fresh.range}); nothing was copied`,
+      );
     }
     const problem = request.problem(fresh);
     if (problem !== null) return fail('NotReady', `${problem}; nothing was copied`);
@@ -810,9 +821,12 @@ export function createOfficeWorkbook(
       };
       const edits: SheetCopyEdits = request.edits(fresh, copyFormula);
       if (edits.notes.length > 0 && !notesOffered) {
-        throw Object.assign(new Error(`this Excel cannot add notes (Excel JavaScript API ${OPTIONAL_API.notes.version})`), {
-          code: 'NotSupported',
-        });
+        throw Object.assign(
+          new Error(`this Excel cannot add notes (Excel JavaScript API ${OPTIONAL_API.notes.version})`),
+          {
+            code: 'NotSupported',
+          },
+        );
       }
       // 2. The edits, then the notes (appended to notes the copy brought along), then the charts outside.
       return await run(async (context): Promise<CopyOutcome> => {

@@ -37,7 +37,15 @@ function loadBundle(): Sandbox {
   const context = vm.createContext({
     CustomFunctions: {
       Error: StubError,
-      ErrorCode: { invalidValue: '#VALUE!', notAvailable: '#N/A', divisionByZero: '#DIV/0!', invalidNumber: '#NUM!', nullReference: '#NULL!', invalidName: '#NAME?', invalidReference: '#REF!' },
+      ErrorCode: {
+        invalidValue: '#VALUE!',
+        notAvailable: '#N/A',
+        divisionByZero: '#DIV/0!',
+        invalidNumber: '#NUM!',
+        nullReference: '#NULL!',
+        invalidName: '#NAME?',
+        invalidReference: '#REF!',
+      },
       associate(id: string, fn: (...args: unknown[]) => unknown) {
         registered.set(id, fn);
       },
@@ -67,7 +75,8 @@ function errorOf(id: string, ...args: unknown[]): { code: string; message: strin
   }
   throw new Error('expected an error');
 }
-const near = (a: unknown, b: number, rel = 1e-7): boolean => typeof a === 'number' && Math.abs(a - b) <= rel * Math.abs(b) + 1e-13;
+const near = (a: unknown, b: number, rel = 1e-7): boolean =>
+  typeof a === 'number' && Math.abs(a - b) <= rel * Math.abs(b) + 1e-13;
 
 const ref = JSON.parse(fs.readFileSync(path.join(REF, 'addin/addin_values.json'), 'utf8'));
 const srm = JSON.parse(fs.readFileSync(path.join(REF, 'srm/srm_chisq.json'), 'utf8'));
@@ -83,7 +92,9 @@ test('dist/functions.js is at most 150 KB minified', () => {
 });
 
 test('dist holds functions.json (every catalogue function), the side panel page loading both scripts, help pages, icons and the manifest', () => {
-  const metadata = JSON.parse(fs.readFileSync(path.join(DIST, 'functions.json'), 'utf8')) as { functions: { id: string }[] };
+  const metadata = JSON.parse(fs.readFileSync(path.join(DIST, 'functions.json'), 'utf8')) as {
+    functions: { id: string }[];
+  };
   expect(metadata.functions.map((f) => f.id).sort()).toEqual([...CATALOGUE_IDS].sort());
   const page = fs.readFileSync(path.join(DIST, 'taskpane.html'), 'utf8');
   expect(page).toMatch(/<script[^>]+src="?functions\.js[" >]/);
@@ -91,7 +102,9 @@ test('dist holds functions.json (every catalogue function), the side panel page 
   for (const id of CATALOGUE_IDS) expect(fs.existsSync(path.join(DIST, 'help', `${id}.html`))).toBe(true);
   expect(fs.existsSync(path.join(DIST, 'help', 'index.html'))).toBe(true);
   for (const size of [16, 32, 64, 80]) expect(fs.existsSync(path.join(DIST, 'assets', `icon-${size}.png`))).toBe(true);
-  expect(fs.readFileSync(path.join(DIST, 'manifest.xml'), 'utf8')).toContain('<Namespace resid="Functions.Namespace"/>');
+  expect(fs.readFileSync(path.join(DIST, 'manifest.xml'), 'utf8')).toContain(
+    '<Namespace resid="Functions.Namespace"/>',
+  );
 });
 
 describe('calls with Excel-shaped arguments (scipy and R references)', () => {
@@ -128,7 +141,17 @@ describe('calls with Excel-shaped arguments (scipy and R references)', () => {
 
   test('SRM_PVALUE equals R chisq.test', () => {
     const c = srm.cases[6];
-    expect(near(call('SRM_PVALUE', c.visitors.map((v: number) => [v]), c.shares.map((s: number) => [s])), c.pValue, 1e-9)).toBe(true);
+    expect(
+      near(
+        call(
+          'SRM_PVALUE',
+          c.visitors.map((v: number) => [v]),
+          c.shares.map((s: number) => [s]),
+        ),
+        c.pValue,
+        1e-9,
+      ),
+    ).toBe(true);
   });
 
   test('MEAN_PROB_HIGHEST and EVENTS_RATE_INTERVAL', () => {
@@ -136,7 +159,11 @@ describe('calls with Excel-shaped arguments (scipy and R references)', () => {
     const p = call('MEAN_PROB_HIGHEST', [m.count], [m.mean], [m.sd]) as unknown[][];
     expect(near(p[0]?.[1], m.probHighest[1])).toBe(true);
     const e = ref.eventsTwo;
-    const iv = call('EVENTS_RATE_INTERVAL', e.events.map((x: number) => [x]), e.exposure.map((x: number) => [x])) as unknown[][];
+    const iv = call(
+      'EVENTS_RATE_INTERVAL',
+      e.events.map((x: number) => [x]),
+      e.exposure.map((x: number) => [x]),
+    ) as unknown[][];
     expect(near(iv[1]?.[1], e.rateInterval[1][1])).toBe(true);
   });
 
@@ -145,7 +172,7 @@ describe('calls with Excel-shaped arguments (scipy and R references)', () => {
     expect(call('CLASSIC_SAMPLE_SIZE', 0.1, 0.5, null, null, null)).toBe(686);
   });
 
-  test('errors are the runtime\'s CustomFunctions.Error with code and message', () => {
+  test("errors are the runtime's CustomFunctions.Error with code and message", () => {
     expect(errorOf('PROB_HIGHEST', [[1], [2], [3]], [[10], [20], [12.5]])).toEqual({
       code: '#VALUE!',
       message: 'visitors, item 3: 12.5 is not a whole number',

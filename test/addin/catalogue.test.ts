@@ -84,14 +84,14 @@ describe('docs/catalogue.md, the contract in words', () => {
 });
 
 describe('the wrappers', () => {
-  test('functions/functions.ts exports one wrapper file per family, in the catalogue\'s family order', () => {
+  test("functions/functions.ts exports one wrapper file per family, in the catalogue's family order", () => {
     const files = help.wrapperFiles().map((f) => path.relative(ROOT, f).split(path.sep).join('/'));
     expect(files).toEqual(FAMILIES.map((f) => `functions/wrappers/${f.id}.ts`));
     const onDisk = fs.readdirSync(path.join(ROOT, 'functions', 'wrappers')).filter((f) => f.endsWith('.ts'));
     expect(onDisk.sort()).toEqual(FAMILIES.map((f) => `${f.id}.ts`).sort());
   });
 
-  test('one documented wrapper per entry, in its family\'s file, in catalogue order, with its parameters', () => {
+  test("one documented wrapper per entry, in its family's file, in catalogue order, with its parameters", () => {
     expect(docs.map((d) => d.id)).toEqual(CATALOGUE_LIST.map((f) => f.id));
     for (const fn of CATALOGUE_LIST) {
       const doc = docs.find((d) => d.id === fn.id) as FunctionDoc;
@@ -104,7 +104,7 @@ describe('the wrappers', () => {
     }
   });
 
-  test('the Excel help of each number argument states its rule\'s bounds and default', () => {
+  test("the Excel help of each number argument states its rule's bounds and default", () => {
     const numbers = (text: string): number[] =>
       [...text.matchAll(/[-−]?\d+(?:\.\d+)?(?:E[+-]?\d+)?/gi)].map((m) => Number(m[0].replace('−', '-')));
     const problems: string[] = [];
@@ -115,7 +115,8 @@ describe('the wrappers', () => {
         const text = doc.params.find((q) => q.name === p.name)?.text ?? '';
         const shown = numbers(text);
         const bounds = [p.rule.min, p.rule.max, p.rule.above, p.rule.below].filter((b): b is number => b !== undefined);
-        for (const b of bounds) if (!shown.includes(b)) problems.push(`${fn.id} ${p.name}: bound ${b} not in "${text}"`);
+        for (const b of bounds)
+          if (!shown.includes(b)) problems.push(`${fn.id} ${p.name}: bound ${b} not in "${text}"`);
         const stated = /default (-?\d+(?:\.\d+)?)/.exec(text);
         if (p.rule.default !== undefined && Number(stated?.[1]) !== p.rule.default) {
           problems.push(`${fn.id} ${p.name}: default ${p.rule.default} not in "${text}"`);

@@ -84,7 +84,10 @@ test.each(cases.map((c) => [c.id, c] as const))('%s example', (_id, c) => {
     expect(Math.abs((actual as number) - (expected as number))).toBeLessThanOrEqual(halfUlp(resultText) * 1.0001);
     return;
   }
-  const rowsText = resultText.slice(1, -1).split(';').map((r) => splitArgs(r));
+  const rowsText = resultText
+    .slice(1, -1)
+    .split(';')
+    .map((r) => splitArgs(r));
   const got = actual as Cell[][];
   expect(got.length).toBe(expected.length);
   expected.forEach((r, i) =>

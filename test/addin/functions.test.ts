@@ -72,9 +72,9 @@ const ref = readJson<{
   priorFromHistory: { conversions: number[]; visitors: number[]; likelihood: [number, number] };
   decisionPower: { baseline: number; lift: number; n: number; threshold: number; power: number }[];
 }>('addin/addin_values.json');
-const visitorsNeededRef = readJson<{ cases: { baseline: number; lift: number; n: number; threshold: number; power: number }[] }>(
-  'addin/addin_visitors_needed.json',
-);
+const visitorsNeededRef = readJson<{
+  cases: { baseline: number; lift: number; n: number; threshold: number; power: number }[];
+}>('addin/addin_visitors_needed.json');
 const srm = readJson<{ cases: { visitors: number[]; shares: number[]; pValue: number }[] }>('srm/srm_chisq.json');
 
 /**
@@ -129,7 +129,11 @@ describe('conversion metrics against scipy', () => {
 
   test('RATE_INTERVAL: central (default) and hdi, default level 0.95', () => {
     expectSpill(F.rateInterval(col(two.conversions), col(two.visitors)), two.rateIntervalCentral);
-    expectSpill(F.rateInterval(col(two.conversions), col(two.visitors), undefined, undefined, undefined, 'hdi'), two.rateIntervalHdi, 1e-7);
+    expectSpill(
+      F.rateInterval(col(two.conversions), col(two.visitors), undefined, undefined, undefined, 'hdi'),
+      two.rateIntervalHdi,
+      1e-7,
+    );
     expectSpill(F.rateInterval(...args3, 0.9, 2, 38), three.rateIntervalCentral);
     expectSpill(F.rateInterval(...args3, 0.9, 2, 38, 'HDI'), three.rateIntervalHdi, 1e-7);
   });
@@ -139,7 +143,11 @@ describe('conversion metrics against scipy', () => {
     expectSpill(out, col(two.probHighest) as number[][]);
     const out3 = F.probHighest(...args3, 2, 38);
     expectSpill(out3, col(three.probHighest) as number[][]);
-    close(out3.reduce((s, r) => s + (r[0] as number), 0), 1, 1e-12);
+    close(
+      out3.reduce((s, r) => s + (r[0] as number), 0),
+      1,
+      1e-12,
+    );
   });
 
   test('PROB_ABOVE_CONTROL: "" in the control slot', () => {
@@ -147,7 +155,7 @@ describe('conversion metrics against scipy', () => {
     expectSpill(F.probAboveControl(...args3, 2, 38), vsControl(three.probAboveControl));
   });
 
-  test('PROB_ABOVE_CONTROL equals Evan Miller\'s exact rational for Beta(4, 8) vs Beta(6, 6): 521/646', () => {
+  test("PROB_ABOVE_CONTROL equals Evan Miller's exact rational for Beta(4, 8) vs Beta(6, 6): 521/646", () => {
     // conversions 3 of 10 and 5 of 10 with the uniform prior give Beta(4, 8) and Beta(6, 6)
     // (docs/check-values.md: E. Miller, "Formulas for Bayesian A/B Testing", 2015)
     expectSpill(F.probAboveControl(col([3, 5]), col([10, 10])), vsControl([521 / 646]), 1e-12);
@@ -156,12 +164,20 @@ describe('conversion metrics against scipy', () => {
   test('LIFT_INTERVAL and RATE_DIFF_INTERVAL: lower, median, upper per challenger', () => {
     expectSpill(F.liftInterval(col(two.conversions), col(two.visitors)), blockVsControl(two.liftInterval), 1e-9);
     expectSpill(F.liftInterval(...args3, 0.9, 2, 38), blockVsControl(three.liftInterval), 1e-9);
-    expectSpill(F.rateDiffInterval(col(two.conversions), col(two.visitors)), blockVsControl(two.rateDiffInterval), 1e-9);
+    expectSpill(
+      F.rateDiffInterval(col(two.conversions), col(two.visitors)),
+      blockVsControl(two.rateDiffInterval),
+      1e-9,
+    );
     expectSpill(F.rateDiffInterval(...args3, 0.9, 2, 38), blockVsControl(three.rateDiffInterval), 1e-9);
   });
 
   test('PROB_LIFT_ABOVE: positive and negative min_lift', () => {
-    expectSpill(F.probLiftAbove(col(two.conversions), col(two.visitors), two.minLift), vsControl(two.probLiftAbove), 1e-9);
+    expectSpill(
+      F.probLiftAbove(col(two.conversions), col(two.visitors), two.minLift),
+      vsControl(two.probLiftAbove),
+      1e-9,
+    );
     expectSpill(F.probLiftAbove(...args3, three.minLift, 2, 38), vsControl(three.probLiftAbove), 1e-9);
   });
 
@@ -180,9 +196,11 @@ describe('conversion metrics against scipy', () => {
     close((loss3[0]?.[0] as number) - (loss3[1]?.[0] as number), (means[1] as number) - (means[0] as number), 1e-8);
   });
 
-  test('DECISION: choose when the leader\'s loss is within the default 1% of the control\'s posterior mean', () => {
+  test("DECISION: choose when the leader's loss is within the default 1% of the control's posterior mean", () => {
     // loss of B 6.5235e-5 (scipy) ≤ 0.01 × 0.0503747 (control's posterior mean)
-    expect(F.decision(col(two.conversions), col(two.visitors))).toBe('Choose B: its expected loss 0.0065% is within the 0.050% allowed');
+    expect(F.decision(col(two.conversions), col(two.visitors))).toBe(
+      'Choose B: its expected loss 0.0065% is within the 0.050% allowed',
+    );
   });
 
   test('DECISION: keep collecting when the loss is above max_loss; labels name the leader', () => {
@@ -190,17 +208,22 @@ describe('conversion metrics against scipy', () => {
     expect(F.decision(...args3, 0.0005, col(['Grey', 'Green', 'Large green']), 2, 38)).toBe(
       'Keep collecting data: Green leads, but its expected loss 0.080% is above the 0.050% allowed',
     );
-    expect(F.decision(...args3, 0.001, undefined, 2, 38)).toBe('Choose B: its expected loss 0.080% is within the 0.10% allowed');
+    expect(F.decision(...args3, 0.001, undefined, 2, 38)).toBe(
+      'Choose B: its expected loss 0.080% is within the 0.10% allowed',
+    );
   });
 
   test('DECISION: default letters count blank positions, so "C" is the third cell', () => {
-    expect(F.decision(col([120, '', 150]), col([2400, '', 2380]))).toBe('Choose C: its expected loss 0.0065% is within the 0.050% allowed');
+    expect(F.decision(col([120, '', 150]), col([2400, '', 2380]))).toBe(
+      'Choose C: its expected loss 0.0065% is within the 0.050% allowed',
+    );
   });
 
   test('DECISION: labels must have the same shape', () => {
     expect(sheetError(() => F.decision(col(two.conversions), col(two.visitors), undefined, row(['A', 'B'])))).toEqual({
       code: '#VALUE!',
-      message: 'labels must have the same shape as conversions: labels is 1 row × 2 columns, conversions is 2 rows × 1 column',
+      message:
+        'labels must have the same shape as conversions: labels is 1 row × 2 columns, conversions is 2 rows × 1 column',
     });
   });
 
@@ -214,7 +237,10 @@ describe('conversion metrics against scipy', () => {
     for (const c of [1, 2]) {
       let area = 0;
       for (let i = 1; i < table.length; i++) {
-        area += 0.5 * ((table[i]?.[c] as number) + (table[i - 1]?.[c] as number)) * ((grid[i] as number) - (grid[i - 1] as number));
+        area +=
+          0.5 *
+          ((table[i]?.[c] as number) + (table[i - 1]?.[c] as number)) *
+          ((grid[i] as number) - (grid[i - 1] as number));
       }
       expect(Math.abs(area - 1)).toBeLessThan(2e-3);
     }
@@ -238,7 +264,10 @@ describe('conversion metrics against scipy', () => {
     for (const c of [1, 2]) {
       let area = 0;
       for (let i = 1; i < table.length; i++) {
-        area += 0.5 * ((table[i]?.[c] as number) + (table[i - 1]?.[c] as number)) * ((table[i]?.[0] as number) - (table[i - 1]?.[0] as number));
+        area +=
+          0.5 *
+          ((table[i]?.[c] as number) + (table[i - 1]?.[c] as number)) *
+          ((table[i]?.[0] as number) - (table[i - 1]?.[0] as number));
       }
       // The grid spans every challenger's 1%–99% lift quantiles (the union over challengers may hold more).
       expect(area).toBeGreaterThan(0.98 - 5e-3);
@@ -252,22 +281,38 @@ describe('conversion metrics: orientation and blank rows', () => {
 
   test('a row input spills a row; blocks become one column per variant', () => {
     expectSpill(F.posteriorMean(row(two.conversions), row(two.visitors)), [two.posteriorMean]);
-    expectSpill(F.rateInterval(row(two.conversions), row(two.visitors)), transpose(two.rateIntervalCentral) as number[][]);
-    expectSpill(F.liftInterval(row(two.conversions), row(two.visitors)), transpose(blockVsControl(two.liftInterval)) as (number | string)[][], 1e-9);
+    expectSpill(
+      F.rateInterval(row(two.conversions), row(two.visitors)),
+      transpose(two.rateIntervalCentral) as number[][],
+    );
+    expectSpill(
+      F.liftInterval(row(two.conversions), row(two.visitors)),
+      transpose(blockVsControl(two.liftInterval)) as (number | string)[][],
+      1e-9,
+    );
     expectSpill(F.probAboveControl(row(two.conversions), row(two.visitors)), [['', two.probAboveControl[0] as number]]);
   });
 
   test('blank rows are skipped and give "" slots, for every blank form', () => {
     const c = col([120, '', 150, null]);
     const n = col([2400, '', 2380, undefined]);
-    expectSpill(F.posteriorMean(c, n), [[two.posteriorMean[0] as number], [''], [two.posteriorMean[1] as number], ['']]);
+    expectSpill(F.posteriorMean(c, n), [
+      [two.posteriorMean[0] as number],
+      [''],
+      [two.posteriorMean[1] as number],
+      [''],
+    ]);
     expectSpill(F.probHighest(c, n), [[two.probHighest[0] as number], [''], [two.probHighest[1] as number], ['']]);
-    expectSpill(F.rateDiffInterval(c, n), [['', '', ''], ['', '', ''], two.rateDiffInterval[0] as number[], ['', '', '']], 1e-9);
+    expectSpill(
+      F.rateDiffInterval(c, n),
+      [['', '', ''], ['', '', ''], two.rateDiffInterval[0] as number[], ['', '', '']],
+      1e-9,
+    );
     const density = F.posteriorDensity(c, n, 5);
     expect(density.every((r) => r.length === 5 && r[2] === '' && r[4] === '')).toBe(true);
   });
 
-  test('the catalogue\'s error conventions reach the cell with code and message', () => {
+  test("the catalogue's error conventions reach the cell with code and message", () => {
     expect(sheetError(() => F.probHighest(col([1, 2, 3]), col([10, 20, 12.5])))).toEqual({
       code: '#VALUE!',
       message: 'visitors, item 3: 12.5 is not a whole number',
@@ -282,7 +327,8 @@ describe('conversion metrics: orientation and blank rows', () => {
     });
     expect(sheetError(() => F.liftInterval(col([1, 2]), col([10, 20]), 0.95, 2))).toEqual({
       code: '#VALUE!',
-      message: 'prior_alpha and prior_beta: give both or neither (prior_beta is missing); leaving both out uses the uniform prior Beta(1, 1)',
+      message:
+        'prior_alpha and prior_beta: give both or neither (prior_beta is missing); leaving both out uses the uniform prior Beta(1, 1)',
     });
     expect(sheetError(() => F.rateInterval(col([1, 2]), col([10, 20]), 1))).toEqual({
       code: '#VALUE!',
@@ -359,7 +405,7 @@ describe('priors', () => {
     expect(e.message).toMatch(/low|high/);
   });
 
-  test('PRIOR_FROM_HISTORY: likelihood fit equals scipy\'s Beta–Binomial maximum likelihood; row or column', () => {
+  test("PRIOR_FROM_HISTORY: likelihood fit equals scipy's Beta–Binomial maximum likelihood; row or column", () => {
     const h = ref.priorFromHistory;
     expectSpill(F.priorFromHistory(col(h.conversions), col(h.visitors)), [h.likelihood], 1e-5);
     expectSpill(F.priorFromHistory(row(h.conversions), row(h.visitors), 'likelihood'), [h.likelihood], 1e-5);
@@ -409,12 +455,13 @@ describe('planning', () => {
     expect(n).toBe(3024);
     // scipy's exact decision power on both sides of the answer (addin_visitors_needed.py):
     // 3023 visitors give 0.79988 < 0.8, 3024 give 0.800001 ≥ 0.8
-    for (const c of visitorsNeededRef.cases) close(F.decisionPower(c.baseline, c.lift, c.n, c.threshold), c.power, 1e-9);
+    for (const c of visitorsNeededRef.cases)
+      close(F.decisionPower(c.baseline, c.lift, c.n, c.threshold), c.power, 1e-9);
     const [below, at] = visitorsNeededRef.cases;
     expect([below?.n, below && below.power < 0.8, at?.n, at && at.power >= 0.8]).toEqual([n - 1, true, n, true]);
   });
 
-  test('CLASSIC_SAMPLE_SIZE equals R\'s power.prop.test n rounded up', () => {
+  test("CLASSIC_SAMPLE_SIZE equals R's power.prop.test n rounded up", () => {
     // R 4.2: power.prop.test(p1 = 0.10, p2 = 0.15, power = 0.8) → n = 685.596858 (docs/check-values.md)
     expect(F.classicSampleSize(0.1, 0.5)).toBe(686);
     // power.prop.test(p1 = 0.05, p2 = 0.055, power = 0.8) → 31233.43794
@@ -561,8 +608,18 @@ describe('counts per exposure (Gamma posteriors) against scipy', () => {
 // The functions of issue #13, against their references: test/reference/means/lift_above_reference.py (scipy quad
 // and betaincc) and test/reference/revenue/revenue_reference.py (nested scipy quadrature of R = p × v).
 const liftAbove = readJson<{
-  means: { name: string; variants: { count: number; mean: number; sd: number }[]; minLifts: number[]; above: number[][] }[];
-  events: { name: string; variants: { events: number; exposure: number }[]; minLifts: number[]; aboveClosedForm: number[][] }[];
+  means: {
+    name: string;
+    variants: { count: number; mean: number; sd: number }[];
+    minLifts: number[];
+    above: number[][];
+  }[];
+  events: {
+    name: string;
+    variants: { events: number; exposure: number }[];
+    minLifts: number[];
+    aboveClosedForm: number[][];
+  }[];
 }>('means/lift_above_values.json');
 interface RevenueCase {
   name: string;
@@ -586,7 +643,12 @@ describe('P(lift > min_lift) and the decision for averages and counts', () => {
     const c = liftAbove.means.find((x) => x.name === 'means_large');
     if (c === undefined) throw new Error('no means_large case');
     c.minLifts.forEach((m, row) => {
-      const out = F.meanProbLiftAbove(col(c.variants.map((v) => v.count)), col(c.variants.map((v) => v.mean)), col(c.variants.map((v) => v.sd)), m);
+      const out = F.meanProbLiftAbove(
+        col(c.variants.map((v) => v.count)),
+        col(c.variants.map((v) => v.mean)),
+        col(c.variants.map((v) => v.sd)),
+        m,
+      );
       expectSpill(out, vsControl(c.above[row] as number[]), 1e-9);
     });
   });
@@ -595,13 +657,19 @@ describe('P(lift > min_lift) and the decision for averages and counts', () => {
     const c = liftAbove.events.find((x) => x.name === 'events_typical');
     if (c === undefined) throw new Error('no events_typical case');
     c.minLifts.forEach((m, row) => {
-      const out = F.eventsProbLiftAbove(col(c.variants.map((v) => v.events)), col(c.variants.map((v) => v.exposure)), m);
+      const out = F.eventsProbLiftAbove(
+        col(c.variants.map((v) => v.events)),
+        col(c.variants.map((v) => v.exposure)),
+        m,
+      );
       expectSpill(out, vsControl(c.aboveClosedForm[row] as number[]), 1e-9);
     });
   });
 
-  test('MEAN_DECISION and EVENTS_DECISION: the rule of DECISION, the loss in the metric\'s units', () => {
-    expect(F.meanDecision(col([1200, 1180]), col([3.1, 3.42]), col([9.8, 10.4]), 0.1, col(['Old page', 'New page']))).toBe(
+  test("MEAN_DECISION and EVENTS_DECISION: the rule of DECISION, the loss in the metric's units", () => {
+    expect(
+      F.meanDecision(col([1200, 1180]), col([3.1, 3.42]), col([9.8, 10.4]), 0.1, col(['Old page', 'New page'])),
+    ).toBe(
       "Choose New page: its expected loss 0.052 in the metric's units is within the 0.10 in the metric's units allowed",
     );
     expect(F.eventsDecision(row([340, 395]), row([1000, 1010]), 0.0001)).toBe(
@@ -609,7 +677,8 @@ describe('P(lift > min_lift) and the decision for averages and counts', () => {
     );
     expect(sheetError(() => F.meanDecision(col([20, 20]), col([0, 0.5]), col([1, 1])))).toEqual({
       code: '#N/A',
-      message: "max_loss: the default, 1% of the control's mean, is 0 because that mean is 0; give max_loss in the metric's units",
+      message:
+        "max_loss: the default, 1% of the control's mean, is 0 because that mean is 0; give max_loss in the metric's units",
     });
     expect(sheetError(() => F.eventsDecision(col([3, 4]), col([10, 10]), -1))).toEqual({
       code: '#VALUE!',
@@ -636,7 +705,11 @@ describe('revenue per visitor from totals against nested scipy quadrature', () =
     expectSpill(F.revenueInterval(orders, visitors, revenue, orderSd), c.intervals, 1e-9);
     expectSpill(F.revenueProbHighest(orders, visitors, revenue, orderSd), col(c.probHighest) as number[][], 1e-9);
     expectSpill(F.revenueProbAboveControl(orders, visitors, revenue, orderSd), vsControl(c.probAboveControl), 1e-9);
-    expectSpill(F.revenueExpectedLoss(orders, visitors, revenue, orderSd), col(c.expectedLoss as number[]) as number[][], 1e-9);
+    expectSpill(
+      F.revenueExpectedLoss(orders, visitors, revenue, orderSd),
+      col(c.expectedLoss as number[]) as number[][],
+      1e-9,
+    );
     const lift = c.liftInterval as number[];
     expectSpill(F.revenueLiftInterval(orders, visitors, revenue, orderSd), blockVsControl([lift]), 1e-9);
     for (const l of c.liftAbove as { minLift: number; above: number }[]) {
@@ -644,7 +717,7 @@ describe('revenue per visitor from totals against nested scipy quadrature', () =
     }
   });
 
-  test('REVENUE_DECISION: DECISION\'s rule, the loss per visitor without a currency symbol', () => {
+  test("REVENUE_DECISION: DECISION's rule, the loss per visitor without a currency symbol", () => {
     const c = revenueCase('exp_typical');
     const [orders, visitors, revenue] = args(c, false);
     expect(F.revenueDecision(orders, visitors, revenue, undefined, 0.1, col(['Old', 'New']))).toBe(
@@ -675,7 +748,9 @@ describe('revenue per visitor from totals against nested scipy quadrature', () =
         'revenue, item 2: 0 from 3 orders; with exponential order values a total of 0 has no posterior; give ' +
         'order_sd (the t model) if orders can be free',
     });
-    expect(sheetError(() => F.revenueProbAboveControl(col([120, 150]), col([2400, 2380]), col([7200, 8100]), col([55, ''])))).toEqual({
+    expect(
+      sheetError(() => F.revenueProbAboveControl(col([120, 150]), col([2400, 2380]), col([7200, 8100]), col([55, '']))),
+    ).toEqual({
       code: '#VALUE!',
       message: 'order_sd, item 2: is blank; enter 0, or a number from 1E-6 to 1E+12',
     });
@@ -685,9 +760,13 @@ describe('revenue per visitor from totals against nested scipy quadrature', () =
         "orders, item 1: with 1 order the exponential model's average order value has no finite mean, so every " +
         'expected loss is infinite; wait for a second order (or give order_sd once there are 3)',
     });
-    const whale = sheetError(() => F.revenueLiftInterval(col([400, 420]), col([20000, 20000]), col([20000, 22000]), col([1000, 1100])));
+    const whale = sheetError(() =>
+      F.revenueLiftInterval(col([400, 420]), col([20000, 20000]), col([20000, 22000]), col([1000, 1100])),
+    );
     expect(whale.code).toBe('#N/A');
-    expect(whale.message).toMatch(/^order_sd, item 1: the control's average order value could plausibly be zero or negative \(/);
+    expect(whale.message).toMatch(
+      /^order_sd, item 1: the control's average order value could plausibly be zero or negative \(/,
+    );
   });
 });
 

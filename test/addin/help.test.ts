@@ -29,7 +29,11 @@ const help = require('../../help/build') as {
   parseExample(e: string): { formula: string; result?: string; words?: string };
   signature(doc: FunctionDoc): string;
 };
-const icons = require('../../manifest/icons') as { ICON_SIZES: number[]; drawIcon(size: number): Buffer; crc32(b: Buffer): number };
+const icons = require('../../manifest/icons') as {
+  ICON_SIZES: number[];
+  drawIcon(size: number): Buffer;
+  crc32(b: Buffer): number;
+};
 /* eslint-enable @typescript-eslint/no-require-imports */
 
 const docs = help.readFunctionDocs();
@@ -47,12 +51,23 @@ test('one page per function plus an index that links every page', () => {
 
 test('the pages agree with the generated metadata: description, parameters, help URL', async () => {
   const generated = await generateCustomFunctionsMetadata(help.wrapperFiles(), false);
-  const metadata = (JSON.parse(generated.metadataJson) as { functions: { id: string; description: string; helpUrl: string; parameters: { name: string; optional?: boolean; description: string }[] }[] }).functions;
+  const metadata = (
+    JSON.parse(generated.metadataJson) as {
+      functions: {
+        id: string;
+        description: string;
+        helpUrl: string;
+        parameters: { name: string; optional?: boolean; description: string }[];
+      }[];
+    }
+  ).functions;
   for (const m of metadata) {
     const d = docs.find((x) => x.id === m.id) as FunctionDoc;
     expect(d.description).toBe(m.description);
     expect(d.helpUrl).toBe(m.helpUrl);
-    expect(d.params.map((p) => [p.name, p.optional, p.text])).toEqual(m.parameters.map((p) => [p.name, p.optional ?? false, p.description]));
+    expect(d.params.map((p) => [p.name, p.optional, p.text])).toEqual(
+      m.parameters.map((p) => [p.name, p.optional ?? false, p.description]),
+    );
   }
 }, 60000);
 
@@ -64,7 +79,15 @@ describe.each(docs.map((d) => [d.id, d] as const))('%s', (id, d) => {
     expect(d.source.length).toBeGreaterThan(15);
     expect(d.examples.length).toBeGreaterThan(0);
     const page = pages.get(`${id}.html`) ?? '';
-    for (const heading of ['Syntax', 'Arguments', 'Result', 'Example', 'How it is computed', 'Published source', 'Cautions']) {
+    for (const heading of [
+      'Syntax',
+      'Arguments',
+      'Result',
+      'Example',
+      'How it is computed',
+      'Published source',
+      'Cautions',
+    ]) {
       expect({ id, heading, present: page.includes(`<h2>${heading}</h2>`) }).toEqual({ id, heading, present: true });
     }
     expect(page).toContain('qualified statistician');
@@ -82,12 +105,20 @@ describe.each(docs.map((d) => [d.id, d] as const))('%s', (id, d) => {
   });
 });
 
-test('each page states every argument\'s allowed values, as the catalogue\'s rules describe them', () => {
+test("each page states every argument's allowed values, as the catalogue's rules describe them", () => {
   for (const entry of CATALOGUE_LIST) {
     const page = pages.get(`${entry.id}.html`) ?? '';
     for (const p of entry.params) {
-      const words = describeParam(p, entry).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-      expect({ id: entry.id, name: p.name, stated: page.includes(`<td>${words}</td>`) }).toEqual({ id: entry.id, name: p.name, stated: true });
+      const words = describeParam(p, entry)
+        .replace(/&/g, '&amp;')
+        .replace(/</g, '&lt;')
+        .replace(/>/g, '&gt;')
+        .replace(/"/g, '&quot;');
+      expect({ id: entry.id, name: p.name, stated: page.includes(`<td>${words}</td>`) }).toEqual({
+        id: entry.id,
+        name: p.name,
+        stated: true,
+      });
     }
   }
   // spot check of the words themselves (rules.ts): a level is a fraction strictly between 0 and 1
@@ -96,7 +127,8 @@ test('each page states every argument\'s allowed values, as the catalogue\'s rul
 
 test('cross-checks with built-in formulas are given where the catalogue promises one', () => {
   const withCrosscheck = docs.filter((d) => d.crosschecks.length > 0).map((d) => d.id);
-  for (const id of ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'SRM_PVALUE', 'CLASSIC_SAMPLE_SIZE']) expect(withCrosscheck).toContain(id);
+  for (const id of ['POSTERIOR_MEAN', 'RATE_INTERVAL', 'SRM_PVALUE', 'CLASSIC_SAMPLE_SIZE'])
+    expect(withCrosscheck).toContain(id);
   expect(docs.find((d) => d.id === 'RATE_INTERVAL')?.crosschecks.join(' ')).toContain('BETA.INV(0.025');
   expect(docs.find((d) => d.id === 'SRM_PVALUE')?.crosschecks.join(' ')).toContain('CHISQ.TEST');
   expect(docs.find((d) => d.id === 'CLASSIC_SAMPLE_SIZE')?.crosschecks.join(' ')).toContain('NORM.S.INV');
@@ -127,7 +159,10 @@ describe('icons', () => {
       const type = png.subarray(offset + 4, offset + 8).toString('ascii');
       const data = png.subarray(offset + 8, offset + 8 + length);
       const crc = png.readUInt32BE(offset + 8 + length);
-      expect({ type, crcOk: crc === icons.crc32(png.subarray(offset + 4, offset + 8 + length)) }).toEqual({ type, crcOk: true });
+      expect({ type, crcOk: crc === icons.crc32(png.subarray(offset + 4, offset + 8 + length)) }).toEqual({
+        type,
+        crcOk: true,
+      });
       chunks.push({ type, data });
       offset += 12 + length;
     }

@@ -24,7 +24,13 @@ interface ExactCase {
 const exact = values.exact as ExactCase[];
 const find = (rate: number, lift: number, K: number, last: number, sides: number): ExactCase => {
   const c = exact.find(
-    (e) => e.rate === rate && e.lift === lift && e.looks.length === K && e.looks.at(-1) === last && e.sides === sides && e.prior === undefined,
+    (e) =>
+      e.rate === rate &&
+      e.lift === lift &&
+      e.looks.length === K &&
+      e.looks.at(-1) === last &&
+      e.sides === sides &&
+      e.prior === undefined,
   );
   if (c === undefined) throw new Error(`no reference case ${rate} ${lift} ${K} ${last} ${sides}`);
   return c;
@@ -44,19 +50,23 @@ describe('FALSE_ALARM_WITH_LOOKS and POWER_WITH_LOOKS against the exact enumerat
   });
 
   test('POWER_WITH_LOOKS at the reference lift', () => {
-    const c = exact.find((e) => e.rate === 0.05 && e.lift > 0 && e.looks.length === 5 && e.looks.at(-1) === 500) as ExactCase;
+    const c = exact.find(
+      (e) => e.rate === 0.05 && e.lift > 0 && e.looks.length === 5 && e.looks.at(-1) === 500,
+    ) as ExactCase;
     expect(Math.abs(F.powerWithLooks(0.05, c.lift, col(c.looks)) - c.probability)).toBeLessThan(1e-10);
   });
 
   test('a prior is passed to the read-out (fractional prior, scipy quad)', () => {
     const c = exact.find((e) => e.prior !== undefined && e.prior[0] === 0.5 && e.sides === 1) as ExactCase;
-    expect(Math.abs(F.falseAlarmWithLooks(c.rate, col(c.looks), c.threshold, 1, 0.5, 0.5) - c.probability)).toBeLessThan(1e-10);
+    expect(
+      Math.abs(F.falseAlarmWithLooks(c.rate, col(c.looks), c.threshold, 1, 0.5, 0.5) - c.probability),
+    ).toBeLessThan(1e-10);
   });
 });
 
 describe('THRESHOLD_FOR_LOOKS', () => {
   test.each(values.normal.pocock.map((c) => [c.looks, c] as const))(
-    '%p large looks, two sides: Φ(Pocock\'s z) (scipy multivariate normal root; Pocock 1977)',
+    "%p large looks, two sides: Φ(Pocock's z) (scipy multivariate normal root; Pocock 1977)",
     (K, c) => {
       const looks = Array.from({ length: K }, (_, i) => (i + 1) * 1e6);
       const t = F.thresholdForLooks(0.05, col(looks), 0.05, 2);
@@ -73,7 +83,7 @@ describe('THRESHOLD_FOR_LOOKS', () => {
 });
 
 describe('THRESHOLD_FOR_VARIANTS and SMALLEST_DETECTABLE_LIFT against scipy', () => {
-  test('Dunnett\'s integral (scipy quad + brentq), default false alarm 0.05', () => {
+  test("Dunnett's integral (scipy quad + brentq), default false alarm 0.05", () => {
     for (const c of values.dunnett.filter((d) => d.alpha === 0.05)) {
       expect(Math.abs(F.thresholdForVariants(c.challengers + 1) - c.threshold)).toBeLessThan(1e-12);
     }
@@ -97,15 +107,24 @@ describe('THRESHOLD_FOR_VARIANTS and SMALLEST_DETECTABLE_LIFT against scipy', ()
 describe('PROB_ABOVE_CONTROL_BY_DAY and SRM_PVALUE_BY_DAY against scipy', () => {
   const t = values.byday;
   // The invented week of the reference, with a blank row inserted after day 2 (a day without data).
-  const withBlank = <T>(rows: T[][], blank: T): T[][] => [...rows.slice(0, 2), rows[0]!.map(() => blank), ...rows.slice(2)];
+  const withBlank = <T>(rows: T[][], blank: T): T[][] => [
+    ...rows.slice(0, 2),
+    rows[0]!.map(() => blank),
+    ...rows.slice(2),
+  ];
 
   test('one row per day, one column per challenger; a blank day gives a blank row', () => {
-    const got = F.probAboveControlByDay(withBlank(t.conversions, '' as number | string), withBlank(t.visitors, '' as number | string));
+    const got = F.probAboveControlByDay(
+      withBlank(t.conversions, '' as number | string),
+      withBlank(t.visitors, '' as number | string),
+    );
     expect(got).toHaveLength(t.visitors.length + 1);
     expect(got[2]).toEqual(['', '']);
     const filled = got.filter((_, i) => i !== 2);
     // Miller's closed form in scipy against ours: agreement to ~1e-12 (summation order)
-    filled.forEach((r, d) => r.forEach((v, j) => expect(Math.abs((v as number) - t.probAboveControl[d]![j]!)).toBeLessThan(1e-11)));
+    filled.forEach((r, d) =>
+      r.forEach((v, j) => expect(Math.abs((v as number) - t.probAboveControl[d]![j]!)).toBeLessThan(1e-11)),
+    );
   });
 
   test('the split check each day; equal shares by default, planned shares in a row or a column', () => {
@@ -117,11 +136,24 @@ describe('PROB_ABOVE_CONTROL_BY_DAY and SRM_PVALUE_BY_DAY against scipy', () => 
   });
 
   test('a challenger with no visitors yet, and a day before any visitor, are blank cells', () => {
-    expect(F.probAboveControlByDay([[1, 0], [2, 3]], [[10, 0], [12, 11]])).toEqual([
-      [''],
-      [F.probAboveControlByDay([[3, 3]], [[22, 11]])[0]![0]],
-    ]);
-    expect(F.srmPValueByDay([[0, 0], [500, 520]])[0]).toEqual(['']);
+    expect(
+      F.probAboveControlByDay(
+        [
+          [1, 0],
+          [2, 3],
+        ],
+        [
+          [10, 0],
+          [12, 11],
+        ],
+      ),
+    ).toEqual([[''], [F.probAboveControlByDay([[3, 3]], [[22, 11]])[0]![0]]]);
+    expect(
+      F.srmPValueByDay([
+        [0, 0],
+        [500, 520],
+      ])[0],
+    ).toEqual(['']);
   });
 });
 
@@ -132,29 +164,56 @@ describe('errors reach the cell with their code and message', () => {
       '#VALUE!',
       'visitors_at_looks, item 2: 900 is not more than the 1000 of item 1; the values are cumulative, so each must be more than the one before',
     ],
-    [() => F.falseAlarmWithLooks(0.05, col([1000]), 0.5), '#VALUE!', 'threshold: 0.5 is not allowed; enter a number greater than 0.5 and at most 0.999999'],
-    [() => F.falseAlarmWithLooks(0.05, col([1000]), 0.95, 3), '#VALUE!', 'sides: 3 is not allowed; enter a whole number from 1 to 2'],
+    [
+      () => F.falseAlarmWithLooks(0.05, col([1000]), 0.5),
+      '#VALUE!',
+      'threshold: 0.5 is not allowed; enter a number greater than 0.5 and at most 0.999999',
+    ],
+    [
+      () => F.falseAlarmWithLooks(0.05, col([1000]), 0.95, 3),
+      '#VALUE!',
+      'sides: 3 is not allowed; enter a whole number from 1 to 2',
+    ],
     [
       () => F.falseAlarmWithLooks(0.05, col([1000]), 0.95, 1, 0.0001, 1),
       '#VALUE!',
       'prior_alpha: 0.0001 is not allowed; enter a number from 0.001 to 1E+6',
     ],
-    [() => F.powerWithLooks(0.6, 1, col([1000])), '#VALUE!', 'baseline rate × (1 + lift) must be between 0 and 1, got 1.2'],
-    [() => F.thresholdForLooks(0.05, col([1000]), 0.7), '#VALUE!', 'false_alarm: 0.7 is not allowed; enter a number from 1E-6 to 0.5'],
+    [
+      () => F.powerWithLooks(0.6, 1, col([1000])),
+      '#VALUE!',
+      'baseline rate × (1 + lift) must be between 0 and 1, got 1.2',
+    ],
+    [
+      () => F.thresholdForLooks(0.05, col([1000]), 0.7),
+      '#VALUE!',
+      'false_alarm: 0.7 is not allowed; enter a number from 1E-6 to 0.5',
+    ],
     [
       () => F.thresholdForLooks(0.3, col(Array.from({ length: 50 }, (_, i) => (i + 1) * 100000)), 0.000001, 2),
       '#N/A',
       'even the threshold 0.999999 gives a false-alarm rate above 0.000001 with these looks',
     ],
     [() => F.thresholdForVariants(51), '#VALUE!', 'variants: 51 is not allowed; enter a whole number from 2 to 50'],
-    [() => F.smallestDetectableLift(0.1, 2e9), '#VALUE!', 'visitors_per_variant: 2000000000 is not allowed; enter a whole number from 1 to 1E+9'],
+    [
+      () => F.smallestDetectableLift(0.1, 2e9),
+      '#VALUE!',
+      'visitors_per_variant: 2000000000 is not allowed; enter a whole number from 1 to 1E+9',
+    ],
     [
       () => F.smallestDetectableLift(0.9, 10, 0.95, 0.99),
       '#N/A',
       'no lift reaches a power of 0.99 with 10 visitors per variant at a baseline rate of 0.9 (not even a challenger converting every visitor)',
     ],
     [
-      () => F.probAboveControlByDay([[1, 2]], [[10, 10], [10, 10]]),
+      () =>
+        F.probAboveControlByDay(
+          [[1, 2]],
+          [
+            [10, 10],
+            [10, 10],
+          ],
+        ),
       '#VALUE!',
       'conversions_by_day and visitors_by_day must have the same shape: conversions_by_day is 1 × 2, visitors_by_day is 2 × 2 (rows × columns)',
     ],
@@ -171,6 +230,8 @@ describe('errors reach the cell with their code and message', () => {
     const looks = col(Array.from({ length: 100 }, (_, i) => (i + 1) * 1e7));
     const error = thrownWorksheetError(() => F.falseAlarmWithLooks(0.5, looks));
     expect(error.code).toBe('#VALUE!');
-    expect(error.message).toMatch(/^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take/);
+    expect(error.message).toMatch(
+      /^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take/,
+    );
   });
 });

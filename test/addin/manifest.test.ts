@@ -27,7 +27,12 @@ type Node = Record<string, unknown>;
 type Ordered = Node[];
 
 function parseOrdered(xml: string): Ordered {
-  return new XMLParser({ preserveOrder: true, ignoreAttributes: false, attributeNamePrefix: '', commentPropName: '#comment' }).parse(xml) as Ordered;
+  return new XMLParser({
+    preserveOrder: true,
+    ignoreAttributes: false,
+    attributeNamePrefix: '',
+    commentPropName: '#comment',
+  }).parse(xml) as Ordered;
 }
 
 function tagOf(node: Node): string {
@@ -60,9 +65,17 @@ function allNodes(nodes: Ordered, out: Node[] = []): Node[] {
 /** Checks that the children's tags appear in the schema's order (optional ones may be absent). */
 function expectOrder(node: Node, schemaOrder: readonly string[]): void {
   const tags = childrenOf(node).map(tagOf);
-  for (const t of tags) expect({ parent: tagOf(node), child: t, known: schemaOrder.includes(t) }).toEqual({ parent: tagOf(node), child: t, known: true });
+  for (const t of tags)
+    expect({ parent: tagOf(node), child: t, known: schemaOrder.includes(t) }).toEqual({
+      parent: tagOf(node),
+      child: t,
+      known: true,
+    });
   const positions = tags.map((t) => schemaOrder.indexOf(t));
-  expect({ parent: tagOf(node), tags }).toEqual({ parent: tagOf(node), tags: [...tags].sort((a, b) => schemaOrder.indexOf(a) - schemaOrder.indexOf(b)) });
+  expect({ parent: tagOf(node), tags }).toEqual({
+    parent: tagOf(node),
+    tags: [...tags].sort((a, b) => schemaOrder.indexOf(a) - schemaOrder.indexOf(b)),
+  });
   expect(positions).toEqual([...positions].sort((a, b) => a - b));
 }
 
@@ -76,9 +89,23 @@ describe('element order per the schema', () => {
   test('OfficeApp (TaskPaneApp)', () => {
     expect(attrs(officeApp)['xsi:type']).toBe('TaskPaneApp');
     expectOrder(officeApp, [
-      'Id', 'AlternateId', 'Version', 'ProviderName', 'DefaultLocale', 'DisplayName', 'Description', 'IconUrl',
-      'HighResolutionIconUrl', 'SupportUrl', 'AppDomains', 'Hosts', 'Requirements', 'DefaultSettings', 'Permissions',
-      'AllowSnapshot', 'VersionOverrides',
+      'Id',
+      'AlternateId',
+      'Version',
+      'ProviderName',
+      'DefaultLocale',
+      'DisplayName',
+      'Description',
+      'IconUrl',
+      'HighResolutionIconUrl',
+      'SupportUrl',
+      'AppDomains',
+      'Hosts',
+      'Requirements',
+      'DefaultSettings',
+      'Permissions',
+      'AllowSnapshot',
+      'VersionOverrides',
     ]);
   });
 
@@ -127,10 +154,16 @@ describe('content', () => {
   }
 
   test('every resid resolves to a defined resource and every resid is at most 32 characters', () => {
-    const used = allNodes(doc).map((n) => attrs(n).resid).filter((r): r is string => typeof r === 'string');
+    const used = allNodes(doc)
+      .map((n) => attrs(n).resid)
+      .filter((r): r is string => typeof r === 'string');
     expect(used.length).toBeGreaterThan(10);
     for (const resid of used) {
-      expect({ resid, defined: resourceIds.has(resid), short: resid.length <= 32 }).toEqual({ resid, defined: true, short: true });
+      expect({ resid, defined: resourceIds.has(resid), short: resid.length <= 32 }).toEqual({
+        resid,
+        defined: true,
+        short: true,
+      });
     }
   });
 
@@ -148,8 +181,12 @@ describe('content', () => {
   test('the namespace is ABTEST and the script and metadata are dist/functions.js and functions.json', () => {
     const point = path_(host, 'AllFormFactors', 'ExtensionPoint');
     expect(resourceIds.get(attrs(child(point, 'Namespace')).resid as string)).toBe('ABTEST');
-    expect(resourceIds.get(attrs(path_(point, 'Script', 'SourceLocation')).resid as string)).toBe('https://localhost:3000/functions.js');
-    expect(resourceIds.get(attrs(path_(point, 'Metadata', 'SourceLocation')).resid as string)).toBe('https://localhost:3000/functions.json');
+    expect(resourceIds.get(attrs(path_(point, 'Script', 'SourceLocation')).resid as string)).toBe(
+      'https://localhost:3000/functions.js',
+    );
+    expect(resourceIds.get(attrs(path_(point, 'Metadata', 'SourceLocation')).resid as string)).toBe(
+      'https://localhost:3000/functions.json',
+    );
   });
 
   test('shared runtime: one long-lived runtime on Taskpane.Url, used by the page, function file and button', () => {
@@ -157,18 +194,23 @@ describe('content', () => {
     expect(attrs(runtime)).toEqual({ resid: 'Taskpane.Url', lifetime: 'long' });
     expect(attrs(path_(host, 'AllFormFactors', 'ExtensionPoint', 'Page', 'SourceLocation')).resid).toBe('Taskpane.Url');
     expect(attrs(path_(host, 'DesktopFormFactor', 'FunctionFile')).resid).toBe('Taskpane.Url');
-    const sets = childrenOf(path_(officeApp, 'Requirements', 'Sets')).map((s) => `${attrs(s).Name} ${attrs(s).MinVersion}`);
+    const sets = childrenOf(path_(officeApp, 'Requirements', 'Sets')).map(
+      (s) => `${attrs(s).Name} ${attrs(s).MinVersion}`,
+    );
     expect(sets).toEqual(['SharedRuntime 1.1', 'CustomFunctionsRuntime 1.1', 'ExcelApi 1.12']);
   });
 
   test('id, version, names and icons', () => {
-    expect(String((child(officeApp, 'Id').Id as Ordered)[0]?.['#text'])).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
+    expect(String((child(officeApp, 'Id').Id as Ordered)[0]?.['#text'])).toMatch(
+      /^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/,
+    );
     expect(String((child(officeApp, 'Version').Version as Ordered)[0]?.['#text'])).toMatch(/^\d+\.\d+\.\d+\.\d+$/);
     expect(attrs(child(officeApp, 'DisplayName')).DefaultValue).toBe('Lift Ledger');
     expect((attrs(child(officeApp, 'Description')).DefaultValue ?? '').length).toBeGreaterThan(40);
     expect(resourceIds.get('Group.Label')).toBe('Experiments');
     expect(resourceIds.get('OpenPanel.Label')).toBe('Open Lift Ledger');
-    for (const size of [16, 32, 80]) expect(resourceIds.get(`Icon.${size}x${size}`)).toBe(`https://localhost:3000/assets/icon-${size}.png`);
+    for (const size of [16, 32, 80])
+      expect(resourceIds.get(`Icon.${size}x${size}`)).toBe(`https://localhost:3000/assets/icon-${size}.png`);
   });
 });
 
@@ -188,7 +230,9 @@ describe('production manifest', () => {
   test('help URLs in functions.json move to the base URL too', async () => {
     const { generateCustomFunctionsMetadata } = await import('custom-functions-metadata');
     const generated = await generateCustomFunctionsMetadata(help.wrapperFiles(), false);
-    const moved = JSON.parse(writer.rewriteMetadata(generated.metadataJson, 'https://addins.example.org/lift-ledger')) as {
+    const moved = JSON.parse(
+      writer.rewriteMetadata(generated.metadataJson, 'https://addins.example.org/lift-ledger'),
+    ) as {
       functions: { id: string; helpUrl: string }[];
     };
     expect(moved.functions).toHaveLength(CATALOGUE_LIST.length);

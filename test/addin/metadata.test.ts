@@ -78,9 +78,16 @@ describe.each(EXPECTED.map((f) => [f.name, f] as const))('%s', (name, expected) 
   test('ranges are matrices of any; single values are scalars', () => {
     for (const p of byName(name).parameters) {
       if (RANGES.has(p.name)) {
-        expect({ name: p.name, dimensionality: p.dimensionality, type: p.type }).toEqual({ name: p.name, dimensionality: 'matrix', type: 'any' });
+        expect({ name: p.name, dimensionality: p.dimensionality, type: p.type }).toEqual({
+          name: p.name,
+          dimensionality: 'matrix',
+          type: 'any',
+        });
       } else {
-        expect({ name: p.name, dimensionality: p.dimensionality ?? 'scalar' }).toEqual({ name: p.name, dimensionality: 'scalar' });
+        expect({ name: p.name, dimensionality: p.dimensionality ?? 'scalar' }).toEqual({
+          name: p.name,
+          dimensionality: 'scalar',
+        });
         expect(['number', 'string']).toContain(p.type);
       }
       expect(p.repeating ?? false).toBe(false);
@@ -99,7 +106,11 @@ describe.each(EXPECTED.map((f) => [f.name, f] as const))('%s', (name, expected) 
     expect(f.description).not.toMatch(/\n/);
     for (const p of f.parameters) {
       expect({ name: p.name, long: (p.description ?? '').length > 15 }).toEqual({ name: p.name, long: true });
-      if (p.optional) expect({ name: p.name, saysDefault: /default/.test(p.description ?? '') }).toEqual({ name: p.name, saysDefault: true });
+      if (p.optional)
+        expect({ name: p.name, saysDefault: /default/.test(p.description ?? '') }).toEqual({
+          name: p.name,
+          saysDefault: true,
+        });
     }
   });
 
@@ -123,13 +134,17 @@ test('metadata order is the catalogue order', () => {
 test('result types: a single number is "number", a single text "string"', () => {
   for (const f of CATALOGUE_LIST) {
     if (f.spill.kind !== 'one') continue;
-    expect({ id: f.id, type: byName(f.id).result?.type }).toEqual({ id: f.id, type: f.spill.of === 'number' ? 'number' : 'string' });
+    expect({ id: f.id, type: byName(f.id).result?.type }).toEqual({
+      id: f.id,
+      type: f.spill.of === 'number' ? 'number' : 'string',
+    });
   }
 });
 
 describe('the built dist/functions.json', () => {
   const file = path.join(__dirname, '..', '..', 'dist', 'functions.json');
-  const built = (): MetadataFunction[] => (JSON.parse(fs.readFileSync(file, 'utf8')) as { functions: MetadataFunction[] }).functions;
+  const built = (): MetadataFunction[] =>
+    (JSON.parse(fs.readFileSync(file, 'utf8')) as { functions: MetadataFunction[] }).functions;
   const shape = (f: { id: string; parameters: MetadataParameter[] } | FunctionEntry): string[] =>
     'parameters' in f
       ? f.parameters.map((p) => `${p.name}${p.optional ? '?' : ''}${p.dimensionality === 'matrix' ? '[]' : ''}`)
@@ -145,7 +160,8 @@ describe('the built dist/functions.json', () => {
   });
 
   test('equals the metadata generated from the sources (up to the help URLs of a deployment build)', () => {
-    const strip = (list: MetadataFunction[]): unknown => list.map(({ helpUrl, ...rest }) => ({ ...rest, help: helpUrl?.replace(/^.*\/help\//, '') }));
+    const strip = (list: MetadataFunction[]): unknown =>
+      list.map(({ helpUrl, ...rest }) => ({ ...rest, help: helpUrl?.replace(/^.*\/help\//, '') }));
     expect(strip(built())).toEqual(strip(functions));
   });
 });

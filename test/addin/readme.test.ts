@@ -7,7 +7,11 @@ import { CATALOGUE_LIST, signatureText } from '../../functions/catalogue';
 import { describeParam } from '../../functions/sheet/entry';
 
 /* eslint-disable-next-line @typescript-eslint/no-require-imports */
-const readme = require('../../help/readme') as { README: string; withTables(text: string): string; functionTables(): string };
+const readme = require('../../help/readme') as {
+  README: string;
+  withTables(text: string): string;
+  functionTables(): string;
+};
 
 test('README.md holds the function tables as the catalogue and the JSDoc give them (else run `npm run readme`)', () => {
   const text = fs.readFileSync(readme.README, 'utf8');
@@ -18,6 +22,7 @@ test('every function has a row with its syntax, and every argument its allowed v
   const tables = readme.functionTables();
   for (const fn of CATALOGUE_LIST) {
     expect(tables).toContain(`| \`${signatureText(fn)}\` | \`=ABTEST.${fn.id}(`);
-    for (const p of fn.params) expect(tables).toContain(`| \`${p.name}\` | ${describeParam(p, fn).replace(/\|/g, '\\|')} |`);
+    for (const p of fn.params)
+      expect(tables).toContain(`| \`${p.name}\` | ${describeParam(p, fn).replace(/\|/g, '\\|')} |`);
   }
 });

@@ -7,7 +7,16 @@
  * position. The demo workbook is invented data (the garden-supply shop).
  */
 import type { Page } from 'playwright-core';
-import { cellLocator, enterCell, openPreview, readCell, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  cellLocator,
+  enterCell,
+  openPreview,
+  readCell,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 async function cellInput(page: Page, sheet: string, address: string): Promise<string> {
   return page.evaluate(
@@ -67,7 +76,10 @@ describe('the preview grid', () => {
 
   it('stops running text at a filled cell', async () => {
     await switchSheet(page, 'Checkout test');
-    const runOn = async (): Promise<number> => cellLocator(page, 'B47').locator('.cell-text').evaluate((span) => span.getBoundingClientRect().width);
+    const runOn = async (): Promise<number> =>
+      cellLocator(page, 'B47')
+        .locator('.cell-text')
+        .evaluate((span) => span.getBoundingClientRect().width);
     const widths = await page.evaluate(() => {
       const book = window.liftLedgerPreview?.workbook;
       if (!book) throw new Error('the preview is not ready');

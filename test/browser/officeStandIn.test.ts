@@ -4,7 +4,15 @@
  * the parent page (reads, writes that recalculate, selection events, a chart drawn over the grid).
  * Posterior mean checks use the conjugate closed form (1 + x)/(2 + n) (common practice).
  */
-import { cellLocator, openPreview, panelFrame, readCell, screenshot, selectCell, type OpenPreview } from './previewHelpers';
+import {
+  cellLocator,
+  openPreview,
+  panelFrame,
+  readCell,
+  screenshot,
+  selectCell,
+  type OpenPreview,
+} from './previewHelpers';
 
 /** The part of the Excel global these checks call (types only; the code runs inside the panel's frame). */
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
@@ -36,9 +44,16 @@ describe('Office/Excel stand-in inside the side-panel iframe', () => {
     const read = await frame.evaluate(async () => {
       const excel = (window as unknown as { Excel: ExcelLike }).Excel;
       return excel.run(async (context) => {
-        const range = context.workbook.worksheets.getItem('Checkout test').getRange('B4:C6').load('address, values, rowCount');
+        const range = context.workbook.worksheets
+          .getItem('Checkout test')
+          .getRange('B4:C6')
+          .load('address, values, rowCount');
         await context.sync();
-        return { address: range.address as string, values: range.values as unknown[][], rows: range.rowCount as number };
+        return {
+          address: range.address as string,
+          values: range.values as unknown[][],
+          rows: range.rowCount as number,
+        };
       });
     });
     expect(read.address).toBe("'Checkout test'!B4:C6");
@@ -85,7 +100,9 @@ describe('Office/Excel stand-in inside the side-panel iframe', () => {
     });
     await selectCell(page, 'B23');
     await frame.waitForFunction(() => (window as unknown as { seenAddresses: string[] }).seenAddresses.length > 0);
-    expect(await frame.evaluate(() => (window as unknown as { seenAddresses: string[] }).seenAddresses)).toContain("'Checkout test'!B23");
+    expect(await frame.evaluate(() => (window as unknown as { seenAddresses: string[] }).seenAddresses)).toContain(
+      "'Checkout test'!B23",
+    );
 
     await frame.evaluate(async () => {
       const excel = (window as unknown as { Excel: ExcelLike }).Excel;

@@ -13,7 +13,15 @@ import { formatPercent } from '../../taskpane/logic/inputs';
 import { detectableInWeeks, planWithLooks, thresholdText, type LooksPlanInputs } from '../../taskpane/logic/looksPlan';
 import { dailyVerdict, readDailyTable } from '../../taskpane/logic/dayByDay';
 import { buildDemoWorkbook } from '../../preview/src/demoWorkbook';
-import { openPreview, panelFrame, readBlock, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  openPreview,
+  panelFrame,
+  readBlock,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 async function narrowScreenshot(page: Page, name: string, frame: Frame, show: string): Promise<void> {
   await page.evaluate(() => {
@@ -134,7 +142,9 @@ describe('planning with looks and watching a running test', () => {
     const colIndex = column.charCodeAt(0) - 65;
     const probColumn = String.fromCharCode(65 + colIndex + 1);
     const got = await readBlock(page, 'Daily test', `${probColumn}${row + 2}`, 14, 2);
-    got.forEach((r, d) => r.forEach((v, j) => expect(Math.abs((v as number) - (want[d]![j] as number))).toBeLessThan(1e-12)));
+    got.forEach((r, d) =>
+      r.forEach((v, j) => expect(Math.abs((v as number) - (want[d]![j] as number))).toBeLessThan(1e-12)),
+    );
     expect(status).toContain('and a chart from');
     await screenshot(page, 'panel-looks-days-inserted');
   });

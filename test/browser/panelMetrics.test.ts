@@ -17,7 +17,16 @@ import { readoutBlock } from '../../taskpane/logic/formulas';
 import type { Guardrail } from '../../taskpane/logic/guardrails';
 import { metricReadoutBlock } from '../../taskpane/logic/metricFormulas';
 import { parseAddress } from '../../taskpane/workbook/address';
-import { openPreview, panelFrame, readCell, readBlock, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  openPreview,
+  panelFrame,
+  readCell,
+  readBlock,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 type Cell = number | string | boolean;
 const SHEET = 'Checkout test';
@@ -32,15 +41,18 @@ async function selectRange(page: Page, from: string, to: string): Promise<void> 
 }
 
 function expectClose(actual: Cell | undefined, expected: number, where: string, tol = 1e-12): void {
-  if (typeof actual !== 'number') throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
+  if (typeof actual !== 'number')
+    throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
   const allowed = tol * Math.max(1, Math.abs(expected));
-  if (!(Math.abs(actual - expected) <= allowed)) throw new Error(`${where}: ${actual} is not ${expected} (±${allowed})`);
+  if (!(Math.abs(actual - expected) <= allowed))
+    throw new Error(`${where}: ${actual} is not ${expected} (±${allowed})`);
 }
 
 function below(address: string, rows: number): string {
   const p = parseAddress(address).start;
   let letters = '';
-  for (let n = p.column + 1; n > 0; n = Math.floor((n - 1) / 26)) letters = String.fromCharCode(65 + ((n - 1) % 26)) + letters;
+  for (let n = p.column + 1; n > 0; n = Math.floor((n - 1) / 26))
+    letters = String.fromCharCode(65 + ((n - 1) % 26)) + letters;
   return `${letters}${p.row + rows + 1}`;
 }
 
@@ -103,7 +115,9 @@ async function screenshots(page: Page, panel: Frame, name: string): Promise<void
   });
   await panel.locator('#readout-guardrails').scrollIntoViewIfNeeded();
   await screenshot(page, `${name}-350`);
-  const overflow = await panel.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+  const overflow = await panel.evaluate(
+    () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+  );
   expect(overflow).toBeLessThanOrEqual(0);
   await page.evaluate(() => {
     const element = document.getElementById('panel');
@@ -117,7 +131,14 @@ async function screenshots(page: Page, panel: Frame, name: string): Promise<void
  * guardrail's probabilities (challengers only): the primary decision alone when no challenger is chosen,
  * else a failure when the chosen challenger's probability is below 95%, else "Guardrails hold".
  */
-function expectGuarded(text: Cell, decision: Cell, losses: readonly number[], maxLoss: number, guard: readonly number[], names: readonly string[]): void {
+function expectGuarded(
+  text: Cell,
+  decision: Cell,
+  losses: readonly number[],
+  maxLoss: number,
+  guard: readonly number[],
+  names: readonly string[],
+): void {
   expect(typeof text).toBe('string');
   let index = 0;
   losses.forEach((l, i) => {
@@ -126,7 +147,11 @@ function expectGuarded(text: Cell, decision: Cell, losses: readonly number[], ma
   if ((losses[index] as number) > maxLoss || index === 0) {
     expect(text).toBe(decision);
   } else if ((guard[index - 1] as number) < 0.95) {
-    expect(text).toMatch(new RegExp(`^Guardrail 1 fails for ${names[index]}: P\\(.* lift > -2%\\) is [0-9.]+%, below 95%\\. Do not switch yet\\.`));
+    expect(text).toMatch(
+      new RegExp(
+        `^Guardrail 1 fails for ${names[index]}: P\\(.* lift > -2%\\) is [0-9.]+%, below 95%\\. Do not switch yet\\.`,
+      ),
+    );
   } else {
     expect(text).toBe(`${String(decision)} Guardrails hold for ${names[index]}.`);
   }
@@ -155,7 +180,10 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     expect(await panel.locator('#readout-column-revenue').inputValue()).toBe('3');
     expect(await panel.locator('#readout-column-orderSd').inputValue()).toBe('4');
     await addGuardrail(panel, 'conversions', '-2');
-    const where = await insert(panel, /^Wrote the revenue per visitor read-out to .* \(live formulas\)\. The decision is in [A-Z]+\d+\. With guardrails: [A-Z]+\d+\.$/);
+    const where = await insert(
+      panel,
+      /^Wrote the revenue per visitor read-out to .* \(live formulas\)\. The decision is in [A-Z]+\d+\. With guardrails: [A-Z]+\d+\.$/,
+    );
     await screenshots(page, panel, 'panel-metrics-revenue');
 
     const orders = await column(page, 'B103', 3);
@@ -183,12 +211,29 @@ describe('a read-out for every metric kind, with a guardrail', () => {
         ? `=ABTEST.REVENUE_DECISION(B103:B105,C103:C105,D103:D105,E103:E105,${c.maxLoss},${c.labels})`
         : `=ABTEST.REVENUE_DECISION('${SHEET}'!B103:B105,'${SHEET}'!C103:C105,'${SHEET}'!D103:D105,'${SHEET}'!E103:E105,${c.maxLoss},${c.labels})`,
     );
-    const totals = orders.map((o, i) => ({ orders: o, visitors: visitors[i] as number, revenue: revenue[i] as number, orderSd: orderSd[i] as number }));
+    const totals = orders.map((o, i) => ({
+      orders: o,
+      visitors: visitors[i] as number,
+      revenue: revenue[i] as number,
+      orderSd: orderSd[i] as number,
+    }));
     const beats = revenueProbAboveControl(totals);
-    const guard = probLiftAbove(totals.map((t) => ({ conversions: t.orders, visitors: t.visitors })), -0.02, UNIFORM_PRIOR);
+    const guard = probLiftAbove(
+      totals.map((t) => ({ conversions: t.orders, visitors: t.visitors })),
+      -0.02,
+      UNIFORM_PRIOR,
+    );
     for (let i = 1; i < 3; i += 1) {
-      expectClose((await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value, beats[i - 1] as number, `beats ${i}`);
-      expectClose((await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value, guard[i - 1] as number, `guardrail ${i}`);
+      expectClose(
+        (await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value,
+        beats[i - 1] as number,
+        `beats ${i}`,
+      );
+      expectClose(
+        (await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value,
+        guard[i - 1] as number,
+        `guardrail ${i}`,
+      );
     }
     expect((await readCell(page, where.sheet, c.guardrail1 as string)).value).toBe('');
     const names = (await readBlock(page, SHEET, 'A103', 3, 1)).map((r) => String(r[0]));
@@ -222,7 +267,12 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const conversions = await column(page, 'C4', 3);
     const built = metricReadoutBlock(
       'averages',
-      { sheet: SHEET, namesRef: 'A4:A6', refs: { count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6', visitors: 'B4:B6', conversions: 'C4:C6' }, variants: 3 },
+      {
+        sheet: SHEET,
+        namesRef: 'A4:A6',
+        refs: { count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6', visitors: 'B4:B6', conversions: 'C4:C6' },
+        variants: 3,
+      },
       { level: 0.95, currentSrmPValue: 1 },
       [{ kind: 'conversions', direction: 'noWorse', limit: -0.02, required: 0.95 }],
       where.topLeft,
@@ -231,10 +281,22 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const c = built.cells;
     const means = summaries.map((i) => ({ count: count[i] as number, mean: mean[i] as number, sd: sd[i] as number }));
     const beats = meanProbAboveControl(means);
-    const guard = probLiftAbove(summaries.map((i) => ({ conversions: conversions[i] as number, visitors: visitors[i] as number })), -0.02, UNIFORM_PRIOR);
+    const guard = probLiftAbove(
+      summaries.map((i) => ({ conversions: conversions[i] as number, visitors: visitors[i] as number })),
+      -0.02,
+      UNIFORM_PRIOR,
+    );
     for (let i = 1; i < 3; i += 1) {
-      expectClose((await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value, beats[i - 1] as number, `beats ${i}`);
-      expectClose((await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value, guard[i - 1] as number, `guardrail ${i}`);
+      expectClose(
+        (await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value,
+        beats[i - 1] as number,
+        `beats ${i}`,
+      );
+      expectClose(
+        (await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value,
+        guard[i - 1] as number,
+        `guardrail ${i}`,
+      );
     }
     const names = (await readBlock(page, SHEET, 'A4', 3, 1)).map((r) => String(r[0]));
     expectGuarded(
@@ -262,7 +324,12 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const sd = await column(page, 'F4', 3);
     const built = metricReadoutBlock(
       'counts',
-      { sheet: SHEET, namesRef: 'A4:A6', refs: { events: 'G4:G6', exposure: 'H4:H6', count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6' }, variants: 3 },
+      {
+        sheet: SHEET,
+        namesRef: 'A4:A6',
+        refs: { events: 'G4:G6', exposure: 'H4:H6', count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6' },
+        variants: 3,
+      },
       { level: 0.95, currentSrmPValue: null },
       [{ kind: 'averages', direction: 'noWorse', limit: -0.02, required: 0.95 }],
       where.topLeft,
@@ -271,10 +338,21 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const c = built.cells;
     const rates = events.map((e, i) => ({ events: e, exposure: exposure[i] as number }));
     const beats = eventsProbAboveControl(rates);
-    const guard = meanProbLiftAbove(count.map((n, i) => ({ count: n, mean: mean[i] as number, sd: sd[i] as number })), -0.02);
+    const guard = meanProbLiftAbove(
+      count.map((n, i) => ({ count: n, mean: mean[i] as number, sd: sd[i] as number })),
+      -0.02,
+    );
     for (let i = 1; i < 3; i += 1) {
-      expectClose((await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value, beats[i - 1] as number, `beats ${i}`);
-      expectClose((await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value, guard[i - 1] as number, `guardrail ${i}`);
+      expectClose(
+        (await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value,
+        beats[i - 1] as number,
+        `beats ${i}`,
+      );
+      expectClose(
+        (await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value,
+        guard[i - 1] as number,
+        `guardrail ${i}`,
+      );
     }
     const names = (await readBlock(page, SHEET, 'A4', 3, 1)).map((r) => String(r[0]));
     expectGuarded(
@@ -286,7 +364,10 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       names,
     );
     // The event-rate guardrail of the next test's check: the same core function at another limit.
-    expect(eventsProbLiftAbove(rates, 0).map((p, i) => Math.abs(p - (beats[i] as number)) < 1e-12)).toEqual([true, true]);
+    expect(eventsProbLiftAbove(rates, 0).map((p, i) => Math.abs(p - (beats[i] as number)) < 1e-12)).toEqual([
+      true,
+      true,
+    ]);
   });
 
   it('conversions: the guessed columns confirmed, a guardrail on the average revenue beside the decision', async () => {
@@ -294,7 +375,10 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     await panel.locator('#readout-metric').selectOption('conversions');
     await panel.locator('#readout-confirm-mapping').click();
     await addGuardrail(panel, 'averages', '-2');
-    const where = await insert(panel, /^Wrote the read-out to .* \(live formulas\) and a lift chart from .*With guardrails: [A-Z]+\d+\.$/);
+    const where = await insert(
+      panel,
+      /^Wrote the read-out to .* \(live formulas\) and a lift chart from .*With guardrails: [A-Z]+\d+\.$/,
+    );
     await screenshots(page, panel, 'panel-metrics-conversions');
     const visitors = await column(page, 'B4', 3);
     const conversions = await column(page, 'C4', 3);
@@ -319,10 +403,21 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const c = built.cells;
     const counts = visitors.map((n, i) => ({ visitors: n, conversions: conversions[i] as number }));
     const beats = probAboveControl(counts, UNIFORM_PRIOR);
-    const guard = meanProbLiftAbove(count.map((n, i) => ({ count: n, mean: mean[i] as number, sd: sd[i] as number })), -0.02);
+    const guard = meanProbLiftAbove(
+      count.map((n, i) => ({ count: n, mean: mean[i] as number, sd: sd[i] as number })),
+      -0.02,
+    );
     for (let i = 1; i < 3; i += 1) {
-      expectClose((await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value, beats[i - 1] as number, `beats ${i}`);
-      expectClose((await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value, guard[i - 1] as number, `guardrail ${i}`);
+      expectClose(
+        (await readCell(page, where.sheet, below(c.probAboveControl as string, i))).value,
+        beats[i - 1] as number,
+        `beats ${i}`,
+      );
+      expectClose(
+        (await readCell(page, where.sheet, below(c.guardrail1 as string, i))).value,
+        guard[i - 1] as number,
+        `guardrail ${i}`,
+      );
     }
     const guarded = (await readCell(page, where.sheet, c.guardedDecision as string)).value;
     expect(typeof guarded).toBe('string');

@@ -16,7 +16,16 @@ import { posteriorMean, probHighest } from '../../functions/stats/conversion';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
 import { readoutBlock } from '../../taskpane/logic/formulas';
 import { parseAddress } from '../../taskpane/workbook/address';
-import { cellLocator, openPreview, panelFrame, readBlock, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  cellLocator,
+  openPreview,
+  panelFrame,
+  readBlock,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 type Cell = number | string | boolean;
 
@@ -42,7 +51,8 @@ async function sheetLook(page: Page, sheet: string, rows: number, columns: numbe
           out[`${letters(col)}${row + 1}`] = JSON.stringify([view.input, view.value, format ?? null, style ?? null]);
         }
       }
-      for (let col = 0; col < (c as number); col += 1) out[`width ${letters(col)}`] = String(book.columnWidth(id, col) ?? 'default');
+      for (let col = 0; col < (c as number); col += 1)
+        out[`width ${letters(col)}`] = String(book.columnWidth(id, col) ?? 'default');
       return out;
     },
     [sheet, rows, columns] as const,
@@ -124,8 +134,12 @@ describe('the side panel keeps the user’s data safe', () => {
     expect(await panel.locator('#readout-place-target').textContent()).toBe(
       "It will fill 'Checkout test'!P3:Z79 (77 rows × 11 columns); all those cells are empty now.",
     );
-    expect(await panel.locator('label[for="readout-place-right"]').textContent()).toBe('Right of the table, in empty columns: P3:Z79');
-    expect(await panel.locator('label[for="readout-place-sheet"]').textContent()).toBe('On a new sheet "Checkout test read-out"');
+    expect(await panel.locator('label[for="readout-place-right"]').textContent()).toBe(
+      'Right of the table, in empty columns: P3:Z79',
+    );
+    expect(await panel.locator('label[for="readout-place-sheet"]').textContent()).toBe(
+      'On a new sheet "Checkout test read-out"',
+    );
     await panel.locator('#readout-place-group').scrollIntoViewIfNeeded();
     await screenshot(page, 'panel-safety-readout-place');
     await narrowScreenshot(page, 'panel-safety-readout-place-350', panel, '#readout-insert');
@@ -133,12 +147,17 @@ describe('the side panel keeps the user’s data safe', () => {
     // A double click writes once.
     await panel.locator('#readout-insert').dblclick();
     const done = await messageText(panel, 'readout-status');
-    expect(done).toMatch(/^Wrote the read-out to 'Checkout test'!P3:Z79 \(live formulas\) and a lift chart from P18:R79\./);
+    expect(done).toMatch(
+      /^Wrote the read-out to 'Checkout test'!P3:Z79 \(live formulas\) and a lift chart from P18:R79\./,
+    );
     const after = await sheetLook(page, 'Checkout test', 140, 40);
     // Every cell outside the read-out's area is as it was; the area holds exactly one read-out.
     const outside = (look: Record<string, string>) =>
       Object.fromEntries(Object.entries(look).filter(([key]) => key.startsWith('width') || !inside(key, 'P3', 77, 11)));
-    const widthsOf = (look: Record<string, string>) => Object.fromEntries(Object.entries(look).filter(([key]) => key.startsWith('width') && !/^width ([P-Z])$/.test(key)));
+    const widthsOf = (look: Record<string, string>) =>
+      Object.fromEntries(
+        Object.entries(look).filter(([key]) => key.startsWith('width') && !/^width ([P-Z])$/.test(key)),
+      );
     expect(widthsOf(after)).toEqual(widthsOf(before));
     expect(Object.fromEntries(Object.entries(outside(after)).filter(([k]) => !k.startsWith('width')))).toEqual(
       Object.fromEntries(Object.entries(outside(before)).filter(([k]) => !k.startsWith('width'))),
@@ -149,15 +168,26 @@ describe('the side panel keeps the user’s data safe', () => {
     const table = await readBlock(page, 'Checkout test', 'A4', 3, 3);
     const variants = table.map((r) => ({ visitors: r[1] as number, conversions: r[2] as number }));
     const built = readoutBlock(
-      { sheet: 'Checkout test', namesRef: 'A4:A6', visitorsRef: 'B4:B6', conversionsRef: 'C4:C6', sharesRef: null, variants: 3 },
+      {
+        sheet: 'Checkout test',
+        namesRef: 'A4:A6',
+        visitorsRef: 'B4:B6',
+        conversionsRef: 'C4:C6',
+        sharesRef: null,
+        variants: 3,
+      },
       { level: 0.95, prior: UNIFORM_PRIOR, densityPoints: 61, currentSrmPValue: 0.5 },
       'P3',
       'Checkout test',
     );
     const means = await readBlock(page, 'Checkout test', built.cells.posteriorMean as string, 3, 1);
-    posteriorMean(variants, UNIFORM_PRIOR).forEach((m, i) => expect(Math.abs((means[i]?.[0] as number) - m)).toBeLessThanOrEqual(1e-12));
+    posteriorMean(variants, UNIFORM_PRIOR).forEach((m, i) =>
+      expect(Math.abs((means[i]?.[0] as number) - m)).toBeLessThanOrEqual(1e-12),
+    );
     const highest = await readBlock(page, 'Checkout test', built.cells.probHighest as string, 3, 1);
-    probHighest(variants, UNIFORM_PRIOR).forEach((p, i) => expect(Math.abs((highest[i]?.[0] as number) - p)).toBeLessThanOrEqual(1e-12));
+    probHighest(variants, UNIFORM_PRIOR).forEach((p, i) =>
+      expect(Math.abs((highest[i]?.[0] as number) - p)).toBeLessThanOrEqual(1e-12),
+    );
     // The names sit beside the results, the loss column says what its unit is.
     expect((await readBlock(page, 'Checkout test', 'P5', 3, 1)).map((r) => r[0])).toEqual(table.map((r) => r[0]));
     expect((await readBlock(page, 'Checkout test', 'Y4', 1, 1))[0]?.[0]).toBe('Expected loss (rate points)');
@@ -188,9 +218,15 @@ describe('the side panel keeps the user’s data safe', () => {
     await selectRange(page, 'D20', 'F22');
     await panel.locator('#readout-use-selection').click();
     await panel.locator('#readout-place-target', { hasText: 'H20' }).waitFor();
-    expect(await panel.locator('#readout-place-target').textContent()).toBe('It will fill Plan!H20:Q95 (76 rows × 10 columns); all those cells are empty now.');
+    expect(await panel.locator('#readout-place-target').textContent()).toBe(
+      'It will fill Plan!H20:Q95 (76 rows × 10 columns); all those cells are empty now.',
+    );
     await page.evaluate(() =>
-      window.liftLedgerPreview?.workbook.failNextWrite({ fraction: 0.5, code: 'GeneralException', message: 'The preview was told to fail this write half-way.' }),
+      window.liftLedgerPreview?.workbook.failNextWrite({
+        fraction: 0.5,
+        code: 'GeneralException',
+        message: 'The preview was told to fail this write half-way.',
+      }),
     );
     await panel.locator('#readout-insert').click();
     const text = await messageText(panel, 'readout-status');
@@ -217,7 +253,9 @@ describe('the side panel keeps the user’s data safe', () => {
       'It will fill a new sheet "Checkout test read-out", cells A1:K77 (77 rows × 11 columns); nothing else is touched.',
     );
     await panel.locator('#readout-insert').click();
-    expect(await messageText(panel, 'readout-status')).toMatch(/^Wrote the read-out to 'Checkout test read-out'!A1:K77 \(live formulas\)/);
+    expect(await messageText(panel, 'readout-status')).toMatch(
+      /^Wrote the read-out to 'Checkout test read-out'!A1:K77 \(live formulas\)/,
+    );
     await page.locator('#tabs button[data-sheet-name="Checkout test read-out"][aria-selected="true"]').waitFor();
     const mean = await readBlock(page, 'Checkout test read-out', 'B3', 1, 1);
     expect(typeof mean[0]?.[0]).toBe('number');
@@ -237,7 +275,9 @@ describe('the side panel keeps the user’s data safe', () => {
     const before = await sheetLook(page, 'Checkout test', 100, 20);
     await panel.locator('#readout-insert').click();
     await panel.locator('#readout-status fluent-message-bar[intent="warning"]').waitFor();
-    expect(await panel.locator('#readout-status').textContent()).toMatch(/^'Checkout test'!H5:R81 is not empty \(H5, I5, P5, Q5, R5, H6 and \d+ more\)\. Write the read-out over it\?/);
+    expect(await panel.locator('#readout-status').textContent()).toMatch(
+      /^'Checkout test'!H5:R81 is not empty \(H5, I5, P5, Q5, R5, H6 and \d+ more\)\. Write the read-out over it\?/,
+    );
     await panel.locator('#cancel-overwrite').click();
     expect(await panel.locator('#readout-status').textContent()).toBe('Nothing was written.');
     expect(await sheetLook(page, 'Checkout test', 100, 20)).toEqual(before);
@@ -280,7 +320,9 @@ describe('the side panel keeps the user’s data safe', () => {
     await selectRange(page, 'E10', 'H11');
     await panel.locator('#readout-use-selection').click();
     await panel.locator('#readout-guess').waitFor();
-    expect(await panel.locator('#readout-guess').textContent()).toContain('These columns were guessed from the numbers alone');
+    expect(await panel.locator('#readout-guess').textContent()).toContain(
+      'These columns were guessed from the numbers alone',
+    );
     expect(await panel.locator('#readout-insert').getAttribute('disabled')).not.toBeNull();
     await panel.locator('#readout-confirm-mapping').click();
     await panel.locator('#readout-guess').waitFor({ state: 'detached' });

@@ -14,7 +14,16 @@
 import * as fs from 'fs';
 import * as path from 'path';
 import type { Frame, Page } from 'playwright-core';
-import { cellLocator, openPreview, panelFrame, readBlock, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  cellLocator,
+  openPreview,
+  panelFrame,
+  readBlock,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 const SHEET = 'Checkout test';
 const COPY = 'Checkout test (shared)';
@@ -29,11 +38,18 @@ interface ReferenceCase {
   srm_pvalue: number;
 }
 const REFERENCE = (
-  JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8')) as Record<string, ReferenceCase>
+  JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8')) as Record<
+    string,
+    ReferenceCase
+  >
 ).checkout_demo as ReferenceCase;
 
 /** A cell of a sheet as the preview holds it: what was typed or written, its value, format and note. */
-async function cellState(page: Page, sheet: string, address: string): Promise<{ input: unknown; value: unknown; format: string | null; note: string | null }> {
+async function cellState(
+  page: Page,
+  sheet: string,
+  address: string,
+): Promise<{ input: unknown; value: unknown; format: string | null; note: string | null }> {
   return page.evaluate(
     ([name, a]) => {
       const book = window.liftLedgerPreview?.workbook;
@@ -45,7 +61,12 @@ async function cellState(page: Page, sheet: string, address: string): Promise<{ 
       const col = [...(m[1] as string)].reduce((n, ch) => n * 26 + ch.charCodeAt(0) - 64, 0) - 1;
       const row = Number(m[2]) - 1;
       const view = book.cell(id, row, col);
-      return { input: view.input, value: view.value, format: book.numberFormat(id, row, col) ?? null, note: book.note(id, row, col) ?? null };
+      return {
+        input: view.input,
+        value: view.value,
+        format: book.numberFormat(id, row, col) ?? null,
+        note: book.note(id, row, col) ?? null,
+      };
     },
     [sheet, address] as const,
   );
@@ -128,15 +149,21 @@ describe('the Share section on the demo read-out', () => {
     // agreement (posterior means (1 + x)/(2 + n), closed form), with the source's number format.
     for (let i = 0; i < 3; i += 1) {
       const cell = await cellState(page, COPY, `B${12 + i}`);
-      expect(typeof cell.input === 'number' || (typeof cell.input === 'string' && !cell.input.startsWith('='))).toBe(true);
+      expect(typeof cell.input === 'number' || (typeof cell.input === 'string' && !cell.input.startsWith('='))).toBe(
+        true,
+      );
       expect(cell.value).toBe(live[i]?.[0]);
       expect(Math.abs((cell.value as number) - (REFERENCE.posterior_mean[i] as number))).toBeLessThan(1e-12);
       expect(cell.format).toBe('0.00%');
     }
-    expect((await cellState(page, COPY, 'B12')).note).toMatch(/^Computed by =ABTEST\.POSTERIOR_MEAN\(C5:C7, B5:B7\) \(its result filled B12:B14\)\.\nFrozen \d{4}-\d\d-\d\d \d\d:\d\d UTC: a plain value now, it no longer updates\.$/);
+    expect((await cellState(page, COPY, 'B12')).note).toMatch(
+      /^Computed by =ABTEST\.POSTERIOR_MEAN\(C5:C7, B5:B7\) \(its result filled B12:B14\)\.\nFrozen \d{4}-\d\d-\d\d \d\d:\d\d UTC: a plain value now, it no longer updates\.$/,
+    );
     // P(highest) at B23:B25 of the source: values equal to scipy's P(best).
     const best = await readBlock(page, COPY, 'B24', 3, 1);
-    best.forEach((row, i) => expect(Math.abs((row[0] as number) - (REFERENCE.prob_best[i] as number))).toBeLessThan(1e-9));
+    best.forEach((row, i) =>
+      expect(Math.abs((row[0] as number) - (REFERENCE.prob_best[i] as number))).toBeLessThan(1e-9),
+    );
     // The decision is text now; the names beside the results are still formulas reading the copy's own table.
     const decision = await cellState(page, COPY, 'B48');
     expect(String(decision.input)).not.toMatch(/^=/);
@@ -154,7 +181,13 @@ describe('the Share section on the demo read-out', () => {
       const [c] = book.charts(copy);
       if (!c) return null;
       const first = book.cell(copy, c.source.row + 1, c.source.col);
-      return { title: c.title, sheet: c.source.sheet === copy, row: c.source.row, formula: String(first.input).startsWith('='), value: typeof first.value };
+      return {
+        title: c.title,
+        sheet: c.source.sheet === copy,
+        row: c.source.row,
+        formula: String(first.input).startsWith('='),
+        value: typeof first.value,
+      };
     });
     expect(chart).toEqual({ title: 'Lift densities', sheet: true, row: 54, formula: false, value: 'number' });
     // The original is still live.
@@ -180,12 +213,16 @@ describe('the Share section on the demo read-out', () => {
     await panel.locator('#summary-days').locator('input').fill('28');
     await panel.locator('#summary-write').click();
     const done = await messageText(panel, 'summary-status');
-    expect(done).toMatch(/^Wrote the summary to 'Checkout test summary'!A1:G\d+, set to print on one page\. It recommends a version\./);
+    expect(done).toMatch(
+      /^Wrote the summary to 'Checkout test summary'!A1:G\d+, set to print on one page\. It recommends a version\./,
+    );
     const summary = 'Checkout test summary';
     const rows = await readBlock(page, summary, 'A1', 60, 7);
     expect(rows[0]?.[0]).toBe('Summary for decision-makers: Checkout button colour');
     REFERENCE.names.forEach((name, i) => {
-      const row = rows.find((r) => typeof r[0] === 'string' && (r[0] as string).startsWith(name) && typeof r[1] === 'number');
+      const row = rows.find(
+        (r) => typeof r[0] === 'string' && (r[0] as string).startsWith(name) && typeof r[1] === 'number',
+      );
       expect(row).toBeDefined();
       const cells = row as (number | string | boolean)[];
       expect(cells.slice(1, 3)).toEqual([REFERENCE.visitors[i], REFERENCE.conversions[i]]);
@@ -196,7 +233,10 @@ describe('the Share section on the demo read-out', () => {
         expect(Math.abs((cells[6] as number) - upper)).toBeLessThan(1e-8);
       }
     });
-    const words = rows.map((r) => String(r[0])).join(' ').replace(/\s+/g, ' ');
+    const words = rows
+      .map((r) => String(r[0]))
+      .join(' ')
+      .replace(/\s+/g, ' ');
     expect(words).toContain('Go with Orange button.');
     expect(words).toContain('shown to 31,251 visitors in all over 28 days');
     // scipy's chi-square p-value for the demo's visitors against equal shares: 0.9075…, shown with two digits.

@@ -20,14 +20,26 @@ import { priorFromHistory, priorFromMean } from '../../functions/stats/prior';
 import { classicSampleSize } from '../../functions/stats/planning';
 import { decisionText } from '../../functions/sheet/decision';
 import { UNIFORM_PRIOR, type ConversionCounts } from '../../functions/stats/types';
-import { cellLocator, enterCell, openPreview, readBlock, readCell, screenshot, selectCell, switchSheet, type OpenPreview } from './previewHelpers';
+import {
+  cellLocator,
+  enterCell,
+  openPreview,
+  readBlock,
+  readCell,
+  screenshot,
+  selectCell,
+  switchSheet,
+  type OpenPreview,
+} from './previewHelpers';
 
 type Cell = number | string | boolean;
 
 function expectClose(actual: Cell | undefined, expected: number, where: string, tol = 1e-12): void {
-  if (typeof actual !== 'number') throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
+  if (typeof actual !== 'number')
+    throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
   const allowed = tol * Math.max(1, Math.abs(expected));
-  if (!(Math.abs(actual - expected) <= allowed)) throw new Error(`${where}: ${actual} is not ${expected} (±${allowed})`);
+  if (!(Math.abs(actual - expected) <= allowed))
+    throw new Error(`${where}: ${actual} is not ${expected} (±${allowed})`);
 }
 
 function expectColumn(block: Cell[][], expected: readonly Cell[][], where: string): void {
@@ -52,7 +64,10 @@ describe('preview workbook in chromium', () => {
 
   const variantsOnPage = async (): Promise<{ variants: ConversionCounts[]; labels: string[] }> => {
     const rows = await readBlock(preview.page, 'Checkout test', 'A4', 3, 3);
-    return { labels: rows.map((r) => String(r[0])), variants: rows.map((r) => ({ visitors: r[1] as number, conversions: r[2] as number })) };
+    return {
+      labels: rows.map((r) => String(r[0])),
+      variants: rows.map((r) => ({ visitors: r[1] as number, conversions: r[2] as number })),
+    };
   };
 
   /** Every conversion read-out of the Checkout sheet against the core, on the page's current inputs. */
@@ -60,24 +75,75 @@ describe('preview workbook in chromium', () => {
     const { page } = preview;
     const { variants, labels } = await variantsOnPage();
     const past = await readBlock(page, 'Past tests', 'B4', 12, 2);
-    const history = priorFromHistory(past.map((r) => r[0] as number), past.map((r) => r[1] as number), 'likelihood');
+    const history = priorFromHistory(
+      past.map((r) => r[0] as number),
+      past.map((r) => r[1] as number),
+      'likelihood',
+    );
     const col = (xs: readonly number[]) => xs.map((x) => [x]);
     const vs = (rows: Cell[][], width: number) => [Array<Cell>(width).fill(''), ...rows];
-    const lmu = (ivs: readonly { lower: number; median: number; upper: number }[]) => ivs.map((iv) => [iv.lower, iv.median, iv.upper]);
-    expectColumn(await readBlock(page, 'Checkout test', 'B11', 3, 1), col(posteriorMean(variants, UNIFORM_PRIOR)), 'POSTERIOR_MEAN');
-    expectColumn(await readBlock(page, 'Checkout test', 'B15', 3, 2), rateInterval(variants, 0.95, UNIFORM_PRIOR, 'central').map((iv) => [iv.lower, iv.upper]), 'RATE_INTERVAL');
-    expectColumn(await readBlock(page, 'Checkout test', 'B19', 3, 2), rateInterval(variants, 0.9, UNIFORM_PRIOR, 'hdi').map((iv) => [iv.lower, iv.upper]), 'RATE_INTERVAL hdi');
-    expectColumn(await readBlock(page, 'Checkout test', 'B23', 3, 1), col(probHighest(variants, UNIFORM_PRIOR)), 'PROB_HIGHEST');
-    expectColumn(await readBlock(page, 'Checkout test', 'B27', 3, 1), vs(col(probAboveControl(variants, UNIFORM_PRIOR)), 1), 'PROB_ABOVE_CONTROL');
-    expectColumn(await readBlock(page, 'Checkout test', 'B31', 3, 3), vs(lmu(liftInterval(variants, 0.95, UNIFORM_PRIOR)), 3), 'LIFT_INTERVAL');
-    expectColumn(await readBlock(page, 'Checkout test', 'B35', 3, 3), vs(lmu(rateDiffInterval(variants, 0.95, UNIFORM_PRIOR)), 3), 'RATE_DIFF_INTERVAL');
-    expectColumn(await readBlock(page, 'Checkout test', 'B39', 3, 1), vs(col(probLiftAbove(variants, 0.05, UNIFORM_PRIOR)), 1), 'PROB_LIFT_ABOVE');
-    expectColumn(await readBlock(page, 'Checkout test', 'B43', 3, 1), col(expectedLoss(variants, UNIFORM_PRIOR)), 'EXPECTED_LOSS');
+    const lmu = (ivs: readonly { lower: number; median: number; upper: number }[]) =>
+      ivs.map((iv) => [iv.lower, iv.median, iv.upper]);
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B11', 3, 1),
+      col(posteriorMean(variants, UNIFORM_PRIOR)),
+      'POSTERIOR_MEAN',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B15', 3, 2),
+      rateInterval(variants, 0.95, UNIFORM_PRIOR, 'central').map((iv) => [iv.lower, iv.upper]),
+      'RATE_INTERVAL',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B19', 3, 2),
+      rateInterval(variants, 0.9, UNIFORM_PRIOR, 'hdi').map((iv) => [iv.lower, iv.upper]),
+      'RATE_INTERVAL hdi',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B23', 3, 1),
+      col(probHighest(variants, UNIFORM_PRIOR)),
+      'PROB_HIGHEST',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B27', 3, 1),
+      vs(col(probAboveControl(variants, UNIFORM_PRIOR)), 1),
+      'PROB_ABOVE_CONTROL',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B31', 3, 3),
+      vs(lmu(liftInterval(variants, 0.95, UNIFORM_PRIOR)), 3),
+      'LIFT_INTERVAL',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B35', 3, 3),
+      vs(lmu(rateDiffInterval(variants, 0.95, UNIFORM_PRIOR)), 3),
+      'RATE_DIFF_INTERVAL',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B39', 3, 1),
+      vs(col(probLiftAbove(variants, 0.05, UNIFORM_PRIOR)), 1),
+      'PROB_LIFT_ABOVE',
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B43', 3, 1),
+      col(expectedLoss(variants, UNIFORM_PRIOR)),
+      'EXPECTED_LOSS',
+    );
     const d = decide(variants, undefined, UNIFORM_PRIOR);
-    expect((await readCell(page, 'Checkout test', 'B47')).value).toBe(decisionText({ choose: d.choose, label: labels[d.index] ?? '?', loss: d.loss, maxLoss: d.maxLoss }));
-    expectColumn(await readBlock(page, 'Checkout test', 'B49', 3, 1), col(probHighest(variants, history)), 'PROB_HIGHEST with prior');
+    expect((await readCell(page, 'Checkout test', 'B47')).value).toBe(
+      decisionText({ choose: d.choose, label: labels[d.index] ?? '?', loss: d.loss, maxLoss: d.maxLoss }),
+    );
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'B49', 3, 1),
+      col(probHighest(variants, history)),
+      'PROB_HIGHEST with prior',
+    );
     const table = posteriorDensityTable(variants, 41, UNIFORM_PRIOR);
-    expectColumn(await readBlock(page, 'Checkout test', 'K11', 41, 4), table.grid.map((x, i) => [x, ...table.densities.map((dens) => dens[i] as number)]), 'POSTERIOR_DENSITY');
+    expectColumn(
+      await readBlock(page, 'Checkout test', 'K11', 41, 4),
+      table.grid.map((x, i) => [x, ...table.densities.map((dens) => dens[i] as number)]),
+      'POSTERIOR_DENSITY',
+    );
   };
 
   it('opens with the demo computed by the add-in, the banner saying it is invented data', async () => {
@@ -153,7 +219,9 @@ describe('preview workbook in chromium', () => {
     expectClose(spill[0]?.[0], 10, 'alpha closed form');
     expectClose(spill[0]?.[1], 190, 'beta closed form');
     await selectCell(page, 'E6');
-    expect(await page.locator('#formula-message').innerText()).toBe('Part of a spilled result; edit the formula in D6.');
+    expect(await page.locator('#formula-message').innerText()).toBe(
+      'Part of a spilled result; edit the formula in D6.',
+    );
     expect(await page.locator('#formula-input').inputValue()).toBe('=ABTEST.PRIOR_FROM_MEAN(0.05, 200)');
     await screenshot(page, 'preview-new-formula');
     expect(preview.pageErrors).toEqual([]);

@@ -86,7 +86,15 @@ export async function openPreview(options: OpenPreviewOptions = {}): Promise<Ope
     context = await chromium.launchPersistentContext(profile, {
       executablePath,
       headless: true,
-      args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
       viewport: options.viewport ?? { width: 1440, height: 900 },
     });
     await options.prepare?.(context);
@@ -128,26 +136,42 @@ export async function enterCell(page: Page, address: string, input: string): Pro
 }
 
 /** A cell's live value in the workbook: raw value, the text shown, and an error's message. */
-export async function readCell(page: Page, sheet: string, address: string): Promise<{ value: number | string | boolean; text: string; message?: string }> {
-  return page.evaluate(([s, a]) => {
-    const handle = window.liftLedgerPreview;
-    if (!handle) throw new Error('the preview is not ready');
-    return handle.cellValue(s as string, a as string);
-  }, [sheet, address]);
+export async function readCell(
+  page: Page,
+  sheet: string,
+  address: string,
+): Promise<{ value: number | string | boolean; text: string; message?: string }> {
+  return page.evaluate(
+    ([s, a]) => {
+      const handle = window.liftLedgerPreview;
+      if (!handle) throw new Error('the preview is not ready');
+      return handle.cellValue(s as string, a as string);
+    },
+    [sheet, address],
+  );
 }
 
 /** Reads a rows × columns block starting at `address` (raw values). */
-export async function readBlock(page: Page, sheet: string, address: string, rows: number, columns: number): Promise<(number | string | boolean)[][]> {
-  return page.evaluate(([s, a, r, c]) => {
-    const handle = window.liftLedgerPreview;
-    if (!handle) throw new Error('the preview is not ready');
-    const id = handle.workbook.sheetId(s as string);
-    if (id === undefined) throw new Error(`no sheet ${s}`);
-    const m = /^([A-Z]+)([0-9]+)$/.exec(String(a).toUpperCase());
-    if (!m) throw new Error(`bad address ${a}`);
-    const col = [...(m[1] as string)].reduce((n, ch) => n * 26 + ch.charCodeAt(0) - 64, 0) - 1;
-    return handle.workbook.values({ sheet: id, row: Number(m[2]) - 1, col, rows: r as number, columns: c as number });
-  }, [sheet, address, rows, columns] as const);
+export async function readBlock(
+  page: Page,
+  sheet: string,
+  address: string,
+  rows: number,
+  columns: number,
+): Promise<(number | string | boolean)[][]> {
+  return page.evaluate(
+    ([s, a, r, c]) => {
+      const handle = window.liftLedgerPreview;
+      if (!handle) throw new Error('the preview is not ready');
+      const id = handle.workbook.sheetId(s as string);
+      if (id === undefined) throw new Error(`no sheet ${s}`);
+      const m = /^([A-Z]+)([0-9]+)$/.exec(String(a).toUpperCase());
+      if (!m) throw new Error(`bad address ${a}`);
+      const col = [...(m[1] as string)].reduce((n, ch) => n * 26 + ch.charCodeAt(0) - 64, 0) - 1;
+      return handle.workbook.values({ sheet: id, row: Number(m[2]) - 1, col, rows: r as number, columns: c as number });
+    },
+    [sheet, address, rows, columns] as const,
+  );
 }
 
 /** Clicks a sheet tab and waits until it is active. */

@@ -102,7 +102,10 @@ export function thrownWorksheetError(run: () => unknown, codeIfMissing?: string)
     run();
   } catch (e) {
     const err = e as { code?: string; message: string };
-    return { code: codeIfMissing === undefined ? (err.code as string) : (err.code ?? codeIfMissing), message: err.message };
+    return {
+      code: codeIfMissing === undefined ? (err.code as string) : (err.code ?? codeIfMissing),
+      message: err.message,
+    };
   }
   throw new Error('expected a worksheet error');
 }

@@ -20,7 +20,16 @@ describe('preview bridge: custom functions inside HyperFormula', () => {
       {
         S: [
           // A, B: visitors, conversions; F1 holds an error value
-          [10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B3, A1:A3)', '=ABTEST.DESCRIBE_ARGUMENTS(A1:B2)', '=ABTEST.DESCRIBE_ARGUMENTS(A4:A5, 2.5)', '=1/0', '=ABTEST.POSTERIOR_MEAN(F1:F2, A1:A2)', '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2, 1, F1)'],
+          [
+            10,
+            3,
+            '=ABTEST.POSTERIOR_MEAN(B1:B3, A1:A3)',
+            '=ABTEST.DESCRIBE_ARGUMENTS(A1:B2)',
+            '=ABTEST.DESCRIBE_ARGUMENTS(A4:A5, 2.5)',
+            '=1/0',
+            '=ABTEST.POSTERIOR_MEAN(F1:F2, A1:A2)',
+            '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2, 1, F1)',
+          ],
           [20, 5, null, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2, 2, 8)'],
           [12.5, 1, null, null, '=ABTEST.EXPLODE()'],
           [null, null, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2)'],
@@ -33,7 +42,11 @@ describe('preview bridge: custom functions inside HyperFormula', () => {
   afterEach(() => hf.destroy());
 
   it('registers every function of the metadata under the ABTEST namespace', () => {
-    expect([...loaded.definition.names].sort()).toEqual(['ABTEST.DESCRIBE_ARGUMENTS', 'ABTEST.EXPLODE', 'ABTEST.POSTERIOR_MEAN']);
+    expect([...loaded.definition.names].sort()).toEqual([
+      'ABTEST.DESCRIBE_ARGUMENTS',
+      'ABTEST.EXPLODE',
+      'ABTEST.POSTERIOR_MEAN',
+    ]);
   });
 
   it('spills a matrix result down a column: closed-form Beta posterior mean (1 + x)/(2 + n), common practice', () => {

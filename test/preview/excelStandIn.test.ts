@@ -58,15 +58,33 @@ describe('Office/Excel stand-in of the preview', () => {
 
   it('loads address, values, formulas and sizes after sync, with sheet-qualified addresses', async () => {
     const result = await office.Excel.run(async (context) => {
-      const range = context.workbook.worksheets.getItem('Data').getRange('A1:B3').load('address, values, formulas, rowCount, columnCount');
+      const range = context.workbook.worksheets
+        .getItem('Data')
+        .getRange('A1:B3')
+        .load('address, values, formulas, rowCount, columnCount');
       const quoted = context.workbook.worksheets.getItem('Past tests').getRange('B2:C3').load('address');
       await context.sync();
-      return { address: range.address, values: range.values, formulas: range.formulas, rows: range.rowCount, columns: range.columnCount, quoted: quoted.address };
+      return {
+        address: range.address,
+        values: range.values,
+        formulas: range.formulas,
+        rows: range.rowCount,
+        columns: range.columnCount,
+        quoted: quoted.address,
+      };
     });
     expect(result).toEqual({
       address: 'Data!A1:B3',
-      values: [['Visitors', 'Conversions'], [100, 7], [120, 15]],
-      formulas: [['Visitors', 'Conversions'], [100, 7], [120, 15]],
+      values: [
+        ['Visitors', 'Conversions'],
+        [100, 7],
+        [120, 15],
+      ],
+      formulas: [
+        ['Visitors', 'Conversions'],
+        [100, 7],
+        [120, 15],
+      ],
       rows: 3,
       columns: 2,
       quoted: "'Past tests'!B2:C3",
@@ -119,7 +137,10 @@ describe('Office/Excel stand-in of the preview', () => {
 
   it('accepts 2-D arrays made in another realm (the panel’s iframe) and hands back arrays of the caller’s realm', async () => {
     const vm = await import('vm');
-    const foreign = vm.runInNewContext('({ rows: [["=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)"]], Array })') as { rows: unknown[][]; Array: ArrayConstructor };
+    const foreign = vm.runInNewContext('({ rows: [["=ABTEST.POSTERIOR_MEAN(B2:B3, A2:A3)"]], Array })') as {
+      rows: unknown[][];
+      Array: ArrayConstructor;
+    };
     expect(foreign.rows instanceof Array).toBe(false);
     const foreignOffice = createOfficeStandIn(book, { Error, Promise, Array: foreign.Array });
     const loaded = await foreignOffice.Excel.run(async (context) => {
@@ -288,7 +309,11 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
   const look = (sheet: number, rows: number, columns: number): string =>
     JSON.stringify({
       cells: Array.from({ length: rows }, (_, r) =>
-        Array.from({ length: columns }, (_, c) => [book.cell(sheet, r, c).input, book.numberFormat(sheet, r, c) ?? 'General', book.style(sheet, r, c) ?? {}]),
+        Array.from({ length: columns }, (_, c) => [
+          book.cell(sheet, r, c).input,
+          book.numberFormat(sheet, r, c) ?? 'General',
+          book.style(sheet, r, c) ?? {},
+        ]),
       ),
       widths: Array.from({ length: columns }, (_, c) => book.columnWidth(sheet, c) ?? null),
     });
@@ -299,12 +324,20 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
       await context.sync();
     }).catch((e: unknown) => e as { code: string; message: string });
     expect(error).toMatchObject({ code: 'InvalidArgument' });
-    expect((error as { message: string }).message).toMatch(/^The number of rows or columns in the input array doesn't match the size or dimensions of the range\./);
+    expect((error as { message: string }).message).toMatch(
+      /^The number of rows or columns in the input array doesn't match the size or dimensions of the range\./,
+    );
   });
 
   it('answers requirement-set questions for the subset it implements', () => {
     const ask = office.Office.context.requirements.isSetSupported;
-    expect([ask('ExcelApi', '1.1'), ask('ExcelApi', '1.12'), ask('ExcelApi', '1.18'), ask('ExcelApi', '1.19'), ask('WordApi', '1.1')]).toEqual([true, true, true, false, false]);
+    expect([
+      ask('ExcelApi', '1.1'),
+      ask('ExcelApi', '1.12'),
+      ask('ExcelApi', '1.18'),
+      ask('ExcelApi', '1.19'),
+      ask('WordApi', '1.1'),
+    ]).toEqual([true, true, true, false, false]);
     // `?api=1.16` on the preview's address: an Excel without notes (Worksheet.notes is ExcelApi 1.18).
     const older = createOfficeStandIn(book, realm, '1.16').Office.context.requirements.isSetSupported;
     expect([older('ExcelApi', '1.16'), older('ExcelApi', '1.18')]).toEqual([true, false]);
@@ -312,7 +345,11 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
 
   it('writes a block, then undoes a write made to fail half-way: contents, formats, fills and widths come back', async () => {
     // the user's own cells in D1:E3, with a format, a fill and a column width
-    book.write(0, 0, 3, [['note', 0.5], ['', ''], ['', 7]]);
+    book.write(0, 0, 3, [
+      ['note', 0.5],
+      ['', ''],
+      ['', 7],
+    ]);
     book.setNumberFormat(0, 0, 4, '0.0%');
     book.setStyle(0, 2, 4, { fill: '#FFF2CC', bold: true });
     book.setColumnWidth(0, 3, 150);
@@ -344,7 +381,8 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
       kind: 'failed',
       address: 'Data!D1:E3',
       code: 'GeneralException',
-      message: 'nothing was written to Data!D1:E3 (The preview was told to fail here.); every cell was put back and checked',
+      message:
+        'nothing was written to Data!D1:E3 (The preview was told to fail here.); every cell was put back and checked',
       restored: true,
       unrestored: [],
     });
@@ -357,9 +395,20 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
   });
 
   it('finds empty places beside a table and writes on a new sheet, deleted again after a failure', async () => {
-    const places = await layer().findPlaces({ sheet: 'Data', table: 'A1:B3', rowCount: 4, columnCount: 3, newSheetName: 'Data read-out' });
+    const places = await layer().findPlaces({
+      sheet: 'Data',
+      table: 'A1:B3',
+      rowCount: 4,
+      columnCount: 3,
+      newSheetName: 'Data read-out',
+    });
     expect(places).toEqual({ right: 'D1', below: 'A5', newSheet: 'Data read-out' });
-    const block = { sheet: 'Data read-out', newSheet: true, topLeft: 'A1', cells: [['Mean', "=ABTEST.POSTERIOR_MEAN(Data!B2:B3, Data!A2:A3)"]] };
+    const block = {
+      sheet: 'Data read-out',
+      newSheet: true,
+      topLeft: 'A1',
+      cells: [['Mean', '=ABTEST.POSTERIOR_MEAN(Data!B2:B3, Data!A2:A3)']],
+    };
     book.failNextWrite({ fraction: 0.5, code: 'GeneralException', message: 'told to fail' });
     expect(await layer().writeBlock(block)).toMatchObject({ kind: 'failed', restored: true });
     expect(book.sheetNames()).toEqual(['Data', 'Past tests']);
@@ -382,8 +431,14 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
     expect(out.child).toEqual([false, 'Data!D1']);
     expect(out.plain).toBe(true);
     expect(out.json).toEqual([
-      [{ type: 'String', basicType: 'String', basicValue: 'Visitors' }, { type: 'String', basicType: 'String', basicValue: 'Conversions' }],
-      [{ type: 'Double', basicType: 'Double', basicValue: 100 }, { type: 'Double', basicType: 'Double', basicValue: 7 }],
+      [
+        { type: 'String', basicType: 'String', basicValue: 'Visitors' },
+        { type: 'String', basicType: 'String', basicValue: 'Conversions' },
+      ],
+      [
+        { type: 'Double', basicType: 'Double', basicValue: 100 },
+        { type: 'Double', basicType: 'Double', basicValue: 7 },
+      ],
     ]);
   });
 
@@ -400,7 +455,10 @@ describe('the stand-in as the panel’s workbook layer uses it (the same code as
       const at = 'D3'; // D2 of the source, one header row further down
       return {
         values: [{ address: 'D3:D4', values: cell.values }],
-        texts: [{ address: 'A1', text: 'Frozen copy', bold: true }, ...(notes ? [] : [{ address: 'E3', text: copyFormula(at) }])],
+        texts: [
+          { address: 'A1', text: 'Frozen copy', bold: true },
+          ...(notes ? [] : [{ address: 'E3', text: copyFormula(at) }]),
+        ],
         notes: notes ? [{ address: at, text: copyFormula(at) }] : [],
       };
     },

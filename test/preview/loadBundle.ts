@@ -9,7 +9,11 @@ import * as vm from 'vm';
 import { HyperFormula } from 'hyperformula';
 import { createCustomFunctionsStandIn } from '../../preview/src/customFunctionsStandIn';
 import { parseFunctionsMetadata, type FunctionsMetadataFile } from '../../preview/src/metadata';
-import { registerAbtestFunctions, type AbtestPluginDefinition, type CustomFunctionImplementation } from '../../preview/src/abtestPlugin';
+import {
+  registerAbtestFunctions,
+  type AbtestPluginDefinition,
+  type CustomFunctionImplementation,
+} from '../../preview/src/abtestPlugin';
 
 /** The repository root. */
 export const REPO_ROOT = path.resolve(__dirname, '..', '..');
@@ -28,11 +32,16 @@ export interface LoadedFunctions {
 export function loadAndRegister(functionsJs: string, functionsJson: string): LoadedFunctions {
   for (const file of [functionsJs, functionsJson]) {
     if (!fs.existsSync(file)) {
-      throw new Error(`${path.relative(REPO_ROOT, file)} is missing: run \`npm run build\` before \`npm test\` (the preview test evaluates the built add-in)`);
+      throw new Error(
+        `${path.relative(REPO_ROOT, file)} is missing: run \`npm run build\` before \`npm test\` (the preview test evaluates the built add-in)`,
+      );
     }
   }
   const host = createCustomFunctionsStandIn();
-  const office = { onReady: () => Promise.resolve({ host: 'Excel', platform: 'PC' }), actions: { associate: () => undefined } };
+  const office = {
+    onReady: () => Promise.resolve({ host: 'Excel', platform: 'PC' }),
+    actions: { associate: () => undefined },
+  };
   const context = vm.createContext({ CustomFunctions: host.api, Office: office, console });
   (context as Record<string, unknown>).self = context;
   (context as Record<string, unknown>).window = context;

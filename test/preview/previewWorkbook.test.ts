@@ -5,7 +5,15 @@
  * (1 + x)/(2 + n) of the Beta posterior mean (common practice).
  */
 import * as path from 'path';
-import { beyondSheetMessage, blockAddress, fitNumber, formatNumber, parseBlock, PreviewWorkbook, qualifiedSheetName } from '../../preview/src/previewWorkbook';
+import {
+  beyondSheetMessage,
+  blockAddress,
+  fitNumber,
+  formatNumber,
+  parseBlock,
+  PreviewWorkbook,
+  qualifiedSheetName,
+} from '../../preview/src/previewWorkbook';
 import { buildDemoWorkbook, DEMO_NOTICE } from '../../preview/src/demoWorkbook';
 import { loadAndRegister } from './loadBundle';
 
@@ -81,18 +89,31 @@ describe('PreviewWorkbook', () => {
 
   it('shows an error of a spilling formula in its own cell only, as Excel does', () => {
     // 12.5 visitors is refused: POSTERIOR_MEAN returns #VALUE! for the whole result
-    const book = PreviewWorkbook.create([{ name: 'S', cells: [[10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2)'], [12.5, 5]], formats: {}, columnWidths: {} }]);
+    const book = PreviewWorkbook.create([
+      {
+        name: 'S',
+        cells: [
+          [10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B2, A1:A2)'],
+          [12.5, 5],
+        ],
+        formats: {},
+        columnWidths: {},
+      },
+    ]);
     expect(book.cell(0, 0, 2)).toMatchObject({ kind: 'error', value: '#VALUE!' });
     expect(book.cell(0, 1, 2)).toMatchObject({ kind: 'empty', text: '' });
     expect(book.values({ sheet: 0, row: 0, col: 2, rows: 2, columns: 1 })).toEqual([['#VALUE!'], ['']]);
   });
 
   it('says why a formula gives #NAME? when it reaches past the preview’s sheet size', () => {
-    const book = PreviewWorkbook.create([{ name: 'S', cells: [['=SUM(A1:A2500)', '=SUM(C1:C20)']], formats: {}, columnWidths: {} }]);
+    const book = PreviewWorkbook.create([
+      { name: 'S', cells: [['=SUM(A1:A2500)', '=SUM(C1:C20)']], formats: {}, columnWidths: {} },
+    ]);
     expect(book.cell(0, 0, 0)).toMatchObject({
       kind: 'error',
       value: '#NAME?',
-      message: "This preview's sheets have 2,000 rows and 200 columns (Excel's have 1,048,576 rows and 16,384 columns); the formula refers to A2500, beyond them. It works in Excel.",
+      message:
+        "This preview's sheets have 2,000 rows and 200 columns (Excel's have 1,048,576 rows and 16,384 columns); the formula refers to A2500, beyond them. It works in Excel.",
     });
     expect(book.cell(0, 0, 1)).toMatchObject({ kind: 'number', value: 0 });
     expect(beyondSheetMessage('=IF(A1>0,"ZZ9999 in text",B2)', 2000, 200)).toBeUndefined();
@@ -148,7 +169,16 @@ describe('PreviewWorkbook', () => {
 describe('spill ranges', () => {
   it('finds the block a formula spills into, from its formula cell', () => {
     const book = PreviewWorkbook.create([
-      { name: 'S', cells: [[10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B3, A1:A3)', '=1+1'], [20, 5], [30, 6]], formats: {}, columnWidths: {} },
+      {
+        name: 'S',
+        cells: [
+          [10, 3, '=ABTEST.POSTERIOR_MEAN(B1:B3, A1:A3)', '=1+1'],
+          [20, 5],
+          [30, 6],
+        ],
+        formats: {},
+        columnWidths: {},
+      },
     ]);
     expect(book.spillRange(0, 0, 2)).toEqual({ sheet: 0, row: 0, col: 2, rows: 3, columns: 1 });
     expect(book.spillRange(0, 0, 3)).toBeUndefined();

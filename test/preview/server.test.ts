@@ -53,11 +53,19 @@ function raw(port: number, method: string, target: string): Promise<{ status: nu
 describe('preview server', () => {
   it('replaces Office’s CDN script with the stand-in, quoted or minified', () => {
     const stand = '<script src="/preview/office-stand-in.js"></script>';
-    expect(server.rewriteTaskpane('<head><script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script></head>')).toBe(`<head>${stand}</head>`);
-    expect(server.rewriteTaskpane('<head><script src=https://appsforoffice.microsoft.com/lib/1/hosted/office.js></script><script defer src=taskpane.js></script></head>')).toBe(
-      `<head>${stand}<script defer src=taskpane.js></script></head>`,
+    expect(
+      server.rewriteTaskpane(
+        '<head><script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script></head>',
+      ),
+    ).toBe(`<head>${stand}</head>`);
+    expect(
+      server.rewriteTaskpane(
+        '<head><script src=https://appsforoffice.microsoft.com/lib/1/hosted/office.js></script><script defer src=taskpane.js></script></head>',
+      ),
+    ).toBe(`<head>${stand}<script defer src=taskpane.js></script></head>`);
+    expect(server.rewriteTaskpane('<html><head lang="en"><title>x</title></head></html>')).toBe(
+      `<html><head lang="en">${stand}<title>x</title></head></html>`,
     );
-    expect(server.rewriteTaskpane('<html><head lang="en"><title>x</title></head></html>')).toBe(`<html><head lang="en">${stand}<title>x</title></head></html>`);
   });
 
   it('serves dist files and the preview’s static files, and nothing outside them', async () => {

@@ -71,10 +71,13 @@ const loaded = loadAndRegister(path.join(DIST, 'functions.js'), path.join(DIST, 
 
 /** |actual − expected| ≤ tol · max(1, |expected|), with a message naming the cell. */
 function expectNumber(actual: unknown, expected: number, where: string, tol = 1e-12): void {
-  if (typeof actual !== 'number') throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
+  if (typeof actual !== 'number')
+    throw new Error(`${where}: expected a number near ${expected}, got ${JSON.stringify(actual)}`);
   const scale = Math.max(1, Math.abs(expected));
   if (!(Math.abs(actual - expected) <= tol * scale)) {
-    throw new Error(`${where}: ${actual} differs from ${expected} by ${Math.abs(actual - expected)} (tolerance ${tol * scale})`);
+    throw new Error(
+      `${where}: ${actual} differs from ${expected} by ${Math.abs(actual - expected)} (tolerance ${tol * scale})`,
+    );
   }
 }
 
@@ -94,9 +97,11 @@ function expectBlock(actual: Cell[][], expected: Cell[][], where: string, tol = 
 
 const column = (values: readonly number[]): Cell[][] => values.map((v) => [v]);
 const versusControl = (rows: readonly Cell[][], width: number): Cell[][] => [Array<Cell>(width).fill(''), ...rows];
-const lmu = (ivs: readonly { lower: number; median: number; upper: number }[]): Cell[][] => ivs.map((iv) => [iv.lower, iv.median, iv.upper]);
+const lmu = (ivs: readonly { lower: number; median: number; upper: number }[]): Cell[][] =>
+  ivs.map((iv) => [iv.lower, iv.median, iv.upper]);
 const lu = (ivs: readonly { lower: number; upper: number }[]): Cell[][] => ivs.map((iv) => [iv.lower, iv.upper]);
-const densityTable = (t: { grid: number[]; densities: number[][] }): Cell[][] => t.grid.map((x, i) => [x, ...t.densities.map((d) => d[i] as number)]);
+const densityTable = (t: { grid: number[]; densities: number[][] }): Cell[][] =>
+  t.grid.map((x, i) => [x, ...t.densities.map((d) => d[i] as number)]);
 
 describe('preview demo workbook with the built add-in', () => {
   const book = PreviewWorkbook.create(buildDemoWorkbook());
@@ -120,8 +125,10 @@ describe('preview demo workbook with the built add-in', () => {
       variants: rows.map((r) => ({ conversions: r[2] as number, visitors: r[1] as number })),
     };
   };
-  const means = () => read('Checkout test', 'D4', 3, 3).map((r) => ({ count: r[0] as number, mean: r[1] as number, sd: r[2] as number }));
-  const eventsOf = () => read('Checkout test', 'G4', 3, 2).map((r) => ({ events: r[0] as number, exposure: r[1] as number }));
+  const means = () =>
+    read('Checkout test', 'D4', 3, 3).map((r) => ({ count: r[0] as number, mean: r[1] as number, sd: r[2] as number }));
+  const eventsOf = () =>
+    read('Checkout test', 'G4', 3, 2).map((r) => ({ events: r[0] as number, exposure: r[1] as number }));
   const past = () => {
     const rows = read('Past tests', 'B4', 12, 2);
     return { conversions: rows.map((r) => r[0] as number), visitors: rows.map((r) => r[1] as number) };
@@ -141,7 +148,12 @@ describe('preview demo workbook with the built add-in', () => {
     const { variants, labels } = checkout();
     const historyPrior: BetaPrior = priorFromHistory(past().conversions, past().visitors, 'likelihood');
     const [baseline, lift, perVariant, threshold, power] = planInputs() as [number, number, number, number, number];
-    const block = (cells: Cell[][], tol?: number) => () => ({ rows: cells.length, columns: cells[0]?.length ?? 1, cells, tol });
+    const block = (cells: Cell[][], tol?: number) => () => ({
+      rows: cells.length,
+      columns: cells[0]?.length ?? 1,
+      cells,
+      tol,
+    });
     const lazy = (make: () => Cell[][], tol?: number) => () => {
       const cells = make();
       return { rows: cells.length, columns: cells[0]?.length ?? 1, cells, tol };
@@ -161,7 +173,14 @@ describe('preview demo workbook with the built add-in', () => {
         return [[decisionText({ choose: d.choose, label: labels[d.index] ?? '?', loss: d.loss, maxLoss: d.maxLoss })]];
       }),
       'Checkout test!B49': block(column(probHighest(variants, historyPrior)), 1e-10),
-      'Checkout test!B53': block([[srmPValue(variants.map((v) => v.visitors), [1, 1, 1])]]),
+      'Checkout test!B53': block([
+        [
+          srmPValue(
+            variants.map((v) => v.visitors),
+            [1, 1, 1],
+          ),
+        ],
+      ]),
       'Checkout test!B57': block(lu(meanInterval(means(), 0.95))),
       'Checkout test!B61': block(column(meanProbHighest(means()))),
       'Checkout test!B65': block(versusControl(column(meanProbAboveControl(means())), 1)),
@@ -186,7 +205,9 @@ describe('preview demo workbook with the built add-in', () => {
       'Checkout test!B137': lazy(() => [
         [amountDecisionCell({ positions: [0, 1, 2] }, labels, meanDecide(means(), undefined), "in the metric's units")],
       ]),
-      'Checkout test!B140': lazy(() => versusControl(column(eventsProbLiftAbove(eventsOf(), 0.05, FLAT_GAMMA_PRIOR)), 1)),
+      'Checkout test!B140': lazy(() =>
+        versusControl(column(eventsProbLiftAbove(eventsOf(), 0.05, FLAT_GAMMA_PRIOR)), 1),
+      ),
       'Checkout test!B143': lazy(() => [
         [
           amountDecisionCell(
@@ -232,7 +253,9 @@ describe('preview demo workbook with the built add-in', () => {
   it('registers every function of dist/functions.json, and the spill layout knows every matrix result', () => {
     const ids = loaded.metadata.functions.map((f) => f.id.toUpperCase());
     expect(loaded.definition.names).toHaveLength(ids.length);
-    const matrixWithoutRule = loaded.metadata.functions.filter((f) => f.result?.dimensionality === 'matrix' && !SPILL_RULES[f.id.toUpperCase()]);
+    const matrixWithoutRule = loaded.metadata.functions.filter(
+      (f) => f.result?.dimensionality === 'matrix' && !SPILL_RULES[f.id.toUpperCase()],
+    );
     expect(matrixWithoutRule.map((f) => f.id)).toEqual([]);
     // every function of the catalogue (functions/catalogue.ts), in its order
     expect(ids).toEqual(CATALOGUE_LIST.map((f) => f.id));
@@ -243,14 +266,18 @@ describe('preview demo workbook with the built add-in', () => {
     expect(bundles).toContain('functions.js');
     for (const file of bundles) {
       const source = fs.readFileSync(path.join(DIST, file), 'utf8');
-      expect({ file, mentionsHyperFormula: /hyperformula|gpl-v3/i.test(source) }).toEqual({ file, mentionsHyperFormula: false });
+      expect({ file, mentionsHyperFormula: /hyperformula|gpl-v3/i.test(source) }).toEqual({
+        file,
+        mentionsHyperFormula: false,
+      });
     }
   });
 
   it('uses every function of the first release at least once, each with a label beside it', () => {
     const cells = abtestCells();
     const used = new Set<string>();
-    for (const formula of cells.values()) for (const m of formula.matchAll(/ABTEST\.([A-Z_]+)\s*\(/gi)) used.add((m[1] ?? '').toUpperCase());
+    for (const formula of cells.values())
+      for (const m of formula.matchAll(/ABTEST\.([A-Z_]+)\s*\(/gi)) used.add((m[1] ?? '').toUpperCase());
     // every function of 0.1.0 is shown; functions added since may be (adding one needs no demo edit)
     expect(SHIPPED_0_1_0.filter((id) => !used.has(id))).toEqual([]);
     const known = new Set(loaded.metadata.functions.map((f) => f.name.toUpperCase()));
@@ -283,14 +310,18 @@ describe('preview demo workbook with the built add-in', () => {
 
   it('agrees with outside references on the demo numbers (scipy, test/reference/addin/preview_workbook.json)', () => {
     // Beta posterior mean (1 + x) / (2 + n), uniform prior: closed form, common practice
-    reference.posterior_mean.forEach((m, i) => expectNumber(num('Checkout test', `B${11 + i}`), m, `posterior mean ${i + 1}`, 1e-13));
+    reference.posterior_mean.forEach((m, i) =>
+      expectNumber(num('Checkout test', `B${11 + i}`), m, `posterior mean ${i + 1}`, 1e-13),
+    );
     // scipy.stats.beta.ppf(0.025 | 0.975, 1 + x, 1 + n − x)
     reference.rate_interval_central_95.forEach(([lo, hi], i) => {
       expectNumber(num('Checkout test', `B${15 + i}`), lo as number, `rate interval lower ${i + 1}`, 1e-9);
       expectNumber(num('Checkout test', `C${15 + i}`), hi as number, `rate interval upper ${i + 1}`, 1e-9);
     });
     // Evan Miller (2015) exact sum for P(p_B > p_A), evaluated with scipy.special.betaln
-    reference.prob_above_control.forEach((p, i) => expectNumber(num('Checkout test', `B${28 + i}`), p, `P(beats control) ${i + 2}`, 1e-9));
+    reference.prob_above_control.forEach((p, i) =>
+      expectNumber(num('Checkout test', `B${28 + i}`), p, `P(beats control) ${i + 2}`, 1e-9),
+    );
     // scipy.stats.chisquare(visitors) with equal expected shares
     expectNumber(num('Checkout test', 'B53'), reference.srm_pvalue_equal_shares, 'SRM p-value', 1e-9);
     // Student t posterior of the mean, x̄ ± t(0.975, n − 1)·s/√n (Gelman et al., BDA3 §3.2; scipy.stats.t.ppf)
@@ -304,7 +335,9 @@ describe('preview demo workbook with the built add-in', () => {
       expectNumber(num('Checkout test', `C${82 + i}`), hi as number, `events interval upper ${i + 1}`, 1e-9);
     });
     // P(λ_B > λ_A) = I_z(a_A, a_B), z = b_A/(b_A + b_B) (docs/check-values.md), scipy.special.betainc
-    reference.events_prob_above_control.forEach((p, i) => expectNumber(num('Checkout test', `B${91 + i}`), p, `events P(beats control) ${i + 2}`, 1e-9));
+    reference.events_prob_above_control.forEach((p, i) =>
+      expectNumber(num('Checkout test', `B${91 + i}`), p, `events P(beats control) ${i + 2}`, 1e-9),
+    );
     // PRIOR_FROM_MEAN(0.04, 500): alpha = 0.04·500 = 20, beta = 480 (closed form; a Beta(a, b) is worth a + b visitors, common practice)
     expectNumber(num('Past tests', 'B20'), 20, 'prior alpha', 1e-12);
     expectNumber(num('Past tests', 'C20'), 480, 'prior beta', 1e-12);
@@ -326,7 +359,9 @@ describe('preview demo workbook with the built add-in', () => {
       expectNumber(num('Checkout test', 'B53'), 0.00247875218, 'SRM p-value vs R', 1e-8);
       // the conversion read-outs followed the new visitors: the core on the edited inputs
       const { variants } = checkout();
-      column(posteriorMean(variants, UNIFORM_PRIOR)).forEach(([m], i) => expectNumber(num('Checkout test', `B${11 + i}`), m as number, `edited mean ${i + 1}`));
+      column(posteriorMean(variants, UNIFORM_PRIOR)).forEach(([m], i) =>
+        expectNumber(num('Checkout test', `B${11 + i}`), m as number, `edited mean ${i + 1}`),
+      );
     } finally {
       book.write(plan, 3, 1, savedPlan);
       book.write(checkoutSheet, 3, 1, savedVisitors);
@@ -350,7 +385,11 @@ describe('preview demo workbook with the built add-in', () => {
       const [sheet, address] = key.split('!') as [string, string];
       const { row, col } = parseA1(address);
       const view = book.cell(sheetOf(sheet), row, col);
-      expect({ key, kind: view.kind, message: view.message }).toEqual({ key, kind: expect.not.stringMatching(/^error$/), message: undefined });
+      expect({ key, kind: view.kind, message: view.message }).toEqual({
+        key,
+        kind: expect.not.stringMatching(/^error$/),
+        message: undefined,
+      });
     }
   });
 });

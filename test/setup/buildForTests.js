@@ -12,7 +12,16 @@ const { spawnSync } = require('child_process');
 const ROOT = path.join(__dirname, '..', '..');
 const DIST = path.join(ROOT, 'dist');
 /** What the build reads: a change in any of these makes dist/ stale. */
-const SOURCES = ['functions', 'taskpane', 'help', 'manifest', 'scripts', 'webpack.config.js', 'tsconfig.json', 'package-lock.json'];
+const SOURCES = [
+  'functions',
+  'taskpane',
+  'help',
+  'manifest',
+  'scripts',
+  'webpack.config.js',
+  'tsconfig.json',
+  'package-lock.json',
+];
 /** What the tests read from dist/. */
 const OUTPUTS = ['functions.js', 'functions.json', 'taskpane.html', 'taskpane.js', 'manifest.xml', 'help/index.html'];
 
@@ -50,14 +59,17 @@ module.exports = async function buildForTests() {
   require('../../help/build').writeFunctionTexts();
   const sources = newestMtime(SOURCES.map((p) => path.join(ROOT, p)));
   if (builtAt() >= sources) return;
-  console.log('\ndist/ is missing or older than its sources: building the add-in for the tests (webpack --mode production)');
+  console.log(
+    '\ndist/ is missing or older than its sources: building the add-in for the tests (webpack --mode production)',
+  );
   const webpackCli = require.resolve('webpack-cli/bin/cli.js', { paths: [ROOT] });
   const result = spawnSync(process.execPath, [webpackCli, '--mode', 'production'], {
     cwd: ROOT,
     stdio: ['ignore', 'inherit', 'inherit'],
     env: { ...process.env, ADDIN_BASE_URL: '' },
   });
-  if (result.status !== 0) throw new Error(`the add-in build failed (webpack exit ${result.status}); run \`npm run build\` to see why`);
+  if (result.status !== 0)
+    throw new Error(`the add-in build failed (webpack exit ${result.status}); run \`npm run build\` to see why`);
   // webpack leaves an output whose bytes did not change untouched; mark every output as built now, so that
   // this check and the command line's own (`lift-ledger audit`, by the time of dist/functions.js) agree
   const now = new Date();

@@ -26,15 +26,22 @@ test('a formatted number is read as its number', () => {
 test('an entity is read as the text it shows: a label, and text where a count belongs', () => {
   expect(classifyCell(entity('Orange button'))).toEqual({ kind: 'text', text: 'Orange button' });
   expect(labelOf(entity('Orange button'), 1)).toBe('Orange button');
-  const error = thrownWorksheetError(() => runSheet(() => readConversions([[412], [455]], [[10000], [entity('Big basket icon')]], COMPARISON)));
+  const error = thrownWorksheetError(() =>
+    runSheet(() => readConversions([[412], [455]], [[10000], [entity('Big basket icon')]], COMPARISON)),
+  );
   expect(error.code).toBe('#VALUE!');
-  expect(error.message).toBe('visitors, item 2: "Big basket icon" is text, not a number; enter a whole number, at least 1 (convert text with VALUE() if needed)');
+  expect(error.message).toBe(
+    'visitors, item 2: "Big basket icon" is text, not a number; enter a whole number, at least 1 (convert text with VALUE() if needed)',
+  );
 });
 
 test('an entity whose basic value is a number is still the text it shows (a card is a label, not a count)', () => {
   const card = { type: 'Entity', basicType: 'Double', basicValue: 2428, text: '2428', properties: {} };
   expect(classifyCell(card)).toEqual({ kind: 'text', text: '2428' });
-  expect(classifyCell({ type: 'Entity', basicValue: { nested: true } })).toEqual({ kind: 'text', text: 'a linked data type' });
+  expect(classifyCell({ type: 'Entity', basicValue: { nested: true } })).toEqual({
+    kind: 'text',
+    text: 'a linked data type',
+  });
 });
 
 test('an object without a plain value stays "not a number", in plain words', () => {

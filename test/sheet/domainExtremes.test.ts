@@ -117,13 +117,33 @@ describe('inside the domain: the reference values at its corners', () => {
 
 describe('outside the domain: #VALUE! naming the argument, its value and the range', () => {
   test.each([
-    ['prior_alpha', () => F.liftInterval(col([30000, 0]), col([30000, 30000]), null as never, 1e-12, 1e-12), '1e-12', 'from 0.001 to 1E+6'],
+    [
+      'prior_alpha',
+      () => F.liftInterval(col([30000, 0]), col([30000, 30000]), null as never, 1e-12, 1e-12),
+      '1e-12',
+      'from 0.001 to 1E+6',
+    ],
     ['prior_beta', () => F.probHighest(col([1, 2]), col([10, 10]), 1, 2e6), '2000000', 'from 0.001 to 1E+6'],
     ['prior_shape', () => F.eventsRateInterval(col([3]), col([10]), 0.95, 0.0001), '0.0001', 'from 0.001 to 1E+6'],
     ['prior_rate', () => F.eventsRateInterval(col([3]), col([10]), 0.95, 1, 1e13), '10000000000000', 'from 0 to 1E+12'],
-    ['exposure, item 1', () => F.eventsRateInterval(col([834, 813]), col([5e-324, 0.5]), 0.99, 2), '5e-324', 'from 1E-6 to 1E+12'],
-    ['sd, item 1', () => F.meanInterval(col([60405, 2]), col([23.97, 24.63]), col([5e-324, 1e308])), '5e-324', '0, or a number from 1E-6 to 1E+12'],
-    ['mean, item 2', () => F.meanExpectedLoss(col([95, 30806260]), col([-5.468, -1e300]), col([0, 0.00776])), '-1e+300', 'from -1E+12 to 1E+12'],
+    [
+      'exposure, item 1',
+      () => F.eventsRateInterval(col([834, 813]), col([5e-324, 0.5]), 0.99, 2),
+      '5e-324',
+      'from 1E-6 to 1E+12',
+    ],
+    [
+      'sd, item 1',
+      () => F.meanInterval(col([60405, 2]), col([23.97, 24.63]), col([5e-324, 1e308])),
+      '5e-324',
+      '0, or a number from 1E-6 to 1E+12',
+    ],
+    [
+      'mean, item 2',
+      () => F.meanExpectedLoss(col([95, 30806260]), col([-5.468, -1e300]), col([0, 0.00776])),
+      '-1e+300',
+      'from -1E+12 to 1E+12',
+    ],
     ['prior_alpha', () => F.decisionPower(0.000001, 1, 100, 0.5, 1e-300, 100), '1e-300', 'from 0.001 to 1E+6'],
     ['level', () => F.rateInterval(col([1]), col([10]), 0.99999), '0.99999', 'from 0.01 to 0.9999'],
     ['threshold', () => F.visitorsNeeded(0.01, 0.01, 0.999999999, 0.95), '0.999999999', 'from 0.01 to 0.9999'],
@@ -131,7 +151,9 @@ describe('outside the domain: #VALUE! naming the argument, its value and the ran
   ] as const)('%s', (name, call, value, range) => {
     const error = thrownWorksheetError(call);
     expect(error.code).toBe('#VALUE!');
-    expect(error.message).toBe(`${name}: ${value} is not allowed; enter a number ${range}`.replace('a number 0,', '0,'));
+    expect(error.message).toBe(
+      `${name}: ${value} is not allowed; enter a number ${range}`.replace('a number 0,', '0,'),
+    );
     expect(error.message).not.toMatch(/NaN|Infinity|unexpected|report|[a-z][A-Z]/);
   });
 

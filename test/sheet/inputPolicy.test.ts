@@ -38,7 +38,14 @@ import {
   intervalRows,
   medianRows,
 } from '../../functions/sheet';
-import { amountDecisionCell, decisionText, defaultLabel, formatAmount, formatPercent, labelOf } from '../../functions/sheet/decision';
+import {
+  amountDecisionCell,
+  decisionText,
+  defaultLabel,
+  formatAmount,
+  formatPercent,
+  labelOf,
+} from '../../functions/sheet/decision';
 import { readArgs } from '../../functions/sheet/args';
 import { CATALOGUE } from '../../functions/catalogue';
 import { thrownWorksheetError } from '../helpers/assertions';
@@ -80,7 +87,21 @@ describe('orientation', () => {
   });
 
   test('a 2-D range is rejected, naming its shape', () => {
-    expect(sheetError(() => readConversions([[1, 2], [3, 4]], [[10, 20], [30, 40]], COMPARISON))).toEqual({
+    expect(
+      sheetError(() =>
+        readConversions(
+          [
+            [1, 2],
+            [3, 4],
+          ],
+          [
+            [10, 20],
+            [30, 40],
+          ],
+          COMPARISON,
+        ),
+      ),
+    ).toEqual({
       code: '#VALUE!',
       message:
         'conversions: a range of 2 rows × 2 columns was given; use a single row or a single column (one cell per variant)',
@@ -184,7 +205,10 @@ describe('cell values', () => {
 
   test('counts up to 2^53 are accepted, above are rejected', () => {
     const big = 2 ** 53;
-    expect(readConversions(col(1, 2), col(big, big), COMPARISON).variants[0]).toEqual({ conversions: 1, visitors: big });
+    expect(readConversions(col(1, 2), col(big, big), COMPARISON).variants[0]).toEqual({
+      conversions: 1,
+      visitors: big,
+    });
     expect(sheetError(() => readConversions(col(1, 2), col(big * 2, 10), COMPARISON)).message).toBe(
       `visitors, item 1: ${big * 2} is larger than 2^53, the largest count accepted`,
     );
@@ -195,7 +219,8 @@ describe('shapes and counts', () => {
   test('ranges of different shapes are rejected, naming both shapes', () => {
     expect(sheetError(() => readConversions(col(1, 2, 3), col(10, 20, 30, 40), COMPARISON))).toEqual({
       code: '#VALUE!',
-      message: 'conversions and visitors must have the same shape: conversions is 3 rows × 1 column, visitors is 4 rows × 1 column',
+      message:
+        'conversions and visitors must have the same shape: conversions is 3 rows × 1 column, visitors is 4 rows × 1 column',
     });
     expect(sheetError(() => readConversions(col(1, 2), row(10, 20), COMPARISON)).message).toBe(
       'conversions and visitors must have the same shape: conversions is 2 rows × 1 column, visitors is 1 row × 2 columns',
@@ -221,7 +246,9 @@ describe('shapes and counts', () => {
 
   test('blank positions do not count towards the 50', () => {
     const cells = Array.from({ length: 60 }, (_, i) => (i % 6 === 5 ? '' : 1));
-    expect(readConversions(col(...cells), col(...cells.map((c) => (c === '' ? '' : 10))), COMPARISON).variants).toHaveLength(50);
+    expect(
+      readConversions(col(...cells), col(...cells.map((c) => (c === '' ? '' : 10))), COMPARISON).variants,
+    ).toHaveLength(50);
   });
 });
 
@@ -237,9 +264,12 @@ describe('priors and scalars', () => {
   test('only one given is an error naming the missing one', () => {
     expect(sheetError(() => readBetaPrior(2, undefined))).toEqual({
       code: '#VALUE!',
-      message: 'prior_alpha and prior_beta: give both or neither (prior_beta is missing); leaving both out uses the uniform prior Beta(1, 1)',
+      message:
+        'prior_alpha and prior_beta: give both or neither (prior_beta is missing); leaving both out uses the uniform prior Beta(1, 1)',
     });
-    expect(sheetError(() => readBetaPrior(null, 5)).message).toMatch(/^prior_alpha and prior_beta: give both or neither \(prior_alpha is missing\)/);
+    expect(sheetError(() => readBetaPrior(null, 5)).message).toMatch(
+      /^prior_alpha and prior_beta: give both or neither \(prior_alpha is missing\)/,
+    );
   });
 
   test('prior parameters lie in the declared domain, 0.001 to 1E+6 (stats/limits.ts), both ends included', () => {
@@ -260,7 +290,9 @@ describe('priors and scalars', () => {
   test('the Gamma prior takes each default on its own: shape 1, rate 0', () => {
     expect(readGammaPrior(undefined, undefined)).toEqual({ shape: 1, rate: 0 });
     expect(readGammaPrior(3, undefined)).toEqual({ shape: 3, rate: 0 });
-    expect(sheetError(() => readGammaPrior(1, -1)).message).toBe('prior_rate: -1 is not allowed; enter a number from 0 to 1E+12');
+    expect(sheetError(() => readGammaPrior(1, -1)).message).toBe(
+      'prior_rate: -1 is not allowed; enter a number from 0 to 1E+12',
+    );
   });
 
   test('levels lie from 0.01 to 0.9999 (the declared domain); omitted gives 0.95', () => {
@@ -297,7 +329,9 @@ describe('priors and scalars', () => {
       code: '#VALUE!',
       message: 'method: "widest" is not allowed; enter "central" or "hdi"',
     });
-    expect(sheetError(() => readChoice(RATE_INTERVAL_METHOD, 2)).message).toBe('method: 2 is not allowed; enter "central" or "hdi"');
+    expect(sheetError(() => readChoice(RATE_INTERVAL_METHOD, 2)).message).toBe(
+      'method: 2 is not allowed; enter "central" or "hdi"',
+    );
   });
 });
 
@@ -366,18 +400,52 @@ describe('spills', () => {
   const rowTable = readConversions(row(1, '', 2, 3), row(10, '', 20, 30), COMPARISON).table;
 
   test('blocks are one row per variant for a column input', () => {
-    expect(spillBlock(columnTable, [[1, 2], [3, 4], [5, 6]], 2)).toEqual([[1, 2], ['', ''], [3, 4], [5, 6]]);
+    expect(
+      spillBlock(
+        columnTable,
+        [
+          [1, 2],
+          [3, 4],
+          [5, 6],
+        ],
+        2,
+      ),
+    ).toEqual([
+      [1, 2],
+      ['', ''],
+      [3, 4],
+      [5, 6],
+    ]);
   });
 
   test('blocks are one column per variant for a row input', () => {
-    expect(spillBlock(rowTable, [[1, 2], [3, 4], [5, 6]], 2)).toEqual([
+    expect(
+      spillBlock(
+        rowTable,
+        [
+          [1, 2],
+          [3, 4],
+          [5, 6],
+        ],
+        2,
+      ),
+    ).toEqual([
       [1, '', 3, 5],
       [2, '', 4, 6],
     ]);
   });
 
   test('versus-control blocks leave the control and blank slots empty', () => {
-    expect(spillBlockVersusControl(columnTable, [[-1, 0, 1], [-2, 0, 2]], 3)).toEqual([
+    expect(
+      spillBlockVersusControl(
+        columnTable,
+        [
+          [-1, 0, 1],
+          [-2, 0, 2],
+        ],
+        3,
+      ),
+    ).toEqual([
       ['', '', ''],
       ['', '', ''],
       [-1, 0, 1],
@@ -387,12 +455,33 @@ describe('spills', () => {
   });
 
   test('density tables: grid first, one column per position, "" columns for blank positions', () => {
-    const per = spillDensity(columnTable, { grid: [0.1, 0.2], densities: [[1, 2], [3, 4], [5, 6]] }, 'variant');
+    const per = spillDensity(
+      columnTable,
+      {
+        grid: [0.1, 0.2],
+        densities: [
+          [1, 2],
+          [3, 4],
+          [5, 6],
+        ],
+      },
+      'variant',
+    );
     expect(per).toEqual([
       [0.1, 1, '', 3, 5],
       [0.2, 2, '', 4, 6],
     ]);
-    const lift = spillDensity(columnTable, { grid: [0, 1], densities: [[3, 4], [5, 6]] }, 'challenger');
+    const lift = spillDensity(
+      columnTable,
+      {
+        grid: [0, 1],
+        densities: [
+          [3, 4],
+          [5, 6],
+        ],
+      },
+      'challenger',
+    );
     expect(lift).toEqual([
       [0, '', 3, 5],
       [1, '', 4, 6],
@@ -403,7 +492,15 @@ describe('spills', () => {
     // RATE_DIFF_INTERVAL({1,1},{1,1},0.8,0.001,0.001): a symmetric difference, median 0 and 10% point a tiny
     // negative number; the searches returned 0 and −2.9e-16, both within their tolerance of the true values
     expect(medianRows([{ lower: 0, median: -2.868e-16, upper: 0 }])).toEqual([[-2.868e-16, 0, 0]]);
-    expect(intervalRows([{ lower: 0.2, upper: 0.1 }, { lower: -1, upper: 1 }])).toEqual([[0.1, 0.2], [-1, 1]]);
+    expect(
+      intervalRows([
+        { lower: 0.2, upper: 0.1 },
+        { lower: -1, upper: 1 },
+      ]),
+    ).toEqual([
+      [0.1, 0.2],
+      [-1, 1],
+    ]);
   });
 
   test('a non-finite number never reaches a cell', () => {
@@ -414,7 +511,16 @@ describe('spills', () => {
   });
 
   test('an infinite answer is #N/A saying it is beyond what a cell holds, in plain words', () => {
-    const error = sheetError(() => spillBlockVersusControl(columnTable, [[0, 1, Number.POSITIVE_INFINITY], [0, 1, 2]], 3));
+    const error = sheetError(() =>
+      spillBlockVersusControl(
+        columnTable,
+        [
+          [0, 1, Number.POSITIVE_INFINITY],
+          [0, 1, 2],
+        ],
+        3,
+      ),
+    );
     expect(error).toEqual({ code: '#N/A', message: BEYOND_CELL_MESSAGE });
     expect(error.message).not.toMatch(/Infinity|NaN|unexpected|report/);
   });
@@ -422,31 +528,55 @@ describe('spills', () => {
 
 describe('the one error mapping', () => {
   test('core invalid_argument becomes #VALUE! with its message', () => {
-    expect(sheetError(() => { throw new StatsError('invalid_argument', 'low must be below high'); })).toEqual({
+    expect(
+      sheetError(() => {
+        throw new StatsError('invalid_argument', 'low must be below high');
+      }),
+    ).toEqual({
       code: '#VALUE!',
       message: 'low must be below high',
     });
   });
 
   test('core not_available becomes #N/A with its message', () => {
-    expect(sheetError(() => { throw new StatsError('not_available', 'the highest-density region is not an interval'); })).toEqual({
+    expect(
+      sheetError(() => {
+        throw new StatsError('not_available', 'the highest-density region is not an interval');
+      }),
+    ).toEqual({
       code: '#N/A',
       message: 'the highest-density region is not an interval',
     });
   });
 
   test('a raw JavaScript error becomes #VALUE! in plain words, without its code detail', () => {
-    expect(sheetError(() => { throw new TypeError('x is undefined'); })).toEqual({
+    expect(
+      sheetError(() => {
+        throw new TypeError('x is undefined');
+      }),
+    ).toEqual({
       code: '#VALUE!',
-      message: 'could not compute this result for these inputs; check that every argument is within the range its help page gives',
+      message:
+        'could not compute this result for these inputs; check that every argument is within the range its help page gives',
     });
   });
 
   test('a core message that prints an overflowed number never reaches the cell as such', () => {
-    const overflow = new StatsError('invalid_argument', 'a relative lift must be a finite number greater than -1, not Infinity');
-    expect(sheetError(() => { throw overflow; })).toEqual({ code: '#N/A', message: BEYOND_CELL_MESSAGE });
+    const overflow = new StatsError(
+      'invalid_argument',
+      'a relative lift must be a finite number greater than -1, not Infinity',
+    );
+    expect(
+      sheetError(() => {
+        throw overflow;
+      }),
+    ).toEqual({ code: '#N/A', message: BEYOND_CELL_MESSAGE });
     const nan = new StatsError('invalid_argument', 'x must be a number, got NaN');
-    expect(sheetError(() => { throw nan; })).toEqual({ code: '#VALUE!', message: CATCH_ALL_MESSAGE });
+    expect(
+      sheetError(() => {
+        throw nan;
+      }),
+    ).toEqual({ code: '#VALUE!', message: CATCH_ALL_MESSAGE });
   });
 
   test('results pass through unchanged', () => {
@@ -477,10 +607,22 @@ describe('decision text', () => {
     expect(formatAmount(0)).toBe('0');
     // labels come lined up with the variants (a blank position already left out)
     const table = { positions: [0, 2] };
-    expect(amountDecisionCell(table, ['Old', 'New'], { choose: true, index: 1, loss: 0.0042, maxLoss: 0.021 }, 'per visitor')).toBe(
-      'Choose New: its expected loss 0.0042 per visitor is within the 0.021 per visitor allowed',
-    );
-    expect(amountDecisionCell(table, undefined, { choose: false, index: 1, loss: 0.02, maxLoss: 0.0012 }, 'events per unit of exposure')).toBe(
+    expect(
+      amountDecisionCell(
+        table,
+        ['Old', 'New'],
+        { choose: true, index: 1, loss: 0.0042, maxLoss: 0.021 },
+        'per visitor',
+      ),
+    ).toBe('Choose New: its expected loss 0.0042 per visitor is within the 0.021 per visitor allowed');
+    expect(
+      amountDecisionCell(
+        table,
+        undefined,
+        { choose: false, index: 1, loss: 0.02, maxLoss: 0.0012 },
+        'events per unit of exposure',
+      ),
+    ).toBe(
       'Keep collecting data: C leads, but its expected loss 0.020 events per unit of exposure is above the 0.0012 events per unit of exposure allowed',
     );
   });
@@ -514,8 +656,12 @@ describe('a percentage typed where a fraction belongs gets a hint', () => {
     expect(sheetError(() => readOptionalNumber(THRESHOLD, 90)).message).toBe(
       'threshold: 90 is not allowed; enter a fraction: 0.9 for 90%',
     );
-    expect(sheetError(() => readOptionalNumber(POWER, 80)).message).toBe('power: 80 is not allowed; enter a fraction: 0.8 for 80%');
-    expect(sheetError(() => readOptionalNumber(ALPHA, 5)).message).toBe('alpha: 5 is not allowed; enter a fraction: 0.05 for 5%');
+    expect(sheetError(() => readOptionalNumber(POWER, 80)).message).toBe(
+      'power: 80 is not allowed; enter a fraction: 0.8 for 80%',
+    );
+    expect(sheetError(() => readOptionalNumber(ALPHA, 5)).message).toBe(
+      'alpha: 5 is not allowed; enter a fraction: 0.05 for 5%',
+    );
     expect(sheetError(() => readRequiredNumber(BASELINE_RATE, 12.5)).message).toBe(
       'baseline_rate: 12.5 is not allowed; enter a fraction: 0.125 for 12.5%',
     );

@@ -63,14 +63,30 @@ describe('a list of numbers (visitors_at_looks)', () => {
   });
 
   test('a 2-D range, an empty list, too many values and a missing argument are errors', () => {
-    expect(sheetError(() => readList(LOOKS, [[1, 2], [3, 4]])).message).toBe(
+    expect(
+      sheetError(() =>
+        readList(LOOKS, [
+          [1, 2],
+          [3, 4],
+        ]),
+      ).message,
+    ).toBe(
       'visitors_at_looks: a range of 2 rows × 2 columns was given; use a single row or a single column (one cell per variant)',
     );
-    expect(sheetError(() => readList(LOOKS, [[''], ['']])).message).toBe('visitors_at_looks: at least 1 look is needed; every cell is blank');
-    expect(sheetError(() => readList(LOOKS, Array.from({ length: 101 }, (_, i) => [i + 1]))).message).toBe(
-      'visitors_at_looks: at most 100 looks can be used; 101 were given',
+    expect(sheetError(() => readList(LOOKS, [[''], ['']])).message).toBe(
+      'visitors_at_looks: at least 1 look is needed; every cell is blank',
     );
-    expect(sheetError(() => readList(LOOKS, null)).message).toBe('visitors_at_looks: is missing; enter a row or a column of 1 to 100 looks');
+    expect(
+      sheetError(() =>
+        readList(
+          LOOKS,
+          Array.from({ length: 101 }, (_, i) => [i + 1]),
+        ),
+      ).message,
+    ).toBe('visitors_at_looks: at most 100 looks can be used; 101 were given');
+    expect(sheetError(() => readList(LOOKS, null)).message).toBe(
+      'visitors_at_looks: is missing; enter a row or a column of 1 to 100 looks',
+    );
   });
 
   test('an optional list left out is undefined', () => {
@@ -119,14 +135,28 @@ describe('day tables (one row per day, one column per variant)', () => {
   });
 
   test('a day with some cells blank is an error naming the first blank cell', () => {
-    expect(sheetError(() => readDays([CONVERSIONS, VISITORS], [conversions, [[412, 398, 405], [1, 2, 3], [388, 401, 377]]]))).toEqual({
+    expect(
+      sheetError(() =>
+        readDays(
+          [CONVERSIONS, VISITORS],
+          [
+            conversions,
+            [
+              [412, 398, 405],
+              [1, 2, 3],
+              [388, 401, 377],
+            ],
+          ],
+        ),
+      ),
+    ).toEqual({
       code: '#VALUE!',
       message:
         'conversions_by_day, row 2, column 1: is blank while other cells of that day have values; fill in the whole day or leave the whole row blank',
     });
   });
 
-  test('each cell is checked by its rule, naming row and column; conversions at most the same cell\'s visitors', () => {
+  test("each cell is checked by its rule, naming row and column; conversions at most the same cell's visitors", () => {
     expect(sheetError(() => readDays([CONVERSIONS, VISITORS], [[[5, 'x']], [[10, 10]]])).message).toBe(
       'conversions_by_day, row 1, column 2: "x" is text, not a number; enter a whole number, at least 0 (convert text with VALUE() if needed)',
     );
@@ -139,7 +169,20 @@ describe('day tables (one row per day, one column per variant)', () => {
   });
 
   test('tables of different shapes, one column, too many rows and all-blank tables are errors', () => {
-    expect(sheetError(() => readDays([CONVERSIONS, VISITORS], [[[1, 2]], [[10, 10], [10, 10]]])).message).toBe(
+    expect(
+      sheetError(() =>
+        readDays(
+          [CONVERSIONS, VISITORS],
+          [
+            [[1, 2]],
+            [
+              [10, 10],
+              [10, 10],
+            ],
+          ],
+        ),
+      ).message,
+    ).toBe(
       'conversions_by_day and visitors_by_day must have the same shape: conversions_by_day is 1 × 2, visitors_by_day is 2 × 2 (rows × columns)',
     );
     expect(sheetError(() => readDays([VISITORS], [[[10], [20]]])).message).toBe(
@@ -153,7 +196,7 @@ describe('day tables (one row per day, one column per variant)', () => {
     );
   });
 
-  test('readArgs reads the entry\'s day tables together into days and dayColumns', () => {
+  test("readArgs reads the entry's day tables together into days and dayColumns", () => {
     const a = readArgs(CATALOGUE.PROB_ABOVE_CONTROL_BY_DAY, {
       conversions_by_day: conversions,
       visitors_by_day: visitors,
@@ -173,7 +216,17 @@ describe('by-day spills', () => {
   const table = { height: 4, width: 3, rows: [0, 2, 3], columns: {} };
 
   test('one row per input row: blank days give a row of "", null values a ""', () => {
-    expect(spillByDay(table, [[0.4, 0.6], [null, 0.7], [0.5, 0.8]], 2)).toEqual([
+    expect(
+      spillByDay(
+        table,
+        [
+          [0.4, 0.6],
+          [null, 0.7],
+          [0.5, 0.8],
+        ],
+        2,
+      ),
+    ).toEqual([
       [0.4, 0.6],
       ['', ''],
       ['', 0.7],
@@ -182,6 +235,16 @@ describe('by-day spills', () => {
   });
 
   test('a non-finite value never reaches a cell', () => {
-    expect(() => spillByDay(table, [[NaN, 0.6], [0.1, 0.7], [0.5, 0.8]], 2)).toThrow('a result is not a number');
+    expect(() =>
+      spillByDay(
+        table,
+        [
+          [NaN, 0.6],
+          [0.1, 0.7],
+          [0.5, 0.8],
+        ],
+        2,
+      ),
+    ).toThrow('a result is not a number');
   });
 });

@@ -77,7 +77,8 @@ describe('closedFormLogProbGreater against mpmath (beta_comparison.py, 40 digits
     const past = reference.cases.filter((c) => c.why.includes('past the bound'));
     expect(near.length).toBeGreaterThan(0);
     expect(past.length).toBeGreaterThan(0);
-    for (const c of near) expect(firstTermLogBeta(c.aY, c.bY, c.aX, c.bX)).toBeGreaterThan(0.9 * CLOSED_FORM_MAX_LOG_BETA);
+    for (const c of near)
+      expect(firstTermLogBeta(c.aY, c.bY, c.aX, c.bX)).toBeGreaterThan(0.9 * CLOSED_FORM_MAX_LOG_BETA);
     for (const c of past) {
       expect(firstTermLogBeta(c.aY, c.bY, c.aX, c.bX)).toBeGreaterThan(CLOSED_FORM_MAX_LOG_BETA);
       expect(firstTermLogBeta(c.bX, c.aX, c.bY, c.aY)).toBeGreaterThan(CLOSED_FORM_MAX_LOG_BETA);
@@ -104,7 +105,12 @@ describe('closedFormLogProbGreater: when it gives no value', () => {
     const refused = reference.cases.find((c) => c.why.includes('below 1e-3'));
     expect(Number(kept!.p)).toBeGreaterThan(1e-3);
     expect(Number(refused!.p)).toBeLessThan(1e-3);
-    expect(relativeError(Math.exp(closedFormLogProbGreater(kept!.aY, kept!.bY, kept!.aX, kept!.bX, 20000) as number), Number(kept!.p))).toBeLessThan(1e-12);
+    expect(
+      relativeError(
+        Math.exp(closedFormLogProbGreater(kept!.aY, kept!.bY, kept!.aX, kept!.bX, 20000) as number),
+        Number(kept!.p),
+      ),
+    ).toBeLessThan(1e-12);
     expect(closedFormLogProbGreater(refused!.aY, refused!.bY, refused!.aX, refused!.bX, 20000)).toBeUndefined();
   });
 

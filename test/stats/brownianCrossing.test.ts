@@ -10,21 +10,30 @@ const Z95 = 1.6448536269514722;
 describe('brownianCrossing against scipy multivariate normal (test/reference/looks/looks_reference.py, section normal)', () => {
   // scipy.stats.multivariate_normal.cdf (Genz's quasi-Monte Carlo) of the partial-sum z-statistics,
   // corr(Z_j, Z_k) = √(t_j/t_k), mean of 3 seeds; its own seed-to-seed spread is stated with each value.
-  it.each(values.normal.twoSided196.map((c) => [c.looks, c] as const))('%p equally spaced looks, |Z| ≥ 1.96', (K, c) => {
-    const got = brownianCrossing(spaced(K), Array(K).fill(Z975), Array(K).fill(-Z975)).probability;
-    expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
-  });
+  it.each(values.normal.twoSided196.map((c) => [c.looks, c] as const))(
+    '%p equally spaced looks, |Z| ≥ 1.96',
+    (K, c) => {
+      const got = brownianCrossing(spaced(K), Array(K).fill(Z975), Array(K).fill(-Z975)).probability;
+      expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
+    },
+  );
 
-  it.each(values.normal.oneSided1645.map((c) => [c.looks, c] as const))('%p equally spaced looks, Z ≥ 1.645', (K, c) => {
-    const got = brownianCrossing(spaced(K), Array(K).fill(Z95)).probability;
-    expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
-  });
+  it.each(values.normal.oneSided1645.map((c) => [c.looks, c] as const))(
+    '%p equally spaced looks, Z ≥ 1.645',
+    (K, c) => {
+      const got = brownianCrossing(spaced(K), Array(K).fill(Z95)).probability;
+      expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
+    },
+  );
 
-  it.each(values.normal.unequal.map((c) => [JSON.stringify(c.times), c] as const))('unequal looks %s and bounds', (_t, c) => {
-    const lower = c.lower === null ? undefined : c.lower.map((v) => (v === null ? -Infinity : v));
-    const got = brownianCrossing(c.times, c.upper, lower).probability;
-    expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
-  });
+  it.each(values.normal.unequal.map((c) => [JSON.stringify(c.times), c] as const))(
+    'unequal looks %s and bounds',
+    (_t, c) => {
+      const lower = c.lower === null ? undefined : c.lower.map((v) => (v === null ? -Infinity : v));
+      const got = brownianCrossing(c.times, c.upper, lower).probability;
+      expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
+    },
+  );
 });
 
 describe('brownianCrossing against published tables', () => {

@@ -72,7 +72,10 @@ function betaFunction(x: number, y: number): Fraction {
 function evanMiller(aA: number, bA: number, aB: number, bB: number): Fraction {
   let sum: Fraction = { n: 0n, d: 1n };
   for (let i = 0; i < aB; i++) {
-    const term = div(betaFunction(aA + i, bA + bB), mul(mul(fraction(BigInt(bB + i), 1n), betaFunction(1 + i, bB)), betaFunction(aA, bA)));
+    const term = div(
+      betaFunction(aA + i, bA + bB),
+      mul(mul(fraction(BigInt(bB + i), 1n), betaFunction(1 + i, bB)), betaFunction(aA, bA)),
+    );
     sum = add(sum, term);
   }
   return sum;
@@ -194,7 +197,14 @@ describe('identities (fast-check over posteriors from 0 … 1e6 visitors)', () =
         const p = highestProbabilities(ds);
         const sum = p.reduce((s, v) => s + v, 0);
         const losses = expectedLosses(ds);
-        const identity = losses.every((l, i) => Math.abs(l - (losses[0] as number) - ((ds[0] as TabulatedDistribution).mean - (ds[i] as TabulatedDistribution).mean)) < 1e-12);
+        const identity = losses.every(
+          (l, i) =>
+            Math.abs(
+              l -
+                (losses[0] as number) -
+                ((ds[0] as TabulatedDistribution).mean - (ds[i] as TabulatedDistribution).mean),
+            ) < 1e-12,
+        );
         return Math.abs(rawSum - 1) < 1e-10 && Math.abs(sum - 1) < 1e-12 && identity;
       }),
       { numRuns: 12, seed: 12 },
@@ -203,13 +213,18 @@ describe('identities (fast-check over posteriors from 0 … 1e6 visitors)', () =
 
   it('more conversions for B never lower P(B beats A)', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 100_000 }), fc.integer({ min: 0, max: 99_999 }), fc.integer({ min: 0, max: 100_000 }), (n, c, cA) => {
-        const conv = Math.min(c, n - 1);
-        const control = beta(1 + Math.min(cA, n), 1 + n - Math.min(cA, n));
-        const before = probabilityGreater(beta(1 + conv, 1 + n - conv), control);
-        const after = probabilityGreater(beta(2 + conv, n - conv), control);
-        return after >= before;
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 100_000 }),
+        fc.integer({ min: 0, max: 99_999 }),
+        fc.integer({ min: 0, max: 100_000 }),
+        (n, c, cA) => {
+          const conv = Math.min(c, n - 1);
+          const control = beta(1 + Math.min(cA, n), 1 + n - Math.min(cA, n));
+          const before = probabilityGreater(beta(1 + conv, 1 + n - conv), control);
+          const after = probabilityGreater(beta(2 + conv, n - conv), control);
+          return after >= before;
+        },
+      ),
       { numRuns: 25, seed: 13 },
     );
   });
@@ -220,7 +235,9 @@ describe('identities (fast-check over posteriors from 0 … 1e6 visitors)', () =
     // 1 + lift, which moves its cdf by as much).
     const ulp = (v: number) => Math.max(Number.MIN_VALUE, Math.abs(v) * Number.EPSILON);
     const brackets = (tail: (v: number) => number, v: number, target: number, increasing: boolean) => {
-      const [lo, hi] = increasing ? [tail(v - 2 * ulp(v)), tail(v + 2 * ulp(v))] : [tail(v + 2 * ulp(v)), tail(v - 2 * ulp(v))];
+      const [lo, hi] = increasing
+        ? [tail(v - 2 * ulp(v)), tail(v + 2 * ulp(v))]
+        : [tail(v + 2 * ulp(v)), tail(v - 2 * ulp(v))];
       return lo * (1 - 1e-12) <= target && target <= hi * (1 + 1e-12);
     };
     fc.assert(
@@ -230,9 +247,14 @@ describe('identities (fast-check over posteriors from 0 … 1e6 visitors)', () =
         const d = differenceQuantile(dy, dx, p);
         const m = ratioQuantile(dy, dx, p);
         if (p <= 0.5) {
-          return brackets((v) => differenceCdf(dy, dx, v), d, p, true) && brackets((v) => ratioCdf(dy, dx, v), m, p, true);
+          return (
+            brackets((v) => differenceCdf(dy, dx, v), d, p, true) && brackets((v) => ratioCdf(dy, dx, v), m, p, true)
+          );
         }
-        return brackets((v) => differenceSf(dy, dx, v), d, 1 - p, false) && brackets((v) => ratioSf(dy, dx, v), m, 1 - p, false);
+        return (
+          brackets((v) => differenceSf(dy, dx, v), d, 1 - p, false) &&
+          brackets((v) => ratioSf(dy, dx, v), m, 1 - p, false)
+        );
       }),
       { numRuns: 15, seed: 14 },
     );

@@ -100,7 +100,9 @@ describe('rateInterval', () => {
     for (const row of reference.rateQuantile) {
       if (row.p === 0.5) continue;
       const level = 1 - 2 * Math.min(row.p, 1 - row.p);
-      const [interval] = rateInterval(counts([row.variant]), level, UNIFORM_PRIOR, 'central') as [{ lower: number; upper: number }];
+      const [interval] = rateInterval(counts([row.variant]), level, UNIFORM_PRIOR, 'central') as [
+        { lower: number; upper: number },
+      ];
       const value = row.p < 0.5 ? interval.lower : interval.upper;
       expect(Math.abs(value - Number(row.rate))).toBeLessThan(1e-13);
       expect(relativeError(value, Number(row.rate))).toBeLessThan(1e-11);
@@ -120,7 +122,9 @@ describe('rateInterval', () => {
       [1e9, 1e9],
     ] as Pair[]) {
       for (const level of [0.5, 0.9, 0.95, 0.999999]) {
-        const [interval] = rateInterval(counts([[x, n]]), level, { alpha: 1, beta: 1 }) as [{ lower: number; upper: number }];
+        const [interval] = rateInterval(counts([[x, n]]), level, { alpha: 1, beta: 1 }) as [
+          { lower: number; upper: number },
+        ];
         const tail = (1 - level) / 2;
         const lower = betaQuantile(tail, 1 + x, 1 + n - x);
         const upper = betaQuantileUpper(tail, 1 + x, 1 + n - x);
@@ -153,7 +157,9 @@ describe('rateInterval', () => {
       [30, 100000],
     ] as Pair[]) {
       const [hdi] = rateInterval(counts([[x, n]]), 0.95, UNIFORM_PRIOR, 'hdi') as [{ lower: number; upper: number }];
-      const [central] = rateInterval(counts([[x, n]]), 0.95, UNIFORM_PRIOR, 'central') as [{ lower: number; upper: number }];
+      const [central] = rateInterval(counts([[x, n]]), 0.95, UNIFORM_PRIOR, 'central') as [
+        { lower: number; upper: number },
+      ];
       const d = posteriorOf({ conversions: x, visitors: n });
       expect(Math.abs(d.cdf(hdi.upper) - d.cdf(hdi.lower) - 0.95)).toBeLessThan(1e-13);
       expect(Math.abs(d.logValueDensity(hdi.lower) - d.logValueDensity(hdi.upper))).toBeLessThan(1e-9);
@@ -175,7 +181,15 @@ describe('rateInterval', () => {
 
 describe('posteriorMean, probLiftAbove, decide', () => {
   it('posteriorMean is (α + x)/(α + β + n)', () => {
-    expect(posteriorMean(counts([[3, 10], [0, 1]]), { alpha: 2, beta: 5 })).toEqual([5 / 17, 2 / 8]);
+    expect(
+      posteriorMean(
+        counts([
+          [3, 10],
+          [0, 1],
+        ]),
+        { alpha: 2, beta: 5 },
+      ),
+    ).toEqual([5 / 17, 2 / 8]);
   });
 
   it('probLiftAbove(0) equals probAboveControl, and a lower bar gives a higher probability', () => {
@@ -194,15 +208,35 @@ describe('posteriorMean, probLiftAbove, decide', () => {
   });
 
   it('decide: chooses the clear winner, asks for more data on a close call (default max loss 1% of the control mean)', () => {
-    const clear = decide(counts([[300, 10000], [420, 10000]]), undefined, UNIFORM_PRIOR);
+    const clear = decide(
+      counts([
+        [300, 10000],
+        [420, 10000],
+      ]),
+      undefined,
+      UNIFORM_PRIOR,
+    );
     expect(clear.choose).toBe(true);
     expect(clear.index).toBe(1);
     expect(clear.maxLoss).toBeCloseTo(0.01 * (301 / 10002), 15);
-    const close = decide(counts([[300, 10000], [305, 10000]]), undefined, UNIFORM_PRIOR);
+    const close = decide(
+      counts([
+        [300, 10000],
+        [305, 10000],
+      ]),
+      undefined,
+      UNIFORM_PRIOR,
+    );
     expect(close.choose).toBe(false);
     expect(close.index).toBe(1);
     expect(close.loss).toBeGreaterThan(close.maxLoss);
-    const losses = expectedLoss(counts([[300, 10000], [305, 10000]]), UNIFORM_PRIOR);
+    const losses = expectedLoss(
+      counts([
+        [300, 10000],
+        [305, 10000],
+      ]),
+      UNIFORM_PRIOR,
+    );
     expect(close.loss).toBe(losses[1]);
   });
 });
@@ -224,26 +258,89 @@ describe('density tables', () => {
   });
 
   it('liftDensityTable of one challenger holds 98% of the lift distribution (trapezoid rule; 1%–99% quantiles)', () => {
-    const table = liftDensityTable(counts([[50, 1000], [65, 1000]]), 1000, UNIFORM_PRIOR);
+    const table = liftDensityTable(
+      counts([
+        [50, 1000],
+        [65, 1000],
+      ]),
+      1000,
+      UNIFORM_PRIOR,
+    );
     const g = table.grid;
     const f = table.densities[0] as number[];
     let mass = 0;
-    for (let i = 1; i < g.length; i++) mass += (((g[i] as number) - (g[i - 1] as number)) * ((f[i] as number) + (f[i - 1] as number))) / 2;
+    for (let i = 1; i < g.length; i++)
+      mass += (((g[i] as number) - (g[i - 1] as number)) * ((f[i] as number) + (f[i - 1] as number))) / 2;
     expect(Math.abs(mass - 0.98)).toBeLessThan(2e-5);
   });
 });
 
 describe('input checks', () => {
   const cases: [string, () => unknown, string][] = [
-    ['a fractional count', () => probHighest(counts([[1.5, 10], [2, 10]])), 'variant 1: conversions must be a whole number of at least 0, not 1.5'],
-    ['conversions above visitors', () => probHighest(counts([[11, 10], [2, 10]])), 'variant 1: conversions (11) cannot exceed visitors (10)'],
-    ['no visitors', () => posteriorMean(counts([[0, 0]])), 'variant 1: visitors must be a whole number of at least 1, not 0'],
-    ['one variant in a comparison', () => probAboveControl(counts([[1, 10]])), 'a comparison needs between 2 and 50 variants, not 1'],
-    ['51 variants', () => probHighest(counts(Array.from({ length: 51 }, () => [1, 10]))), 'a comparison needs between 2 and 50 variants, not 51'],
-    ['a level of 1', () => rateInterval(counts([[1, 10]]), 1), 'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)'],
-    ['a prior of 0', () => posteriorMean(counts([[1, 10]]), { alpha: 0, beta: 1 }), "the prior's alpha must be a number greater than 0, not 0"],
-    ['a lift of −1', () => probLiftAbove(counts([[1, 10], [2, 10]]), -1), 'the minimum lift must be a number greater than -1, not -1'],
-    ['1 point', () => posteriorDensityTable(counts([[1, 10]]), 1), 'points must be a whole number from 2 to 1000, not 1'],
+    [
+      'a fractional count',
+      () =>
+        probHighest(
+          counts([
+            [1.5, 10],
+            [2, 10],
+          ]),
+        ),
+      'variant 1: conversions must be a whole number of at least 0, not 1.5',
+    ],
+    [
+      'conversions above visitors',
+      () =>
+        probHighest(
+          counts([
+            [11, 10],
+            [2, 10],
+          ]),
+        ),
+      'variant 1: conversions (11) cannot exceed visitors (10)',
+    ],
+    [
+      'no visitors',
+      () => posteriorMean(counts([[0, 0]])),
+      'variant 1: visitors must be a whole number of at least 1, not 0',
+    ],
+    [
+      'one variant in a comparison',
+      () => probAboveControl(counts([[1, 10]])),
+      'a comparison needs between 2 and 50 variants, not 1',
+    ],
+    [
+      '51 variants',
+      () => probHighest(counts(Array.from({ length: 51 }, () => [1, 10]))),
+      'a comparison needs between 2 and 50 variants, not 51',
+    ],
+    [
+      'a level of 1',
+      () => rateInterval(counts([[1, 10]]), 1),
+      'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)',
+    ],
+    [
+      'a prior of 0',
+      () => posteriorMean(counts([[1, 10]]), { alpha: 0, beta: 1 }),
+      "the prior's alpha must be a number greater than 0, not 0",
+    ],
+    [
+      'a lift of −1',
+      () =>
+        probLiftAbove(
+          counts([
+            [1, 10],
+            [2, 10],
+          ]),
+          -1,
+        ),
+      'the minimum lift must be a number greater than -1, not -1',
+    ],
+    [
+      '1 point',
+      () => posteriorDensityTable(counts([[1, 10]]), 1),
+      'points must be a whole number from 2 to 1000, not 1',
+    ],
   ];
   for (const [what, call, message] of cases) {
     it(`rejects ${what}`, () => {

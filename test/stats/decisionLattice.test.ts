@@ -1,4 +1,10 @@
-import { binomialWindow, DecisionCursor, lookPower, probAboveOnLattice, upperTails } from '../../functions/stats/decisionLattice';
+import {
+  binomialWindow,
+  DecisionCursor,
+  lookPower,
+  probAboveOnLattice,
+  upperTails,
+} from '../../functions/stats/decisionLattice';
 import { thrownStatsError } from '../helpers/assertions';
 import betaComparison from '../reference/conversion/beta_comparison.json';
 import planningPower from '../reference/planning/planning_power.json';
@@ -7,9 +13,12 @@ import planningPower from '../reference/planning/planning_power.json';
  * The mpmath cases (40 digits, test/reference/conversion/beta_comparison.py) whose two posteriors come from the same
  * number of visitors: shapes (α + x, β + n − x) with a shared prior. Returns n, x_A, x_B and the prior.
  */
-function sameVisitors(c: { aX: number; bX: number; aY: number; bY: number }):
-  | { n: number; xA: number; xB: number; alpha: number; beta: number }
-  | undefined {
+function sameVisitors(c: {
+  aX: number;
+  bX: number;
+  aY: number;
+  bY: number;
+}): { n: number; xA: number; xB: number; alpha: number; beta: number } | undefined {
   if (c.aX + c.bX !== c.aY + c.bY) return undefined;
   const frac = (v: number): number => v - Math.floor(v);
   const alpha = frac(c.aX) === 0 ? 1 : frac(c.aX);
@@ -75,7 +84,13 @@ describe('binomialWindow', () => {
   });
 
   it('sums to 1 within 1e-13 from one visitor to a billion, and its tails run from 1 to 0', () => {
-    for (const [n, p] of [[1, 0.3], [50, 0.01], [1e4, 0.5], [1e9, 0.05], [1e10, 1e-9]] as const) {
+    for (const [n, p] of [
+      [1, 0.3],
+      [50, 0.01],
+      [1e4, 0.5],
+      [1e9, 0.05],
+      [1e10, 1e-9],
+    ] as const) {
       const w = binomialWindow(n, p);
       const tails = upperTails(w);
       expect(Math.abs((tails[0] as number) - 1)).toBeLessThan(1e-13);

@@ -62,9 +62,24 @@ test('meanDecide applies the rule to meanExpectedLoss; the default needs a contr
   const d = meanDecide(v, undefined);
   expect(d).toEqual({ choose: true, index: 1, loss: meanExpectedLoss(v)[1], maxLoss: 0.48 });
   expectStatsErrorExact(
-    () => meanDecide([{ count: 20, mean: 0, sd: 1 }, { count: 20, mean: 0.5, sd: 1 }], undefined),
+    () =>
+      meanDecide(
+        [
+          { count: 20, mean: 0, sd: 1 },
+          { count: 20, mean: 0.5, sd: 1 },
+        ],
+        undefined,
+      ),
     'not_available',
     "max_loss: the default, 1% of the control's mean, is 0 because that mean is 0; give max_loss in the metric's units",
   );
-  expect(meanDecide([{ count: 20, mean: 0, sd: 1 }, { count: 20, mean: 0.5, sd: 1 }], 0.05).index).toBe(1);
+  expect(
+    meanDecide(
+      [
+        { count: 20, mean: 0, sd: 1 },
+        { count: 20, mean: 0.5, sd: 1 },
+      ],
+      0.05,
+    ).index,
+  ).toBe(1);
 });

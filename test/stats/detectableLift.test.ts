@@ -50,13 +50,48 @@ describe('SMALLEST_DETECTABLE_LIFT against DECISION_POWER itself', () => {
 describe('SMALLEST_DETECTABLE_LIFT input checks', () => {
   it.each([
     [0, 1000, 0.95, 0.8, 'invalid_argument', 'the baseline rate must be between 0 and 1 (exclusive), got 0'],
-    [0.1, 0, 0.95, 0.8, 'invalid_argument', 'the visitors per variant must be a whole number from 1 to 1000000000, got 0'],
-    [0.1, 2e9, 0.95, 0.8, 'invalid_argument', 'the visitors per variant must be a whole number from 1 to 1000000000, got 2000000000'],
-    [0.1, 10.5, 0.95, 0.8, 'invalid_argument', 'the visitors per variant must be a whole number from 1 to 1000000000, got 10.5'],
+    [
+      0.1,
+      0,
+      0.95,
+      0.8,
+      'invalid_argument',
+      'the visitors per variant must be a whole number from 1 to 1000000000, got 0',
+    ],
+    [
+      0.1,
+      2e9,
+      0.95,
+      0.8,
+      'invalid_argument',
+      'the visitors per variant must be a whole number from 1 to 1000000000, got 2000000000',
+    ],
+    [
+      0.1,
+      10.5,
+      0.95,
+      0.8,
+      'invalid_argument',
+      'the visitors per variant must be a whole number from 1 to 1000000000, got 10.5',
+    ],
     [0.1, 1000, 0.5, 0.8, 'invalid_argument', 'the threshold must be above 0.5 and at most 0.999999, got 0.5'],
     [0.1, 1000, 0.95, 1, 'invalid_argument', 'the power must be between 0 and 1 (exclusive), got 1'],
-    [0.1, 1000, 0.95, 0.04, 'invalid_argument', 'the power (0.04) must be above the false-alarm rate of this plan (0.04949, the power at lift 0)'], // decisionPower(0.1, 0, 1000, 0.95), scipy in planning_power.json
-    [0.9, 10, 0.95, 0.99, 'not_available', 'no lift reaches a power of 0.99 with 10 visitors per variant at a baseline rate of 0.9 (not even a challenger converting every visitor)'],
+    [
+      0.1,
+      1000,
+      0.95,
+      0.04,
+      'invalid_argument',
+      'the power (0.04) must be above the false-alarm rate of this plan (0.04949, the power at lift 0)',
+    ], // decisionPower(0.1, 0, 1000, 0.95), scipy in planning_power.json
+    [
+      0.9,
+      10,
+      0.95,
+      0.99,
+      'not_available',
+      'no lift reaches a power of 0.99 with 10 visitors per variant at a baseline rate of 0.9 (not even a challenger converting every visitor)',
+    ],
   ] as const)('baseline %p, visitors %p, threshold %p, power %p', (p, n, t, power, code, message) => {
     const error = thrownStatsError(() => smallestDetectableLift(p, n, t, power));
     expect(error.code).toBe(code);
@@ -66,6 +101,8 @@ describe('SMALLEST_DETECTABLE_LIFT input checks', () => {
   it('refuses a prior outside [0.001, 1e7]', () => {
     const error = thrownStatsError(() => smallestDetectableLift(0.1, 1000, 0.95, 0.8, { alpha: 0.0001, beta: 1 }));
     expect(error.code).toBe('invalid_argument');
-    expect(error.message).toBe('prior_alpha and prior_beta must each be between 0.001 and 10000000 for planning, got 0.0001 and 1');
+    expect(error.message).toBe(
+      'prior_alpha and prior_beta must each be between 0.001 and 10000000 for planning, got 0.0001 and 1',
+    );
   });
 });

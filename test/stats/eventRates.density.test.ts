@@ -26,7 +26,8 @@ describe('gammaWorkingDensity', () => {
       const tolerance = 1e-13 * Math.max(1, Math.abs(r.mpmath)) + 4e-16 * Math.sqrt(r.shape) * 40;
       expect(Math.abs(d.logDensity(r.z) - r.mpmath)).toBeLessThanOrEqual(tolerance);
       // Source: scipy.stats.gamma.logpdf (Boost), only for shapes where its difference keeps digits.
-      if (r.scipy !== null) expect(Math.abs(d.logDensity(r.z) - r.scipy)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(r.scipy)));
+      if (r.scipy !== null)
+        expect(Math.abs(d.logDensity(r.z) - r.scipy)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(r.scipy)));
     },
   );
 

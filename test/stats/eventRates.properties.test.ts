@@ -108,9 +108,15 @@ describe('eventRates identities (fast-check)', () => {
         const [closedA = NaN, closedB = NaN] = eventsProbHighest([a, b], p);
         expect(Math.abs(quadA - closedA) + Math.abs(quadB - closedB)).toBeLessThanOrEqual(2e-10);
         const [lift] = eventsLiftInterval([a, b], 0.9, p);
-        expect(Math.abs(ratioQuantile(tb, ta, 0.05) - (lift?.lower ?? NaN))).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(lift?.lower ?? NaN)));
-        expect(Math.abs(ratioQuantile(tb, ta, 0.5) - (lift?.median ?? NaN))).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(lift?.median ?? NaN)));
-        expect(Math.abs(ratioQuantile(tb, ta, 0.95) - (lift?.upper ?? NaN))).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(lift?.upper ?? NaN)));
+        expect(Math.abs(ratioQuantile(tb, ta, 0.05) - (lift?.lower ?? NaN))).toBeLessThanOrEqual(
+          1e-9 * Math.max(1, Math.abs(lift?.lower ?? NaN)),
+        );
+        expect(Math.abs(ratioQuantile(tb, ta, 0.5) - (lift?.median ?? NaN))).toBeLessThanOrEqual(
+          1e-9 * Math.max(1, Math.abs(lift?.median ?? NaN)),
+        );
+        expect(Math.abs(ratioQuantile(tb, ta, 0.95) - (lift?.upper ?? NaN))).toBeLessThanOrEqual(
+          1e-9 * Math.max(1, Math.abs(lift?.upper ?? NaN)),
+        );
       }),
       settings,
     );

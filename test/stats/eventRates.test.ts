@@ -104,7 +104,9 @@ describe.each(cases.map((c) => [c.name, c]))('eventRates against scipy/mpmath: %
         expect(Math.abs((g?.upper ?? NaN) - upper)).toBeLessThanOrEqual(1e-9);
         // And the F-distribution closed form through scipy.special.betaincinv, to 1e-12.
         const closed = c.liftIntervalsClosedForm[level]?.[i] ?? [];
-        expect(Math.abs((g?.median ?? NaN) - (closed[1] ?? NaN))).toBeLessThanOrEqual(1e-12 * Math.max(1, Math.abs(median)));
+        expect(Math.abs((g?.median ?? NaN) - (closed[1] ?? NaN))).toBeLessThanOrEqual(
+          1e-12 * Math.max(1, Math.abs(median)),
+        );
       });
     }
   });
@@ -134,7 +136,9 @@ describe('eventRates against 50-digit mpmath', () => {
     // mpmath: E[(λ_B − λ_A)+] = m_B I_z(a_A, a_B + 1) − m_A I_z(a_A + 1, a_B) at 50 digits (no cancellation there).
     const loss = eventsExpectedLoss(c.variants, c.prior);
     const scale = Math.max(...means(c));
-    check.expectedLoss.forEach((want, i) => expect(Math.abs((loss[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * scale));
+    check.expectedLoss.forEach((want, i) =>
+      expect(Math.abs((loss[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * scale),
+    );
   });
 });
 
@@ -172,7 +176,11 @@ describe('eventRates: bad input gets a clear error', () => {
     [[ok[0], { events: NaN, exposure: 1 }], 'events, item 2: NaN is not a number'],
     [[ok[0]], 'at least 2 variants are needed (the first is the control), got 1'],
   ])('%j', (variants, message) => {
-    expectStatsErrorExact(() => eventsProbAboveControl(variants as EventCounts[], FLAT_GAMMA_PRIOR), 'invalid_argument', message);
+    expectStatsErrorExact(
+      () => eventsProbAboveControl(variants as EventCounts[], FLAT_GAMMA_PRIOR),
+      'invalid_argument',
+      message,
+    );
   });
 
   test('more than 50 variants', () => {

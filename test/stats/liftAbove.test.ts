@@ -28,23 +28,28 @@ interface EventCase {
   aboveClosedForm: number[][];
 }
 
-describe.each((reference.means as MeanCase[]).map((c) => [c.name, c]))('meanProbLiftAbove against scipy quad: %s', (_n, kase) => {
-  const c = kase as MeanCase;
-  if (c.controlBelowZero > 1e-6) {
-    test("the control's mean could plausibly be ≤ 0: not available, as MEAN_LIFT_INTERVAL", () => {
-      const e = thrownStatsError(() => meanProbLiftAbove(c.variants, 0));
-      expect(e.code).toBe('not_available');
-      expect(e.message).toMatch(/^the control's mean could plausibly be zero or negative \(0\.2%\), so a relative lift has no meaning/);
+describe.each((reference.means as MeanCase[]).map((c) => [c.name, c]))(
+  'meanProbLiftAbove against scipy quad: %s',
+  (_n, kase) => {
+    const c = kase as MeanCase;
+    if (c.controlBelowZero > 1e-6) {
+      test("the control's mean could plausibly be ≤ 0: not available, as MEAN_LIFT_INTERVAL", () => {
+        const e = thrownStatsError(() => meanProbLiftAbove(c.variants, 0));
+        expect(e.code).toBe('not_available');
+        expect(e.message).toMatch(
+          /^the control's mean could plausibly be zero or negative \(0\.2%\), so a relative lift has no meaning/,
+        );
+      });
+      return;
+    }
+    test('P(lift > m) matches the ratio distribution by quadrature (1e-9, tails 1e-6 relative)', () => {
+      c.minLifts.forEach((m, row) => {
+        const got = meanProbLiftAbove(c.variants, m);
+        (c.above[row] as number[]).forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      });
     });
-    return;
-  }
-  test('P(lift > m) matches the ratio distribution by quadrature (1e-9, tails 1e-6 relative)', () => {
-    c.minLifts.forEach((m, row) => {
-      const got = meanProbLiftAbove(c.variants, m);
-      (c.above[row] as number[]).forEach((want, i) => expectProbability(got[i] ?? NaN, want));
-    });
-  });
-});
+  },
+);
 
 test('meanProbLiftAbove at min_lift 0 is P(mean > control) when the control is positive for sure', () => {
   const v: MeanSummary[] = [
@@ -52,7 +57,9 @@ test('meanProbLiftAbove at min_lift 0 is P(mean > control) when the control is p
     { count: 100, mean: 52, sd: 22 },
   ];
   // The control's posterior puts 2e-43 below 0 (reference), so the two probabilities agree to rounding.
-  expect(Math.abs((meanProbLiftAbove(v, 0)[0] ?? NaN) - (meanProbAboveControl(v)[0] ?? NaN))).toBeLessThanOrEqual(1e-12);
+  expect(Math.abs((meanProbLiftAbove(v, 0)[0] ?? NaN) - (meanProbAboveControl(v)[0] ?? NaN))).toBeLessThanOrEqual(
+    1e-12,
+  );
 });
 
 test('meanProbLiftAbove with sd = 0 against the exact forms (scipy.special.stdtr)', () => {
@@ -78,7 +85,14 @@ test('meanProbLiftAbove with sd = 0 against the exact forms (scipy.special.stdtr
 
 test('meanProbLiftAbove rejects a min_lift of -1 or below, naming the argument', () => {
   expectStatsErrorExact(
-    () => meanProbLiftAbove([{ count: 10, mean: 4, sd: 1 }, { count: 10, mean: 5, sd: 1 }], -1),
+    () =>
+      meanProbLiftAbove(
+        [
+          { count: 10, mean: 4, sd: 1 },
+          { count: 10, mean: 5, sd: 1 },
+        ],
+        -1,
+      ),
     'invalid_argument',
     'min_lift: -1 is not allowed; the minimum lift is a number greater than -1 (-0.02 asks "no worse than 2% below")',
   );
@@ -104,12 +118,21 @@ test('eventsProbLiftAbove at min_lift 0 equals eventsProbAboveControl (the same 
     { events: 120, exposure: 1000 },
     { events: 145, exposure: 1010 },
   ];
-  expect(Math.abs((eventsProbLiftAbove(v, 0)[0] ?? NaN) - (eventsProbAboveControl(v)[0] ?? NaN))).toBeLessThanOrEqual(1e-15);
+  expect(Math.abs((eventsProbLiftAbove(v, 0)[0] ?? NaN) - (eventsProbAboveControl(v)[0] ?? NaN))).toBeLessThanOrEqual(
+    1e-15,
+  );
 });
 
 test('eventsProbLiftAbove rejects a min_lift that is not a number above -1', () => {
   expectStatsErrorExact(
-    () => eventsProbLiftAbove([{ events: 1, exposure: 2 }, { events: 2, exposure: 2 }], Number.NaN),
+    () =>
+      eventsProbLiftAbove(
+        [
+          { events: 1, exposure: 2 },
+          { events: 2, exposure: 2 },
+        ],
+        Number.NaN,
+      ),
     'invalid_argument',
     'min_lift: NaN is not allowed; the minimum lift is a number greater than -1 (-0.05 asks "no worse than 5% below")',
   );

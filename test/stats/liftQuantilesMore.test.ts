@@ -60,10 +60,13 @@ describe('cdf(quantile(p)) = p to 1e-12 relative (ratioCdf, differenceCdf at the
   // At a billion visitors the nodes' working values are stored to ~4e-16 (3e-12 standard deviations), so
   // a tail there carries ~1e-12 of rounding noise and the solver stops at that noise (README, "Method and
   // accuracy"): 3e-12 there, 1e-12 elsewhere.
-  it.each(cases)('%s: the 97.5% quantile’s upper tail P(V > q) relative to 0.025 (the tail the solver uses)', (_why, c) => {
-    const { x, y, lift, diff } = quantiles(c);
-    const bar = Math.max(...c.control, ...c.challenger) >= 1e8 ? 3e-12 : 1e-12;
-    expect(relativeError(ratioSf(y, x, lift[2] as number), 0.025)).toBeLessThan(bar);
-    expect(relativeError(differenceSf(y, x, diff[2] as number), 0.025)).toBeLessThan(bar);
-  });
+  it.each(cases)(
+    '%s: the 97.5% quantile’s upper tail P(V > q) relative to 0.025 (the tail the solver uses)',
+    (_why, c) => {
+      const { x, y, lift, diff } = quantiles(c);
+      const bar = Math.max(...c.control, ...c.challenger) >= 1e8 ? 3e-12 : 1e-12;
+      expect(relativeError(ratioSf(y, x, lift[2] as number), 0.025)).toBeLessThan(bar);
+      expect(relativeError(differenceSf(y, x, diff[2] as number), 0.025)).toBeLessThan(bar);
+    },
+  );
 });

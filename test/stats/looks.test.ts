@@ -30,7 +30,7 @@ const label = (c: ExactCase): string =>
   `rate ${c.rate}, lift ${c.lift}, looks ${c.looks.length} to ${c.looks.at(-1)}, threshold ${c.threshold}, ` +
   `${c.sides} side${c.sides === 2 ? 's' : ''}${c.prior ? `, prior Beta(${c.prior.join(', ')})` : ''}`;
 
-describe('looks against the exact enumeration over both variants\' outcomes (scipy, looks_reference.py exact)', () => {
+describe("looks against the exact enumeration over both variants' outcomes (scipy, looks_reference.py exact)", () => {
   // scipy: a dynamic programme over (x_A, x_B) with scipy.stats.binom pmfs, the read-out's decision at every
   // look from Evan Miller's closed form (or scipy quad for a fractional prior), each boundary by bisection.
   it.each(exact.map((c) => [label(c), c] as const))('%s', (_label, c) => {
@@ -50,11 +50,13 @@ describe('looks against the exact enumeration over both variants\' outcomes (sci
     }
   });
 
-  it('uses the exact method for the issue\'s smallest tests (2–10 looks of 50–500 visitors at 1–5%)', () => {
+  it("uses the exact method for the issue's smallest tests (2–10 looks of 50–500 visitors at 1–5%)", () => {
     const small = exact.filter((c) => c.rate <= 0.05 && c.looks.length <= 10 && c.looks.at(-1)! <= 1000);
     expect(small.length).toBeGreaterThan(10);
     for (const c of small) {
-      expect(crossingWithLooks(c.rate, c.rate * (1 + c.lift), c.looks, c.threshold, c.sides as 1 | 2, priorOf(c)).method).toBe('exact');
+      expect(
+        crossingWithLooks(c.rate, c.rate * (1 + c.lift), c.looks, c.threshold, c.sides as 1 | 2, priorOf(c)).method,
+      ).toBe('exact');
     }
   });
 
@@ -63,7 +65,15 @@ describe('looks against the exact enumeration over both variants\' outcomes (sci
     const large = exact.filter((c) => c.looks.at(-1)! * c.rate * (1 - c.rate) >= 80);
     expect(large.length).toBeGreaterThan(15);
     for (const c of large) {
-      const normal = crossingWithLooks(c.rate, c.rate * (1 + c.lift), c.looks, c.threshold, c.sides as 1 | 2, priorOf(c), 'normal');
+      const normal = crossingWithLooks(
+        c.rate,
+        c.rate * (1 + c.lift),
+        c.looks,
+        c.threshold,
+        c.sides as 1 | 2,
+        priorOf(c),
+        'normal',
+      );
       expect(Math.abs(normal.probability - c.probability)).toBeLessThan(1e-3);
     }
   });
@@ -93,7 +103,7 @@ describe('looks in the normal limit (large looks, equally spaced)', () => {
   );
 
   it.each(values.normal.pocock.map((c) => [c.looks, c] as const))(
-    '%p looks: THRESHOLD_FOR_LOOKS(…, 0.05, 2) is Φ(Pocock\'s z) (Pocock 1977; scipy root of the multivariate normal)',
+    "%p looks: THRESHOLD_FOR_LOOKS(…, 0.05, 2) is Φ(Pocock's z) (Pocock 1977; scipy root of the multivariate normal)",
     (K, c) => {
       const t = thresholdForLooks(0.05, big(K), 0.05, 2);
       expect(Math.abs(normalQuantile(t) - c.z)).toBeLessThan(2e-4 + c.spread);
@@ -147,16 +157,19 @@ describe('looks: properties', () => {
     [0.3, spaced(3, 20), 0.05, 2],
     [0.02, spaced(30, 300), 0.05, 1],
     [0.1, spaced(20, 50000), 0.01, 2],
-  ] as const)('THRESHOLD_FOR_LOOKS keeps FALSE_ALARM_WITH_LOOKS at or below the target (rate %p, %p looks)', (p, looks, alpha, sides) => {
-    const d = thresholdForLooksDetails(p, looks, alpha, sides);
-    expect(falseAlarmWithLooks(p, looks, d.threshold, sides).probability).toBeLessThanOrEqual(alpha);
-    expect(falseAlarmWithLooks(p, looks, d.below, sides).probability).toBeGreaterThan(alpha);
-    expect(d.below).toBeLessThan(d.threshold);
-    // The smallest such threshold: within 1e-4 on the probit scale, or a step of the exact rate apart.
-    const gap = normalQuantile(d.threshold) - normalQuantile(d.below);
-    if (d.method === 'normal') expect(gap).toBeLessThanOrEqual(1e-4 + 1e-12);
-    expect(thresholdForLooks(p, looks, alpha, sides)).toBe(d.threshold);
-  });
+  ] as const)(
+    'THRESHOLD_FOR_LOOKS keeps FALSE_ALARM_WITH_LOOKS at or below the target (rate %p, %p looks)',
+    (p, looks, alpha, sides) => {
+      const d = thresholdForLooksDetails(p, looks, alpha, sides);
+      expect(falseAlarmWithLooks(p, looks, d.threshold, sides).probability).toBeLessThanOrEqual(alpha);
+      expect(falseAlarmWithLooks(p, looks, d.below, sides).probability).toBeGreaterThan(alpha);
+      expect(d.below).toBeLessThan(d.threshold);
+      // The smallest such threshold: within 1e-4 on the probit scale, or a step of the exact rate apart.
+      const gap = normalQuantile(d.threshold) - normalQuantile(d.below);
+      if (d.method === 'normal') expect(gap).toBeLessThanOrEqual(1e-4 + 1e-12);
+      expect(thresholdForLooks(p, looks, alpha, sides)).toBe(d.threshold);
+    },
+  );
 
   it('with one look the threshold is the one DECISION_POWER needs for the same false alarm', () => {
     const d = thresholdForLooksDetails(0.1, [5000], 0.05, 1);
@@ -170,12 +183,18 @@ describe('looks input checks', () => {
     [() => falseAlarmWithLooks(0, [100]), 'the baseline rate must be between 0 and 1 (exclusive), got 0'],
     [() => falseAlarmWithLooks(0.1, []), 'there must be 1 to 100 looks, got 0'],
     [() => falseAlarmWithLooks(0.1, spaced(101, 10)), 'there must be 1 to 100 looks, got 101'],
-    [() => falseAlarmWithLooks(0.1, [100, 100]), 'look 2: 100 visitors is not more than the 100 of look 1 (the counts are cumulative)'],
+    [
+      () => falseAlarmWithLooks(0.1, [100, 100]),
+      'look 2: 100 visitors is not more than the 100 of look 1 (the counts are cumulative)',
+    ],
     [() => falseAlarmWithLooks(0.1, [100, 150.5]), 'look 2: 150.5 is not a whole number of visitors'],
     [() => falseAlarmWithLooks(0.1, [0, 10]), 'look 1: 0 visitors is outside 1 to 1000000000'],
     [() => falseAlarmWithLooks(0.1, [100], 0.5), 'the threshold must be above 0.5 and at most 0.999999, got 0.5'],
     [() => falseAlarmWithLooks(0.1, [100], 0.95, 3 as 1), 'sides must be 1 or 2, got 3'],
-    [() => falseAlarmWithLooks(0.1, [100], 0.95, 1, { alpha: 0, beta: 1 }), 'prior_alpha and prior_beta must each be between 0.001 and 10000000 for planning, got 0 and 1'],
+    [
+      () => falseAlarmWithLooks(0.1, [100], 0.95, 1, { alpha: 0, beta: 1 }),
+      'prior_alpha and prior_beta must each be between 0.001 and 10000000 for planning, got 0 and 1',
+    ],
     [() => powerWithLooks(0.6, 1, [100]), 'baseline rate × (1 + lift) must be between 0 and 1, got 1.2'],
     [() => powerWithLooks(0.1, -1, [100]), 'the lift must be a number greater than -1, got -1'],
     [() => thresholdForLooks(0.1, [100], 0.7), 'the false-alarm rate must be between 0.000001 and 0.5, got 0.7'],
@@ -188,7 +207,9 @@ describe('looks input checks', () => {
   it('refuses looks too large for the work budget, naming the argument', () => {
     const error = thrownStatsError(() => falseAlarmWithLooks(0.5, spaced(100, 1e7)));
     expect(error.code).toBe('invalid_argument');
-    expect(error.message).toMatch(/^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take \(about \d+(\.\d+)? million steps of work; at most 6 million\)/);
+    expect(error.message).toMatch(
+      /^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take \(about \d+(\.\d+)? million steps of work; at most 6 million\)/,
+    );
   });
 
   it('says when no threshold keeps the false alarm that low', () => {

@@ -85,7 +85,10 @@ describe('conversion.expectedLoss of 3–6 variants against mpmath (loss_many_re
  */
 describe('expectedLosses: shared grid (coordinate logit) against the generic path (fast-check, seeded)', () => {
   const variant = fc
-    .tuple(fc.double({ min: 0, max: 9, noNaN: true }), fc.oneof(fc.constant(0), fc.constant(1), fc.double({ min: 0, max: 1, noNaN: true })))
+    .tuple(
+      fc.double({ min: 0, max: 9, noNaN: true }),
+      fc.oneof(fc.constant(0), fc.constant(1), fc.double({ min: 0, max: 1, noNaN: true })),
+    )
     .map(([logVisitors, rate]) => {
       const visitors = Math.max(1, Math.round(10 ** logVisitors));
       return { conversions: Math.round(rate * visitors), visitors };

@@ -19,14 +19,17 @@ describe('THRESHOLD_FOR_VARIANTS against Dunnett (1955), one-sided, infinite deg
 describe('THRESHOLD_FOR_VARIANTS against scipy (test/reference/looks/looks_reference.py, section dunnett)', () => {
   // scipy.integrate.quad of ∫ φ(y)[1 − Φ(y + c√2)^m] dy solved by brentq (c to 1e-12), and for up to 8
   // challengers scipy's multivariate normal with correlation ½ (quasi-Monte Carlo, 3 seeds).
-  it.each(values.dunnett.map((c) => [c.challengers, c.alpha, c] as const))('%p challengers, false alarm %p', (m, alpha, c) => {
-    const threshold = thresholdForVariants(m + 1, alpha);
-    expect(Math.abs(normalQuantile(threshold) - c.c)).toBeLessThan(1e-9);
-    expect(Math.abs(threshold - c.threshold)).toBeLessThan(1e-12);
-    if ('cMvn' in c && c.cMvn !== undefined) {
-      expect(Math.abs(normalQuantile(threshold) - (c.cMvn as number))).toBeLessThan(2e-4 + (c.mvnSpread as number));
-    }
-  });
+  it.each(values.dunnett.map((c) => [c.challengers, c.alpha, c] as const))(
+    '%p challengers, false alarm %p',
+    (m, alpha, c) => {
+      const threshold = thresholdForVariants(m + 1, alpha);
+      expect(Math.abs(normalQuantile(threshold) - c.c)).toBeLessThan(1e-9);
+      expect(Math.abs(threshold - c.threshold)).toBeLessThan(1e-12);
+      if ('cMvn' in c && c.cMvn !== undefined) {
+        expect(Math.abs(normalQuantile(threshold) - (c.cMvn as number))).toBeLessThan(2e-4 + (c.mvnSpread as number));
+      }
+    },
+  );
 });
 
 describe('THRESHOLD_FOR_VARIANTS: closed forms and properties', () => {

@@ -153,7 +153,9 @@ describe('normalMeans against 50-digit mpmath', () => {
     // scipy's quadrature of this slowly decaying integrand (tiny_3 above) is good only to ~3e-8, so the
     // heavy-tailed losses are held to mpmath at 30 digits instead: 1e-11 relative.
     const got = meanExpectedLoss(heavyTails.variants);
-    heavyTails.expectedLoss.forEach((want, i) => expect(Math.abs((got[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-11 * want));
+    heavyTails.expectedLoss.forEach((want, i) =>
+      expect(Math.abs((got[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-11 * want),
+    );
   });
 
   test('t quantiles at 1 and 2 degrees of freedom (closed forms in mpmath)', () => {
@@ -240,7 +242,9 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
       kase.probHighest.forEach((want, i) => expectProbability(highest[i] ?? NaN, want));
       expect(Math.abs(highest.reduce((a, b) => a + b, 0) - 1)).toBeLessThanOrEqual(1e-12);
       const losses = meanExpectedLoss(kase.variants);
-      kase.expectedLoss.forEach((want, i) => expect(Math.abs((losses[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * Math.max(1, want)));
+      kase.expectedLoss.forEach((want, i) =>
+        expect(Math.abs((losses[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * Math.max(1, want)),
+      );
     },
   );
 
@@ -262,7 +266,10 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
 describe('normalMeans: bad input gets a clear error', () => {
   const ok: MeanSummary = { count: 10, mean: 2, sd: 1 };
   test.each([
-    [[{ count: 1, mean: 2, sd: 1 }, ok], 'count, item 1: 1 is too few; the Normal model needs at least 2 values per variant'],
+    [
+      [{ count: 1, mean: 2, sd: 1 }, ok],
+      'count, item 1: 1 is too few; the Normal model needs at least 2 values per variant',
+    ],
     [[ok, { count: 10.5, mean: 2, sd: 1 }], 'count, item 2: 10.5 is not a whole number'],
     [[ok, { count: 10, mean: 2, sd: -1 }], 'sd, item 2: -1 is below 0; a standard deviation is 0 or more'],
     [[ok, { count: 10, mean: Infinity, sd: 1 }], 'mean, item 2: Infinity is not a finite number'],

@@ -96,7 +96,14 @@ describe('priorFromHistory, maximum likelihood, against scipy.stats.betabinom an
     expect(relativeError(p.beta, c.beta)).toBeLessThan(1e-8);
     // And it is a maximum: nudging either shape by 1% lowers the likelihood.
     const best = logLikelihood(c.conversions, c.visitors, p.alpha, p.beta);
-    for (const [fa, fb] of [[1.01, 1], [0.99, 1], [1, 1.01], [1, 0.99], [1.01, 1.01], [0.99, 0.99]] as const) {
+    for (const [fa, fb] of [
+      [1.01, 1],
+      [0.99, 1],
+      [1, 1.01],
+      [1, 0.99],
+      [1.01, 1.01],
+      [0.99, 0.99],
+    ] as const) {
       expect(logLikelihood(c.conversions, c.visitors, p.alpha * fa, p.beta * fb)).toBeLessThan(best);
     }
   });
@@ -133,7 +140,9 @@ describe('priorFromHistory, method of moments (Kleinman 1973, weights n_i), agai
   });
 
   it('throws the agreed message when the moment estimate of the extra variance is not positive', () => {
-    const error = thrownStatsError(() => priorFromHistory(reference.flat.conversions, reference.flat.visitors, 'moments'));
+    const error = thrownStatsError(() =>
+      priorFromHistory(reference.flat.conversions, reference.flat.visitors, 'moments'),
+    );
     expect(error.code).toBe('not_available');
     expect(error.message).toMatch(/^the past results vary no more than chance would explain/);
   });

@@ -83,7 +83,12 @@ describe('the quadrature is converged', () => {
       [1, 1e9 + 1],
     ] as const) {
       const coarse = tabulate(betaWorkingDensity(a, b), logit);
-      const fine = tabulate(betaWorkingDensity(a, b), { ...logit, curvatureWidth: 1, slopeWidth: 12, absoluteWidth: 0.75 });
+      const fine = tabulate(betaWorkingDensity(a, b), {
+        ...logit,
+        curvatureWidth: 1,
+        slopeWidth: 12,
+        absoluteWidth: 0.75,
+      });
       expect(fine.panelCount).toBeGreaterThan(coarse.panelCount);
       const tolerance = a + b > 1e8 ? 1e-9 : 1e-12;
       for (const p of [1e-80, 1e-30, 1e-8, 0.01, 0.3, 0.5, 0.8, 0.999]) {
@@ -115,7 +120,9 @@ describe('identities of one tabulated distribution', () => {
           const z = d.workingQuantile(p);
           const tail = (v: number) => (lower ? Math.exp(d.logCdfAt(v)) : Math.exp(d.logSfAt(v)));
           const target = lower ? p : 1 - p;
-          const [below, above] = lower ? [tail(z - 2 * ulp(z)), tail(z + 2 * ulp(z))] : [tail(z + 2 * ulp(z)), tail(z - 2 * ulp(z))];
+          const [below, above] = lower
+            ? [tail(z - 2 * ulp(z)), tail(z + 2 * ulp(z))]
+            : [tail(z + 2 * ulp(z)), tail(z - 2 * ulp(z))];
           return below * (1 - 1e-13) <= target * (1 + 1e-15) && target <= above * (1 + 1e-13);
         },
       ),
@@ -162,7 +169,9 @@ describe('helpers and errors', () => {
     expect(relativeError(log1mExp(-1e-20), Math.log(1e-20))).toBeLessThan(1e-15);
     // ∫_{−1}^{1} e^{12t} dt = (e^12 − e^−12)/12: the trend-weighted rule is exact for exponentials.
     const values = Array.from({ length: 16 }, (_, k) => 12 * (PANEL_NODES[k] as number));
-    expect(relativeError(panelLogIntegral(values, 0, 1), Math.log((Math.exp(12) - Math.exp(-12)) / 12))).toBeLessThan(1e-15);
+    expect(relativeError(panelLogIntegral(values, 0, 1), Math.log((Math.exp(12) - Math.exp(-12)) / 12))).toBeLessThan(
+      1e-15,
+    );
   });
 
   it('rejects a probability outside (0, 1) with a clear message', () => {
@@ -178,4 +187,3 @@ describe('helpers and errors', () => {
     expect(error.message).toBe('the Beta shape a must be a finite number > 0, not 0');
   });
 });
-

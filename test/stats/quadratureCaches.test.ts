@@ -25,7 +25,8 @@ const SHAPES: readonly (readonly [number, number])[] = [
   [20000001, 980000001],
 ];
 
-const table = (a: number, b: number): TabulatedDistribution => tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' });
+const table = (a: number, b: number): TabulatedDistribution =>
+  tabulate(betaWorkingDensity(a, b), { coordinate: 'logit' });
 
 /** Working values across and beyond the window: every edge, every node, panel midpoints, the far tails. */
 function probePoints(d: TabulatedDistribution): number[] {
@@ -52,7 +53,8 @@ describe('TabulatedDistribution.addLogTailsAt (the batched tails of P(highest) a
       d.addLogTailsAt(zs, 0, zs.length, out, upper);
       zs.forEach((z, k) => {
         const single = upper ? d.logSfAt(z) : d.logCdfAt(z);
-        if (single !== out[k]) throw new Error(`z = ${z}, upper ${upper}: logCdfAt/logSfAt ${single}, addLogTailsAt ${out[k]}`);
+        if (single !== out[k])
+          throw new Error(`z = ${z}, upper ${upper}: logCdfAt/logSfAt ${single}, addLogTailsAt ${out[k]}`);
       });
     }
   });

@@ -43,79 +43,86 @@ function expectValue(got: number, want: number, scale = Math.abs(want)): void {
   expect(Math.abs(got - want)).toBeLessThanOrEqual(1e-9 * Math.max(scale, 1e-300));
 }
 
-describe.each(cases.map((c) => [c.name, c]))('revenue per visitor against nested scipy quadrature: %s', (_name, kase) => {
-  const c = kase as Case;
+describe.each(cases.map((c) => [c.name, c]))(
+  'revenue per visitor against nested scipy quadrature: %s',
+  (_name, kase) => {
+    const c = kase as Case;
 
-  test('interval ends (95%) within 1e-9 relative', () => {
-    const got = revenueInterval(c.variants, c.level);
-    c.intervals.forEach(([lower = NaN, upper = NaN], i) => {
-      expectValue(got[i]?.lower ?? NaN, lower);
-      expectValue(got[i]?.upper ?? NaN, upper);
+    test('interval ends (95%) within 1e-9 relative', () => {
+      const got = revenueInterval(c.variants, c.level);
+      c.intervals.forEach(([lower = NaN, upper = NaN], i) => {
+        expectValue(got[i]?.lower ?? NaN, lower);
+        expectValue(got[i]?.upper ?? NaN, upper);
+      });
     });
-  });
 
-  test('P(highest) within 1e-9 (tails 1e-6 relative); the values sum to 1', () => {
-    const got = revenueProbHighest(c.variants);
-    c.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
-    expect(Math.abs(got.reduce((s, x) => s + x, 0) - 1)).toBeLessThanOrEqual(1e-14);
-  });
-
-  test('P(above control) within 1e-9, and the other direction (variants swapped) in its own tail', () => {
-    const got = revenueProbAboveControl(c.variants);
-    c.probAboveControl.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
-    c.probBelowControl.forEach((want, i) => {
-      const swapped = revenueProbAboveControl([c.variants[i + 1] as RevenueTotals, c.variants[0] as RevenueTotals]);
-      expectProbability(swapped[0] ?? NaN, want);
-      expect(Math.abs((swapped[0] ?? NaN) + (got[i] ?? NaN) - 1)).toBeLessThanOrEqual(1e-12);
+    test('P(highest) within 1e-9 (tails 1e-6 relative); the values sum to 1', () => {
+      const got = revenueProbHighest(c.variants);
+      c.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      expect(Math.abs(got.reduce((s, x) => s + x, 0) - 1)).toBeLessThanOrEqual(1e-14);
     });
-  });
 
-  if (c.pGreaterClosedForm !== undefined) {
-    test('P(above control) matches the closed-form inner probability I_x(a_B, a_A) averaged over the rates', () => {
+    test('P(above control) within 1e-9, and the other direction (variants swapped) in its own tail', () => {
       const got = revenueProbAboveControl(c.variants);
-      (c.pGreaterClosedForm as number[]).forEach((want, i) => expectProbability(got[i] ?? NaN, want));
-    });
-  }
-
-  if (c.expectedLoss !== undefined) {
-    test('expected losses within 1e-9 of the scale of revenue per visitor', () => {
-      const got = revenueExpectedLoss(c.variants);
-      const scale = Math.max(...revenueMean(c.variants));
-      (c.expectedLoss as number[]).forEach((want, i) => expectValue(got[i] ?? NaN, want, scale));
-    });
-  } else {
-    test('expected losses are not available (a variant has no finite mean)', () => {
-      const e = thrownStatsError(() => revenueExpectedLoss(c.variants));
-      expect(e.code).toBe('not_available');
-      expect(e.message).toMatch(/^orders, item 1: with [12] orders? .* has no finite mean, so every expected loss is infinite/);
-    });
-  }
-
-  if (c.liftAbove !== undefined && c.liftInterval !== undefined && (c.controlNegative ?? 0) <= 1e-6) {
-    test('P(lift > min_lift) within 1e-9 (tails 1e-6 relative), the control kept over both signs', () => {
-      for (const l of c.liftAbove as { minLift: number; above: number; below: number }[]) {
-        const got = revenueProbLiftAbove(c.variants.slice(0, 2), l.minLift);
-        expectProbability(got[0] ?? NaN, l.above);
-      }
+      c.probAboveControl.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      c.probBelowControl.forEach((want, i) => {
+        const swapped = revenueProbAboveControl([c.variants[i + 1] as RevenueTotals, c.variants[0] as RevenueTotals]);
+        expectProbability(swapped[0] ?? NaN, want);
+        expect(Math.abs((swapped[0] ?? NaN) + (got[i] ?? NaN) - 1)).toBeLessThanOrEqual(1e-12);
+      });
     });
 
-    test('lift interval (lower, median, upper) within 1e-9', () => {
-      const got = revenueLiftInterval(c.variants.slice(0, 2), c.level)[0];
-      const [lower = NaN, median = NaN, upper = NaN] = c.liftInterval as number[];
-      expectValue(got?.lower ?? NaN, lower, Math.max(1, Math.abs(lower)));
-      expectValue(got?.median ?? NaN, median, Math.max(1, Math.abs(median)));
-      expectValue(got?.upper ?? NaN, upper, Math.max(1, Math.abs(upper)));
-    });
-  } else if ((c.controlNegative ?? 0) > 1e-6) {
-    test("the control's order value could plausibly be ≤ 0: the lift is not available, as MEAN_LIFT_INTERVAL", () => {
-      for (const run of [() => revenueLiftInterval(c.variants, 0.95), () => revenueProbLiftAbove(c.variants, 0)]) {
-        const e = thrownStatsError(run);
+    if (c.pGreaterClosedForm !== undefined) {
+      test('P(above control) matches the closed-form inner probability I_x(a_B, a_A) averaged over the rates', () => {
+        const got = revenueProbAboveControl(c.variants);
+        (c.pGreaterClosedForm as number[]).forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      });
+    }
+
+    if (c.expectedLoss !== undefined) {
+      test('expected losses within 1e-9 of the scale of revenue per visitor', () => {
+        const got = revenueExpectedLoss(c.variants);
+        const scale = Math.max(...revenueMean(c.variants));
+        (c.expectedLoss as number[]).forEach((want, i) => expectValue(got[i] ?? NaN, want, scale));
+      });
+    } else {
+      test('expected losses are not available (a variant has no finite mean)', () => {
+        const e = thrownStatsError(() => revenueExpectedLoss(c.variants));
         expect(e.code).toBe('not_available');
-        expect(e.message).toMatch(/^order_sd, item 1: the control's average order value could plausibly be zero or negative \(/);
-      }
-    });
-  }
-});
+        expect(e.message).toMatch(
+          /^orders, item 1: with [12] orders? .* has no finite mean, so every expected loss is infinite/,
+        );
+      });
+    }
+
+    if (c.liftAbove !== undefined && c.liftInterval !== undefined && (c.controlNegative ?? 0) <= 1e-6) {
+      test('P(lift > min_lift) within 1e-9 (tails 1e-6 relative), the control kept over both signs', () => {
+        for (const l of c.liftAbove as { minLift: number; above: number; below: number }[]) {
+          const got = revenueProbLiftAbove(c.variants.slice(0, 2), l.minLift);
+          expectProbability(got[0] ?? NaN, l.above);
+        }
+      });
+
+      test('lift interval (lower, median, upper) within 1e-9', () => {
+        const got = revenueLiftInterval(c.variants.slice(0, 2), c.level)[0];
+        const [lower = NaN, median = NaN, upper = NaN] = c.liftInterval as number[];
+        expectValue(got?.lower ?? NaN, lower, Math.max(1, Math.abs(lower)));
+        expectValue(got?.median ?? NaN, median, Math.max(1, Math.abs(median)));
+        expectValue(got?.upper ?? NaN, upper, Math.max(1, Math.abs(upper)));
+      });
+    } else if ((c.controlNegative ?? 0) > 1e-6) {
+      test("the control's order value could plausibly be ≤ 0: the lift is not available, as MEAN_LIFT_INTERVAL", () => {
+        for (const run of [() => revenueLiftInterval(c.variants, 0.95), () => revenueProbLiftAbove(c.variants, 0)]) {
+          const e = thrownStatsError(run);
+          expect(e.code).toBe('not_available');
+          expect(e.message).toMatch(
+            /^order_sd, item 1: the control's average order value could plausibly be zero or negative \(/,
+          );
+        }
+      });
+    }
+  },
+);
 
 describe('the order value alone: the exponential model in the limit of certain, equal rates', () => {
   const o = reference.orderValueOnly;
@@ -220,22 +227,38 @@ describe('edge cases: what the model says, and clear errors', () => {
       'revenue, item 1: -10 is below 0; total revenue is 0 or more',
     );
     expectStatsErrorExact(
-      () => revenueProbHighest([{ orders: 2, visitors: 120, revenue: 10, orderSd: 3 }, { orders: 3, visitors: 120, revenue: 10 }]),
+      () =>
+        revenueProbHighest([
+          { orders: 2, visitors: 120, revenue: 10, orderSd: 3 },
+          { orders: 3, visitors: 120, revenue: 10 },
+        ]),
       'invalid_argument',
       'order_sd, item 2: missing; give order_sd for every variant or for none',
     );
     expectStatsErrorExact(
-      () => revenueProbHighest([{ orders: 2, visitors: 120, revenue: 10, orderSd: -3 }, { orders: 3, visitors: 120, revenue: 10, orderSd: 1 }]),
+      () =>
+        revenueProbHighest([
+          { orders: 2, visitors: 120, revenue: 10, orderSd: -3 },
+          { orders: 3, visitors: 120, revenue: 10, orderSd: 1 },
+        ]),
       'invalid_argument',
       'order_sd, item 1: -3 is below 0; a standard deviation is 0 or more',
     );
-    expectStatsErrorExact(() => revenueInterval(typical, 1), 'invalid_argument', 'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)');
+    expectStatsErrorExact(
+      () => revenueInterval(typical, 1),
+      'invalid_argument',
+      'level: 1 is not allowed; the level must be strictly between 0 and 1 (0.95 is a 95% interval)',
+    );
     expectStatsErrorExact(
       () => revenueProbLiftAbove(typical, -1),
       'invalid_argument',
       'min_lift: -1 is not allowed; the minimum lift is a number greater than -1 (-0.02 asks "no worse than 2% below")',
     );
-    expectStatsErrorExact(() => revenueProbHighest([typical[0] as RevenueTotals]), 'invalid_argument', 'at least 2 variants are needed (the first is the control), got 1');
+    expectStatsErrorExact(
+      () => revenueProbHighest([typical[0] as RevenueTotals]),
+      'invalid_argument',
+      'at least 2 variants are needed (the first is the control), got 1',
+    );
   });
 
   test('a challenger whose order value could well be negative has no lift interval (it would pass -100%)', () => {
@@ -265,7 +288,11 @@ describe('properties', () => {
     const fresh = [revenueProbHighest(v), revenueExpectedLoss(v), revenueLiftInterval(v, 0.9)];
     const again = [revenueProbHighest(v), revenueExpectedLoss(v), revenueLiftInterval(v, 0.9)];
     const memoised = [revenueProbHighest(v, memo), revenueExpectedLoss(v, memo), revenueLiftInterval(v, 0.9, memo)];
-    const memoisedAgain = [revenueProbHighest(v, memo), revenueExpectedLoss(v, memo), revenueLiftInterval(v, 0.9, memo)];
+    const memoisedAgain = [
+      revenueProbHighest(v, memo),
+      revenueExpectedLoss(v, memo),
+      revenueLiftInterval(v, 0.9, memo),
+    ];
     expect(again).toEqual(fresh);
     expect(memoised).toEqual(fresh);
     expect(memoisedAgain).toEqual(fresh);

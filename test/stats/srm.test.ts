@@ -79,7 +79,9 @@ describe('srmTest input checks', () => {
     [[10, 20], [1, Infinity], 'Infinity is not a number'],
     [[10, 20], [1, 1, 1], 'there are 3 planned shares for 2 groups; give one share per group'],
   ] as const)('rejects %j with shares %j', (visitors, shares, message) => {
-    const error = thrownStatsError(() => srmTest(visitors as readonly number[], shares as readonly number[] | undefined));
+    const error = thrownStatsError(() =>
+      srmTest(visitors as readonly number[], shares as readonly number[] | undefined),
+    );
     expect(error.code).toBe('invalid_argument');
     expect(error.message).toBe(message);
   });

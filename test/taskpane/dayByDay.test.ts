@@ -16,7 +16,9 @@ const names = ['Control', 'Wide', 'Short'];
 function referenceTable(): CellValue[][] {
   const header: CellValue[] = ['Day', ...names.map((n) => `${n} visitors`), ...names.map((n) => `${n} conversions`)];
   const rows = byday.visitors.map((v, d): CellValue[] =>
-    v.every((x) => x === 0) ? [`Day ${d + 1}`, '', '', '', '', '', ''] : [`Day ${d + 1}`, ...v, ...byday.conversions[d]!],
+    v.every((x) => x === 0)
+      ? [`Day ${d + 1}`, '', '', '', '', '', '']
+      : [`Day ${d + 1}`, ...v, ...byday.conversions[d]!],
   );
   return [header, ...rows];
 }
@@ -116,7 +118,13 @@ describe('dailyBlock', () => {
     const cells = built.block.cells;
     expect(cells).toHaveLength(dailyArea(14, 3).rowCount);
     expect(cells.every((row) => row.length === dailyArea(14, 3).columnCount)).toBe(true);
-    expect(cells[1]).toEqual(['Day', 'P(Green beats control)', 'P(Tall beats control)', "Plan's threshold", 'Split check p-value']);
+    expect(cells[1]).toEqual([
+      'Day',
+      'P(Green beats control)',
+      'P(Tall beats control)',
+      "Plan's threshold",
+      'Split check p-value',
+    ]);
     expect(cells[2]).toEqual([
       '=IF(A5="","",A5)',
       '=ABTEST.PROB_ABOVE_CONTROL_BY_DAY(E5:G18,B5:D18)',

@@ -19,7 +19,12 @@ import {
 } from '../../taskpane/logic/explain';
 import { eventsProbLiftAbove } from '../../functions/stats/eventRates';
 import { meanProbLiftAbove } from '../../functions/stats/normalMeans';
-import { revenueInterval, revenueLiftInterval, revenueProbAboveControl, revenueProbLiftAbove } from '../../functions/stats/revenuePerVisitor';
+import {
+  revenueInterval,
+  revenueLiftInterval,
+  revenueProbAboveControl,
+  revenueProbLiftAbove,
+} from '../../functions/stats/revenuePerVisitor';
 import reference from '../reference/addin/taskpane_crosscheck.json';
 import highest from '../reference/addin/explain_highest.json';
 
@@ -43,9 +48,18 @@ describe('parsing', () => {
   });
 
   test('finds the ABTEST call, also inside other functions, case-insensitively', () => {
-    expect(parseAbtestCall('=ABTEST.PROB_HIGHEST(C2:C4, B2:B4)')).toEqual({ name: 'PROB_HIGHEST', args: ['C2:C4', 'B2:B4'] });
-    expect(parseAbtestCall('=ROUND(abtest.posterior_mean(C2:C4,B2:B4),3)')).toEqual({ name: 'POSTERIOR_MEAN', args: ['C2:C4', 'B2:B4'] });
-    expect(parseAbtestCall('=ABTEST.DECISION(C2:C4,B2:B4,,"A (old)")')).toEqual({ name: 'DECISION', args: ['C2:C4', 'B2:B4', '', '"A (old)"'] });
+    expect(parseAbtestCall('=ABTEST.PROB_HIGHEST(C2:C4, B2:B4)')).toEqual({
+      name: 'PROB_HIGHEST',
+      args: ['C2:C4', 'B2:B4'],
+    });
+    expect(parseAbtestCall('=ROUND(abtest.posterior_mean(C2:C4,B2:B4),3)')).toEqual({
+      name: 'POSTERIOR_MEAN',
+      args: ['C2:C4', 'B2:B4'],
+    });
+    expect(parseAbtestCall('=ABTEST.DECISION(C2:C4,B2:B4,,"A (old)")')).toEqual({
+      name: 'DECISION',
+      args: ['C2:C4', 'B2:B4', '', '"A (old)"'],
+    });
     expect(parseAbtestCall('=SUM(A1:A3)')).toBeNull();
     expect(parseAbtestCall('ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)')).toBeNull();
     expect(parseAbtestCall('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4')).toBeNull();
@@ -63,7 +77,9 @@ describe('parsing', () => {
     expect(explainFormula('412', 'C2')).toEqual({
       problem: 'this cell holds no =ABTEST. formula; select a cell with one (the first cell of a spilled result)',
     });
-    expect(explainFormula('=ABTEST.NOT_A_FUNCTION(A1)', 'B1')).toEqual({ problem: "ABTEST.NOT_A_FUNCTION is not one of Lift Ledger's functions" });
+    expect(explainFormula('=ABTEST.NOT_A_FUNCTION(A1)', 'B1')).toEqual({
+      problem: "ABTEST.NOT_A_FUNCTION is not one of Lift Ledger's functions",
+    });
     expect(explainFormula('=ABTEST.SRM_PVALUE(B2:B4,C2:C4,D2:D4)', 'E1')).toEqual({
       problem: 'ABTEST.SRM_PVALUE takes at most 2 arguments; this formula gives 3',
     });
@@ -81,7 +97,9 @@ describe('every catalogue function is explained', () => {
   test.each(catalogue)('%s: summary names the argument cells, method is given', (name) => {
     const signature = SIGNATURES[name];
     if (signature === undefined) throw new Error(name);
-    const refs = signature.args.slice(0, signature.required).map((_, i) => `${String.fromCharCode(66 + i)}2:${String.fromCharCode(66 + i)}4`);
+    const refs = signature.args
+      .slice(0, signature.required)
+      .map((_, i) => `${String.fromCharCode(66 + i)}2:${String.fromCharCode(66 + i)}4`);
     const e = explained(`=ABTEST.${name}(${refs.join(',')})`, 'K2');
     expect(e.name).toBe(name);
     expect(e.arguments.map((a) => a.name)).toEqual(signature.args);
@@ -99,8 +117,12 @@ describe('every catalogue function is explained', () => {
     expect(hdi.summary).toContain('90% highest-density credible interval');
     expect(hdi.summary).toContain('a Beta(2, 50) prior');
     expect(hdi.crossCheck?.kind).toBe('brackets');
-    expect(explained('=ABTEST.PRIOR_FROM_HISTORY(B2:B13,C2:C13,"moments")').summary).toContain('by the method of moments');
-    expect(explained('=ABTEST.DECISION(C2:C4,B2:B4)').summary).toContain("1% of the control's posterior mean rate (the default)");
+    expect(explained('=ABTEST.PRIOR_FROM_HISTORY(B2:B13,C2:C13,"moments")').summary).toContain(
+      'by the method of moments',
+    );
+    expect(explained('=ABTEST.DECISION(C2:C4,B2:B4)').summary).toContain(
+      "1% of the control's posterior mean rate (the default)",
+    );
   });
 });
 
@@ -116,23 +138,62 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
   // An invented sheet: the garden-supply checkout test (A1:C4), revenue per visitor (E1:G3),
   // support contacts per user-day (H1:I3), a three-way split (K1:L4), prior parameters (N2:O2), a grid value (P2).
   const sheet: (string | number)[][] = [
-    ['Variant', 'Visitors', 'Conversions', '', 'Count', 'Mean', 'SD', 'Events', 'Exposure', '', 'Visitors', 'Share', '', 'alpha', 'beta', 'x'],
-    ['Green', 10000, 412, '', 10000, 2.31, 9.8, 380, 5200, '', 20000, 1, '', ...(ref['prior_interval_0.03_0.06_90'] as number[]), 0.04],
+    [
+      'Variant',
+      'Visitors',
+      'Conversions',
+      '',
+      'Count',
+      'Mean',
+      'SD',
+      'Events',
+      'Exposure',
+      '',
+      'Visitors',
+      'Share',
+      '',
+      'alpha',
+      'beta',
+      'x',
+    ],
+    [
+      'Green',
+      10000,
+      412,
+      '',
+      10000,
+      2.31,
+      9.8,
+      380,
+      5200,
+      '',
+      20000,
+      1,
+      '',
+      ...(ref['prior_interval_0.03_0.06_90'] as number[]),
+      0.04,
+    ],
     ['Orange', 10050, 455, '', 10050, 2.45, 10.4, 431, 5150, '', 20400, 1],
     ['Blue', 9980, 430, '', '', '', '', '', '', '', 39600, 2],
   ];
-  const hf = HyperFormula.buildFromArray(sheet, { licenseKey: 'gpl-v3', smartRounding: false, useArrayArithmetic: true });
+  const hf = HyperFormula.buildFromArray(sheet, {
+    licenseKey: 'gpl-v3',
+    smartRounding: false,
+    useArrayArithmetic: true,
+  });
   afterAll(() => hf.destroy());
 
   /** HyperFormula writes the logical constants as functions: TRUE() and FALSE(). */
-  const dialect = (formula: string): string => formula.replace(/\bTRUE\)/g, 'TRUE())').replace(/\bFALSE\)/g, 'FALSE())');
+  const dialect = (formula: string): string =>
+    formula.replace(/\bTRUE\)/g, 'TRUE())').replace(/\bFALSE\)/g, 'FALSE())');
   const evaluate = (formula: string): number => {
     hf.setCellContents({ sheet: 0, row: 20, col: 0 }, [[dialect(formula)]]);
     const value = hf.getCellValue({ sheet: 0, row: 20, col: 0 });
     if (typeof value !== 'number') throw new Error(`${formula} gave ${JSON.stringify(value)}`);
     return value;
   };
-  const checks = (formula: string, anchor = 'Z1'): number[] => (explained(formula, anchor).crossCheck?.formulas ?? []).map(evaluate);
+  const checks = (formula: string, anchor = 'Z1'): number[] =>
+    (explained(formula, anchor).crossCheck?.formulas ?? []).map(evaluate);
 
   test('POSTERIOR_MEAN: (α+x)/(α+β+n) equals scipy beta(413, 9589).mean()', () => {
     expect(explained('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)').crossCheck?.formulas).toEqual(['=(1+C2)/(1+1+B2)']);
@@ -150,7 +211,7 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
     close(phi as number, qhi as number);
   });
 
-  test('RATE_INTERVAL hdi: the brackets hold scipy\'s shortest 90% interval', () => {
+  test("RATE_INTERVAL hdi: the brackets hold scipy's shortest 90% interval", () => {
     const [lowerMax, upperMin] = checks('=ABTEST.RATE_INTERVAL(C2:C4,B2:B4,0.9,1,1,"hdi")');
     const [hdiLo, hdiHi] = ref.rate_hdi_90_0 as number[];
     expect(hdiLo).toBeLessThanOrEqual(lowerMax as number);
@@ -187,7 +248,7 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
     expect(checks('=ABTEST.PRIOR_FROM_MEAN(0.04,500)')).toEqual([20, 480]);
   });
 
-  test('PRIOR_FROM_INTERVAL: BETA.DIST on scipy\'s fitted prior gives 5% in each tail', () => {
+  test("PRIOR_FROM_INTERVAL: BETA.DIST on scipy's fitted prior gives 5% in each tail", () => {
     const tails = checks('=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06)', 'N2');
     expect(tails[0]).toBeCloseTo(0.05, 9);
     expect(tails[1]).toBeCloseTo(0.05, 9);
@@ -200,7 +261,7 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
     close(hi as number, rhi as number);
   });
 
-  test('MEAN_PROB_ABOVE_CONTROL and MEAN_DIFF_INTERVAL: normal approximations within 1e-3 of scipy\'s exact Student t values', () => {
+  test("MEAN_PROB_ABOVE_CONTROL and MEAN_DIFF_INTERVAL: normal approximations within 1e-3 of scipy's exact Student t values", () => {
     const [p] = checks('=ABTEST.MEAN_PROB_ABOVE_CONTROL(E2:E3,F2:F3,G2:G3)');
     expect(Math.abs((p as number) - (ref.mean_prob_above_control_1 as number))).toBeLessThan(1e-3);
     const [lo, hi] = checks('=ABTEST.MEAN_DIFF_INTERVAL(E2:E3,F2:F3,G2:G3)');
@@ -231,18 +292,25 @@ describe('built-in cross-check formulas, evaluated by HyperFormula', () => {
   test('PROB_HIGHEST of two variants: the pairwise formula is offered for the second cell (scipy quadrature)', () => {
     const check = explained('=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)').crossCheck;
     expect(check?.kind).toBe('approximates');
-    expect(check?.what).toMatch(/^with two variants, having the highest conversion rate is the same as beating the other/);
+    expect(check?.what).toMatch(
+      /^with two variants, having the highest conversion rate is the same as beating the other/,
+    );
     const [approx] = checks('=ABTEST.PROB_HIGHEST(C2:C3,B2:B3)');
     expect(Math.abs((approx as number) - (ref.prob_above_control_1 as number))).toBeLessThan(0.002);
   });
 
   test('PROB_HIGHEST of three variants: no two-variant formula posing as the answer; the sum and an upper limit instead (scipy)', () => {
     // the exact P(highest) values in the spill Z1:Z3 (scipy, explain_highest.py)
-    hf.setCellContents({ sheet: 0, row: 0, col: 25 }, highest.prob_highest.map((v) => [v]));
+    hf.setCellContents(
+      { sheet: 0, row: 0, col: 25 },
+      highest.prob_highest.map((v) => [v]),
+    );
     const check = explained('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)', 'Z1').crossCheck;
     expect(check?.kind).toBe('checks');
     expect(check?.formulas[0]).toBe('=SUM(Z1:Z3)');
-    expect(check?.what).toContain('With 3 variants its chance of the highest conversion rate is lower than that, so the two numbers do not match');
+    expect(check?.what).toContain(
+      'With 3 variants its chance of the highest conversion rate is lower than that, so the two numbers do not match',
+    );
     const [sum, bound] = checks('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)', 'Z1');
     expect(sum).toBeCloseTo(1, 12);
     // the bound is about P(Orange > Green) (scipy 0.92179) and above Orange's P(highest) (scipy 0.74085)
@@ -295,7 +363,10 @@ describe('the method, readable', () => {
   test.each(CATALOGUE_LIST.map((f) => f.id))('%s: no "_{", "_(" or "x_y" left in the text shown', (name) => {
     const args = SIGNATURES[name]?.args.slice(0, SIGNATURES[name]?.required).map(() => 'B2:B4') ?? [];
     const e = explained(`=ABTEST.${name}(${args.join(',')})`);
-    const shown = mathPieces(e.method).filter((piece) => !piece.subscript).map((piece) => piece.text).join('');
+    const shown = mathPieces(e.method)
+      .filter((piece) => !piece.subscript)
+      .map((piece) => piece.text)
+      .join('');
     expect(shown).not.toMatch(/_[{(A-Za-z0-9]/);
   });
 
@@ -303,7 +374,9 @@ describe('the method, readable', () => {
     expect(explained('=ABTEST.PROB_HIGHEST(C2:C4,B2:B4)').plainMethod).toBe(
       'In words: for every possible value, the chance that this variant has that value while every other variant is below it, added up over all values.',
     );
-    expect(explained('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4)').plainMethod).toMatch(/^In words: how much you give up on average/);
+    expect(explained('=ABTEST.EXPECTED_LOSS(C2:C4,B2:B4)').plainMethod).toMatch(
+      /^In words: how much you give up on average/,
+    );
     expect(explained('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4)').plainMethod).toBeNull();
   });
 });
@@ -335,7 +408,13 @@ describe('the functions of issue #13: words and cross-checks, evaluated by Hyper
   test('EVENTS_PROB_LIFT_ABOVE: the BETA.DIST closed form reproduces the core at min_lift −5% and +3%', () => {
     for (const m of [-0.05, 0.03]) {
       const [got] = checks(`=ABTEST.EVENTS_PROB_LIFT_ABOVE(J1:J2,K1:K2,${m})`);
-      const [want] = eventsProbLiftAbove([{ events: 380, exposure: 5200 }, { events: 431, exposure: 5150 }], m);
+      const [want] = eventsProbLiftAbove(
+        [
+          { events: 380, exposure: 5200 },
+          { events: 431, exposure: 5150 },
+        ],
+        m,
+      );
       // the core is checked against scipy quadrature in test/stats/liftAbove.test.ts
       expect(Math.abs((got as number) - (want as number))).toBeLessThan(1e-8);
     }
@@ -343,7 +422,13 @@ describe('the functions of issue #13: words and cross-checks, evaluated by Hyper
 
   test('MEAN_PROB_LIFT_ABOVE: the normal approximation is within 0.005 of the core at 10,000 per variant', () => {
     const [got] = checks('=ABTEST.MEAN_PROB_LIFT_ABOVE(F1:F2,G1:G2,H1:H2,-0.02)');
-    const [want] = meanProbLiftAbove([{ count: 10000, mean: 2.31, sd: 9.8 }, { count: 10050, mean: 2.45, sd: 10.4 }], -0.02);
+    const [want] = meanProbLiftAbove(
+      [
+        { count: 10000, mean: 2.31, sd: 9.8 },
+        { count: 10050, mean: 2.45, sd: 10.4 },
+      ],
+      -0.02,
+    );
     expect(Math.abs((got as number) - (want as number))).toBeLessThan(0.005);
   });
 
@@ -354,7 +439,9 @@ describe('the functions of issue #13: words and cross-checks, evaluated by Hyper
     ] as const) {
       const [beats] = checks(`=ABTEST.REVENUE_PROB_ABOVE_CONTROL(${args})`);
       expect(Math.abs((beats as number) - (revenueProbAboveControl(variants)[0] as number))).toBeLessThan(0.01);
-      const [above] = checks(`=ABTEST.REVENUE_PROB_LIFT_ABOVE(${args.replace(/,D1:D2$/, '')},-0.02${args.endsWith('D1:D2') ? ',D1:D2' : ''})`);
+      const [above] = checks(
+        `=ABTEST.REVENUE_PROB_LIFT_ABOVE(${args.replace(/,D1:D2$/, '')},-0.02${args.endsWith('D1:D2') ? ',D1:D2' : ''})`,
+      );
       expect(Math.abs((above as number) - (revenueProbLiftAbove(variants, -0.02)[0] as number))).toBeLessThan(0.01);
       const [lo, hi] = checks(`=ABTEST.REVENUE_INTERVAL(${args})`);
       const interval = revenueInterval(variants, 0.95)[0] as { lower: number; upper: number };
@@ -362,7 +449,11 @@ describe('the functions of issue #13: words and cross-checks, evaluated by Hyper
       expect(Math.abs((hi as number) / interval.upper - 1)).toBeLessThan(0.01);
       const lift = checks(`=ABTEST.REVENUE_LIFT_INTERVAL(${args})`);
       const core = revenueLiftInterval(variants, 0.95)[0] as { lower: number; median: number; upper: number };
-      expect(lift.map((x, i) => Math.abs(x - [core.lower, core.median, core.upper][i]!) < 0.005)).toEqual([true, true, true]);
+      expect(lift.map((x, i) => Math.abs(x - [core.lower, core.median, core.upper][i]!) < 0.005)).toEqual([
+        true,
+        true,
+        true,
+      ]);
     }
   });
 
@@ -370,9 +461,17 @@ describe('the functions of issue #13: words and cross-checks, evaluated by Hyper
     expect(explained('=ABTEST.REVENUE_DECISION(A1:A2,B1:B2,C1:C2)').summary).toBe(
       "What to do on revenue per visitor, from orders in A1:A2, visitors in B1:B2 and revenue in C1:C2, order values taken as exponential (no order_sd given): the variant with the smallest expected loss (REVENUE_EXPECTED_LOSS) is recommended once that loss is at most 1% of the control's posterior mean revenue per visitor (the default).",
     );
-    expect(explained('=ABTEST.MEAN_DECISION(F1:F2,G1:G2,H1:H2,0.05)').summary).toContain("at most max_loss (0.05), in the metric's units");
-    expect(explained('=ABTEST.EVENTS_DECISION(J1:J2,K1:K2)').summary).toContain("1% of the control's posterior mean rate (the default)");
-    expect(explained('=ABTEST.REVENUE_DECISION(A1:A2,B1:B2,C1:C2)').plainMethod).toMatch(/^In words: the expected loss of each variant/);
-    expect(explained('=ABTEST.REVENUE_EXPECTED_LOSS(A1:A2,B1:B2,C1:C2,D1:D2)').summary).toContain("with the order values' standard deviations in D1:D2");
+    expect(explained('=ABTEST.MEAN_DECISION(F1:F2,G1:G2,H1:H2,0.05)').summary).toContain(
+      "at most max_loss (0.05), in the metric's units",
+    );
+    expect(explained('=ABTEST.EVENTS_DECISION(J1:J2,K1:K2)').summary).toContain(
+      "1% of the control's posterior mean rate (the default)",
+    );
+    expect(explained('=ABTEST.REVENUE_DECISION(A1:A2,B1:B2,C1:C2)').plainMethod).toMatch(
+      /^In words: the expected loss of each variant/,
+    );
+    expect(explained('=ABTEST.REVENUE_EXPECTED_LOSS(A1:A2,B1:B2,C1:C2,D1:D2)').summary).toContain(
+      "with the order values' standard deviations in D1:D2",
+    );
   });
 });

@@ -5,22 +5,55 @@
  * references are checked by an independent engine, not only as text.
  */
 import { HyperFormula } from 'hyperformula';
-import { numberLiteral, planBlock, priorBlock, priorFormula, readoutBlock, textLiteral } from '../../taskpane/logic/formulas';
-import { cellAddress, columnIndex, columnLetters, parseAddress, quoteSheet, rangeAddress, referenceFrom } from '../../taskpane/workbook/address';
+import {
+  numberLiteral,
+  planBlock,
+  priorBlock,
+  priorFormula,
+  readoutBlock,
+  textLiteral,
+} from '../../taskpane/logic/formulas';
+import {
+  cellAddress,
+  columnIndex,
+  columnLetters,
+  parseAddress,
+  quoteSheet,
+  rangeAddress,
+  referenceFrom,
+} from '../../taskpane/workbook/address';
 import { formatCount, formatPercent, parseNumber, parsePercent } from '../../taskpane/logic/inputs';
 import { BONFERRONI_SPLIT } from '../../taskpane/logic/plan';
 import { decisionText, defaultLabel } from '../../functions/sheet/decision';
 
 describe('addresses', () => {
   test('column letters round-trip (bijective base 26, as Excel numbers columns)', () => {
-    expect([0, 25, 26, 27, 51, 52, 701, 702, 16383].map(columnLetters)).toEqual(['A', 'Z', 'AA', 'AB', 'AZ', 'BA', 'ZZ', 'AAA', 'XFD']);
+    expect([0, 25, 26, 27, 51, 52, 701, 702, 16383].map(columnLetters)).toEqual([
+      'A',
+      'Z',
+      'AA',
+      'AB',
+      'AZ',
+      'BA',
+      'ZZ',
+      'AAA',
+      'XFD',
+    ]);
     for (const c of [0, 1, 25, 26, 700, 16383]) expect(columnIndex(columnLetters(c))).toBe(c);
     expect(() => columnLetters(-1)).toThrow(new RangeError('column -1 is not a column index'));
   });
 
-  test('parses Excel\'s qualified addresses, quoted sheets and $ signs', () => {
-    expect(parseAddress("'Past tests'!B2:C13")).toEqual({ sheet: 'Past tests', start: { row: 1, column: 1 }, end: { row: 12, column: 2 } });
-    expect(parseAddress("'Bob''s data'!$A$1")).toEqual({ sheet: "Bob's data", start: { row: 0, column: 0 }, end: { row: 0, column: 0 } });
+  test("parses Excel's qualified addresses, quoted sheets and $ signs", () => {
+    expect(parseAddress("'Past tests'!B2:C13")).toEqual({
+      sheet: 'Past tests',
+      start: { row: 1, column: 1 },
+      end: { row: 12, column: 2 },
+    });
+    expect(parseAddress("'Bob''s data'!$A$1")).toEqual({
+      sheet: "Bob's data",
+      start: { row: 0, column: 0 },
+      end: { row: 0, column: 0 },
+    });
     expect(parseAddress('D4:B2')).toEqual({ sheet: '', start: { row: 1, column: 1 }, end: { row: 3, column: 3 } });
     expect(() => parseAddress('A:A')).toThrow(new RangeError('"A:A" is not an A1 address'));
   });
@@ -55,11 +88,20 @@ describe('typed inputs', () => {
 describe('prior formulas', () => {
   test('each way of choosing a prior gives its PRIOR_FROM_ formula, defaults left out', () => {
     expect(priorFormula({ kind: 'mean', meanRate: 0.04, strength: 500 })).toBe('=ABTEST.PRIOR_FROM_MEAN(0.04,500)');
-    expect(priorFormula({ kind: 'interval', low: 0.03, high: 0.06, level: 0.9 })).toBe('=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06)');
-    expect(priorFormula({ kind: 'interval', low: 0.03, high: 0.06, level: 0.8 })).toBe('=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06,0.8)');
-    expect(priorFormula({ kind: 'history', conversionsRef: "'Past tests'!B2:B13", visitorsRef: "'Past tests'!C2:C13", method: 'likelihood' })).toBe(
-      "=ABTEST.PRIOR_FROM_HISTORY('Past tests'!B2:B13,'Past tests'!C2:C13)",
+    expect(priorFormula({ kind: 'interval', low: 0.03, high: 0.06, level: 0.9 })).toBe(
+      '=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06)',
     );
+    expect(priorFormula({ kind: 'interval', low: 0.03, high: 0.06, level: 0.8 })).toBe(
+      '=ABTEST.PRIOR_FROM_INTERVAL(0.03,0.06,0.8)',
+    );
+    expect(
+      priorFormula({
+        kind: 'history',
+        conversionsRef: "'Past tests'!B2:B13",
+        visitorsRef: "'Past tests'!C2:C13",
+        method: 'likelihood',
+      }),
+    ).toBe("=ABTEST.PRIOR_FROM_HISTORY('Past tests'!B2:B13,'Past tests'!C2:C13)");
     expect(priorFormula({ kind: 'history', conversionsRef: 'B2:B13', visitorsRef: 'C2:C13', method: 'moments' })).toBe(
       '=ABTEST.PRIOR_FROM_HISTORY(B2:B13,C2:C13,"moments")',
     );
@@ -85,7 +127,16 @@ describe('prior formulas', () => {
 });
 
 describe('plan block', () => {
-  const inputs = { baselineRate: 0.04, lift: 0.1, threshold: 0.95, power: 0.8, variants: 3, dailyVisitors: 4000, trafficShare: 0.5, classicAlpha: 0.05 };
+  const inputs = {
+    baselineRate: 0.04,
+    lift: 0.1,
+    threshold: 0.95,
+    power: 0.8,
+    variants: 3,
+    dailyVisitors: 4000,
+    trafficShare: 0.5,
+    classicAlpha: 0.05,
+  };
 
   test('inputs as labelled constants (rates, threshold, power and levels as percents), results as formulas referring to them', () => {
     const { block, cells } = planBlock(inputs, 'B2');
@@ -124,8 +175,25 @@ describe('plan block', () => {
       '=ABTEST.CLASSIC_SAMPLE_SIZE(C3,C4,C10/MAX(1,C7-1),C6,2)',
     ]);
     // one unit for every probability-like input: all shown as percents
-    expect(block.numberFormats?.slice(1, 9).map((row) => row[1])).toEqual(['0.00%', '0.0%', '0.0%', '0.0%', '0', '#,##0', '0%', '0.0%']);
-    expect(cells).toMatchObject({ baselineRate: 'C3', perChallengerThreshold: 'C11', visitorsPerVariant: 'C12', totalVisitors: 'C13', weeks: 'C14', days: 'C15', classicPerVariant: 'C16' });
+    expect(block.numberFormats?.slice(1, 9).map((row) => row[1])).toEqual([
+      '0.00%',
+      '0.0%',
+      '0.0%',
+      '0.0%',
+      '0',
+      '#,##0',
+      '0%',
+      '0.0%',
+    ]);
+    expect(cells).toMatchObject({
+      baselineRate: 'C3',
+      perChallengerThreshold: 'C11',
+      visitorsPerVariant: 'C12',
+      totalVisitors: 'C13',
+      weeks: 'C14',
+      days: 'C15',
+      classicPerVariant: 'C16',
+    });
   });
 
   test('with a prior, its cells are inputs and VISITORS_NEEDED refers to them', () => {
@@ -137,7 +205,9 @@ describe('plan block', () => {
   test('the threshold, total, weeks and days formulas compute the right numbers (HyperFormula, with a known visitors count)', () => {
     const { block, cells } = planBlock(inputs, 'A1', undefined, BONFERRONI_SPLIT);
     // Replace the ABTEST call (not registered in HyperFormula) by a constant, keep every other formula as written.
-    const rows = block.cells.map((row) => row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? 31234 : v)));
+    const rows = block.cells.map((row) =>
+      row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? 31234 : v)),
+    );
     const hf = HyperFormula.buildFromArray(rows as (string | number)[][], { licenseKey: 'gpl-v3' });
     const value = (address: string): unknown => {
       const p = parseAddress(address).start;
@@ -201,7 +271,9 @@ describe('read-out block', () => {
     expect(at('F11')).toBe('=0.01*F3');
     expect(at('F12')).toBe('=ABTEST.DECISION(C2:C4,B2:B4,F11,E3:E5,F9,F10)');
     expect(at('F13')).toBe('=ABTEST.SRM_PVALUE(B2:B4)');
-    expect(at('G13')).toBe('=IF(F13<0.001,"split looks broken: check how visitors are assigned","split looks as planned")');
+    expect(at('G13')).toBe(
+      '=IF(F13<0.001,"split looks broken: check how visitors are assigned","split looks as planned")',
+    );
     expect(at('E17')).toBe('=ABTEST.LIFT_DENSITY(C2:C4,B2:B4,61,F9,F10)');
     // the density table's columns carry the challengers' names
     expect([at('E16'), at('F16'), at('G16')]).toEqual(['Lift', '=E4', '=E5']);
@@ -229,18 +301,28 @@ describe('read-out block', () => {
   });
 
   test('on another sheet than the table, every reference names the table’s sheet', () => {
-    const built = readoutBlock({ ...source, sheet: 'Checkout test', sharesRef: 'D2:D4' }, settings, 'A1', 'Checkout test read-out');
+    const built = readoutBlock(
+      { ...source, sheet: 'Checkout test', sharesRef: 'D2:D4' },
+      settings,
+      'A1',
+      'Checkout test read-out',
+    );
     const at = (address: string): unknown => cellOf(built, address, 0);
     expect(at('A3')).toBe("='Checkout test'!A2");
     expect(at('B3')).toBe("=ABTEST.POSTERIOR_MEAN('Checkout test'!C2:C4,'Checkout test'!B2:B4,B9,B10)");
     expect(at('B13')).toBe("=ABTEST.SRM_PVALUE('Checkout test'!B2:B4,'Checkout test'!D2:D4)");
     // on the table's own sheet they stay local
-    expect(cellOf(readoutBlock({ ...source, sheet: 'Checkout test' }, settings, 'E1', 'Checkout test'), 'F3')).toBe('=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4,F9,F10)');
+    expect(cellOf(readoutBlock({ ...source, sheet: 'Checkout test' }, settings, 'E1', 'Checkout test'), 'F3')).toBe(
+      '=ABTEST.POSTERIOR_MEAN(C2:C4,B2:B4,F9,F10)',
+    );
   });
 
   test('with planned shares the split check tests against them', () => {
     const built = readoutBlock({ ...source, sharesRef: 'D2:D4' }, settings, 'F1');
-    expect(built.block.cells[12]?.slice(0, 2)).toEqual(['Split check: SRM p-value (planned shares)', '=ABTEST.SRM_PVALUE(B2:B4,D2:D4)']);
+    expect(built.block.cells[12]?.slice(0, 2)).toEqual([
+      'Split check: SRM p-value (planned shares)',
+      '=ABTEST.SRM_PVALUE(B2:B4,D2:D4)',
+    ]);
   });
 
   test('without a names column the variants are called A, B, C…', () => {
@@ -250,7 +332,12 @@ describe('read-out block', () => {
 
   test('a broken split (p < 0.001 now) gets the warning fill on the p-value and its verdict', () => {
     const built = readoutBlock(source, { ...settings, currentSrmPValue: 2e-5 }, 'E1');
-    expect(built.block.styles).toContainEqual({ row: 12, column: 1, columnCount: 2, style: { fillColor: '#F4CCCC', fontColor: '#9C0006', bold: true } });
+    expect(built.block.styles).toContainEqual({
+      row: 12,
+      column: 1,
+      columnCount: 2,
+      style: { fillColor: '#F4CCCC', fontColor: '#9C0006', bold: true },
+    });
   });
 
   test('many variants: the table and the chart still fit in the area', () => {
@@ -261,7 +348,9 @@ describe('read-out block', () => {
   });
 
   test('refuses fewer than two variants', () => {
-    expect(() => readoutBlock({ ...source, variants: 1 }, settings, 'E1')).toThrow(new RangeError('a read-out needs at least two variants'));
+    expect(() => readoutBlock({ ...source, variants: 1 }, settings, 'E1')).toThrow(
+      new RangeError('a read-out needs at least two variants'),
+    );
   });
 });
 

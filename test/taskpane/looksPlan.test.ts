@@ -44,7 +44,7 @@ describe('lookSchedule', () => {
     expect(lookSchedule(0.1, 'weekly', 1)).toEqual([]);
   });
 
-  test('daily looks stop at the core\'s 100 looks: 14 weeks', () => {
+  test("daily looks stop at the core's 100 looks: 14 weeks", () => {
     expect(maxWeeks('daily')).toBe(14);
     expect(maxWeeks('weekly')).toBe(26);
     expect(lookSchedule(10, 'daily', maxWeeks('daily'))).toHaveLength(98);
@@ -72,7 +72,7 @@ describe('planWithLooks', () => {
     },
   );
 
-  test('looking more often raises the naive rule\'s false alarms well above 5% (the peeking problem)', async () => {
+  test("looking more often raises the naive rule's false alarms well above 5% (the peeking problem)", async () => {
     const weekly = (await planWithLooks({ ...base, cadence: 'weekly' }, quiet))!;
     const daily = (await planWithLooks({ ...base, cadence: 'daily' }, quiet))!;
     expect(weekly.naiveFalseAlarm).toBeGreaterThan(0.08);
@@ -119,7 +119,7 @@ describe('planWithLooks', () => {
 });
 
 describe('detectableInWeeks', () => {
-  test('SMALLEST_DETECTABLE_LIFT at the last look under the looks\' threshold', () => {
+  test("SMALLEST_DETECTABLE_LIFT at the last look under the looks' threshold", () => {
     const found = detectableInWeeks({ ...base, cadence: 'daily' }, 4);
     expect(found.visitorsPerVariant).toBe(56000);
     const looks = lookSchedule(2000, 'daily', 4);

@@ -21,7 +21,17 @@ const TOTALS: CellValue[][] = [
   ['Basket', 431, 10451, 26127.5, 36],
 ];
 const MAIN: CellValue[][] = [
-  ['Variant', 'Visitors', 'Conversions', 'Revenue count', 'Revenue mean', 'Revenue sd', 'Basket adds', 'Sessions', 'Planned share'],
+  [
+    'Variant',
+    'Visitors',
+    'Conversions',
+    'Revenue count',
+    'Revenue mean',
+    'Revenue sd',
+    'Basket adds',
+    'Sessions',
+    'Planned share',
+  ],
   ['Green', 10412, 412, 10412, 2.41, 11.8, 1820, 15230, 1],
   ['Orange', 10388, 463, 10388, 2.63, 12.3, 1968, 15190, 1],
   ['Basket', 10451, 431, 10451, 2.5, 12.0, 1902, 15310, 1],
@@ -42,7 +52,17 @@ describe('proposing the metric and its columns from the headings', () => {
 
   test('the main table: "Revenue mean/sd/count" are an average, not revenue; basket adds per session are counts', () => {
     const d = detect(MAIN);
-    expect(d.columns).toMatchObject({ visitors: 1, conversions: 2, count: 3, mean: 4, sd: 5, events: 6, exposure: 7, revenue: null, orderSd: null });
+    expect(d.columns).toMatchObject({
+      visitors: 1,
+      conversions: 2,
+      count: 3,
+      mean: 4,
+      sd: 5,
+      events: 6,
+      exposure: 7,
+      revenue: null,
+      orderSd: null,
+    });
     expect(d.available).toEqual(['conversions', 'averages', 'counts']);
     expect(d.proposed).toBe('conversions');
   });
@@ -161,10 +181,23 @@ describe('the metric read-out blocks', () => {
 
   test('revenue without order sd leaves its slot empty; averages and counts use their families', () => {
     const { refs } = SOURCE;
-    const noSd = metricReadoutBlock('revenue', { ...SOURCE, refs: { ...refs, orderSd: undefined } }, { level: 0.95, currentSrmPValue: 1 }, [], 'A10');
+    const noSd = metricReadoutBlock(
+      'revenue',
+      { ...SOURCE, refs: { ...refs, orderSd: undefined } },
+      { level: 0.95, currentSrmPValue: 1 },
+      [],
+      'A10',
+    );
     expect((noSd.block.cells[2] as CellValue[])[2]).toBe('=ABTEST.REVENUE_INTERVAL(B2:B4,C2:C4,D2:D4,,B17)');
     expect((noSd.block.cells[2] as CellValue[])[4]).toBe('=ABTEST.REVENUE_PROB_ABOVE_CONTROL(B2:B4,C2:C4,D2:D4)');
-    const means = metricReadoutBlock('averages', { namesRef: null, refs: { count: 'B2:B4', mean: 'C2:C4', sd: 'D2:D4' }, variants: 3 }, { level: 0.95, currentSrmPValue: 1 }, [], 'A10', 'Out');
+    const means = metricReadoutBlock(
+      'averages',
+      { namesRef: null, refs: { count: 'B2:B4', mean: 'C2:C4', sd: 'D2:D4' }, variants: 3 },
+      { level: 0.95, currentSrmPValue: 1 },
+      [],
+      'A10',
+      'Out',
+    );
     expect(means.block.cells.slice(2, 5).map((row) => row[0])).toEqual(['A', 'B', 'C']);
     expect((means.block.cells[2] as CellValue[])[6]).toBe('=ABTEST.MEAN_LIFT_INTERVAL(B2:B4,C2:C4,D2:D4,B17)');
     expect((means.block.cells[9] as CellValue[])[1]).toBe('=ABTEST.MEAN_DECISION(B2:B4,C2:C4,D2:D4,B18,A12:A14)');
@@ -184,26 +217,50 @@ describe('the metric read-out blocks', () => {
 
   test('errors: too few variants, the conversions kind, too many guardrails, a guardrail column missing', () => {
     const settings = { level: 0.95, currentSrmPValue: 1 };
-    expect(() => metricReadoutBlock('revenue', { ...SOURCE, variants: 1 }, settings, [], 'A1')).toThrow(new RangeError('a read-out needs at least two variants'));
-    expect(() => metricReadoutBlock('conversions', SOURCE, settings, [], 'A1')).toThrow(new RangeError('the conversions read-out is formulas.ts readoutBlock'));
+    expect(() => metricReadoutBlock('revenue', { ...SOURCE, variants: 1 }, settings, [], 'A1')).toThrow(
+      new RangeError('a read-out needs at least two variants'),
+    );
+    expect(() => metricReadoutBlock('conversions', SOURCE, settings, [], 'A1')).toThrow(
+      new RangeError('the conversions read-out is formulas.ts readoutBlock'),
+    );
     const g: Guardrail = { kind: 'conversions', direction: 'noWorse', limit: -0.02, required: 0.95 };
-    expect(() => metricReadoutBlock('revenue', SOURCE, settings, [g, g, g, g], 'A1')).toThrow(new RangeError('at most 3 guardrails'));
+    expect(() => metricReadoutBlock('revenue', SOURCE, settings, [g, g, g, g], 'A1')).toThrow(
+      new RangeError('at most 3 guardrails'),
+    );
     expect(() => metricReadoutBlock('revenue', SOURCE, settings, [{ ...g, kind: 'counts' }], 'A1')).toThrow(
       new RangeError('the guardrail on event rate needs its events column'),
     );
   });
 
   test('guardrail formulas per kind', () => {
-    const refs = { conversions: 'B2:B4', visitors: 'C2:C4', revenue: 'D2:D4', count: 'E2:E4', mean: 'F2:F4', sd: 'G2:G4', events: 'H2:H4', exposure: 'I2:I4' };
+    const refs = {
+      conversions: 'B2:B4',
+      visitors: 'C2:C4',
+      revenue: 'D2:D4',
+      count: 'E2:E4',
+      mean: 'F2:F4',
+      sd: 'G2:G4',
+      events: 'H2:H4',
+      exposure: 'I2:I4',
+    };
     expect(guardrailFormula('conversions', refs, 'Z1')).toBe('=ABTEST.PROB_LIFT_ABOVE(B2:B4,C2:C4,Z1)');
     expect(guardrailFormula('revenue', refs, 'Z1')).toBe('=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B4,C2:C4,D2:D4,Z1)');
-    expect(guardrailFormula('revenue', { ...refs, orderSd: 'J2:J4' }, 'Z1')).toBe('=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B4,C2:C4,D2:D4,Z1,J2:J4)');
+    expect(guardrailFormula('revenue', { ...refs, orderSd: 'J2:J4' }, 'Z1')).toBe(
+      '=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B4,C2:C4,D2:D4,Z1,J2:J4)',
+    );
     expect(guardrailFormula('averages', refs, 'Z1')).toBe('=ABTEST.MEAN_PROB_LIFT_ABOVE(E2:E4,F2:F4,G2:G4,Z1)');
     expect(guardrailFormula('counts', refs, 'Z1')).toBe('=ABTEST.EVENTS_PROB_LIFT_ABOVE(H2:H4,I2:I4,Z1)');
   });
 
   test('the conversions block keeps its layout without guardrails and moves the density table below them', () => {
-    const source = { namesRef: 'A2:A4', visitorsRef: 'C2:C4', conversionsRef: 'B2:B4', sharesRef: null, variants: 3, refs: { revenue: 'D2:D4' } };
+    const source = {
+      namesRef: 'A2:A4',
+      visitorsRef: 'C2:C4',
+      conversionsRef: 'B2:B4',
+      sharesRef: null,
+      variants: 3,
+      refs: { revenue: 'D2:D4' },
+    };
     const settings = { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 61, currentSrmPValue: 1 };
     const plain = readoutBlock(source, settings, 'F1');
     const guarded = readoutBlock(source, settings, 'F1', undefined, [
@@ -214,7 +271,10 @@ describe('the metric read-out blocks', () => {
     expect(guarded.cells.guardrail1).toBe('P3');
     expect(guarded.cells.guardrail1Limit).toBe('G15');
     expect(guarded.cells.guardedDecision).toBe('G17');
-    expect(parseAddress(guarded.cells.liftDensity as string).start.row - parseAddress(plain.cells.liftDensity as string).start.row).toBe(guardrailRows(1) + 1);
+    expect(
+      parseAddress(guarded.cells.liftDensity as string).start.row -
+        parseAddress(plain.cells.liftDensity as string).start.row,
+    ).toBe(guardrailRows(1) + 1);
     expect(guarded.block.area).toEqual(readoutArea(3, 61, 1));
     expect(readoutArea(3, 61, 1)).toEqual({ rowCount: 81, columnCount: 11 });
     expect((guarded.block.cells[2] as CellValue[])[10]).toBe('=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B4,C2:C4,D2:D4,G15)');
@@ -225,10 +285,19 @@ describe('the metric read-out blocks', () => {
  * Evaluates a block's own Excel logic in HyperFormula with every ABTEST result replaced: the expected
  * losses, the guardrail probabilities (blank at the control) and the decision text as constants.
  */
-function guardedDecision(losses: number[], probabilities: number[], direction: Guardrail['direction'], required = 0.95): string {
+function guardedDecision(
+  losses: number[],
+  probabilities: number[],
+  direction: Guardrail['direction'],
+  required = 0.95,
+): string {
   const { block, cells } = metricReadoutBlock(
     'averages',
-    { namesRef: null, refs: { count: 'B2:B4', mean: 'C2:C4', sd: 'D2:D4', events: 'E2:E4', exposure: 'F2:F4' }, variants: 3 },
+    {
+      namesRef: null,
+      refs: { count: 'B2:B4', mean: 'C2:C4', sd: 'D2:D4', events: 'E2:E4', exposure: 'F2:F4' },
+      variants: 3,
+    },
     { level: 0.95, currentSrmPValue: 1 },
     [{ kind: 'counts', direction, limit: direction === 'noWorse' ? -0.02 : 0.05, required }],
     'A1',

@@ -140,7 +140,8 @@ function insertRowsInFormula(formula: string, sheet: string, at: number, count: 
       end.row !== undefined && end.row >= at ? { ...end, row: end.row + count } : end;
     const first = move(token.first);
     const last = token.last ? move(token.last) : undefined;
-    out += formula.slice(from, token.start) + token.sheetText + refEndText(first) + (last ? `:${refEndText(last)}` : '');
+    out +=
+      formula.slice(from, token.start) + token.sheetText + refEndText(first) + (last ? `:${refEndText(last)}` : '');
     from = token.end;
   }
   return out + formula.slice(from);
@@ -283,7 +284,8 @@ export function mockExcel(sheets: string[]): MockExcel {
     for (const chart of charts) {
       if (chart.sheet !== name) continue;
       chart.source = shiftRange(chart.source, at, count);
-      if (chart.position) chart.position = [shiftCell(chart.position[0], at, count), shiftCell(chart.position[1], at, count)];
+      if (chart.position)
+        chart.position = [shiftCell(chart.position[0], at, count), shiftCell(chart.position[1], at, count)];
     }
   };
   /** Range.clear('All'): the cells and their notes go. */
@@ -301,7 +303,9 @@ export function mockExcel(sheets: string[]): MockExcel {
   const copySheetNow = (source: string, name: string): void => {
     const from = real(source);
     if (grid.has(name)) throw officeError('ItemAlreadyExists', `A sheet named ${name} already exists.`);
-    const cells = new Map([...sheetCells(from)].map(([k, cell]) => [k, { ...cell, ...(cell.spill ? { spill: { ...cell.spill } } : {}) }]));
+    const cells = new Map(
+      [...sheetCells(from)].map(([k, cell]) => [k, { ...cell, ...(cell.spill ? { spill: { ...cell.spill } } : {}) }]),
+    );
     const entries = [...grid.entries()];
     const index = entries.findIndex(([n]) => n === from);
     entries.splice(index + 1, 0, [name, cells]);
@@ -311,7 +315,12 @@ export function mockExcel(sheets: string[]): MockExcel {
     notes.set(name, new Map(notes.get(from)));
     layouts.set(name, { ...layouts.get(from) });
     for (const chart of charts.filter((c) => c.sheet === from)) {
-      charts.push({ ...chart, sheet: name, position: chart.position ? [...chart.position] : null, name: `Chart ${charts.length + 1}` });
+      charts.push({
+        ...chart,
+        sheet: name,
+        position: chart.position ? [...chart.position] : null,
+        name: `Chart ${charts.length + 1}`,
+      });
     }
   };
   const renameSheet = (from: string, to: string): void => {
@@ -478,7 +487,8 @@ export function mockExcel(sheets: string[]): MockExcel {
         }),
         clear: (applyTo?: string) => {
           ops.push(() => {
-            if (applyTo !== undefined && applyTo !== 'All') throw officeError('InvalidArgument', `the mock clears All only, not ${applyTo}`);
+            if (applyTo !== undefined && applyTo !== 'All')
+              throw officeError('InvalidArgument', `the mock clears All only, not ${applyTo}`);
             log(`clear ${sheet}!${local}`);
             clearCells(sheet, top, left, rows, columns);
           });
@@ -486,7 +496,10 @@ export function mockExcel(sheets: string[]): MockExcel {
         getSpillingToRangeOrNullObject: () => {
           if (rows !== 1 || columns !== 1) throw officeError('InvalidArgument', 'The range must be a single cell.');
           const extent = exists ? spillExtent(sheet, top, left) : null;
-          const spill = nullable({ address: extent === null ? '' : `${quoteSheet(real(sheet))}!${extent}` }, extent === null);
+          const spill = nullable(
+            { address: extent === null ? '' : `${quoteSheet(real(sheet))}!${extent}` },
+            extent === null,
+          );
           proxies.push(spill);
           return spill;
         },
@@ -561,7 +574,8 @@ export function mockExcel(sheets: string[]): MockExcel {
       if (mustExist && !known()) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
       /** Notes need ExcelApi 1.18: on an older host the call fails at sync, as an unknown API would. */
       const notesOffered = (): void => {
-        if (!supports('ExcelApi', '1.18')) throw officeError('ApiNotFound', 'The API you are trying to use could not be found (Worksheet.notes).');
+        if (!supports('ExcelApi', '1.18'))
+          throw officeError('ApiNotFound', 'The API you are trying to use could not be found (Worksheet.notes).');
       };
       const sheet: OfficeMockObject = nullable(
         {
@@ -577,7 +591,8 @@ export function mockExcel(sheets: string[]): MockExcel {
             );
           },
           getUsedRangeOrNullObject: () => {
-            if (!grid.has(real(name))) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
+            if (!grid.has(real(name)))
+              throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
             let bottom = -1;
             let right = -1;
             for (const [k, cell] of grid.get(real(name)) ?? new Map<string, MockCell>()) {
@@ -721,14 +736,16 @@ export function mockExcel(sheets: string[]): MockExcel {
               return found.value === undefined;
             },
             get content(): string {
-              if (!found.read || found.value === undefined) throw officeError('PropertyNotLoaded', 'Call load and sync first.');
+              if (!found.read || found.value === undefined)
+                throw officeError('PropertyNotLoaded', 'Call load and sync first.');
               return found.value;
             },
             set content(text: string) {
               ops.push(() => {
                 notesOffered();
                 const list = notes.get(real(name));
-                if (list?.get(address) === undefined) throw officeError('ItemNotFound', `There is no note on ${address}.`);
+                if (list?.get(address) === undefined)
+                  throw officeError('ItemNotFound', `There is no note on ${address}.`);
                 log(`note ${real(name)}!${address}`);
                 list.set(address, text);
               });
@@ -742,7 +759,8 @@ export function mockExcel(sheets: string[]): MockExcel {
             notesOffered();
             const list = notes.get(real(name));
             if (list === undefined) throw officeError('ItemNotFound', `The requested resource doesn't exist: ${name}`);
-            if (!/^[A-Z]{1,3}[0-9]+$/.test(address)) throw officeError('InvalidCellAddress', `${address} is not one cell.`);
+            if (!/^[A-Z]{1,3}[0-9]+$/.test(address))
+              throw officeError('InvalidCellAddress', `${address} is not one cell.`);
             if (list.has(address)) throw officeError('InvalidArgument', `The cell ${address} has a note already.`);
             log(`note ${real(name)}!${address}`);
             list.set(address, String(content));
@@ -953,7 +971,15 @@ export function mockExcel(sheets: string[]): MockExcel {
       return { ...(layouts.get(real(sheet)) ?? {}) };
     },
     addChart(sheet, source, from, to, title) {
-      charts.push({ sheet, type: 'Line', source, seriesBy: 'Columns', title, position: [from, to], name: `Chart ${charts.length + 1}` });
+      charts.push({
+        sheet,
+        type: 'Line',
+        source,
+        seriesBy: 'Columns',
+        title,
+        position: [from, to],
+        name: `Chart ${charts.length + 1}`,
+      });
     },
     columnWidth(sheet, column) {
       return widths.get(sheet)?.get(parseAddress(`${column}1`).start.column) ?? DEFAULT_WIDTH;

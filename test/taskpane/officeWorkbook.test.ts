@@ -148,7 +148,9 @@ describe('writing a block', () => {
     expect(excel.cell('Plan', 'C3').formula).toBe(0.04);
     expect(excel.cell('Plan', 'C3').numberFormat).toBe('0.00%');
     expect(cells.visitorsPerVariant).toBe('C12');
-    expect(excel.cell('Plan', cells.visitorsPerVariant as string).formula).toBe('=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)');
+    expect(excel.cell('Plan', cells.visitorsPerVariant as string).formula).toBe(
+      '=ABTEST.VISITORS_NEEDED(C3,C4,C11,C6)',
+    );
     expect(excel.cell('Plan', cells.days as string).formula).toBe('=7*C14');
     // labels are constants, results are formulas: no pasted numbers
     const column = excel.formulas('Plan', 'C11:C16').map((row) => row[0]);
@@ -381,7 +383,16 @@ describe('writing a block', () => {
 
   test('text written back stays text: the apostrophe where Excel would read it as something else', () => {
     const texts = ['00123', '1/2', '=A1', '-note', '12%', 'TRUE', 'Green button', '1e5'];
-    expect(texts.map((t) => keepText(t, 'General'))).toEqual(["'00123", "'1/2", "'=A1", "'-note", "'12%", "'TRUE", 'Green button', "'1e5"]);
+    expect(texts.map((t) => keepText(t, 'General'))).toEqual([
+      "'00123",
+      "'1/2",
+      "'=A1",
+      "'-note",
+      "'12%",
+      "'TRUE",
+      'Green button',
+      "'1e5",
+    ]);
     expect(keepText('00123', '@')).toBe('00123');
   });
 

@@ -191,7 +191,7 @@ describe('many variants: the threshold each challenger must reach', () => {
     expect(DUNNETT_MANY_TO_ONE.explain(0.95, 2)).toBe('');
     expect(DUNNETT_MANY_TO_ONE.explain(0.95, 5)).toBe(
       'With 4 challengers, each one gets a chance to win by luck. To keep the overall chance of a false winner at ' +
-        '5.00%, each challenger must reach P(beats control) ≥ 98.5% (THRESHOLD_FOR_VARIANTS: Dunnett\'s many-to-one ' +
+        "5.00%, each challenger must reach P(beats control) ≥ 98.5% (THRESHOLD_FOR_VARIANTS: Dunnett's many-to-one " +
         'threshold, which counts that all challengers are compared with the same control). That is why each ' +
         'variant needs more visitors than in a test of two.',
     );
@@ -279,7 +279,10 @@ describe('power curve', () => {
     });
     expect(events).toEqual(['pause', 'point 1/3 (1)', 'pause', 'point 2/3 (2)', 'pause', 'point 3/3 (3)']);
     expect(points).toEqual(
-      sizes.map((n) => ({ visitorsPerVariant: n, power: decisionPower(0.1, 0.5, n, DUNNETT_MANY_TO_ONE.perChallenger(0.95, 3), UNIFORM_PRIOR) })),
+      sizes.map((n) => ({
+        visitorsPerVariant: n,
+        power: decisionPower(0.1, 0.5, n, DUNNETT_MANY_TO_ONE.perChallenger(0.95, 3), UNIFORM_PRIOR),
+      })),
     );
     // more visitors, more power (a property of the design, common practice)
     expect((points[2] as PowerPoint).power).toBeGreaterThan((points[0] as PowerPoint).power);

@@ -36,12 +36,14 @@ describe('summarizePrior', () => {
     expect(summarizePrior({ alpha: 20, beta: 480 }, 1999).weight).toBe('noticeable');
     expect(summarizePrior({ alpha: 20, beta: 480 }, 2000).weight).toBe('light');
     expect(PRIOR_WEIGHT_RULE).toContain('alpha + beta');
-    expect(() => summarizePrior({ alpha: 1, beta: 1 }, 0)).toThrow(new RangeError('the planned visitors per variant must be a positive number'));
+    expect(() => summarizePrior({ alpha: 1, beta: 1 }, 0)).toThrow(
+      new RangeError('the planned visitors per variant must be a positive number'),
+    );
   });
 });
 
 describe('priorDensityCurve', () => {
-  test('spans scipy\'s 0.05%–99.95% quantiles and gives scipy beta.pdf values', () => {
+  test("spans scipy's 0.05%–99.95% quantiles and gives scipy beta.pdf values", () => {
     const want = ref.prior_summary_20_480 as Record<string, number>;
     const curve = priorDensityCurve({ alpha: 20, beta: 480 }, 121);
     expect(curve.x).toHaveLength(121);
@@ -59,11 +61,14 @@ describe('priorDensityCurve', () => {
     const i = curve.x.findIndex((x) => x >= 0.04);
     const x0 = curve.x[i - 1] as number;
     const x1 = curve.x[i] as number;
-    const y = (curve.y[i - 1] as number) + (((curve.y[i] as number) - (curve.y[i - 1] as number)) * (0.04 - x0)) / (x1 - x0);
+    const y =
+      (curve.y[i - 1] as number) + (((curve.y[i] as number) - (curve.y[i - 1] as number)) * (0.04 - x0)) / (x1 - x0);
     expect(rel(y, want['pdf_at_0.04'] as number)).toBeLessThan(1e-3); // linear interpolation between grid points
   });
 
   test('refuses fewer than two points', () => {
-    expect(() => priorDensityCurve({ alpha: 1, beta: 1 }, 1)).toThrow(new RangeError('a curve needs at least 2 points'));
+    expect(() => priorDensityCurve({ alpha: 1, beta: 1 }, 1)).toThrow(
+      new RangeError('a curve needs at least 2 points'),
+    );
   });
 });

@@ -9,11 +9,25 @@
  * values in them are placeholders the mock carries, not statistics (the mock does not calculate).
  */
 jest.mock('office-addin-manifest', () => ({
-  OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', PowerPoint: 'powerpoint', Project: 'project', Word: 'word' },
+  OfficeApp: {
+    Excel: 'excel',
+    OneNote: 'onenote',
+    Outlook: 'outlook',
+    PowerPoint: 'powerpoint',
+    Project: 'project',
+    Word: 'word',
+  },
 }));
 
 import { frozenHeaderLine, howComputedNote } from '../../cli/core/frozenCopy';
-import { copyEdits, copyProblem, describeCopy, planCopy, readsOnlyInside, HEADER_ROWS } from '../../taskpane/logic/shareCopy';
+import {
+  copyEdits,
+  copyProblem,
+  describeCopy,
+  planCopy,
+  readsOnlyInside,
+  HEADER_ROWS,
+} from '../../taskpane/logic/shareCopy';
 import { parseAddress } from '../../taskpane/workbook/address';
 import { createOfficeWorkbook, outsideOf } from '../../taskpane/workbook/officeWorkbook';
 import type { CopyRequest, SheetScan, Workbook } from '../../taskpane/workbook/workbook';
@@ -71,14 +85,24 @@ function request(workbook: Workbook, shown: SheetScan, scope: Parameters<typeof 
 /** Everything of one sheet in a mock snapshot (cells, widths, its notes and charts). */
 function sheetState(excel: MockExcel, sheet: string): string {
   const all = JSON.parse(excel.snapshot()) as { sheets: Record<string, unknown>; charts: { sheet: string }[] };
-  return JSON.stringify({ cells: all.sheets[sheet], notes: excel.notes(sheet), charts: all.charts.filter((c) => c.sheet === sheet) });
+  return JSON.stringify({
+    cells: all.sheets[sheet],
+    notes: excel.notes(sheet),
+    charts: all.charts.filter((c) => c.sheet === sheet),
+  });
 }
 
 describe('the plan of a copy', () => {
   test('a scan finds every formula cell with the cells its result fills (the whole spill) and the values shown', async () => {
     const excel = demoSheet();
     const scan = await workbookOn(excel).scanSheet(SHEET);
-    expect(scan).toMatchObject({ sheet: SHEET, range: 'A1:G8', charts: 2, tooLarge: false, sheetNames: [SHEET, 'Plan'] });
+    expect(scan).toMatchObject({
+      sheet: SHEET,
+      range: 'A1:G8',
+      charts: 2,
+      tooLarge: false,
+      sheetNames: [SHEET, 'Plan'],
+    });
     expect(scan.formulaCells.map((c) => [c.address, c.result])).toEqual([
       ['E2', 'E2:E4'],
       ['F2', 'F2:G4'],
@@ -96,7 +120,13 @@ describe('the plan of a copy', () => {
   test('the whole sheet: every ABTEST result and only those; other formulas stay formulas', async () => {
     const scan = await workbookOn(demoSheet()).scanSheet(SHEET);
     const plan = planCopy(scan, { kind: 'sheet' });
-    expect(plan).toMatchObject({ source: 'A1:G8', results: 3, widened: false, newSheet: 'Checkout test (shared)', notReady: [] });
+    expect(plan).toMatchObject({
+      source: 'A1:G8',
+      results: 3,
+      widened: false,
+      newSheet: 'Checkout test (shared)',
+      notReady: [],
+    });
     expect(plan.frozen.map((c) => [c.address, c.why])).toEqual([
       ['E2', 'result'],
       ['F2', 'result'],
@@ -130,16 +160,29 @@ describe('the plan of a copy', () => {
   });
 
   test('results still being computed, an empty sheet, a sheet without results and a huge sheet stop the copy with a reason', () => {
-    const base: SheetScan = { sheet: SHEET, range: 'A1:B2', formulaCells: [], charts: 0, sheetNames: [SHEET], tooLarge: false };
+    const base: SheetScan = {
+      sheet: SHEET,
+      range: 'A1:B2',
+      formulaCells: [],
+      charts: 0,
+      sheetNames: [SHEET],
+      tooLarge: false,
+    };
     const busy: SheetScan = {
       ...base,
-      formulaCells: [{ address: 'B1', formula: '=ABTEST.PROB_HIGHEST(A1:A2,B1:B2)', result: 'B1:B2', values: [['#BUSY!'], [0.3]] }],
+      formulaCells: [
+        { address: 'B1', formula: '=ABTEST.PROB_HIGHEST(A1:A2,B1:B2)', result: 'B1:B2', values: [['#BUSY!'], [0.3]] },
+      ],
     };
     expect(copyProblem(planCopy(busy, { kind: 'sheet' }))).toBe(
       'a result is still being computed (B1); wait until they show numbers, then make the copy',
     );
-    expect(copyProblem(planCopy({ ...base, range: '' }, { kind: 'sheet' }))).toBe('there is nothing on "Checkout test" to copy');
-    expect(copyProblem(planCopy(base, { kind: 'sheet' }))).toBe('"Checkout test" holds no ABTEST result, so there is nothing to freeze');
+    expect(copyProblem(planCopy({ ...base, range: '' }, { kind: 'sheet' }))).toBe(
+      'there is nothing on "Checkout test" to copy',
+    );
+    expect(copyProblem(planCopy(base, { kind: 'sheet' }))).toBe(
+      '"Checkout test" holds no ABTEST result, so there is nothing to freeze',
+    );
     expect(copyProblem(planCopy(base, { kind: 'cells', range: 'A1' }))).toBe(
       'the selected cells (A1) hold no ABTEST result, so there is nothing to freeze; select a read-out',
     );
@@ -198,7 +241,9 @@ describe('the copy, made through the workbook layer', () => {
       [0.0447, 0.041, 0.0487],
       [0.0413, 0.0376, 0.0452],
     ]);
-    expect(excel.formulas(copy, 'E7')).toEqual([['Choose Orange button: its expected loss 0.0012% is within the 0.040% allowed']]);
+    expect(excel.formulas(copy, 'E7')).toEqual([
+      ['Choose Orange button: its expected loss 0.0012% is within the 0.040% allowed'],
+    ]);
     expect(excel.cell(copy, 'E3').numberFormat).toBe('0.00%');
     // Other formulas stay live, their references moved with the header row.
     expect(excel.formulas(copy, 'E8:E9')).toEqual([['=$A$4'], ['=SUM(B3:B5)']]);
@@ -234,7 +279,12 @@ describe('the copy, made through the workbook layer', () => {
     const outcome = await workbook.copySheet(request(workbook, shown, { kind: 'cells', range: 'E1:M12' }));
     expect(outcome).toMatchObject({ kind: 'written', chartsKept: 1, chartsRemoved: 1 });
     const copy = 'Checkout test (shared)';
-    expect(excel.formulas(copy, 'A2:C5').flat().every((v) => v === '')).toBe(true);
+    expect(
+      excel
+        .formulas(copy, 'A2:C5')
+        .flat()
+        .every((v) => v === ''),
+    ).toBe(true);
     expect(excel.formulas(copy, 'E8')).toEqual([['Orange button']]);
     expect(excel.notes(copy).E8).toBe(
       'Was =$A$4: it read cells left out of this copy, so it keeps the value it showed.\nFrozen 2025-06-30 14:05 UTC.',
@@ -261,10 +311,14 @@ describe('the copy, made through the workbook layer', () => {
     expect(excel.writeLog.some((line) => line.startsWith('note '))).toBe(false);
     expect(excel.formulas(copy, 'H1')).toEqual([['How computed']]);
     expect(excel.formulas(copy, 'H3')).toEqual([
-      ['E3: =ABTEST.POSTERIOR_MEAN(C3:C5,B3:B5) (filled E3:E5); F3: =ABTEST.RATE_INTERVAL(C3:C5,B3:B5,0.95) (filled F3:G5)'],
+      [
+        'E3: =ABTEST.POSTERIOR_MEAN(C3:C5,B3:B5) (filled E3:E5); F3: =ABTEST.RATE_INTERVAL(C3:C5,B3:B5,0.95) (filled F3:G5)',
+      ],
     ]);
     expect(excel.formulas(copy, 'H7')).toEqual([['E7: =ABTEST.DECISION(C3:C5,B3:B5,,A3:A5)']]);
-    expect(String(excel.formulas(copy, 'A1')[0]?.[0])).toContain('each keeps the formula that computed it in column H (How computed).');
+    expect(String(excel.formulas(copy, 'A1')[0]?.[0])).toContain(
+      'each keeps the formula that computed it in column H (How computed).',
+    );
     expect(excel.formulas(copy, 'E3:E5')).toEqual([[0.0396], [0.0447], [0.0413]]);
   });
 
@@ -277,7 +331,8 @@ describe('the copy, made through the workbook layer', () => {
     const asked = request(workbook, shown, { kind: 'sheet' });
     const outcome = await workbook.copySheet({
       ...asked,
-      edits: (scan, copyFormula) => copyEdits(planCopy(scan, { kind: 'sheet' }), { frozenAt: AT, notes: true }, copyFormula),
+      edits: (scan, copyFormula) =>
+        copyEdits(planCopy(scan, { kind: 'sheet' }), { frozenAt: AT, notes: true }, copyFormula),
     });
     expect(outcome).toMatchObject({ kind: 'failed', code: 'NotSupported', restored: true, unrestored: [] });
     expect((outcome as { message: string }).message).toBe(
@@ -286,26 +341,31 @@ describe('the copy, made through the workbook layer', () => {
     expect(excel.snapshot()).toBe(before);
   });
 
-  test.each([true, false, 3])('a copy that fails part-way (partial: %s) is deleted again and checked; the workbook is as it was', async (partial) => {
-    const excel = demoSheet();
-    const workbook = workbookOn(excel);
-    const shown = await workbook.scanSheet(SHEET);
-    const before = excel.snapshot();
-    // Scan: 3 syncs; the copy: 2 (the copy, then reading it); the edits: the first is the writes.
-    excel.failures = [{ call: excel.syncCalls + 6, code: 'GeneralException', message: 'The request failed.', partial }];
-    const outcome = await workbook.copySheet(request(workbook, shown, { kind: 'sheet' }));
-    expect(outcome).toEqual({
-      kind: 'failed',
-      code: 'GeneralException',
-      message:
-        'the copy could not be made (The request failed.); no part of it is left in the workbook (checked), and "Checkout test" was not touched',
-      restored: true,
-      unrestored: [],
-    });
-    expect(excel.partialSnapshots).toHaveLength(partial === false ? 0 : 1);
-    expect(excel.snapshot()).toBe(before);
-    expect(excel.sheetNames()).toEqual([SHEET, 'Plan']);
-  });
+  test.each([true, false, 3])(
+    'a copy that fails part-way (partial: %s) is deleted again and checked; the workbook is as it was',
+    async (partial) => {
+      const excel = demoSheet();
+      const workbook = workbookOn(excel);
+      const shown = await workbook.scanSheet(SHEET);
+      const before = excel.snapshot();
+      // Scan: 3 syncs; the copy: 2 (the copy, then reading it); the edits: the first is the writes.
+      excel.failures = [
+        { call: excel.syncCalls + 6, code: 'GeneralException', message: 'The request failed.', partial },
+      ];
+      const outcome = await workbook.copySheet(request(workbook, shown, { kind: 'sheet' }));
+      expect(outcome).toEqual({
+        kind: 'failed',
+        code: 'GeneralException',
+        message:
+          'the copy could not be made (The request failed.); no part of it is left in the workbook (checked), and "Checkout test" was not touched',
+        restored: true,
+        unrestored: [],
+      });
+      expect(excel.partialSnapshots).toHaveLength(partial === false ? 0 : 1);
+      expect(excel.snapshot()).toBe(before);
+      expect(excel.sheetNames()).toEqual([SHEET, 'Plan']);
+    },
+  );
 
   test('a copy that fails before it is renamed is found by Excel’s own copy name and deleted', async () => {
     const excel = demoSheet();
@@ -361,11 +421,16 @@ describe('the copy, made through the workbook layer', () => {
     expect(busy).toMatchObject({
       kind: 'failed',
       code: 'NotReady',
-      message: 'a result is still being computed (E6); wait until they show numbers, then make the copy; nothing was copied',
+      message:
+        'a result is still being computed (E6); wait until they show numbers, then make the copy; nothing was copied',
     });
     excel.cell(SHEET, 'E6').value = 'Choose Orange button';
     const taken = await workbook.copySheet({ ...request(workbook, shown, { kind: 'sheet' }), newSheet: 'plan' });
-    expect(taken).toMatchObject({ kind: 'failed', code: 'InvalidArgument', message: 'a sheet named "plan" exists already; nothing was copied' });
+    expect(taken).toMatchObject({
+      kind: 'failed',
+      code: 'InvalidArgument',
+      message: 'a sheet named "plan" exists already; nothing was copied',
+    });
     excel.apiVersion = '1.11';
     const old = await workbook.copySheet(request(workbook, shown, { kind: 'sheet' }));
     expect(old).toMatchObject({ kind: 'failed', code: 'NotSupported', restored: true });
@@ -382,7 +447,10 @@ describe('the copy, made through the workbook layer', () => {
       workbook.copySheet(request(workbook, shown, { kind: 'sheet' })),
     ]);
     expect(first.kind).toBe('written');
-    expect(second).toMatchObject({ kind: 'failed', message: 'a sheet named "Checkout test (shared)" exists already; nothing was copied' });
+    expect(second).toMatchObject({
+      kind: 'failed',
+      message: 'a sheet named "Checkout test (shared)" exists already; nothing was copied',
+    });
     expect(excel.sheetNames()).toEqual([SHEET, 'Checkout test (shared)', 'Plan']);
   });
 });
@@ -432,7 +500,9 @@ describe('a printed page (writeBlock on a new sheet)', () => {
   test('a summary sheet whose write fails is deleted again with its page layout', async () => {
     const excel = mockExcel(['Sheet1']);
     const before = excel.snapshot();
-    excel.failures = [{ call: excel.syncCalls + 2, code: 'GeneralException', message: 'The request failed.', partial: true }];
+    excel.failures = [
+      { call: excel.syncCalls + 2, code: 'GeneralException', message: 'The request failed.', partial: true },
+    ];
     const outcome = await workbookOn(excel).writeBlock({
       sheet: 'Summary',
       newSheet: true,

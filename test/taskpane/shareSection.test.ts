@@ -11,7 +11,14 @@
  * invented; the mock does not calculate, so the copy's values are placeholders the mock carries.
  */
 jest.mock('office-addin-manifest', () => ({
-  OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', PowerPoint: 'powerpoint', Project: 'project', Word: 'word' },
+  OfficeApp: {
+    Excel: 'excel',
+    OneNote: 'onenote',
+    Outlook: 'outlook',
+    PowerPoint: 'powerpoint',
+    Project: 'project',
+    Word: 'word',
+  },
 }));
 
 import * as fs from 'fs';
@@ -60,7 +67,8 @@ function mount(excel: MockExcel): HTMLElement {
 
 const text = (root: HTMLElement, selector: string): string => root.querySelector(selector)?.textContent ?? '';
 const click = (root: HTMLElement, selector: string): void => (root.querySelector(selector) as HTMLElement).click();
-const disabled = (root: HTMLElement, selector: string): boolean => root.querySelector(selector)?.hasAttribute('disabled') ?? false;
+const disabled = (root: HTMLElement, selector: string): boolean =>
+  root.querySelector(selector)?.hasAttribute('disabled') ?? false;
 
 describe('Share section: the shareable copy', () => {
   test('shows the plan first, then copies the whole sheet: results become values with their formulas in notes; the source stays live', async () => {
@@ -80,7 +88,9 @@ describe('Share section: the shareable copy', () => {
     click(root, '#share-copy');
     await settle();
     expect(text(root, '#share-status')).toMatch(
-      new RegExp(`^Made "${COPY.replace(/[()]/g, '\\$&')}" \\('Checkout test \\(shared\\)'!A1:E9\\): 2 ABTEST results are plain values, the formulas in a note on each\\. 1 chart kept\\.`),
+      new RegExp(
+        `^Made "${COPY.replace(/[()]/g, '\\$&')}" \\('Checkout test \\(shared\\)'!A1:E9\\): 2 ABTEST results are plain values, the formulas in a note on each\\. 1 chart kept\\.`,
+      ),
     );
     expect(excel.sheetNames()).toEqual([SHEET, COPY, 'Plan']);
     // One header row on top: E2:E4 of the source is E3:E5 of the copy.
@@ -147,7 +157,9 @@ describe('Share section: the shareable copy', () => {
     (root.querySelector('#share-scope') as HTMLElement & { value?: string }).value = 'cells';
     click(root, '#share-look');
     await settle();
-    expect(text(root, '#share-status')).toBe('Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.');
+    expect(text(root, '#share-status')).toBe(
+      'Select the cells of a read-out, not whole rows or columns, or choose the whole sheet.',
+    );
     expect(disabled(root, '#share-copy')).toBe(true);
     expect(excel.sheetNames()).toEqual([SHEET, 'Plan']);
     // The whole sheet needs no cells selected: it is the active sheet.
@@ -184,7 +196,9 @@ describe('Share section: the shareable copy', () => {
     const root = mount(excel);
     click(root, '#share-look');
     await settle();
-    expect(text(root, '#share-problem')).toBe('Cannot copy: "Plan" holds no ABTEST result, so there is nothing to freeze.');
+    expect(text(root, '#share-problem')).toBe(
+      'Cannot copy: "Plan" holds no ABTEST result, so there is nothing to freeze.',
+    );
     expect(disabled(root, '#share-copy')).toBe(true);
     click(root, '#share-copy');
     await settle();
@@ -241,13 +255,20 @@ describe('Share section: the summary for people who decide', () => {
     click(root, '#summary-write');
     await settle();
     const summary = 'Sign-up test summary';
-    expect(text(root, '#summary-status')).toMatch(/^Wrote the summary to 'Sign-up test summary'!A1:G\d+, set to print on one page\. It recommends a version\./);
+    expect(text(root, '#summary-status')).toMatch(
+      /^Wrote the summary to 'Sign-up test summary'!A1:G\d+, set to print on one page\. It recommends a version\./,
+    );
     expect(excel.sheetNames()).toEqual(['Sign-up test', summary]);
     expect(excel.formulas(summary, 'A1')).toEqual([['Summary for decision-makers: Sign-up form']]);
     // Find the table rows by the versions' names; P(best) in column E, the lift range in F:G (from, to).
     const column = excel.formulas(summary, 'A1:G60');
     ref.names.forEach((_, i) => {
-      const row = column.find((r) => typeof r[0] === 'string' && (r[0] as string).startsWith(i === 0 ? `${ref.names[0]}` : (ref.names[i] as string)) && typeof r[1] === 'number');
+      const row = column.find(
+        (r) =>
+          typeof r[0] === 'string' &&
+          (r[0] as string).startsWith(i === 0 ? `${ref.names[0]}` : (ref.names[i] as string)) &&
+          typeof r[1] === 'number',
+      );
       expect(row).toBeDefined();
       const cells = row as unknown[];
       expect(cells.slice(1, 3)).toEqual([ref.visitors[i], ref.conversions[i]]);
@@ -259,11 +280,17 @@ describe('Share section: the summary for people who decide', () => {
       }
     });
     // The running text, its wrapped lines joined again.
-    const words = column.map((r) => String(r[0])).join(' ').replace(/\s+/g, ' ');
+    const words = column
+      .map((r) => String(r[0]))
+      .join(' ')
+      .replace(/\s+/g, ' ');
     expect(words).toContain('Go with Form with photo.');
     expect(words).toContain('over 21 days');
     expect(words).toContain('have a qualified statistician');
-    expect(excel.pageLayout(summary)).toMatchObject({ orientation: 'Portrait', zoom: { horizontalFitToPages: 1, verticalFitToPages: 1 } });
+    expect(excel.pageLayout(summary)).toMatchObject({
+      orientation: 'Portrait',
+      zoom: { horizontalFitToPages: 1, verticalFitToPages: 1 },
+    });
     // The source table is untouched.
     expect(excel.formulas('Sign-up test', 'A2:C2')).toEqual([['Short form', 9840, 402]]);
   });

@@ -79,7 +79,9 @@ describe('the numbers are the core’s, and the core agrees with scipy', () => {
       const ref = REFERENCE[name] as ReferenceCase;
       const numbers = summaryNumbers(inputOf(name));
       numbers.probBest.forEach((p, i) => expect(Math.abs(p - (ref.prob_best[i] as number))).toBeLessThan(1e-9));
-      numbers.probAboveControl.forEach((p, i) => expect(Math.abs(p - (ref.prob_above_control[i] as number))).toBeLessThan(1e-9));
+      numbers.probAboveControl.forEach((p, i) =>
+        expect(Math.abs(p - (ref.prob_above_control[i] as number))).toBeLessThan(1e-9),
+      );
       numbers.lift.forEach((lift, i) => {
         const [lower, median, upper] = ref.lift[i] as [number, number, number];
         expect(Math.abs(lift.lower - lower)).toBeLessThan(1e-8);
@@ -97,7 +99,9 @@ describe('the numbers are the core’s, and the core agrees with scipy', () => {
       else {
         expect(numbers.flat?.decision.index).toBe(ref.flat.decision.index);
         expect(numbers.flat?.decision.choose).toBe(ref.flat.decision.choose);
-        numbers.flat?.probBest.forEach((p, i) => expect(Math.abs(p - (ref.flat?.prob_best[i] as number))).toBeLessThan(1e-9));
+        numbers.flat?.probBest.forEach((p, i) =>
+          expect(Math.abs(p - (ref.flat?.prob_best[i] as number))).toBeLessThan(1e-9),
+        );
       }
     });
   }
@@ -108,14 +112,18 @@ describe('the words say the numbers', () => {
     const ref = REFERENCE.signup as ReferenceCase;
     const text = prose(inputOf('signup'));
     const leader = ref.names[ref.decision.index] as string;
-    expect(text).toContain('Sign-up form: 3 versions, Short form (control), Form with photo and Two-step form, shown to 29,625 visitors in all over 21 days.');
+    expect(text).toContain(
+      'Sign-up form: 3 versions, Short form (control), Form with photo and Two-step form, shown to 29,625 visitors in all over 21 days.',
+    );
     expect(text).toContain(`Go with ${leader}.`);
     // 0.8666… → "an 87% chance"; loss 0.000187 → "0.0187 percentage points"; allowed 1% of the control's mean.
     expect(chanceText(ref.prob_best[1] as number)).toBe('87%');
     expect(text).toContain(`Why: ${leader} has an 87% chance of the highest conversion rate.`);
     expect(formatPercent(ref.decision.loss)).toBe('0.0187%');
     expect(formatPercent(ref.decision.max_loss)).toBe('0.0409%');
-    expect(text).toContain('gives up 0.0187 percentage points of conversion rate on average (its expected loss), within the 0.0409 percentage points accepted.');
+    expect(text).toContain(
+      'gives up 0.0187 percentage points of conversion rate on average (its expected loss), within the 0.0409 percentage points accepted.',
+    );
     ref.names.slice(1).forEach((version, i) => {
       const [lower, median, upper] = ref.lift[i] as [number, number, number];
       expect(text).toContain(
@@ -124,20 +132,26 @@ describe('the words say the numbers', () => {
       );
     });
     expect(signedPercent((ref.lift[0] as number[])[0] as number)).toBe('−1.4%');
-    expect(text).toContain('Form with photo: most likely +12.4%, plausibly from −1.4% to +28.1%; 87% chance of being best.');
-    expect(text).toContain('There is a 95% probability that the true lift lies in the range shown (a credible interval).');
+    expect(text).toContain(
+      'Form with photo: most likely +12.4%, plausibly from −1.4% to +28.1%; 87% chance of being best.',
+    );
+    expect(text).toContain(
+      'There is a 95% probability that the true lift lies in the range shown (a credible interval).',
+    );
     expect(text).toContain('Visitors were split as planned (equal shares; split check p-value 0.88,');
-    expect(text).toContain('With 3 versions compared, the leader\'s lead is partly luck');
+    expect(text).toContain("With 3 versions compared, the leader's lead is partly luck");
     expect(text).not.toContain('prior belief');
     expect(text).toContain('No guardrails were set for this test.');
     expect(text).toContain('have a qualified statistician review it before acting.');
     expect(text).toContain('stopped early because it looked good, the chances above are too optimistic.');
-    expect(text).toContain('Prepared 2025-07-04 09:30 UTC by Lift Ledger from \'Sign-up test\'!A1:C4.');
+    expect(text).toContain("Prepared 2025-07-04 09:30 UTC by Lift Ledger from 'Sign-up test'!A1:C4.");
   });
 
   test('the table holds the values themselves: visitors, conversions, observed rate, chance of being best, lift range', () => {
     const ref = REFERENCE.signup as ReferenceCase;
-    const rows = summaryLines(inputOf('signup'), summaryNumbers(inputOf('signup'))).filter((l) => l.kind === 'tableRow');
+    const rows = summaryLines(inputOf('signup'), summaryNumbers(inputOf('signup'))).filter(
+      (l) => l.kind === 'tableRow',
+    );
     expect(rows.map((r) => r.cells.slice(0, 3))).toEqual([
       ['Short form (control)', 9840, 402],
       ['Form with photo', 9910, 455],
@@ -151,7 +165,15 @@ describe('the words say the numbers', () => {
         expect(Math.abs((row.cells[5] as number) - (ref.lift[i - 1] as number[])[0]!)).toBeLessThan(1e-8);
         expect(Math.abs((row.cells[6] as number) - (ref.lift[i - 1] as number[])[2]!)).toBeLessThan(1e-8);
       }
-      expect(row.formats).toEqual([null, '#,##0', '#,##0', '0.00%', '0.0%', i === 0 ? null : '0.0%', i === 0 ? null : '0.0%']);
+      expect(row.formats).toEqual([
+        null,
+        '#,##0',
+        '#,##0',
+        '0.00%',
+        '0.0%',
+        i === 0 ? null : '0.0%',
+        i === 0 ? null : '0.0%',
+      ]);
     });
   });
 
@@ -160,7 +182,9 @@ describe('the words say the numbers', () => {
     const input = inputOf('banner', { title: 'Home page banner', days: 14, dates: '3 to 16 March' });
     const lines = summaryLines(input, summaryNumbers(input));
     const text = prose(input);
-    expect(text).toContain('2 versions, Old banner (control) and New banner, shown to 10,000 visitors in all over 14 days (3 to 16 March).');
+    expect(text).toContain(
+      '2 versions, Old banner (control) and New banner, shown to 10,000 visitors in all over 14 days (3 to 16 March).',
+    );
     expect(ref.srm_pvalue).toBeLessThan(0.001);
     expect(text).toContain(
       `The split looks broken: the visitors per version are far from the planned shares (p-value ${ref.srm_pvalue.toExponential(1)}, below 0.001).`,
@@ -197,15 +221,26 @@ describe('the words say the numbers', () => {
       ],
     });
     const lines = summaryLines(input, summaryNumbers(input));
-    expect(prose(input)).toContain('Revenue per visitor, Form with photo, no worse than −2.0%: 97% chance it holds; passes.');
+    expect(prose(input)).toContain(
+      'Revenue per visitor, Form with photo, no worse than −2.0%: 97% chance it holds; passes.',
+    );
     const failing = lines.find((l) => String(l.cells[0]).startsWith('Refund rate'));
-    expect(failing).toEqual({ kind: 'warning', cells: ['Refund rate, Form with photo, no worse than −5.0%: 41% chance it holds; does not pass.'] });
+    expect(failing).toEqual({
+      kind: 'warning',
+      cells: ['Refund rate, Form with photo, no worse than −5.0%: 41% chance it holds; does not pass.'],
+    });
     expect(prose(input)).not.toContain('No guardrails were set');
   });
 
   test('the control as the safe choice is said as keeping it', () => {
     // Invented: the challenger clearly worse.
-    const input = inputOf('signup', { names: ['Current page', 'New page'], visitors: [20000, 20000], conversions: [900, 700], shares: null, prior: UNIFORM_PRIOR });
+    const input = inputOf('signup', {
+      names: ['Current page', 'New page'],
+      visitors: [20000, 20000],
+      conversions: [900, 700],
+      shares: null,
+      prior: UNIFORM_PRIOR,
+    });
     expect(prose(input)).toContain('Keep Current page (control): no other version did better.');
   });
 });

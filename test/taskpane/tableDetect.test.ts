@@ -314,7 +314,13 @@ describe('cells that are not numbers, weak guesses and large selections', () => 
 test('a table without names calls its variants A … Z, AA, AB by position (the helper DECISION uses)', () => {
   const rows: (string | number)[][] = [['Visitors', 'Conversions']];
   for (let i = 0; i < 28; i += 1) rows.push([1000 + i, 10 + i]);
-  const checked = checkTable(rows, { hasHeader: true, namesColumn: null, visitorsColumn: 0, conversionsColumn: 1, sharesColumn: null });
+  const checked = checkTable(rows, {
+    hasHeader: true,
+    namesColumn: null,
+    visitorsColumn: 0,
+    conversionsColumn: 1,
+    sharesColumn: null,
+  });
   if (!checked.ok) throw new Error(checked.problems.join('; '));
   expect([0, 1, 25, 26, 27].map((i) => checked.names[i])).toEqual(['A', 'B', 'Z', 'AA', 'AB']);
 });

@@ -8,7 +8,14 @@
  * browser flows (test/browser/panel*.test.ts) cover the real elements.
  */
 jest.mock('office-addin-manifest', () => ({
-  OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', PowerPoint: 'powerpoint', Project: 'project', Word: 'word' },
+  OfficeApp: {
+    Excel: 'excel',
+    OneNote: 'onenote',
+    Outlook: 'outlook',
+    PowerPoint: 'powerpoint',
+    Project: 'project',
+    Word: 'word',
+  },
 }));
 
 import { createContext, writeAsking } from '../../taskpane/view/context';
@@ -37,9 +44,16 @@ describe('writeAsking', () => {
     const workbook = createOfficeWorkbook(excel.run);
     const status = document.createElement('div');
     document.body.append(status);
-    const pending = writeAsking(workbook, priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, 'A1', 'Sheet1'), status, 'the prior');
+    const pending = writeAsking(
+      workbook,
+      priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, 'A1', 'Sheet1'),
+      status,
+      'the prior',
+    );
     await settle();
-    expect(status.textContent).toBe('Sheet1!A1:B1 is not empty (B1). Write the prior over it? Its current contents will be replaced.OverwriteCancel');
+    expect(status.textContent).toBe(
+      'Sheet1!A1:B1 is not empty (B1). Write the prior over it? Its current contents will be replaced.OverwriteCancel',
+    );
     expect(excel.cell('Sheet1', 'A1').formula).toBe('');
     (status.querySelector('#confirm-overwrite') as HTMLElement).click();
     await expect(pending).resolves.toEqual({ kind: 'written', address: 'Sheet1!A1:B1' });
@@ -52,7 +66,12 @@ describe('writeAsking', () => {
     excel.set('Sheet1', 'A1', [['keep']]);
     const workbook = createOfficeWorkbook(excel.run);
     const status = document.createElement('div');
-    const pending = writeAsking(workbook, priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, 'A1', 'Sheet1'), status, 'the prior');
+    const pending = writeAsking(
+      workbook,
+      priorBlock({ kind: 'mean', meanRate: 0.04, strength: 500 }, 'A1', 'Sheet1'),
+      status,
+      'the prior',
+    );
     await settle();
     (status.querySelector('#cancel-overwrite') as HTMLElement).click();
     await expect(pending).resolves.toBeNull();
@@ -78,12 +97,16 @@ describe('Prior section', () => {
     strength.setAttribute('value', '20000');
     strength.dispatchEvent(new Event('input'));
     await settle();
-    expect(root.querySelector('#prior-warning')?.textContent).toContain('This prior is worth about 20,000 visitors, more than the 10,000 each variant will get');
+    expect(root.querySelector('#prior-warning')?.textContent).toContain(
+      'This prior is worth about 20,000 visitors, more than the 10,000 each variant will get',
+    );
     (root.querySelector('#prior-write') as HTMLElement).click();
     await settle();
     await settle();
     expect(excel.cell('Checkout test', 'F3').formula).toBe('=ABTEST.PRIOR_FROM_MEAN(0.04,20000)');
-    expect(root.querySelector('#prior-status')?.textContent).toBe("Wrote the prior to 'Checkout test'!F3:G3. The cells hold live formulas.");
+    expect(root.querySelector('#prior-status')?.textContent).toBe(
+      "Wrote the prior to 'Checkout test'!F3:G3. The cells hold live formulas.",
+    );
   });
 });
 
@@ -107,7 +130,9 @@ describe('Plan section', () => {
     await wait(PLAN_DEBOUNCE_MS + 50);
     await settle();
     const perVariant = (): string | null | undefined => root.querySelector('#plan-per-variant')?.textContent;
-    expect(perVariant()).toBe(`Visitors per variant: ${visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`);
+    expect(perVariant()).toBe(
+      `Visitors per variant: ${visitorsNeeded(0.04, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`,
+    );
 
     type(root, 'plan-baseline', '8');
     const results = root.querySelector('#plan-results') as HTMLElement;
@@ -123,12 +148,16 @@ describe('Plan section', () => {
     await wait(PLAN_DEBOUNCE_MS + 50);
     await settle();
     expect(results.classList.contains('stale')).toBe(false);
-    expect(perVariant()).toBe(`Visitors per variant: ${visitorsNeeded(0.08, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`);
+    expect(perVariant()).toBe(
+      `Visitors per variant: ${visitorsNeeded(0.08, 0.1, 0.95, 0.8, UNIFORM_PRIOR).toLocaleString('en-US')}`,
+    );
     (root.querySelector('#plan-insert') as HTMLElement).click();
     await settle();
     await settle();
     expect(excel.cell('Plan', 'C3').formula).toBe(0.08);
     expect(excel.cell('Plan', 'C3').numberFormat).toBe('0.00%');
-    expect(root.querySelector('#plan-status')?.textContent).toBe('Wrote the plan to Plan!B2:C16. The cells hold live formulas.');
+    expect(root.querySelector('#plan-status')?.textContent).toBe(
+      'Wrote the plan to Plan!B2:C16. The cells hold live formulas.',
+    );
   }, 30_000);
 });

@@ -50,7 +50,9 @@ export function differenceSf(y: TabulatedDistribution, x: TabulatedDistribution,
  */
 export function differenceDensity(y: TabulatedDistribution, x: TabulatedDistribution, d: number): number {
   if (!Number.isFinite(d)) throw new StatsError('invalid_argument', `the difference must be a finite number, not ${d}`);
-  const v = xIsBase(x, y) ? logIntegral(x, [factor(y, 'density', 1, d)]) : logIntegral(y, [factor(x, 'density', 1, -d)]);
+  const v = xIsBase(x, y)
+    ? logIntegral(x, [factor(y, 'density', 1, d)])
+    : logIntegral(y, [factor(x, 'density', 1, -d)]);
   return Math.exp(v);
 }
 
@@ -83,7 +85,12 @@ export function differenceQuantile(y: TabulatedDistribution, x: TabulatedDistrib
 }
 
 /** log P(Y − X ≤ d) (or > d when upper) and log of the density of Y − X at d, in one pass. */
-function differenceTailAndDensity(y: TabulatedDistribution, x: TabulatedDistribution, d: number, upper: boolean): TailAndDensity {
+function differenceTailAndDensity(
+  y: TabulatedDistribution,
+  x: TabulatedDistribution,
+  d: number,
+  upper: boolean,
+): TailAndDensity {
   // P(Y − X ≤ d) = ∫ f_X(s) F_Y(s + d) ds, density ∫ f_X(s) f_Y(s + d) ds; or on Y's grid with S_X(t − d).
   if (xIsBase(x, y)) return logTailAndDensity(x, y, upper ? 'sf' : 'cdf', 1, d, false);
   return logTailAndDensity(y, x, upper ? 'cdf' : 'sf', 1, -d, false);

@@ -92,7 +92,14 @@ export function boundSide(kind: FactorKind): 'left' | 'right' | 'ends' | 'none' 
  * The factor's panel edges strictly inside the base interval [za, zb], mapped to the base's z; for the
  * signed kinds also the base's x = 0 when it lies inside (where they jump or bend).
  */
-export function innerEdges(base: TabulatedDistribution, f: Factor, direct: boolean, za: number, zb: number, out: number[]): void {
+export function innerEdges(
+  base: TabulatedDistribution,
+  f: Factor,
+  direct: boolean,
+  za: number,
+  zb: number,
+  out: number[],
+): void {
   const d = f.dist;
   if (isSigned(f.kind)) {
     const [lo, hi] = base.source.valueRange;

@@ -32,7 +32,12 @@ const SPLIT_SCALE = 3.2;
  * running total, and the visit stops once even mass × the factors' global maxima is. Cost: two factor
  * evaluations per visited panel for the bound, then 16 per integrated (sub)panel and factor.
  */
-export function logIntegral(base: TabulatedDistribution, factors: readonly Factor[], withValue = false, logOffset = 0): number {
+export function logIntegral(
+  base: TabulatedDistribution,
+  factors: readonly Factor[],
+  withValue = false,
+  logOffset = 0,
+): number {
   const n = PANEL_ORDER;
   const panels = base.panelCount;
   const count = factors.length;
@@ -87,8 +92,7 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
         // A signed factor: monotone on each side of x = 0, so at most 1 on the panel holding zero.
         const zero = src.toValue(base.edges[p] as number) < 0 && src.toValue(base.edges[p + 1] as number) > 0;
         bound += zero ? 0 : Math.max(edgeFactor(p, i), edgeFactor(p + 1, i));
-      }
-      else bound += (factors[i] as Factor).dist.logMaxValueDensity;
+      } else bound += (factors[i] as Factor).dist.logMaxValueDensity;
     }
     if (withValue) bound += Math.log(src.toValue(base.edges[p + 1] as number));
     if (bound === -Infinity || bound < total - PRUNE) continue;
@@ -129,7 +133,16 @@ export function logIntegral(base: TabulatedDistribution, factors: readonly Facto
     if (breaks.length === 0) {
       for (let k = 0; k < n; k++) {
         const z = base.nodeZ[p * n + k] as number;
-        values[k] = pointLog(base, factors, direct, withValue, needValue, z, base.nodeLogDensity[p * n + k] as number, skip);
+        values[k] = pointLog(
+          base,
+          factors,
+          direct,
+          withValue,
+          needValue,
+          z,
+          base.nodeLogDensity[p * n + k] as number,
+          skip,
+        );
       }
       total = logAddExp(total, panelLogIntegral(values, 0, (b - a) / 2));
       continue;
@@ -388,7 +401,8 @@ export function logTailAndDensity(
       }
       tailValues[k] = f + (cdfHere ? other.logCdfAt(zu) : other.logSfAt(zu));
       let logX = 0;
-      if (withValue) logX = signed ? Math.log(Math.abs(x)) : fromTable ? (nodeLogValue[nodeOffset + k] as number) : Math.log(x);
+      if (withValue)
+        logX = signed ? Math.log(Math.abs(x)) : fromTable ? (nodeLogValue[nodeOffset + k] as number) : Math.log(x);
       densityValues[k] = f + other.logDensityAt(zu) - logJacobian + logX;
     }
   };

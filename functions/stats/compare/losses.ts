@@ -115,7 +115,10 @@ function jacobianWidth(anchors: readonly number[], z: number): number {
  * most jacobianWidth wide (graded: logarithmically many). Throws StatsError('not_available') beyond
  * MAX_GRID_CELLS.
  */
-function unionOfEdges(ds: readonly TabulatedDistribution[], maxGridCells: number): { union: number[]; anchors: number[] } {
+function unionOfEdges(
+  ds: readonly TabulatedDistribution[],
+  maxGridCells: number,
+): { union: number[]; anchors: number[] } {
   const all: number[] = [];
   for (const d of ds) for (let e = 0; e < d.edges.length; e++) all.push(d.edges[e] as number);
   all.sort((u, v) => u - v);

@@ -8,7 +8,8 @@ import type { TailAndDensity } from './integrate';
 
 /** Throws StatsError('invalid_argument') unless 0 < p < 1. */
 export function checkProbability(p: number): void {
-  if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
+  if (!(p > 0 && p < 1))
+    throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
 }
 
 /**
@@ -70,7 +71,8 @@ export function solveQuantile(
     if (newton && k * r * r <= ACCEPT_ERROR) return next;
     stepped = newton;
     previousStep = Math.abs(r);
-    const closed = Number.isFinite(a) && Number.isFinite(b) && b - a <= 2 * Number.EPSILON * Math.max(Math.abs(a), Math.abs(b));
+    const closed =
+      Number.isFinite(a) && Number.isFinite(b) && b - a <= 2 * Number.EPSILON * Math.max(Math.abs(a), Math.abs(b));
     if (Math.abs(next - v) <= 2 * Number.EPSILON * Math.abs(v) || closed) return next;
     v = next;
   }

@@ -113,7 +113,12 @@ export function ratioQuantile(y: TabulatedDistribution, x: TabulatedDistribution
  * log P(R ≤ m) (or > m when upper) for R = Y/X − 1 at v = log(1 + m), and log of the density of R per unit
  * of v (the density in m times 1 + m), in one pass.
  */
-function ratioTailAndDensity(y: TabulatedDistribution, x: TabulatedDistribution, v: number, upper: boolean): TailAndDensity {
+function ratioTailAndDensity(
+  y: TabulatedDistribution,
+  x: TabulatedDistribution,
+  v: number,
+  upper: boolean,
+): TailAndDensity {
   const s = 1 + Math.expm1(v);
   if (xIsBase(x, y)) {
     // P(Y ≤ sX) = ∫ f_X(t) F_Y(st) dt; d/dm = ∫ f_X(t) t f_Y(st) dt.

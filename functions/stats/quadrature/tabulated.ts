@@ -156,7 +156,9 @@ export class TabulatedDistribution {
     if (mean === undefined) {
       mean = 0;
       for (let i = 0; i < panels * n; i++) {
-        mean += Math.exp((this.nodeLogWeight[i] as number) + (this.nodeLogDensity[i] as number)) * source.toValue(this.nodeZ[i] as number);
+        mean +=
+          Math.exp((this.nodeLogWeight[i] as number) + (this.nodeLogDensity[i] as number)) *
+          source.toValue(this.nodeZ[i] as number);
       }
     }
     this.mean = mean;
@@ -432,7 +434,8 @@ export class TabulatedDistribution {
    * @example tabulate(betaWorkingDensity(8, 10)).workingQuantile(0.685470581054688) //=> 0.00000000000000… (logit 0.5)
    */
   workingQuantile(p: number): number {
-    if (!(p > 0 && p < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
+    if (!(p > 0 && p < 1))
+      throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${p}`);
     if (p > 0.5) return this.workingQuantileUpper(1 - p);
     const target = Math.log(p);
     const e = this.edgeLogCdf;
@@ -457,7 +460,8 @@ export class TabulatedDistribution {
    * workingQuantile. @example tabulate(betaWorkingDensity(1, 1)).workingQuantileUpper(0.5) //=> 0.000000000000000… (logit 0.5)
    */
   workingQuantileUpper(q: number): number {
-    if (!(q > 0 && q < 1)) throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${q}`);
+    if (!(q > 0 && q < 1))
+      throw new StatsError('invalid_argument', `a probability must be strictly between 0 and 1, not ${q}`);
     if (q > 0.5) return this.workingQuantile(1 - q);
     const target = Math.log(q);
     const e = this.edgeLogSf;
@@ -546,11 +550,15 @@ export class TabulatedDistribution {
     const scratch = new Float64Array(n);
     for (let p = 0; p < panels; p++) this.ensurePanel(p);
     const z0 = this.windowLeft;
-    edge[0] = (this.edgeLogCdf[0] as number) + Math.log(this.source.valueJacobian(z0)) - Math.log(Math.abs(this.source.slope(z0)) + 1);
+    edge[0] =
+      (this.edgeLogCdf[0] as number) +
+      Math.log(this.source.valueJacobian(z0)) -
+      Math.log(Math.abs(this.source.slope(z0)) + 1);
     for (let p = 0; p < panels; p++) {
       const half = ((this.edges[p + 1] as number) - (this.edges[p] as number)) / 2;
       for (let k = 0; k < n; k++) {
-        integrand[k] = (this.nodeLogCdf[p * n + k] as number) + Math.log(this.source.valueJacobian(this.nodeZ[p * n + k] as number));
+        integrand[k] =
+          (this.nodeLogCdf[p * n + k] as number) + Math.log(this.source.valueJacobian(this.nodeZ[p * n + k] as number));
       }
       const total = inPanelLogPartials(integrand, 0, half, partialLeft, partialRight, scratch);
       for (let k = 0; k < n; k++) node[p * n + k] = logAddExp(edge[p] as number, partialLeft[k] as number);

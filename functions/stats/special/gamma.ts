@@ -49,8 +49,20 @@ const STIRLING_ERROR_HALVES: readonly number[] = [
 
 /** Bernoulli numbers B_2, B_4, …, B_28 (exact rationals, e.g. Abramowitz & Stegun table 23.2). */
 const BERNOULLI_EVEN: readonly number[] = [
-  1 / 6, -1 / 30, 1 / 42, -1 / 30, 5 / 66, -691 / 2730, 7 / 6, -3617 / 510, 43867 / 798, -174611 / 330,
-  854513 / 138, -236364091 / 2730, 8553103 / 6, -23749461029 / 870,
+  1 / 6,
+  -1 / 30,
+  1 / 42,
+  -1 / 30,
+  5 / 66,
+  -691 / 2730,
+  7 / 6,
+  -3617 / 510,
+  43867 / 798,
+  -174611 / 330,
+  854513 / 138,
+  -236364091 / 2730,
+  8553103 / 6,
+  -23749461029 / 870,
 ];
 
 /** S(z) = Σ_{k≥2} (−1)^k (ζ(k) − 1) z^k / k for |z| ≤ 0.5 (A&S 6.1.33), summed to full precision. */
@@ -173,7 +185,10 @@ export function binomialDevianceSeries(difference: number, x: number, total: num
  * @example binomialDeviance(1e9 + 1e4, 1e9) //=> 0.04999983333416666 (≈ (x − M)²/(2M))
  */
 export function binomialDeviance(x: number, M: number): number {
-  ensure(x >= 0 && M > 0 && Number.isFinite(x) && Number.isFinite(M), `binomialDeviance needs x ≥ 0 and M > 0, got ${x}, ${M}`);
+  ensure(
+    x >= 0 && M > 0 && Number.isFinite(x) && Number.isFinite(M),
+    `binomialDeviance needs x ≥ 0 and M > 0, got ${x}, ${M}`,
+  );
   if (x === 0) return M;
   const difference = x - M;
   if (Math.abs(difference) < 0.1 * (x + M)) return binomialDevianceSeries(difference, x, x + M);
@@ -199,11 +214,7 @@ export function logBeta(a: number, b: number): number {
   if (p >= 10) {
     const correction = stirlingError(p) + stirlingError(q) - stirlingError(p + q);
     return (
-      -0.5 * Math.log(q) +
-      HALF_LOG_2PI +
-      correction +
-      (p - 0.5) * Math.log(p / (p + q)) +
-      q * Math.log1p(-p / (p + q))
+      -0.5 * Math.log(q) + HALF_LOG_2PI + correction + (p - 0.5) * Math.log(p / (p + q)) + q * Math.log1p(-p / (p + q))
     );
   }
   if (q >= 10) {
@@ -317,6 +328,6 @@ export function pentagamma(x: number): number {
   const inv2 = inv * inv;
   const inv3 = inv2 * inv;
   // 2/y³ + 3/y⁴ + Σ B_2k (2k+1)(2k+2) / y^(2k+3), k = 1 … 5.
-  const series = inv2 * (2 + inv2 * (-1 + inv2 * (4 / 3 + inv2 * (-3 + inv2 * (10)))));
+  const series = inv2 * (2 + inv2 * (-1 + inv2 * (4 / 3 + inv2 * (-3 + inv2 * 10))));
   return shift + 2 * inv3 + 3 * inv3 * inv + inv3 * series;
 }

@@ -24,7 +24,10 @@ const FRACTION_TOLERANCE = 1e-15;
 const TINY = 1e-300;
 
 function checkShapes(a: number, b: number, name: string): void {
-  ensure(a > 0 && b > 0 && Number.isFinite(a) && Number.isFinite(b), `${name} needs finite shape parameters a > 0 and b > 0, got a = ${a}, b = ${b}`);
+  ensure(
+    a > 0 && b > 0 && Number.isFinite(a) && Number.isFinite(b),
+    `${name} needs finite shape parameters a > 0 and b > 0, got a = ${a}, b = ${b}`,
+  );
 }
 
 /** log x and log(1 − x) from x and its complement y = 1 − x, each from whichever is the accurate input. */
@@ -117,7 +120,10 @@ function betaFraction(x: number, y: number, a: number, b: number): number {
     h *= change;
     if (Math.abs(change - 1) <= FRACTION_TOLERANCE) return h;
   }
-  throw new StatsError('not_available', `the incomplete beta continued fraction did not converge for x = ${x}, a = ${a}, b = ${b}`);
+  throw new StatsError(
+    'not_available',
+    `the incomplete beta continued fraction did not converge for x = ${x}, a = ${a}, b = ${b}`,
+  );
 }
 
 /**
@@ -142,7 +148,10 @@ function betaFraction(x: number, y: number, a: number, b: number): number {
  */
 export function betaTailLog(x: number, y: number, a: number, b: number, upper: boolean): number {
   checkShapes(a, b, 'betaTailLog');
-  ensure(x >= 0 && y >= 0 && Math.abs(x + y - 1) <= 1e-12, `betaTailLog needs 0 ≤ x ≤ 1 with y = 1 − x, got x = ${x}, y = ${y}`);
+  ensure(
+    x >= 0 && y >= 0 && Math.abs(x + y - 1) <= 1e-12,
+    `betaTailLog needs 0 ≤ x ≤ 1 with y = 1 − x, got x = ${x}, y = ${y}`,
+  );
   if (x === 0) return upper ? 0 : -Infinity;
   if (y === 0) return upper ? -Infinity : 0;
   // The fraction of I_x(a, b) converges fast for x < (a + 1)/(a + b + 2); otherwise use I_y(b, a).
@@ -308,7 +317,10 @@ function betaFractionNearOne(w: number, p: number, q: number): number {
     h = multiply2(h, change);
     if (Math.abs(change[0] - 1 + change[1]) <= FRACTION_TOLERANCE) return h[0] + h[1];
   }
-  throw new StatsError('not_available', `the incomplete beta continued fraction did not converge for x = ${1 - w}, a = ${p}, b = ${q}`);
+  throw new StatsError(
+    'not_available',
+    `the incomplete beta continued fraction did not converge for x = ${1 - w}, a = ${p}, b = ${q}`,
+  );
 }
 
 /** The 16-point Gauss–Legendre rule on [−1, 1], computed once (an immutable table). */
@@ -334,7 +346,9 @@ function bridgeLowerW(w: number, q: number, p: number): number {
   const mirror = (q + 1) / (n + 2);
   if (!(sd < 1e-3) || w > mirror + sd || w <= mirror) return NaN;
   const start = mirror - 2 * sd > 0.5 * mirror ? mirror - 2 * sd : 0.5 * mirror;
-  let total = Math.exp(Math.min(logPrefactor(start, 1 - start, q, p) + Math.log(betaFraction(start, 1 - start, q, p)), 0));
+  let total = Math.exp(
+    Math.min(logPrefactor(start, 1 - start, q, p) + Math.log(betaFraction(start, 1 - start, q, p)), 0),
+  );
   const panels = Math.max(1, Math.ceil((w - start) / sd));
   const width = (w - start) / panels;
   for (let panel = 0; panel < panels; panel++) {

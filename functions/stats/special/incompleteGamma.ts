@@ -60,7 +60,10 @@ function upperFraction(a: number, x: number): number {
     h *= change;
     if (Math.abs(change - 1) <= TOLERANCE) return h;
   }
-  throw new StatsError('not_available', `the incomplete gamma continued fraction did not converge for a = ${a}, x = ${x}`);
+  throw new StatsError(
+    'not_available',
+    `the incomplete gamma continued fraction did not converge for a = ${a}, x = ${x}`,
+  );
 }
 
 /** The 16-point Gauss–Legendre rule on [−1, 1], computed once (an immutable table). */

@@ -81,7 +81,8 @@ export function studentTQuantile(p: number, df: number): number {
   if (p === 0.5) return 0;
   if (df === Infinity) return normalQuantile(p);
   if (p > 0.5) return -studentTQuantile(1 - p, df);
-  const [x, y] = p <= 0.25 ? betaQuantilePair(2 * p, df / 2, 0.5, false) : betaQuantilePair(1 - 2 * p, df / 2, 0.5, true);
+  const [x, y] =
+    p <= 0.25 ? betaQuantilePair(2 * p, df / 2, 0.5, false) : betaQuantilePair(1 - 2 * p, df / 2, 0.5, true);
   if (x < 1e-300) {
     // Heavy tails (small ν, tiny p): invert the far-tail form of farTailLog for log x; |t| = √ν·x^(−½).
     const logX = (Math.log(p) - farTailLog(0, df)) / (df / 2);
@@ -109,8 +110,6 @@ export function studentTLogDensity(t: number, df: number): number {
   const gammaRatio = stirlingError(h + 0.5) - stirlingError(h) + h * log1pmx(1 / (2 * h));
   const absT = Math.abs(t);
   const kernel =
-    absT > 1e150
-      ? -((df + 1) / 2) * (2 * Math.log(absT) - Math.log(df))
-      : -((df + 1) / 2) * Math.log1p((t * t) / df);
+    absT > 1e150 ? -((df + 1) / 2) * (2 * Math.log(absT) - Math.log(df)) : -((df + 1) / 2) * Math.log1p((t * t) / df);
   return gammaRatio - HALF_LOG_2PI + kernel;
 }

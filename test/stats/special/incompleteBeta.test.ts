@@ -44,7 +44,9 @@ describe('betaCdf / betaSf against mpmath (40 digits)', () => {
   it.each(cases.map((r) => [r[0], r[1], r[2], r[5]] as const))(
     'log density at %p for Beta(%p, %p): 1e-13 relative (1e-13 absolute near 0)',
     (x, a, b, logDensity) => {
-      expect(Math.abs(betaLogDensity(x, a, b) - logDensity)).toBeLessThanOrEqual(1e-13 * Math.max(1, Math.abs(logDensity)));
+      expect(Math.abs(betaLogDensity(x, a, b) - logDensity)).toBeLessThanOrEqual(
+        1e-13 * Math.max(1, Math.abs(logDensity)),
+      );
     },
   );
 });
@@ -94,7 +96,10 @@ describe('documented values', () => {
     expect(betaLogDensity(1.5, 2, 3)).toBe(-Infinity);
   });
   it('throws invalid_argument with a message for bad input', () => {
-    expectInvalidArgument(() => betaCdf(0.5, 0, 1), /betaCdf needs finite shape parameters a > 0 and b > 0, got a = 0, b = 1/);
+    expectInvalidArgument(
+      () => betaCdf(0.5, 0, 1),
+      /betaCdf needs finite shape parameters a > 0 and b > 0, got a = 0, b = 1/,
+    );
     expectInvalidArgument(() => betaSf(0.5, 1, -2), /betaSf needs finite shape parameters/);
     expectInvalidArgument(() => betaCdf(Number.NaN, 1, 2), /betaCdf needs a number x, got NaN/);
     expectInvalidArgument(() => betaQuantile(1.5, 1, 2), /betaQuantile needs a probability between 0 and 1, got 1.5/);

@@ -49,7 +49,8 @@ describe('gammaQuantile / gammaQuantileUpper against mpmath', () => {
   const cases = rows('gammaQuantile');
   it.each(cases.map((r) => [r[0], r[1], r[2], r[3]] as const))('p = %p, shape %p', (p, a, lowerX, upperX) => {
     // the script's bisection stops at e^−740 ≈ 4e-322: such rows mean 'below the smallest double'
-    if ((lowerX as number) > 1e-310) expect(relativeErrorOrAbsoluteAtZero(gammaQuantile(p, a), lowerX as number)).toBeLessThan(1e-12);
+    if ((lowerX as number) > 1e-310)
+      expect(relativeErrorOrAbsoluteAtZero(gammaQuantile(p, a), lowerX as number)).toBeLessThan(1e-12);
     else expect(gammaQuantile(p, a)).toBe(0); // below the smallest double
     expect(relativeErrorOrAbsoluteAtZero(gammaQuantileUpper(p, a), upperX as number)).toBeLessThan(1e-12);
   });
@@ -78,7 +79,10 @@ describe('identities (fast-check)', () => {
     );
   });
   it('P(quantile(p)) = p and Q(quantileUpper(q)) = q in the smaller tail', () => {
-    const tail = fc.oneof(fc.double({ min: 1e-300, max: 1e-10, noNaN: true }), fc.double({ min: 1e-10, max: 0.5, noNaN: true }));
+    const tail = fc.oneof(
+      fc.double({ min: 1e-300, max: 1e-10, noNaN: true }),
+      fc.double({ min: 1e-10, max: 0.5, noNaN: true }),
+    );
     fc.assert(
       fc.property(tail, shape, (p, a) => {
         for (const upper of [false, true]) {

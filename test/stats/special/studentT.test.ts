@@ -12,14 +12,22 @@ type Row = [number, number, number, number, number, number];
 const rows = (name: string): Row[] => (reference as unknown as Record<string, Row[]>)[name] ?? [];
 
 describe('studentTCdf and studentTLogDensity against mpmath', () => {
-  it.each(rows('studentT').map((r) => [r[0], r[1], r[2], r[3]] as const))('t = %p, ν = %p', (t, df, cdf, logDensity) => {
-    const value = studentTCdf(t, df);
-    expect(Math.abs(value - cdf)).toBeLessThanOrEqual(1e-13);
-    if (cdf < 0.5) expect(relativeErrorOrAbsoluteAtZero(value, cdf)).toBeLessThanOrEqual(1e-11);
-    // the upper tail, read as P(T ≤ −t), is as accurate
-    if (cdf > 0.5) expect(relativeErrorOrAbsoluteAtZero(studentTCdf(-t, df), 1 - cdf)).toBeLessThanOrEqual(1e-9 + 1e-15 / (1 - cdf));
-    expect(Math.abs(studentTLogDensity(t, df) - logDensity)).toBeLessThanOrEqual(1e-13 * Math.max(1, Math.abs(logDensity)));
-  });
+  it.each(rows('studentT').map((r) => [r[0], r[1], r[2], r[3]] as const))(
+    't = %p, ν = %p',
+    (t, df, cdf, logDensity) => {
+      const value = studentTCdf(t, df);
+      expect(Math.abs(value - cdf)).toBeLessThanOrEqual(1e-13);
+      if (cdf < 0.5) expect(relativeErrorOrAbsoluteAtZero(value, cdf)).toBeLessThanOrEqual(1e-11);
+      // the upper tail, read as P(T ≤ −t), is as accurate
+      if (cdf > 0.5)
+        expect(relativeErrorOrAbsoluteAtZero(studentTCdf(-t, df), 1 - cdf)).toBeLessThanOrEqual(
+          1e-9 + 1e-15 / (1 - cdf),
+        );
+      expect(Math.abs(studentTLogDensity(t, df) - logDensity)).toBeLessThanOrEqual(
+        1e-13 * Math.max(1, Math.abs(logDensity)),
+      );
+    },
+  );
   it('matches the closed forms for ν = 1 (Cauchy) and ν = 2', () => {
     // Cauchy: F(t) = ½ + atan(t)/π; ν = 2: F(t) = ½ + t / (2√(2 + t²))  (A&S 26.7.3, closed forms)
     for (const t of [-30, -2, -0.3, 0.7, 5]) {
@@ -61,7 +69,10 @@ describe('argument checks', () => {
   it('throws invalid_argument with a message', () => {
     expectInvalidArgument(() => studentTCdf(1, 0), /studentTCdf needs degrees of freedom above 0, got 0/);
     expectInvalidArgument(() => studentTCdf(Number.NaN, 3), /studentTCdf needs a number t, got NaN/);
-    expectInvalidArgument(() => studentTQuantile(1.2, 3), /studentTQuantile needs a probability between 0 and 1, got 1.2/);
+    expectInvalidArgument(
+      () => studentTQuantile(1.2, 3),
+      /studentTQuantile needs a probability between 0 and 1, got 1.2/,
+    );
     expectInvalidArgument(() => studentTLogDensity(0, -1), /studentTLogDensity needs degrees of freedom above 0/);
   });
 });
