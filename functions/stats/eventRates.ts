@@ -242,8 +242,7 @@ export function eventsProbLiftAbove(
  * that loss is at most maxLoss (default 1% of the control's posterior mean rate (shape + events)/(rate +
  * exposure), in events per unit of exposure). Cost and errors as eventsExpectedLoss, plus
  * StatsError('invalid_argument') for a maxLoss below 0.
- * @example eventsDecide([{ events: 1200, exposure: 10000 }, { events: 1450, exposure: 10100 }], undefined, FLAT_GAMMA_PRIOR)
- * // { choose: true, index: 1, loss: 1.2…e-9, maxLoss: 0.0012001 }
+ * @example eventsDecide([{ events: 1200, exposure: 10000 }, { events: 1450, exposure: 10100 }], undefined, FLAT_GAMMA_PRIOR).index //=> 1 (B is chosen: its loss, about 2.1e-9, is below the default max_loss 0.001201)
  */
 export function eventsDecide(
   variants: readonly EventCounts[],

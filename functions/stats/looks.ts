@@ -310,7 +310,7 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
  * Throws StatsError('invalid_argument') for a rate outside (0, 1), looks that are not 1 … 100 increasing
  * whole numbers from 1 to 1e9, a threshold outside (0.5, 0.999999], sides other than 1 and 2, a prior
  * outside [0.001, 1e7], or looks too large for the work budget.
- * @example falseAlarmWithLooks(0.05, [1000, 2000, 3000, 4000, 5000]).probability //=> 0.1293… (one look: about 0.05)
+ * @example falseAlarmWithLooks(0.05, [1000, 2000, 3000, 4000, 5000]).probability //=> 0.1294… (one look: about 0.05)
  */
 export function falseAlarmWithLooks(
   baselineRate: number,

@@ -526,8 +526,7 @@ function pointOverControlAbove(c: number, control: MeanPosterior, k: number, bel
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) or minLift ≤ −1 or not finite,
  * and StatsError('not_available') naming the control when its mean could plausibly be ≤ 0 (as
  * meanLiftInterval).
- * @example meanProbLiftAbove([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0)
- * // [0.9088…] (P(mean_B > mean_A) when the control is positive for sure)
+ * @example meanProbLiftAbove([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0) //=> [0.9088…] (P(mean_B > mean_A) when the control is positive for sure)
  */
 export function meanProbLiftAbove(variants: readonly MeanSummary[], minLift: number): number[] {
   ensure(
@@ -560,8 +559,7 @@ export function meanProbLiftAbove(variants: readonly MeanSummary[], minLift: num
  * loss is at most maxLoss (default 1% of |the control's mean|, in the metric's own units).
  * Cost and errors as meanExpectedLoss, plus StatsError('invalid_argument') for a maxLoss below 0 and
  * StatsError('not_available') when the default is asked for and the control's mean is 0.
- * @example meanDecide([{ count: 2000, mean: 48, sd: 20 }, { count: 2000, mean: 52, sd: 22 }], undefined)
- * // { choose: true, index: 1, loss: 1.1…e-…, maxLoss: 0.48 }
+ * @example meanDecide([{ count: 2000, mean: 48, sd: 20 }, { count: 2000, mean: 52, sd: 22 }], undefined).index //=> 1 (B is chosen: its loss, about 1e-10, is below the default max_loss 0.48)
  */
 export function meanDecide(variants: readonly MeanSummary[], maxLoss: number | undefined): LossDecision {
   const losses = meanExpectedLoss(variants);

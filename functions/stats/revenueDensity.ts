@@ -261,7 +261,7 @@ class ExponentialRevenue implements ExactDensity {
  * The posterior of revenue per visitor with exponential order values, as a WorkingDensity in log R
  * (ExponentialRevenue, interpolated by chebyshevDensity.ts). Throws StatsError('invalid_argument') unless
  * orders ≥ 1 and visitors ≥ orders are whole and revenue > 0 is finite.
- * @example exponentialRevenueDensity(40, 1000, 2000).mode // ≈ log 2 (2 per visitor)
+ * @example exponentialRevenueDensity(40, 1000, 2000).mode //=> 0.7163… (near log 2: about 2 per visitor)
  */
 export function exponentialRevenueDensity(orders: number, visitors: number, revenue: number): WorkingDensity {
   ensure(Number.isInteger(orders) && orders >= 1, `orders must be a whole number of at least 1, not ${orders}`);

@@ -422,7 +422,7 @@ class StudentRevenue implements ExactDensity {
 /**
  * The model's parameters from one variant's totals: a = 1 + orders, b = 1 + visitors − orders, ν =
  * orders − 1, m = revenue/orders, s = order_sd/√orders, centre E[p]·m.
- * @example studentModel(40, 1000, 2000, 30).centre //=> 2.0438…
+ * @example studentModel(40, 1000, 2000, 30).centre //=> 2.0459…
  */
 export function studentModel(orders: number, visitors: number, revenue: number, orderSd: number): StudentModel {
   ensure(Number.isInteger(orders) && orders >= 2, `orders must be a whole number of at least 2, not ${orders}`);

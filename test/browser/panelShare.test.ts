@@ -126,9 +126,9 @@ describe('the Share section on the demo read-out', () => {
     await openShare(page, panel);
     await panel.locator('#share-look').click();
     await panel.locator('#share-plan-text').waitFor({ timeout: 60_000 });
-    // 25 ABTEST formula cells on the demo sheet: 12 conversion, 6 revenue, 5 events results and 2 chart tables.
+    // 36 ABTEST formula cells on the demo sheet: the conversion, revenue, revenue-from-totals and events blocks and 2 chart tables.
     expect(await panel.locator('#share-plan-text').textContent()).toBe(
-      `A new sheet "${COPY}" right after "${SHEET}": a copy of the whole sheet (A1:N100), in which 25 ABTEST results become plain values, ` +
+      `A new sheet "${COPY}" right after "${SHEET}": a copy of the whole sheet (A1:N145), in which 36 ABTEST results become plain values, ` +
         'each with its formula in a note. Number formats come along and 1 chart comes along and shows the values. ' +
         `A header line says when and from which cells it was made. "${SHEET}" itself is not changed and stays live.`,
     );
@@ -140,7 +140,7 @@ describe('the Share section on the demo read-out', () => {
     await panel.locator('#share-copy').dblclick();
     const done = await messageText(panel, 'share-status');
     expect(done).toMatch(
-      /^Made "Checkout test \(shared\)" \('Checkout test \(shared\)'!A1:N101\): 25 ABTEST results are plain values, the formulas in a note on each\. 1 chart kept\. "Checkout test" is unchanged and stays live\./,
+      /^Made "Checkout test \(shared\)" \('Checkout test \(shared\)'!A1:N146\): 36 ABTEST results are plain values, the formulas in a note on each\. 1 chart kept\. "Checkout test" is unchanged and stays live\./,
     );
     const sheets = await page.evaluate(() => window.liftLedgerPreview?.workbook.sheetNames());
     expect(sheets).toEqual(['Checkout test', 'Past tests', 'Plan', COPY]);
@@ -171,7 +171,7 @@ describe('the Share section on the demo read-out', () => {
     expect((await cellState(page, COPY, 'A12')).input).toBe('=$A$5');
     // The header line.
     expect(String((await cellState(page, COPY, 'A1')).input)).toMatch(
-      /^Frozen copy made \d{4}-\d\d-\d\d \d\d:\d\d UTC from 'Checkout test'!A1:N100: 25 Lift Ledger results are plain values; each keeps the formula that computed it in a note\./,
+      /^Frozen copy made \d{4}-\d\d-\d\d \d\d:\d\d UTC from 'Checkout test'!A1:N145: 36 Lift Ledger results are plain values; each keeps the formula that computed it in a note\./,
     );
     // The chart came along, reads the copy's cells (moved down by the header row), which are values now.
     const chart = await page.evaluate(() => {
