@@ -144,7 +144,7 @@ describe('errors reach the cell with their code and message', () => {
     [
       () => F.thresholdForLooks(0.3, col(Array.from({ length: 50 }, (_, i) => (i + 1) * 100000)), 0.000001, 2),
       '#N/A',
-      'even the threshold 0.999999 gives a false-alarm rate above 0.000001 with these looks',
+      'false_alarm 0.000001: even the threshold 0.999999 gives a false-alarm rate above it with these looks',
     ],
     [() => F.thresholdForVariants(51), '#VALUE!', 'variants: 51 is not allowed; enter a whole number from 2 to 50'],
     [() => F.smallestDetectableLift(0.1, 2e9), '#VALUE!', 'visitors_per_variant: 2000000000 is not allowed; enter a whole number from 1 to 1E+9'],
