@@ -174,3 +174,16 @@ describe('errors reach the cell with their code and message', () => {
     expect(error.message).toMatch(/^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take/);
   });
 });
+
+describe('THRESHOLD_FOR_LOOKS with many two-sided looks and a lenient false alarm (a fuzzer finding)', () => {
+  // Once refused with "each look needs a lower bound below its upper bound": the solver's first guess sat at
+  // the lowest threshold, where a two-sided step below it crossed the bounds. The answer is checked against
+  // the definition (common practice): at the threshold found, FALSE_ALARM_WITH_LOOKS is at most false_alarm.
+  test('gives a threshold whose false-alarm rate is at most the one asked', () => {
+    const looks = col(Array.from({ length: 100 }, (_, i) => (i + 1) * 10_000_000));
+    const threshold = F.thresholdForLooks(0.000001, looks, 0.4072024451700007, 2);
+    expect(threshold).toBeGreaterThan(0.5);
+    expect(threshold).toBeLessThan(1);
+    expect(F.falseAlarmWithLooks(0.000001, looks, threshold, 2)).toBeLessThanOrEqual(0.4072024451700007 + 1e-9);
+  });
+});
