@@ -122,9 +122,47 @@ function checkOrder(output, blocks, push) {
   }
 }
 
+/**
+ * A by-day result: one row per row of the day tables, a blank day a row of "", each day one value per
+ * challenger (`per: 'challenger'`) or one value (`per: 'day'`), "" only while no visitor was counted yet
+ * (the control or that challenger, or every variant for the split check).
+ */
+function checkByDay(output, value, days, push) {
+  const rows = asRows(value, push);
+  if (!rows) return;
+  rows.flat().forEach((c) => checkCell(c, push));
+  const width = output.per === 'challenger' ? days.width - 1 : 1;
+  if (rows.length !== days.height || rows[0].length !== width) {
+    return push(
+      'shape',
+      `${rows.length} × ${rows[0].length} where days × ${output.per === 'day' ? '1' : 'challengers'} belongs`,
+    );
+  }
+  const filled = new Set(days.filled);
+  const totals = new Array(days.width).fill(0);
+  rows.forEach((row, r) => {
+    if (!filled.has(r)) {
+      if (row.some((x) => !isBlankSlot(x))) push('blank', 'a blank day’s row is not ""');
+      return;
+    }
+    days.visitors[r].forEach((v, c) => (totals[c] += v));
+    row.forEach((x, j) => {
+      const none = output.per === 'challenger' ? totals[0] === 0 || totals[j + 1] === 0 : totals.every((t) => t === 0);
+      if (none && !isBlankSlot(x)) push('blank', 'a value before any visitor');
+      if (!none && isBlankSlot(x)) push('blank', 'a day with visitors holds ""');
+    });
+  });
+  checkNumbers(output, rows.flat(), push);
+}
+
 /** Checks a successful result against the function's output description and the input's table. */
-function checkValue(model, args, value, table, push) {
+function checkValue(model, args, value, table, push, days) {
   const output = model.output;
+  if (output.shape === 'byDay') {
+    if (days) checkByDay(output, value, days, push);
+    else push('shape', 'a by-day result without readable day tables');
+    return;
+  }
   if (output.shape === 'unknown') {
     if (Array.isArray(value)) (asRows(value, push) || []).flat().forEach((c) => checkCell(c, push));
     else checkCell(value, push);
@@ -262,7 +300,7 @@ function checkResult(model, args, result, limits) {
             : `${judged.violations[0].why.replace(/ at item \d+/, '')} (${judged.violations[0].param}) accepted`,
         );
       } else {
-        checkValue(model, args, result.value, judged.table, push);
+        checkValue(model, args, result.value, judged.table, push, judged.days);
       }
       break;
     default:

@@ -297,7 +297,112 @@ function ordinaryDraft(model, rng) {
   }
   if ('low' in scalars && 'high' in scalars && scalars.high <= scalars.low)
     scalars.high = scalars.low + (1 - scalars.low) * rng.uniform(0.01, 0.9);
-  return { lists, scalars, orientation, length };
+  const draft = { lists, scalars, orientation, length };
+  addDayTables(model, draft, rng);
+  addLists(model, draft, rng);
+  return draft;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Day tables (one row per day, one column per variant) and lists of their own (a row or a column)
+
+/** Realistic daily counts (not running totals): 2–10 variants, 1–60 days, sometimes blank days. */
+function addDayTables(model, draft, rng) {
+  const params = model.params.filter((p) => p.role === 'days');
+  if (params.length === 0) return;
+  const width = rng.int(Math.max(2, model.variants.min), Math.min(10, model.variants.max));
+  const height = rng.chance(0.6) ? rng.int(1, 14) : rng.int(15, 60);
+  const perDay = rng.chance(0.05) ? 0 : experimentSize(rng) / rng.int(7, 60);
+  const rate = rng.chance(0.05) ? rng.pick([0, 1]) : rng.logUniform(1e-4, 0.3);
+  const visitors = Array.from({ length: height }, () => {
+    const quiet = rng.chance(0.05);
+    return Array.from({ length: width }, () => (quiet ? 0 : Math.round(perDay * rng.uniform(0.8, 1.2))));
+  });
+  const conversions = visitors.map((row) =>
+    row.map((v) => Math.min(v, Math.max(0, Math.round(v * rate * (1 + 0.2 * rng.normal()))))),
+  );
+  draft.days = {};
+  for (const p of params) draft.days[p.name] = p.rule.atMost ? conversions : visitors;
+  // each table a copy of its own (visitors_by_day alone when nothing is bounded by it)
+  for (const p of params) draft.days[p.name] = draft.days[p.name].map((row) => row.slice());
+  if (rng.chance(0.15)) {
+    for (let b = rng.int(1, 3); b > 0; b--) {
+      const at = rng.int(0, draft.days[params[0].name].length);
+      for (const p of params)
+        draft.days[p.name].splice(
+          at,
+          0,
+          Array.from({ length: width }, () => rng.pick(BLANKS)),
+        );
+    }
+  }
+}
+
+/** Increasing look sizes (1–100 looks, often evenly spaced), or one value per column of the day tables. */
+function addLists(model, draft, rng) {
+  draft.listCells = {};
+  draft.listOrientation = {};
+  for (const p of model.params.filter((q) => q.role === 'list')) {
+    if (p.optional && rng.chance(0.4)) continue;
+    let values;
+    if (p.increasing) {
+      const k = rng.chance(0.7) ? rng.int(p.count.min, Math.min(p.count.max, 10)) : rng.int(p.count.min, p.count.max);
+      const first = rng.logInt(1, 1e6);
+      const even = rng.chance(0.6);
+      values = [];
+      let x = 0;
+      for (let i = 0; i < k; i++) {
+        x += even ? first : Math.max(1, Math.round(first * rng.logUniform(0.2, 5)));
+        values.push(x);
+      }
+      values = values.filter((v) => keeps(p.rule, v));
+      if (values.length < p.count.min) values = [1];
+    } else {
+      const k =
+        p.perColumn && draft.days
+          ? draft.days[Object.keys(draft.days)[0]][0].length
+          : rng.int(p.count.min, Math.min(p.count.max, 10));
+      const equal = rng.chance(0.4);
+      values = Array.from({ length: k }, () => (equal ? 1 : genericTypical(p.rule, rng)));
+    }
+    if (rng.chance(0.1)) values = values.concat(Array.from({ length: rng.int(1, 3) }, () => rng.pick(BLANKS)));
+    draft.listCells[p.name] = values;
+    draft.listOrientation[p.name] = rng.chance(0.3) ? 'row' : 'column';
+  }
+}
+
+/** Positions of the filled days of a day table. */
+const filledDays = (table) =>
+  table.map((row, r) => (row.every((c) => BLANKS.includes(c)) ? -1 : r)).filter((r) => r >= 0);
+
+/** Moves one day-table cell to an edge of its rule, or makes the looks tiny or huge (staying inside). */
+function dayOrListExtreme(model, draft, rng) {
+  const days = model.params.filter((p) => p.role === 'days');
+  const lists = model.params.filter((p) => p.role === 'list' && draft.listCells[p.name]);
+  if (days.length > 0 && (lists.length === 0 || rng.chance(0.6))) {
+    const p = rng.pick(days);
+    const table = draft.days[p.name];
+    const rows = filledDays(table);
+    if (rows.length === 0) return;
+    const r = rng.pick(rows);
+    const c = rng.int(0, table[r].length - 1);
+    table[r][c] = rng.pick(insideEdges(p.rule).filter((x) => x <= 1e12));
+    for (const q of days) {
+      const limit = q.rule.atMost && draft.days[q.rule.atMost];
+      if (limit && draft.days[q.name][r][c] > limit[r][c]) draft.days[q.name][r][c] = limit[r][c];
+    }
+  } else if (lists.length > 0) {
+    const p = rng.pick(lists);
+    const values = draft.listCells[p.name].filter((x) => typeof x === 'number');
+    if (p.increasing) {
+      const k = rng.pick([1, p.count.max, values.length]);
+      const top = rng.pick([p.rule.max ?? 1e9, k, 10 * k]);
+      const step = Math.max(1, Math.floor(top / k));
+      draft.listCells[p.name] = Array.from({ length: Math.min(k, top) }, (_, i) => (i + 1) * step);
+    } else if (values.length > 0) {
+      draft.listCells[p.name][rng.int(0, values.length - 1)] = rng.pick(insideEdges(p.rule));
+    }
+  }
 }
 
 /** Keeps conversions ≤ visitors (and any other `atMost`) after a value was moved. */
@@ -327,7 +432,12 @@ function applyExtremes(model, draft, rng) {
       cell: ranges.length ? 30 : 0,
       column: ranges.length ? 10 : 0,
       wide: ranges.length ? 5 : 0,
+      dayOrList: model.params.some((p) => p.role === 'days' || (p.role === 'list' && draft.listCells[p.name])) ? 40 : 0,
     });
+    if (what === 'dayOrList') {
+      dayOrListExtreme(model, draft, rng);
+      continue;
+    }
     if (what === 'prior') {
       const priors = scalars.filter((p) => p.prior);
       // mostly the edges of the declared domain and values inside it; sometimes far outside (to be refused)
@@ -398,7 +508,11 @@ function applyFault(model, draft, rng) {
     halfPair: 4 * has(pairs),
     choice: 4 * has(choices),
     aligned: 6 * has(aligned),
+    days: 60 * has(model.params.filter((p) => p.role === 'days')),
+    list: 40 * has(model.params.filter((p) => p.role === 'list')),
   });
+  if (fault === 'days') return dayFault(model, draft, rng);
+  if (fault === 'list') return listFault(model, draft, rng);
   const onePosition = (name) => rng.pick(filledPositions(draft, name).length ? filledPositions(draft, name) : [0]);
   switch (fault) {
     case 'cellKind': {
@@ -488,6 +602,124 @@ function applyFault(model, draft, rng) {
   return fault;
 }
 
+/** Breaks one thing in the day tables; returns the kind of fault. */
+function dayFault(model, draft, rng) {
+  const params = model.params.filter((p) => p.role === 'days');
+  const p = rng.pick(params);
+  const table = draft.days[p.name];
+  const rows = filledDays(table);
+  const r = rows.length > 0 ? rng.pick(rows) : 0;
+  const c = rng.int(0, table[0].length - 1);
+  const kind = rng.weighted({
+    dayKind: 25,
+    dayOutside: 25,
+    dayBlank: 15 * (params.length > 1 || table[0].length > 1 ? 1 : 0),
+    dayShape: 10 * (params.length > 1 ? 1 : 0),
+    dayColumns: 15,
+    dayEmpty: 5,
+    dayRows: 2,
+  });
+  switch (kind) {
+    case 'dayKind':
+      table[r][c] = wrongKind(rng);
+      break;
+    case 'dayOutside': {
+      const limit = p.rule.atMost && draft.days[p.rule.atMost];
+      if (limit && typeof limit[r][c] === 'number' && rng.chance(0.4))
+        table[r][c] = limit[r][c] + rng.pick([1, 0.5, 1e6]);
+      else table[r][c] = rng.pick(outsideEdges(p.rule));
+      break;
+    }
+    case 'dayBlank':
+      table[r][c] = rng.pick(BLANKS);
+      if (table[r].every((x) => BLANKS.includes(x))) {
+        if (params.length > 1) break; // another table keeps the day filled
+        table[r][(c + 1) % table[r].length] = 1;
+      }
+      break;
+    case 'dayShape':
+      draft.days[p.name] =
+        rng.chance(0.5) && table.length > 1
+          ? table.slice(0, -1)
+          : table.map((row) => row.slice(0, -1).concat(row.length > 1 ? [] : [1, 1]));
+      break;
+    case 'dayColumns': {
+      const width = rng.chance(0.5) ? 1 : model.variants.max + 1;
+      for (const q of params) {
+        draft.days[q.name] = draft.days[q.name].map((row) =>
+          Array.from({ length: width }, (_, i) => row[i % row.length]),
+        );
+      }
+      break;
+    }
+    case 'dayEmpty':
+      for (const q of params) draft.days[q.name] = draft.days[q.name].map((row) => row.map(() => rng.pick(BLANKS)));
+      break;
+    default: {
+      const extra = 1001 - table.length;
+      for (const q of params) {
+        const t = draft.days[q.name];
+        for (let i = 0; i < extra; i++) t.push(t[i % t.length].slice());
+      }
+    }
+  }
+  return kind;
+}
+
+/** Breaks one thing in a list (or leaves out a required one); returns the kind of fault. */
+function listFault(model, draft, rng) {
+  const p = rng.pick(model.params.filter((q) => q.role === 'list'));
+  const values = draft.listCells[p.name] ?? [1, 2];
+  const filled = values.map((x, i) => (BLANKS.includes(x) ? -1 : i)).filter((i) => i >= 0);
+  const i = filled.length > 0 ? rng.pick(filled) : 0;
+  const kind = rng.weighted({
+    listKind: 20,
+    listOutside: 20,
+    listOrder: p.increasing ? 20 : 0,
+    listTwoD: 10,
+    listCount: 15,
+    listMissing: p.optional ? 0 : 5,
+    listColumns: p.perColumn && draft.days ? 15 : 0,
+  });
+  draft.listCells[p.name] = values;
+  switch (kind) {
+    case 'listKind':
+      values[i] = wrongKind(rng);
+      break;
+    case 'listOutside':
+      values[i] = rng.pick(outsideEdges(p.rule));
+      break;
+    case 'listOrder':
+      if (filled.length < 2) values.push(values[i]);
+      else {
+        const a = filled[rng.int(0, filled.length - 2)];
+        const b = filled[filled.indexOf(a) + 1];
+        if (rng.chance(0.5)) [values[a], values[b]] = [values[b], values[a]];
+        else values[b] = values[a];
+      }
+      break;
+    case 'listTwoD':
+      draft.listTwoD = p.name;
+      break;
+    case 'listCount':
+      if (rng.chance(0.5)) {
+        const top = filled.length > 0 ? values[filled[filled.length - 1]] : 1;
+        const step = p.increasing ? 1 : 0;
+        const more = p.count.max + 1 - filled.length;
+        for (let k = 1; k <= more; k++) values.push(p.increasing ? top + k * step : 1);
+      } else draft.listCells[p.name] = values.map(() => rng.pick(BLANKS));
+      break;
+    case 'listMissing':
+      delete draft.listCells[p.name];
+      break;
+    default: {
+      const numbers = values.filter((x) => !BLANKS.includes(x));
+      draft.listCells[p.name] = rng.chance(0.5) || numbers.length < 2 ? numbers.concat([1]) : numbers.slice(0, -1);
+    }
+  }
+  return kind;
+}
+
 // ---------------------------------------------------------------------------------------------------
 // Layout: lists → ranges in the chosen direction
 
@@ -514,6 +746,17 @@ function buildArgs(model, draft, rng) {
         return [padded.slice(0, half), padded.slice(half)];
       }
       return layout(cells, orientation);
+    }
+    if (p.role === 'days') return draft.days[p.name].map((row) => row.slice());
+    if (p.role === 'list') {
+      const cells = draft.listCells[p.name];
+      if (!cells) return undefined;
+      if (draft.listTwoD === p.name) {
+        const half = Math.max(2, Math.ceil(cells.length / 2));
+        const padded = cells.concat(Array(2 * half - cells.length).fill(1));
+        return [padded.slice(0, half), padded.slice(half)];
+      }
+      return layout(cells, draft.listOrientation[p.name]);
     }
     return p.name in draft.scalars ? draft.scalars[p.name] : undefined;
   });

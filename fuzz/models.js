@@ -4,14 +4,16 @@
  * rules (functions/sheet/rules.ts), its variant count and its spill shape; from parameters.js, the
  * realistic data generator and the meaning of its values.
  *
- * Model: { id, params: [{ name, role, rule, optional, pair?, prior?, family?, text? }], variants, output }
- * with role 'range' | 'aligned' | 'scalar' | 'choice', and output { shape, width?, per?, values?, … } as
+ * Model: { id, params: [{ name, role, rule, optional, pair?, prior?, family?, text?, count?, increasing?,
+ * perColumn? }], variants, output } with role 'range' | 'aligned' | 'scalar' | 'choice' | 'list' (a row or
+ * column of its own: `count` values, `increasing` or not, `perColumn`: one per column of the day tables) |
+ * 'days' (a day table: one row per day, one column per variant, read with the other day tables), and output { shape, width?, per?, values?, … } as
  * checks.js reads it.
  */
 'use strict';
 const fs = require('fs');
 const path = require('path');
-const { DATA_FAMILIES, VALUES, BOTH_OR_NEITHER } = require('./parameters');
+const { DATA_FAMILIES, VALUES, BOTH_OR_NEITHER, PER_COLUMN_LISTS } = require('./parameters');
 
 const REPO_ROOT = path.resolve(__dirname, '..');
 
@@ -43,6 +45,8 @@ function outputOf(id, spill) {
       return spill.rows === 1 ? { shape: 'row', width: spill.columns, ...values } : { shape: 'unknown' };
     case 'densityTable':
       return { shape: 'density', per: spill.series, ...values };
+    case 'byDay':
+      return { shape: 'byDay', per: spill.per, ...values };
     default:
       return { shape: 'unknown' };
   }
@@ -56,6 +60,13 @@ function familyOf(entry) {
   return entry.variants && entry.variants.noun && known.pastResults ? known.pastResults : known.family;
 }
 
+/** The variant count of an entry: its own, or its day tables' (one column per variant). */
+function variantsOf(entry) {
+  const days = entry.params.find((p) => p.kind === 'days');
+  const count = entry.variants ?? (days && days.variants);
+  return count ? { min: count.min, max: count.max } : { min: 1, max: 50 };
+}
+
 /** One catalogue parameter as the fuzzer's model of it. */
 function paramOf(p, entry, family) {
   const base = { name: p.name, optional: Boolean(p.optional), rule: p.rule ?? { name: p.name } };
@@ -66,6 +77,12 @@ function paramOf(p, entry, family) {
       return { ...base, role: 'aligned', text: p.rule === undefined };
     case 'choice':
       return { ...base, role: 'choice' };
+    case 'list': {
+      const perColumn = PER_COLUMN_LISTS.includes(p.name) && entry.params.some((q) => q.kind === 'days');
+      return { ...base, role: 'list', count: p.count, increasing: Boolean(p.increasing), perColumn };
+    }
+    case 'days':
+      return { ...base, role: 'days' };
     case 'prior': {
       const mate = entry.params.find((q) => q.kind === 'prior' && q.prior === p.prior && q.name !== p.name);
       const paired = mate && BOTH_OR_NEITHER.includes(p.prior);
@@ -103,7 +120,7 @@ function loadModels({ metadataPath, catalogue = loadCatalogue() }) {
     return {
       id,
       params: entry.params.map((p) => paramOf(p, entry, family)),
-      variants: entry.variants ? { min: entry.variants.min, max: entry.variants.max } : { min: 1, max: 50 },
+      variants: variantsOf(entry),
       output: outputOf(id, entry.spill),
       catalogued: true,
     };

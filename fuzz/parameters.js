@@ -50,7 +50,18 @@ const VALUES = {
   EVENTS_PROB_ABOVE_CONTROL: { values: 'probability' },
   EVENTS_LIFT_INTERVAL: { min: -1 },
   EVENTS_EXPECTED_LOSS: { values: 'loss' },
+  PROB_ABOVE_CONTROL_BY_DAY: { values: 'probability' },
+  SRM_PVALUE_BY_DAY: { values: 'probability' },
+  FALSE_ALARM_WITH_LOOKS: { values: 'probability' },
+  POWER_WITH_LOOKS: { values: 'probability' },
+  THRESHOLD_FOR_LOOKS: { values: 'probability' },
 };
+
+/**
+ * Lists that hold one value per column of the function's day tables (the catalogue's `planned_shares` of
+ * SRM_PVALUE_BY_DAY: "one per column"); another count is refused naming the list.
+ */
+const PER_COLUMN_LISTS = ['planned_shares'];
 
 /**
  * Priors whose two parts are given together or not at all (the input policy: the Beta prior is
@@ -58,4 +69,4 @@ const VALUES = {
  */
 const BOTH_OR_NEITHER = ['beta'];
 
-module.exports = { DATA_FAMILIES, VALUES, BOTH_OR_NEITHER };
+module.exports = { DATA_FAMILIES, VALUES, BOTH_OR_NEITHER, PER_COLUMN_LISTS };

@@ -47,13 +47,122 @@ function numberProblem(rule, cell) {
   return undefined;
 }
 
+/** Most rows (days) a day table may have (the sheet layer's bound, declared in the day-table rules). */
+const MAX_DAY_ROWS = 1000;
+
+/** Rows of a 2-D argument (a scalar is one cell), or a problem. */
+function rowsOf(range) {
+  const rows = Array.isArray(range) ? range.map((row) => (Array.isArray(row) ? row : [row])) : [[range]];
+  const width = rows[0] ? rows[0].length : 0;
+  if (rows.length === 0 || width === 0) return { problem: 'empty range' };
+  if (rows.some((row) => row.length !== width)) return { problem: 'ragged range' };
+  return { rows };
+}
+
+/**
+ * Judges the day tables of a call together (one row per day, one column per variant, a row blank in every
+ * table is a day without data): flags each table that breaks a rule, and returns the days when readable.
+ * @returns {{ height, width, filled: number[], visitors?: number[][] } | undefined}
+ */
+function judgeDays(model, value, flagParam) {
+  let flagged = false;
+  const flag = (param, why) => {
+    flagged = true;
+    flagParam(param, why);
+  };
+  const params = model.params.filter((p) => p.role === 'days');
+  if (params.length === 0) return undefined;
+  const tables = params.map((p) => ({ param: p, ...rowsOf(value(p.name)) }));
+  tables.filter((t) => t.problem).forEach((t) => flag(t.param.name, t.problem));
+  if (tables.some((t) => t.problem)) return undefined;
+  const first = tables[0];
+  const height = first.rows.length;
+  const width = first.rows[0].length;
+  let ok = true;
+  for (const t of tables.slice(1)) {
+    if (t.rows.length !== height || t.rows[0].length !== width) {
+      flag(t.param.name, 'day table shape differs');
+      flag(first.param.name, 'day table shape differs');
+      ok = false;
+    }
+  }
+  if (!ok) return undefined;
+  if (width < model.variants.min || width > model.variants.max) {
+    flag(first.param.name, `${width} variant columns`);
+    return undefined;
+  }
+  if (height > MAX_DAY_ROWS) {
+    flag(first.param.name, `${height} rows`);
+    return undefined;
+  }
+  const filled = [];
+  for (let r = 0; r < height; r++) {
+    const cells = tables.map((t) => t.rows[r]);
+    const blank = cells.map((row) => row.map((c) => classify(c) === 'blank'));
+    if (blank.every((row) => row.every(Boolean))) continue;
+    let good = true;
+    blank.forEach((row, i) => {
+      if (row.some(Boolean)) {
+        flag(tables[i].param.name, `blank cell in a filled day at row ${r + 1}`);
+        good = false;
+      }
+    });
+    if (!good) continue;
+    tables.forEach((t, i) => {
+      cells[i].forEach((cell, c) => {
+        const problem = numberProblem(t.param.rule, cell);
+        if (problem) {
+          flag(t.param.name, `${problem} at row ${r + 1}, column ${c + 1}`);
+          good = false;
+        }
+      });
+    });
+    if (!good) continue;
+    tables.forEach((t, i) => {
+      const j = tables.findIndex((u) => u.param.name === t.param.rule.atMost);
+      if (j < 0) return;
+      cells[i].forEach((cell, c) => {
+        if (cell > cells[j][c]) flag(t.param.name, `more than ${t.param.rule.atMost} at row ${r + 1}`);
+      });
+    });
+    filled.push(r);
+  }
+  if (filled.length === 0 && !flagged) flag(first.param.name, 'every day blank');
+  // the visitors: the table another one is bounded by, else the first
+  const limit = tables.find((t) => tables.some((u) => u.param.rule.atMost === t.param.name)) ?? first;
+  return { height, width, filled, visitors: limit.rows };
+}
+
+/** Judges a list argument (a row or a column of its own; blank cells skipped) and returns its values. */
+function judgeList(p, v, days, flag) {
+  const omitted = v === null || v === undefined || (!Array.isArray(v) && classify(v) === 'blank');
+  if (omitted) {
+    if (!p.optional) flag(p.name, 'missing');
+    return;
+  }
+  const list = cellList(v);
+  if (list.problem) return flag(p.name, list.problem);
+  const values = [];
+  for (const [i, cell] of list.cells.entries()) {
+    if (classify(cell) === 'blank') continue;
+    const problem = numberProblem(p.rule, cell);
+    if (problem) return flag(p.name, `${problem} at item ${i + 1}`);
+    if (p.increasing && values.length > 0 && !(cell > values[values.length - 1]))
+      return flag(p.name, `not increasing at item ${i + 1}`);
+    values.push(cell);
+  }
+  if (values.length < p.count.min || values.length > p.count.max) return flag(p.name, `${values.length} values`);
+  if (p.perColumn && days && values.length !== days.width) flag(p.name, 'not one value per column');
+}
+
 /**
  * Judges the arguments of one call.
  * @returns {{ violations: {param: string, why: string}[], countProblem: boolean,
- *   table?: { orientation, length, positions } }}
+ *   table?: { orientation, length, positions }, days?: { height, width, filled, visitors } }}
  *   `violations` lists every argument that breaks its declared rule; `countProblem` says the number of
  *   variants is outside the function's limits; `table` (when the variant ranges are readable) gives the
- *   orientation, the number of positions and the positions that hold a variant.
+ *   orientation, the number of positions and the positions that hold a variant; `days` (when the day tables
+ *   are readable) their rows and columns, the rows that hold a day and the visitors' rows.
  */
 function judge(model, args) {
   const violations = [];
@@ -119,9 +228,12 @@ function judge(model, args) {
     }
   }
 
+  const days = judgeDays(model, value, flag);
+
   for (const p of model.params) {
     const v = value(p.name);
-    if (p.role === 'aligned') {
+    if (p.role === 'list') judgeList(p, v, days, flag);
+    else if (p.role === 'aligned') {
       if (v === null || v === undefined || !table) continue;
       const list = cellList(v);
       if (list.problem) {
@@ -158,7 +270,7 @@ function judge(model, args) {
         flag(p.name, `given without ${p.pair}`);
     }
   }
-  return { violations, countProblem, table };
+  return { violations, countProblem, table, days };
 }
 
 module.exports = { classify, cellList, numberProblem, judge, MAX_COUNT };

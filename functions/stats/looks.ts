@@ -433,7 +433,8 @@ function normalLimitGuess(looks: readonly number[], target: number, sides: 1 | 2
   let z1 = z0 + 0.3;
   let f1 = Math.log(rate(z1) / target);
   for (let i = 0; i < 8 && Math.abs(z1 - z0) > 1e-5; i++) {
-    if (f1 === f0) break;
+    // a rate of 0 (far beyond the looks' reach) gives log 0: keep the last finite point
+    if (f1 === f0 || !Number.isFinite(f0) || !Number.isFinite(f1)) break;
     const z2 = Math.min(Math.max(z1 - (f1 * (z1 - z0)) / (f1 - f0), U_MIN), 8);
     z0 = z1;
     f0 = f1;
@@ -507,7 +508,7 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
     if (hi === Infinity && lo >= U_MAX) {
       throw new StatsError(
         'not_available',
-        `even the threshold ${MAX_THRESHOLD} gives a false-alarm rate above ${alpha} with these looks`,
+        `false_alarm ${alpha}: even the threshold ${MAX_THRESHOLD} gives a false-alarm rate above it with these looks`,
       );
     }
     if (lo === -Infinity && hi <= U_MIN) {
@@ -589,7 +590,9 @@ function normalLimitSlope(looks: readonly number[], u: number, sides: 1 | 2): nu
       COARSE_GRID,
     ).probability;
   const d = 1e-3;
-  return (rate(u + d) - rate(u - d)) / (2 * d);
+  // below the lowest threshold the two-sided bounds would cross (−z above z): step down at most to u / 2
+  const below = Math.max(u - d, u / 2);
+  return (rate(u + d) - rate(below)) / (u + d - below);
 }
 
 /**

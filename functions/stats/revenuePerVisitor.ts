@@ -121,7 +121,7 @@ function checkPosteriors(variants: readonly RevenueTotals[]): void {
     if (v.orderSd !== undefined && v.orders === 1) {
       throw new StatsError(
         'not_available',
-        `orders, item ${item}: 1 order, and order_sd needs at least 2 (STDEV.S of one value is undefined); ` +
+        `orders, item ${item}: 1 order, and order_sd needs at least 2 (STDEV.S of one value has no meaning); ` +
           'leave order_sd out to use exponential order values',
       );
     }

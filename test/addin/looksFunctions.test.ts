@@ -192,7 +192,7 @@ describe('errors reach the cell with their code and message', () => {
     [
       () => F.thresholdForLooks(0.3, col(Array.from({ length: 50 }, (_, i) => (i + 1) * 100000)), 0.000001, 2),
       '#N/A',
-      'even the threshold 0.999999 gives a false-alarm rate above 0.000001 with these looks',
+      'false_alarm 0.000001: even the threshold 0.999999 gives a false-alarm rate above it with these looks',
     ],
     [() => F.thresholdForVariants(51), '#VALUE!', 'variants: 51 is not allowed; enter a whole number from 2 to 50'],
     [
@@ -233,5 +233,18 @@ describe('errors reach the cell with their code and message', () => {
     expect(error.message).toMatch(
       /^visitors_at_looks: these looks are too many and too large to plan within the time a worksheet function may take/,
     );
+  });
+});
+
+describe('THRESHOLD_FOR_LOOKS with many two-sided looks and a lenient false alarm (a fuzzer finding)', () => {
+  // Once refused with "each look needs a lower bound below its upper bound": the solver's first guess sat at
+  // the lowest threshold, where a two-sided step below it crossed the bounds. The answer is checked against
+  // the definition (common practice): at the threshold found, FALSE_ALARM_WITH_LOOKS is at most false_alarm.
+  test('gives a threshold whose false-alarm rate is at most the one asked', () => {
+    const looks = col(Array.from({ length: 100 }, (_, i) => (i + 1) * 10_000_000));
+    const threshold = F.thresholdForLooks(0.000001, looks, 0.4072024451700007, 2);
+    expect(threshold).toBeGreaterThan(0.5);
+    expect(threshold).toBeLessThan(1);
+    expect(F.falseAlarmWithLooks(0.000001, looks, threshold, 2)).toBeLessThanOrEqual(0.4072024451700007 + 1e-9);
   });
 });

@@ -56,8 +56,14 @@ describe('the fuzzer over the built bundle', () => {
 
   it(`finds nothing in ${CALLS} seeded calls over every registered function`, async () => {
     const json = path.join(dir, 'report.json');
-    const result = await run(['--bundle', BUNDLE, '--seed', SEED, '--calls', String(CALLS), '--jobs', '2']
-      .concat(['--no-shrink', '--json', json, '--quiet']));
+    const result = await run(
+      ['--bundle', BUNDLE, '--seed', SEED, '--calls', String(CALLS), '--jobs', '2'].concat([
+        '--no-shrink',
+        '--json',
+        json,
+        '--quiet',
+      ]),
+    );
     expect(result.stderr).toBe('');
     expect([0, 1]).toContain(result.code); // 2 would mean the fuzzer could not run
     const report = JSON.parse(fs.readFileSync(json, 'utf8')) as Report;
@@ -68,7 +74,9 @@ describe('the fuzzer over the built bundle', () => {
       .filter((g) => !BUDGET_KINDS.has(g.kind))
       .map((g) =>
         [`${g.kind} in ${g.fn} (${g.count} calls): ${g.detail}`]
-          .concat(g.examples.map((e) => `  ${e.formula} → ${e.outcome}${e.notes?.length ? ` (${e.notes.join('; ')})` : ''}`))
+          .concat(
+            g.examples.map((e) => `  ${e.formula} → ${e.outcome}${e.notes?.length ? ` (${e.notes.join('; ')})` : ''}`),
+          )
           .join('\n'),
       );
     expect(findings.join('\n\n')).toBe('');

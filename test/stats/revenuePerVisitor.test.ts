@@ -177,7 +177,7 @@ describe('edge cases: what the model says, and clear errors', () => {
     expectStatsErrorExact(
       () => revenueInterval([{ orders: 1, visitors: 300, revenue: 20, orderSd: 0 }]),
       'not_available',
-      'orders, item 1: 1 order, and order_sd needs at least 2 (STDEV.S of one value is undefined); leave order_sd out ' +
+      'orders, item 1: 1 order, and order_sd needs at least 2 (STDEV.S of one value has no meaning); leave order_sd out ' +
         'to use exponential order values',
     );
     expectStatsErrorExact(
