@@ -215,6 +215,8 @@ describe('looks input checks', () => {
   it('says when no threshold keeps the false alarm that low', () => {
     const error = thrownStatsError(() => thresholdForLooks(0.3, spaced(50, 100000), 1e-6, 2));
     expect(error.code).toBe('not_available');
-    expect(error.message).toBe('false_alarm 0.000001: even the threshold 0.999999 gives a false-alarm rate above it with these looks');
+    expect(error.message).toBe(
+      'false_alarm 0.000001: even the threshold 0.999999 gives a false-alarm rate above it with these looks',
+    );
   });
 });
