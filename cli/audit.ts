@@ -8,7 +8,7 @@
  * 3. the shared strings: only the entries those values point at.
  */
 import { cellName, rangeName, rangeSize, type CellRange } from './core/cellAddress';
-import { DEFAULT_TOLERANCE, isErrorValue, valuesAgree, type CellValue } from './core/compare';
+import { DEFAULT_TOLERANCE, isErrorValue, valuesAgree, type SavedValue } from './core/compare';
 import { abtestFunctionName, displayFormula, parseFormula, type FormulaNode, type RefNode } from './core/formula';
 import { isCustomFunctionsError, type AddinFunctions } from './addin';
 import { cellKey, scanSheet, type AbtestCell } from './scan';
@@ -25,8 +25,8 @@ export type AuditStatus = 'agrees' | 'differs' | 'not-checkable';
 /** A cell whose saved value and recomputed value differ. */
 export interface CellDifference {
   readonly cell: string;
-  readonly saved: CellValue;
-  readonly recomputed: CellValue;
+  readonly saved: SavedValue;
+  readonly recomputed: SavedValue;
 }
 
 /** One ABTEST formula's result. */
@@ -73,10 +73,10 @@ export interface AuditOptions {
 type ArgPlan =
   | {
       readonly kind: 'value';
-      readonly value: CellValue;
+      readonly value: SavedValue;
       readonly matrix: boolean;
     }
-  | { readonly kind: 'array'; readonly rows: readonly (readonly CellValue[])[] }
+  | { readonly kind: 'array'; readonly rows: readonly (readonly SavedValue[])[] }
   | {
       readonly kind: 'range';
       readonly sheet: SheetInfo;
@@ -238,9 +238,9 @@ class Planner {
 }
 
 /** A recomputed result: a matrix of values, or a worksheet error with its message. */
-type Recomputed = { readonly matrix: CellValue[][] } | { readonly error: string; readonly message: string };
+type Recomputed = { readonly matrix: SavedValue[][] } | { readonly error: string; readonly message: string };
 
-function resultValue(value: unknown): CellValue {
+function resultValue(value: unknown): SavedValue {
   if (isCustomFunctionsError(value)) return { error: value.code };
   if (value === null || value === undefined) return '';
   if (typeof value === 'number') return Number.isFinite(value) ? value : { error: '#NUM!' };
@@ -392,7 +392,7 @@ function judge(
   const args: unknown[] = [];
   let passedError: string | undefined;
   for (const [i, arg] of plan.args.entries()) {
-    const note = (v: CellValue): CellValue => {
+    const note = (v: SavedValue): SavedValue => {
       if (isErrorValue(v) && passedError === undefined) passedError = v.error;
       return v;
     };
@@ -400,9 +400,9 @@ function judge(
     else if (arg.kind === 'value') args.push(arg.matrix ? [[note(arg.value)]] : note(arg.value));
     else if (arg.kind === 'array') args.push(arg.rows.map((r) => r.map(note)));
     else {
-      const rows: CellValue[][] = [];
+      const rows: SavedValue[][] = [];
       for (let r = arg.range.top; r <= arg.range.bottom; r += 1) {
-        const row: CellValue[] = [];
+        const row: SavedValue[] = [];
         for (let c = arg.range.left; c <= arg.range.right; c += 1) {
           const v = valueAt(arg.sheet, r, c);
           if (isUnreadable(v))
@@ -432,7 +432,7 @@ function judge(
       : recompute(fn.run, args);
 
   if ('error' in result) {
-    const recomputed: CellValue = { error: result.error };
+    const recomputed: SavedValue = { error: result.error };
     const agree = valuesAgree(saved, recomputed, tolerance);
     return {
       ...base,
@@ -458,7 +458,7 @@ function judge(
     for (let c = area.left; c <= area.right; c += 1) {
       const i = r - cell.row;
       const j = c - cell.col;
-      const recomputed: CellValue = i < height && j < width ? (matrix[i]?.[j] ?? '') : { error: '#N/A' };
+      const recomputed: SavedValue = i < height && j < width ? (matrix[i]?.[j] ?? '') : { error: '#N/A' };
       const here = r === cell.row && c === cell.col ? saved : valueAt(cell.sheet, r, c);
       compared += 1;
       if (isUnreadable(here)) {

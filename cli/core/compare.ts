@@ -14,7 +14,7 @@
 import type { ErrorLiteral } from './formula';
 
 /** A cell's value as the audit sees it: blank is null. */
-export type CellValue = number | string | boolean | ErrorLiteral | null;
+export type SavedValue = number | string | boolean | ErrorLiteral | null;
 
 /** The default relative tolerance for numbers. */
 export const DEFAULT_TOLERANCE = 1e-9;
@@ -30,8 +30,8 @@ export function isErrorValue(value: unknown): value is ErrorLiteral {
  * @example valuesAgree(0.974322, 0.974323) //=> false
  * @example valuesAgree('', null) //=> true
  */
-export function valuesAgree(saved: CellValue, recomputed: CellValue, tolerance = DEFAULT_TOLERANCE): boolean {
-  const blank = (v: CellValue): boolean => v === null || v === '';
+export function valuesAgree(saved: SavedValue, recomputed: SavedValue, tolerance = DEFAULT_TOLERANCE): boolean {
+  const blank = (v: SavedValue): boolean => v === null || v === '';
   if (blank(saved) || blank(recomputed)) return blank(saved) && blank(recomputed);
   if (typeof saved === 'number' && typeof recomputed === 'number') {
     if (saved === recomputed) return true;
@@ -51,7 +51,7 @@ export function valuesAgree(saved: CellValue, recomputed: CellValue, tolerance =
  * @example showValue('') //=> '""'
  * @example showValue({ error: '#N/A' }) //=> '#N/A'
  */
-export function showValue(value: CellValue): string {
+export function showValue(value: SavedValue): string {
   if (value === null) return '(blank)';
   if (isErrorValue(value)) return value.error;
   if (typeof value === 'string') return JSON.stringify(value);

@@ -4,7 +4,7 @@
  * shared strings part, reading only the indexes that were asked for.
  */
 import type { Readable } from 'stream';
-import type { CellValue } from '../core/compare';
+import type { SavedValue } from '../core/compare';
 import { FastXmlTokenizer } from './fastXml';
 import { feedXml, localName } from './xml';
 
@@ -43,7 +43,7 @@ export function storedValueOf(
 export function decodeStored(
   stored: StoredValue | undefined,
   sharedStrings: ReadonlyMap<number, string>,
-): CellValue | UnreadableValue {
+): SavedValue | UnreadableValue {
   if (stored === undefined) return null;
   const text = stored.text ?? '';
   switch (stored.type) {

@@ -14,7 +14,7 @@
  */
 import type { BetaPrior, DensityTable, GammaPrior } from '../stats/types';
 import type { FunctionEntry, Param, SpillShape } from './entry';
-import { readBetaPrior, readGammaPrior } from './inputs';
+import { readBetaPrior, readGammaPrior } from './readers';
 import { checkNumber, readChoice, readOptionalNumber, readRequiredNumber, type NumberRule } from './rules';
 import { runSheet } from './run';
 import {

@@ -21,7 +21,7 @@
  */
 
 /** What one cell holds, after classification. */
-export type CellValue =
+export type SheetCell =
   | { readonly kind: 'blank' }
   | { readonly kind: 'number'; readonly value: number }
   | { readonly kind: 'text'; readonly text: string }
@@ -46,7 +46,7 @@ export interface CellList {
  * @example classifyCell("") //=> { kind: 'blank' }
  * @example classifyCell(12) //=> { kind: 'number', value: 12 }
  */
-export function classifyCell(cell: unknown): CellValue {
+export function classifyCell(cell: unknown): SheetCell {
   if (cell === null || cell === undefined) return { kind: 'blank' };
   if (typeof cell === 'string') return cell.trim() === '' ? { kind: 'blank' } : { kind: 'text', text: cell };
   if (typeof cell === 'number') {

@@ -9,10 +9,10 @@ import { variantLetter } from './labels';
  * ("1.23%", "0.30%", "0.0012%"), so small expected losses do not round to "0.00%".
  *
  * Cost O(1).
- * @example formatPercent(0.0002) //=> "0.020%"
- * @example formatPercent(0.0123) //=> "1.23%"
+ * @example decisionPercent(0.0002) //=> "0.020%"
+ * @example decisionPercent(0.0123) //=> "1.23%"
  */
-export function formatPercent(rate: number): string {
+export function decisionPercent(rate: number): string {
   const percent = rate * 100;
   if (percent === 0) return '0%';
   const magnitude = Math.floor(Math.log10(Math.abs(percent)));
@@ -60,7 +60,7 @@ export interface DecisionOutcome {
  * //=> "Choose B: its expected loss 0.020% is within the 0.050% allowed"
  */
 export function decisionText(outcome: DecisionOutcome): string {
-  return decisionWords(outcome, formatPercent(outcome.loss), formatPercent(outcome.maxLoss));
+  return decisionWords(outcome, decisionPercent(outcome.loss), decisionPercent(outcome.maxLoss));
 }
 
 /** The one wording of every *_DECISION, given the loss and the threshold already written out. */
@@ -94,7 +94,7 @@ export function decisionCell(
 
 /**
  * Formats an amount in a metric's own units (a loss of revenue per visitor, events per unit of exposure,
- * an average) with two significant digits and at least two decimals, as formatPercent does for rates:
+ * an average) with two significant digits and at least two decimals, as decisionPercent does for rates:
  * no currency symbol (the add-in cannot know the currency).
  *
  * Cost O(1).

@@ -43,7 +43,7 @@ import {
   decisionText,
   defaultLabel,
   formatAmount,
-  formatPercent,
+  decisionPercent,
   labelOf,
 } from '../../functions/sheet/decision';
 import { readArgs } from '../../functions/sheet/args';
@@ -586,11 +586,11 @@ describe('the one error mapping', () => {
 
 describe('decision text', () => {
   test('percentages keep two significant digits and at least two decimals', () => {
-    expect(formatPercent(0.0123)).toBe('1.23%');
-    expect(formatPercent(0.003)).toBe('0.30%');
-    expect(formatPercent(0.0002)).toBe('0.020%');
-    expect(formatPercent(6.5235e-5)).toBe('0.0065%');
-    expect(formatPercent(0)).toBe('0%');
+    expect(decisionPercent(0.0123)).toBe('1.23%');
+    expect(decisionPercent(0.003)).toBe('0.30%');
+    expect(decisionPercent(0.0002)).toBe('0.020%');
+    expect(decisionPercent(6.5235e-5)).toBe('0.0065%');
+    expect(decisionPercent(0)).toBe('0%');
   });
 
   test('default labels are A, B, … Z, AA by position', () => {
