@@ -15,7 +15,7 @@ import { gammaWorkingDensity } from './gammaDensity';
 import { tabulate } from './quadrature';
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
-import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
+import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
 import { betaCdf, betaQuantilePair, betaTailLog } from './special/incompleteBeta';
 import { gammaQuantile, gammaQuantileUpper } from './special/incompleteGamma';
 import type { TabulatedDistribution } from './quadrature';
@@ -42,13 +42,7 @@ function checkPrior(prior: GammaPrior): void {
 /** Checks every variant and the prior; returns the posteriors. */
 function posteriors(variants: readonly EventCounts[], prior: GammaPrior, minimum: number): GammaPosterior[] {
   checkPrior(prior);
-  ensure(
-    variants.length >= minimum,
-    minimum === 1
-      ? 'at least one variant is needed'
-      : `at least ${minimum} variants are needed (the first is the control), got ${variants.length}`,
-  );
-  ensure(variants.length <= MAX_VARIANTS, `at most ${MAX_VARIANTS} variants are allowed, got ${variants.length}`);
+  checkVariantCount(variants.length, minimum);
   return variants.map((v, i) => {
     const item = i + 1;
     ensure(Number.isFinite(v.events), `events, item ${item}: ${v.events} is not a number`);

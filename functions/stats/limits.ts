@@ -69,6 +69,22 @@ export function checkLevel(level: number): void {
 }
 
 /**
+ * Checks how many variants a model's comparison is given: at least `minimum` (1 for a per-variant
+ * read-out, 2 where the first is the control) and at most MAX_VARIANTS.
+ * Cost: O(1). Throws StatsError('invalid_argument') saying how many are needed and how many came.
+ * @example checkVariantCount(3, 2) //=> undefined
+ */
+export function checkVariantCount(count: number, minimum: number): void {
+  ensure(
+    count >= minimum,
+    minimum === 1
+      ? 'at least one variant is needed'
+      : `at least ${minimum} variants are needed (the first is the control), got ${count}`,
+  );
+  ensure(count <= MAX_VARIANTS, `at most ${MAX_VARIANTS} variants are allowed, got ${count}`);
+}
+
+/**
  * Checks the number of rows of a density table: a whole number from MIN_POINTS to MAX_POINTS.
  * Cost: O(1). Throws StatsError('invalid_argument') naming the value and the allowed range.
  * @example checkPoints(101) //=> undefined

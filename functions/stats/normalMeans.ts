@@ -31,7 +31,7 @@ import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
 import { tabulate } from './quadrature';
 import type { TabulatedDistribution } from './quadrature';
-import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
+import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
 import { findRoot } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';
 import { studentTWorkingDensity } from './studentTDensity';
@@ -48,13 +48,7 @@ interface MeanPosterior {
 }
 
 function posteriors(variants: readonly MeanSummary[], minimum: number): MeanPosterior[] {
-  ensure(
-    variants.length >= minimum,
-    minimum === 1
-      ? 'at least one variant is needed'
-      : `at least ${minimum} variants are needed (the first is the control), got ${variants.length}`,
-  );
-  ensure(variants.length <= MAX_VARIANTS, `at most ${MAX_VARIANTS} variants are allowed, got ${variants.length}`);
+  checkVariantCount(variants.length, minimum);
   return variants.map((v, i) => {
     const item = i + 1;
     ensure(Number.isFinite(v.count), `count, item ${item}: ${v.count} is not a number`);

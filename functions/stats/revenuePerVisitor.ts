@@ -31,7 +31,7 @@ import { expectedLosses, highestProbabilities, probabilityGreater, ratioCdf, rat
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
-import { MAX_COUNT, MAX_VARIANTS, checkLevel } from './limits';
+import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
 import { PANEL_ORDER, tabulate } from './quadrature';
 import type { TabulatedDistribution } from './quadrature';
 import { findRoot, gaussLegendre } from './numeric';
@@ -58,13 +58,7 @@ const LOG_FRAME_MASS = 1e-13;
 
 /** Checks the totals (argument names and items in every message); true when order_sd is given. */
 function checkTotals(variants: readonly RevenueTotals[], minimum: number): boolean {
-  ensure(
-    variants.length >= minimum,
-    minimum === 1
-      ? 'at least one variant is needed'
-      : `at least ${minimum} variants are needed (the first is the control), got ${variants.length}`,
-  );
-  ensure(variants.length <= MAX_VARIANTS, `at most ${MAX_VARIANTS} variants are allowed, got ${variants.length}`);
+  checkVariantCount(variants.length, minimum);
   const withSd = variants[0]?.orderSd !== undefined;
   variants.forEach((v, i) => {
     const item = i + 1;
