@@ -143,7 +143,7 @@ describe('the Share section on the demo read-out', () => {
       /^Made "Checkout test \(shared\)" \('Checkout test \(shared\)'!A1:N146\): 36 ABTEST results are plain values, the formulas in a note on each\. 1 chart kept\. "Checkout test" is unchanged and stays live\./,
     );
     const sheets = await page.evaluate(() => window.liftLedgerPreview?.workbook.sheetNames());
-    expect(sheets).toEqual(['Checkout test', 'Past tests', 'Plan', COPY]);
+    expect(sheets).toEqual(['Checkout test', 'Past tests', 'Plan', 'Daily test', COPY]);
 
     // B11:B13 (posterior means) of the source are B12:B14 of the copy: plain numbers, the live values, in scipy's
     // agreement (posterior means (1 + x)/(2 + n), closed form), with the source's number format.
