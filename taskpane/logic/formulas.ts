@@ -106,8 +106,39 @@ export interface LabelledBlock {
   readonly cells: BlockCells;
 }
 
-function at(origin: CellPosition, row: number, column: number): string {
+export function at(origin: CellPosition, row: number, column: number): string {
   return cellAddress({ row: origin.row + row, column: origin.column + column });
+}
+
+/** A block under construction: the contents and number formats of its cells, counted from its top-left cell. */
+export interface BlockGrid {
+  readonly cells: CellValue[][];
+  readonly formats: (string | null)[][];
+  /** Sets one cell and its number format; returns the cell's address. */
+  put(row: number, column: number, value: CellValue, format?: string | null): string;
+  /** Gives `rows` cells of a column, from `row` down, one number format (a column of per-variant results). */
+  formatColumn(row: number, column: number, format: string): void;
+}
+
+/**
+ * An empty height × width block at `origin`, whose per-variant columns are `rows` tall.
+ * Cost O(height · width). Never throws.
+ */
+export function blockGrid(origin: CellPosition, height: number, width: number, rows: number): BlockGrid {
+  const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
+  const formats: (string | null)[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => null));
+  return {
+    cells,
+    formats,
+    put: (row, column, value, format = null) => {
+      (cells[row] as CellValue[])[column] = value;
+      (formats[row] as (string | null)[])[column] = format;
+      return at(origin, row, column);
+    },
+    formatColumn: (row, column, format) => {
+      for (let r = row; r < row + rows; r += 1) (formats[r] as (string | null)[])[column] = format;
+    },
+  };
 }
 
 /**
@@ -288,16 +319,7 @@ export function readoutBlock(
   const densityTitleRow = settingsRow + 7 + guardrailBand(guardrails.length);
   const densityHeaderRow = densityTitleRow + 1;
   const height = densityHeaderRow + 1 + settings.densityPoints;
-  const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
-  const formats: (string | null)[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => null));
-  const put = (row: number, column: number, value: CellValue, format: string | null = null): string => {
-    (cells[row] as CellValue[])[column] = value;
-    (formats[row] as (string | null)[])[column] = format;
-    return at(origin, row, column);
-  };
-  const formatColumn = (row: number, column: number, format: string): void => {
-    for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
-  };
+  const { cells, formats, put, formatColumn } = blockGrid(origin, height, width, k);
   // References to the table, qualified when the block is on another sheet.
   const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
   const ref = (local: string): string =>

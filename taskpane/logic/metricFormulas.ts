@@ -5,10 +5,10 @@
  * limit and required probability as input cells, and a decision that says when the chosen variant fails a
  * guardrail. Pure functions from plain inputs to FormulaBlock data; every result is a live formula.
  */
-import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
-import { cellAddress, parseAddress, rangeAddress, referenceFrom, type CellPosition } from '../workbook/address';
+import type { BlockStyle, FormulaBlock } from '../workbook/workbook';
+import { cellAddress, parseAddress, rangeAddress, referenceFrom } from '../workbook/address';
 import { variantLetter } from '../../functions/sheet/labels';
-import { numberLiteral, SRM_ALARM, WARNING_FILL, WARNING_TEXT, type LabelledBlock } from './formulas';
+import { at, blockGrid, numberLiteral, SRM_ALARM, WARNING_FILL, WARNING_TEXT, type LabelledBlock } from './formulas';
 import { dataArgs, guardrailRows, MAX_GUARDRAILS, writeGuardrails, type Guardrail } from './guardrails';
 import { KIND_SHORT, type MetricKind, type MetricRole } from './metrics';
 
@@ -57,10 +57,6 @@ const UNITS: Readonly<
   },
 };
 
-function at(origin: CellPosition, row: number, column: number): string {
-  return cellAddress({ row: origin.row + row, column: origin.column + column });
-}
-
 /**
  * Size of the metric read-out block for k variants and g guardrails. Cost O(1).
  * @example metricReadoutArea(3, 1) //=> { rowCount: 16, columnCount: 11 }
@@ -101,16 +97,7 @@ export function metricReadoutBlock(
   const area = metricReadoutArea(k, guardrails.length);
   const width = area.columnCount;
   const height = area.rowCount;
-  const cells: CellValue[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => ''));
-  const formats: (string | null)[][] = Array.from({ length: height }, () => Array.from({ length: width }, () => null));
-  const put = (row: number, column: number, value: CellValue, format: string | null = null): string => {
-    (cells[row] as CellValue[])[column] = value;
-    (formats[row] as (string | null)[])[column] = format;
-    return at(origin, row, column);
-  };
-  const formatColumn = (row: number, column: number, format: string): void => {
-    for (let r = row; r < row + k; r += 1) (formats[r] as (string | null)[])[column] = format;
-  };
+  const { cells, formats, put, formatColumn } = blockGrid(origin, height, width, k);
   const other = source.sheet !== undefined && sheet !== undefined && source.sheet !== sheet;
   const qualify = (local: string): string =>
     other ? referenceFrom(sheet as string, source.sheet as string, local) : local;
