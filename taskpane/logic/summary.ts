@@ -7,6 +7,9 @@
  * sheet (Workbook.writeBlock) set to print on one page. The wording is our own.
  */
 import { conversion } from '../../functions/stats';
+import { eventsProbLiftAbove } from '../../functions/stats/eventRates';
+import { meanProbLiftAbove } from '../../functions/stats/normalMeans';
+import { revenueProbLiftAbove } from '../../functions/stats/revenuePerVisitor';
 import { srmPValue } from '../../functions/stats/srm';
 import type { BetaPrior, ConversionCounts, IntervalWithMedian } from '../../functions/stats/types';
 import { UNIFORM_PRIOR } from '../../functions/stats/types';
@@ -15,21 +18,35 @@ import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
 import { SRM_ALARM, WARNING_TEXT } from './formulas';
 import { DEFAULT_LOCALE, formatCount, formatPercent, type NumberLocale } from './inputs';
 import { chancePhrase, chanceText, variantLabel } from './resultWords';
+import type { GuardrailDirection } from './guardrails';
+import { KIND_SHORT, type MetricKind, type MetricRole } from './metrics';
 
 /**
- * A guardrail: a metric a challenger must not make worse by more than a limit (e.g. revenue per visitor
- * "no worse than −2%"), with the chance that it holds. Read-outs with guardrails (issue #13) pass them in;
- * without any, the summary says none were set.
+ * A guardrail of the read-out the summary is about (guardrails.ts): another metric of the same versions
+ * that the chosen version must not harm, "no worse than" (or "no higher than") a relative lift limit with
+ * at least a required probability, and that metric's columns, from which the summary recomputes the
+ * probabilities with the core (as the read-out's …PROB_LIFT_ABOVE formula does). Without any, the summary
+ * says none were set.
  */
-export interface Guardrail {
-  /** The metric and the version it is about, in the user's words ("Revenue per visitor, Form with photo"). */
-  readonly name: string;
-  /** The worst relative change accepted, as a fraction: −0.02 for "no worse than −2%". */
-  readonly threshold: number;
-  /** The probability that the change is above the threshold (0 to 1). */
-  readonly probability: number;
-  /** Whether the guardrail holds by the read-out's own rule. */
-  readonly passes: boolean;
+export interface SummaryGuardrail {
+  readonly kind: MetricKind;
+  readonly direction: GuardrailDirection;
+  /** The relative lift limit as a fraction: −0.02 for "no worse than −2%". */
+  readonly limit: number;
+  /** The probability with which it must hold, in [0.5, 1). */
+  readonly required: number;
+  /** The metric's columns per version, the control first (orders as `conversions` for revenue). */
+  readonly data: Readonly<Partial<Record<MetricRole, readonly number[]>>>;
+}
+
+/** A guardrail's numbers: per challenger (the control has none). */
+export interface GuardrailNumbers {
+  /** P(lift > limit), as the read-out's column shows it. */
+  readonly probAbove: number[];
+  /** The chance the guardrail holds: P(lift > limit) for "no worse than", 1 − that for "no higher than". */
+  readonly holds: number[];
+  /** holds ≥ required. */
+  readonly passes: boolean[];
 }
 
 /** What the summary is made from: the variant table as the Read-out section checked it, and a few words. */
@@ -53,7 +70,9 @@ export interface SummaryInput {
   readonly prior: BetaPrior;
   /** The largest expected loss accepted (a rate); default 1% of the control's posterior mean, as DECISION. */
   readonly maxLoss?: number;
-  readonly guardrails: readonly Guardrail[];
+  readonly guardrails: readonly SummaryGuardrail[];
+  /** Where the guardrails were read ("'Checkout test'!K3"), when there are any. */
+  readonly guardrailSource?: string;
   readonly preparedAt: Date;
 }
 
@@ -71,12 +90,67 @@ export interface SummaryNumbers {
   readonly decision: conversion.Decision;
   /** Split check p-value (chi-square against the planned shares). */
   readonly srm: number;
+  /** Per guardrail, in the input's order. */
+  readonly guardrails: GuardrailNumbers[];
   /** With a flat prior instead of the chosen one, when the chosen one is not flat (prior sensitivity). */
   readonly flat: { readonly probBest: number[]; readonly decision: conversion.Decision } | null;
 }
 
 function isFlat(prior: BetaPrior): boolean {
   return prior.alpha === UNIFORM_PRIOR.alpha && prior.beta === UNIFORM_PRIOR.beta;
+}
+
+/**
+ * A guardrail's probabilities from its metric's columns, by the core function its read-out formula calls
+ * (PROB_LIFT_ABOVE with the default flat prior, REVENUE_/MEAN_/EVENTS_PROB_LIFT_ABOVE). Cost: one lift tail
+ * per challenger. Throws the core's StatsError for bad columns or limit.
+ * @example guardrailNumbers({ kind: 'counts', direction: 'noWorse', limit: -0.02, required: 0.95, data: { events: [120, 145], exposure: [1000, 1010] } }).passes //=> [true]
+ */
+export function guardrailNumbers(guard: SummaryGuardrail): GuardrailNumbers {
+  const column = (role: MetricRole): readonly number[] => guard.data[role] ?? [];
+  const at = (role: MetricRole, i: number): number => column(role)[i] as number;
+  let probAbove: number[];
+  switch (guard.kind) {
+    case 'conversions':
+      probAbove = conversion.probLiftAbove(
+        column('visitors').map((v, i) => ({ visitors: v, conversions: at('conversions', i) })),
+        guard.limit,
+        UNIFORM_PRIOR,
+      );
+      break;
+    case 'revenue': {
+      const sd = guard.data.orderSd;
+      probAbove = revenueProbLiftAbove(
+        column('visitors').map((v, i) => ({
+          orders: at('conversions', i),
+          visitors: v,
+          revenue: at('revenue', i),
+          ...(sd === undefined ? {} : { orderSd: sd[i] as number }),
+        })),
+        guard.limit,
+      );
+      break;
+    }
+    case 'averages':
+      probAbove = meanProbLiftAbove(
+        column('count').map((n, i) => ({ count: n, mean: at('mean', i), sd: at('sd', i) })),
+        guard.limit,
+      );
+      break;
+    case 'counts':
+      probAbove = eventsProbLiftAbove(
+        column('events').map((e, i) => ({ events: e, exposure: at('exposure', i) })),
+        guard.limit,
+      );
+      break;
+  }
+  const noWorse = guard.direction === 'noWorse';
+  return {
+    probAbove,
+    holds: probAbove.map((p) => (noWorse ? p : 1 - p)),
+    // The read-out's own test (guardrails.ts writeGuardrails): fails when p < required, or p > 1 − required.
+    passes: probAbove.map((p) => (noWorse ? !(p < guard.required) : !(p > 1 - guard.required))),
+  };
 }
 
 /**
@@ -100,6 +174,7 @@ export function summaryNumbers(input: SummaryInput): SummaryNumbers {
     expectedLoss: conversion.expectedLoss(counts, input.prior),
     decision,
     srm: srmPValue(input.visitors, input.shares ?? undefined),
+    guardrails: input.guardrails.map(guardrailNumbers),
     flat: isFlat(input.prior)
       ? null
       : {
@@ -154,7 +229,7 @@ function listWords(items: readonly string[]): string {
 
 /** What one line of the page is. */
 export type SummaryLineKind =
-  'title' | 'note' | 'heading' | 'text' | 'strong' | 'warning' | 'tableHead' | 'tableRow' | 'blank';
+  'title' | 'note' | 'heading' | 'text' | 'strong' | 'warning' | 'tableHead' | 'tableRow' | 'warningRow' | 'blank';
 
 /** One row of the page: its kind, its cells (from column A) and their number formats. */
 export interface SummaryLine {
@@ -166,6 +241,11 @@ export interface SummaryLine {
 /** The level as a reader says it: "95%". */
 function levelWords(level: number): string {
   return `${Number((level * 100).toPrecision(4))}%`;
+}
+
+/** A guardrail's limit in words: "no worse than −2.0%" (the read-out's own wording, guardrails.ts). */
+function limitWords(g: SummaryGuardrail, locale: NumberLocale): string {
+  return `${g.direction === 'noWorse' ? 'no worse than' : 'no higher than'} ${signedPercent(g.limit, locale)}`;
 }
 
 /**
@@ -212,11 +292,34 @@ export function summaryLines(
   const loss = ratePoints(decision.loss, locale);
   const allowed = ratePoints(decision.maxLoss, locale);
   const best = chancePhrase(numbers.probBest[leader] as number, locale);
-  if (decision.choose) {
+  // The read-out's decision with guardrails: a chosen challenger that fails a guardrail is not switched to.
+  const failing =
+    decision.choose && leader > 0
+      ? input.guardrails.flatMap((g, j) =>
+          numbers.guardrails[j]?.passes[leader - 1] === false ? [{ g, j, n: numbers.guardrails[j] }] : [],
+        )
+      : [];
+  if (failing.length > 0) {
+    paragraph(
+      `Do not switch to ${name(leader)} yet: it fails ${failing.length === 1 ? 'a guardrail' : 'guardrails'}.`,
+      'strong',
+    );
+    const reasons = failing.map(
+      ({ g, j, n }) =>
+        `the chance that its ${KIND_SHORT[g.kind]} lift is ${limitWords(g, locale)} (guardrail ${j + 1}) is ` +
+        `${formatPercent(n?.holds[leader - 1] as number, locale)}, below the ${levelWords(g.required)} required`,
+    );
+    paragraph(
+      `Why: on conversion rate alone it would be chosen (${chanceText(numbers.probBest[leader] as number, locale)} chance of ` +
+        `being best, expected loss ${loss}, within the ${allowed} accepted), but ${listWords(reasons)}.`,
+      'warning',
+    );
+  } else if (decision.choose) {
     paragraph(leader === 0 ? `Keep ${label(0)}: no other version did better.` : `Go with ${name(leader)}.`, 'strong');
     paragraph(
       `Why: ${name(leader)} has ${best} of the highest conversion rate. If it is not in fact the best, choosing it ` +
-        `gives up ${loss} of conversion rate on average (its expected loss), within the ${allowed} accepted.`,
+        `gives up ${loss} of conversion rate on average (its expected loss), within the ${allowed} accepted.` +
+        (leader > 0 && input.guardrails.length > 0 ? ' Its guardrails hold (below).' : ''),
     );
   } else {
     paragraph('No decision yet: keep the test running.', 'strong');
@@ -268,13 +371,24 @@ export function summaryLines(
         'for example revenue per visitor no worse than −2%.',
     );
   } else {
-    for (const guard of input.guardrails) {
+    paragraph(
+      `From the read-out${input.guardrailSource ? ` at ${input.guardrailSource}` : ''}. Each is a second measure a new ` +
+        'version must not harm; beside each version, the chance it stays within the limit (its lift relative to the control).',
+    );
+    input.guardrails.forEach((g, j) => {
+      const n = numbers.guardrails[j] as GuardrailNumbers;
       paragraph(
-        `${guard.name}, no worse than ${signedPercent(guard.threshold, locale)}: ${chanceText(guard.probability, locale)} ` +
-          `chance it holds; ${guard.passes ? 'passes' : 'does not pass'}.`,
-        guard.passes ? 'text' : 'warning',
+        `Guardrail ${j + 1}: ${KIND_SHORT[g.kind]} lift ${limitWords(g, locale)}, with a chance of at least ${levelWords(g.required)}.`,
       );
-    }
+      for (let i = 1; i < k; i += 1) {
+        const passes = n.passes[i - 1] as boolean;
+        lines.push({
+          kind: passes ? 'tableRow' : 'warningRow',
+          cells: [`  ${name(i)}`, '', '', '', n.holds[i - 1] as number, passes ? 'passes' : 'fails', ''],
+          formats: [null, null, null, null, '0.0%', null, null],
+        });
+      }
+    });
   }
 
   heading('Split check');
@@ -358,6 +472,8 @@ export function summaryBlock(
       styles.push({ row, column: 0, style: { bold: true } });
     } else if (line.kind === 'tableHead') {
       styles.push({ row, column: 0, columnCount: width, style: { bold: true } });
+    } else if (line.kind === 'warningRow') {
+      styles.push({ row, column: 0, columnCount: width, style: { fontColor: WARNING_TEXT, bold: true } });
     } else if (line.kind === 'warning') {
       // Red bold text, no fill: a filled cell would stop the line from running on over the cells to its right.
       styles.push({ row, column: 0, style: { fontColor: WARNING_TEXT, bold: true } });

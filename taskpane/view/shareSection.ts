@@ -21,11 +21,24 @@ import {
   type CopyPlan,
   type CopyScope,
 } from '../logic/shareCopy';
-import { summaryBlock, summaryNumbers, type SummaryInput } from '../logic/summary';
+import {
+  signedPercent,
+  summaryBlock,
+  summaryNumbers,
+  type SummaryGuardrail,
+  type SummaryInput,
+} from '../logic/summary';
+import {
+  CONVERSIONS_READOUT_TITLE,
+  findGuardrailCells,
+  guardrailSettings,
+  type GuardrailCells,
+} from '../logic/summaryGuardrails';
+import { KIND_SHORT, type MetricRole } from '../logic/metrics';
 import { formatCount, parseNumber, readCount, readPercent, type CountRule, type PercentRule } from '../logic/inputs';
 import { variantLabel } from '../logic/resultWords';
 import { checkTable, detectTable, type TableMapping } from '../logic/tableDetect';
-import { columnLetters, quoteSheet } from '../workbook/address';
+import { columnLetters, parseAddress, quoteSheet } from '../workbook/address';
 import type { CopyOutcome, CopyRequest, RangeContents, SheetScan } from '../workbook/workbook';
 import { type PanelContext } from './context';
 import { button, el, radioGroup, setBusy, showMessage, textField, type Intent } from './dom';
@@ -171,13 +184,16 @@ export function shareSection(context: PanelContext): HTMLElement {
     el(
       'p',
       { class: 'hint' },
-      'Writes a new sheet set to print on one page: what was tested, the decision and why, each version’s chance of being best, the plausible lift range, the split check and the cautions that apply — as values, so it reads the same anywhere.',
+      'Writes a new sheet set to print on one page: what was tested, the decision and why, each version’s chance of being best, the plausible lift range, the guardrails of the table’s read-out, the split check and the cautions that apply — as values, so it reads the same anywhere.',
     ),
     summaryStatus,
     cautionLink,
   );
 
   const view = {
+    /** The guardrails of the table's read-out, read at "Use the selected table", and where they were. */
+    guardrails: [] as SummaryGuardrail[],
+    guardrailSource: null as string | null,
     plan: null as CopyPlan | null,
     scan: null as SheetScan | null,
     scope: { kind: 'sheet' } as CopyScope,
@@ -327,12 +343,73 @@ export function shareSection(context: PanelContext): HTMLElement {
     setBusy(writeButton, !(view.table !== null && view.mapping !== null && view.confirmed) || view.writing);
   };
 
+  /**
+   * The guardrails of a conversions read-out of this table, as "Insert read-out" wrote them: on the table's
+   * sheet or on its read-out sheet ("<sheet> read-out", the panel's proposal). The first read-out with
+   * guardrails is used; its limits and required probabilities are read from its cells, the guardrail
+   * metrics' columns from the table's sheet (the summary recomputes the probabilities with the core).
+   */
+  const findGuardrails = async (
+    selection: RangeContents,
+    firstRow: number,
+    rows: number,
+  ): Promise<{ guardrails: SummaryGuardrail[]; source: string | null; problem: string | null }> => {
+    const none = { guardrails: [], source: null, problem: null };
+    const table = { sheet: selection.sheet, firstRow: parseAddress(selection.localAddress).start.row + firstRow, rows };
+    const own = await context.workbook.scanSheet(selection.sheet);
+    const readoutSheet = `${selection.sheet} read-out`;
+    const scans = [own];
+    for (const name of own.sheetNames) {
+      if (name === readoutSheet || name.startsWith(`${readoutSheet} (`))
+        scans.push(await context.workbook.scanSheet(name));
+    }
+    const blocks = new Map<string, GuardrailCells[]>();
+    for (const scan of scans) {
+      for (const cells of findGuardrailCells(scan, table)) {
+        const key = `${quoteSheet(cells.sheet)}!${cells.blockTopLeft}`;
+        blocks.set(key, [...(blocks.get(key) ?? []), cells]);
+      }
+    }
+    for (const [source, cells] of blocks) {
+      const first = cells[0] as GuardrailCells;
+      const title = await context.workbook.readRange(first.blockTopLeft, first.sheet);
+      if (title.values[0]?.[0] !== CONVERSIONS_READOUT_TITLE) continue;
+      const guardrails: SummaryGuardrail[] = [];
+      for (const found of [...cells].sort((a, b) => a.n - b.n)) {
+        const settings = guardrailSettings(
+          (await context.workbook.readRange(found.settings, found.sheet)).values,
+          found.n,
+          found.kind,
+        );
+        if (settings === null) {
+          return {
+            ...none,
+            problem: `guardrail ${found.n} of the read-out at ${source} has no limit or required probability the panel can read`,
+          };
+        }
+        const data: Partial<Record<MetricRole, number[]>> = {};
+        for (const [role, ref] of Object.entries(found.refs) as [MetricRole, string][]) {
+          const values = (await context.workbook.readRange(ref, selection.sheet)).values.map((row) => row[0]);
+          if (!values.every((v): v is number => typeof v === 'number' && Number.isFinite(v))) {
+            return { ...none, problem: `guardrail ${found.n}'s column ${ref} holds cells that are not numbers` };
+          }
+          data[role] = values;
+        }
+        guardrails.push({ kind: found.kind, ...settings, data });
+      }
+      return { guardrails, source, problem: null };
+    }
+    return none;
+  };
+
   const useTable = async (): Promise<void> => {
     setBusy(useButton, true);
     showMessage(summaryStatus, 'info', null);
     showMessage(confirmArea, 'info', null);
     view.table = null;
     view.mapping = null;
+    view.guardrails = [];
+    view.guardrailSource = null;
     try {
       const selection = await context.workbook.readSelection();
       const detection = selection.truncated
@@ -375,6 +452,31 @@ export function shareSection(context: PanelContext): HTMLElement {
           `${checked.names.length} variants in ${selection.address} (${checked.shares === null ? 'equal shares planned' : 'with planned shares'}):`,
         ),
         list,
+      );
+      let found: Awaited<ReturnType<typeof findGuardrails>>;
+      try {
+        found = await findGuardrails(selection, checked.firstRow, checked.names.length);
+      } catch (error) {
+        found = { guardrails: [], source: null, problem: `could not look for them (${(error as Error).message})` };
+      }
+      view.guardrails = found.guardrails;
+      view.guardrailSource = found.source;
+      tableArea.append(
+        el(
+          'p',
+          { id: 'summary-guardrails', class: found.problem === null ? '' : 'error-text' },
+          found.problem !== null
+            ? `Guardrails: ${found.problem}. The summary will say none were set; fix the read-out or insert it again.`
+            : found.guardrails.length === 0
+              ? 'No read-out of this table with guardrails was found (on this sheet or its read-out sheet): the summary will say none were set.'
+              : `Guardrails from the read-out at ${found.source}: ${found.guardrails
+                  .map(
+                    (g) =>
+                      `${KIND_SHORT[g.kind]} lift ${g.direction === 'noWorse' ? 'no worse than' : 'no higher than'} ` +
+                      `${signedPercent(g.limit, context.locale)} (with at least ${Number((g.required * 100).toPrecision(4))}%)`,
+                  )
+                  .join('; ')}.`,
+        ),
       );
       if (!view.confirmed) {
         const confirm = button('summary-confirm-mapping', 'The columns are right', 'secondary');
@@ -449,7 +551,8 @@ export function shareSection(context: PanelContext): HTMLElement {
         shares: checked.shares,
         level: levelReading.value,
         prior: { alpha: a, beta: b },
-        guardrails: [],
+        guardrails: view.guardrails,
+        ...(view.guardrailSource === null ? {} : { guardrailSource: view.guardrailSource }),
         preparedAt: new Date(),
       };
       let numbers: ReturnType<typeof summaryNumbers>;

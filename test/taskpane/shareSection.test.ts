@@ -23,9 +23,11 @@ jest.mock('office-addin-manifest', () => ({
 
 import * as fs from 'fs';
 import * as path from 'path';
+import { readoutBlock } from '../../taskpane/logic/formulas';
 import { createContext } from '../../taskpane/view/context';
 import { shareSection } from '../../taskpane/view/shareSection';
 import { createOfficeWorkbook } from '../../taskpane/workbook/officeWorkbook';
+import type { CellValue } from '../../taskpane/workbook/workbook';
 import { mockExcel, type MockExcel } from './mockExcel';
 
 const SHEET = 'Checkout test';
@@ -219,6 +221,17 @@ const REFERENCE = JSON.parse(
   fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8'),
 ) as Record<string, ReferenceCase>;
 
+/** Guardrail probabilities from scipy (test/reference/addin/summary_guardrails.py). */
+interface GuardrailReference {
+  averages: { count: number[]; mean: number[]; sd: number[] };
+  counts: { events: number[]; exposure: number[] };
+  averages_prob_lift_above: Record<string, number[]>;
+  counts_prob_lift_above: Record<string, number[]>;
+}
+const GUARDRAILS = JSON.parse(
+  fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_guardrails.json'), 'utf8'),
+) as Record<string, GuardrailReference>;
+
 describe('Share section: the summary for people who decide', () => {
   /** The invented sign-up test of the scipy reference, as a variant table with headings. */
   function signupSheet(): MockExcel {
@@ -293,6 +306,96 @@ describe('Share section: the summary for people who decide', () => {
     });
     // The source table is untouched.
     expect(excel.formulas('Sign-up test', 'A2:C2')).toEqual([['Short form', 9840, 402]]);
+  });
+
+  test('a read-out of the table with guardrails: the summary carries each one, its chance per version (scipy) and the decision that does not switch', async () => {
+    const ref = REFERENCE.signup as ReferenceCase;
+    const guard = GUARDRAILS.signup as GuardrailReference;
+    const excel = mockExcel(['Sign-up test']);
+    // The invented sign-up table with two invented guardrail metrics (summary_guardrails.py, case "signup").
+    excel.set('Sign-up test', 'A1:H4', [
+      ['Version', 'Visitors', 'Conversions', 'Count', 'Mean order value', 'SD', 'Contacts', 'User-days'],
+      ...ref.names.map((name, i) => [
+        name,
+        ref.visitors[i] as number,
+        ref.conversions[i] as number,
+        guard.averages.count[i] as number,
+        guard.averages.mean[i] as number,
+        guard.averages.sd[i] as number,
+        guard.counts.events[i] as number,
+        guard.counts.exposure[i] as number,
+      ]),
+    ]);
+    // The read-out "Insert read-out" writes for it at J1, with an averages and an event-rate guardrail.
+    const built = readoutBlock(
+      {
+        sheet: 'Sign-up test',
+        namesRef: 'A2:A4',
+        visitorsRef: 'B2:B4',
+        conversionsRef: 'C2:C4',
+        sharesRef: null,
+        variants: 3,
+        refs: { count: 'D2:D4', mean: 'E2:E4', sd: 'F2:F4', events: 'G2:G4', exposure: 'H2:H4' },
+      },
+      { level: 0.95, prior: { alpha: 1, beta: 1 }, densityPoints: 11, currentSrmPValue: 1 },
+      'J1',
+      'Sign-up test',
+      [
+        { kind: 'averages', direction: 'noWorse', limit: -0.02, required: 0.85 },
+        { kind: 'counts', direction: 'noHigher', limit: 0.05, required: 0.95 },
+      ],
+    );
+    const rows = built.block.cells.length;
+    const columns = (built.block.cells[0] as unknown[]).length;
+    excel.set('Sign-up test', `J1:${String.fromCharCode(74 + columns - 1)}${rows}`, built.block.cells as CellValue[][]);
+    excel.selection = { sheet: 'Sign-up test', address: 'A1:C4' };
+    const root = mount(excel);
+    click(root, '#summary-use-selection');
+    await settle();
+    expect(text(root, '#summary-guardrails')).toBe(
+      "Guardrails from the read-out at 'Sign-up test'!J1: average lift no worse than −2.0% (with at least 85%); " +
+        'event rate lift no higher than +5.0% (with at least 95%).',
+    );
+    click(root, '#summary-write');
+    await settle();
+    const page = excel.formulas('Sign-up test summary', 'A1:G60');
+    const words = page
+      .map((r) => String(r[0]))
+      .join(' ')
+      .replace(/\s+/g, ' ');
+    expect(words).toContain('Do not switch to Form with photo yet: it fails a guardrail.');
+    expect(words).toContain('Guardrail 1: average lift no worse than −2.0%, with a chance of at least 85%.');
+    expect(words).toContain('Guardrail 2: event rate lift no higher than +5.0%, with a chance of at least 95%.');
+    expect(words).not.toContain('No guardrails were set');
+    // The rows of each guardrail: the chance it holds as a value, against scipy; "no higher than" holds with 1 − P.
+    const results = page.filter((r) => r[5] === 'passes' || r[5] === 'fails');
+    const averages = guard.averages_prob_lift_above['-0.02'] as number[];
+    const counts = guard.counts_prob_lift_above['0.05'] as number[];
+    const expected = [...averages, ...counts.map((p) => 1 - p)];
+    expect(results.map((r) => String(r[0]).trim())).toEqual([
+      'Form with photo',
+      'Two-step form',
+      'Form with photo',
+      'Two-step form',
+    ]);
+    results.forEach((r, i) => expect(Math.abs((r[4] as number) - (expected[i] as number))).toBeLessThan(1e-9));
+    expect(results.map((r) => r[5])).toEqual(['passes', 'fails', 'fails', 'fails']);
+    // A read-out of another table (other rows) is not taken for this one's.
+    const other = mockExcel(['Sign-up test']);
+    other.set('Sign-up test', 'A1:C4', [
+      ['Version', 'Visitors', 'Conversions'],
+      ...ref.names.map((name, i) => [name, ref.visitors[i] as number, ref.conversions[i] as number]),
+    ]);
+    other.set('Sign-up test', 'J1:J3', [
+      ['Read-out (Lift Ledger)'],
+      ['="Guardrail 1: P(average lift > "&ROUND(100*K12,2)&"%)"'],
+      ['=ABTEST.MEAN_PROB_LIFT_ABOVE(D3:D5,E3:E5,F3:F5,K12)'],
+    ]);
+    other.selection = { sheet: 'Sign-up test', address: 'A1:C4' };
+    const again = mount(other);
+    click(again, '#summary-use-selection');
+    await settle();
+    expect(text(again, '#summary-guardrails')).toMatch(/^No read-out of this table with guardrails was found/);
   });
 
   test('bad fields: nothing is written and each field says what is wrong', async () => {

@@ -4,7 +4,9 @@
  * loss by quadrature over the Beta posteriors, lift quantiles by root finding on the ratio's CDF, the split
  * check by scipy.stats.chisquare), and every number in its words is one of those values as shown. Also the
  * page itself: guardrails (none, passing, failing), the split check, the cautions that apply, lines short
- * enough to print, and a portrait page fitted to one page.
+ * enough to print, and a portrait page fitted to one page. The guardrails' probabilities are checked against
+ * scipy too (test/reference/addin/summary_guardrails.py → summary_guardrails.json: Student t ratio by
+ * quadrature, the Gamma rate ratio by its F distribution).
  */
 import * as fs from 'fs';
 import * as path from 'path';
@@ -42,6 +44,18 @@ interface ReferenceCase {
 const REFERENCE = JSON.parse(
   fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8'),
 ) as Record<string, ReferenceCase>;
+
+/** Guardrail probabilities from scipy (test/reference/addin/summary_guardrails.py). */
+interface GuardrailReference {
+  names: string[];
+  averages: { count: number[]; mean: number[]; sd: number[] };
+  counts: { events: number[]; exposure: number[] };
+  averages_prob_lift_above: Record<string, number[]>;
+  counts_prob_lift_above: Record<string, number[]>;
+}
+const GUARDRAILS = JSON.parse(
+  fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_guardrails.json'), 'utf8'),
+) as Record<string, GuardrailReference>;
 
 const AT = new Date(Date.UTC(2025, 6, 4, 9, 30, 0));
 
@@ -213,23 +227,78 @@ describe('the words say the numbers', () => {
     expect(text).toContain('shown to 1,602 visitors in all.');
   });
 
-  test('guardrails slot in: each with its limit, its chance and whether it passes; a failing one in red', () => {
+  test('guardrails: each metric, its limit in words, the chance it holds per version as a value (scipy), pass or fail', () => {
+    const ref = GUARDRAILS.signup as GuardrailReference;
     const input = inputOf('signup', {
       guardrails: [
-        { name: 'Revenue per visitor, Form with photo', threshold: -0.02, probability: 0.974, passes: true },
-        { name: 'Refund rate, Form with photo', threshold: -0.05, probability: 0.41, passes: false },
+        { kind: 'averages', direction: 'noWorse', limit: -0.02, required: 0.85, data: ref.averages },
+        { kind: 'counts', direction: 'noHigher', limit: 0.05, required: 0.95, data: ref.counts },
       ],
+      guardrailSource: "'Sign-up test'!E1",
     });
-    const lines = summaryLines(input, summaryNumbers(input));
-    expect(prose(input)).toContain(
-      'Revenue per visitor, Form with photo, no worse than −2.0%: 97% chance it holds; passes.',
+    const numbers = summaryNumbers(input);
+    // The core against scipy (summary_guardrails.json): P(lift > limit) per challenger.
+    const averages = ref.averages_prob_lift_above['-0.02'] as number[];
+    const counts = ref.counts_prob_lift_above['0.05'] as number[];
+    numbers.guardrails[0]?.probAbove.forEach((p, i) =>
+      expect(Math.abs(p - (averages[i] as number))).toBeLessThan(1e-9),
     );
-    const failing = lines.find((l) => String(l.cells[0]).startsWith('Refund rate'));
-    expect(failing).toEqual({
-      kind: 'warning',
-      cells: ['Refund rate, Form with photo, no worse than −5.0%: 41% chance it holds; does not pass.'],
+    numbers.guardrails[1]?.probAbove.forEach((p, i) => expect(Math.abs(p - (counts[i] as number))).toBeLessThan(1e-9));
+    // "No higher than" holds with 1 − P(lift > limit).
+    numbers.guardrails[1]?.holds.forEach((h, i) =>
+      expect(Math.abs(h - (1 - (counts[i] as number)))).toBeLessThan(1e-9),
+    );
+    expect(numbers.guardrails.map((g) => g.passes)).toEqual([
+      [averages[0]! >= 0.85, averages[1]! >= 0.85],
+      [1 - counts[0]! >= 0.95, 1 - counts[1]! >= 0.95],
+    ]);
+    expect(numbers.guardrails.map((g) => g.passes)).toEqual([
+      [true, false],
+      [false, false],
+    ]);
+    const lines = summaryLines(input, numbers);
+    const text = prose(input);
+    expect(text).not.toContain('No guardrails were set');
+    expect(text).toContain("From the read-out at 'Sign-up test'!E1. Each is a second measure");
+    expect(text).toContain('Guardrail 1: average lift no worse than −2.0%, with a chance of at least 85%.');
+    expect(text).toContain('Guardrail 2: event rate lift no higher than +5.0%, with a chance of at least 95%.');
+    // One row per challenger and guardrail: the name, the chance it holds as a value (0.0%), passes or fails.
+    const rows = lines.filter((l) => l.cells[5] === 'passes' || l.cells[5] === 'fails');
+    expect(rows.map((r) => [r.kind, r.cells[0], r.cells[5]])).toEqual([
+      ['tableRow', '  Form with photo', 'passes'],
+      ['warningRow', '  Two-step form', 'fails'],
+      ['warningRow', '  Form with photo', 'fails'],
+      ['warningRow', '  Two-step form', 'fails'],
+    ]);
+    expect(rows.map((r) => r.cells[4])).toEqual([...numbers.guardrails[0]!.holds, ...numbers.guardrails[1]!.holds]);
+    expect(rows[0]?.formats?.[4]).toBe('0.0%');
+    // The leader by conversions fails guardrail 2: the decision does not switch, and says why with the numbers.
+    expect(text).toContain('Do not switch to Form with photo yet: it fails a guardrail.');
+    expect(formatPercent(1 - counts[0]!)).toBe('0.408%');
+    expect(text).toContain(
+      'Why: on conversion rate alone it would be chosen (87% chance of being best, expected loss 0.0187 percentage ' +
+        'points, within the 0.0409 percentage points accepted), but the chance that its event rate lift is no higher ' +
+        'than +5.0% (guardrail 2) is 0.408%, below the 95% required.',
+    );
+    expect(text).not.toContain('Go with Form with photo.');
+    const block = summaryBlock(input, numbers, 'S');
+    const failRow = lines.findIndex((l) => l.kind === 'warningRow');
+    expect(block.styles).toContainEqual({
+      row: failRow,
+      column: 0,
+      columnCount: SUMMARY_COLUMN_WIDTHS.length,
+      style: { fontColor: '#9C0006', bold: true },
     });
-    expect(prose(input)).not.toContain('No guardrails were set');
+  });
+
+  test('guardrails that hold: the decision stands and says so', () => {
+    const ref = GUARDRAILS.signup as GuardrailReference;
+    const input = inputOf('signup', {
+      guardrails: [{ kind: 'averages', direction: 'noWorse', limit: -0.02, required: 0.85, data: ref.averages }],
+    });
+    const text = prose(input);
+    expect(text).toContain('Go with Form with photo.');
+    expect(text).toContain('within the 0.0409 percentage points accepted. Its guardrails hold (below).');
   });
 
   test('the control as the safe choice is said as keeping it', () => {
@@ -249,7 +318,15 @@ describe('the printed page', () => {
   test('every line fits the page width; one page of rows; portrait, fitted to one page, the block as print area', () => {
     for (const name of ['signup', 'banner', 'unsettled', 'checkout_demo']) {
       const input = inputOf(name, {
-        guardrails: [{ name: 'Revenue per visitor, the leader', threshold: -0.02, probability: 0.9, passes: true }],
+        guardrails: [
+          {
+            kind: 'averages',
+            direction: 'noWorse',
+            limit: -0.02,
+            required: 0.95,
+            data: (GUARDRAILS.signup as GuardrailReference).averages,
+          },
+        ],
       });
       const block = summaryBlock(input, summaryNumbers(input), 'Sign-up summary');
       for (const row of block.cells) {
