@@ -24,7 +24,10 @@ export interface MetricSource {
 /** Settings of a metric read-out. */
 export interface MetricSettings {
   readonly level: number;
-  /** The SRM p-value the core computes from the visitors (or counts) now, for the warning fill; null for counts. */
+  /**
+   * The SRM p-value the core computes now from the units the split check counts (visitors, counts, or a
+   * counts table's users or visitors column), for the warning fill; null when there are none.
+   */
   readonly currentSrmPValue: number | null;
 }
 
@@ -74,7 +77,8 @@ export function metricReadoutArea(variants: number, guardrails: number): { rowCo
  * exposure), the credible interval, P(beats control), P(highest), the lift interval and the expected loss
  * (all live spilling formulas of the kind's family), a note on the units, then the credible level, the
  * largest acceptable loss (1% of the control's observed value, in the metric's units), the kind's
- * *_DECISION, the split check (SRM on visitors or counts; none for counts per exposure) and the guardrails
+ * *_DECISION, the split check (SRM on the visitors, the counts, or a counts table's users or visitors column;
+ * for counts per exposure without one, a line saying none can be made from exposure alone) and the guardrails
  * (writeGuardrails). When the block goes on another sheet than the table, references name the table's
  * sheet. Cost O(variants + guardrails). Throws RangeError for fewer than 2 variants, the conversions kind
  * (formulas.ts's readoutBlock writes it), more than MAX_GUARDRAILS guardrails or a missing column.
@@ -184,15 +188,24 @@ export function metricReadoutBlock(
     { row: 1, column: 0, columnCount: TABLE_WIDTH + guardrails.length, style: { bold: true } },
     { row: settingsRow + 2, column: 0, columnCount: 2, style: { bold: true } },
   ];
-  if (kind === 'counts' || settings.currentSrmPValue === null) {
-    put(settingsRow + 3, 0, 'Split check: check the split on the visitors (exposure is not a count of visitors)');
-  } else {
-    const counted = kind === 'revenue' ? ref('visitors') : ref('count');
-    put(
+  // The split check needs counts of assigned units (a chi-square goodness of fit treats each unit as one
+  // draw with the planned shares). Revenue has its visitors, averages their counts. Counts per exposure have
+  // one only when the table gives a units column (users or visitors; KIND_ROLES.counts' optional role): a
+  // chi-square on the exposure itself (user-days, sessions, hours) is not valid — exposure sums unequal
+  // amounts per unit, so its spread is far larger than a count's (false alarms), and its value changes with
+  // the unit (hours instead of days multiplies the statistic by 24). Without a units column the block says so.
+  const counted = kind === 'revenue' || kind === 'counts' ? refs.visitors : refs.count;
+  if (counted === undefined || settings.currentSrmPValue === null) {
+    names.srmMissing = put(
       settingsRow + 3,
       0,
-      `Split check: SRM p-value on the ${kind === 'revenue' ? 'visitors' : 'counts'} (equal shares)`,
+      kind === 'counts'
+        ? 'Split check: none from exposure alone (a chi-square on exposure is not valid). Add a column of users or visitors per variant to the table and insert the read-out again.'
+        : 'Split check: check the split on the visitors',
     );
+  } else {
+    const units = kind === 'averages' ? 'counts' : kind === 'counts' ? 'users or visitors' : 'visitors';
+    put(settingsRow + 3, 0, `Split check: SRM p-value on the ${units} (equal shares)`);
     names.srmPValue = put(settingsRow + 3, 1, `=ABTEST.SRM_PVALUE(${counted})`, '0.0000');
     names.srmVerdict = put(
       settingsRow + 3,

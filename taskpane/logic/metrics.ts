@@ -49,7 +49,8 @@ export const KIND_ROLES: Readonly<
   conversions: { required: ['visitors', 'conversions'], optional: [] },
   revenue: { required: ['conversions', 'visitors', 'revenue'], optional: ['orderSd'] },
   averages: { required: ['count', 'mean', 'sd'], optional: [] },
-  counts: { required: ['events', 'exposure'], optional: [] },
+  // Counts per exposure: users or visitors (the assigned units) only for the split check (metricFormulas.ts).
+  counts: { required: ['events', 'exposure'], optional: ['visitors'] },
 };
 
 /** A column's name in the panel, per kind where the same column means different things. */
@@ -59,12 +60,19 @@ export function roleName(role: MetricRole, kind: MetricKind): string {
       return kind === 'revenue' ? 'Orders' : 'Conversions';
     case 'orderSd':
       return 'Order sd (optional)';
+    case 'visitors':
+      return kind === 'counts' ? 'Users or visitors (optional, for the split check)' : 'Visitors';
     case 'sd':
       return 'Standard deviation';
     default:
       return role.charAt(0).toUpperCase() + role.slice(1);
   }
 }
+
+/** Heading words of a visitors (or users) column; not "User-days" or "Visitor sessions", which are exposure. */
+const VISITOR_WORDS = /^(?!.*(day|hour|week|session|exposure|time)).*(visit|user|traffic|^n$|trial)/i;
+/** Heading words of a conversions (or orders) column. */
+const CONVERSION_WORDS = /conver|order|purchas|sign.?up|success|checkout|buyer/i;
 
 /** Heading words per column, tried in this order so the more specific wins (each column is used once). */
 const ROLE_WORDS: readonly [MetricRole, RegExp][] = [
@@ -73,8 +81,8 @@ const ROLE_WORDS: readonly [MetricRole, RegExp][] = [
   ['mean', /mean|average|avg/i],
   ['count', /count|^n$|sample size/i],
   ['revenue', /revenue|sales|amount|turnover|income|gmv|value/i],
-  ['visitors', /visit|user|traffic|^n$|trial/i],
-  ['conversions', /conver|order|purchas|sign.?up|success|checkout|buyer/i],
+  ['visitors', VISITOR_WORDS],
+  ['conversions', CONVERSION_WORDS],
   ['events', /event|adds?\b|refund|return|complaint|error|click|call|view|contact|ticket/i],
   ['exposure', /exposure|session|day|hour|week|duration|time/i],
 ];
@@ -89,7 +97,10 @@ export interface MetricDetection {
   readonly columns: RoleColumns;
   /** The kinds whose required columns were all found, in METRIC_KINDS order. */
   readonly available: readonly MetricKind[];
-  /** The kind proposed: revenue totals when found, else the first available; null when none is. */
+  /**
+   * The kind proposed: revenue totals when found, counts when the guessed conversions column is headed as
+   * events, else the first available; null when none is.
+   */
   readonly proposed: MetricKind | null;
 }
 
@@ -151,7 +162,13 @@ export function detectMetrics(
       if (columns[role] !== null) continue;
       for (let c = 0; c < width; c += 1) {
         const heading = first[c];
-        if (taken.has(c) || c === columns.visitors || c === columns.conversions) continue;
+        // The columns tableDetect guessed from the numbers may be events ("Complaints") and exposure
+        // ("User-days"): those roles may take them when the heading says so and not the guessed role.
+        const text = typeof heading === 'string' ? heading.trim() : '';
+        const mayTake =
+          (role === 'events' && c === columns.conversions && !CONVERSION_WORDS.test(text)) ||
+          (role === 'exposure' && c === columns.visitors && !VISITOR_WORDS.test(text));
+        if (!mayTake && (taken.has(c) || c === columns.visitors || c === columns.conversions)) continue;
         if (typeof heading === 'string' && words.test(heading.trim())) {
           columns[role] = c;
           taken.add(c);
@@ -160,8 +177,11 @@ export function detectMetrics(
       }
     }
   }
+  // Exposure took the guessed visitors column: the table has no visitors (a split check must not count exposure).
+  if (columns.exposure !== null && columns.exposure === columns.visitors) columns.visitors = null;
   const available = availableKinds(columns);
-  const proposed = available.includes('revenue') ? 'revenue' : (available[0] ?? null);
+  const eventsNotConversions = columns.events !== null && columns.events === columns.conversions;
+  const proposed = available.includes('revenue') ? 'revenue' : eventsNotConversions ? 'counts' : (available[0] ?? null);
   return { hasHeader, namesColumn, columns, available, proposed };
 }
 
@@ -178,7 +198,9 @@ export type CheckedMetrics =
 
 /** Why a role's cell is refused (null when fine). */
 function roleProblem(role: MetricRole, v: CellValue | undefined, kind: MetricKind): string | null {
-  const what = roleName(role, kind).replace(' (optional)', '').toLowerCase();
+  const what = roleName(role, kind)
+    .replace(/ \(optional[^)]*\)$/, '')
+    .toLowerCase();
   if (!isNumber(v)) return `${what} is ${describeCell(v)}, not a number`;
   switch (role) {
     case 'visitors':

@@ -240,12 +240,12 @@ export function readoutSection(context: PanelContext): HTMLElement {
       list.append(el('li', {}, `${variantLabel(name, i)}: ${words}`));
     });
     tableInfo.replaceChildren(el('p', {}, `${checked.names.length} variants in ${selection.address}:`), list);
-    const counted = view.kind === 'revenue' ? values.visitors : view.kind === 'averages' ? values.count : undefined;
+    const counted = view.kind === 'averages' ? values.count : values.visitors;
     if (counted === undefined) {
       showMessage(
         splitArea,
-        'info',
-        'Split check: exposure is not a count of visitors; check the split on the visitors table.',
+        'warning',
+        'Split check: none can be made from exposure alone (exposure is not a count of assigned users). Add a column of users or visitors per variant to the table, or check the split on the visitors table.',
       );
     } else {
       const p = srmPValue(counted);
@@ -747,15 +747,15 @@ export function readoutSection(context: PanelContext): HTMLElement {
           guardrails,
         );
       const counted = metrics?.ok
-        ? view.kind === 'revenue'
-          ? metrics.values.visitors
-          : metrics.values.count
+        ? view.kind === 'averages'
+          ? metrics.values.count
+          : metrics.values.visitors
         : undefined;
       const buildMetric = (target: { sheet: string; topLeft: string }) =>
         metricReadoutBlock(
           view.kind,
           { sheet: selection.sheet, namesRef, refs, variants: k },
-          { level: lv, currentSrmPValue: view.kind === 'counts' || counted === undefined ? null : srmPValue(counted) },
+          { level: lv, currentSrmPValue: counted === undefined ? null : srmPValue(counted) },
           guardrails,
           target.topLeft,
           target.sheet,

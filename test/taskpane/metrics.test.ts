@@ -213,6 +213,61 @@ describe('the metric read-out blocks', () => {
     expect((counts.block.cells[2] as CellValue[])[2]).toBe('=ABTEST.EVENTS_RATE_INTERVAL(Data!B2:B4,Data!C2:C4,B8)');
     expect((counts.block.cells[2] as CellValue[])[1]).toBe('=Data!B2/Data!C2');
     expect(counts.cells.srmPValue).toBeUndefined();
+    // Without a units column: a plain line naming the column to add, no chi-square on exposure.
+    expect(counts.cells.srmMissing).toBe('A11');
+    expect((counts.block.cells[10] as CellValue[])[0]).toBe(
+      'Split check: none from exposure alone (a chi-square on exposure is not valid). Add a column of users or visitors per variant to the table and insert the read-out again.',
+    );
+    expect(counts.block.cells.flat().some((c) => String(c).includes('SRM_PVALUE'))).toBe(false);
+  });
+
+  test('counts per exposure with a users column: the split check counts the users, never the exposure', () => {
+    const withUsers = metricReadoutBlock(
+      'counts',
+      {
+        sheet: 'Data',
+        namesRef: 'A2:A4',
+        refs: { events: 'B2:B4', exposure: 'C2:C4', visitors: 'D2:D4' },
+        variants: 3,
+      },
+      { level: 0.95, currentSrmPValue: 0.0002 },
+      [],
+      'A1',
+      'Data',
+    );
+    expect(withUsers.cells.srmPValue).toBe('B11');
+    expect((withUsers.block.cells[10] as CellValue[]).slice(0, 2)).toEqual([
+      'Split check: SRM p-value on the users or visitors (equal shares)',
+      '=ABTEST.SRM_PVALUE(D2:D4)',
+    ]);
+    // Below 0.001 now: the warning fill on the value and its verdict.
+    expect(withUsers.block.styles).toContainEqual({
+      row: 10,
+      column: 1,
+      columnCount: 2,
+      style: { fillColor: '#F4CCCC', fontColor: '#9C0006', bold: true },
+    });
+  });
+
+  test('a counts table: "Users" is the units column, "User-days" the exposure (not visitors)', () => {
+    const table: CellValue[][] = [
+      ['Variant', 'Users', 'Complaints', 'User-days'],
+      ['A', 5000, 41, 70000],
+      ['B', 5030, 37, 70420],
+    ];
+    const d = detect(table);
+    expect(d.columns).toMatchObject({ visitors: 1, events: 2, exposure: 3 });
+    expect(d.available).toContain('counts');
+    const checked = checkMetrics(table, d, ['counts']);
+    expect(checked.ok && checked.values.visitors).toEqual([5000, 5030]);
+    // Exposure alone: "User-days" is not taken for users.
+    const alone = detect([
+      ['Variant', 'Complaints', 'User-days'],
+      ['A', 41, 70000],
+      ['B', 37, 70420],
+    ]);
+    expect(alone.columns).toMatchObject({ visitors: null, events: 1, exposure: 2 });
+    expect(alone.proposed).toBe('counts');
   });
 
   test('errors: too few variants, the conversions kind, too many guardrails, a guardrail column missing', () => {
