@@ -1,7 +1,9 @@
 /**
  * Draws the preview's charts (added by the side panel through `charts.add`) as simple SVG line charts over
  * the grid: the first column of the source range is x, each further column one series (seriesBy Columns);
- * a text first row names the series. Charts are redrawn from the live cells on every recalculation.
+ * a text first row names the series; points with markers for XYScatterLines; the axis titles when set, and a
+ * zero line where x = 0 lies inside the range (as Excel's vertical axis crosses there). Charts are redrawn
+ * from the live cells on every recalculation.
  */
 import type { PreviewChart, PreviewWorkbook } from './previewWorkbook';
 
@@ -78,7 +80,8 @@ export function renderChart(
   });
   const { names, points } = chartSeries(book.values(chart.source));
   const all = points.flat();
-  const pad = { left: 44, right: 8, top: 8, bottom: 22 };
+  const titles = chart.axisTitles ?? { x: '', y: '' };
+  const pad = { left: titles.y ? 58 : 44, right: 8, top: 8, bottom: titles.x ? 38 : 22 };
   if (all.length > 0) {
     const xs = all.map((p) => p[0]);
     const ys = all.map((p) => p[1]);
@@ -102,21 +105,35 @@ export function renderChart(
       plot.append(t);
     };
     const short = (v: number) => String(Number(v.toPrecision(3)));
-    label(pad.left, height - 6, short(x0), 'start');
-    label(width - pad.right, height - 6, short(x1), 'end');
+    label(pad.left, height - pad.bottom + 14, short(x0), 'start');
+    label(width - pad.right, height - pad.bottom + 14, short(x1), 'end');
     label(pad.left - 4, pad.top + 8, short(y1), 'end');
     label(pad.left - 4, height - pad.bottom, short(y0), 'end');
+    // The zero line: Excel's vertical axis crosses a scatter chart's x axis at 0 when 0 is in range.
+    if (x0 < 0 && x1 > 0) {
+      plot.append(svg('line', { x1: sx(0), y1: pad.top, x2: sx(0), y2: height - pad.bottom, class: 'axis zero-line' }));
+    }
+    if (titles.x) {
+      const t = svg('text', { x: (pad.left + width - pad.right) / 2, y: height - 4, 'text-anchor': 'middle' });
+      t.setAttribute('class', 'axis-title');
+      t.textContent = titles.x;
+      plot.append(t);
+    }
+    if (titles.y) {
+      const middle = (pad.top + height - pad.bottom) / 2;
+      const t = svg('text', { x: 12, y: middle, 'text-anchor': 'middle', transform: `rotate(-90 12 ${middle})` });
+      t.setAttribute('class', 'axis-title');
+      t.textContent = titles.y;
+      plot.append(t);
+    }
     points.forEach((series, i) => {
       if (series.length === 0) return;
+      const colour = SERIES_COLOURS[i % SERIES_COLOURS.length] ?? '#333';
       const d = series.map((p, j) => `${j === 0 ? 'M' : 'L'}${sx(p[0]).toFixed(1)},${sy(p[1]).toFixed(1)}`).join(' ');
-      plot.append(
-        svg('path', {
-          d,
-          fill: 'none',
-          stroke: SERIES_COLOURS[i % SERIES_COLOURS.length] ?? '#333',
-          'stroke-width': 2,
-        }),
-      );
+      plot.append(svg('path', { d, fill: 'none', stroke: colour, 'stroke-width': 2 }));
+      if (chart.type === 'XYScatterLines') {
+        for (const p of series) plot.append(svg('circle', { cx: sx(p[0]), cy: sy(p[1]), r: 3, fill: colour }));
+      }
     });
   }
   frame.append(plot);

@@ -12,7 +12,8 @@
  * - Worksheet `name` (also set: renames), `getRange(a1)`, `getUsedRangeOrNullObject(valuesOnly?)` (a range
  *   with everything below, or a null object), `activate()`, `delete()`, `copy('After', sheet)` (named
  *   "Name (2)"; placed at the end of the tabs, as HyperFormula cannot reorder sheets),
- *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `setPosition(from, to)`, `name`),
+ *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `axes.categoryAxis/valueAxis.title.text`,
+ *   `setPosition(from, to)`, `name`),
  *   `charts.load('items/…')` → `items` with `name`, `top`, `left` (points) and `delete()`;
  *   `notes.getItemOrNullObject(a1)` (load `content`; `content` settable) and `notes.add(a1, text)`
  *   (ExcelApi 1.18); `pageLayout.orientation`, `.zoom`, `.centerHorizontally`, `.setPrintArea(a1)`.
@@ -633,12 +634,30 @@ class RangeFormatProxy {
 
 class ChartProxy {
   readonly title: { text: string };
+  /** The x (category) and y (value) axes' titles, as Office.js's chart.axes.categoryAxis/valueAxis.title.text. */
+  readonly axes: { categoryAxis: { title: { text: string } }; valueAxis: { title: { text: string } } };
   private chartName = '';
   constructor(
     private readonly ctx: RequestContext,
     private readonly chart: () => import('./previewWorkbook').PreviewChart,
   ) {
     const self = this;
+    const axisTitle = (which: 'x' | 'y'): { text: string } => {
+      let text = '';
+      return {
+        get text(): string {
+          return text;
+        },
+        set text(value: string) {
+          text = String(value);
+          ctx.enqueue(() => {
+            self.chart().axisTitles[which] = text;
+            ctx.book.chartsChanged();
+          });
+        },
+      };
+    };
+    this.axes = { categoryAxis: { title: axisTitle('x') }, valueAxis: { title: axisTitle('y') } };
     let titleText = '';
     this.title = {
       get text(): string {
@@ -771,7 +790,7 @@ class WorksheetProxy {
       add: (type: string, source: RangeProxy, seriesBy?: string): ChartProxy => {
         let made: import('./previewWorkbook').PreviewChart | undefined;
         ctx.enqueue(() => {
-          if (type !== 'XYScatterSmoothNoMarkers' && type !== 'Line')
+          if (type !== 'XYScatterSmoothNoMarkers' && type !== 'XYScatterLines' && type !== 'Line')
             ctx.fail('InvalidArgument', `chart type ${type} is not available in the preview`);
           if (seriesBy !== undefined && seriesBy !== 'Columns' && seriesBy !== 'Auto')
             ctx.fail('InvalidArgument', `seriesBy ${seriesBy} is not available in the preview`);

@@ -30,9 +30,11 @@ export interface CellStyle {
 export interface PreviewChart {
   readonly id: number;
   readonly sheet: number;
-  type: 'XYScatterSmoothNoMarkers' | 'Line';
+  type: 'XYScatterSmoothNoMarkers' | 'XYScatterLines' | 'Line';
   source: CellBlock;
   title: string;
+  /** Titles of the horizontal and vertical axes ("" when not set). */
+  axisTitles: { x: string; y: string };
   name: string;
   /** Top-left and bottom-right cells the chart covers. */
   position: { from: { row: number; col: number }; to: { row: number; col: number } };
@@ -383,6 +385,7 @@ export class PreviewWorkbook {
     for (const chart of this.charts(source)) {
       const copy = this.addChart(id, chart.type, { ...chart.source, sheet: id });
       copy.title = chart.title;
+      copy.axisTitles = { ...chart.axisTitles };
       copy.position = { from: { ...chart.position.from }, to: { ...chart.position.to } };
     }
     if (this.batchDepth === 0) this.respill();
@@ -734,6 +737,7 @@ export class PreviewWorkbook {
       type,
       source,
       title: '',
+      axisTitles: { x: '', y: '' },
       name: `Chart ${id}`,
       position: {
         from: { row: source.row, col: source.col + source.columns + 1 },

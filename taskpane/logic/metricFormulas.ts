@@ -5,7 +5,7 @@
  * limit and required probability as input cells, and a decision that says when the chosen variant fails a
  * guardrail. Pure functions from plain inputs to FormulaBlock data; every result is a live formula.
  */
-import type { BlockStyle, FormulaBlock } from '../workbook/workbook';
+import type { BlockStyle, CellValue, FormulaBlock } from '../workbook/workbook';
 import { cellAddress, parseAddress, rangeAddress, referenceFrom } from '../workbook/address';
 import { variantLetter } from '../../functions/sheet/labels';
 import { at, blockGrid, numberLiteral, SRM_ALARM, WARNING_FILL, WARNING_TEXT, type LabelledBlock } from './formulas';
@@ -60,15 +60,48 @@ const UNITS: Readonly<
   },
 };
 
+/** Columns the native chart covers, right of its table (one empty column between), and rows at least. */
+const CHART_COLUMNS = 7;
+const CHART_ROWS = 18;
+/** The metric as the chart's titles name it. */
+const CHART_NOUN: Readonly<Record<Exclude<MetricKind, 'conversions'>, string>> = {
+  revenue: 'revenue per visitor',
+  averages: 'the average',
+  counts: 'the event rate',
+};
+/** Light grey for the chart's helper table (its #N/A cells only tell the chart to leave a point out). */
+const HELPER_TEXT = '#7F7F7F';
+
+/** Rows of the block above the chart table's title: the table, the settings, the split check, the guardrails. */
+function chartTitleRow(variants: number, guardrails: number): number {
+  return variants + 9 + (guardrails === 0 ? 0 : guardrailRows(guardrails) + 1);
+}
+
 /**
- * Size of the metric read-out block for k variants and g guardrails. Cost O(1).
- * @example metricReadoutArea(3, 1) //=> { rowCount: 16, columnCount: 11 }
+ * Size of the metric read-out block for k variants and g guardrails, with the lift-interval chart's table
+ * and the chart beside it. Cost O(1).
+ * @example metricReadoutArea(3, 1) //=> { rowCount: 33, columnCount: 12 }
  */
 export function metricReadoutArea(variants: number, guardrails: number): { rowCount: number; columnCount: number } {
+  const header = chartTitleRow(variants, guardrails) + 1;
   return {
-    rowCount: variants + 10 + guardrailRows(guardrails),
-    columnCount: Math.max(TABLE_WIDTH + guardrails, variants),
+    rowCount: header + Math.max(1 + 3 * (variants - 1) + 2, CHART_ROWS),
+    columnCount: Math.max(TABLE_WIDTH + guardrails, variants + 2 + CHART_COLUMNS),
   };
+}
+
+/** The native chart a metric read-out places: its source table, where it goes, its words. */
+export interface MetricChart {
+  readonly source: string;
+  readonly topLeft: string;
+  readonly bottomRight: string;
+  readonly title: string;
+  readonly axisTitles: { readonly x: string; readonly y: string };
+}
+
+/** A metric read-out block with its named cells and its chart. */
+export interface MetricReadoutBlock extends LabelledBlock {
+  readonly chart: MetricChart;
 }
 
 /**
@@ -91,7 +124,7 @@ export function metricReadoutBlock(
   guardrails: readonly Guardrail[],
   topLeft: string,
   sheet?: string,
-): LabelledBlock {
+): MetricReadoutBlock {
   if (kind === 'conversions') throw new RangeError('the conversions read-out is formulas.ts readoutBlock');
   const k = source.variants;
   if (!Number.isInteger(k) || k < 2) throw new RangeError('a read-out needs at least two variants');
@@ -249,6 +282,48 @@ export function metricReadoutBlock(
   if (guardrails.length > 0) {
     styles.push({ row: settingsRow + 5 + 2 * guardrails.length, column: 0, columnCount: 2, style: { bold: true } });
   }
+  // The chart: no core function gives these metrics' lift densities (LIFT_DENSITY is the conversions'), so it
+  // draws what the block computes, each challenger's lift interval (low, median, high of the lift spill) as a
+  // line at its own height, and a "No change" line at 0%. One table, the lift in the first column and one
+  // column per series (as the conversions chart's LIFT_DENSITY table); =NA() leaves a point out of a line.
+  const titleRow = chartTitleRow(k, guardrails.length);
+  const headerRow = titleRow + 1;
+  const zero = k;
+  names.chartTitle = put(
+    titleRow,
+    0,
+    'Lift intervals, for the chart: lift relative to the control (first column), each challenger’s low, median and high at its own height (#N/A leaves a point out)',
+  );
+  put(headerRow, 0, 'Lift');
+  for (let i = 1; i < k; i += 1) put(headerRow, i, `=${at(origin, 2 + i, 0)}`);
+  put(headerRow, zero, 'No change');
+  const row = (r: number, x: CellValue, series: number, height: number): void => {
+    put(headerRow + 1 + r, 0, x, '0.0%');
+    for (let c = 1; c <= zero; c += 1) put(headerRow + 1 + r, c, c === series ? height : '=NA()', '0');
+  };
+  for (let i = 1; i < k; i += 1) {
+    for (let j = 0; j < 3; j += 1) row(3 * (i - 1) + j, `=${at(origin, 2 + i, 6 + j)}`, i, k - i);
+  }
+  row(3 * (k - 1), 0, zero, 0);
+  row(3 * (k - 1) + 1, 0, zero, k);
+  const tableRows = 3 * (k - 1) + 2;
+  styles.push(
+    { row: titleRow, column: 0, style: { bold: true } },
+    { row: headerRow, column: 0, columnCount: zero + 1, style: { bold: true } },
+    { row: headerRow + 1, column: 0, rowCount: tableRows, columnCount: zero + 1, style: { fontColor: HELPER_TEXT } },
+  );
+  const chartLeft = origin.column + k + 2;
+  const chart: MetricChart = {
+    source: rangeAddress({ row: origin.row + headerRow, column: origin.column }, tableRows + 1, zero + 1),
+    topLeft: cellAddress({ row: origin.row + headerRow, column: chartLeft }),
+    bottomRight: cellAddress({ row: origin.row + headerRow + CHART_ROWS - 1, column: chartLeft + CHART_COLUMNS - 1 }),
+    title: `Lift of ${CHART_NOUN[kind]} over the control: credible intervals`,
+    axisTitles: {
+      x: `Lift of ${CHART_NOUN[kind]} over the control (relative; 0% = no change)`,
+      y: 'Challengers (low, median, high)',
+    },
+  };
+  names.chartSource = chart.source;
   const block: FormulaBlock = {
     sheet,
     topLeft: cellAddress(origin),
@@ -258,5 +333,5 @@ export function metricReadoutBlock(
     area,
     autofit: { rows: k + 2 },
   };
-  return { block, cells: names };
+  return { block, cells: names, chart };
 }

@@ -243,6 +243,17 @@ function levelWords(level: number): string {
   return `${Number((level * 100).toPrecision(4))}%`;
 }
 
+/**
+ * The read-out's decision with guardrails: when the decision chooses a challenger, the guardrails (their
+ * indices) it fails; then it is not switched to. Empty when nothing or the control is chosen. Cost O(guardrails).
+ * @example failingGuardrails(summaryNumbers(input)) //=> [1]
+ */
+export function failingGuardrails(numbers: SummaryNumbers): number[] {
+  const leader = numbers.decision.index;
+  if (!numbers.decision.choose || leader === 0) return [];
+  return numbers.guardrails.flatMap((g, j) => (g.passes[leader - 1] === false ? [j] : []));
+}
+
 /** A guardrail's limit in words: "no worse than −2.0%" (the read-out's own wording, guardrails.ts). */
 function limitWords(g: SummaryGuardrail, locale: NumberLocale): string {
   return `${g.direction === 'noWorse' ? 'no worse than' : 'no higher than'} ${signedPercent(g.limit, locale)}`;
@@ -292,13 +303,11 @@ export function summaryLines(
   const loss = ratePoints(decision.loss, locale);
   const allowed = ratePoints(decision.maxLoss, locale);
   const best = chancePhrase(numbers.probBest[leader] as number, locale);
-  // The read-out's decision with guardrails: a chosen challenger that fails a guardrail is not switched to.
-  const failing =
-    decision.choose && leader > 0
-      ? input.guardrails.flatMap((g, j) =>
-          numbers.guardrails[j]?.passes[leader - 1] === false ? [{ g, j, n: numbers.guardrails[j] }] : [],
-        )
-      : [];
+  const failing = failingGuardrails(numbers).map((j) => ({
+    g: input.guardrails[j] as SummaryGuardrail,
+    j,
+    n: numbers.guardrails[j],
+  }));
   if (failing.length > 0) {
     paragraph(
       `Do not switch to ${name(leader)} yet: it fails ${failing.length === 1 ? 'a guardrail' : 'guardrails'}.`,

@@ -3,7 +3,8 @@
  * column is which, shows that mapping with the column headings and flags cells that are not numbers
  * (a mapping guessed from the numbers alone must be confirmed), then offers an empty place for the
  * block ("Where to write", writePlace.ts) and shows its range before "Insert read-out" writes a labelled
- * block of live formulas there and a native Excel chart of the lift densities.
+ * block of live formulas there and a native Excel chart: of the lift densities for conversions, of the
+ * challengers' lift intervals for the other metrics (no core function gives their lift densities).
  */
 import { srmPValue } from '../../functions/stats/srm';
 import { readoutArea, readoutBlock, SRM_ALARM } from '../logic/formulas';
@@ -142,7 +143,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
     el(
       'p',
       { class: 'hint' },
-      'Writes intervals, P(beats control), P(highest), lift intervals, expected loss, the decision, the split check and each guardrail’s probabilities (for conversions also a lift-density table with a native chart) — all live formulas, each row beside its variant’s name.',
+      'Writes intervals, P(beats control), P(highest), lift intervals, expected loss, the decision, the split check and each guardrail’s probabilities, with a native chart (for conversions the lift densities, for the other metrics the lift intervals) — all live formulas, each row beside its variant’s name.',
     ),
     status,
     cautionLink,
@@ -779,10 +780,21 @@ export function readoutSection(context: PanelContext): HTMLElement {
         cells.guardedDecision === undefined ? '' : ` With guardrails: ${cells.guardedDecision}.`;
       if (!conversions) {
         const built = buildMetric(target);
+        const chart = await context.workbook.insertChart({
+          sheet: target.sheet,
+          sourceAddress: built.chart.source,
+          type: 'XYScatterLines',
+          title: built.chart.title,
+          axisTitles: built.chart.axisTitles,
+          topLeft: built.chart.topLeft,
+          bottomRight: built.chart.bottomRight,
+        });
         showMessage(
           status,
-          'success',
-          `Wrote the ${KIND_SHORT[view.kind]} read-out to ${outcome.address} (live formulas). The decision is in ${built.cells.decision}.${guarded(built.cells)}`,
+          chart.kind === 'inserted' ? 'success' : 'warning',
+          chart.kind === 'inserted'
+            ? `Wrote the ${KIND_SHORT[view.kind]} read-out to ${outcome.address} (live formulas) and a chart of the lift intervals from ${built.chart.source}. The decision is in ${built.cells.decision}.${guarded(built.cells)}`
+            : `Wrote the ${KIND_SHORT[view.kind]} read-out to ${outcome.address}, but ${chart.message}. The table in ${built.chart.source} can be charted by hand. The decision is in ${built.cells.decision}.${guarded(built.cells)}`,
         );
         await findPlaces(k);
         return;
@@ -793,6 +805,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
         sourceAddress: built.chartSource,
         type: 'XYScatterSmoothNoMarkers',
         title: 'Lift over control: posterior density',
+        axisTitles: { x: 'Lift of conversion rate over the control (relative)', y: 'Posterior density' },
         topLeft: built.chartTopLeft,
         bottomRight: built.chartBottomRight,
       });

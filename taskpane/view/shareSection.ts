@@ -22,6 +22,7 @@ import {
   type CopyScope,
 } from '../logic/shareCopy';
 import {
+  failingGuardrails,
   signedPercent,
   summaryBlock,
   summaryNumbers,
@@ -581,7 +582,7 @@ export function shareSection(context: PanelContext): HTMLElement {
         showMessage(
           summaryStatus,
           'success',
-          `Wrote the summary to ${outcome.address}, set to print on one page. ${choice.choose ? 'It recommends a version' : 'It says: no decision yet'}. Its numbers are values: press "Write the summary" again after the data change.`,
+          `Wrote the summary to ${outcome.address}, set to print on one page. ${failingGuardrails(numbers).length > 0 ? 'It says: do not switch yet, a guardrail fails' : choice.choose ? 'It recommends a version' : 'It says: no decision yet'}. Its numbers are values: press "Write the summary" again after the data change.`,
         );
       } else if (outcome.kind === 'failed') {
         showMessage(

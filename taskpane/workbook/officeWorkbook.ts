@@ -6,7 +6,8 @@
  * Range (load of address/values/formulas/numberFormat/rowCount/columnCount and, where ExcelApi 1.16 is
  * offered, valuesAsJson; full-size `formulas` and `numberFormat` writes; getCell, getResizedRange,
  * getColumn, getCellProperties/setCellProperties, format.font/fill/columnWidth/autofitColumns,
- * format.fill.clear, getSpillParentOrNullObject), Chart (title, setPosition, name) and
+ * format.fill.clear, getSpillParentOrNullObject), Chart (title, axes.categoryAxis/valueAxis.title, setPosition,
+ * name) and
  * onSelectionChanged. For copies and printed summaries, within ExcelApi 1.12: Worksheet.copy (1.7),
  * name, pageLayout (orientation, zoom, setPrintArea, centerHorizontally: 1.9), charts (load of
  * items/name/top/left, delete); Range getEntireRow, insert, clear, top/left/width/height (1.3),
@@ -1027,6 +1028,12 @@ export function createOfficeWorkbook(
           const source = sheet.getRange(request.sourceAddress);
           const chart = sheet.charts.add(request.type as Excel.ChartType, source, 'Columns' as Excel.ChartSeriesBy);
           chart.title.text = request.title;
+          if (request.axisTitles !== undefined) {
+            // In an XY scatter chart the category axis is the horizontal (x) one (from memory of Excel's object
+            // model: xlCategory names a scatter chart's x axis).
+            chart.axes.categoryAxis.title.text = request.axisTitles.x;
+            chart.axes.valueAxis.title.text = request.axisTitles.y;
+          }
           chart.setPosition(request.topLeft, request.bottomRight);
           // The agreed subset reads a chart's name without load(); Office.js needs load('name') first.
           const loadable = typeof (chart as { load?: unknown }).load === 'function';

@@ -172,8 +172,11 @@ export interface ChartRequest {
   readonly sheet?: string;
   /** Local address of the source block: first column x values, then one column per series, header row first. */
   readonly sourceAddress: string;
-  readonly type: 'XYScatterSmoothNoMarkers' | 'Line';
+  /** Smooth lines (densities), straight lines with markers (intervals), or a line chart. */
+  readonly type: 'XYScatterSmoothNoMarkers' | 'XYScatterLines' | 'Line';
   readonly title: string;
+  /** Titles of the horizontal (x) and vertical (y) axes, when given. */
+  readonly axisTitles?: { readonly x: string; readonly y: string };
   /** Local addresses of the cells the chart covers. */
   readonly topLeft: string;
   readonly bottomRight: string;

@@ -9,15 +9,32 @@
  */
 import type { Frame, Page } from 'playwright-core';
 import { probAboveControl, probLiftAbove } from '../../functions/stats/conversion';
-import { eventsExpectedLoss, eventsProbAboveControl, eventsProbLiftAbove } from '../../functions/stats/eventRates';
-import { meanExpectedLoss, meanProbAboveControl, meanProbLiftAbove } from '../../functions/stats/normalMeans';
-import { revenueExpectedLoss, revenueProbAboveControl } from '../../functions/stats/revenuePerVisitor';
-import { UNIFORM_PRIOR } from '../../functions/stats/types';
+import {
+  eventsExpectedLoss,
+  eventsLiftInterval,
+  eventsProbAboveControl,
+  eventsProbLiftAbove,
+} from '../../functions/stats/eventRates';
+import {
+  meanExpectedLoss,
+  meanLiftInterval,
+  meanProbAboveControl,
+  meanProbLiftAbove,
+} from '../../functions/stats/normalMeans';
+import {
+  revenueExpectedLoss,
+  revenueLiftInterval,
+  revenueProbAboveControl,
+} from '../../functions/stats/revenuePerVisitor';
+import { srmPValue } from '../../functions/stats/srm';
+import { UNIFORM_PRIOR, type IntervalWithMedian } from '../../functions/stats/types';
+import { chartSeries } from '../../preview/src/chartView';
 import { readoutBlock } from '../../taskpane/logic/formulas';
 import type { Guardrail } from '../../taskpane/logic/guardrails';
-import { metricReadoutBlock } from '../../taskpane/logic/metricFormulas';
+import { metricReadoutBlock, type MetricChart } from '../../taskpane/logic/metricFormulas';
 import { parseAddress } from '../../taskpane/workbook/address';
 import {
+  cellLocator,
   openPreview,
   panelFrame,
   readCell,
@@ -125,6 +142,75 @@ async function screenshots(page: Page, panel: Frame, name: string): Promise<void
   });
 }
 
+/** Scrolls the grid so that `address` is its top-left visible cell (a chart right of it then shows whole). */
+async function showFromTop(page: Page, sheet: string, address: string): Promise<void> {
+  await switchSheet(page, sheet);
+  const above = parseAddress(address).start;
+  await cellLocator(page, `${address.replace(/\d+$/, '')}${Math.max(1, above.row)}`).evaluate((cell) =>
+    cell.scrollIntoView({ block: 'start', inline: 'start' }),
+  );
+}
+
+/**
+ * The native chart the block placed: an XY chart with markers over the block's lift-interval table, with
+ * its title and axis titles; its series (read from the live cells as the preview draws them) are each
+ * challenger's lift interval from the core (low, median, high) at its own height, and the "No change" line
+ * at 0%. Then screenshots with the chart in view, at the usual width and at 350 px.
+ */
+async function expectLiftChart(
+  page: Page,
+  panel: Frame,
+  where: { sheet: string },
+  chart: MetricChart,
+  lifts: readonly IntervalWithMedian[],
+  shot: string,
+): Promise<void> {
+  const source = parseAddress(chart.source);
+  const found = await page.evaluate(
+    ([s, row, col]) => {
+      const handle = window.liftLedgerPreview;
+      if (!handle) throw new Error('the preview is not ready');
+      const id = handle.workbook.sheetId(s as string) as number;
+      const c = handle.workbook.charts(id).find((x) => x.source.row === row && x.source.col === col);
+      return c === undefined
+        ? null
+        : { type: c.type, title: c.title, axisTitles: c.axisTitles, values: handle.workbook.values(c.source) };
+    },
+    [where.sheet, source.start.row, source.start.column] as const,
+  );
+  if (found === null) throw new Error(`no chart over ${chart.source}`);
+  expect({ type: found.type, title: found.title, axisTitles: found.axisTitles }).toEqual({
+    type: 'XYScatterLines',
+    title: chart.title,
+    axisTitles: chart.axisTitles,
+  });
+  const k = lifts.length + 1;
+  const { points } = chartSeries(found.values);
+  lifts.forEach((lift, i) => {
+    const line = points[i] as [number, number][];
+    expect(line.map((p) => p[1])).toEqual([k - 1 - i, k - 1 - i, k - 1 - i]);
+    expectClose(line[0]?.[0], lift.lower, `lift low ${i + 1}`, 1e-9);
+    expectClose(line[1]?.[0], lift.median, `lift median ${i + 1}`, 1e-9);
+    expectClose(line[2]?.[0], lift.upper, `lift high ${i + 1}`, 1e-9);
+  });
+  expect(points[k - 1]).toEqual([
+    [0, 0],
+    [0, k],
+  ]);
+  await showFromTop(page, where.sheet, chart.source.split(':')[0] as string);
+  await screenshot(page, `look-${shot}-chart`);
+  await page.evaluate(() => {
+    const element = document.getElementById('panel');
+    if (element) element.style.width = '350px';
+  });
+  await panel.locator('#readout-status').scrollIntoViewIfNeeded();
+  await screenshot(page, `look-${shot}-chart-350`);
+  await page.evaluate(() => {
+    const element = document.getElementById('panel');
+    if (element) element.style.width = '';
+  });
+}
+
 /**
  * What the decision with guardrails must say, from the core's expected losses, the largest acceptable
  * loss the block writes (1% of the control's observed value; for conversions its posterior mean) and the
@@ -182,7 +268,7 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     await addGuardrail(panel, 'conversions', '-2');
     const where = await insert(
       panel,
-      /^Wrote the revenue per visitor read-out to .* \(live formulas\)\. The decision is in [A-Z]+\d+\. With guardrails: [A-Z]+\d+\.$/,
+      /^Wrote the revenue per visitor read-out to .* \(live formulas\) and a chart of the lift intervals from [A-Z]+\d+:[A-Z]+\d+\. The decision is in [A-Z]+\d+\. With guardrails: [A-Z]+\d+\.$/,
     );
     await screenshots(page, panel, 'panel-metrics-revenue');
 
@@ -247,6 +333,7 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       guard,
       names,
     );
+    await expectLiftChart(page, panel, where, built.chart, revenueLiftInterval(totals, 0.95), 'readout-revenue');
   });
 
   it('averages: picked by the user on the main table, with a guardrail on conversions', async () => {
@@ -257,7 +344,10 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     expect(await panel.locator('#readout-column-mean').inputValue()).toBe('4');
     expect(await panel.locator('#readout-column-sd').inputValue()).toBe('5');
     await addGuardrail(panel, 'conversions', '-2');
-    const where = await insert(panel, /^Wrote the average read-out to .* \(live formulas\)\./);
+    const where = await insert(
+      panel,
+      /^Wrote the average read-out to .* \(live formulas\) and a chart of the lift intervals from [A-Z]+\d+:[A-Z]+\d+\./,
+    );
     await screenshots(page, panel, 'panel-metrics-averages');
     const summaries = [0, 1, 2].map((i) => i);
     const count = await column(page, 'D4', 3);
@@ -307,6 +397,7 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       guard,
       names,
     );
+    await expectLiftChart(page, panel, where, built.chart, meanLiftInterval(means, 0.95), 'readout-averages');
   });
 
   it('counts per exposure: basket adds per session, with a guardrail on the average revenue', async () => {
@@ -314,8 +405,13 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     await panel.locator('#readout-metric').selectOption('counts');
     expect(await panel.locator('#readout-column-events').inputValue()).toBe('6');
     expect(await panel.locator('#readout-column-exposure').inputValue()).toBe('7');
+    // The visitors column is the counts' units for the split check.
+    expect(await panel.locator('#readout-column-visitors').inputValue()).toBe('1');
     await addGuardrail(panel, 'averages', '-2');
-    const where = await insert(panel, /^Wrote the event rate read-out to .* \(live formulas\)\./);
+    const where = await insert(
+      panel,
+      /^Wrote the event rate read-out to .* \(live formulas\) and a chart of the lift intervals from [A-Z]+\d+:[A-Z]+\d+\./,
+    );
     await screenshots(page, panel, 'panel-metrics-counts');
     const events = await column(page, 'G4', 3);
     const exposure = await column(page, 'H4', 3);
@@ -327,10 +423,10 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       {
         sheet: SHEET,
         namesRef: 'A4:A6',
-        refs: { events: 'G4:G6', exposure: 'H4:H6', count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6' },
+        refs: { events: 'G4:G6', exposure: 'H4:H6', visitors: 'B4:B6', count: 'D4:D6', mean: 'E4:E6', sd: 'F4:F6' },
         variants: 3,
       },
-      { level: 0.95, currentSrmPValue: null },
+      { level: 0.95, currentSrmPValue: 1 },
       [{ kind: 'averages', direction: 'noWorse', limit: -0.02, required: 0.95 }],
       where.topLeft,
       where.sheet,
@@ -363,6 +459,17 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       guard,
       names,
     );
+    // The split check counts the table's visitors (the assigned units), never the sessions (exposure): the
+    // core's chi-square p-value (srm.ts, checked against R's chisq.test in test/stats).
+    expect(await cellInput(page, where.sheet, c.srmPValue as string)).toMatch(
+      /^=ABTEST\.SRM_PVALUE\((?:'Checkout test'!)?B4:B6\)$/,
+    );
+    expectClose(
+      (await readCell(page, where.sheet, c.srmPValue as string)).value,
+      srmPValue(await column(page, 'B4', 3)),
+      'split check',
+    );
+    await expectLiftChart(page, panel, where, built.chart, eventsLiftInterval(rates, 0.95), 'readout-counts');
     // The event-rate guardrail of the next test's check: the same core function at another limit.
     expect(eventsProbLiftAbove(rates, 0).map((p, i) => Math.abs(p - (beats[i] as number)) < 1e-12)).toEqual([
       true,
@@ -422,5 +529,23 @@ describe('a read-out for every metric kind, with a guardrail', () => {
     const guarded = (await readCell(page, where.sheet, c.guardedDecision as string)).value;
     expect(typeof guarded).toBe('string');
     expect(await cellInput(page, where.sheet, c.guardedDecision as string)).toMatch(/^=IF\(OR\(MIN\(/);
+    // The lift-density chart has its axis titles; its lift axis crosses 0 (the preview draws the zero line).
+    const source = parseAddress(built.chartSource);
+    const chart = await page.evaluate(
+      ([s, row, col]) => {
+        const handle = window.liftLedgerPreview;
+        if (!handle) throw new Error('the preview is not ready');
+        const id = handle.workbook.sheetId(s as string) as number;
+        const found = handle.workbook.charts(id).find((x) => x.source.row === row && x.source.col === col);
+        return found === undefined ? null : { type: found.type, axisTitles: found.axisTitles };
+      },
+      [where.sheet, source.start.row, source.start.column] as const,
+    );
+    expect(chart).toEqual({
+      type: 'XYScatterSmoothNoMarkers',
+      axisTitles: { x: 'Lift of conversion rate over the control (relative)', y: 'Posterior density' },
+    });
+    await showFromTop(page, where.sheet, built.chartSource.split(':')[0] as string);
+    await screenshot(page, 'look-readout-conversions-chart');
   });
 });

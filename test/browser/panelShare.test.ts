@@ -8,7 +8,9 @@
  *   "How computed" column;
  * - the summary for people who decide from the demo's variant table, on a new sheet set to print on one
  *   page: its chances of being best and lift ranges agree with scipy (test/reference/addin/summary_values.json,
- *   case "checkout_demo", made by test/reference/addin/summary_reference.py).
+ *   case "checkout_demo", made by test/reference/addin/summary_reference.py);
+ * - the summary of a read-out with a guardrail (average revenue no worse than −2%): each challenger's chance it
+ *   holds agrees with scipy (test/reference/addin/summary_guardrails.py), and the failing leader is not chosen.
  * Screenshots go to test-artifacts/ (full width and with the panel at 350 px).
  */
 import * as fs from 'fs';
@@ -37,6 +39,12 @@ interface ReferenceCase {
   lift: [number, number, number][];
   srm_pvalue: number;
 }
+/** The guardrail probabilities of the demo table, from scipy (test/reference/addin/summary_guardrails.py). */
+const GUARDRAILS = (
+  JSON.parse(
+    fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_guardrails.json'), 'utf8'),
+  ) as Record<string, { averages_prob_lift_above: Record<string, number[]> }>
+).checkout_demo as { averages_prob_lift_above: Record<string, number[]> };
 const REFERENCE = (
   JSON.parse(fs.readFileSync(path.join(__dirname, '..', 'reference', 'addin/summary_values.json'), 'utf8')) as Record<
     string,
@@ -250,6 +258,70 @@ describe('the Share section on the demo read-out', () => {
     expect(layout).toMatchObject({ orientation: 'Portrait', zoom: { horizontalFitToPages: 1, verticalFitToPages: 1 } });
     await screenshot(page, 'panel-share-summary');
     await narrowScreenshot(page, 'panel-share-summary-350', panel, '#summary-status');
+    expect(preview.pageErrors).toEqual([]);
+  });
+
+  it('the summary of a read-out with a guardrail: each challenger’s chance it holds agrees with scipy, and the leader that fails it is not switched to', async () => {
+    // Insert a conversions read-out of the demo table with a guardrail on the average revenue (no worse than −2%).
+    await switchSheet(page, SHEET);
+    await selectCell(page, 'A3');
+    for (let i = 0; i < 8; i += 1) await page.keyboard.press('Shift+ArrowRight');
+    for (let i = 0; i < 3; i += 1) await page.keyboard.press('Shift+ArrowDown');
+    await panel.locator('#tab-readout').click();
+    await panel.locator('#readout-use-selection').click();
+    await panel.locator('#readout-metric').waitFor();
+    await panel.locator('#readout-metric').selectOption('conversions');
+    await panel.locator('#readout-confirm-mapping').click();
+    await panel.locator('#readout-add-guardrail').click();
+    await panel.locator('#readout-guardrail-1-kind').selectOption('averages');
+    await panel.locator('#readout-guardrail-1-limit input').fill('-2');
+    await panel.locator('#readout-guardrail-1-required input').fill('95');
+    await panel.locator('#readout-place-target fluent-message-bar').waitFor({ timeout: 60_000 });
+    await panel.locator('#readout-insert:not([disabled])').waitFor();
+    await panel.locator('#readout-insert').click();
+    expect(await messageText(panel, 'readout-status')).toMatch(
+      /^Wrote the read-out to .*With guardrails: [A-Z]+\d+\.$/,
+    );
+
+    // The summary from the variant table alone (A3:C6): the guardrail is found in the read-out beside it.
+    await switchSheet(page, SHEET);
+    await selectCell(page, 'A3');
+    await cellLocator(page, 'C6').click({ modifiers: ['Shift'] });
+    await panel.locator('#tab-share').click();
+    await panel.locator('#summary-use-selection').click();
+    await panel.locator('#summary-guardrails').waitFor({ timeout: 60_000 });
+    expect(await panel.locator('#summary-guardrails').textContent()).toMatch(
+      /^Guardrails from the read-out at 'Checkout test'![A-Z]+\d+: average lift no worse than −2\.0% \(with at least 95%\)\.$/,
+    );
+    await panel.locator('#summary-title').locator('input').fill('Checkout button colour');
+    await panel.locator('#summary-write').click();
+    const done = await messageText(panel, 'summary-status');
+    expect(done).toMatch(/set to print on one page\. It says: do not switch yet, a guardrail fails\./);
+    const m = /^Wrote the summary to '([^']+)'!/.exec(done);
+    if (m === null) throw new Error(`no sheet in "${done}"`);
+    const rows = await readBlock(page, m[1] as string, 'A1', 60, 7);
+    const words = rows
+      .map((r) => String(r[0]))
+      .join(' ')
+      .replace(/\s+/g, ' ');
+    expect(words).toContain('Guardrail 1: average lift no worse than −2.0%, with a chance of at least 95%.');
+    // scipy (summary_guardrails.json, case "checkout_demo"): P(average lift > −2%) per challenger.
+    const expected = GUARDRAILS.averages_prob_lift_above['-0.02'] as number[];
+    const results = rows.filter((r) => r[5] === 'passes' || r[5] === 'fails');
+    expect(results.map((r) => String(r[0]).trim())).toEqual(['Orange button', 'Big basket icon']);
+    results.forEach((r, i) => expect(Math.abs((r[4] as number) - (expected[i] as number))).toBeLessThan(1e-9));
+    // 0.947… and 0.801… are both below 95%: both fail, and the leader by conversions is not switched to.
+    expect(results.map((r) => r[5])).toEqual(['fails', 'fails']);
+    expect(words).toContain('Do not switch to Orange button yet: it fails a guardrail.');
+    expect(words).toContain(
+      `the chance that its average lift is no worse than −2.0% (guardrail 1) is ${(100 * (expected[0] as number)).toFixed(1)}%, below the 95% required.`,
+    );
+    await page.evaluate(() => {
+      const grid = document.getElementById('grid');
+      if (grid) grid.scrollTop = 0;
+    });
+    await screenshot(page, 'look-share-summary-guardrail');
+    await narrowScreenshot(page, 'look-share-summary-guardrail-350', panel, '#summary-use-selection');
     expect(preview.pageErrors).toEqual([]);
   });
 

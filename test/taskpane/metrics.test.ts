@@ -5,6 +5,8 @@
  * spreadsheet engine) with the ABTEST results replaced by constants.
  */
 import { HyperFormula } from 'hyperformula';
+import { meanLiftInterval } from '../../functions/stats/normalMeans';
+import { chartSeries } from '../../preview/src/chartView';
 import { readoutArea, readoutBlock } from '../../taskpane/logic/formulas';
 import { guardrailFormula, guardrailRows, type Guardrail } from '../../taskpane/logic/guardrails';
 import { metricReadoutArea, metricReadoutBlock } from '../../taskpane/logic/metricFormulas';
@@ -333,6 +335,101 @@ describe('the metric read-out blocks', () => {
     expect(guarded.block.area).toEqual(readoutArea(3, 61, 1));
     expect(readoutArea(3, 61, 1)).toEqual({ rowCount: 81, columnCount: 11 });
     expect((guarded.block.cells[2] as CellValue[])[10]).toBe('=ABTEST.REVENUE_PROB_LIFT_ABOVE(B2:B4,C2:C4,D2:D4,G15)');
+  });
+});
+
+describe('the lift-interval chart of a metric read-out', () => {
+  // The demo's invented averages (MAIN: revenue count, mean, sd), with one guardrail so the chart sits below it.
+  const averages = MAIN.slice(1).map((row) => ({
+    count: row[3] as number,
+    mean: row[4] as number,
+    sd: row[5] as number,
+  }));
+  const guard: Guardrail = { kind: 'conversions', direction: 'noWorse', limit: -0.02, required: 0.95 };
+  const built = metricReadoutBlock(
+    'averages',
+    {
+      namesRef: null,
+      refs: { count: 'D2:D4', mean: 'E2:E4', sd: 'F2:F4', conversions: 'C2:C4', visitors: 'B2:B4' },
+      variants: 3,
+    },
+    { level: 0.95, currentSrmPValue: 1 },
+    [guard],
+    'A10',
+  );
+
+  test('its table: the lift column reads the lift spill, one column per challenger and a "No change" line at 0%', () => {
+    const { block, chart, cells } = built;
+    // Below the guardrail rows (block rows 12 to 14) and a spare row: block row 16 (sheet row 26), the header at 27.
+    expect(cells.chartTitle).toBe('A26');
+    expect(chart.source).toBe('A27:D35');
+    const row = (r: number): CellValue[] => block.cells[r - 10] as CellValue[];
+    expect(row(27).slice(0, 4)).toEqual(['Lift', '=A13', '=A14', 'No change']);
+    // Challenger B (row 13 of the block's table): its lift low, median, high (G13:I13) at height 2.
+    expect(row(28).slice(0, 4)).toEqual(['=G13', 2, '=NA()', '=NA()']);
+    expect(row(29).slice(0, 4)).toEqual(['=H13', 2, '=NA()', '=NA()']);
+    expect(row(30).slice(0, 4)).toEqual(['=I13', 2, '=NA()', '=NA()']);
+    expect(row(31).slice(0, 4)).toEqual(['=G14', '=NA()', 1, '=NA()']);
+    expect(row(34).slice(0, 4)).toEqual([0, '=NA()', '=NA()', 0]);
+    expect(row(35).slice(0, 4)).toEqual([0, '=NA()', '=NA()', 3]);
+    expect(chart).toMatchObject({
+      topLeft: 'F27',
+      bottomRight: 'L44',
+      title: 'Lift of the average over the control: credible intervals',
+      axisTitles: {
+        x: 'Lift of the average over the control (relative; 0% = no change)',
+        y: 'Challengers (low, median, high)',
+      },
+    });
+    // The chart lies inside the block's area, which findPlaces keeps free.
+    const area = block.area as { rowCount: number; columnCount: number };
+    expect(area).toEqual(metricReadoutArea(3, 1));
+    expect(10 + area.rowCount - 1).toBeGreaterThanOrEqual(44);
+    expect(area.columnCount).toBeGreaterThanOrEqual(12);
+    expect(block.cells).toHaveLength(area.rowCount);
+  });
+
+  test('evaluated by HyperFormula with the lift spill set to the core’s intervals: each challenger’s line is its interval', () => {
+    const { block, cells, chart } = built;
+    // MEAN_LIFT_INTERVAL's values from the core (normalMeans.meanLiftInterval, checked against scipy in test/stats).
+    const lifts = meanLiftInterval(averages, 0.95);
+    const grid = block.cells.map((row) => row.map((v) => (typeof v === 'string' && v.startsWith('=ABTEST.') ? '' : v)));
+    const lift = parseAddress(cells.liftInterval as string).start;
+    lifts.forEach((l, i) => {
+      const r = grid[lift.row - 9 + 1 + i] as CellValue[];
+      [r[6], r[7], r[8]] = [l.lower, l.median, l.upper];
+    });
+    const shifted = [...Array.from({ length: 9 }, () => [] as CellValue[]), ...grid];
+    const hf = HyperFormula.buildFromArray(shifted as (string | number)[][], {
+      licenseKey: 'gpl-v3',
+      smartRounding: false,
+    });
+    const source = parseAddress(chart.source);
+    const values = hf
+      .getRangeValues({
+        start: { sheet: 0, row: source.start.row, col: source.start.column },
+        end: { sheet: 0, row: source.end.row, col: source.end.column },
+      })
+      .map((row) => row.map((v) => (typeof v === 'number' || typeof v === 'string' ? v : String(v))));
+    hf.destroy();
+    const { names, points } = chartSeries(values);
+    expect(names).toEqual(['B', 'C', 'No change']);
+    expect(points).toEqual([
+      [
+        [lifts[0]!.lower, 2],
+        [lifts[0]!.median, 2],
+        [lifts[0]!.upper, 2],
+      ],
+      [
+        [lifts[1]!.lower, 1],
+        [lifts[1]!.median, 1],
+        [lifts[1]!.upper, 1],
+      ],
+      [
+        [0, 0],
+        [0, 3],
+      ],
+    ]);
   });
 });
 

@@ -49,6 +49,8 @@ export interface MockChart {
   source: string;
   seriesBy: string;
   title: string;
+  /** The x (category) and y (value) axes' titles, when the panel set them. */
+  axisTitles?: { x: string; y: string };
   position: [string, string] | null;
   name: string;
 }
@@ -677,14 +679,20 @@ export function mockExcel(sheets: string[]): MockExcel {
           const proxy: OfficeMockObject = new OfficeMockObject({
             name: chart.name,
             title: { text: '' },
+            axes: { categoryAxis: { title: { text: '' } }, valueAxis: { title: { text: '' } } },
             setPosition: (start: string, end: string) => {
               position.value = [start, end];
             },
           });
           const initialTitle = proxy.title.text;
+          const initialX = proxy.axes.categoryAxis.title.text;
+          const initialY = proxy.axes.valueAxis.title.text;
           ops.push(() => {
             if (typeof proxy.title.text === 'string' && assigned(proxy.title.text, initialTitle))
               chart.title = proxy.title.text;
+            const x = proxy.axes.categoryAxis.title.text;
+            const y = proxy.axes.valueAxis.title.text;
+            if (assigned(x, initialX) && assigned(y, initialY)) chart.axisTitles = { x: String(x), y: String(y) };
             chart.position = position.value;
             chart.sheet = real(chart.sheet);
             charts.push(chart);

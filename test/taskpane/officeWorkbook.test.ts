@@ -554,6 +554,24 @@ describe('charts and selection events', () => {
     ]);
   });
 
+  test('insertChart with axis titles sets the x (category) and y (value) axes’ titles; markers for intervals', async () => {
+    const excel = mockExcel(['Sheet1']);
+    const outcome = await workbookOn(excel).insertChart({
+      sourceAddress: 'A30:D38',
+      type: 'XYScatterLines',
+      title: 'Lift over the control: credible intervals of average',
+      axisTitles: { x: 'Lift of average over the control (relative; 0% = no change)', y: 'Challengers' },
+      topLeft: 'F30',
+      bottomRight: 'L47',
+    });
+    expect(outcome).toEqual({ kind: 'inserted', name: 'Chart 1' });
+    expect(excel.charts[0]).toMatchObject({
+      type: 'XYScatterLines',
+      source: 'A30:D38',
+      axisTitles: { x: 'Lift of average over the control (relative; 0% = no change)', y: 'Challengers' },
+    });
+  });
+
   test('a failed chart sync is an outcome, not a rejection, and adds no chart', async () => {
     const excel = mockExcel(['Sheet1']);
     excel.failures = [{ call: 1, code: 'InvalidArgument', message: 'bad source', partial: false }];
