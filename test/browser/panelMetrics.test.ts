@@ -32,7 +32,7 @@ import { chartSeries } from '../../preview/src/chartView';
 import { readoutBlock } from '../../taskpane/logic/formulas';
 import type { Guardrail } from '../../taskpane/logic/guardrails';
 import { metricReadoutBlock, type MetricChart } from '../../taskpane/logic/metricFormulas';
-import { parseAddress } from '../../taskpane/workbook/address';
+import { cellAddress, parseAddress } from '../../taskpane/workbook/address';
 import {
   cellLocator,
   openPreview,
@@ -142,13 +142,13 @@ async function screenshots(page: Page, panel: Frame, name: string): Promise<void
   });
 }
 
-/** Scrolls the grid so that `address` is its top-left visible cell (a chart right of it then shows whole). */
+/** Scrolls the grid so that `address` (a chart's top-left cell) is near its top-left corner: the chart shows whole. */
 async function showFromTop(page: Page, sheet: string, address: string): Promise<void> {
   await switchSheet(page, sheet);
-  const above = parseAddress(address).start;
-  await cellLocator(page, `${address.replace(/\d+$/, '')}${Math.max(1, above.row)}`).evaluate((cell) =>
-    cell.scrollIntoView({ block: 'start', inline: 'start' }),
-  );
+  // One row and one column before it: the sticky headings would cover the chart's first pixels.
+  const corner = parseAddress(address).start;
+  const before = cellAddress({ row: Math.max(0, corner.row - 1), column: Math.max(0, corner.column - 1) });
+  await cellLocator(page, before).evaluate((cell) => cell.scrollIntoView({ block: 'start', inline: 'start' }));
 }
 
 /**
@@ -197,7 +197,7 @@ async function expectLiftChart(
     [0, 0],
     [0, k],
   ]);
-  await showFromTop(page, where.sheet, chart.source.split(':')[0] as string);
+  await showFromTop(page, where.sheet, chart.topLeft);
   await screenshot(page, `look-${shot}-chart`);
   await page.evaluate(() => {
     const element = document.getElementById('panel');
@@ -545,7 +545,7 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       type: 'XYScatterSmoothNoMarkers',
       axisTitles: { x: 'Lift of conversion rate over the control (relative)', y: 'Posterior density' },
     });
-    await showFromTop(page, where.sheet, built.chartSource.split(':')[0] as string);
+    await showFromTop(page, where.sheet, built.chartTopLeft);
     await screenshot(page, 'look-readout-conversions-chart');
   });
 });
