@@ -35,6 +35,7 @@ import { metricReadoutBlock, type MetricChart } from '../../taskpane/logic/metri
 import { cellAddress, parseAddress } from '../../taskpane/workbook/address';
 import {
   cellLocator,
+  enterCell,
   openPreview,
   panelFrame,
   readCell,
@@ -475,6 +476,66 @@ describe('a read-out for every metric kind, with a guardrail', () => {
       true,
       true,
     ]);
+  });
+
+  it('counts per exposure without a users column: no split check from exposure, said in the panel and in the block', async () => {
+    // An invented table typed by hand, as a user would: complaints per user-day of two help pages, no users column.
+    await switchSheet(page, SHEET);
+    const typed: [string, string][] = [
+      ['D150', 'Variant'],
+      ['E150', 'Complaints'],
+      ['F150', 'User-days'],
+      ['D151', 'Old help page'],
+      ['E151', '41'],
+      ['F151', '70000'],
+      ['D152', 'New help page'],
+      ['E152', '37'],
+      ['F152', '70420'],
+    ];
+    for (const [address, input] of typed) await enterCell(page, address, input);
+    await selectRange(page, 'D150', 'F152');
+    await panel.locator('#tab-readout').click();
+    await panel.locator('#readout-use-selection').click();
+    await panel.locator('#readout-metric').waitFor();
+    // "User-days" is the exposure, not visitors; "Complaints" the events: counts per exposure is proposed.
+    expect(await panel.locator('#readout-metric').inputValue()).toBe('counts');
+    expect(await panel.locator('#readout-column-exposure').inputValue()).toBe('2');
+    expect(await panel.locator('#readout-column-visitors').inputValue()).toBe('none');
+    expect(await panel.locator('#readout-split').textContent()).toBe(
+      'Split check: none can be made from exposure alone (exposure is not a count of assigned users). Add a column of users or visitors per variant to the table, or check the split on the visitors table.',
+    );
+    const where = await insert(
+      panel,
+      /^Wrote the event rate read-out to .* \(live formulas\) and a chart of the lift intervals from [A-Z]+\d+:[A-Z]+\d+\./,
+    );
+    await screenshots(page, panel, 'panel-metrics-counts-no-units');
+    const built = metricReadoutBlock(
+      'counts',
+      { sheet: SHEET, namesRef: 'D151:D152', refs: { events: 'E151:E152', exposure: 'F151:F152' }, variants: 2 },
+      { level: 0.95, currentSrmPValue: null },
+      [],
+      where.topLeft,
+      where.sheet,
+    );
+    expect(built.cells.srmPValue).toBeUndefined();
+    expect((await readCell(page, where.sheet, built.cells.srmMissing as string)).value).toBe(
+      'Split check: none from exposure alone (a chi-square on exposure is not valid). Add a column of users or visitors per variant to the table and insert the read-out again.',
+    );
+    await expectLiftChart(
+      page,
+      panel,
+      where,
+      built.chart,
+      eventsLiftInterval(
+        [
+          { events: 41, exposure: 70000 },
+          { events: 37, exposure: 70420 },
+        ],
+        0.95,
+      ),
+      'readout-counts-no-units',
+    );
+    expect(preview.pageErrors).toEqual([]);
   });
 
   it('conversions: the guessed columns confirmed, a guardrail on the average revenue beside the decision', async () => {
