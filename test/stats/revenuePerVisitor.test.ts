@@ -6,6 +6,7 @@
  * averaged over both rates (derived in the script). The totals are invented.
  */
 import reference from '../reference/revenue/revenue_values.json';
+import tenReference from '../reference/revenue/revenue_ten_values.json';
 import {
   revenueDecide,
   revenueExpectedLoss,
@@ -123,6 +124,38 @@ describe.each(cases.map((c) => [c.name, c]))(
     }
   },
 );
+
+describe('ten variants with order_sd against a one-level scipy reference (revenue_ten_reference.py)', () => {
+  // Each variant's f_R, F_R and S_R by one scipy quad over the rate per outer node (the product-distribution
+  // formula), the outer integrals by composite Gauss-Legendre over log R at two panel counts; the JSON
+  // states an error bound per value (outer-rule difference + inner quad estimates + mass outside the
+  // window), all below 1e-12, so a 1e-9 check against it is a check of our values, not of the reference.
+  const t = tenReference;
+  const variants = t.variants as RevenueTotals[];
+
+  test('the reference is as tight as it says: bounds below 1e-12, P(highest) sums to 1, nothing below R = 0', () => {
+    for (const b of [...t.probHighestErrorBound, ...t.probAboveControlErrorBound, ...t.expectedLossErrorBound]) {
+      expect(b).toBeLessThan(1e-12);
+    }
+    expect(Math.abs(t.probHighest.reduce((s, x) => s + x, 0) - 1)).toBeLessThan(1e-12);
+    expect(Math.max(...t.negativeMass)).toBeLessThan(1e-15);
+  });
+
+  test('P(highest) of all ten within 1e-9 (tails 1e-6 relative)', () => {
+    const got = revenueProbHighest(variants);
+    t.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+  });
+
+  test('expected losses of all ten within 1e-9 of the scale of revenue per visitor', () => {
+    const got = revenueExpectedLoss(variants);
+    const scale = Math.max(...revenueMean(variants));
+    t.expectedLoss.forEach((want, i) => expectValue(got[i] ?? NaN, want, scale));
+  });
+
+  test('P(variant 2 above the control) within 1e-9', () => {
+    expectProbability(revenueProbAboveControl(variants.slice(0, 2))[0] ?? NaN, t.probAboveControl[0] ?? NaN);
+  });
+});
 
 describe('the order value alone: the exponential model in the limit of certain, equal rates', () => {
   const o = reference.orderValueOnly;
