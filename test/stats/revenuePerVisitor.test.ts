@@ -7,6 +7,7 @@
  */
 import reference from '../reference/revenue/revenue_values.json';
 import tenReference from '../reference/revenue/revenue_ten_values.json';
+import cornerReference from '../reference/revenue/revenue_corner_values.json';
 import {
   revenueDecide,
   revenueExpectedLoss,
@@ -157,6 +158,31 @@ describe('ten variants with order_sd against a one-level scipy reference (revenu
   });
 });
 
+describe.each(cornerReference.map((c) => [c.name, c]))(
+  'the smallest order_sd allowed (0.1% of revenue/orders) against the one-level scipy reference: %s',
+  (_name, kase) => {
+    // revenue_ten_reference.py: every visitor ordering (the rate piled against p = 1, R with a cliff at
+    // revenue/orders; before the mode search's step bound this answered #N/A) and few; bounds < 1e-11.
+    const c = kase as typeof tenReference;
+    const variants = c.variants as RevenueTotals[];
+
+    test('the reference is as tight as it says (bounds below 1e-11)', () => {
+      for (const b of [...c.probHighestErrorBound, ...c.probAboveControlErrorBound, ...c.expectedLossErrorBound]) {
+        expect(b).toBeLessThan(1e-11);
+      }
+    });
+
+    test('P(highest), P(above control) within 1e-9; expected losses within 1e-9 of the scale', () => {
+      const got = revenueProbHighest(variants);
+      c.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      expectProbability(revenueProbAboveControl(variants)[0] ?? NaN, c.probAboveControl[0] ?? NaN);
+      const losses = revenueExpectedLoss(variants);
+      const scale = Math.max(...revenueMean(variants));
+      c.expectedLoss.forEach((want, i) => expectValue(losses[i] ?? NaN, want, scale));
+    });
+  },
+);
+
 describe('the order value alone: the exponential model in the limit of certain, equal rates', () => {
   const o = reference.orderValueOnly;
 
@@ -241,6 +267,59 @@ describe('edge cases: what the model says, and clear errors', () => {
     // R = 30·p with p ~ Beta(61, 1441): its 5% point is 30 × the Beta's 5% point
     expect(Math.abs(betaCdf((interval?.lower ?? NaN) / 30, 61, 1441) - 0.05)).toBeLessThanOrEqual(1e-12);
     expect(Math.abs(betaCdf((interval?.upper ?? NaN) / 30, 61, 1441) - 0.95)).toBeLessThanOrEqual(1e-12);
+  });
+
+  test('an order_sd below 0.1% of revenue/orders is refused naming it, its item, the average order value and the least allowed', () => {
+    // The fuzzer's inputs: order values known to 1e-9 of their size answered #N/A from deep inside the tabulation.
+    const tiny = [
+      { orders: 30, visitors: 30, revenue: 2e10, orderSd: 1 },
+      { orders: 20, visitors: 20, revenue: 9e11, orderSd: 1 },
+    ];
+    for (const run of [() => revenueExpectedLoss(tiny), () => revenueProbHighest(tiny), () => revenueInterval(tiny)]) {
+      expectStatsErrorExact(
+        run,
+        'invalid_argument',
+        "order_sd, item 1: 1 is below 0.1% of this variant's average order value (revenue/orders = 6.67E+8); " +
+          'enter 0 if every order had about the same value, or an order_sd of at least 667000',
+      );
+    }
+    expectStatsErrorExact(
+      () =>
+        revenueProbAboveControl([
+          { orders: 30, visitors: 3000, revenue: 1500, orderSd: 0.05 },
+          { orders: 20, visitors: 3000, revenue: 1000, orderSd: 0.0499 },
+        ]),
+      'invalid_argument',
+      "order_sd, item 2: 0.0499 is below 0.1% of this variant's average order value (revenue/orders = 50); " +
+        'enter 0 if every order had about the same value, or an order_sd of at least 0.05',
+    );
+    // At the bound itself (0.05 on 50) and with order_sd 0 the read-out is given.
+    const atBound = revenueProbAboveControl([
+      { orders: 30, visitors: 3000, revenue: 1500, orderSd: 0.05 },
+      { orders: 20, visitors: 3000, revenue: 1000, orderSd: 0 },
+    ]);
+    expect(atBound[0]).toBeGreaterThan(0);
+    expect(atBound[0]).toBeLessThan(1);
+  });
+
+  test('spreads 1e16 apart (2^53 visitors beside 3): each in its own frame up to 10 variants, then a plain refusal', () => {
+    // The fuzzer's input: in one shared frame the narrow variant ran out of panels ("too many panels").
+    const wide = { orders: 3, visitors: 3, revenue: 846058422356.3014, orderSd: 711919178735.5414 };
+    const narrow = { orders: 20, visitors: 2 ** 53, revenue: 436145082125.52026, orderSd: 297241341565.16534 };
+    const pair = [wide, narrow];
+    const highest = revenueProbHighest(pair);
+    expect(Math.abs((highest[0] ?? NaN) + (highest[1] ?? NaN) - 1)).toBeLessThanOrEqual(1e-12);
+    // loss_i − loss_j = mean_j − mean_i (E[max − R_i] − E[max − R_j]; a closed-form identity).
+    const [lossWide = NaN, lossNarrow = NaN] = revenueExpectedLoss(pair);
+    const [meanWide = NaN, meanNarrow = NaN] = revenueMean(pair);
+    expectValue(lossWide - lossNarrow, meanNarrow - meanWide, meanWide);
+    const many = Array.from({ length: 12 }, (_, i) => (i % 2 === 0 ? wide : narrow));
+    expectStatsErrorExact(
+      () => revenueExpectedLoss(many),
+      'not_available',
+      "variant 2: the spread of its revenue per visitor is about 4.68E-16 of the widest variant's, too far apart " +
+        'to compare 12 variants at once (at most 10 when spreads differ this much); compare it in a smaller group',
+    );
   });
 
   test('argument checks name the argument and the item', () => {

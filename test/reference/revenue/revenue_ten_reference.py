@@ -25,8 +25,13 @@ v ~ Student t(orders - 1), centre revenue/orders, scale order_sd/sqrt(orders), i
        scale plus the t tails' contribution beyond hi, bounded by int_hi^inf sum_j S_j dr (computed).
    (a) is an estimate, not a proof; (b) rests on QUADPACK's estimates; (c) is exact up to (b).
 
-Run (about 2-6 minutes on one core): python3 test/reference/revenue/revenue_ten_reference.py
-  > test/reference/revenue/revenue_ten_values.json
+The same method checks the corner of the declared domain where order_sd is smallest beside revenue/orders
+(0.001 of it): every visitor ordering, and few.
+
+Run (about 2-6 minutes on one core):
+  python3 test/reference/revenue/revenue_ten_reference.py > test/reference/revenue/revenue_ten_values.json
+  python3 test/reference/revenue/revenue_ten_reference.py t_corner_all_ordered t_corner_few_orders
+    > test/reference/revenue/revenue_corner_values.json
 """
 import json
 import math
@@ -108,14 +113,35 @@ class TVariant:
         return mu, sd
 
 
-def gauss_legendre(lo, hi, panels):
+def gauss_legendre(edges):
     x, w = np.polynomial.legendre.leggauss(PANEL_POINTS)
-    edges = np.linspace(lo, hi, panels + 1)
     nodes, weights = [], []
     for a, b in zip(edges[:-1], edges[1:]):
         nodes.extend((a + b) / 2 + (b - a) / 2 * x)
         weights.extend((b - a) / 2 * w)
     return np.array(nodes), np.array(weights)
+
+
+def outer_edges(vs, lo, hi, panels):
+    """Equal panels on [lo, hi] plus edges graded towards log m of each variant (where R = p v has a cliff
+    when p piles up at 1: every visitor ordered) at +- (s/m) * 2^k."""
+    edges = set(np.linspace(lo, hi, panels + 1))
+    for v in vs:
+        if v.b > 3:
+            continue  # the rate's density vanishes at p = 1: no cliff
+        c, w = math.log(v.m), v.s / v.m
+        for k in range(-2, 40):
+            for sign in (-1, 1):
+                e = c + sign * w * 2.0 ** k
+                if lo < e < hi:
+                    edges.add(e)
+        edges.add(c)
+    return np.array(sorted(edges))
+
+
+def halved(edges):
+    mids = (edges[:-1] + edges[1:]) / 2
+    return np.array(sorted(set(edges) | set(mids)))
 
 
 def tables(vs, nodes):
@@ -132,8 +158,8 @@ def tables(vs, nodes):
     return f, F, S, ef, eF, eS
 
 
-def outer(vs, lo, hi, panels):
-    nodes, weights = gauss_legendre(lo, hi, panels)
+def outer(vs, edges):
+    nodes, weights = gauss_legendre(edges)
     f, F, S, ef, eF, eS = tables(vs, nodes)
     r = np.exp(nodes)
     jw = weights * r  # dr = r dw
@@ -153,16 +179,25 @@ def outer(vs, lo, hi, panels):
                 aboveInner=above_err)
 
 
-def main():
-    vs = [TVariant(80 + 5 * i, 2000 + 10 * i, (80 + 5 * i) * (45.0 + i), 30.0 + i) for i in range(10)]
+# Invented totals (orders, visitors, revenue, order_sd); the first variant of each case is the control.
+CASES = {
+    # revenue_reference.py's "t_ten_variants"
+    "t_ten_variants": [TVariant(80 + 5 * i, 2000 + 10 * i, (80 + 5 * i) * (45.0 + i), 30.0 + i) for i in range(10)],
+    # The corner of the declared domain: order_sd at its smallest share of revenue/orders (0.001), with every
+    # visitor ordering (the rate piled against p = 1, so R has a cliff at revenue/orders) and with few.
+    "t_corner_all_ordered": [TVariant(30, 30, 30 * 50.0, 0.05), TVariant(31, 31, 31 * 50.2, 0.0502)],
+    "t_corner_few_orders": [TVariant(30, 3000, 30 * 50.0, 0.05), TVariant(33, 3000, 33 * 50.5, 0.0505)],
+}
+
+
+def run_case(name, vs, panels):
     frames = [v.log_r_frame() for v in vs]
     lo = min(mu - 30 * sd for mu, sd in frames)
     hi = max(mu + 30 * sd for mu, sd in frames)
-    panels = int(sys.argv[1]) if len(sys.argv) > 1 else 24
-    sys.stderr.write(f"window [{lo:.3f}, {hi:.3f}] in log R, {panels} and {2 * panels} panels of {PANEL_POINTS} points\n")
-    coarse = outer(vs, lo, hi, panels)
-    sys.stderr.write("coarse done\n")
-    fine = outer(vs, lo, hi, 2 * panels)
+    sys.stderr.write(f"{name}: window [{lo:.3f}, {hi:.3f}] in log R, {panels} panels (+ graded) and halved\n")
+    edges = outer_edges(vs, lo, hi, panels)
+    coarse = outer(vs, edges)
+    fine = outer(vs, halved(edges))
     # Truncation: each variant's mass outside the window, and the upper tails' part of a loss beyond hi
     # (int_hi^inf S_j dr = int over w > hi of S_j e^w dw, by quad over w).
     outside = [v.cdf(math.exp(lo))[0] + v.cdf(math.exp(hi), upper=True)[0] for v in vs]
@@ -173,10 +208,10 @@ def main():
     below = float(math.exp(lo) * max(v.cdf(math.exp(lo))[0] for v in vs))
     negative = [float(special.stdtr(v.nu, -v.m / v.s)) for v in vs]
     bound = lambda c, f, inner: abs(c - f) + inner + mass_out
-    out = {
+    return {
         "source": f"test/reference/revenue/revenue_ten_reference.py (scipy {scipy.__version__} quad epsrel {EPSREL} "
-                  f"inner, composite {PANEL_POINTS}-point Gauss-Legendre outer over log R, {panels} vs {2 * panels} panels)",
-        "name": "t_ten_variants",
+                  f"inner, composite {PANEL_POINTS}-point Gauss-Legendre outer over log R, {panels} panels and halved)",
+        "name": name,
         "variants": [{"orders": v.orders, "visitors": v.visitors, "revenue": v.revenue, "orderSd": v.order_sd} for v in vs],
         "window": [lo, hi],
         "massOutsideWindow": mass_out,
@@ -189,7 +224,13 @@ def main():
         "expectedLossErrorBound": [abs(c - f) + e + beyond + below + mass_out * math.exp(hi)
                                    for c, f, e in zip(coarse["loss"], fine["loss"], fine["lossInner"])],
     }
-    json.dump(out, sys.stdout, indent=1)
+
+
+def main():
+    """python3 revenue_ten_reference.py [CASE ...]: one case prints one JSON object, several a JSON list."""
+    names = sys.argv[1:] or ["t_ten_variants"]
+    out = [run_case(name, CASES[name], 24) for name in names]
+    json.dump(out[0] if len(out) == 1 else out, sys.stdout, indent=1)
     sys.stdout.write("\n")
 
 
