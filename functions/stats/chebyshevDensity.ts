@@ -26,7 +26,11 @@ export interface DensityPoint {
 
 /** A costly working density: exact evaluation in the working variable, and where to start looking. */
 export interface ExactDensity {
-  /** log density up to a constant, with slope and curvature (these may be approximate to ~1e-6). */
+  /**
+   * log density up to a constant, with its slope and curvature. The slope must be as accurate as the value
+   * (the pieces are Hermite interpolants of both: the exact derivative of the same quadrature sum is); the
+   * curvature may be approximate to ~1e-6 (it only sets panel widths).
+   */
   evaluate(z: number): DensityPoint;
   /** A point near the mode. */
   readonly start: number;
@@ -64,9 +68,11 @@ const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) 
  * Each piece is found from SAMPLES = POINTS/2 exact evaluations, value and slope at the first-kind Chebyshev
  * points of that order: the Hermite interpolant of degree POINTS − 1 (the slope is the exact derivative of
  * the same quadrature sum, so it is as accurate as the value). Hermite interpolation at Chebyshev points
- * errs like f^(2n)·(T_n/2^(n−1))²/(2n)!, within a factor 2 of interpolating 2n values (common practice;
- * Szabados & Vértesi, "Interpolation of Functions", 1990, on Hermite–Fejér at Chebyshev nodes), at half the
- * evaluations. Its coefficients come from one fixed 24×24 matrix (condition number ~130; a value moves the
+ * errs like f^(2n)(ξ)·(T_n/2^(n−1))²/(2n)! (the textbook remainder of Hermite interpolation; common
+ * practice), within a factor 2 of interpolating 2n values, at half the evaluations. As before, a piece is
+ * accepted by its last four Chebyshev coefficients (the interpolant's error is about their size once they
+ * have decayed: Trefethen, "Approximation Theory and Approximation Practice", 2013, ch. 8; common practice in
+ * chebfun). Its coefficients come from one fixed 24×24 matrix (condition number ~130; a value moves the
  * interpolant at the 24 points by at most its own size, a slope by at most 0.1 of it times the half-width).
  */
 const SAMPLES = POINTS / 2;
