@@ -188,7 +188,7 @@ function posteriorOf(v: RevenueTotals, frame: RevenueFrame, tables: TableSource)
   }
   if (orderSd === 0) {
     return tables.table(`revenue-fixed:${orders}:${visitors}:${revenue}`, () =>
-      tabulate(scaledRateDensity(1 + orders, 1 + visitors - orders, revenue / orders)),
+      tabulate(scaledRateDensity(1 + orders, 1 + (visitors - orders), revenue / orders)),
     );
   }
   return tables.table(`revenue-sd:${orders}:${visitors}:${revenue}:${orderSd}:${frame.coordinate}`, () =>

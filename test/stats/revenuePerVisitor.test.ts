@@ -322,6 +322,23 @@ describe('edge cases: what the model says, and clear errors', () => {
     );
   });
 
+  test('every visitor ordering at 2^53 visitors: 1 + visitors − orders is formed without rounding to 0', () => {
+    // The fuzzer's input answered "the Beta shape b must be a finite number > 0, not 0" (1 + 2^53 rounds to
+    // 2^53). Here p ~ Beta(2^53 + 1, 1) is 1 to ~1e-16, so R is the order value: revenue/Gamma(N, 1), whose
+    // 95% interval is (revenue/N)·(1 ∓ 1.959964/√N) to O(1/N) (normal approximation of the gamma; common
+    // practice), i.e. to far below 1e-9 of the value at N = 2^53.
+    const n = 2 ** 53;
+    const revenue = 649641075437.9663;
+    const [got] = revenueInterval([{ orders: n, visitors: n, revenue }], 0.95);
+    expectValue(got?.lower ?? NaN, (revenue / n) * (1 - 1.959963984540054 / Math.sqrt(n)));
+    expectValue(got?.upper ?? NaN, (revenue / n) * (1 + 1.959963984540054 / Math.sqrt(n)));
+    const highest = revenueProbHighest([
+      { orders: n, visitors: n, revenue },
+      { orders: n, visitors: n, revenue: 446233345208.28906 },
+    ]);
+    expect(highest).toEqual([1, 0]);
+  });
+
   test('argument checks name the argument and the item', () => {
     expectStatsErrorExact(
       () => revenueInterval([{ orders: 130, visitors: 120, revenue: 10 }]),
