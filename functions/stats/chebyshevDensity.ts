@@ -5,8 +5,9 @@
  *
  * The tabulation (grid.ts) asks for the log density at ~16 nodes per panel plus slope and curvature at
  * its probe points, some 600–1700 values. A smooth log density (the log of a convolution of log-concave
- * densities is smooth and concave) is reproduced to ~1e-13 by interpolation at 24 Chebyshev points on
- * pieces several standard deviations wide, so 3–10 pieces replace most of those evaluations.
+ * densities is smooth and concave) is reproduced to ~1e-13 by a polynomial of degree 23 (Hermite: value and
+ * slope at 12 Chebyshev points) on pieces several standard deviations wide, so 3–20 pieces replace most of
+ * those evaluations.
  */
 import { StatsError } from './errors';
 import type { WorkingDensity } from './types';
@@ -25,7 +26,11 @@ export interface DensityPoint {
 
 /** A costly working density: exact evaluation in the working variable, and where to start looking. */
 export interface ExactDensity {
-  /** log density up to a constant, with slope and curvature (these may be approximate to ~1e-6). */
+  /**
+   * log density up to a constant, with its slope and curvature. The slope must be as accurate as the value
+   * (the pieces are Hermite interpolants of both: the exact derivative of the same quadrature sum is); the
+   * curvature may be approximate to ~1e-6 (it only sets panel widths).
+   */
   evaluate(z: number): DensityPoint;
   /** A point near the mode. */
   readonly start: number;
@@ -58,13 +63,107 @@ const PIECE_BUDGET = 400;
 const ANGLES = Array.from({ length: POINTS }, (_, j) => ((2 * j + 1) * Math.PI) / (2 * POINTS));
 const CHEB_POINTS = Float64Array.from(ANGLES, (a) => Math.cos(a));
 const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(a));
-/** COSINES[k·M + j] = cos(k·θ_j): Chebyshev coefficients from values at the points. */
-const COSINES = (() => {
-  const table = new Float64Array(POINTS * POINTS);
-  for (let k = 0; k < POINTS; k++)
-    for (let j = 0; j < POINTS; j++) table[k * POINTS + j] = Math.cos(k * (ANGLES[j] as number));
-  return table;
+
+/**
+ * Each piece is found from SAMPLES = POINTS/2 exact evaluations, value and slope at the first-kind Chebyshev
+ * points of that order: the Hermite interpolant of degree POINTS − 1 (the slope is the exact derivative of
+ * the same quadrature sum, so it is as accurate as the value). Hermite interpolation at Chebyshev points
+ * errs like f^(2n)(ξ)·(T_n/2^(n−1))²/(2n)! (the textbook remainder of Hermite interpolation; common
+ * practice), within a factor 2 of interpolating 2n values, at half the evaluations. As before, a piece is
+ * accepted by its last four Chebyshev coefficients (the interpolant's error is about their size once they
+ * have decayed: Trefethen, "Approximation Theory and Approximation Practice", 2013, ch. 8; common practice in
+ * chebfun). Its coefficients come from one fixed 24×24 matrix (condition number ~130; a value moves the
+ * interpolant at the 24 points by at most its own size, a slope by at most 0.1 of it times the half-width).
+ */
+const SAMPLES = POINTS / 2;
+const SAMPLE_ANGLES = Array.from({ length: SAMPLES }, (_, j) => ((2 * j + 1) * Math.PI) / (2 * SAMPLES));
+const SAMPLE_POINTS = Float64Array.from(SAMPLE_ANGLES, (a) => Math.cos(a));
+const SAMPLE_WEIGHTS = Float64Array.from(SAMPLE_ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(a));
+
+/** Inverse of a square matrix (row-major, size n) by Gauss–Jordan elimination with partial pivoting. */
+function invert(m: Float64Array, n: number): Float64Array {
+  const a = Float64Array.from(m);
+  const inv = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) inv[i * n + i] = 1;
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++)
+      if (Math.abs(a[r * n + col] as number) > Math.abs(a[pivot * n + col] as number)) pivot = r;
+    if (pivot !== col) {
+      for (let k = 0; k < n; k++) {
+        const t = a[col * n + k] as number;
+        a[col * n + k] = a[pivot * n + k] as number;
+        a[pivot * n + k] = t;
+        const u = inv[col * n + k] as number;
+        inv[col * n + k] = inv[pivot * n + k] as number;
+        inv[pivot * n + k] = u;
+      }
+    }
+    const d = a[col * n + col] as number;
+    for (let k = 0; k < n; k++) {
+      a[col * n + k] = (a[col * n + k] as number) / d;
+      inv[col * n + k] = (inv[col * n + k] as number) / d;
+    }
+    for (let r = 0; r < n; r++) {
+      if (r === col) continue;
+      const f = a[r * n + col] as number;
+      if (f === 0) continue;
+      for (let k = 0; k < n; k++) {
+        a[r * n + k] = (a[r * n + k] as number) - f * (a[col * n + k] as number);
+        inv[r * n + k] = (inv[r * n + k] as number) - f * (inv[col * n + k] as number);
+      }
+    }
+  }
+  return inv;
+}
+
+/**
+ * HERMITE[k·POINTS + i]: Chebyshev coefficient k from the data (values at the SAMPLES points, then
+ * half-width × slopes there); VALUES_FROM_DATA and SLOPES_FROM_DATA: the interpolant and its derivative
+ * (in t ∈ [−1, 1]) at the POINTS points the pieces keep.
+ */
+const HERMITE = (() => {
+  const n = POINTS;
+  const system = new Float64Array(n * n);
+  for (let j = 0; j < SAMPLES; j++) {
+    const theta = SAMPLE_ANGLES[j] as number;
+    for (let k = 0; k < n; k++) {
+      system[j * n + k] = Math.cos(k * theta);
+      system[(SAMPLES + j) * n + k] = (k * Math.sin(k * theta)) / Math.sin(theta);
+    }
+  }
+  return invert(system, n);
 })();
+const VALUES_FROM_DATA = new Float64Array(POINTS * POINTS);
+const SLOPES_FROM_DATA = new Float64Array(POINTS * POINTS);
+for (let i = 0; i < POINTS; i++) {
+  const theta = ANGLES[i] as number;
+  for (let d = 0; d < POINTS; d++) {
+    let value = 0;
+    let slope = 0;
+    for (let k = 0; k < POINTS; k++) {
+      const h = HERMITE[k * POINTS + d] as number;
+      value += Math.cos(k * theta) * h;
+      slope += ((k * Math.sin(k * theta)) / Math.sin(theta)) * h;
+    }
+    VALUES_FROM_DATA[i * POINTS + d] = value;
+    SLOPES_FROM_DATA[i * POINTS + d] = slope;
+  }
+}
+
+/** Barycentric interpolation at the SAMPLES points (for the curvature, which is only needed roughly). */
+function interpolateSamples(values: Float64Array, t: number): number {
+  let numerator = 0;
+  let denominator = 0;
+  for (let j = 0; j < SAMPLES; j++) {
+    const d = t - (SAMPLE_POINTS[j] as number);
+    if (d === 0) return values[j] as number;
+    const w = (SAMPLE_WEIGHTS[j] as number) / d;
+    numerator += w * (values[j] as number);
+    denominator += w;
+  }
+  return numerator / denominator;
+}
 
 /** One interpolated piece [left, right] with the log density, slope and curvature at its points. */
 interface Piece {
@@ -73,21 +172,6 @@ interface Piece {
   readonly logDensity: Float64Array;
   readonly slope: Float64Array;
   readonly curvature: Float64Array;
-}
-
-/**
- * The largest of the last four Chebyshev coefficients of the values at the points (the interpolant's
- * error is about this size once the coefficients have decayed: Trefethen, "Approximation Theory and
- * Approximation Practice", 2013, ch. 8; common practice in chebfun).
- */
-function tailCoefficient(values: Float64Array): number {
-  let most = 0;
-  for (let k = POINTS - 4; k < POINTS; k++) {
-    let c = 0;
-    for (let j = 0; j < POINTS; j++) c += (values[j] as number) * (COSINES[k * POINTS + j] as number);
-    most = Math.max(most, Math.abs((2 / POINTS) * c));
-  }
-  return most;
 }
 
 /** Barycentric interpolation (first-kind Chebyshev points; Berrut & Trefethen 2004) at t ∈ [−1, 1]. */
@@ -104,27 +188,85 @@ function interpolate(values: Float64Array, t: number): number {
   return numerator / denominator;
 }
 
+/** Widths tried for the next piece, as multiples of the last one tried (largest first). */
+const WIDTH_LADDER = [4, 2.8, 2, 1.4, 1, 0.7, 0.5, 0.35, 0.25, 0.18, 0.125, 0.09, 0.0625];
+/** A width is chosen when its predicted tail coefficient is at most this share of its predicted tolerance. */
+const PIECE_SAFETY = 0.01;
+
+/** Where the next piece starts: the depth (below the peak) and slope of the log density there, and the mode. */
+interface PieceStart {
+  readonly depth: number;
+  readonly slope: number;
+  readonly mode: number;
+}
+
+/**
+ * The width of the next piece to try, from the last try (its width and Chebyshev coefficients, whether it
+ * was accepted) and where the next piece starts. The coefficients of a function analytic inside the
+ * Bernstein ellipse of parameter ρ fall like ρ^-k (Trefethen 2013, ch. 8): ρ is read from the decay between
+ * coefficients 2–5 and 10–13 (rounding noise only makes it look smaller, so the estimate errs low), the
+ * nearest singularity put at s = (ρ + 1/ρ)/2 half-widths from the middle, and a piece f times as wide
+ * predicted to reach ρ' = s' + √(s'² − 1), s' = s/f, with its last four coefficients at C·ρ'^-20. The chosen
+ * width is the largest of WIDTH_LADDER whose prediction is within PIECE_SAFETY of the tolerance the piece is
+ * predicted to get (its highest point: 0 when it holds the mode; else the start's depth, or towards the mode
+ * the tangent's, which for a concave log density lies above it, so that tolerance is never too loose); after a
+ * rejection at most half the width. A wrong prediction costs one more try, never accuracy: every piece is
+ * still checked. Cost O(POINTS²).
+ */
+function nextWidth(tried: number, c: Float64Array, accepted: boolean, from: number, start: PieceStart): number {
+  let early = 0;
+  let late = 0;
+  for (let k = 2; k <= 5; k++) early = Math.max(early, Math.abs(c[k] as number));
+  for (let k = 10; k <= 13; k++) late = Math.max(late, Math.abs(c[k] as number));
+  const rho = early > 0 && late > 0 ? Math.max(1.0001, Math.pow(early / late, 1 / 8)) : 1.0001;
+  const scale = early * Math.pow(rho, 5);
+  const s = (rho + 1 / rho) / 2;
+  const most = accepted ? Infinity : 0.5;
+  let chosen = WIDTH_LADDER[WIDTH_LADDER.length - 1] as number;
+  for (const f of WIDTH_LADDER) {
+    if (f > most) continue;
+    const s2 = s / f;
+    if (s2 <= 1) continue;
+    const rho2 = s2 + Math.sqrt(s2 * s2 - 1);
+    const predicted = scale * Math.pow(rho2, -(POINTS - 4));
+    const width = f * tried;
+    let nearest: number;
+    if (from <= start.mode && from + width >= start.mode) nearest = 0;
+    else if (from + width < start.mode) nearest = Math.max(0, start.depth - Math.max(0, start.slope) * width);
+    else nearest = Math.max(0, start.depth);
+    const tolerance = 1e-12 + 1e-12 * nearest + 1e-11 * nearest * nearest;
+    if (predicted <= PIECE_SAFETY * tolerance) {
+      chosen = f;
+      break;
+    }
+  }
+  return chosen * tried;
+}
+
 function failure(message: string): StatsError {
   return new StatsError('not_available', `the posterior could not be tabulated: ${message}`);
 }
 
 /**
  * Builds the interpolated working density of `exact`:
- *  1. the mode, by Newton's method on the slope inside a bracket that the slope's sign shrinks;
+ *  1. the mode, by Newton's method on the slope inside a bracket that the slope's sign shrinks (towards an
+ *     open side at most 1, 2, 4, … per step);
  *  2. each end of the window where the log density is WINDOW below its peak, by Newton's method in a
  *     bracket (bisection when a step leaves it; doubling the distance while no point outside is known);
- *  3. pieces from the left end: each interpolated at 24 Chebyshev points and accepted when its last four
+ *  3. pieces from the left end: each the Hermite interpolant (degree 23) of value and slope at 12 Chebyshev
+ *     points, kept as its values at 24, and accepted when its last four
  *     coefficients are below 1e-12 + 1e-12·d + 1e-11·d² (+ 5e-15 of its deepest point's depth, the
  *     evaluations' rounding), d the depth of its highest point below the peak
  *     (an error ε in the log density there changes probabilities by ~e^-d·ε), 4e-16·|slope|·|z| (the
- *     rounding of the working point itself) and the evaluations' own noise estimate, else a quarter as wide is
- *     tried; the first piece tried is the whole window, and an accepted piece lets the next try twice
- *     its width (at large counts the log density is nearly quadratic: one piece, 24 evaluations).
+ *     rounding of the working point itself) and the evaluations' own noise estimate; the first piece tried is
+ *     the whole window, every later width is predicted from the last try's coefficients (nextWidth; after a
+ *     rejection at most half as wide) (at large counts the log density is nearly quadratic: one piece, 12
+ *     evaluations).
  * Outside the window (log density below −250, beyond what grid.ts tabulates) the log density continues
  * along its tangent at the nearer end. For a density that is not log-concave (`logConcave`
  * false) the curvature reported is each piece's largest |curvature|, so grid.ts's panels stay narrow
  * across every bend. Everything is deterministic.
- * Cost: ~5–10 exact evaluations for the mode, ~10 per end and 24 per piece tried (typically 4–12 pieces).
+ * Cost: ~5–10 exact evaluations for the mode, ~10 per end and 12 per piece tried (typically 4–20 pieces).
  * Throws StatsError('not_available') when a budget (80 steps for the mode, 120 per end, 400 pieces) is
  * exceeded or a value is not a number.
  */
@@ -145,6 +287,13 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     if (v.slope > 0) lo = mode;
     else hi = mode;
     let next = v.curvature > 0 ? mode + v.slope / v.curvature : NaN;
+    // Towards an open side a Newton step goes at most `step` (doubled each time): where the log density is
+    // nearly straight (a rate piled against p = 1 before a steep fall) its step would leave every scale.
+    const open = v.slope > 0 ? hi === Infinity : lo === -Infinity;
+    if (open && Math.abs(next - mode) > step) {
+      next = mode + (v.slope > 0 ? step : -step);
+      step *= 2;
+    }
     if (!(next > lo && next < hi)) {
       next = Number.isFinite(lo) && Number.isFinite(hi) ? (lo + hi) / 2 : mode + (v.slope > 0 ? step : -step);
       step *= 2;
@@ -202,27 +351,43 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const right = b - (a + w) < 1e-9 * w ? b : Math.min(b, a + w);
     const half = (right - a) / 2;
     const mid = (right + a) / 2;
-    const logDensity = new Float64Array(POINTS);
-    const slope = new Float64Array(POINTS);
-    const curvature = new Float64Array(POINTS);
+    const data = new Float64Array(POINTS);
+    const sampleCurvature = new Float64Array(SAMPLES);
     let nearest = Infinity;
     let deepest = 0;
     let conditioning = 0;
     let evaluationNoise = 0;
-    for (let j = 0; j < POINTS; j++) {
-      const v = exact.evaluate(mid + half * (CHEB_POINTS[j] as number));
-      if (!Number.isFinite(v.logDensity))
-        throw failure(`the log density is not finite at ${mid + half * (CHEB_POINTS[j] as number)}`);
-      logDensity[j] = v.logDensity - top;
-      slope[j] = v.slope;
-      curvature[j] = v.curvature;
+    for (let j = 0; j < SAMPLES; j++) {
+      const z = mid + half * (SAMPLE_POINTS[j] as number);
+      const v = exact.evaluate(z);
+      if (!Number.isFinite(v.logDensity) || !Number.isFinite(v.slope))
+        throw failure(`the log density is not finite at ${z}`);
+      data[j] = v.logDensity - top;
+      data[SAMPLES + j] = half * v.slope;
+      sampleCurvature[j] = v.curvature;
       nearest = Math.min(nearest, Math.abs(v.logDensity - top));
       deepest = Math.max(deepest, Math.abs(v.logDensity - top));
-      conditioning = Math.max(
-        conditioning,
-        Math.abs(v.slope) * Math.max(1, Math.abs(mid + half * (CHEB_POINTS[j] as number))),
-      );
+      conditioning = Math.max(conditioning, Math.abs(v.slope) * Math.max(1, Math.abs(z)));
       evaluationNoise = Math.max(evaluationNoise, v.noise ?? 0);
+    }
+    const coefficients = new Float64Array(POINTS);
+    const logDensity = new Float64Array(POINTS);
+    const slope = new Float64Array(POINTS);
+    const curvature = new Float64Array(POINTS);
+    for (let i = 0; i < POINTS; i++) {
+      let c = 0;
+      let value = 0;
+      let derivative = 0;
+      for (let d = 0; d < POINTS; d++) {
+        const x = data[d] as number;
+        c += (HERMITE[i * POINTS + d] as number) * x;
+        value += (VALUES_FROM_DATA[i * POINTS + d] as number) * x;
+        derivative += (SLOPES_FROM_DATA[i * POINTS + d] as number) * x;
+      }
+      coefficients[i] = c;
+      logDensity[i] = value;
+      slope[i] = derivative / half;
+      curvature[i] = interpolateSamples(sampleCurvature, CHEB_POINTS[i] as number);
     }
     // An error ε in the log density d below the peak moves probabilities by ~e^-d·ε, and tail
     // probabilities ~e^-d by ε relative: allow 1e-12 + 1e-12·d + 1e-11·d² (≤ 5e-12 of any probability,
@@ -234,13 +399,19 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const noise = 4e-16 * conditioning + evaluationNoise;
     const tolerance = 1e-12 + noise + 5e-15 * deepest + 1e-12 * nearest + 1e-11 * nearest * nearest;
     const floor = nearest > 30 && right - a < 1e-9 * (last - leftEnd.z);
-    if (tailCoefficient(logDensity) > tolerance && !floor) {
-      w /= 4;
-      continue;
-    }
+    const tail = Math.max(...Array.from(coefficients.subarray(POINTS - 4)).map(Math.abs));
+    const accepted = tail <= tolerance || floor;
+    // The next width: predicted from this try (see nextWidth), never the rejected width again.
+    const from = accepted ? right : a;
+    const t = accepted ? 1 : -1;
+    w = nextWidth(right - a, coefficients, accepted, from, {
+      depth: -interpolate(logDensity, t),
+      slope: interpolate(slope, t),
+      mode,
+    });
+    if (!accepted) continue;
     pieces.push({ left: a, right, logDensity, slope, curvature });
     a = right;
-    w *= 2;
   }
   const lefts = Float64Array.from(pieces, (p) => p.left);
   // Where the log density is not concave, grid.ts's panel rule (width 2/√curvature) must not see a

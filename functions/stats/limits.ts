@@ -43,6 +43,14 @@ export const MAX_MEAN_SIZE = 1e12;
 /** Smallest nonzero and largest standard deviation (Normal model); 0 is allowed (every value equal). */
 export const MIN_SD = 1e-6;
 export const MAX_SD = 1e12;
+/**
+ * Smallest order_sd of the revenue model beside the variant's average order value revenue/orders (other
+ * than 0, every order the same value): 0.1%. Below it the order value's t is so much narrower than the
+ * rate's posterior that the density of R = p·v is not resolved (scans of orders 2 to 1e9, every visitor
+ * ordering to 1 in 10,000, all pass from here up; the corner is checked against scipy in
+ * test/reference/revenue/revenue_corner_values.json); at that precision order_sd 0 gives the same read-out.
+ */
+export const MIN_ORDER_SD_SHARE = 0.001;
 /** Narrowest and widest credible level, threshold or power: 0.01 to 0.9999 (99.99%). */
 export const MIN_LEVEL = 0.01;
 export const MAX_LEVEL = 0.9999;

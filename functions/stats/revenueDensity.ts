@@ -129,7 +129,7 @@ class ExponentialRevenue implements ExactDensity {
 
   constructor(orders: number, visitors: number, revenue: number) {
     const a = 1 + orders;
-    const b = 1 + visitors - orders;
+    const b = 1 + (visitors - orders);
     const alpha = orders;
     this.shape = alpha;
     // Left of the rate's mode an outer point deep in the left tail concentrates its integrand in a peak

@@ -31,7 +31,7 @@ import { expectedLosses, highestProbabilities, probabilityGreater, ratioCdf, rat
 import { chooseByLoss, lossThreshold } from './decisionRule';
 import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
-import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
+import { MAX_COUNT, MIN_ORDER_SD_SHARE, checkLevel, checkVariantCount } from './limits';
 import { PANEL_ORDER, tabulate } from './quadrature';
 import type { TabulatedDistribution } from './quadrature';
 import { findRoot, gaussLegendre } from './numeric';
@@ -89,9 +89,22 @@ function checkTotals(variants: readonly RevenueTotals[], minimum: number): boole
     if (v.orderSd !== undefined) {
       ensure(Number.isFinite(v.orderSd), `order_sd, item ${item}: ${v.orderSd} is not a finite number`);
       ensure(v.orderSd >= 0, `order_sd, item ${item}: ${v.orderSd} is below 0; a standard deviation is 0 or more`);
+      const least = (MIN_ORDER_SD_SHARE * v.revenue) / v.orders;
+      ensure(
+        v.orderSd === 0 || v.orders < 2 || v.orderSd * v.orders >= MIN_ORDER_SD_SHARE * v.revenue * (1 - 1e-12),
+        `order_sd, item ${item}: ${v.orderSd} is below 0.1% of this variant's average order value (revenue/orders = ` +
+          `${shortNumber(v.revenue / v.orders)}); enter 0 if every order had about the same value, or an order_sd ` +
+          `of at least ${shortNumber(least)}`,
+      );
     }
   });
   return withSd;
+}
+
+/** A number for a message, to 3 significant digits as Excel shows it (6.09E+10, 0.05). */
+function shortNumber(x: number): string {
+  if (x !== 0 && (Math.abs(x) >= 1e6 || Math.abs(x) < 1e-3)) return x.toExponential(2).replace('e', 'E');
+  return String(Number(x.toPrecision(3)));
 }
 
 /** Throws not_available where a variant's revenue per visitor has no posterior (see the file header). */
@@ -175,7 +188,7 @@ function posteriorOf(v: RevenueTotals, frame: RevenueFrame, tables: TableSource)
   }
   if (orderSd === 0) {
     return tables.table(`revenue-fixed:${orders}:${visitors}:${revenue}`, () =>
-      tabulate(scaledRateDensity(1 + orders, 1 + visitors - orders, revenue / orders)),
+      tabulate(scaledRateDensity(1 + orders, 1 + (visitors - orders), revenue / orders)),
     );
   }
   return tables.table(`revenue-sd:${orders}:${visitors}:${revenue}:${orderSd}:${frame.coordinate}`, () =>
@@ -196,15 +209,55 @@ function posteriors(variants: readonly RevenueTotals[], minimum: number, tables:
   checkPosteriors(variants);
   const frame = frameFor(variants);
   const seen = new Map<string, TabulatedDistribution>();
-  return variants.map((v) => {
+  return variants.map((v, i) => {
     const key = `${v.orders}/${v.visitors}/${v.revenue}/${v.orderSd}`;
     let d = seen.get(key);
     if (d === undefined) {
-      d = posteriorOf(v, frame, tables);
+      d = posteriorInFrame(variants, i, frame, tables);
       seen.set(key, d);
     }
     return d;
   });
+}
+
+/** Most variants compared when some need a frame of their own (their losses then cost O(k³) mapped integrals). */
+const MAX_OWN_FRAME_VARIANTS = 10;
+
+/**
+ * One variant's table in the call's shared frame, or, when its scale is so far below the frame's (a
+ * variant at 2^53 visitors beside one at 3) that the shared coordinate cannot resolve it (the tabulation's
+ * panel budget runs out), in a sinh frame of its own: compare.ts then maps between the coordinates (exact,
+ * but the expected losses cost O(k³) mapped integrals, ~0.3 s at 10 variants), so only up to
+ * MAX_OWN_FRAME_VARIANTS variants; beyond, not available, naming the variant.
+ */
+function posteriorInFrame(
+  variants: readonly RevenueTotals[],
+  i: number,
+  frame: RevenueFrame,
+  tables: TableSource,
+): TabulatedDistribution {
+  const v = variants[i] as RevenueTotals;
+  try {
+    return posteriorOf(v, frame, tables);
+  } catch (error) {
+    if (!(error instanceof StatsError) || v.orderSd === undefined || v.orderSd === 0) throw error;
+    if (frame.valueRange[0] >= 0) throw error;
+    const own = frameFor([v]);
+    if (own.coordinate === frame.coordinate) throw error;
+    if (variants.length > MAX_OWN_FRAME_VARIANTS) {
+      const scales = variants
+        .filter((w) => (w.orderSd ?? 0) > 0 && w.orders >= 2)
+        .map((w) => scaleOf(studentModel(w.orders, w.visitors, w.revenue, w.orderSd as number)));
+      const ratio = scaleOf(studentModel(v.orders, v.visitors, v.revenue, v.orderSd)) / Math.max(...scales);
+      throw new StatsError(
+        'not_available',
+        `variant ${i + 1}: the spread of its revenue per visitor is about ${shortNumber(ratio)} of the widest ` +
+          `variant's, too far apart to compare ${variants.length} variants at once (at most ` +
+          `${MAX_OWN_FRAME_VARIANTS} when spreads differ this much); compare it in a smaller group`,
+      );
+    }
+    return posteriorOf(v, own, tables);
+  }
 }
 
 /**

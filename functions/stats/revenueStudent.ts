@@ -433,7 +433,7 @@ export function studentModel(orders: number, visitors: number, revenue: number, 
   ensure(Number.isFinite(revenue), `revenue must be a finite number, not ${revenue}`);
   ensure(Number.isFinite(orderSd) && orderSd > 0, `order_sd must be a finite number above 0, not ${orderSd}`);
   const a = 1 + orders;
-  const b = 1 + visitors - orders;
+  const b = 1 + (visitors - orders);
   const m = revenue / orders;
   return { a, b, nu: orders - 1, m, s: orderSd / Math.sqrt(orders), centre: (a / (a + b)) * m };
 }

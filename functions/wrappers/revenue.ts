@@ -33,7 +33,7 @@ function totals(
  * @param orders Orders of each variant (a row or a column of whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns Lower and upper bound of each variant's revenue per visitor (same currency as revenue).
  * @method Revenue per visitor is rate × order value, independent: rate ~ Beta(1 + orders, 1 + visitors − orders); order value exponential with 1/value ~ Gamma(orders, revenue), or with an order sd s a Student t (orders − 1 df, centre revenue/orders, scale s/√orders). Its distribution is a one-dimensional integral over the rate, tabulated and read at its central quantiles.
@@ -62,7 +62,7 @@ export function revenueInterval(
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @returns For each variant, the probability (0 to 1) that its revenue per visitor is the highest.
  * @method P(i highest) = ∫ f_i ∏_{j≠i} F_j over the tabulated posteriors of revenue per visitor (rate × order value), by quadrature.
  * @source Expected-value comparisons of posteriors: Gelman et al., Bayesian Data Analysis, 3rd ed. (2013); the product model of the revenue interval.
@@ -83,7 +83,7 @@ export function revenueProbHighest(orders: any[][], visitors: any[][], revenue: 
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @returns For each challenger, P(its revenue per visitor > the control's); empty text for the control.
  * @method P(B > A) = ∫ f_B F_A over the tabulated posteriors of revenue per visitor, the smaller of the pair integrated directly.
  * @source The product model of the revenue interval; with exponential order values checked against a closed form: given both rates, P(B > A) = I_x(orders_B, orders_A) with x from the rates and revenues, averaged over the rates (derived in the revenue reference script in test/reference).
@@ -109,7 +109,7 @@ export function revenueProbAboveControl(
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @param [level] Probability the interval holds, 0.01 to 0.9999 (optional; default 0.95).
  * @returns For each challenger, the lower, median and upper relative lift (0.1 is 10% more revenue per visitor); empty text for the control.
  * @method Quantiles of the ratio of the tabulated posteriors (Newton's method on the smaller tail). With an order sd, a control whose average order value could be zero or negative (chance above 1e-6) has no lift (#N/A), as for averages; below that its small negative part is kept exactly.
@@ -138,7 +138,7 @@ export function revenueLiftInterval(
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
  * @param min_lift The relative lift to beat, as a fraction greater than -1 and at most 1 (0.05 is 5% more revenue per visitor; −0.02 asks "no worse than 2% lower").
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @returns For each challenger, P(its revenue per visitor / the control's − 1 > min_lift); empty text for the control.
  * @method The upper tail of the ratio of the tabulated posteriors, P(R_B > (1 + m)·R_A) with m the minimum lift, integrated directly (accurate far into the tail).
  * @source The product model of the revenue interval; checked against nested scipy quadrature.
@@ -165,7 +165,7 @@ export function revenueProbLiftAbove(
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @returns For each variant, E[max over variants of revenue per visitor − its revenue per visitor] (same currency as revenue, per visitor).
  * @method loss_i = ∫ F_i (1 − ∏_{j≠i} F_j) dR over the tabulated posteriors, by quadrature. With 1 order (no order sd) or 2 orders (with an order sd) the average order value has no finite mean: #N/A.
  * @source Expected loss: C. Stucchio, "Bayesian A/B Testing at VWO" (2015); the product model of the revenue interval.
@@ -185,7 +185,7 @@ export function revenueExpectedLoss(orders: any[][], visitors: any[][], revenue:
  * @param orders Orders of each variant (2 to 50 variants in a row or a column; whole numbers, at most its visitors; the first is the control).
  * @param visitors Visitors of each variant, same shape as orders (whole numbers, 1 or more).
  * @param revenue Total revenue of each variant, same shape as orders (0 or more, in any currency).
- * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0 or more; optional, by default left out: order values are then taken as exponential).
+ * @param [order_sd] Standard deviation of each variant's order values, as STDEV.S gives (0, or at least 0.1% of revenue/orders; optional, by default left out: order values are then taken as exponential).
  * @param [max_loss] The largest expected loss you accept, in the revenue's currency per visitor, 0 to 1E+12 (optional; default 1% of the control's posterior mean revenue per visitor).
  * @param [labels] Names of the variants, same shape as orders (optional; default A, B, C… by position).
  * @returns One text cell: the variant to choose, or that more data is needed, naming the leader and its expected loss per visitor (no currency symbol: the add-in cannot know the currency).

@@ -6,6 +6,8 @@
  * averaged over both rates (derived in the script). The totals are invented.
  */
 import reference from '../reference/revenue/revenue_values.json';
+import tenReference from '../reference/revenue/revenue_ten_values.json';
+import cornerReference from '../reference/revenue/revenue_corner_values.json';
 import {
   revenueDecide,
   revenueExpectedLoss,
@@ -124,6 +126,63 @@ describe.each(cases.map((c) => [c.name, c]))(
   },
 );
 
+describe('ten variants with order_sd against a one-level scipy reference (revenue_ten_reference.py)', () => {
+  // Each variant's f_R, F_R and S_R by one scipy quad over the rate per outer node (the product-distribution
+  // formula), the outer integrals by composite Gauss-Legendre over log R at two panel counts; the JSON
+  // states an error bound per value (outer-rule difference + inner quad estimates + mass outside the
+  // window), all below 1e-12, so a 1e-9 check against it is a check of our values, not of the reference.
+  const t = tenReference;
+  const variants = t.variants as RevenueTotals[];
+
+  test('the reference is as tight as it says: bounds below 1e-12, P(highest) sums to 1, nothing below R = 0', () => {
+    for (const b of [...t.probHighestErrorBound, ...t.probAboveControlErrorBound, ...t.expectedLossErrorBound]) {
+      expect(b).toBeLessThan(1e-12);
+    }
+    expect(Math.abs(t.probHighest.reduce((s, x) => s + x, 0) - 1)).toBeLessThan(1e-12);
+    expect(Math.max(...t.negativeMass)).toBeLessThan(1e-15);
+  });
+
+  test('P(highest) of all ten within 1e-9 (tails 1e-6 relative)', () => {
+    const got = revenueProbHighest(variants);
+    t.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+  });
+
+  test('expected losses of all ten within 1e-9 of the scale of revenue per visitor', () => {
+    const got = revenueExpectedLoss(variants);
+    const scale = Math.max(...revenueMean(variants));
+    t.expectedLoss.forEach((want, i) => expectValue(got[i] ?? NaN, want, scale));
+  });
+
+  test('P(variant 2 above the control) within 1e-9', () => {
+    expectProbability(revenueProbAboveControl(variants.slice(0, 2))[0] ?? NaN, t.probAboveControl[0] ?? NaN);
+  });
+});
+
+describe.each(cornerReference.map((c) => [c.name, c]))(
+  'the smallest order_sd allowed (0.1% of revenue/orders) against the one-level scipy reference: %s',
+  (_name, kase) => {
+    // revenue_ten_reference.py: every visitor ordering (the rate piled against p = 1, R with a cliff at
+    // revenue/orders; before the mode search's step bound this answered #N/A) and few; bounds < 1e-11.
+    const c = kase as typeof tenReference;
+    const variants = c.variants as RevenueTotals[];
+
+    test('the reference is as tight as it says (bounds below 1e-11)', () => {
+      for (const b of [...c.probHighestErrorBound, ...c.probAboveControlErrorBound, ...c.expectedLossErrorBound]) {
+        expect(b).toBeLessThan(1e-11);
+      }
+    });
+
+    test('P(highest), P(above control) within 1e-9; expected losses within 1e-9 of the scale', () => {
+      const got = revenueProbHighest(variants);
+      c.probHighest.forEach((want, i) => expectProbability(got[i] ?? NaN, want));
+      expectProbability(revenueProbAboveControl(variants)[0] ?? NaN, c.probAboveControl[0] ?? NaN);
+      const losses = revenueExpectedLoss(variants);
+      const scale = Math.max(...revenueMean(variants));
+      c.expectedLoss.forEach((want, i) => expectValue(losses[i] ?? NaN, want, scale));
+    });
+  },
+);
+
 describe('the order value alone: the exponential model in the limit of certain, equal rates', () => {
   const o = reference.orderValueOnly;
 
@@ -208,6 +267,76 @@ describe('edge cases: what the model says, and clear errors', () => {
     // R = 30·p with p ~ Beta(61, 1441): its 5% point is 30 × the Beta's 5% point
     expect(Math.abs(betaCdf((interval?.lower ?? NaN) / 30, 61, 1441) - 0.05)).toBeLessThanOrEqual(1e-12);
     expect(Math.abs(betaCdf((interval?.upper ?? NaN) / 30, 61, 1441) - 0.95)).toBeLessThanOrEqual(1e-12);
+  });
+
+  test('an order_sd below 0.1% of revenue/orders is refused naming it, its item, the average order value and the least allowed', () => {
+    // The fuzzer's inputs: order values known to 1e-9 of their size answered #N/A from deep inside the tabulation.
+    const tiny = [
+      { orders: 30, visitors: 30, revenue: 2e10, orderSd: 1 },
+      { orders: 20, visitors: 20, revenue: 9e11, orderSd: 1 },
+    ];
+    for (const run of [() => revenueExpectedLoss(tiny), () => revenueProbHighest(tiny), () => revenueInterval(tiny)]) {
+      expectStatsErrorExact(
+        run,
+        'invalid_argument',
+        "order_sd, item 1: 1 is below 0.1% of this variant's average order value (revenue/orders = 6.67E+8); " +
+          'enter 0 if every order had about the same value, or an order_sd of at least 667000',
+      );
+    }
+    expectStatsErrorExact(
+      () =>
+        revenueProbAboveControl([
+          { orders: 30, visitors: 3000, revenue: 1500, orderSd: 0.05 },
+          { orders: 20, visitors: 3000, revenue: 1000, orderSd: 0.0499 },
+        ]),
+      'invalid_argument',
+      "order_sd, item 2: 0.0499 is below 0.1% of this variant's average order value (revenue/orders = 50); " +
+        'enter 0 if every order had about the same value, or an order_sd of at least 0.05',
+    );
+    // At the bound itself (0.05 on 50) and with order_sd 0 the read-out is given.
+    const atBound = revenueProbAboveControl([
+      { orders: 30, visitors: 3000, revenue: 1500, orderSd: 0.05 },
+      { orders: 20, visitors: 3000, revenue: 1000, orderSd: 0 },
+    ]);
+    expect(atBound[0]).toBeGreaterThan(0);
+    expect(atBound[0]).toBeLessThan(1);
+  });
+
+  test('spreads 1e16 apart (2^53 visitors beside 3): each in its own frame up to 10 variants, then a plain refusal', () => {
+    // The fuzzer's input: in one shared frame the narrow variant ran out of panels ("too many panels").
+    const wide = { orders: 3, visitors: 3, revenue: 846058422356.3014, orderSd: 711919178735.5414 };
+    const narrow = { orders: 20, visitors: 2 ** 53, revenue: 436145082125.52026, orderSd: 297241341565.16534 };
+    const pair = [wide, narrow];
+    const highest = revenueProbHighest(pair);
+    expect(Math.abs((highest[0] ?? NaN) + (highest[1] ?? NaN) - 1)).toBeLessThanOrEqual(1e-12);
+    // loss_i − loss_j = mean_j − mean_i (E[max − R_i] − E[max − R_j]; a closed-form identity).
+    const [lossWide = NaN, lossNarrow = NaN] = revenueExpectedLoss(pair);
+    const [meanWide = NaN, meanNarrow = NaN] = revenueMean(pair);
+    expectValue(lossWide - lossNarrow, meanNarrow - meanWide, meanWide);
+    const many = Array.from({ length: 12 }, (_, i) => (i % 2 === 0 ? wide : narrow));
+    expectStatsErrorExact(
+      () => revenueExpectedLoss(many),
+      'not_available',
+      "variant 2: the spread of its revenue per visitor is about 4.68E-16 of the widest variant's, too far apart " +
+        'to compare 12 variants at once (at most 10 when spreads differ this much); compare it in a smaller group',
+    );
+  });
+
+  test('every visitor ordering at 2^53 visitors: 1 + visitors − orders is formed without rounding to 0', () => {
+    // The fuzzer's input answered "the Beta shape b must be a finite number > 0, not 0" (1 + 2^53 rounds to
+    // 2^53). Here p ~ Beta(2^53 + 1, 1) is 1 to ~1e-16, so R is the order value: revenue/Gamma(N, 1), whose
+    // 95% interval is (revenue/N)·(1 ∓ 1.959964/√N) to O(1/N) (normal approximation of the gamma; common
+    // practice), i.e. to far below 1e-9 of the value at N = 2^53.
+    const n = 2 ** 53;
+    const revenue = 649641075437.9663;
+    const [got] = revenueInterval([{ orders: n, visitors: n, revenue }], 0.95);
+    expectValue(got?.lower ?? NaN, (revenue / n) * (1 - 1.959963984540054 / Math.sqrt(n)));
+    expectValue(got?.upper ?? NaN, (revenue / n) * (1 + 1.959963984540054 / Math.sqrt(n)));
+    const highest = revenueProbHighest([
+      { orders: n, visitors: n, revenue },
+      { orders: n, visitors: n, revenue: 446233345208.28906 },
+    ]);
+    expect(highest).toEqual([1, 0]);
   });
 
   test('argument checks name the argument and the item', () => {
