@@ -67,11 +67,67 @@ function ordinaryMeans(k) {
   };
 }
 
+/**
+ * k invented shops' revenue totals: visitors from 1e2 to 1e9 (log-spaced), 1–8% ordering, average orders
+ * from 20 to 80 with order_sd from 0.3 to 2 times the average (the spread of widths one comparison spans).
+ */
+function unevenRevenue(k) {
+  const orders = [];
+  const visitors = [];
+  const revenue = [];
+  const sd = [];
+  for (let i = 0; i < k; i++) {
+    const n = Math.round(10 ** (2 + (7 * i) / (k - 1)));
+    const o = Math.max(3, Math.round(n * (0.01 + (0.07 * ((i * 7) % k)) / k)));
+    const average = 20 + (60 * ((i * 11) % k)) / k;
+    visitors.push(n);
+    orders.push(o);
+    revenue.push(Math.round(o * average * 100) / 100);
+    sd.push(Math.round(average * (0.3 + (1.7 * ((i * 13) % k)) / k) * 100) / 100);
+  }
+  return { orders: col(orders), visitors: col(visitors), revenue: col(revenue), sd: col(sd) };
+}
+
+/** k close revenue variants of 10,000 visitors, about 5% ordering at about 50 an order (all overlap). */
+function closeRevenue(k) {
+  const visitors = Array.from({ length: k }, (_, i) => 10000 + 7 * i);
+  const orders = visitors.map((n, i) => Math.round(n * 0.05 * (1 + 0.002 * i)));
+  const revenue = orders.map((o, i) => Math.round(o * 50 * (1 + 0.001 * ((i * 7) % k)) * 100) / 100);
+  const sd = orders.map((_, i) => 40 + (i % 5));
+  return { orders: col(orders), visitors: col(visitors), revenue: col(revenue), sd: col(sd) };
+}
+
 const U50 = uneven(50);
 const C50 = close(50);
 const M50 = unevenMeans(50);
 const O50 = ordinaryMeans(50);
 const E50 = unevenEvents(50);
+const R50 = unevenRevenue(50);
+const RC50 = closeRevenue(50);
+/** The revenue functions' rows: each at 50 variants, uneven and close, exponential and order_sd models. */
+const revenueRows = [];
+for (const [name, extra] of [
+  ['REVENUE_PROB_HIGHEST', []],
+  ['REVENUE_EXPECTED_LOSS', []],
+  ['REVENUE_DECISION', []],
+  ['REVENUE_PROB_ABOVE_CONTROL', []],
+  ['REVENUE_INTERVAL', [0.9999]],
+  ['REVENUE_LIFT_INTERVAL', [0.9999]],
+  ['REVENUE_PROB_LIFT_ABOVE', [0.05]],
+]) {
+  // REVENUE_PROB_LIFT_ABOVE takes min_lift before order_sd; the others take order_sd first.
+  const liftFirst = name === 'REVENUE_PROB_LIFT_ABOVE';
+  for (const [label, r] of [
+    ['50 uneven variants', R50],
+    ['50 close variants', RC50],
+  ]) {
+    const base = [r.orders, r.visitors, r.revenue];
+    const expo = liftFirst ? [...base, ...extra] : extra.length ? [...base, null, ...extra] : base;
+    const sd = liftFirst ? [...base, ...extra, r.sd] : [...base, r.sd, ...extra];
+    revenueRows.push([`${name}, ${label}, exponential`, name, expo, true]);
+    revenueRows.push([`${name}, ${label}, order_sd`, name, sd, true]);
+  }
+}
 
 /**
  * Each case: the formula as a user would type it (shortened for generated ranges), the call, and whether
@@ -186,6 +242,7 @@ const CASES = [
   ['DECISION_POWER(0.5,0.01,1E9,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e9, 0.9999], true],
   ['DECISION_POWER(0.5,0.01,1E10,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e10, 0.9999], true],
   ['PRIOR_FROM_HISTORY, 50 uneven rows', 'PRIOR_FROM_HISTORY', [U50.conversions, U50.visitors], true],
+  ...revenueRows,
 ];
 
 const WATCHDOG_MS = Number(process.env.WORST_CASE_WATCHDOG_MS || 20000);
