@@ -287,6 +287,14 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     if (v.slope > 0) lo = mode;
     else hi = mode;
     let next = v.curvature > 0 ? mode + v.slope / v.curvature : NaN;
+    // A Newton step within 1e-9 of a standard deviation is converged even when it leaves the bracket: at
+    // large counts it rounds to no move at all (next = mode = lo), and bisecting on from there took up to
+    // 40 more evaluations to close the bracket to a few ulps.
+    if (v.curvature > 0 && Math.abs(next - mode) <= 1e-9 / Math.sqrt(v.curvature)) {
+      if (next > lo && next < hi) mode = next;
+      found = true;
+      break;
+    }
     // Towards an open side a Newton step goes at most `step` (doubled each time): where the log density is
     // nearly straight (a rate piled against p = 1 before a steep fall) its step would leave every scale.
     const open = v.slope > 0 ? hi === Infinity : lo === -Infinity;
