@@ -90,13 +90,24 @@ const KINK_ORDERS = 20;
 /** Most parts one rate panel is cut into for a narrow order-value factor (the budget of one panel). */
 const MAX_PARTS = 400;
 
-/** Moments of the inner integrand accumulated relative to a running largest term. */
+/** Terms one call of InnerSum.addTerms takes at most (a panel's nodes). */
+const TERMS = PANEL_ORDER;
+
+/**
+ * Moments of the inner integrand accumulated relative to a running largest term. The terms of one panel
+ * are staged in the buffers and added in one loop over locals (one call per panel: a call per node boxed
+ * its three double arguments, some 60 MB of short-lived numbers in a 50-variant comparison).
+ */
 class InnerSum {
   ref = -Infinity;
   m0 = 0;
   m1 = 0;
   m2 = 0;
   mc = 0;
+  /** log base density + log weight, τ and 1/(s·σ(z)) of the staged terms. */
+  readonly base = new Float64Array(TERMS);
+  readonly tau = new Float64Array(TERMS);
+  readonly inverse = new Float64Array(TERMS);
 
   reset(): void {
     this.ref = -Infinity;
@@ -106,22 +117,44 @@ class InnerSum {
     this.mc = 0;
   }
 
-  /** Adds e^v with the first and second derivatives d1, d2 of the log factor in the outer variable. */
-  add(v: number, d1: number, d2: number): void {
-    if (v === -Infinity) return;
-    if (v > this.ref) {
-      const scale = this.ref === -Infinity ? 0 : Math.exp(this.ref - v);
-      this.m0 *= scale;
-      this.m1 *= scale;
-      this.m2 *= scale;
-      this.mc *= scale;
-      this.ref = v;
+  /**
+   * Adds the first `count` staged terms e^v, v = base − half·log1p(τ²/ν), with the first and second
+   * derivatives of the log factor in the outer variable, d1 = −2·half·τ·inverse/(ν + τ²) and
+   * d2 = −2·half·(ν − τ²)·inverse²/(ν + τ²)².
+   */
+  addTerms(count: number, half: number, nu: number): void {
+    let ref = this.ref;
+    let m0 = this.m0;
+    let m1 = this.m1;
+    let m2 = this.m2;
+    let mc = this.mc;
+    for (let j = 0; j < count; j++) {
+      const tau = this.tau[j] as number;
+      const inverse = this.inverse[j] as number;
+      const v = (this.base[j] as number) + -half * Math.log1p((tau * tau) / nu);
+      if (v === -Infinity) continue;
+      const d = nu + tau * tau;
+      const d1 = (-2 * half * tau * inverse) / d;
+      const d2 = (-2 * half * (nu - tau * tau) * inverse * inverse) / (d * d);
+      if (v > ref) {
+        const scale = ref === -Infinity ? 0 : Math.exp(ref - v);
+        m0 *= scale;
+        m1 *= scale;
+        m2 *= scale;
+        mc *= scale;
+        ref = v;
+      }
+      const w = Math.exp(v - ref);
+      m0 += w;
+      m1 += w * d1;
+      m2 += w * d1 * d1;
+      mc += w * d2;
     }
-    const w = Math.exp(v - this.ref);
-    this.m0 += w;
-    this.m1 += w * d1;
-    this.m2 += w * d1 * d1;
-    this.mc += w * d2;
+    this.ref = ref;
+    this.m0 = m0;
+    this.m1 = m1;
+    this.m2 = m2;
+    this.mc = mc;
   }
 
   get logTotal(): number {
@@ -171,6 +204,7 @@ class StudentOverRate {
   private readonly nodeOffset: Float64Array;
   private readonly nodeInverse: Float64Array;
   private readonly cuts: number[] = [];
+  private readonly taus: number[] = [];
   private sh = 0;
   private r = 0;
   private offset = 0;
@@ -217,18 +251,6 @@ class StudentOverRate {
     return -this.half * Math.log1p((tau * tau) / this.model.nu);
   }
 
-  /** Adds the point with log base density + log weight `base` and factor argument tau to the sum. */
-  private add(base: number, tau: number, inverse: number): void {
-    const v = base + this.logFactor(tau);
-    const nu = this.model.nu;
-    const d = nu + tau * tau;
-    this.sum.add(
-      v,
-      (-2 * this.half * tau * inverse) / d,
-      (-2 * this.half * (nu - tau * tau) * inverse * inverse) / (d * d),
-    );
-  }
-
   /** The step in τ allowed from a point whose |τ| is t (see the class comment). */
   private step(t: number): number {
     const nu = this.model.nu;
@@ -255,22 +277,32 @@ class StudentOverRate {
     const lo = Math.max(Math.min(ta, tb), -reach);
     const hi = Math.min(Math.max(ta, tb), reach);
     if (!(hi > lo)) return true;
-    // Walk outwards from the point of [lo, hi] nearest τ = 0.
+    // Walk outwards from the point of [lo, hi] nearest τ = 0: down to lo (then turned ascending), up to hi.
     const start = Math.min(Math.max(0, lo), hi);
-    const taus: number[] = [start];
+    const taus = this.taus;
+    taus.length = 0;
+    for (let t = start; t > lo;) {
+      t = Math.max(lo, t - this.step(Math.abs(t)));
+      taus.push(t);
+      if (taus.length + 1 > MAX_PARTS) return false;
+    }
+    taus.reverse();
+    taus.push(start);
     for (let t = start; t < hi;) {
       t = Math.min(hi, t + this.step(Math.abs(t)));
       taus.push(t);
       if (taus.length > MAX_PARTS) return false;
     }
-    for (let t = start; t > lo;) {
-      t = Math.max(lo, t - this.step(Math.abs(t)));
-      taus.unshift(t);
-      if (taus.length > MAX_PARTS) return false;
-    }
-    // Map to z (τ is monotone in z); the panel's own ends where τ was not clipped.
+    // Map to z (τ is monotone in z, so the cuts come out ascending or descending; sorted only if rounding
+    // left them neither); the panel's own ends where τ was not clipped.
     for (const t of taus) cuts.push(t === ta ? za : t === tb ? zb : this.zOfTau(t));
-    cuts.sort((u, v) => u - v);
+    if ((cuts[0] as number) > (cuts[cuts.length - 1] as number)) cuts.reverse();
+    for (let i = 1; i < cuts.length; i++) {
+      if ((cuts[i] as number) < (cuts[i - 1] as number)) {
+        cuts.sort((u, v) => u - v);
+        break;
+      }
+    }
     return true;
   }
 
@@ -281,6 +313,7 @@ class StudentOverRate {
     const t = this.base;
     const n = PANEL_ORDER;
     const sum = this.sum;
+    const nu = this.model.nu;
     sum.reset();
     const order = t.panelOrder;
     for (let r = 0; r < order.length; r++) {
@@ -296,11 +329,13 @@ class StudentOverRate {
       const most = this.logFactor(nearest);
       if (mass + most < total - INNER_PRUNE) continue;
       if (Math.abs(tb - ta) <= this.step(nearest)) {
-        for (let k = p * n; k < p * n + n; k++) {
+        for (let j = 0, k = p * n; j < n; j++, k++) {
           const inverse = this.nodeInverse[k] as number;
-          const tau = (this.sh - (this.nodeOffset[k] as number)) * inverse;
-          this.add((t.nodeLogWeight[k] as number) + (t.nodeLogDensity[k] as number), tau, inverse);
+          sum.base[j] = (t.nodeLogWeight[k] as number) + (t.nodeLogDensity[k] as number);
+          sum.tau[j] = (this.sh - (this.nodeOffset[k] as number)) * inverse;
+          sum.inverse[j] = inverse;
         }
+        sum.addTerms(n, this.half, nu);
         continue;
       }
       // Parts where the factor could matter: within e^-40 of the larger of the running total and this
@@ -318,9 +353,11 @@ class StudentOverRate {
         const logHalf = Math.log(half);
         for (let k = 0; k < n; k++) {
           const z = mid + half * (PANEL_NODES[k] as number);
-          const tau = this.tauAt(z);
-          this.add(logHalf + (PANEL_LOG_WEIGHTS[k] as number) + t.logDensityAt(z), tau, this.inverse);
+          sum.tau[k] = this.tauAt(z);
+          sum.inverse[k] = this.inverse;
+          sum.base[k] = logHalf + (PANEL_LOG_WEIGHTS[k] as number) + t.logDensityAt(z);
         }
+        sum.addTerms(n, this.half, nu);
       }
     }
     return sum.logTotal;
