@@ -35,6 +35,12 @@ export interface ExactDensity {
   /** A point near the mode. */
   readonly start: number;
   /**
+   * True when the model knows its window takes several pieces (a small count: the log density's nearest
+   * singularity lies within the window): the first piece tried is then FIRST_SHARE of the window instead
+   * of all of it, which would only be rejected.
+   */
+  readonly severalPieces?: boolean;
+  /**
    * A working point where the density is only finitely often differentiable (pieces end there, and
    * grid.ts's panels are graded towards it), if any.
    */
@@ -221,6 +227,12 @@ function interpolate(values: Float64Array, t: number): number {
   return numerator / denominator;
 }
 
+/**
+ * The first piece's share of the window when the model says it takes several pieces (about what nextWidth
+ * predicts after the whole window is rejected at 25–300 orders; a wrong guess costs one try, as before).
+ */
+const FIRST_SHARE = 0.35;
+
 /** Widths tried for the next piece, as multiples of the last one tried (largest first). */
 const WIDTH_LADDER = [4, 2.8, 2, 1.4, 1, 0.7, 0.5, 0.35, 0.25, 0.18, 0.125, 0.09, 0.0625];
 /** A width is chosen when its predicted tail coefficient is at most this share of its predicted tolerance. */
@@ -292,7 +304,7 @@ function failure(message: string): StatsError {
  *     evaluations' rounding), d the depth of its highest point below the peak
  *     (an error ε in the log density there changes probabilities by ~e^-d·ε), 4e-16·|slope|·|z| (the
  *     rounding of the working point itself) and the evaluations' own noise estimate; the first piece tried is
- *     the whole window, every later width is predicted from the last try's coefficients (nextWidth; after a
+ *     the whole window (FIRST_SHARE of it when the model says it takes several), every later width is predicted from the last try's coefficients (nextWidth; after a
  *     rejection at most half as wide) (at large counts the log density is nearly quadratic: one piece, 12
  *     evaluations).
  * Outside the window (log density below −250, beyond what grid.ts tabulates) the log density continues
@@ -384,7 +396,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
   let a = leftEnd.z;
   const last = rightEnd.z;
   const kink = exact.kink !== undefined && exact.kink > a && exact.kink < last ? exact.kink : undefined;
-  let w = last - a;
+  let w = exact.severalPieces === true ? FIRST_SHARE * (last - a) : last - a;
   for (let tries = 0; a < last; tries++) {
     if (tries >= PIECE_BUDGET) throw failure('its log density is not smooth enough to interpolate');
     // Pieces end at the kink (where the density is only finitely smooth) and at the window's end.

@@ -100,6 +100,9 @@ export function rateTable(a: number, b: number, leftFloor: number): TabulatedDis
   });
 }
 
+/** Below this many orders a revenue density's window takes several pieces (see chebyshevDensity.ts). */
+export const SEVERAL_PIECES_ORDERS = 1000;
+
 /**
  * Revenue per visitor with exponential order values, evaluated exactly in ω = log R.
  *
@@ -114,6 +117,7 @@ export function rateTable(a: number, b: number, leftFloor: number): TabulatedDis
  */
 class ExponentialRevenue implements ExactDensity {
   readonly start: number;
+  readonly severalPieces: boolean;
   readonly valueRange = [0, Infinity] as const;
   readonly exactMean?: number;
   private readonly table: TabulatedDistribution;
@@ -132,6 +136,10 @@ class ExponentialRevenue implements ExactDensity {
     const b = 1 + (visitors - orders);
     const alpha = orders;
     this.shape = alpha;
+    // Below SEVERAL_PIECES_ORDERS / 2 orders the window never fitted one piece (orders 1 to 1e8 at rates
+    // 0.001 to 1 tried: one piece from 1000 orders at rates up to 0.3, from 3000 at every rate; at 999 the
+    // first try at FIRST_SHARE cost more pieces than the whole window's rejection).
+    this.severalPieces = orders < SEVERAL_PIECES_ORDERS / 2;
     // Left of the rate's mode an outer point deep in the left tail concentrates its integrand in a peak
     // of width ~1/(√(a + α)·(1 − p)) in z: keep panels there within ~2.8 such widths (a floor of
     // 2(a + α)(1 − p)² on the curvature; with half that floor the log density 10–60 below its peak came

@@ -14,7 +14,7 @@ import type { DensityPoint, ExactDensity } from './chebyshevDensity';
 import { ensure, StatsError } from './errors';
 import { PANEL_NODES, PANEL_ORDER, TabulatedDistribution } from './quadrature';
 import { gaussLegendre } from './numeric';
-import { INNER_PRUNE, rateTable } from './revenueDensity';
+import { INNER_PRUNE, SEVERAL_PIECES_ORDERS, rateTable } from './revenueDensity';
 import type { WorkingDensity } from './types';
 
 /**
@@ -407,6 +407,7 @@ function sech2(u: number): number {
  */
 class StudentRevenue implements ExactDensity {
   readonly start: number;
+  readonly severalPieces: boolean;
   readonly kink?: number;
   readonly valueRange: readonly [number, number];
   readonly exactMean?: number;
@@ -420,6 +421,8 @@ class StudentRevenue implements ExactDensity {
     this.valueRange = frame.valueRange;
     this.start = frame.toWorking(centre > frame.valueRange[0] ? centre : frame.valueRange[0] + Math.abs(s));
     this.overRate = new StudentOverRate(model, frame);
+    // One piece was seen only from 3000 orders (order_sd 0.2 to 1.6 of revenue/orders, rates 0.001 to 1).
+    this.severalPieces = a - 1 < SEVERAL_PIECES_ORDERS;
     if (nu > 1 && frame.valueRange[0] < 0) this.exactMean = centre;
     // At R = 0 the order value jumps from +∞ to −∞ as p → 0, and f_R is only orders − 1 times
     // differentiable there (its next derivative is ∫ f_p(p) p^(−orders−…) dp, log-divergent at p = 0);
