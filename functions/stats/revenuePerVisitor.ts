@@ -331,14 +331,14 @@ interface LiftControl {
   readonly whole: TabulatedDistribution;
 }
 
-function liftControl(
-  variants: readonly RevenueTotals[],
-  ds: readonly TabulatedDistribution[],
-  tables: TableSource,
-): LiftControl {
-  const control = variants[0] as RevenueTotals;
-  const whole = ds[0] as TabulatedDistribution;
-  const negative = negativeMass(control);
+/**
+ * Checks the totals and that the control's order value is positive for sure (P(v ≤ 0) ≤ 1e-6 under the t
+ * model): before any tabulation, so a call that has no lift answers at once. Returns that P(v ≤ 0).
+ */
+function checkLiftControl(variants: readonly RevenueTotals[]): number {
+  checkTotals(variants, 2);
+  checkPosteriors(variants);
+  const negative = negativeMass(variants[0] as RevenueTotals);
   if (negative > LIFT_ZERO_MASS) {
     const percent = 100 * negative;
     throw new StatsError(
@@ -348,6 +348,18 @@ function liftControl(
         'large beside revenue/orders), so a relative lift has no meaning; compare with REVENUE_PROB_ABOVE_CONTROL',
     );
   }
+  return negative;
+}
+
+/** The control's pieces for a relative lift (after checkLiftControl, whose P(v ≤ 0) is `negative`). */
+function liftControl(
+  variants: readonly RevenueTotals[],
+  ds: readonly TabulatedDistribution[],
+  negative: number,
+  tables: TableSource,
+): LiftControl {
+  const control = variants[0] as RevenueTotals;
+  const whole = ds[0] as TabulatedDistribution;
   // A table read in log R (or order_sd 0) is the posterior given R > 0, which the read-out uses whenever
   // P(R ≤ 0) < 1e-13: its negative part is then left out.
   if (whole.source.valueRange[0] >= 0) return { positive: whole, negative: 0, whole };
@@ -417,20 +429,23 @@ export function revenueLiftInterval(
 ): IntervalWithMedian[] {
   checkLevel(level);
   const tail = (1 - level) / 2;
-  const ds = posteriors(variants, 2, tables);
-  const control = liftControl(variants, ds, tables);
-  return ds.slice(1).map((y, i) => {
-    // Under the t model a challenger's R may be negative; where that is as likely as the lower tail, the
-    // interval would reach below a lift of −100%, which a ratio cannot express.
-    const negative = negativeMass(variants[i + 1] as RevenueTotals);
-    if (negative >= tail) {
+  const negative = checkLiftControl(variants);
+  // Under the t model a challenger's R may be negative; where that is as likely as the lower tail, the
+  // interval would reach below a lift of −100%, which a ratio cannot express (checked before tabulating).
+  variants.slice(1).forEach((v, i) => {
+    const below = negativeMass(v);
+    if (below >= tail) {
       throw new StatsError(
         'not_available',
         `order_sd, item ${i + 2}: this challenger's average order value could be negative (` +
-          `${(100 * negative).toPrecision(2)}% under the t model), so its lift interval would reach below -100%; ` +
+          `${(100 * below).toPrecision(2)}% under the t model), so its lift interval would reach below -100%; ` +
           'compare with REVENUE_PROB_ABOVE_CONTROL or REVENUE_PROB_LIFT_ABOVE',
       );
     }
+  });
+  const ds = posteriors(variants, 2, tables);
+  const control = liftControl(variants, ds, negative, tables);
+  return ds.slice(1).map((y) => {
     const quantile = (p: number): number => {
       const guess = ratioQuantile(y, control.positive, p);
       if (control.negative === 0) return guess;
@@ -477,8 +492,9 @@ export function revenueProbLiftAbove(
     Number.isFinite(minLift) && minLift > -1,
     `min_lift: ${minLift} is not allowed; the minimum lift is a number greater than -1 (-0.02 asks "no worse than 2% below")`,
   );
+  const negative = checkLiftControl(variants);
   const ds = posteriors(variants, 2, tables);
-  const control = liftControl(variants, ds, tables);
+  const control = liftControl(variants, ds, negative, tables);
   return ds.slice(1).map((y) => {
     if (control.negative === 0) return ratioSf(y, control.positive, minLift);
     const lower = liftTail(y, control, minLift, false);
