@@ -97,6 +97,14 @@ function closeRevenue(k) {
   return { orders: col(orders), visitors: col(visitors), revenue: col(revenue), sd: col(sd) };
 }
 
+/** k invented shops' first orders: 1 to 3 orders each (the exponential model's widest, most-piece posteriors). */
+function fewOrders(k) {
+  const orders = Array.from({ length: k }, (_, i) => 1 + (i % 3));
+  const visitors = orders.map((o, i) => o * (1 + ((i * 7) % 40)));
+  const revenue = orders.map((o, i) => Math.round(o * 50 * (1 + 0.01 * i) * 100) / 100);
+  return { orders: col(orders), visitors: col(visitors), revenue: col(revenue) };
+}
+
 const U50 = uneven(50);
 const C50 = close(50);
 const M50 = unevenMeans(50);
@@ -104,8 +112,22 @@ const O50 = ordinaryMeans(50);
 const E50 = unevenEvents(50);
 const R50 = unevenRevenue(50);
 const RC50 = closeRevenue(50);
+const F50 = fewOrders(50);
 /** The revenue functions' rows: each at 50 variants, uneven and close, exponential and order_sd models. */
-const revenueRows = [];
+const revenueRows = [
+  [
+    'REVENUE_PROB_HIGHEST, 50 variants of 1–3 orders, exponential',
+    'REVENUE_PROB_HIGHEST',
+    [F50.orders, F50.visitors, F50.revenue],
+    true,
+  ],
+  [
+    'REVENUE_INTERVAL, 50 variants of 1–3 orders, exponential',
+    'REVENUE_INTERVAL',
+    [F50.orders, F50.visitors, F50.revenue, null, 0.9999],
+    true,
+  ],
+];
 for (const [name, extra] of [
   ['REVENUE_PROB_HIGHEST', []],
   ['REVENUE_EXPECTED_LOSS', []],
