@@ -22,6 +22,7 @@ import {
   MIN_POINTS,
   MIN_PRIOR,
   MIN_SD,
+  MIN_ORDER_SD_SHARE,
 } from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 
@@ -53,6 +54,11 @@ export interface NumberRule {
    * out-of-bounds value that looks like a whole percentage (2 to 100 in size) gets a hint in the message.
    */
   readonly fraction?: 'rate' | 'lift';
+  /**
+   * A further condition the model checks against other arguments (not this rule), in words for the help page
+   * and the README's argument table, e.g. `order_sd`'s floor relative to the average order value.
+   */
+  readonly also?: string;
 }
 
 /** A text argument that must be one of a few words (case-insensitive). */
@@ -249,13 +255,17 @@ export const EXPOSURE = {
 export const ORDERS = { name: 'orders', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
 /** `revenue`: a variant's total revenue, from 0 to 1e12 in the user's currency (stats/limits.ts MAX_MEAN_SIZE). */
 export const REVENUE = { name: 'revenue', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
-/** `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`). */
+/**
+ * `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`),
+ * and when not 0 at least MIN_ORDER_SD_SHARE of the variant's average order value (checked by the revenue model).
+ */
 export const ORDER_SD = {
   name: 'order_sd',
   kind: 'real',
   min: MIN_SD,
   max: MAX_SD,
   orZero: true,
+  also: `when not 0, at least ${MIN_ORDER_SD_SHARE * 100}% of the same variant's revenue/orders`,
 } as const satisfies NumberRule;
 
 /** Levels, thresholds and power: from 0.01 to 0.9999 (stats/limits.ts MIN_LEVEL, MAX_LEVEL). */
