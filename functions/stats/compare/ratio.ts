@@ -58,7 +58,8 @@ export function ratioSf(y: TabulatedDistribution, x: TabulatedDistribution, m: n
   return Math.exp(ratioTails(y, x, m).upper);
 }
 
-function logRatioDensity(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
+/** log of {@link ratioDensity} (−Infinity where the density is 0 or below ~1e-308). Cost and errors as ratioDensity. */
+export function logRatioDensity(y: TabulatedDistribution, x: TabulatedDistribution, m: number): number {
   checkPositive(x);
   checkLift(m);
   const s = 1 + m;
