@@ -19,10 +19,12 @@ import {
   expectedLosses,
   highestProbabilities,
   probabilityGreater,
+  ratioChartQuantiles,
   ratioDensityGrid,
   ratioQuantile,
   ratioSf,
 } from './compare';
+import type { LogDensityPiece } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
@@ -447,18 +449,14 @@ export function posteriorDensityTable(
 function chartRange(
   challenger: TabulatedDistribution,
   control: TabulatedDistribution,
-): [number, number] | 'wide' | 'narrow' {
-  const [q01, q25, q75, q99] = LIFT_CHART_QUANTILES.map((p) => ratioQuantile(challenger, control, p)) as [
-    number,
-    number,
-    number,
-    number,
-  ];
+): { range: [number, number] | 'wide' | 'narrow'; piece: LogDensityPiece | undefined } {
+  const { quantiles, piece } = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES);
+  const [q01, q25, q75, q99] = quantiles as [number, number, number, number];
   const spread = q75 - q25;
   const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
   const hi = Math.min(q99, q75 + LIFT_CHART_FENCE * spread);
-  if (!(Number.isFinite(lo) && Number.isFinite(hi))) return 'wide';
-  return hi > lo ? [lo, hi] : 'narrow';
+  if (!(Number.isFinite(lo) && Number.isFinite(hi))) return { range: 'wide', piece };
+  return { range: hi > lo ? [lo, hi] : 'narrow', piece };
 }
 
 /**
@@ -467,7 +465,7 @@ function chartRange(
  * //=> -0.97999999999999… (the 1% quantile of Y/X − 1 for two uniforms: P(Y/X ≤ t) = t/2)
  */
 export function liftChartRange(challenger: TabulatedDistribution, control: TabulatedDistribution): [number, number] {
-  const range = chartRange(challenger, control);
+  const { range } = chartRange(challenger, control);
   if (typeof range === 'string') {
     throw new StatsError('not_available', `the lift has no chart range: it is spread too ${range}ly`);
   }
@@ -531,15 +529,18 @@ export function liftDensityTable(
   const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);
-  const ranges = challengers.map((d, i) => {
-    const range = chartRange(d, control);
-    if (typeof range === 'string') {
-      throw noChartRange(range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
+  const charts = challengers.map((d, i) => {
+    const chart = chartRange(d, control);
+    if (typeof chart.range === 'string') {
+      throw noChartRange(chart.range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
     }
-    return range;
+    return { range: chart.range, piece: chart.piece };
   });
-  const lo = Math.min(...ranges.map((r) => r[0]));
-  const hi = Math.max(...ranges.map((r) => r[1]));
+  const lo = Math.min(...charts.map((c) => c.range[0]));
+  const hi = Math.max(...charts.map((c) => c.range[1]));
   const grid = evenGrid(lo, hi, points);
-  return { grid, densities: challengers.map((d) => ratioDensityGrid(d, control, grid).densities) };
+  return {
+    grid,
+    densities: challengers.map((d, i) => ratioDensityGrid(d, control, grid, charts[i]?.piece).densities),
+  };
 }

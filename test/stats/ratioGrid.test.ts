@@ -1,6 +1,6 @@
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
-import { ratioDensity } from '../../functions/stats/compare';
-import { ratioDensityGrid } from '../../functions/stats/compare/ratioGrid';
+import { ratioDensity, ratioQuantile } from '../../functions/stats/compare';
+import { ratioChartQuantiles, ratioDensityGrid } from '../../functions/stats/compare/ratioGrid';
 import { posteriorOf } from '../../functions/stats/conversion';
 import { tabulate } from '../../functions/stats/quadrature';
 import reference from '../reference/addin/lift_chart_density.json';
@@ -70,5 +70,38 @@ describe('lift densities on a grid: closed forms', () => {
     expect(result.densities.slice(0, 2)).toEqual([0, 0]);
     grid.slice(2).forEach((m, i) => expect(result.densities[i + 2]).toBe(ratioDensity(y, x, m)));
     expect(result.integrals).toBe(4);
+  });
+});
+
+describe('lift quantiles for a chart (ratioChartQuantiles): the roots of ratioQuantile, started closer', () => {
+  const levels = [0.01, 0.25, 0.75, 0.99];
+
+  it('close variants: a fitted piece, and each quantile within 1e-12 of ratioQuantile', () => {
+    const x = posteriorOf({ conversions: 500, visitors: 10000 });
+    const y = posteriorOf({ conversions: 510, visitors: 10007 });
+    const result = ratioChartQuantiles(y, x, levels);
+    expect(result.piece).toBeDefined();
+    levels.forEach((p, i) => {
+      expect(relativeError(result.quantiles[i] as number, ratioQuantile(y, x, p))).toBeLessThan(1e-12);
+    });
+  });
+
+  it('a control without conversions: no piece (too wide in log(1 + lift)), ratioQuantile bit for bit', () => {
+    const x = posteriorOf({ conversions: 0, visitors: 1000 });
+    const y = posteriorOf({ conversions: 10, visitors: 1000 });
+    const result = ratioChartQuantiles(y, x, levels);
+    expect(result.piece).toBeUndefined();
+    levels.forEach((p, i) => expect(result.quantiles[i]).toBe(ratioQuantile(y, x, p)));
+  });
+
+  it('the grid densities taken from that piece agree with mpmath (close variants)', () => {
+    const c = reference.cases[3] as (typeof reference.cases)[number];
+    const x = posteriorOf({ conversions: 500, visitors: 10000 });
+    const y = posteriorOf({ conversions: 510, visitors: 10007 });
+    const { piece } = ratioChartQuantiles(y, x, levels);
+    const result = ratioDensityGrid(y, x, c.lifts, piece);
+    c.densities.forEach((expected, j) => {
+      expect(relativeError(result.densities[j] as number, expected)).toBeLessThan(2e-12);
+    });
   });
 });

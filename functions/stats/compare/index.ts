@@ -20,4 +20,5 @@ export {
 export { expectedLosses } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
-export { ratioDensityGrid } from './ratioGrid';
+export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';
+export type { LogDensityPiece } from './ratioGrid';
