@@ -24,7 +24,7 @@ import {
   ratioQuantile,
   ratioSf,
 } from './compare';
-import type { LogDensityPiece } from './compare';
+import type { LogDensityPiece, QuantileOf } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
@@ -449,8 +449,9 @@ export function posteriorDensityTable(
 function chartRange(
   challenger: TabulatedDistribution,
   control: TabulatedDistribution,
+  controlQuantile?: QuantileOf,
 ): { range: [number, number] | 'wide' | 'narrow'; piece: LogDensityPiece | undefined } {
-  const { quantiles, piece } = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES);
+  const { quantiles, piece } = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES, controlQuantile);
   const [q01, q25, q75, q99] = quantiles as [number, number, number, number];
   const spread = q75 - q25;
   const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
@@ -529,8 +530,19 @@ export function liftDensityTable(
   const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);
+  // The control's marginal quantiles the quantile starts use are the same for every challenger.
+  const remembered = new Map<string, number>();
+  const controlQuantile = (p: number, upper: boolean): number => {
+    const key = `${upper ? 'upper' : 'lower'} ${p}`;
+    let q = remembered.get(key);
+    if (q === undefined) {
+      q = upper ? control.quantileUpper(p) : control.quantile(p);
+      remembered.set(key, q);
+    }
+    return q;
+  };
   const charts = challengers.map((d, i) => {
-    const chart = chartRange(d, control);
+    const chart = chartRange(d, control, controlQuantile);
     if (typeof chart.range === 'string') {
       throw noChartRange(chart.range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
     }

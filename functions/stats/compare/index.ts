@@ -22,3 +22,4 @@ export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } fr
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
 export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';
 export type { LogDensityPiece } from './ratioGrid';
+export type { QuantileOf } from './ratio';

@@ -108,16 +108,25 @@ export function ratioQuantile(
   return Math.expm1(solveQuantile((v, upper) => ratioTailAndDensity(y, x, v, upper), p, start, bracket));
 }
 
+/** A marginal quantile: the value with P(below) = p, or with P(above) = p when upper. */
+export type QuantileOf = (p: number, upper: boolean) => number;
+
 /**
  * Where ratioQuantile's Newton steps start, in v = log(1 + m): the normal approximation of log Y − log X
- * from the marginal quantiles at p and 1 − p (0 where that is not finite). Cost: two marginal quantiles
- * and the medians. Throws StatsError('invalid_argument') unless 0 < p < 1.
+ * from the marginal quantiles at p and 1 − p (0 where that is not finite); X's quantiles from
+ * `xQuantile` when given (a caller comparing many Y with one X remembers them). Cost: two marginal
+ * quantiles and the medians. Throws StatsError('invalid_argument') unless 0 < p < 1.
  */
-export function ratioQuantileStart(y: TabulatedDistribution, x: TabulatedDistribution, p: number): number {
+export function ratioQuantileStart(
+  y: TabulatedDistribution,
+  x: TabulatedDistribution,
+  p: number,
+  xQuantile: QuantileOf = (q, upper) => (upper ? x.quantileUpper(q) : x.quantile(q)),
+): number {
   checkProbability(p);
   const upperHalf = p > 0.5;
   const qy = Math.log(upperHalf ? y.quantileUpper(1 - p) : y.quantile(p));
-  const qx = Math.log(upperHalf ? x.quantile(1 - p) : x.quantileUpper(p));
+  const qx = Math.log(upperHalf ? xQuantile(1 - p, false) : xQuantile(p, true));
   const my = Math.log(y.median);
   const mx = Math.log(x.median);
   const spread = Math.hypot(qy - my, qx - mx);

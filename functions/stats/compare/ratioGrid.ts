@@ -13,6 +13,7 @@ import type { TabulatedDistribution } from '../quadrature';
 import { factor, forEachPiece, innerEdges } from './factors';
 import { PRUNE, xIsBase } from './integrate';
 import { logRatioDensity, ratioLogTail, ratioQuantile, ratioQuantileStart } from './ratio';
+import type { QuantileOf } from './ratio';
 
 /** Chebyshev points per piece. */
 const POINTS = 16;
@@ -310,6 +311,7 @@ export interface RatioChartQuantiles {
  * quantile's start is where that cdf reaches p; such a start is right to ~1e-12, so ratioQuantile
  * accepts its first Newton step after one pass (instead of two to four). Where the fit fails, the middle
  * tail is below 0.001 or a start falls outside the piece, the normal approximation's start is used.
+ * X's marginal quantiles for the starts from `xQuantile` when given (as ratioQuantileStart).
  * Cost: 16 density integrals and one tail pass, then one pass a quantile (typically). Errors as
  * ratioQuantile.
  */
@@ -317,8 +319,9 @@ export function ratioChartQuantiles(
   y: TabulatedDistribution,
   x: TabulatedDistribution,
   ps: readonly number[],
+  xQuantile?: QuantileOf,
 ): RatioChartQuantiles {
-  const starts = ps.map((p) => ratioQuantileStart(y, x, p));
+  const starts = ps.map((p) => ratioQuantileStart(y, x, p, xQuantile));
   const plain = (): RatioChartQuantiles => ({
     quantiles: ps.map((p, i) => ratioQuantile(y, x, p, starts[i])),
     piece: undefined,
