@@ -79,7 +79,7 @@ describe('LIFT_DENSITY grid ends against scipy lift quantiles (lift_chart_range.
     );
   });
 
-  it('answers not_available naming prior_alpha, prior_beta and the challenger when the middle half is one number', () => {
+  it('names prior_alpha, prior_beta and the challenger when the middle half of the lift is one number', () => {
     // Beta(1.001, 0.001) twice: both rates are 1 to double precision in the middle half, so the lift's
     // quartiles are both exactly 0.
     expect(

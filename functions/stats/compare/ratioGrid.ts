@@ -158,7 +158,7 @@ class PairDensity {
   }
 }
 
-/** log h, the density of V = log(1 + R) per unit of v, on [mid − half, mid + half]: its values at the Chebyshev points. */
+/** log h, the density of V = log(1 + R) per unit of v, on [mid − half, mid + half]: its values at 16 points. */
 export interface LogDensityPiece {
   readonly mid: number;
   readonly half: number;
@@ -194,7 +194,7 @@ function pieceAt(piece: LogDensityPiece, v: number): number {
 export interface RatioDensityGrid {
   /** The density of R at each lift of the grid (0 at lifts ≤ −1). */
   readonly densities: number[];
-  /** Exact density integrals evaluated (at most 1.5 times the number of lifts above −1). */
+  /** Exact density integrals evaluated (at most 1.25 times the number of lifts above −1). */
   readonly integrals: number;
 }
 
@@ -203,12 +203,12 @@ export interface RatioDensityGrid {
  * in v = log(1 + m): a piece holding at least 32 lifts is tried with the log density of V exactly at 16
  * Chebyshev points and accepted when its last four coefficients are below 1e-13 (+ 4e-16 of the largest
  * |log density|, its rounding): its lifts then take the interpolated value; else it is halved in v. A
- * piece of fewer lifts, a piece met once the tries have used half as many integrals as there are lifts,
- * and the halves of a piece where an exact value is not finite (a density below ~1e-308) or the
+ * piece of fewer lifts, a piece met once the tries would pass a quarter as many integrals as there are
+ * lifts, and the halves of a piece where an exact value is not finite (a density below ~1e-308) or the
  * coefficients do not fall are evaluated exactly lift by lift. A kink (two uniforms at m = 0) is never
  * interpolated across: its coefficients do not fall.
  * Accuracy: that of the exact values (ratioDensity, ~1e-13 relative); tested against mpmath.
- * Cost: at most 1.5 × (lifts above −1) density integrals; 16 for a thousand lifts at thousands of visitors.
+ * Cost: at most 1.25 × (lifts above −1) density integrals; 16 for a thousand lifts at thousands of visitors.
  * Throws StatsError('invalid_argument') unless X is positive for sure (as ratioDensity).
  * @example
  * const [y, x] = [tabulate(betaWorkingDensity(1, 1)), tabulate(betaWorkingDensity(1, 1))]; // two uniforms
