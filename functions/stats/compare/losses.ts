@@ -9,7 +9,7 @@ import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
 import type { Factor } from './factors';
 import { PRUNE, checkList, logIntegral } from './integrate';
-import { MAX_GRID_CELLS, sharedPieces } from './sharedGrid';
+import { MAX_GRID_CELLS, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
 
 /**
  * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
@@ -58,41 +58,39 @@ export function expectedLosses(ds: readonly TabulatedDistribution[], maxGridCell
  * total minus one term). Four steps:
  *  1. sharedPieces: the union of the posteriors' panel edges, merged into pieces no wider than the
  *     narrowest panel there;
- *  2. pieceBounds: each piece's upper bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx for each variant;
+ *  2. pieceBounds: each piece's upper bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx for each variant, the
+ *     tails bounded from the tables' panel edges (sharedGrid.ts tailBoundsAtEdges);
  *  3. visitOrder: the pieces by decreasing bound (relative to each variant's largest);
  *  4. integratePieces: the integrals, a piece skipped for variant i when its bound lies e^-46 below i's
- *     running total (as in logIntegral).
+ *     running total (as in logIntegral), the others' product formed only where it is not negligible.
  */
 function sharedGridLosses(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
   const edges = sharedPieces(ds, maxGridCells);
-  const { bound, best } = pieceBounds(ds, edges);
+  const tails = tailBoundsAtEdges(ds, edges);
+  const { bound, best } = pieceBounds(ds, edges, tails.cdf, tails.sf);
   const order = visitOrder(bound, best, edges.length - 1, ds.length);
-  return integratePieces(ds, edges, bound, order).map((t) => Math.exp(t));
+  return integratePieces(ds, edges, bound, tails.cdf, order).map((t) => Math.exp(t));
 }
 
 /**
  * For each piece s and variant i, the log of the bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx (in value
- * units; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
+ * units, the tails' upper bounds at the edges from tailBoundsAtEdges; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
  * variant's largest bound, best[i].
  */
 function pieceBounds(
   ds: readonly TabulatedDistribution[],
   edges: readonly number[],
+  edgeCdf: Float64Array,
+  edgeSf: Float64Array,
 ): { bound: Float64Array; best: Float64Array } {
   const k = ds.length;
   const pieces = edges.length - 1;
   const src = (ds[0] as TabulatedDistribution).source;
-  const edgeCdf = new Float64Array(edges.length * k);
   const edgeOthersSf = new Float64Array(edges.length * k);
   const logSf = new Float64Array(k);
   const sumScratch = new Float64Array(k + 1);
   for (let e = 0; e < edges.length; e++) {
-    const z = edges[e] as number;
-    for (let j = 0; j < k; j++) {
-      const d = ds[j] as TabulatedDistribution;
-      edgeCdf[e * k + j] = d.logCdfAt(z);
-      logSf[j] = d.logSfAt(z);
-    }
+    for (let j = 0; j < k; j++) logSf[j] = edgeSf[e * k + j] as number;
     logSumOfOthers(logSf, edgeOthersSf, e * k, sumScratch);
   }
   const bound = new Float64Array(pieces * k);
@@ -143,13 +141,24 @@ function visitOrder(bound: Float64Array, best: Float64Array, pieces: number, k: 
 }
 
 /**
+ * Below this log of a product of cdfs, 1 − Π F is exactly 1 in double precision: expm1 returns −1 for
+ * arguments below −56·ln 2 ≈ −38.8 (fdlibm's expm1, which JavaScript engines follow), so log(−expm1) is 0.
+ */
+const PRODUCT_NEGLIGIBLE = -40;
+
+/**
  * log ∫ F_i (1 − Π_{j≠i} F_j) dx for every variant i over the pieces in `order`: at each piece's 16 nodes
  * log F_j of every posterior once, then per variant still in need the integrand and its panel integral.
+ * Where two posteriors' F lie below e^-40 on the whole piece (their bound at its right edge, edgeCdf), every
+ * product of the others holds one of them, so 1 − Π_{j≠i} F_j is exactly 1 (PRODUCT_NEGLIGIBLE) and only the
+ * needed variants' own F are read; where one does, only that variant needs the others' product. The values
+ * are the same, bit for bit, as from the full product.
  */
 function integratePieces(
   ds: readonly TabulatedDistribution[],
   edges: readonly number[],
   bound: Float64Array,
+  edgeCdf: Float64Array,
   order: readonly number[],
 ): number[] {
   const k = ds.length;
@@ -158,10 +167,12 @@ function integratePieces(
   const totals = new Array<number>(k).fill(-Infinity);
   const need = new Uint8Array(k);
   const logF = new Float64Array(k * n);
+  const rows = Array.from({ length: k }, (_, j) => logF.subarray(j * n, j * n + n));
   const values = new Float64Array(k * n);
   const prefix = new Float64Array(k + 1);
   const suffix = new Float64Array(k + 1);
   const logJacobian = new Float64Array(n);
+  const points = new Float64Array(n);
   for (const s of order) {
     let any = false;
     for (let i = 0; i < k; i++) {
@@ -174,21 +185,42 @@ function integratePieces(
     const b = edges[s + 1] as number;
     const half = (b - a) / 2;
     const mid = (a + b) / 2;
+    // The posteriors whose F is negligible in every product on this piece.
+    let negligible = 0;
+    let lone = -1;
+    for (let j = 0; j < k; j++) {
+      if ((edgeCdf[(s + 1) * k + j] as number) <= PRODUCT_NEGLIGIBLE) {
+        negligible += 1;
+        lone = j;
+      }
+    }
+    // Whether the others' product is needed at all: for the lone negligible one when it is in need, or with none.
+    const full = negligible === 0 || (negligible === 1 && need[lone] === 1);
     for (let q = 0; q < n; q++) {
       const z = mid + half * (PANEL_NODES[q] as number);
+      points[q] = z;
       logJacobian[q] = Math.log(src.valueJacobian(z));
-      for (let j = 0; j < k; j++) logF[j * n + q] = (ds[j] as TabulatedDistribution).logCdfAt(z);
+    }
+    for (let j = 0; j < k; j++) {
+      if (!full && need[j] === 0) continue;
+      const row = rows[j] as Float64Array;
+      for (let q = 0; q < n; q++) row[q] = (ds[j] as TabulatedDistribution).logCdfAt(points[q] as number);
     }
     for (let q = 0; q < n; q++) {
-      // Σ_{j≠i} log F_j from prefix and suffix sums; 1 − Π_{j≠i} F_j = −expm1 of it.
-      prefix[0] = 0;
-      for (let j = 0; j < k; j++) prefix[j + 1] = (prefix[j] as number) + (logF[j * n + q] as number);
-      suffix[k] = 0;
-      for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (logF[j * n + q] as number);
+      if (full) {
+        // Σ_{j≠i} log F_j from prefix and suffix sums; 1 − Π_{j≠i} F_j = −expm1 of it.
+        prefix[0] = 0;
+        for (let j = 0; j < k; j++) prefix[j + 1] = (prefix[j] as number) + (logF[j * n + q] as number);
+        suffix[k] = 0;
+        for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (logF[j * n + q] as number);
+      }
       for (let i = 0; i < k; i++) {
         if (need[i] === 0) continue;
-        const others = (prefix[i] as number) + (suffix[i + 1] as number);
-        const above = others === 0 ? -Infinity : Math.log(-Math.expm1(others));
+        let above = 0;
+        if (negligible === 0 || (negligible === 1 && i === lone)) {
+          const others = (prefix[i] as number) + (suffix[i + 1] as number);
+          above = others === 0 ? -Infinity : Math.log(-Math.expm1(others));
+        }
         values[i * n + q] = (logF[i * n + q] as number) + above + (logJacobian[q] as number);
       }
     }

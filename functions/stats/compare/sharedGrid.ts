@@ -133,3 +133,42 @@ export function sharedPieces(ds: readonly TabulatedDistribution[], maxGridCells:
   }
   return edges;
 }
+
+/**
+ * Upper bounds of log F and log(1 − F) of every posterior at every edge of a shared grid, from the tables'
+ * panel edges alone (no interpolation, so no panel's node tables are built for them): log F from the panel
+ * edge at or right of the grid's edge, log(1 − F) from the one at or left of it; below a window log F is
+ * at most its value at the window's left edge (and log(1 − F) at most 0), above it the other way round.
+ * Returned as cdf[e·k + j] and sf[e·k + j]. Cost: O(edges × k) plus one walk over each table's panels.
+ */
+export function tailBoundsAtEdges(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+): { cdf: Float64Array; sf: Float64Array } {
+  const k = ds.length;
+  const cdf = new Float64Array(edges.length * k);
+  const sf = new Float64Array(edges.length * k);
+  for (let j = 0; j < k; j++) {
+    const d = ds[j] as TabulatedDistribution;
+    const left = d.windowLeft;
+    const right = d.windowRight;
+    const last = d.panelCount - 1;
+    let p = 0;
+    for (let e = 0; e < edges.length; e++) {
+      const z = edges[e] as number;
+      let c = 0;
+      let s = 0;
+      if (z <= left) c = d.edgeLogCdf[0] as number;
+      else if (z >= right) s = d.edgeLogSf[last + 1] as number;
+      else {
+        while (p < last && (d.edges[p + 1] as number) <= z) p++;
+        const onEdge = (d.edges[p] as number) === z;
+        c = onEdge ? (d.edgeLogCdf[p] as number) : (d.edgeLogCdf[p + 1] as number);
+        s = d.edgeLogSf[p] as number;
+      }
+      cdf[e * k + j] = c;
+      sf[e * k + j] = s;
+    }
+  }
+  return { cdf, sf };
+}

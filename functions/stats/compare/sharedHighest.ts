@@ -9,7 +9,7 @@ import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
 import { PRUNE } from './integrate';
-import { MAX_GRID_CELLS, sharedPieces } from './sharedGrid';
+import { MAX_GRID_CELLS, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
 
 /** log 1e-18: from the first panel edge where 1 − F falls below this, F is 1 to double precision. */
 const ONE_LOG_TAIL = Math.log(1e-18);
@@ -40,7 +40,7 @@ function cdfOneFrom(d: TabulatedDistribution): number {
  * The raw integrals ∫ f_i Π_{j≠i} F_j dz (before normalising) of posteriors sharing one working
  * coordinate, on the shared grid. Four steps:
  *  1. the grid (sharedPieces) and, at each of its edges, an upper bound of every log F from the tables'
- *     panel edges;
+ *     panel edges (tailBoundsAtEdges);
  *  2. each piece's bound for variant i: the mass of i's panels the piece overlaps times the
  *     others' F at the right edge; a factor is left out of a piece from the point where it is 1 to double
  *     precision on (as the per-variant integrals do);
@@ -62,27 +62,10 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
   // The first index of each distinct table: only those are integrated.
   const firstOf = ds.map((d) => ds.indexOf(d));
 
-  // 1. Upper bounds of log F at the edges from each table's panel edges alone (no interpolation, so no
-  // panel's node tables are built for them): F at the panel edge at or right of the grid's edge, F at the
-  // window's left edge below the window, 1 beyond the point where F is 1 (or the window's right edge).
-  const edgeCdf = new Float64Array(edges.length * k);
+  // 1. Upper bounds of log F at the edges (tailBoundsAtEdges), 0 from the point where F is 1.
+  const edgeCdf = tailBoundsAtEdges(ds, edges).cdf;
   for (let j = 0; j < k; j++) {
-    const d = ds[j] as TabulatedDistribution;
-    const left = d.windowLeft;
-    const right = Math.min(d.windowRight, one[j] as number);
-    const below = d.edgeLogCdf[0] as number;
-    const last = d.panelCount - 1;
-    let p = 0;
-    for (let e = 0; e < edges.length; e++) {
-      const z = edges[e] as number;
-      let v = 0;
-      if (z <= left) v = below;
-      else if (z < right) {
-        while (p < last && (d.edges[p + 1] as number) <= z) p++;
-        v = (d.edges[p] as number) === z ? (d.edgeLogCdf[p] as number) : (d.edgeLogCdf[p + 1] as number);
-      }
-      edgeCdf[e * k + j] = v;
-    }
+    for (let e = 0; e < edges.length; e++) if ((edges[e] as number) >= (one[j] as number)) edgeCdf[e * k + j] = 0;
   }
 
   // 2. Piece bounds: bound[s·k + i] (−Infinity where i is not integrated on s). First, per piece, the sum of
