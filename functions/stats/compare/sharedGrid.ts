@@ -36,7 +36,7 @@ function anchorsOf(lo: number, hi: number): number[] {
  * quarter of the distance d to the nearest anchor beyond. 16 nodes integrate e^z to ~1e-15 on a piece
  * up to 16 wide, and a wider piece lies over 64 from every anchor, where dx/dz is below e^-60 of its
  * largest value, so its error cannot show. (Inside the posteriors' windows the narrowest panel also
- * limits a piece: narrowestPanelAt.) The count of pieces grows with the logarithm of the length: a prior
+ * limits a piece: narrowestPanels.) The count of pieces grows with the logarithm of the length: a prior
  * shape of 1e-12 gives a window ~2e14 long in logit, covered by ~300 pieces instead of 2e14.
  */
 function jacobianWidth(anchors: readonly number[], z: number): number {
@@ -96,17 +96,6 @@ function gridTooLarge(k: number, maxGridCells: number): StatsError {
   );
 }
 
-/** Width of the narrowest panel of any posterior at z, at most jacobianWidth there. */
-function narrowestPanelAt(ds: readonly TabulatedDistribution[], anchors: readonly number[], z: number): number {
-  let w = jacobianWidth(anchors, z);
-  for (const d of ds) {
-    if (z < d.windowLeft || z > d.windowRight) continue;
-    const p = d.findPanel(z);
-    w = Math.min(w, (d.edges[p + 1] as number) - (d.edges[p] as number));
-  }
-  return w;
-}
-
 /**
  * The edges of the shared grid: neighbouring pieces of the union of edges merged while the merged piece
  * stays no wider than the narrowest panel of any posterior at its ends and middle (each table's
@@ -115,23 +104,81 @@ function narrowestPanelAt(ds: readonly TabulatedDistribution[], anchors: readonl
  */
 export function sharedPieces(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
   const { union, anchors } = unionOfEdges(ds, maxGridCells);
-  const localWidth = (z: number): number => narrowestPanelAt(ds, anchors, z);
+  const { atPoint, inInterval } = narrowestPanels(ds, union);
+  // The narrowest panel there (or the Jacobian's limit) at a union point (by index) and at a point between
+  // two (its interval found by bisection).
+  const widthAtPoint = (i: number): number =>
+    Math.min(jacobianWidth(anchors, union[i] as number), atPoint[i] as number);
+  const widthBetween = (lo: number, hi: number, z: number): number => {
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if ((union[mid] as number) <= z) lo = mid;
+      else hi = mid;
+    }
+    const width = (union[lo] as number) === z ? (atPoint[lo] as number) : (inInterval[lo] as number);
+    return Math.min(jacobianWidth(anchors, z), width);
+  };
   const edges: number[] = [union[0] as number];
-  let a = union[0] as number;
+  let start = 0;
   let next = 1;
   while (next < union.length) {
+    const a = union[start] as number;
     let m = next;
-    const limitAtA = localWidth(a);
+    const limitAtA = widthAtPoint(start);
     while (m + 1 < union.length) {
       const e = union[m + 1] as number;
-      if (e - a > limitAtA || e - a > Math.min(localWidth(e), localWidth((a + e) / 2))) break;
+      if (e - a > limitAtA || e - a > Math.min(widthAtPoint(m + 1), widthBetween(start, m + 1, (a + e) / 2))) break;
       m += 1;
     }
-    a = union[m] as number;
-    edges.push(a);
+    start = m;
+    edges.push(union[m] as number);
     next = m + 1;
   }
   return edges;
+}
+
+/**
+ * The width of the narrowest panel, over the posteriors whose window holds it, at each union point
+ * (atPoint[i]; sharedPieces adds the Jacobian's limit, jacobianWidth) and inside each interval between two
+ * (inInterval[i], read at its middle: no panel edge lies strictly inside an interval, so the same panels
+ * hold all of it). One walk over each posterior's panels: O(union × k) instead of a search per point.
+ */
+function narrowestPanels(
+  ds: readonly TabulatedDistribution[],
+  union: readonly number[],
+): { atPoint: Float64Array; inInterval: Float64Array } {
+  const m = union.length;
+  const atPoint = new Float64Array(m).fill(Infinity);
+  const inInterval = new Float64Array(m).fill(Infinity);
+  for (const d of ds) {
+    const left = d.windowLeft;
+    const right = d.windowRight;
+    const last = d.panelCount - 1;
+    let lo = 0;
+    let hi = m;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if ((union[mid] as number) < left) lo = mid + 1;
+      else hi = mid;
+    }
+    let p = 0;
+    for (let i = lo; i < m; i++) {
+      const z = union[i] as number;
+      if (z > right) break;
+      while (p < last && (d.edges[p + 1] as number) <= z) p++;
+      const w = (d.edges[p + 1] as number) - (d.edges[p] as number);
+      if (w < (atPoint[i] as number)) atPoint[i] = w;
+      const after = union[i + 1];
+      if (after !== undefined && after <= right) {
+        const middle = (z + after) / 2;
+        let q = p;
+        while (q < last && (d.edges[q + 1] as number) <= middle) q++;
+        const wm = (d.edges[q + 1] as number) - (d.edges[q] as number);
+        if (wm < (inInterval[i] as number)) inInterval[i] = wm;
+      }
+    }
+  }
+  return { atPoint, inInterval };
 }
 
 /**
@@ -171,4 +218,17 @@ export function tailBoundsAtEdges(
     }
   }
   return { cdf, sf };
+}
+
+/** log 1e-18: from the first panel edge where 1 − F falls below this, F is 1 to double precision. */
+const ONE_LOG_TAIL = Math.log(1e-18);
+
+/**
+ * The working value from which F is 1 to double precision: the first panel edge where log(1 − F) is
+ * below log 1e-18 (+Infinity when there is none). The per-variant integrals leave such a factor out the
+ * same way (integrate.ts).
+ */
+export function cdfOneFrom(d: TabulatedDistribution): number {
+  for (let e = 0; e < d.edges.length; e++) if ((d.edgeLogSf[e] as number) < ONE_LOG_TAIL) return d.edges[e] as number;
+  return Infinity;
 }

@@ -9,10 +9,7 @@ import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
 import { PRUNE } from './integrate';
-import { MAX_GRID_CELLS, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
-
-/** log 1e-18: from the first panel edge where 1 − F falls below this, F is 1 to double precision. */
-const ONE_LOG_TAIL = Math.log(1e-18);
+import { MAX_GRID_CELLS, cdfOneFrom, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
 
 /**
  * Below this log an integrand's piece cannot show: e^-745 is below the smallest double, so a piece whose
@@ -25,16 +22,6 @@ const SPLIT_SCALE = 3.2;
 
 /** A factor counts as changing on a piece when its log F moves by more than this across it (as integrate.ts). */
 const ACTIVE_CHANGE = 0.01;
-
-/**
- * The working value from which F is 1 to double precision: the first panel edge where log(1 − F) is
- * below log 1e-18 (+Infinity when there is none). The per-variant integrals leave such a factor out the
- * same way (integrate.ts).
- */
-function cdfOneFrom(d: TabulatedDistribution): number {
-  for (let e = 0; e < d.edges.length; e++) if ((d.edgeLogSf[e] as number) < ONE_LOG_TAIL) return d.edges[e] as number;
-  return Infinity;
-}
 
 /**
  * The raw integrals ∫ f_i Π_{j≠i} F_j dz (before normalising) of posteriors sharing one working
