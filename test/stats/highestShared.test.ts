@@ -8,7 +8,7 @@ import { relativeError } from '../helpers/assertions';
  * P(each is highest) of 3–12 conversion variants: the shared-grid path (compare/sharedHighest.ts, taken for
  * three or more posteriors in one coordinate) against the per-variant integrals of compare/ranking.ts
  * (taken when the tables carry no coordinate). Both are checked against mpmath and scipy elsewhere
- * (conversion.test.ts, highestMany.test.ts); here they must agree with each other on random groups.
+ * (conversion.test.ts; highestMany.test.ts at 50 variants); here they must agree with each other on random groups.
  */
 
 type Counts = { conversions: number; visitors: number };
