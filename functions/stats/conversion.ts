@@ -208,7 +208,8 @@ function hdiOf(d: TabulatedDistribution, a: number, b: number, level: number): I
 
 /**
  * Probability that each variant has the highest true rate: ∫ f_i Π_{j≠i} F_j, normalised (sums to 1).
- * Cost: k tabulations and O(k²) one-dimensional integrals. Throws StatsError('invalid_argument') for bad
+ * Cost: k tabulations and O(k × nodes) interpolations on one shared grid (compare/sharedHighest.ts) for 3 or
+ * more variants, two integrals for two. Throws StatsError('invalid_argument') for bad
  * counts or prior, or fewer than 2 / more than 50 variants.
  * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
@@ -350,7 +351,8 @@ export function probLiftAbove(
 /**
  * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
  * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
- * Cost: O(k²) node evaluations on one shared grid for 3 or more variants, two integrals for two
+ * Cost: O(k × nodes) on one shared grid for 3 or more variants (the losses far from 0 as E[max] − mean), two
+ * integrals for two
  * (compare/losses.ts expectedLosses). Errors as probHighest.
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form)

@@ -1,7 +1,8 @@
 /**
  * Comparisons of tabulated posteriors (../quadrature), generic over the model, read top-down:
- *  - ranking.ts     P(X > Y) and P(each is highest);
+ *  - ranking.ts     P(X > Y) and P(each is highest) (sharedHighest.ts for 3+ posteriors in one coordinate);
  *  - losses.ts      expected losses (pruned integrals, or one grid shared by 3+ posteriors);
+ *  - sharedGrid.ts  the grid those shared-coordinate integrals use;
  *  - difference.ts  the distribution of Y − X: tails, density, quantiles;
  *  - ratio.ts       the distribution of Y/X − 1: tails, density, quantiles (X > 0), and the quantiles
  *                   when X and Y may take either sign;
