@@ -502,6 +502,16 @@ function noChartRange(
   );
 }
 
+/**
+ * Whether a posterior's middle half (its quartiles) is narrower than 1e-12 of its size, i.e. one number for
+ * a chart. Cost: two quantiles.
+ */
+function middleHalfPinned(d: TabulatedDistribution): boolean {
+  const q25 = d.quantile(0.25);
+  const q75 = d.quantileUpper(0.25);
+  return !(q75 - q25 > 1e-12 * Math.max(Math.abs(q25), Math.abs(q75)));
+}
+
 /** The quantiles of each challenger's lift a chart's grid is chosen from (see liftChartRange). */
 const LIFT_CHART_QUANTILES = [0.01, 0.25, 0.75, 0.99] as const;
 /** How many interquartile ranges beyond the quartiles a lift chart's grid may reach. */
@@ -543,7 +553,14 @@ export function liftDensityTable(
     }
     return q;
   };
+  // Both rates pinned to one number (their middle halves narrower than 1e-12 of their size: rates that are
+  // 1 to double precision under a prior of 0.001): the lift's middle half is one number too, answered before
+  // its quantiles are solved for (those solves cannot converge there and would run past the work budget).
+  const controlPinned = middleHalfPinned(control);
   const charts = challengers.map((d, i) => {
+    if (controlPinned && middleHalfPinned(d)) {
+      throw noChartRange('narrow', prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
+    }
     const chart = chartRange(d, control, controlQuantile);
     if (typeof chart.range === 'string') {
       throw noChartRange(chart.range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);

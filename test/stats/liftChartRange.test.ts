@@ -97,6 +97,18 @@ describe('LIFT_DENSITY grid ends against scipy lift quantiles (lift_chart_range.
     );
   });
 
+  it('answers the same for 46 all-converted variants at once, before any lift quantile is solved for', () => {
+    // Beta(10.001, 0.001) for every variant: both quartiles of every rate are 1 in doubles, so the check on
+    // the rates' middle halves answers (the lift quantile solves there could not converge; the fuzzer's case).
+    const variants = Array.from({ length: 46 }, () => [10, 10] as [number, number]);
+    const error = notAvailable(variants, 0.001, 0.001);
+    expect(error.code).toBe('not_available');
+    expect(error.message).toBe(
+      'prior_alpha 0.001 and prior_beta 0.001 are too weak for a lift chart: the middle half of the lift of the ' +
+        'challenger (conversions 10, visitors 10) is a single number; use a prior of at least 1 and 1 (the default)',
+    );
+  });
+
   it('draws both of those tables under the default prior, as the messages advise', () => {
     const counts = [
       [0, 1000],
