@@ -194,11 +194,17 @@ describe('visitorsNeeded against scipy (planning_power.json "needed")', () => {
     expect(Math.abs(n / classicOneSided - 1)).toBeLessThan(0.05);
   });
 
-  it('says when the lift is too small to plan for within 1e10 visitors', () => {
-    const error = thrownStatsError(() => visitorsNeeded(0.01, 1e-6));
+  it.each([
+    // the classic size alone is far beyond the ceiling: no evaluation
+    [0.01, 1e-6, 0.95, 0.8],
+    // the classic size (1.08e9) is just beyond it: one evaluation at 1e9 falls short
+    [0.5, 0.00032, 0.9999, 0.9999],
+  ])('says when more than 1E+9 visitors per variant would be needed (baseline %p, lift %p)', (p, lift, t, pw) => {
+    const error = thrownStatsError(() => visitorsNeeded(p, lift, t, pw));
     expect(error.code).toBe('not_available');
     expect(error.message).toBe(
-      'more than 1e10 visitors per variant would be needed to detect a lift of 0.000001 on a rate of 0.01',
+      `more than 1E+9 visitors per variant would be needed to detect a lift of ${lift} on a rate of ${p}; ` +
+        'plan for a larger lift, a lower threshold or a lower power',
     );
   });
 
