@@ -7,6 +7,7 @@ import {
 } from '../../functions/stats/planning';
 import { betaLogDensity } from '../../functions/stats/special/incompleteBeta';
 import classic from '../reference/planning/planning_classic.json';
+import edges from '../reference/planning/planning_edges.json';
 import power from '../reference/planning/planning_power.json';
 import { thrownStatsError } from '../helpers/assertions';
 
@@ -114,6 +115,32 @@ describe('decisionPower against scipy (test/reference/planning/planning_power.py
     (n, p0, lift, t, a, b, c) => {
       const value = decisionPower(p0, lift, n, t, { alpha: a, beta: b });
       expect(Math.abs(value - c.power)).toBeLessThan(1e-10);
+    },
+  );
+});
+
+describe('decisionPower and visitorsNeeded at the edges of the domain (scipy, planning_edges.py)', () => {
+  // The sums of planning_power.py at thresholds below ½ and at 0.9999, priors of 0.001, baselines from 1e-5
+  // to 0.999 and tests of 1 to 1e6 visitors; P(p_B > p_A) by Evan Miller's closed form or scipy quad.
+  it.each(edges.power.map((c) => [c.n, c.baselineRate, c.lift, c.threshold, c.alpha, c.beta, c] as const))(
+    'n = %p, baseline %p, lift %p, threshold %p, prior Beta(%p, %p)',
+    (n, p0, lift, t, a, b, c) => {
+      const value = decisionPower(p0, lift, n, t, { alpha: a, beta: b });
+      expect(Math.abs(value - c.power)).toBeLessThan(1e-10);
+    },
+  );
+
+  it.each(edges.needed.map((c) => [c.baselineRate, c.lift, c.threshold, c.power, c.alpha, c.beta, c] as const))(
+    "visitorsNeeded(%p, %p, %p, %p), prior Beta(%p, %p), is a crossing in scipy's decision powers",
+    (p0, lift, t, target, a, b, c) => {
+      const n = visitorsNeeded(p0, lift, t, target, { alpha: a, beta: b });
+      const at = (m: number): number => {
+        const index = c.window.indexOf(m);
+        expect(index).toBeGreaterThanOrEqual(0);
+        return c.powers[index] as number;
+      };
+      expect(at(n)).toBeGreaterThanOrEqual(target);
+      expect(at(n - 1)).toBeLessThan(target);
     },
   );
 });
