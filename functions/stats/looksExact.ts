@@ -216,6 +216,14 @@ export function exactCrossing(
   let kept = 0; // state values the memo holds
   for (let k = 0; k < start; k++) kept += ((memo as CrossingMemo).states[k] as Float64Array).length;
   const scratch = new Scratch();
+  if (memo !== undefined) {
+    // The memo's states from `start` on are replaced by this run: their arrays are reused for it.
+    for (let k = start; k < memo.states.length; k++) {
+      const replaced = memo.states[k];
+      if (replaced !== undefined) scratch.release(replaced);
+      memo.states[k] = undefined;
+    }
+  }
   let owned = false; // whether `state` is this run's to reuse (not the memo's)
   for (let k = start; k < lattices.length; k++) {
     const look = lattices[k] as LookLattice;
