@@ -151,8 +151,11 @@ interface Plan {
   readonly method: 'exact' | 'normal';
   /** exact: the lattices of every look. */
   readonly lattices?: readonly LookLattice[];
-  /** normal: the windows of each look (B's shared with A under no difference) and B's tails. */
-  readonly windows?: readonly { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array }[];
+  /**
+   * normal: the windows of look k (B's shared with A under no difference) and B's tails; kept for a plan
+   * evaluated many times, made afresh per look for one evaluation (100 looks of 1e9 would hold ~50 MB).
+   */
+  readonly windowsAt?: (k: number) => { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array };
   /** Cost of one run, in the unit of its budget. */
   readonly runCost: number;
 }
@@ -183,6 +186,7 @@ function makePlan(
   what: string,
   method: LooksMethod = 'auto',
   walkBudget = WALK_BUDGET,
+  keepWindows = false,
 ): Plan {
   const work = exactWork(looks, pA, pB);
   const exactFits = work.perRun + LATTICE_WEIGHT * work.setup <= exactBudget(looks.length);
@@ -197,7 +201,7 @@ function makePlan(
       runCost: work.perRun,
     };
   }
-  return normalPlan(looks, pA, pB, prior, what, walkBudget);
+  return normalPlan(looks, pA, pB, prior, what, walkBudget, keepWindows);
 }
 
 /** The calibrated normal method's plan (windows of each look); throws when its walks exceed the budget. */
@@ -208,6 +212,7 @@ function normalPlan(
   prior: BetaPrior,
   what: string,
   walkBudget: number,
+  keepWindows = false,
 ): Plan {
   const steps = walkSteps(looks, pA, pB);
   if (steps > walkBudget) {
@@ -218,12 +223,15 @@ function normalPlan(
         'looks or fewer visitors per look',
     );
   }
-  const windows = looks.map((n) => {
+  const make = (n: number): { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array } => {
     const a = binomialWindow(n, pA);
     const b = pB === pA ? a : binomialWindow(n, pB);
     return { a, b, tailsB: upperTails(b) };
-  });
-  return { looks, pA, pB, prior, method: 'normal', windows, runCost: steps };
+  };
+  const kept = keepWindows ? looks.map(make) : undefined;
+  const windowsAt = (k: number): ReturnType<typeof make> =>
+    kept !== undefined ? (kept[k] as ReturnType<typeof make>) : make(looks[k] as number);
+  return { looks, pA, pB, prior, method: 'normal', windowsAt, runCost: steps };
 }
 
 /**
@@ -290,9 +298,9 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
   }
   // Each look alone: the exact decision power there. With two sides and no difference between the
   // variants, declaring the control is as likely as declaring the challenger (the labels can be swapped).
-  const windows = plan.windows as NonNullable<Plan['windows']>;
+  const windowsAt = plan.windowsAt as NonNullable<Plan['windowsAt']>;
   const marginals = plan.looks.map((n, k) => {
-    const w = windows[k] as (typeof windows)[number];
+    const w = windowsAt(k);
     return lookPower(n, w.a, w.b, threshold, plan.prior, w.tailsB);
   });
   const r = calibratedCrossing(plan.looks, marginals, sides);
@@ -412,7 +420,16 @@ export function thresholdForLooksDetails(
   );
   checkSides(sides);
   checkPrior(prior);
-  const plan = makePlan(looks, baselineRate, baselineRate, prior, 'visitors_at_looks', 'auto', THRESHOLD_WALK_BUDGET);
+  const plan = makePlan(
+    looks,
+    baselineRate,
+    baselineRate,
+    prior,
+    'visitors_at_looks',
+    'auto',
+    THRESHOLD_WALK_BUDGET,
+    true,
+  );
   return { ...solveThreshold(plan, falseAlarm, sides), method: plan.method };
 }
 
@@ -490,7 +507,7 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
   if (plan.method === 'exact') {
     // Predict with the calibrated normal method (cheap at these sizes), then correct it by its offset
     // from the exact rate: the offset changes little over a small change of threshold.
-    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity);
+    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity, true);
     const modelAt = (u: number): number => evaluate(model, normalCdf(u), sides).probability;
     const guess = normalLimitGuess(plan.looks, alpha, sides);
     const slope = normalLimitSlope(plan.looks, guess, sides);
