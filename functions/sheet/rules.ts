@@ -10,7 +10,9 @@ import {
   MAX_EXPOSURE,
   MAX_LEVEL,
   MAX_MEAN_SIZE,
+  MAX_PLANNED_VISITORS,
   MAX_POINTS,
+  MAX_POWER_VISITORS,
   MAX_PRIOR,
   MAX_PRIOR_RATE,
   MAX_SD,
@@ -354,11 +356,12 @@ export const LIFT = {
   max: 1,
   fraction: 'lift',
 } as const satisfies NumberRule;
-/** `visitors_per_variant`: whole number ≥ 1. */
+/** `visitors_per_variant` of DECISION_POWER: whole number 1 … 1e10 (stats/limits.ts MAX_POWER_VISITORS). */
 export const VISITORS_PER_VARIANT = {
   name: 'visitors_per_variant',
   kind: 'count',
   min: 1,
+  max: MAX_POWER_VISITORS,
 } as const satisfies NumberRule;
 /** `threshold` of the Bayesian planners: 0.01 to 0.9999, default 0.95. */
 export const THRESHOLD = { name: 'threshold', ...LEVEL_BOUNDS, default: 0.95 } as const satisfies NumberRule;
@@ -379,12 +382,12 @@ export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 
 // Planning with looks, many variants, a fixed budget and day-by-day tables (issue #14). The bounds are
 // the statistics core's declared domain (functions/stats/looks.ts, manyVariants.ts, detectableLift.ts, byDay.ts).
 
-/** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9. */
+/** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9 (stats/limits.ts MAX_PLANNED_VISITORS). */
 export const LIFT_VISITORS = {
   name: 'visitors_per_variant',
   kind: 'count',
   min: 1,
-  max: 1e9,
+  max: MAX_PLANNED_VISITORS,
 } as const satisfies NumberRule;
 /** `threshold` where a declaration needs P(beats control) above ½: in (0.5, 0.999999], default 0.95. */
 export const DECLARE_THRESHOLD = {
@@ -399,7 +402,7 @@ export const VISITORS_AT_LOOKS = {
   name: 'visitors_at_looks',
   kind: 'count',
   min: 1,
-  max: 1e9,
+  max: MAX_PLANNED_VISITORS,
 } as const satisfies NumberRule;
 /** `sides` of the look planners: 1 or 2, default 1 (only the challenger is declared). */
 export const LOOK_SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 1 } as const satisfies NumberRule;
