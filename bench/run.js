@@ -623,7 +623,7 @@ section('addin', () => {
       ['read-out of 1,000 experiments × 8 functions through dist/functions.js', mark(t, 2000), '≤ 2 s'],
       ['the same, one function at a time over all 1,000 (few table-memo hits)', fmtMs(tColumns), ''],
       ['memory kept afterwards (the table memo, budget 400,000 nodes)', `${(kept / 1e6).toFixed(1)} MB`, ''],
-      ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 150 * 1024 ? ' ✓' : ' ✗'}`, '≤ 150 KB'],
+      ['dist/functions.js (minified)', `${(size / 1024).toFixed(1)} KB${size <= 200 * 1024 ? ' ✓' : ' ✗'}`, '≤ 200 KB'],
       ['dist/functions.js (gzip)', `${(gz / 1024).toFixed(1)} KB`, ''],
     ],
   );

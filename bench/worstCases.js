@@ -105,6 +105,13 @@ function fewOrders(k) {
   return { orders: col(orders), visitors: col(visitors), revenue: col(revenue) };
 }
 
+/** k whole numbers from a to b, evenly spaced (rounded): the cumulative visitors of a look list. */
+const spaced = (k, a, b) => col(Array.from({ length: k }, (_, i) => Math.round(a + ((b - a) * i) / (k - 1))));
+/** 100 looks one visitor apart (the exact method's largest lattices, a state array per look). */
+const LOOKS_BY_ONE = spaced(100, 2101, 2200);
+/** 100 looks from 50 to 5000 (the exact method's most convolution work at 100 looks). */
+const LOOKS_TO_5000 = spaced(100, 50, 5000);
+
 const U50 = uneven(50);
 const C50 = close(50);
 const M50 = unevenMeans(50);
@@ -264,6 +271,58 @@ const CASES = [
   ['DECISION_POWER(0.5,0.01,1E9,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e9, 0.9999], true],
   ['DECISION_POWER(0.5,0.01,1E10,0.9999)', 'DECISION_POWER', [0.5, 0.01, 1e10, 0.9999], true],
   ['PRIOR_FROM_HISTORY, 50 uneven rows', 'PRIOR_FROM_HISTORY', [U50.conversions, U50.visitors], true],
+  // Planning at the edges of its domain (issue #10): the visitors ceiling of VISITORS_NEEDED (1E+9 per
+  // variant), DECISION_POWER at its 1E+10 with the weakest prior, the smallest detectable lift at 1E+9 and
+  // the largest thresholds, and the look planners at their largest look lists and visitors.
+  [
+    'VISITORS_NEEDED(0.5,0.00034,0.9999,0.9999) (just under 1E+9)',
+    'VISITORS_NEEDED',
+    [0.5, 0.00034, 0.9999, 0.9999],
+    true,
+  ],
+  [
+    'VISITORS_NEEDED(0.5,0.00032,0.9999,0.9999) (over 1E+9: #N/A)',
+    'VISITORS_NEEDED',
+    [0.5, 0.00032, 0.9999, 0.9999],
+    true,
+  ],
+  [
+    'DECISION_POWER(0.5,0.0001,1E10,0.9999,0.001,0.001)',
+    'DECISION_POWER',
+    [0.5, 0.0001, 1e10, 0.9999, 0.001, 0.001],
+    true,
+  ],
+  ['SMALLEST_DETECTABLE_LIFT(0.5,1E9,0.9999,0.9999)', 'SMALLEST_DETECTABLE_LIFT', [0.5, 1e9, 0.9999, 0.9999], true],
+  [
+    'SMALLEST_DETECTABLE_LIFT(0.5,1E9,0.999999,0.9999,0.001,0.001)',
+    'SMALLEST_DETECTABLE_LIFT',
+    [0.5, 1e9, 0.999999, 0.9999, 0.001, 0.001],
+    true,
+  ],
+  ['FALSE_ALARM_WITH_LOOKS(0.5, 100 looks 2101…2200)', 'FALSE_ALARM_WITH_LOOKS', [0.5, LOOKS_BY_ONE], true],
+  ['POWER_WITH_LOOKS(0.5,0.01, 100 looks 2101…2200)', 'POWER_WITH_LOOKS', [0.5, 0.01, LOOKS_BY_ONE], true],
+  ['THRESHOLD_FOR_LOOKS(0.5, 100 looks 2101…2200)', 'THRESHOLD_FOR_LOOKS', [0.5, LOOKS_BY_ONE], true],
+  ['THRESHOLD_FOR_LOOKS(0.5, 100 looks 2101…2200, 0.05, 2)', 'THRESHOLD_FOR_LOOKS', [0.5, LOOKS_BY_ONE, 0.05, 2], true],
+  ['FALSE_ALARM_WITH_LOOKS(0.05, 100 looks 50…5000)', 'FALSE_ALARM_WITH_LOOKS', [0.05, LOOKS_TO_5000], true],
+  [
+    'THRESHOLD_FOR_LOOKS(0.05, 100 looks 50…5000, 0.05, 2)',
+    'THRESHOLD_FOR_LOOKS',
+    [0.05, LOOKS_TO_5000, 0.05, 2],
+    true,
+  ],
+  [
+    'FALSE_ALARM_WITH_LOOKS(0.5, {1E8;…;9E8}, 0.95, 2)',
+    'FALSE_ALARM_WITH_LOOKS',
+    [0.5, spaced(9, 1e8, 9e8), 0.95, 2],
+    true,
+  ],
+  ['POWER_WITH_LOOKS(0.5,0.0001, {1E8;…;9E8})', 'POWER_WITH_LOOKS', [0.5, 0.0001, spaced(9, 1e8, 9e8)], true],
+  [
+    'THRESHOLD_FOR_LOOKS(0.5, {3E8;6E8;9E8}, 0.05, 2)',
+    'THRESHOLD_FOR_LOOKS',
+    [0.5, spaced(3, 3e8, 9e8), 0.05, 2],
+    true,
+  ],
   ...revenueRows,
 ];
 
@@ -293,9 +352,13 @@ function outcome(r) {
   return r.cells !== undefined ? `${text} (${r.cells} cells)` : text;
 }
 
-/** The table's rows: formula, domain, CPU time, its target, memory, its target, what the cell shows. */
+/**
+ * The table's rows: formula, domain, CPU time, its target, memory, its target, what the cell shows. With
+ * WORST_ONLY=text in the environment, only the cases whose label contains that text (e.g. LOOKS).
+ */
 function worstCaseRows(fmtMs) {
-  return CASES.map((c) => {
+  const only = process.env.WORST_ONLY;
+  return CASES.filter((c) => !only || c[0].includes(only)).map((c) => {
     const r = runCase(c);
     const inDomain = c[3];
     const target = inDomain ? 250 : 1000;

@@ -218,8 +218,10 @@ export function describeParam(p: Param, fn: FunctionEntry): string {
       const most = p.rule.atMost === undefined ? '' : `, at most the same variant's ${p.rule.atMost}`;
       return `${shape}; each ${describeAllowed(p.rule)}${most}`;
     }
-    case 'aligned':
-      return `${shape}; ${p.rule === undefined ? 'any text or numbers' : `each ${describeAllowed(p.rule)}`}; optional`;
+    case 'aligned': {
+      const also = p.rule?.also === undefined ? '' : `, ${p.rule.also}`;
+      return `${shape}; ${p.rule === undefined ? 'any text or numbers' : `each ${describeAllowed(p.rule)}${also}`}; optional`;
+    }
     case 'choice':
       return `${p.rule.choices.map((c) => `"${c}"`).join(' or ')}; default "${p.rule.default}"`;
     case 'list': {

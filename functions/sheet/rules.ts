@@ -10,7 +10,9 @@ import {
   MAX_EXPOSURE,
   MAX_LEVEL,
   MAX_MEAN_SIZE,
+  MAX_PLANNED_VISITORS,
   MAX_POINTS,
+  MAX_POWER_VISITORS,
   MAX_PRIOR,
   MAX_PRIOR_RATE,
   MAX_SD,
@@ -22,6 +24,7 @@ import {
   MIN_POINTS,
   MIN_PRIOR,
   MIN_SD,
+  MIN_ORDER_SD_SHARE,
 } from '../stats/limits';
 import { ArgumentProblem, classifyCell } from './cells';
 
@@ -53,6 +56,11 @@ export interface NumberRule {
    * out-of-bounds value that looks like a whole percentage (2 to 100 in size) gets a hint in the message.
    */
   readonly fraction?: 'rate' | 'lift';
+  /**
+   * A further condition the model checks against other arguments (not this rule), in words for the help page
+   * and the README's argument table, e.g. `order_sd`'s floor relative to the average order value.
+   */
+  readonly also?: string;
 }
 
 /** A text argument that must be one of a few words (case-insensitive). */
@@ -249,13 +257,17 @@ export const EXPOSURE = {
 export const ORDERS = { name: 'orders', kind: 'count', min: 0, atMost: 'visitors' } as const satisfies NumberRule;
 /** `revenue`: a variant's total revenue, from 0 to 1e12 in the user's currency (stats/limits.ts MAX_MEAN_SIZE). */
 export const REVENUE = { name: 'revenue', kind: 'real', min: 0, max: MAX_MEAN_SIZE } as const satisfies NumberRule;
-/** `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`). */
+/**
+ * `order_sd`: the standard deviation of one variant's order values (STDEV.S): 0, or from 1e-6 to 1e12 (as `sd`),
+ * and when not 0 at least MIN_ORDER_SD_SHARE of the variant's average order value (checked by the revenue model).
+ */
 export const ORDER_SD = {
   name: 'order_sd',
   kind: 'real',
   min: MIN_SD,
   max: MAX_SD,
   orZero: true,
+  also: `when not 0, at least ${MIN_ORDER_SD_SHARE * 100}% of the same variant's revenue/orders`,
 } as const satisfies NumberRule;
 
 /** Levels, thresholds and power: from 0.01 to 0.9999 (stats/limits.ts MIN_LEVEL, MAX_LEVEL). */
@@ -344,11 +356,12 @@ export const LIFT = {
   max: 1,
   fraction: 'lift',
 } as const satisfies NumberRule;
-/** `visitors_per_variant`: whole number ≥ 1. */
+/** `visitors_per_variant` of DECISION_POWER: whole number 1 … 1e10 (stats/limits.ts MAX_POWER_VISITORS). */
 export const VISITORS_PER_VARIANT = {
   name: 'visitors_per_variant',
   kind: 'count',
   min: 1,
+  max: MAX_POWER_VISITORS,
 } as const satisfies NumberRule;
 /** `threshold` of the Bayesian planners: 0.01 to 0.9999, default 0.95. */
 export const THRESHOLD = { name: 'threshold', ...LEVEL_BOUNDS, default: 0.95 } as const satisfies NumberRule;
@@ -369,12 +382,12 @@ export const SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 2 
 // Planning with looks, many variants, a fixed budget and day-by-day tables (issue #14). The bounds are
 // the statistics core's declared domain (functions/stats/looks.ts, manyVariants.ts, detectableLift.ts, byDay.ts).
 
-/** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9. */
+/** `visitors_per_variant` of SMALLEST_DETECTABLE_LIFT: whole number 1 … 1e9 (stats/limits.ts MAX_PLANNED_VISITORS). */
 export const LIFT_VISITORS = {
   name: 'visitors_per_variant',
   kind: 'count',
   min: 1,
-  max: 1e9,
+  max: MAX_PLANNED_VISITORS,
 } as const satisfies NumberRule;
 /** `threshold` where a declaration needs P(beats control) above ½: in (0.5, 0.999999], default 0.95. */
 export const DECLARE_THRESHOLD = {
@@ -389,7 +402,7 @@ export const VISITORS_AT_LOOKS = {
   name: 'visitors_at_looks',
   kind: 'count',
   min: 1,
-  max: 1e9,
+  max: MAX_PLANNED_VISITORS,
 } as const satisfies NumberRule;
 /** `sides` of the look planners: 1 or 2, default 1 (only the challenger is declared). */
 export const LOOK_SIDES = { name: 'sides', kind: 'count', min: 1, max: 2, default: 1 } as const satisfies NumberRule;

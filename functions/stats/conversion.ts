@@ -19,10 +19,12 @@ import {
   expectedLosses,
   highestProbabilities,
   probabilityGreater,
-  ratioDensity,
+  ratioChartQuantiles,
+  ratioDensityGrid,
   ratioQuantile,
   ratioSf,
 } from './compare';
+import type { LogDensityPiece, QuantileOf } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
@@ -206,7 +208,8 @@ function hdiOf(d: TabulatedDistribution, a: number, b: number, level: number): I
 
 /**
  * Probability that each variant has the highest true rate: ∫ f_i Π_{j≠i} F_j, normalised (sums to 1).
- * Cost: k tabulations and O(k²) one-dimensional integrals. Throws StatsError('invalid_argument') for bad
+ * Cost: k tabulations and O(k × nodes) interpolations on one shared grid (compare/sharedHighest.ts) for 3 or
+ * more variants, two integrals for two. Throws StatsError('invalid_argument') for bad
  * counts or prior, or fewer than 2 / more than 50 variants.
  * @example probHighest([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
@@ -348,7 +351,8 @@ export function probLiftAbove(
 /**
  * Expected loss of each variant: E[max over variants of the rate − this variant's rate], the rate given
  * up on average by choosing it (C. Stucchio, "Bayesian A/B Testing at VWO", 2015, defines this loss).
- * Cost: O(k²) node evaluations on one shared grid for 3 or more variants, two integrals for two
+ * Cost: O(k × nodes) on one shared grid for 3 or more variants (the losses far from 0 as E[max] − mean), two
+ * integrals for two
  * (compare/losses.ts expectedLosses). Errors as probHighest.
  * @example expectedLoss([{ conversions: 3, visitors: 10 }, { conversions: 5, visitors: 10 }], UNIFORM_PRIOR)
  * //=> [0.18772154170592…, 0.02105487503926…] (Stucchio 2015's closed form)
@@ -440,27 +444,72 @@ export function posteriorDensityTable(
  * within three interquartile ranges of the nearer quartile (Tukey's "far out" fences, common practice for
  * telling a long tail from the body). A lift over a control with no conversions is heavy-tailed (its
  * 99.9% quantile can be 1e4 times its median), and a grid out to its 99% quantile would show one spike.
- * Cost: four lift quantiles. Throws StatsError('not_available') when the range is not finite (a prior so
- * weak that the control's rate may lie below 1e-300).
+ * Cost: four lift quantiles. Returns 'wide' when the range is not finite (a prior so weak that the
+ * control's rate may lie below 1e-300) and 'narrow' when it is empty (the middle half of the lift is one
+ * number: rates that are 1 or 0 to double precision under a prior that weak).
  */
-export function liftChartRange(challenger: TabulatedDistribution, control: TabulatedDistribution): [number, number] {
-  const [q01, q25, q75, q99] = LIFT_CHART_QUANTILES.map((p) => ratioQuantile(challenger, control, p)) as [
-    number,
-    number,
-    number,
-    number,
-  ];
+function chartRange(
+  challenger: TabulatedDistribution,
+  control: TabulatedDistribution,
+  controlQuantile?: QuantileOf,
+): { range: [number, number] | 'wide' | 'narrow'; piece: LogDensityPiece | undefined } {
+  const { quantiles, piece } = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES, controlQuantile);
+  const [q01, q25, q75, q99] = quantiles as [number, number, number, number];
   const spread = q75 - q25;
   const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
   const hi = Math.min(q99, q75 + LIFT_CHART_FENCE * spread);
-  if (!(Number.isFinite(lo) && Number.isFinite(hi) && hi > lo)) {
-    throw new StatsError(
+  if (!(Number.isFinite(lo) && Number.isFinite(hi))) return { range: 'wide', piece };
+  return { range: hi > lo ? [lo, hi] : 'narrow', piece };
+}
+
+/**
+ * The chart range of chartRange above. Throws StatsError('not_available') when there is none.
+ * @example liftChartRange(tabulate(betaWorkingDensity(1, 1)), tabulate(betaWorkingDensity(1, 1)))[0]
+ * //=> -0.97999999999999… (the 1% quantile of Y/X − 1 for two uniforms: P(Y/X ≤ t) = t/2)
+ */
+export function liftChartRange(challenger: TabulatedDistribution, control: TabulatedDistribution): [number, number] {
+  const { range } = chartRange(challenger, control);
+  if (typeof range === 'string') {
+    throw new StatsError('not_available', `the lift has no chart range: it is spread too ${range}ly`);
+  }
+  return range;
+}
+
+/**
+ * Why a challenger's lift has no chart range, in the sheet's words: the prior argument to change, its
+ * value, the counts concerned (named by their counts: blank rows make the sheet's and the core's variant
+ * numbers differ) and what helps.
+ */
+function noChartRange(
+  why: 'wide' | 'narrow',
+  prior: BetaPrior,
+  control: ConversionCounts,
+  challenger: ConversionCounts,
+): StatsError {
+  const counts = (v: ConversionCounts) => `conversions ${v.conversions}, visitors ${v.visitors}`;
+  if (why === 'wide') {
+    return new StatsError(
       'not_available',
-      "the lift is spread too widely for a chart table (the prior is so weak that the control's rate could " +
-        'be almost zero); use a stronger prior, such as 1 and 1',
+      `prior_alpha ${prior.alpha} is too weak for a lift chart: the control (${counts(control)}) could have a ` +
+        'rate of almost 0, so the lift has no finite range; use a prior_alpha of at least 1 (the default is 1)',
     );
   }
-  return [lo, hi];
+  return new StatsError(
+    'not_available',
+    `prior_alpha ${prior.alpha} and prior_beta ${prior.beta} are too weak for a lift chart: the middle half of ` +
+      `the lift of the challenger (${counts(challenger)}) is a single number; use a prior of at least 1 ` +
+      'and 1 (the default)',
+  );
+}
+
+/**
+ * Whether a posterior's middle half (its quartiles) is narrower than 1e-12 of its size, i.e. one number for
+ * a chart. Cost: two quantiles.
+ */
+function middleHalfPinned(d: TabulatedDistribution): boolean {
+  const q25 = d.quantile(0.25);
+  const q75 = d.quantileUpper(0.25);
+  return !(q75 - q25 > 1e-12 * Math.max(Math.abs(q25), Math.abs(q75)));
 }
 
 /** The quantiles of each challenger's lift a chart's grid is chosen from (see liftChartRange). */
@@ -472,10 +521,12 @@ const LIFT_CHART_FENCE = 3;
  * A table for a chart of the posterior densities of each challenger's relative lift over the control:
  * `points` lifts evenly spread from the lowest to the highest end of the challengers' chart ranges
  * (liftChartRange: the 1%–99% lift quantiles, kept within three interquartile ranges of the quartiles),
- * and each challenger's lift density there (ratio density, compare/ratio.ts).
- * Cost: 4 (k − 1) quantiles and (k − 1) × points ≤ 5,000 one-dimensional integrals. Errors as
- * posteriorDensityTable, and 2 … 50 variants, StatsError('invalid_argument') for more than 5,000 density
- * values (limits.ts checkLiftDensityCells); StatsError('not_available') as liftChartRange.
+ * and each challenger's lift density there (compare/ratioGrid.ts: exact ratio densities, interpolated
+ * between them in log(1 + lift) where checked to be as accurate).
+ * Cost: 4 (k − 1) quantiles and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
+ * integrals (typically 16 a challenger at thousands of visitors). Errors as posteriorDensityTable, and 2 … 50 variants,
+ * StatsError('invalid_argument') for more than 5,000 density values (limits.ts checkLiftDensityCells);
+ * StatsError('not_available') naming prior_alpha (and prior_beta) when a lift has no chart range.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
  */
 export function liftDensityTable(
@@ -491,9 +542,36 @@ export function liftDensityTable(
   const ds = posteriors(variants, prior, tables);
   const control = ds[0] as TabulatedDistribution;
   const challengers = ds.slice(1);
-  const ranges = challengers.map((d) => liftChartRange(d, control));
-  const lo = Math.min(...ranges.map((r) => r[0]));
-  const hi = Math.max(...ranges.map((r) => r[1]));
+  // The control's marginal quantiles the quantile starts use are the same for every challenger.
+  const remembered = new Map<string, number>();
+  const controlQuantile = (p: number, upper: boolean): number => {
+    const key = `${upper ? 'upper' : 'lower'} ${p}`;
+    let q = remembered.get(key);
+    if (q === undefined) {
+      q = upper ? control.quantileUpper(p) : control.quantile(p);
+      remembered.set(key, q);
+    }
+    return q;
+  };
+  // Both rates pinned to one number (their middle halves narrower than 1e-12 of their size: rates that are
+  // 1 to double precision under a prior of 0.001): the lift's middle half is one number too, answered before
+  // its quantiles are solved for (those solves cannot converge there and would run past the work budget).
+  const controlPinned = middleHalfPinned(control);
+  const charts = challengers.map((d, i) => {
+    if (controlPinned && middleHalfPinned(d)) {
+      throw noChartRange('narrow', prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
+    }
+    const chart = chartRange(d, control, controlQuantile);
+    if (typeof chart.range === 'string') {
+      throw noChartRange(chart.range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
+    }
+    return { range: chart.range, piece: chart.piece };
+  });
+  const lo = Math.min(...charts.map((c) => c.range[0]));
+  const hi = Math.max(...charts.map((c) => c.range[1]));
   const grid = evenGrid(lo, hi, points);
-  return { grid, densities: challengers.map((d) => grid.map((m) => (m > -1 ? ratioDensity(d, control, m) : 0))) };
+  return {
+    grid,
+    densities: challengers.map((d, i) => ratioDensityGrid(d, control, grid, charts[i]?.piece).densities),
+  };
 }

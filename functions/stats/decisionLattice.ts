@@ -51,9 +51,12 @@ export function binomialWindow(n: number, p: number, cutoff = WINDOW_CUTOFF): Bi
   const peak = Math.exp(logPmf(mode));
   const floor = peak * cutoff;
   // Each side fits in 9 standard deviations plus 40 counts (a Poisson(1) pmf is below 1e-16 of its peak
-  // from 19 on); the buffers grow if a side is ever longer.
-  let room = Math.min(n + 1, Math.ceil(9 * Math.sqrt(n * p * (1 - p))) + 40);
-  let above: Float64Array = new Float64Array(room);
+  // from 19 on): one buffer holds both sides around the peak at `room`, so the window is a view of it with no
+  // copy (a second buffer is made only if a side is ever longer).
+  const room = Math.min(n + 1, Math.ceil(9 * Math.sqrt(n * p * (1 - p))) + 40);
+  let buffer: Float64Array = new Float64Array(2 * room + 1);
+  let centre = room;
+  buffer[centre] = peak;
   let countAbove = 0;
   let v = peak;
   let k = mode;
@@ -64,11 +67,10 @@ export function binomialWindow(n: number, p: number, cutoff = WINDOW_CUTOFF): Bi
       v = Math.exp(logPmf(k + 1));
     } else v *= ((n - k) * odds) / (k + 1); // the ratio is off the chain of v: divisions overlap
     if (v < floor) break;
-    if (countAbove === above.length) above = grown(above);
-    above[countAbove++] = v;
+    if (centre + countAbove + 1 === buffer.length) buffer = widened(buffer, centre, centre + countAbove, 0);
+    buffer[centre + ++countAbove] = v;
     k++;
   }
-  let below: Float64Array = new Float64Array(room);
   let countBelow = 0;
   v = peak;
   k = mode;
@@ -79,22 +81,26 @@ export function binomialWindow(n: number, p: number, cutoff = WINDOW_CUTOFF): Bi
       v = Math.exp(logPmf(k - 1));
     } else v *= k / ((n - k + 1) * odds);
     if (v < floor) break;
-    if (countBelow === below.length) below = grown(below);
-    below[countBelow++] = v;
+    if (countBelow === centre) {
+      const extra = centre + 16;
+      buffer = widened(buffer, centre - countBelow, centre + countAbove, extra);
+      centre += extra;
+    }
+    buffer[centre - ++countBelow] = v;
     k--;
   }
-  room = countBelow + 1 + countAbove;
-  const pmf = new Float64Array(room);
-  for (let i = 0; i < countBelow; i++) pmf[countBelow - 1 - i] = below[i] as number;
-  pmf[countBelow] = peak;
-  for (let i = 0; i < countAbove; i++) pmf[countBelow + 1 + i] = above[i] as number;
   const lo = mode - countBelow;
-  return { lo, hi: lo + room - 1, pmf };
+  const pmf = buffer.subarray(centre - countBelow, centre + countAbove + 1);
+  return { lo, hi: lo + pmf.length - 1, pmf };
 }
 
-function grown(values: Float64Array): Float64Array {
+/**
+ * A copy of values[from … to] into a buffer twice as long, `before` places further from its start (room for
+ * more values below when before > 0, above otherwise).
+ */
+function widened(values: Float64Array, from: number, to: number, before: number): Float64Array {
   const next = new Float64Array(2 * values.length + 16);
-  next.set(values);
+  next.set(values.subarray(from, to + 1), from + before);
   return next;
 }
 
@@ -269,12 +275,57 @@ export function probAboveOnLattice(n: number, xA: number, xB: number, prior: Bet
 }
 
 /**
+ * The boundary of a decision on one look's windows: for each count x_A of windowA (row x_A − windowA.lo), the
+ * first count x_B at which P(B beats A) reaches `level` (P ≥ level, or P > level when `strict`), as a
+ * column of windowB: 0 when it is reached at windowB.lo or below, the window's width when not within it.
+ * The boundary never falls as x_A rises, so it is one walk: from the diagonal of the first row, where P = ½
+ * exactly (down from it for a level below ½, but not below B's window), then one row and as many columns
+ * up as needed at a time. Any level in (0, 1).
+ * Cost: O(rows + columns + distance of the first row's boundary from its diagonal) steps of the cursor.
+ * @example boundaryColumns(10, binomialWindow(10, 0.5), binomialWindow(10, 0.5), 0.95, false, UNIFORM_PRIOR)[5] //=> 9 (x_A = 5 needs x_B = 9: P = 0.9683 there, 0.9087 at 8)
+ */
+export function boundaryColumns(
+  n: number,
+  windowA: BinomialWindow,
+  windowB: BinomialWindow,
+  level: number,
+  strict: boolean,
+  prior: BetaPrior,
+): Int32Array {
+  const rows = windowA.hi - windowA.lo + 1;
+  const width = windowB.hi - windowB.lo + 1;
+  const columns = new Int32Array(rows).fill(width);
+  const cursor = new DecisionCursor(n, prior, windowA.lo);
+  const reached = (): boolean => (strict ? cursor.probability > level : cursor.probability >= level);
+  if (reached()) {
+    while (cursor.xB > 0 && cursor.xB > windowB.lo) {
+      cursor.downB();
+      if (!reached()) {
+        cursor.upB();
+        break;
+      }
+    }
+  }
+  for (let i = 0; i < rows; i++) {
+    if (i > 0) cursor.upA();
+    while (!reached() && cursor.xB < n && cursor.xB <= windowB.hi) cursor.upB();
+    if (!reached() || cursor.xB > windowB.hi) break; // no later row reaches it within the window either
+    columns[i] = Math.max(cursor.xB - windowB.lo, 0);
+  }
+  return columns;
+}
+
+/**
  * The decision power of one look: P(x_B ≥ c(x_A)) summed over x_A, where c(x_A) is the smallest x_B with
  * P(B beats A) ≥ threshold, for x_A ~ Bin(n, pA), x_B ~ Bin(n, pB). The same quantity as
  * planning.decisionPower (there with baseline pA and lift pB/pA − 1), computed on one walk along the
- * boundary: c never falls as x_A rises, so the walk takes O(√(n p (1 − p))) steps in all.
+ * boundary ({@link boundaryColumns}): c never falls as x_A rises, so the walk takes O(√(n p (1 − p))) steps in
+ * all. Any threshold in (0, 1): at ½ or below the boundary lies on or below the diagonal.
  * `tailsB` may be passed when the caller already holds upperTails(windowB).
- * Cost: O(window of A + boundary span) steps of a few multiplications; ~16√(n p q) + z√(2 n p q) steps.
+ * Cost: O(window of A + boundary span) steps of a few multiplications; ~16√(n p q) + |z|√(2 n p q) steps, and
+ * one array of A's window.
+ * Throws StatsError('invalid_argument') for a threshold outside (0, 1).
+ * @example lookPower(50, binomialWindow(50, 0.1), binomialWindow(50, 0.15), 0.95, UNIFORM_PRIOR) //=> 0.17864782398… (scipy brute force, planning_power.json: 0.1786478239821182)
  */
 export function lookPower(
   n: number,
@@ -284,16 +335,14 @@ export function lookPower(
   prior: BetaPrior,
   tailsB: Float64Array = upperTails(windowB),
 ): number {
-  ensure(threshold > 0.5 && threshold < 1, `the threshold must be above 0.5 and below 1, got ${threshold}`);
-  const cursor = new DecisionCursor(n, prior, windowA.lo);
+  ensure(threshold > 0 && threshold < 1, `the threshold must be above 0 and below 1, got ${threshold}`);
+  const columns = boundaryColumns(n, windowA, windowB, threshold, false, prior);
+  const width = windowB.hi - windowB.lo + 1;
   let power = 0;
-  for (let xA = windowA.lo; xA <= windowA.hi; xA++) {
-    if (xA > windowA.lo) cursor.upA();
-    while (cursor.probability < threshold && cursor.xB < n && cursor.xB <= windowB.hi) cursor.upB();
-    if (cursor.probability < threshold || cursor.xB > windowB.hi) break; // no later x_A is declared either
-    const c = cursor.xB;
-    const tail = c <= windowB.lo ? (tailsB[0] as number) : (tailsB[c - windowB.lo] as number);
-    power += (windowA.pmf[xA - windowA.lo] as number) * tail;
+  for (let i = 0; i < columns.length; i++) {
+    const c = columns[i] as number;
+    if (c === width) break; // no x_B of B's window declares, nor for any later x_A
+    power += (windowA.pmf[i] as number) * (tailsB[c] as number);
   }
   return Math.min(Math.max(power, 0), 1);
 }

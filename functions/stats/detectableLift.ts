@@ -12,6 +12,7 @@
  */
 import { ensure, StatsError } from './errors';
 import { type BinomialWindow, binomialWeightedSum, binomialWindow, DecisionCursor } from './decisionLattice';
+import { MAX_PLANNED_VISITORS } from './limits';
 import { findRoot } from './numeric';
 import { normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
@@ -20,7 +21,7 @@ import { type BetaPrior, UNIFORM_PRIOR } from './types';
  * Most visitors per variant: the work is O(√(n p (1 − p))) per step of the search, ~70 ms at 1e9 and a rate
  * of ½ (DECISION_POWER itself accepts up to 1e10).
  */
-export const MAX_LIFT_VISITORS = 1e9;
+export const MAX_LIFT_VISITORS = MAX_PLANNED_VISITORS;
 /** Prior parameters lie in [MIN_LIFT_PRIOR, MAX_LIFT_PRIOR]. */
 const MIN_LIFT_PRIOR = 1e-3;
 const MAX_LIFT_PRIOR = 1e7;

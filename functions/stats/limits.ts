@@ -59,6 +59,16 @@ export const MIN_BASELINE = 1e-6;
 export const MAX_BASELINE = 0.999999;
 /** Smallest relative lift a planner plans for: −99% (a lift of −100% leaves no rate to compare). */
 export const MIN_PLAN_LIFT = -0.99;
+/**
+ * Most visitors per variant of a plan: the largest answer of VISITORS_NEEDED (a test needing more is answered
+ * #N/A, "more than 1E+9 visitors per variant"), and the largest test SMALLEST_DETECTABLE_LIFT and the look
+ * planners take. Each evaluation of the decision power walks O(√(n p (1 − p))) outcomes (~16 million steps
+ * at 1e9 and a rate of ½, tens of ms); a search takes four or more, which keeps it within its budget here.
+ * Two billion visitors in one test is beyond what a plan of practical use needs.
+ */
+export const MAX_PLANNED_VISITORS = 1e9;
+/** Most visitors per variant DECISION_POWER takes: one evaluation, ~1e6 steps of the walk at 1e10 and ½. */
+export const MAX_POWER_VISITORS = 1e10;
 /** Significance level of the classic test: 0.0001 to 0.5. */
 export const MIN_ALPHA = 0.0001;
 export const MAX_ALPHA = 0.5;

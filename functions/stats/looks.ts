@@ -24,6 +24,7 @@
  */
 import { ensure, StatsError } from './errors';
 import { brownianCrossing } from './brownianCrossing';
+import { MAX_PLANNED_VISITORS } from './limits';
 import { type BinomialWindow, binomialWindow, lookPower, upperTails } from './decisionLattice';
 import {
   type CrossingMemo,
@@ -32,14 +33,15 @@ import {
   exactWork,
   type LookLattice,
   lookLattices,
+  readOutValuesBetween,
 } from './looksExact';
 import { normalCdf, normalQuantile } from './special/normal';
 import { type BetaPrior, UNIFORM_PRIOR } from './types';
 
 /** Most looks a plan may have. */
 export const MAX_LOOKS = 100;
-/** Most visitors per variant at a look. */
-export const MAX_LOOK_VISITORS = 1e9;
+/** Most visitors per variant at a look: the planners' ceiling (limits.ts). */
+export const MAX_LOOK_VISITORS = MAX_PLANNED_VISITORS;
 /** Thresholds are above ½ and at most this. */
 export const MAX_THRESHOLD = 0.999999;
 /** False-alarm targets lie in [MIN_FALSE_ALARM, MAX_FALSE_ALARM]. */
@@ -50,14 +52,18 @@ export const MIN_PRIOR = 1e-3;
 export const MAX_PRIOR = 1e7;
 
 /**
- * Estimated multiply-adds one run of the exact programme may take (3e7 + 1.5e6 per look: ~11–65 ms
- * measured at ~0.36 ns each); above it the calibrated normal method is used. With more looks the normal
- * method's error grows, so the budget grows with the looks.
+ * Work one run of the exact programme may take, in multiply-adds of its convolutions plus LATTICE_WEIGHT per
+ * point of its lattices (each look's state array is zeroed, convolved into and scanned for declarations);
+ * above it the calibrated normal method is used. With more looks the normal method's error grows, so the
+ * budget grows with the looks. Measured with `npm run bench -- --section=worst` on a busy 2-core machine:
+ * ~1 ns a multiply-add and ~14 ns a point of the lattice, so a run at the budget of 100 looks takes up to
+ * ~200 ms (100 looks one visitor apart, where the normal method is not an option: its recursive
+ * integration needs looks further apart than that).
  */
 const EXACT_BUDGET_BASE = 3e7;
 const EXACT_BUDGET_PER_LOOK = 1.5e6;
-/** Building the lattices costs about ten multiply-adds per step of the decision walk. */
-const SETUP_WEIGHT = 10;
+/** Work of one point of the lattices in one run, in multiply-adds (the weight the method choice was set with). */
+const LATTICE_WEIGHT = 10;
 /** Steps of the lattice walks (all looks together) one evaluation of the normal method may take (~40 ms). */
 const WALK_BUDGET = 6e6;
 /** The same for THRESHOLD_FOR_LOOKS, which evaluates several times. */
@@ -65,8 +71,8 @@ const THRESHOLD_WALK_BUDGET = 2.5e6;
 /** Runs THRESHOLD_FOR_LOOKS may spend with the normal method, in units of one run at its walk budget. */
 const THRESHOLD_RUNS = 6;
 /**
- * Multiply-adds THRESHOLD_FOR_LOOKS may spend on runs of the exact programme after the two it always takes
- * (the predicted root and its correction): at the largest exact plans that is about two more runs.
+ * Work THRESHOLD_FOR_LOOKS may spend on runs of the exact programme after the two it always takes (the
+ * predicted root and its correction): at the largest exact plans that is about one more run.
  */
 const THRESHOLD_EXACT_WORK = 6e7;
 /**
@@ -145,8 +151,11 @@ interface Plan {
   readonly method: 'exact' | 'normal';
   /** exact: the lattices of every look. */
   readonly lattices?: readonly LookLattice[];
-  /** normal: the windows of each look (B's shared with A under no difference) and B's tails. */
-  readonly windows?: readonly { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array }[];
+  /**
+   * normal: the windows of look k (B's shared with A under no difference) and B's tails; kept for a plan
+   * evaluated many times, made afresh per look for one evaluation (100 looks of 1e9 would hold ~50 MB).
+   */
+  readonly windowsAt?: (k: number) => { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array };
   /** Cost of one run, in the unit of its budget. */
   readonly runCost: number;
 }
@@ -177,9 +186,10 @@ function makePlan(
   what: string,
   method: LooksMethod = 'auto',
   walkBudget = WALK_BUDGET,
+  keepWindows = false,
 ): Plan {
   const work = exactWork(looks, pA, pB);
-  const exactFits = work.perRun + SETUP_WEIGHT * work.setup <= exactBudget(looks.length);
+  const exactFits = work.perRun + LATTICE_WEIGHT * work.setup <= exactBudget(looks.length);
   if (method === 'exact' || (method === 'auto' && exactFits)) {
     return {
       looks,
@@ -191,7 +201,7 @@ function makePlan(
       runCost: work.perRun,
     };
   }
-  return normalPlan(looks, pA, pB, prior, what, walkBudget);
+  return normalPlan(looks, pA, pB, prior, what, walkBudget, keepWindows);
 }
 
 /** The calibrated normal method's plan (windows of each look); throws when its walks exceed the budget. */
@@ -202,6 +212,7 @@ function normalPlan(
   prior: BetaPrior,
   what: string,
   walkBudget: number,
+  keepWindows = false,
 ): Plan {
   const steps = walkSteps(looks, pA, pB);
   if (steps > walkBudget) {
@@ -212,12 +223,15 @@ function normalPlan(
         'looks or fewer visitors per look',
     );
   }
-  const windows = looks.map((n) => {
+  const make = (n: number): { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array } => {
     const a = binomialWindow(n, pA);
     const b = pB === pA ? a : binomialWindow(n, pB);
     return { a, b, tailsB: upperTails(b) };
-  });
-  return { looks, pA, pB, prior, method: 'normal', windows, runCost: steps };
+  };
+  const kept = keepWindows ? looks.map(make) : undefined;
+  const windowsAt = (k: number): ReturnType<typeof make> =>
+    kept !== undefined ? (kept[k] as ReturnType<typeof make>) : make(looks[k] as number);
+  return { looks, pA, pB, prior, method: 'normal', windowsAt, runCost: steps };
 }
 
 /**
@@ -284,9 +298,9 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
   }
   // Each look alone: the exact decision power there. With two sides and no difference between the
   // variants, declaring the control is as likely as declaring the challenger (the labels can be swapped).
-  const windows = plan.windows as NonNullable<Plan['windows']>;
+  const windowsAt = plan.windowsAt as NonNullable<Plan['windowsAt']>;
   const marginals = plan.looks.map((n, k) => {
-    const w = windows[k] as (typeof windows)[number];
+    const w = windowsAt(k);
     return lookPower(n, w.a, w.b, threshold, plan.prior, w.tailsB);
   });
   const r = calibratedCrossing(plan.looks, marginals, sides);
@@ -302,11 +316,12 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
  * threshold; with sides = 2 either variant when its P(higher) ≥ threshold), stopping at the first.
  *
  * Method: exact enumeration of both variants' counts from look to look while its work is below a budget
- * (about 6–66 million multiply-adds, growing with the looks), else the calibrated normal method (each look's
- * own chance computed exactly, the looks joined by recursive integration); see the module comment.
+ * (3e7 + 1.5e6 per look, in multiply-adds with the lattice weighed in), else the calibrated normal method
+ * (each look's own chance computed exactly, the looks joined by recursive integration); see the module
+ * comment.
  * Accuracy: exact up to rounding on the first (within 1e-11 of scipy's enumeration); within 1e-3 of the
  * exact enumeration on the second (measured, test/reference/looks/looks_reference.py), and within ~1e-4 once n·p·(1 − p) ≥ 2000 at the last look.
- * Cost: ≤ ~30 ms (exact), or O(Σ_k √(n_k p(1 − p))) walk steps plus O(K·(12r)²) for the integration.
+ * Cost: ≤ ~200 ms (exact), or O(Σ_k √(n_k p(1 − p))) walk steps plus O(K·(12r)²) for the integration.
  * Throws StatsError('invalid_argument') for a rate outside (0, 1), looks that are not 1 … 100 increasing
  * whole numbers from 1 to 1e9, a threshold outside (0.5, 0.999999], sides other than 1 and 2, a prior
  * outside [0.001, 1e7], or looks too large for the work budget.
@@ -369,7 +384,7 @@ export function powerWithLooks(
  * Pocock 1977), then secant steps on Φ⁻¹(threshold) inside a bracket. Exact method: the root of the
  * calibrated normal method, corrected by its offset from the exact rate there, then secant steps and, once
  * few read-out probabilities lie in the bracket, a bisection over the steps of the rate.
- * Cost: 4–10 runs of the normal method, or 2 + up to 6e7 multiply-adds of exact runs, plus up to ~20
+ * Cost: 4–10 runs of the normal method, or 2 exact runs + up to 6e7 multiply-adds of exact runs, plus up to ~20
  * recursive integrations.
  * Throws StatsError('invalid_argument') as falseAlarmWithLooks, or for falseAlarm outside [1e-6, 0.5];
  * StatsError('not_available') when even the threshold 0.999999 gives more false alarms than asked.
@@ -405,7 +420,16 @@ export function thresholdForLooksDetails(
   );
   checkSides(sides);
   checkPrior(prior);
-  const plan = makePlan(looks, baselineRate, baselineRate, prior, 'visitors_at_looks', 'auto', THRESHOLD_WALK_BUDGET);
+  const plan = makePlan(
+    looks,
+    baselineRate,
+    baselineRate,
+    prior,
+    'visitors_at_looks',
+    'auto',
+    THRESHOLD_WALK_BUDGET,
+    true,
+  );
   return { ...solveThreshold(plan, falseAlarm, sides), method: plan.method };
 }
 
@@ -483,7 +507,7 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
   if (plan.method === 'exact') {
     // Predict with the calibrated normal method (cheap at these sizes), then correct it by its offset
     // from the exact rate: the offset changes little over a small change of threshold.
-    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity);
+    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity, true);
     const modelAt = (u: number): number => evaluate(model, normalCdf(u), sides).probability;
     const guess = normalLimitGuess(plan.looks, alpha, sides);
     const slope = normalLimitSlope(plan.looks, guess, sides);
@@ -615,16 +639,10 @@ function pickAmongSteps(
 ): ThresholdSolution | undefined {
   const tLo = normalCdf(lo);
   const tHi = normalCdf(hi);
-  const found = new Set<number>();
-  for (const look of plan.lattices as readonly LookLattice[]) {
-    for (const p of look.probability) {
-      if (p > tLo && p < tHi) found.add(p);
-      if (sides === 2 && 1 - p > tLo && 1 - p < tHi) found.add(1 - p);
-      if (found.size > 64) return undefined;
-    }
-  }
+  const found = readOutValuesBetween(plan.lattices as readonly LookLattice[], tLo, tHi, sides, 64);
+  if (found === undefined) return undefined;
   // Interval j is (edges[j], edges[j + 1]]; the last ends at tHi, whose rate (hiRate) is ≤ alpha.
-  const edges = [tLo, ...[...found].sort((a, b) => a - b), tHi];
+  const edges = [tLo, ...found, tHi];
   if (Math.ceil(Math.log2(edges.length)) > runsLeft) return undefined;
   const middle = (j: number): number => ((edges[j] as number) + (edges[j + 1] as number)) / 2;
   let above = -1; // largest interval known to have a rate above alpha (−1: the point tLo)

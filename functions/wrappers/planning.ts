@@ -22,7 +22,7 @@ import { thresholdForVariants as variantsThreshold } from '../stats/manyVariants
  * @helpurl https://localhost:3000/help/DECISION_POWER.html
  * @param baseline_rate The control's conversion rate, 0.000001 to 0.999999.
  * @param lift The challenger's true relative lift, as a fraction from -0.99 to 1 (0.1 is +10%).
- * @param visitors_per_variant Visitors in each of the two variants (whole number, 1 or more).
+ * @param visitors_per_variant Visitors in each of the two variants (whole number, at least 1 and at most 1E+10).
  * @param [threshold] PROB_ABOVE_CONTROL needed to declare a winner, 0.01 to 0.9999 (optional; default 0.95).
  * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
@@ -57,7 +57,7 @@ export function decisionPower(
  * @param [power] Chance of declaring the winner you want, 0.01 to 0.9999 (optional; default 0.8).
  * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
- * @returns Visitors per variant (a whole number).
+ * @returns Visitors per variant (a whole number), at most 1E+9; #N/A when a test would need more (plan for a larger lift, a lower threshold or a lower power).
  * @method Search over whole numbers of visitors for the first one whose exact DECISION_POWER reaches power.
  * @source Bayesian assurance of a decision rule: A. O'Hagan and J. W. Stevens, Medical Decision Making 21 (2001).
  * @example =ABTEST.VISITORS_NEEDED(0.1, 0.2) returns 3024

@@ -87,8 +87,11 @@ test('the bundle registers every catalogue function by id, nothing else', () => 
   expect([...sandbox.registered.keys()].sort()).toEqual([...CATALOGUE_IDS].sort());
 });
 
-test('dist/functions.js is at most 150 KB minified', () => {
-  expect(fs.statSync(BUNDLE).size).toBeLessThanOrEqual(150 * 1024);
+// Our own budget (not a platform limit): the shared runtime loads the bundle once per Excel session. It was
+// 150 KB until the revenue, looks and whole-grid chart code (155 KB); 200 KB still catches a dependency pulled
+// in by mistake (a date or maths library is 50–500 KB). npm run bench prints the size against the same budget.
+test('dist/functions.js is at most 200 KB minified', () => {
+  expect(fs.statSync(BUNDLE).size).toBeLessThanOrEqual(200 * 1024);
 });
 
 test('dist holds functions.json (every catalogue function), the side panel page loading both scripts, help pages, icons and the manifest', () => {

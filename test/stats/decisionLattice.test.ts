@@ -113,10 +113,10 @@ describe('lookPower against scipy decision powers (test/reference/planning/plann
     },
   );
 
-  it('refuses a threshold of ½ or less', () => {
+  it.each([0, 1])('refuses a threshold of %p', (t) => {
     const w = binomialWindow(10, 0.5);
-    const error = thrownStatsError(() => lookPower(10, w, w, 0.5, { alpha: 1, beta: 1 }));
+    const error = thrownStatsError(() => lookPower(10, w, w, t, { alpha: 1, beta: 1 }));
     expect(error.code).toBe('invalid_argument');
-    expect(error.message).toBe('the threshold must be above 0.5 and below 1, got 0.5');
+    expect(error.message).toBe(`the threshold must be above 0 and below 1, got ${t}`);
   });
 });

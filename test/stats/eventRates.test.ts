@@ -6,6 +6,7 @@
  * (a garden-supply shop's store visits per user-day).
  */
 import reference from '../reference/events/events_values.json';
+import extremeRatio from '../reference/events/events_extreme_ratio.json';
 import {
   eventsExpectedLoss,
   eventsLiftInterval,
@@ -139,6 +140,17 @@ describe('eventRates against 50-digit mpmath', () => {
     check.expectedLoss.forEach((want, i) =>
       expect(Math.abs((loss[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * scale),
     );
+  });
+});
+
+describe('eventRates at an exposure ratio of 4e-14 (a fuzzer finding)', () => {
+  // mpmath betainc at 50 digits (events_extreme_ratio.py): both probabilities, summing to 1 within 1e-40.
+  // Formed from 1 − z as a double, the smaller one was 2e-6 too large and the pair summed to 1.000002.
+  it('gives both P(highest) within 1e-15 of mpmath, summing to 1', () => {
+    const variants = extremeRatio.events.map((events, i) => ({ events, exposure: extremeRatio.exposure[i] as number }));
+    const values = eventsProbHighest(variants, { shape: extremeRatio.priorShape, rate: 0 });
+    values.forEach((v, i) => expect(Math.abs(v - (extremeRatio.probHighest[i] as number))).toBeLessThanOrEqual(1e-15));
+    expect(Math.abs((values[0] as number) + (values[1] as number) - 1)).toBeLessThanOrEqual(2e-16);
   });
 });
 

@@ -45,26 +45,78 @@ describe('LIFT_DENSITY grid ends against scipy lift quantiles (lift_chart_range.
     expect(Math.max(...f) * step).toBeLessThan(mass / 4);
   });
 
-  it('answers not_available with a plain message when the prior is too weak for a finite range', () => {
+  const notAvailable = (variants: [number, number][], alpha: number, beta: number): StatsError => {
     let thrown: unknown;
     try {
       liftDensityTable(
-        [
-          { conversions: 0, visitors: 1000 },
-          { conversions: 3, visitors: 1000 },
-        ],
+        variants.map(([conversions, visitors]) => ({ conversions, visitors })),
         101,
-        { alpha: 0.001, beta: 0.001 },
+        { alpha, beta },
       );
     } catch (error) {
       thrown = error;
     }
     expect(thrown).toBeInstanceOf(StatsError);
     expect((thrown as StatsError).code).toBe('not_available');
-    expect((thrown as StatsError).message).toBe(
-      "the lift is spread too widely for a chart table (the prior is so weak that the control's rate could " +
-        'be almost zero); use a stronger prior, such as 1 and 1',
+    return thrown as StatsError;
+  };
+
+  it('answers not_available naming prior_alpha and the control when the lift has no finite range', () => {
+    // Beta(0.001, 1000): the control's rate is below 1e-300 with probability ~0.5, so the lift's upper
+    // quartile overflows.
+    expect(
+      notAvailable(
+        [
+          [0, 1000],
+          [3, 1000],
+        ],
+        0.001,
+        0.001,
+      ).message,
+    ).toBe(
+      'prior_alpha 0.001 is too weak for a lift chart: the control (conversions 0, visitors 1000) could have a ' +
+        'rate of almost 0, so the lift has no finite range; use a prior_alpha of at least 1 (the default is 1)',
     );
+  });
+
+  it('names prior_alpha, prior_beta and the challenger when the middle half of the lift is one number', () => {
+    // Beta(1.001, 0.001) twice: both rates are 1 to double precision in the middle half, so the lift's
+    // quartiles are both exactly 0.
+    expect(
+      notAvailable(
+        [
+          [1, 1],
+          [1, 1],
+        ],
+        0.001,
+        0.001,
+      ).message,
+    ).toBe(
+      'prior_alpha 0.001 and prior_beta 0.001 are too weak for a lift chart: the middle half of the lift of the ' +
+        'challenger (conversions 1, visitors 1) is a single number; use a prior of at least 1 and 1 (the default)',
+    );
+  });
+
+  it('answers the same for 46 all-converted variants at once, before any lift quantile is solved for', () => {
+    // Beta(10.001, 0.001) for every variant: both quartiles of every rate are 1 in doubles, so the check on
+    // the rates' middle halves answers (the lift quantile solves there could not converge; the fuzzer's case).
+    const variants = Array.from({ length: 46 }, () => [10, 10] as [number, number]);
+    const error = notAvailable(variants, 0.001, 0.001);
+    expect(error.code).toBe('not_available');
+    expect(error.message).toBe(
+      'prior_alpha 0.001 and prior_beta 0.001 are too weak for a lift chart: the middle half of the lift of the ' +
+        'challenger (conversions 10, visitors 10) is a single number; use a prior of at least 1 and 1 (the default)',
+    );
+  });
+
+  it('draws both of those tables under the default prior, as the messages advise', () => {
+    const counts = [
+      [0, 1000],
+      [3, 1000],
+      [1, 1],
+    ].map(([conversions, visitors]) => ({ conversions: conversions as number, visitors: visitors as number }));
+    expect(liftDensityTable(counts.slice(0, 2), 11).grid).toHaveLength(11);
+    expect(liftDensityTable([counts[2], counts[2]] as typeof counts, 11).grid).toHaveLength(11);
   });
 });
 

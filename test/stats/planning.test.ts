@@ -7,6 +7,7 @@ import {
 } from '../../functions/stats/planning';
 import { betaLogDensity } from '../../functions/stats/special/incompleteBeta';
 import classic from '../reference/planning/planning_classic.json';
+import edges from '../reference/planning/planning_edges.json';
 import power from '../reference/planning/planning_power.json';
 import { thrownStatsError } from '../helpers/assertions';
 
@@ -118,6 +119,32 @@ describe('decisionPower against scipy (test/reference/planning/planning_power.py
   );
 });
 
+describe('decisionPower and visitorsNeeded at the edges of the domain (scipy, planning_edges.py)', () => {
+  // The sums of planning_power.py at thresholds below ½ and at 0.9999, priors of 0.001, baselines from 1e-5
+  // to 0.999 and tests of 1 to 1e6 visitors; P(p_B > p_A) by Evan Miller's closed form or scipy quad.
+  it.each(edges.power.map((c) => [c.n, c.baselineRate, c.lift, c.threshold, c.alpha, c.beta, c] as const))(
+    'n = %p, baseline %p, lift %p, threshold %p, prior Beta(%p, %p)',
+    (n, p0, lift, t, a, b, c) => {
+      const value = decisionPower(p0, lift, n, t, { alpha: a, beta: b });
+      expect(Math.abs(value - c.power)).toBeLessThan(1e-10);
+    },
+  );
+
+  it.each(edges.needed.map((c) => [c.baselineRate, c.lift, c.threshold, c.power, c.alpha, c.beta, c] as const))(
+    "visitorsNeeded(%p, %p, %p, %p), prior Beta(%p, %p), is a crossing in scipy's decision powers",
+    (p0, lift, t, target, a, b, c) => {
+      const n = visitorsNeeded(p0, lift, t, target, { alpha: a, beta: b });
+      const at = (m: number): number => {
+        const index = c.window.indexOf(m);
+        expect(index).toBeGreaterThanOrEqual(0);
+        return c.powers[index] as number;
+      };
+      expect(at(n)).toBeGreaterThanOrEqual(target);
+      expect(at(n - 1)).toBeLessThan(target);
+    },
+  );
+});
+
 describe('decisionPower, properties', () => {
   it('with lift 0 is the false-alarm rate, close to 1 − threshold under the uniform prior (scipy: 0.04997 at n = 50)', () => {
     const falseAlarm = decisionPower(0.1, 0, 5000, 0.95);
@@ -194,11 +221,17 @@ describe('visitorsNeeded against scipy (planning_power.json "needed")', () => {
     expect(Math.abs(n / classicOneSided - 1)).toBeLessThan(0.05);
   });
 
-  it('says when the lift is too small to plan for within 1e10 visitors', () => {
-    const error = thrownStatsError(() => visitorsNeeded(0.01, 1e-6));
+  it.each([
+    // the classic size alone is far beyond the ceiling: no evaluation
+    [0.01, 1e-6, 0.95, 0.8],
+    // the classic size (1.08e9) is just beyond it: one evaluation at 1e9 falls short
+    [0.5, 0.00032, 0.9999, 0.9999],
+  ])('says when more than 1E+9 visitors per variant would be needed (baseline %p, lift %p)', (p, lift, t, pw) => {
+    const error = thrownStatsError(() => visitorsNeeded(p, lift, t, pw));
     expect(error.code).toBe('not_available');
     expect(error.message).toBe(
-      'more than 1e10 visitors per variant would be needed to detect a lift of 0.000001 on a rate of 0.01',
+      `more than 1E+9 visitors per variant would be needed to detect a lift of ${lift} on a rate of ${p}; ` +
+        'plan for a larger lift, a lower threshold or a lower power',
     );
   });
 

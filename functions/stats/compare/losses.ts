@@ -3,16 +3,13 @@
  * pruned integrals of integrate.ts (two posteriors, or posteriors in different coordinates) or on one
  * grid shared by all of them (sharedGridLosses, three or more in one coordinate).
  */
-import { StatsError } from '../errors';
 import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
 import type { Factor } from './factors';
 import { PRUNE, checkList, logIntegral } from './integrate';
-
-/** Widest sub-panel (in the working coordinate) of the shared grid of sharedGridLosses. */
-const GAP_WIDTH = 1;
+import { MAX_GRID_CELLS, cdfOneFrom, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
 
 /**
  * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
@@ -61,165 +58,126 @@ export function expectedLosses(ds: readonly TabulatedDistribution[], maxGridCell
  * total minus one term). Four steps:
  *  1. sharedPieces: the union of the posteriors' panel edges, merged into pieces no wider than the
  *     narrowest panel there;
- *  2. pieceBounds: each piece's upper bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx for each variant;
+ *  2. pieceBounds: each piece's upper bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx for each variant, the
+ *     tails bounded from the tables' panel edges (sharedGrid.ts tailBoundsAtEdges);
  *  3. visitOrder: the pieces by decreasing bound (relative to each variant's largest);
  *  4. integratePieces: the integrals, a piece skipped for variant i when its bound lies e^-46 below i's
- *     running total (as in logIntegral).
+ *     running total (as in logIntegral), the others' product formed only where it is not negligible.
  */
 function sharedGridLosses(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
+  const k = ds.length;
   const edges = sharedPieces(ds, maxGridCells);
-  const { bound, best } = pieceBounds(ds, edges);
-  const order = visitOrder(bound, best, edges.length - 1, ds.length);
-  return integratePieces(ds, edges, bound, order).map((t) => Math.exp(t));
-}
-
-/** Within this distance (in the working coordinate) of an anchor (see anchorsOf) pieces are GAP_WIDTH wide. */
-const GRADED_FROM = 64;
-
-/**
- * Most cells (pieces × posteriors) of the shared grid: its three tables of that many doubles stay within
- * ~25 MB. Inside the documented domain a grid has a few thousand pieces at most (the panels of the
- * posteriors near their bulk, ~130 pieces near the anchors, ~5 per e-fold of length beyond), so this
- * bound is only met by inputs far outside it; then the calculation stops with a clear error.
- */
-const MAX_GRID_CELLS = 1_000_000;
-
-/**
- * The anchors of the shared grid on [lo, hi]: its ends and the point nearest z = 0. The Jacobian dx/dz of
- * every working coordinate (logit: largest at 0; log rate: at the right end; scaled asinh: at the ends,
- * with the posteriors' centre at 0) is largest at one of them and changes by a factor of at most e per
- * unit of z, so a piece d away from every anchor carries dx/dz below e^-d of its largest value.
- */
-function anchorsOf(lo: number, hi: number): number[] {
-  return [lo, hi, Math.min(hi, Math.max(lo, 0))];
+  const tails = tailBoundsAtEdges(ds, edges);
+  const { bound, best } = pieceBounds(ds, edges, tails.cdf, tails.sf);
+  // The losses far from 0 as E[max] − mean_i (when every mean is exact), the others integrated.
+  const byDifference = new Array<number | undefined>(k).fill(undefined);
+  if (ds.every((d) => d.source.exactMean !== undefined)) {
+    const { value, scale } = expectedMaximum(ds, edges, tails.cdf);
+    ds.forEach((d, i) => {
+      const loss = value - d.mean;
+      if (loss >= DIFFERENCE_FROM * scale) byDifference[i] = loss;
+    });
+  }
+  const pieces = edges.length - 1;
+  byDifference.forEach((v, i) => {
+    if (v === undefined) return;
+    for (let s = 0; s < pieces; s++) bound[s * k + i] = -Infinity;
+    best[i] = 0;
+  });
+  const order = visitOrder(bound, best, pieces, k);
+  const totals = integratePieces(ds, edges, bound, tails.cdf, order);
+  return totals.map((t, i) => byDifference[i] ?? Math.exp(t));
 }
 
 /**
- * The widest piece allowed at z for the Jacobian's sake: GAP_WIDTH within GRADED_FROM of an anchor, a
- * quarter of the distance d to the nearest anchor beyond. 16 nodes integrate e^z to ~1e-15 on a piece
- * up to 16 wide, and a wider piece lies over 64 from every anchor, where dx/dz is below e^-60 of its
- * largest value, so its error cannot show. (Inside the posteriors' windows the narrowest panel also
- * limits a piece: narrowestPanelAt.) The count of pieces grows with the logarithm of the length: a prior
- * shape of 1e-12 gives a window ~2e14 long in logit, covered by ~300 pieces instead of 2e14.
+ * A loss at least this fraction of the values' scale is taken as E[max] − mean_i: the rounding of that
+ * difference (~1e-16 of the scale, E[max] summed with compensation) then stays below ~1e-12 of the loss.
  */
-function jacobianWidth(anchors: readonly number[], z: number): number {
-  let d = Infinity;
-  for (const c of anchors) d = Math.min(d, Math.abs(z - c));
-  return d <= GRADED_FROM ? GAP_WIDTH : d / 4;
-}
+const DIFFERENCE_FROM = 1e-3;
 
 /**
- * The union of the posteriors' panel edges, ascending, with longer intervals cut into pieces: into equal
- * ones of at most GAP_WIDTH up to GRADED_FROM long (there F = 1 below and 0 above, or smooth, and the
- * integrand is dx/dz times it, whose complex singularities lie π from the axis in logit), beyond that at
- * most jacobianWidth wide (graded: logarithmically many). Throws StatsError('not_available') beyond
- * MAX_GRID_CELLS.
+ * E[max_j X_j] = x_L + ∫_{x_L} (1 − Π_j F_j) dx on the shared grid (x_L its left end, where every F is
+ * below its window's tail mass, ~e^-200), and the scale of the values (the largest of |x_L|, |E[max]| and
+ * the |means|). A piece on which some F lies below e^-40 has 1 − Π F = 1 exactly (PRODUCT_NEGLIGIBLE) and adds
+ * its width; a piece on which every F is 1 to double precision (cdfOneFrom) adds nothing (below k·1e-18 of its
+ * width); the rest are integrated on 16 nodes with the F that are not 1 there. Summed with Neumaier's
+ * compensation. Cost: O(pieces × k) checks, interpolations only near the top of the posteriors.
  */
-function unionOfEdges(
+function expectedMaximum(
   ds: readonly TabulatedDistribution[],
-  maxGridCells: number,
-): { union: number[]; anchors: number[] } {
-  const all: number[] = [];
-  for (const d of ds) for (let e = 0; e < d.edges.length; e++) all.push(d.edges[e] as number);
-  all.sort((u, v) => u - v);
-  const anchors = anchorsOf(all[0] as number, all[all.length - 1] as number);
-  const union: number[] = [];
-  for (const e of all) {
-    const last = union[union.length - 1];
-    if (last === undefined) union.push(e);
-    else if (e - last > 1e-12 * Math.max(1, Math.abs(e))) {
-      if (e - last <= GRADED_FROM) {
-        const parts = Math.ceil((e - last) / GAP_WIDTH);
-        for (let j = 1; j < parts; j++) union.push(last + ((e - last) * j) / parts);
-      } else {
-        let z = last;
-        for (;;) {
-          // The width allowed over the whole step (jacobianWidth changes by at most 1/4 per unit of z).
-          let w = jacobianWidth(anchors, z);
-          for (let pass = 0; pass < 8; pass++) w = Math.min(w, jacobianWidth(anchors, z + w));
-          if (z + w >= e - GAP_WIDTH / 2) break;
-          z += w;
-          union.push(z);
-          if (union.length * ds.length > maxGridCells) throw gridTooLarge(ds.length, maxGridCells);
-        }
-      }
-      union.push(e);
-      if (union.length * ds.length > maxGridCells) throw gridTooLarge(ds.length, maxGridCells);
+  edges: readonly number[],
+  edgeCdf: Float64Array,
+): { value: number; scale: number } {
+  const k = ds.length;
+  const n = PANEL_ORDER;
+  const src = (ds[0] as TabulatedDistribution).source;
+  const one = ds.map(cdfOneFrom);
+  const points = new Float64Array(n);
+  const sums = new Float64Array(n);
+  const values = new Float64Array(n);
+  let sum = 0;
+  let compensation = 0;
+  const add = (v: number): void => {
+    const t = sum + v;
+    compensation += Math.abs(sum) >= Math.abs(v) ? sum - t + v : v - t + sum;
+    sum = t;
+  };
+  for (let s = 0; s + 1 < edges.length; s++) {
+    const a = edges[s] as number;
+    const b = edges[s + 1] as number;
+    let negligible = false;
+    let changing = false;
+    for (let j = 0; j < k; j++) {
+      if ((edgeCdf[(s + 1) * k + j] as number) <= PRODUCT_NEGLIGIBLE) negligible = true;
+      if (a < (one[j] as number)) changing = true;
     }
-  }
-  return { union, anchors };
-}
-
-/** The error of a shared grid over its budget (not reached inside the documented domain). */
-function gridTooLarge(k: number, maxGridCells: number): StatsError {
-  return new StatsError(
-    'not_available',
-    `the expected losses of these ${k} variants need a finer comparison grid than one calculation may use ` +
-      `(over ${maxGridCells} cells); compare fewer variants at once`,
-  );
-}
-
-/** Width of the narrowest panel of any posterior at z, at most jacobianWidth there. */
-function narrowestPanelAt(ds: readonly TabulatedDistribution[], anchors: readonly number[], z: number): number {
-  let w = jacobianWidth(anchors, z);
-  for (const d of ds) {
-    if (z < d.windowLeft || z > d.windowRight) continue;
-    const p = d.findPanel(z);
-    w = Math.min(w, (d.edges[p + 1] as number) - (d.edges[p] as number));
-  }
-  return w;
-}
-
-/**
- * The edges of the shared grid: neighbouring pieces of the union of edges merged while the merged piece
- * stays no wider than the narrowest panel of any posterior at its ends and middle (each table's
- * interpolant is smooth across its own panel edges to ~1e-15, so a piece may straddle one; the integrand
- * is then resolved as finely as the narrowest posterior).
- */
-function sharedPieces(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
-  const { union, anchors } = unionOfEdges(ds, maxGridCells);
-  const localWidth = (z: number): number => narrowestPanelAt(ds, anchors, z);
-  const edges: number[] = [union[0] as number];
-  let a = union[0] as number;
-  let next = 1;
-  while (next < union.length) {
-    let m = next;
-    const limitAtA = localWidth(a);
-    while (m + 1 < union.length) {
-      const e = union[m + 1] as number;
-      if (e - a > limitAtA || e - a > Math.min(localWidth(e), localWidth((a + e) / 2))) break;
-      m += 1;
+    if (negligible) {
+      add(src.toValue(b) - src.toValue(a));
+      continue;
     }
-    a = union[m] as number;
-    edges.push(a);
-    next = m + 1;
+    if (!changing) continue;
+    const half = (b - a) / 2;
+    const mid = (a + b) / 2;
+    for (let q = 0; q < n; q++) {
+      points[q] = mid + half * (PANEL_NODES[q] as number);
+      sums[q] = 0;
+    }
+    for (let j = 0; j < k; j++) {
+      if (a < (one[j] as number)) (ds[j] as TabulatedDistribution).addLogTailsAt(points, 0, n, sums, false);
+    }
+    for (let q = 0; q < n; q++) {
+      const total = sums[q] as number;
+      const above = total === 0 ? -Infinity : Math.log(-Math.expm1(total));
+      values[q] = above + Math.log(src.valueJacobian(points[q] as number));
+    }
+    add(Math.exp(panelLogIntegral(values, 0, half)));
   }
-  return edges;
+  const left = src.toValue(edges[0] as number);
+  const value = left + (sum + compensation);
+  let scale = Math.max(Math.abs(left), Math.abs(value));
+  for (const d of ds) scale = Math.max(scale, Math.abs(d.mean));
+  return { value, scale };
 }
 
 /**
  * For each piece s and variant i, the log of the bound F_i(right) · Σ_{j≠i} (1 − F_j(left)) · Δx (in value
- * units; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
+ * units, the tails' upper bounds at the edges from tailBoundsAtEdges; +Infinity where it is NaN, so such a piece is never skipped), bound[s·k + i], and each
  * variant's largest bound, best[i].
  */
 function pieceBounds(
   ds: readonly TabulatedDistribution[],
   edges: readonly number[],
+  edgeCdf: Float64Array,
+  edgeSf: Float64Array,
 ): { bound: Float64Array; best: Float64Array } {
   const k = ds.length;
   const pieces = edges.length - 1;
   const src = (ds[0] as TabulatedDistribution).source;
-  const edgeCdf = new Float64Array(edges.length * k);
   const edgeOthersSf = new Float64Array(edges.length * k);
   const logSf = new Float64Array(k);
   const sumScratch = new Float64Array(k + 1);
   for (let e = 0; e < edges.length; e++) {
-    const z = edges[e] as number;
-    for (let j = 0; j < k; j++) {
-      const d = ds[j] as TabulatedDistribution;
-      edgeCdf[e * k + j] = d.logCdfAt(z);
-      logSf[j] = d.logSfAt(z);
-    }
+    for (let j = 0; j < k; j++) logSf[j] = edgeSf[e * k + j] as number;
     logSumOfOthers(logSf, edgeOthersSf, e * k, sumScratch);
   }
   const bound = new Float64Array(pieces * k);
@@ -270,13 +228,24 @@ function visitOrder(bound: Float64Array, best: Float64Array, pieces: number, k: 
 }
 
 /**
+ * Below this log of a product of cdfs, 1 − Π F is exactly 1 in double precision: expm1 returns −1 for
+ * arguments below −56·ln 2 ≈ −38.8 (fdlibm's expm1, which JavaScript engines follow), so log(−expm1) is 0.
+ */
+const PRODUCT_NEGLIGIBLE = -40;
+
+/**
  * log ∫ F_i (1 − Π_{j≠i} F_j) dx for every variant i over the pieces in `order`: at each piece's 16 nodes
  * log F_j of every posterior once, then per variant still in need the integrand and its panel integral.
+ * Where two posteriors' F lie below e^-40 on the whole piece (their bound at its right edge, edgeCdf), every
+ * product of the others holds one of them, so 1 − Π_{j≠i} F_j is exactly 1 (PRODUCT_NEGLIGIBLE) and only the
+ * needed variants' own F are read; where one does, only that variant needs the others' product. The values
+ * are the same, bit for bit, as from the full product.
  */
 function integratePieces(
   ds: readonly TabulatedDistribution[],
   edges: readonly number[],
   bound: Float64Array,
+  edgeCdf: Float64Array,
   order: readonly number[],
 ): number[] {
   const k = ds.length;
@@ -285,10 +254,12 @@ function integratePieces(
   const totals = new Array<number>(k).fill(-Infinity);
   const need = new Uint8Array(k);
   const logF = new Float64Array(k * n);
+  const rows = Array.from({ length: k }, (_, j) => logF.subarray(j * n, j * n + n));
   const values = new Float64Array(k * n);
   const prefix = new Float64Array(k + 1);
   const suffix = new Float64Array(k + 1);
   const logJacobian = new Float64Array(n);
+  const points = new Float64Array(n);
   for (const s of order) {
     let any = false;
     for (let i = 0; i < k; i++) {
@@ -301,21 +272,42 @@ function integratePieces(
     const b = edges[s + 1] as number;
     const half = (b - a) / 2;
     const mid = (a + b) / 2;
+    // The posteriors whose F is negligible in every product on this piece.
+    let negligible = 0;
+    let lone = -1;
+    for (let j = 0; j < k; j++) {
+      if ((edgeCdf[(s + 1) * k + j] as number) <= PRODUCT_NEGLIGIBLE) {
+        negligible += 1;
+        lone = j;
+      }
+    }
+    // Whether the others' product is needed at all: for the lone negligible one when it is in need, or with none.
+    const full = negligible === 0 || (negligible === 1 && need[lone] === 1);
     for (let q = 0; q < n; q++) {
       const z = mid + half * (PANEL_NODES[q] as number);
+      points[q] = z;
       logJacobian[q] = Math.log(src.valueJacobian(z));
-      for (let j = 0; j < k; j++) logF[j * n + q] = (ds[j] as TabulatedDistribution).logCdfAt(z);
+    }
+    for (let j = 0; j < k; j++) {
+      if (!full && need[j] === 0) continue;
+      const row = rows[j] as Float64Array;
+      for (let q = 0; q < n; q++) row[q] = (ds[j] as TabulatedDistribution).logCdfAt(points[q] as number);
     }
     for (let q = 0; q < n; q++) {
-      // Σ_{j≠i} log F_j from prefix and suffix sums; 1 − Π_{j≠i} F_j = −expm1 of it.
-      prefix[0] = 0;
-      for (let j = 0; j < k; j++) prefix[j + 1] = (prefix[j] as number) + (logF[j * n + q] as number);
-      suffix[k] = 0;
-      for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (logF[j * n + q] as number);
+      if (full) {
+        // Σ_{j≠i} log F_j from prefix and suffix sums; 1 − Π_{j≠i} F_j = −expm1 of it.
+        prefix[0] = 0;
+        for (let j = 0; j < k; j++) prefix[j + 1] = (prefix[j] as number) + (logF[j * n + q] as number);
+        suffix[k] = 0;
+        for (let j = k - 1; j >= 0; j--) suffix[j] = (suffix[j + 1] as number) + (logF[j * n + q] as number);
+      }
       for (let i = 0; i < k; i++) {
         if (need[i] === 0) continue;
-        const others = (prefix[i] as number) + (suffix[i + 1] as number);
-        const above = others === 0 ? -Infinity : Math.log(-Math.expm1(others));
+        let above = 0;
+        if (negligible === 0 || (negligible === 1 && i === lone)) {
+          const others = (prefix[i] as number) + (suffix[i + 1] as number);
+          above = others === 0 ? -Infinity : Math.log(-Math.expm1(others));
+        }
         values[i * n + q] = (logF[i * n + q] as number) + above + (logJacobian[q] as number);
       }
     }

@@ -8,6 +8,7 @@ import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
 import { checkList, logIntegral, xIsBase } from './integrate';
 import type { LogTails } from './integrate';
+import { sharedHighestIntegrals } from './sharedHighest';
 
 /**
  * log P(X > Y) and log P(Y > X): the one expected to be smaller (that the lower-mean variable is above
@@ -70,13 +71,25 @@ export function logProbabilityGreater(x: TabulatedDistribution, y: TabulatedDist
 /**
  * The raw integrals ∫ f_i Π_{j≠i} F_j of P(variant i is highest), before normalising. Their sum is 1
  * up to the quadrature error (checked to 1e-10 in the tests). Exposed for that check.
- * Cost: k × (panels + kept panels × 16) × (k − 1) interpolations.
+ * Cost: for three or more posteriors in one coordinate O(k × shared-grid nodes) (sharedHighest.ts), else
+ * k × (panels + kept panels × 16) × (k − 1) interpolations.
  * @example
  * const [x, y] = [tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))];
  * highestProbabilityIntegrals([x, y]) //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
  */
 export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]): number[] {
   checkList(ds);
+  // Three or more posteriors in one coordinate: one grid shared by all of them, O(k × nodes) (measured
+  // 4–6 times faster at 50 variants); a grid over its budget (outside the documented domain) falls back
+  // to the per-variant integrals below.
+  const coordinate = (ds[0] as TabulatedDistribution).coordinate;
+  if (ds.length >= 3 && coordinate !== undefined && ds.every((d) => d.coordinate === coordinate)) {
+    try {
+      return sharedHighestIntegrals(ds);
+    } catch (error) {
+      if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
+    }
+  }
   // The integral depends only on d and the multiset of the others, so a distribution listed twice (the
   // same object) is integrated once and both get the identical value.
   const done = new Map<TabulatedDistribution, number>();
@@ -94,7 +107,8 @@ export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]
  * P(X_i is the highest) for each i: ∫ f_i Π_{j≠i} F_j on i's grid (split where a narrower posterior
  * needs it), divided by their sum so they add to 1. Identical inputs give identical outputs (1/k each).
  * Tiny probabilities keep their relative accuracy (each is integrated directly).
- * Cost: O(k² × nodes kept). Throws StatsError('invalid_argument') for an empty list.
+ * Cost: O(k × nodes) on a shared grid (3+ posteriors in one coordinate), else O(k² × nodes kept).
+ * Throws StatsError('invalid_argument') for an empty list.
  * @example
  * const [x, y] = [tabulate(betaWorkingDensity(4, 8)), tabulate(betaWorkingDensity(6, 6))];
  * highestProbabilities([x, y]) //=> [0.19349845201238…, 0.80650154798761…] (125/646, 521/646)
