@@ -229,6 +229,26 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
     );
   });
 
+  test('posteriors at the rounding of their means: a mean 1e12 above the others wins with 1 (fuzz seed 41)', () => {
+    // Scales sd/√1e12 ≈ 3e-4, about 3 units in the last place of 1e12. Each other variant's chance of being
+    // above the top one is at most P(X_j > m) + P(X_top < m) at the midpoint m, ~1.5e15 scales out:
+    // scipy.stats.t.sf(999999999999 / 2 / scale, 1e12 − 1) = 0.0 for each of the four scales.
+    const sds = [410.48639520473546, 333.9214818445838, 297.39031255347436, 333.87821186756463];
+    const means = [-0, -0, 999999999999, -0];
+    const v = sds.map((sd, i) => ({ count: 1e12, mean: means[i] as number, sd }));
+    expect(meanProbHighest(v)).toEqual([0, 0, 1, 0]);
+    // Two means a third of a scale apart at 1e12 cannot be told apart in double precision: refused, naming
+    // the arguments and what to do.
+    const close = [v[0], { ...v[1], mean: 999999999999 }, { ...v[2], mean: 999999999998.9999 }] as MeanSummary[];
+    expectStatsErrorExact(
+      () => meanProbHighest(close),
+      'not_available',
+      'mean, sd and count: the posteriors are too narrow (sd/√count) beside the size of the means to compute the ' +
+        'probabilities of being highest in double precision; subtract a common amount from every mean (e.g. ' +
+        'their average) so the means are smaller, or compare pairs with MEAN_PROB_ABOVE_CONTROL',
+    );
+  });
+
   test('all point masses: the highest mean wins, ties share; losses are max − mean', () => {
     const v: MeanSummary[] = [
       { count: 10, mean: 1, sd: 0 },
