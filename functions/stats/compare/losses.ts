@@ -19,7 +19,8 @@ import { MAX_GRID_CELLS, cdfOneFrom, sharedPieces, tailBoundsAtEdges } from './s
  * relative to itself. The identity loss_i − loss_j = mean_j − mean_i holds to quadrature accuracy (~1e-15).
  * For three or more posteriors sharing a working coordinate the same integral is taken directly as
  * ∫ F_i (1 − Π_{j≠i} F_j) dx on the union of their panels (see sharedGridLosses), O(k²) interpolations.
- * Cost: O(k² × nodes) (shared coordinate) or O(k³ × nodes kept); the shared grid holds at most
+ * Cost: O(k² × nodes) (shared coordinate); in separate coordinates O(k² × nodes kept) for the top mean's loss
+ * and as much again for each loss below 1e-3 of the means' size (O(k³) when all are); the shared grid holds at most
  * `maxGridCells` pieces × posteriors (default MAX_GRID_CELLS; tests lower it to reach the error).
  * Throws StatsError('invalid_argument') for an empty list, StatsError('not_available') when the shared
  * grid would exceed its budget.
