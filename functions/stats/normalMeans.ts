@@ -284,7 +284,14 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
 export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const ps = posteriors(variants, 2);
   const points = ps.filter(isPoint).length;
-  if (points === 0) return highestProbabilities(tabulateForComparison(ps));
+  if (points === 0) {
+    try {
+      return highestProbabilities(tabulateForComparison(ps));
+    } catch (error) {
+      if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
+      return separatedHighest(ps);
+    }
+  }
   const only = singleSpread(ps);
   if (only !== undefined) {
     // One uncertain mean X against exact ones with largest value M: X wins with P(X > M) (exact, through
@@ -298,6 +305,33 @@ export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const best = Math.max(...ps.map((p) => p.centre));
   const ties = ps.filter((p) => p.centre === best).length;
   return ps.map((p) => (p.centre === best ? 1 / ties : 0));
+}
+
+/**
+ * P(highest) when the quadrature's integrals all vanish: posteriors far narrower than the gaps between their
+ * means, tabulated on a grid at the means' rounding (a scale of a few units in the last place). The top mean
+ * wins with 1 and each other variant j with 0 when P(X_j > X_top) ≤ P(X_j > m) + P(X_top < m), m the midpoint of
+ * their centres, is 0 in double precision (both t tails underflow); otherwise the probabilities are refused with
+ * a message naming the arguments. Cost: O(k) t tails.
+ */
+function separatedHighest(ps: readonly MeanPosterior[]): number[] {
+  let top = 0;
+  ps.forEach((p, i) => {
+    if (p.centre > (ps[top] as MeanPosterior).centre) top = i;
+  });
+  const t = ps[top] as MeanPosterior;
+  const separated = ps.every((p, j) => {
+    if (j === top) return true;
+    const half = (t.centre - p.centre) / 2;
+    return half > 0 && studentTCdf(-half / p.scale, p.df) + studentTCdf(-half / t.scale, t.df) === 0;
+  });
+  if (separated) return ps.map((_, j) => (j === top ? 1 : 0));
+  throw new StatsError(
+    'not_available',
+    'mean, sd and count: the posteriors are too narrow (sd/√count) beside the size of the means to compute the ' +
+      'probabilities of being highest in double precision; subtract a common amount from every mean (e.g. their ' +
+      'average) so the means are smaller, or compare pairs with MEAN_PROB_ABOVE_CONTROL',
+  );
 }
 
 /** The one variant with spread among point masses, or undefined when there are two or more. */

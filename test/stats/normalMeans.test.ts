@@ -8,6 +8,7 @@
 import reference from '../reference/means/means_values.json';
 import signedRatio from '../reference/means/means_signed_ratio.json';
 import heavyTails from '../reference/means/means_heavy_tails.json';
+import manyMixed from '../reference/means/means_many_mixed.json';
 import pointMassHighest from '../reference/means/means_point_mass.json';
 import {
   meanDiffInterval,
@@ -158,6 +159,16 @@ describe('normalMeans against 50-digit mpmath', () => {
     );
   });
 
+  test('expected losses of 12 variants, counts 5 to 5e8, each in its own coordinate (scipy; means_many_mixed.py)', () => {
+    // Counts 5 to 8 are not log-concave in the shared coordinate, so the losses take the per-coordinate path:
+    // the top mean's loss integrated, the others as it plus the difference of means. scipy's quad at epsrel
+    // 1e-13 over the heavy nu = 4 tails: held to 1e-10 relative.
+    const got = meanExpectedLoss(manyMixed.variants);
+    manyMixed.expectedLoss.forEach((want, i) =>
+      expect(Math.abs((got[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * want),
+    );
+  });
+
   test('t quantiles at 1 and 2 degrees of freedom (closed forms in mpmath)', () => {
     // count 2, sd √2 → scale 1, ν = 1: the Cauchy quantile tan(π(p − ½)).
     const [cauchy] = meanInterval([{ count: 2, mean: 0, sd: Math.SQRT2 }], 0.95);
@@ -215,6 +226,26 @@ describe('normalMeans: a variant with sd = 0 is a point mass at its mean', () =>
       'not_available',
       "the control's mean could plausibly be zero or negative (100.0%), so a relative lift has no meaning; " +
         'use MEAN_DIFF_INTERVAL for the absolute difference',
+    );
+  });
+
+  test('posteriors at the rounding of their means: a mean 1e12 above the others wins with 1 (fuzz seed 41)', () => {
+    // Scales sd/√1e12 ≈ 3e-4, about 3 units in the last place of 1e12. Each other variant's chance of being
+    // above the top one is at most P(X_j > m) + P(X_top < m) at the midpoint m, ~1.5e15 scales out:
+    // scipy.stats.t.sf(999999999999 / 2 / scale, 1e12 − 1) = 0.0 for each of the four scales.
+    const sds = [410.48639520473546, 333.9214818445838, 297.39031255347436, 333.87821186756463];
+    const means = [-0, -0, 999999999999, -0];
+    const v = sds.map((sd, i) => ({ count: 1e12, mean: means[i] as number, sd }));
+    expect(meanProbHighest(v)).toEqual([0, 0, 1, 0]);
+    // Two means a third of a scale apart at 1e12 cannot be told apart in double precision: refused, naming
+    // the arguments and what to do.
+    const close = [v[0], { ...v[1], mean: 999999999999 }, { ...v[2], mean: 999999999998.9999 }] as MeanSummary[];
+    expectStatsErrorExact(
+      () => meanProbHighest(close),
+      'not_available',
+      'mean, sd and count: the posteriors are too narrow (sd/√count) beside the size of the means to compute the ' +
+        'probabilities of being highest in double precision; subtract a common amount from every mean (e.g. ' +
+        'their average) so the means are smaller, or compare pairs with MEAN_PROB_ABOVE_CONTROL',
     );
   });
 
