@@ -9,6 +9,7 @@
  * slope at 12 Chebyshev points) on pieces several standard deviations wide, so 3–20 pieces replace most of
  * those evaluations.
  */
+import { barycentric, chebyshevNodes } from './chebyshevNodes';
 import { StatsError } from './errors';
 import type { WorkingDensity } from './types';
 
@@ -65,10 +66,10 @@ const MODE_BUDGET = 80;
 const END_BUDGET = 120;
 const PIECE_BUDGET = 400;
 
-/** cos((2j + 1)π/(2M)) (the points, descending in [−1, 1]), the barycentric weights and the DCT table. */
-const ANGLES = Array.from({ length: POINTS }, (_, j) => ((2 * j + 1) * Math.PI) / (2 * POINTS));
-const CHEB_POINTS = Float64Array.from(ANGLES, (a) => Math.cos(a));
-const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(a));
+/** The POINTS first-kind Chebyshev points (descending in [−1, 1]), their angles and barycentric weights. */
+const NODES = chebyshevNodes(POINTS);
+const ANGLES = NODES.angles;
+const CHEB_POINTS = NODES.points;
 
 /**
  * Each piece is found from SAMPLES = POINTS/2 exact evaluations, value and slope at the first-kind Chebyshev
@@ -82,9 +83,9 @@ const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) 
  * interpolant at the 24 points by at most its own size, a slope by at most 0.1 of it times the half-width).
  */
 const SAMPLES = POINTS / 2;
-const SAMPLE_ANGLES = Array.from({ length: SAMPLES }, (_, j) => ((2 * j + 1) * Math.PI) / (2 * SAMPLES));
-const SAMPLE_POINTS = Float64Array.from(SAMPLE_ANGLES, (a) => Math.cos(a));
-const SAMPLE_WEIGHTS = Float64Array.from(SAMPLE_ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(a));
+const SAMPLE_NODES = chebyshevNodes(SAMPLES);
+const SAMPLE_ANGLES = SAMPLE_NODES.angles;
+const SAMPLE_POINTS = SAMPLE_NODES.points;
 
 /** Inverse of a square matrix (row-major, size n) by Gauss–Jordan elimination with partial pivoting. */
 function invert(m: Float64Array, n: number): Float64Array {
@@ -157,20 +158,6 @@ for (let i = 0; i < POINTS; i++) {
   }
 }
 
-/** Barycentric interpolation at the SAMPLES points (for the curvature, which is only needed roughly). */
-function interpolateSamples(values: Float64Array, t: number): number {
-  let numerator = 0;
-  let denominator = 0;
-  for (let j = 0; j < SAMPLES; j++) {
-    const d = t - (SAMPLE_POINTS[j] as number);
-    if (d === 0) return values[j] as number;
-    const w = (SAMPLE_WEIGHTS[j] as number) / d;
-    numerator += w * (values[j] as number);
-    denominator += w;
-  }
-  return numerator / denominator;
-}
-
 /**
  * A piece's Chebyshev coefficients and its log density, slope and curvature at the POINTS points, from its
  * data (values, then half-width × slopes at the SAMPLES points) and the curvature there. A function of its
@@ -199,7 +186,7 @@ function fitPiece(
     coefficients[i] = c;
     logDensity[i] = value;
     slope[i] = derivative / half;
-    curvature[i] = interpolateSamples(sampleCurvature, CHEB_POINTS[i] as number);
+    curvature[i] = barycentric(SAMPLE_NODES, sampleCurvature, CHEB_POINTS[i] as number);
   }
   return { coefficients, logDensity, slope, curvature };
 }
@@ -211,20 +198,6 @@ interface Piece {
   readonly logDensity: Float64Array;
   readonly slope: Float64Array;
   readonly curvature: Float64Array;
-}
-
-/** Barycentric interpolation (first-kind Chebyshev points; Berrut & Trefethen 2004) at t ∈ [−1, 1]. */
-function interpolate(values: Float64Array, t: number): number {
-  let numerator = 0;
-  let denominator = 0;
-  for (let j = 0; j < POINTS; j++) {
-    const d = t - (CHEB_POINTS[j] as number);
-    if (d === 0) return values[j] as number;
-    const w = (CHEB_WEIGHTS[j] as number) / d;
-    numerator += w * (values[j] as number);
-    denominator += w;
-  }
-  return numerator / denominator;
 }
 
 /**
@@ -440,8 +413,8 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const from = accepted ? right : a;
     const t = accepted ? 1 : -1;
     w = nextWidth(right - a, coefficients, accepted, from, {
-      depth: -interpolate(logDensity, t),
-      slope: interpolate(slope, t),
+      depth: -barycentric(NODES, logDensity, t),
+      slope: barycentric(NODES, slope, t),
       mode,
     });
     if (!accepted) continue;
@@ -477,7 +450,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
     const i = pieceOf(z);
     if (i < 0) return outside(beyond(z));
     const p = pieces[i] as Piece;
-    return interpolate(pick(p), (2 * z - p.left - p.right) / (p.right - p.left));
+    return barycentric(NODES, pick(p), (2 * z - p.left - p.right) / (p.right - p.left));
   };
   const density: WorkingDensity = {
     mode,
@@ -486,7 +459,7 @@ export function chebyshevDensity(exact: ExactDensity, logConcave = true): Workin
       const i = pieceOf(z);
       if (i < 0) return beyond(z).logDensity;
       const p = pieces[i] as Piece;
-      return interpolate(p.logDensity, (2 * z - p.left - p.right) / (p.right - p.left));
+      return barycentric(NODES, p.logDensity, (2 * z - p.left - p.right) / (p.right - p.left));
     },
     slope: (z: number): number =>
       at(

@@ -4,9 +4,10 @@
  * is evaluated exactly at a few Chebyshev points per piece of the grid and interpolated at the grid's
  * points, wherever a piece's Chebyshev coefficients show that the interpolant is accurate; elsewhere each
  * grid point is evaluated exactly. In v = log(1 + m) the log density is smooth across the whole grid (its
- * singularity at m = −1 becomes a straight tail), so at a thousand visitors one piece of 24 points stands
+ * singularity at m = −1 becomes a straight tail), so at a thousand visitors one piece of 16 points stands
  * for a hundred or a thousand rows.
  */
+import { barycentric, chebyshevNodes } from '../chebyshevNodes';
 import { gaussLegendre, logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
@@ -28,10 +29,10 @@ const POINTS = 16;
 const ACCEPT_ABSOLUTE = 1e-13;
 const ACCEPT_RELATIVE = 4e-16;
 
-/** cos((2j + 1)π/(2M)) (descending in [−1, 1]), the barycentric weights and the cosine table. */
-const ANGLES = Array.from({ length: POINTS }, (_, j) => ((2 * j + 1) * Math.PI) / (2 * POINTS));
-const CHEB_POINTS = Float64Array.from(ANGLES, (a) => Math.cos(a));
-const CHEB_WEIGHTS = Float64Array.from(ANGLES, (a, j) => (j % 2 === 0 ? 1 : -1) * Math.sin(a));
+/** The POINTS first-kind Chebyshev points (descending in [−1, 1]) with their weights, and the cosine table. */
+const NODES = chebyshevNodes(POINTS);
+const ANGLES = NODES.angles;
+const CHEB_POINTS = NODES.points;
 const COSINES = (() => {
   const table = new Float64Array(POINTS * POINTS);
   for (let k = 0; k < POINTS; k++)
@@ -48,20 +49,6 @@ function tailCoefficient(values: Float64Array): number {
     most = Math.max(most, Math.abs((2 / POINTS) * c));
   }
   return most;
-}
-
-/** Barycentric interpolation through the values at the first-kind Chebyshev points (Berrut & Trefethen 2004). */
-function interpolate(values: Float64Array, t: number): number {
-  let numerator = 0;
-  let denominator = 0;
-  for (let j = 0; j < POINTS; j++) {
-    const d = t - (CHEB_POINTS[j] as number);
-    if (d === 0) return values[j] as number;
-    const w = (CHEB_WEIGHTS[j] as number) / d;
-    numerator += w * (values[j] as number);
-    denominator += w;
-  }
-  return numerator / denominator;
 }
 
 /**
@@ -187,7 +174,7 @@ function fitPiece(logDensityAt: (m: number) => number, va: number, vb: number): 
 
 /** The interpolated log h at v inside the piece. */
 function pieceAt(piece: LogDensityPiece, v: number): number {
-  return interpolate(piece.values, Math.max(-1, Math.min(1, (v - piece.mid) / piece.half)));
+  return barycentric(NODES, piece.values, Math.max(-1, Math.min(1, (v - piece.mid) / piece.half)));
 }
 
 /** What ratioDensityGrid did: its densities and how many exact integrals they took. */
