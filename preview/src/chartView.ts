@@ -107,8 +107,10 @@ export function renderChart(
     const short = (v: number) => String(Number(v.toPrecision(3)));
     label(pad.left, height - pad.bottom + 14, short(x0), 'start');
     label(width - pad.right, height - pad.bottom + 14, short(x1), 'end');
-    label(pad.left - 4, pad.top + 8, short(y1), 'end');
-    label(pad.left - 4, height - pad.bottom, short(y0), 'end');
+    if (!chart.valueLabelsHidden) {
+      label(pad.left - 4, pad.top + 8, short(y1), 'end');
+      label(pad.left - 4, height - pad.bottom, short(y0), 'end');
+    }
     // The zero line: Excel's vertical axis crosses a scatter chart's x axis at 0 when 0 is in range.
     if (x0 < 0 && x1 > 0) {
       plot.append(svg('line', { x1: sx(0), y1: pad.top, x2: sx(0), y2: height - pad.bottom, class: 'axis zero-line' }));

@@ -13,6 +13,7 @@
  *   with everything below, or a null object), `activate()`, `delete()`, `copy('After', sheet)` (named
  *   "Name (2)"; placed at the end of the tabs, as HyperFormula cannot reorder sheets),
  *   `charts.add(type, range, seriesBy)` → Chart (`title.text`, `axes.categoryAxis/valueAxis.title.text`,
+ *   `axes.valueAxis.tickLabelPosition` ('None' hides the vertical axis's numbers),
  *   `setPosition(from, to)`, `name`),
  *   `charts.load('items/…')` → `items` with `name`, `top`, `left` (points) and `delete()`;
  *   `notes.getItemOrNullObject(a1)` (load `content`; `content` settable) and `notes.add(a1, text)`
@@ -634,8 +635,14 @@ class RangeFormatProxy {
 
 class ChartProxy {
   readonly title: { text: string };
-  /** The x (category) and y (value) axes' titles, as Office.js's chart.axes.categoryAxis/valueAxis.title.text. */
-  readonly axes: { categoryAxis: { title: { text: string } }; valueAxis: { title: { text: string } } };
+  /**
+   * The x (category) and y (value) axes' titles, as Office.js's chart.axes.categoryAxis/valueAxis.title.text, and
+   * the value axis's tickLabelPosition ('None' hides its numbers; the other positions draw them as before).
+   */
+  readonly axes: {
+    categoryAxis: { title: { text: string } };
+    valueAxis: { title: { text: string }; tickLabelPosition: string };
+  };
   private chartName = '';
   constructor(
     private readonly ctx: RequestContext,
@@ -657,7 +664,21 @@ class ChartProxy {
         },
       };
     };
-    this.axes = { categoryAxis: { title: axisTitle('x') }, valueAxis: { title: axisTitle('y') } };
+    let tickLabels = 'NextToAxis';
+    const valueAxis = {
+      title: axisTitle('y'),
+      get tickLabelPosition(): string {
+        return tickLabels;
+      },
+      set tickLabelPosition(value: string) {
+        tickLabels = String(value);
+        ctx.enqueue(() => {
+          self.chart().valueLabelsHidden = tickLabels === 'None';
+          ctx.book.chartsChanged();
+        });
+      },
+    };
+    this.axes = { categoryAxis: { title: axisTitle('x') }, valueAxis };
     let titleText = '';
     this.title = {
       get text(): string {

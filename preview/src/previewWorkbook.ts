@@ -35,6 +35,8 @@ export interface PreviewChart {
   title: string;
   /** Titles of the horizontal and vertical axes ("" when not set). */
   axisTitles: { x: string; y: string };
+  /** The vertical axis's tick labels are hidden (Office.js valueAxis.tickLabelPosition = 'None'). */
+  valueLabelsHidden: boolean;
   name: string;
   /** Top-left and bottom-right cells the chart covers. */
   position: { from: { row: number; col: number }; to: { row: number; col: number } };
@@ -386,6 +388,7 @@ export class PreviewWorkbook {
       const copy = this.addChart(id, chart.type, { ...chart.source, sheet: id });
       copy.title = chart.title;
       copy.axisTitles = { ...chart.axisTitles };
+      copy.valueLabelsHidden = chart.valueLabelsHidden;
       copy.position = { from: { ...chart.position.from }, to: { ...chart.position.to } };
     }
     if (this.batchDepth === 0) this.respill();
@@ -738,6 +741,7 @@ export class PreviewWorkbook {
       source,
       title: '',
       axisTitles: { x: '', y: '' },
+      valueLabelsHidden: false,
       name: `Chart ${id}`,
       position: {
         from: { row: source.row, col: source.col + source.columns + 1 },

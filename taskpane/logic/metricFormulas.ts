@@ -97,6 +97,8 @@ export interface MetricChart {
   readonly bottomRight: string;
   readonly title: string;
   readonly axisTitles: { readonly x: string; readonly y: string };
+  /** The heights only place each challenger's line: the vertical axis carries no numbers. */
+  readonly hideValueLabels: true;
 }
 
 /** A metric read-out block with its named cells and its chart. */
@@ -322,6 +324,7 @@ export function metricReadoutBlock(
       x: `Lift of ${CHART_NOUN[kind]} over the control (relative; 0% = no change)`,
       y: 'Challengers (low, median, high)',
     },
+    hideValueLabels: true,
   };
   names.chartSource = chart.source;
   const block: FormulaBlock = {

@@ -786,6 +786,7 @@ export function readoutSection(context: PanelContext): HTMLElement {
           type: 'XYScatterLines',
           title: built.chart.title,
           axisTitles: built.chart.axisTitles,
+          hideValueLabels: built.chart.hideValueLabels,
           topLeft: built.chart.topLeft,
           bottomRight: built.chart.bottomRight,
         });

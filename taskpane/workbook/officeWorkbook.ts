@@ -1034,6 +1034,8 @@ export function createOfficeWorkbook(
             chart.axes.categoryAxis.title.text = request.axisTitles.x;
             chart.axes.valueAxis.title.text = request.axisTitles.y;
           }
+          // ChartAxis.tickLabelPosition is in ExcelApi 1.7, below REQUIRED_API (1.12).
+          if (request.hideValueLabels === true) chart.axes.valueAxis.tickLabelPosition = 'None';
           chart.setPosition(request.topLeft, request.bottomRight);
           // The agreed subset reads a chart's name without load(); Office.js needs load('name') first.
           const loadable = typeof (chart as { load?: unknown }).load === 'function';

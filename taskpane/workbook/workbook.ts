@@ -177,6 +177,11 @@ export interface ChartRequest {
   readonly title: string;
   /** Titles of the horizontal (x) and vertical (y) axes, when given. */
   readonly axisTitles?: { readonly x: string; readonly y: string };
+  /**
+   * Leave the vertical axis without tick labels: for charts whose heights only place one line per series (the
+   * metric read-out's lift intervals), where numbers on that axis would mean nothing to a reader.
+   */
+  readonly hideValueLabels?: boolean;
   /** Local addresses of the cells the chart covers. */
   readonly topLeft: string;
   readonly bottomRight: string;

@@ -175,15 +175,28 @@ async function expectLiftChart(
       const c = handle.workbook.charts(id).find((x) => x.source.row === row && x.source.col === col);
       return c === undefined
         ? null
-        : { type: c.type, title: c.title, axisTitles: c.axisTitles, values: handle.workbook.values(c.source) };
+        : {
+            type: c.type,
+            title: c.title,
+            axisTitles: c.axisTitles,
+            valueLabelsHidden: c.valueLabelsHidden,
+            values: handle.workbook.values(c.source),
+          };
     },
     [where.sheet, source.start.row, source.start.column] as const,
   );
   if (found === null) throw new Error(`no chart over ${chart.source}`);
-  expect({ type: found.type, title: found.title, axisTitles: found.axisTitles }).toEqual({
+  expect({
+    type: found.type,
+    title: found.title,
+    axisTitles: found.axisTitles,
+    valueLabelsHidden: found.valueLabelsHidden,
+  }).toEqual({
     type: 'XYScatterLines',
     title: chart.title,
     axisTitles: chart.axisTitles,
+    // The heights only place each challenger's line: the vertical axis carries no numbers.
+    valueLabelsHidden: true,
   });
   const k = lifts.length + 1;
   const { points } = chartSeries(found.values);
@@ -199,6 +212,17 @@ async function expectLiftChart(
     [0, k],
   ]);
   await showFromTop(page, where.sheet, chart.topLeft);
+  // As drawn: the horizontal axis's two end labels and none on the vertical axis
+  const ticks = await page.evaluate(
+    (title) =>
+      Array.from(document.querySelectorAll('svg'))
+        .filter((element) => element.getAttribute('aria-label') === title)
+        .map((element) => element.querySelectorAll('text.tick').length),
+    chart.title,
+  );
+  // (an earlier read-out of the same kind on the sheet draws a second chart of the same title, drawn alike)
+  expect(ticks.length).toBeGreaterThan(0);
+  expect(ticks).toEqual(ticks.map(() => 2));
   await screenshot(page, `look-${shot}-chart`);
   await page.evaluate(() => {
     const element = document.getElementById('panel');

@@ -380,6 +380,8 @@ describe('the lift-interval chart of a metric read-out', () => {
         x: 'Lift of the average over the control (relative; 0% = no change)',
         y: 'Challengers (low, median, high)',
       },
+      // The heights 0…k only place each challenger's line: the vertical axis shows no numbers.
+      hideValueLabels: true,
     });
     // The chart lies inside the block's area, which findPlaces keeps free.
     const area = block.area as { rowCount: number; columnCount: number };

@@ -51,6 +51,8 @@ export interface MockChart {
   title: string;
   /** The x (category) and y (value) axes' titles, when the panel set them. */
   axisTitles?: { x: string; y: string };
+  /** The value axis's tickLabelPosition, when the panel set it ('None' hides the vertical axis's numbers). */
+  valueTickLabels?: string;
   position: [string, string] | null;
   name: string;
 }
@@ -679,7 +681,10 @@ export function mockExcel(sheets: string[]): MockExcel {
           const proxy: OfficeMockObject = new OfficeMockObject({
             name: chart.name,
             title: { text: '' },
-            axes: { categoryAxis: { title: { text: '' } }, valueAxis: { title: { text: '' } } },
+            axes: {
+              categoryAxis: { title: { text: '' } },
+              valueAxis: { title: { text: '' }, tickLabelPosition: 'NextToAxis' },
+            },
             setPosition: (start: string, end: string) => {
               position.value = [start, end];
             },
@@ -687,12 +692,15 @@ export function mockExcel(sheets: string[]): MockExcel {
           const initialTitle = proxy.title.text;
           const initialX = proxy.axes.categoryAxis.title.text;
           const initialY = proxy.axes.valueAxis.title.text;
+          const initialTicks = proxy.axes.valueAxis.tickLabelPosition;
           ops.push(() => {
             if (typeof proxy.title.text === 'string' && assigned(proxy.title.text, initialTitle))
               chart.title = proxy.title.text;
             const x = proxy.axes.categoryAxis.title.text;
             const y = proxy.axes.valueAxis.title.text;
             if (assigned(x, initialX) && assigned(y, initialY)) chart.axisTitles = { x: String(x), y: String(y) };
+            const ticks = proxy.axes.valueAxis.tickLabelPosition;
+            if (assigned(ticks, initialTicks)) chart.valueTickLabels = String(ticks);
             chart.position = position.value;
             chart.sheet = real(chart.sheet);
             charts.push(chart);

@@ -570,6 +570,23 @@ describe('charts and selection events', () => {
       source: 'A30:D38',
       axisTitles: { x: 'Lift of average over the control (relative; 0% = no change)', y: 'Challengers' },
     });
+    // Not asked to hide the vertical axis's numbers: its tick labels are left as Excel draws them.
+    expect(excel.charts[0]?.valueTickLabels).toBeUndefined();
+  });
+
+  test('insertChart with hideValueLabels leaves the vertical axis without numbers (tickLabelPosition None)', async () => {
+    const excel = mockExcel(['Sheet1']);
+    const outcome = await workbookOn(excel).insertChart({
+      sourceAddress: 'A30:D38',
+      type: 'XYScatterLines',
+      title: 'Lift over the control: credible intervals of average',
+      axisTitles: { x: 'Lift of average over the control (relative; 0% = no change)', y: 'Challengers' },
+      hideValueLabels: true,
+      topLeft: 'F30',
+      bottomRight: 'L47',
+    });
+    expect(outcome).toEqual({ kind: 'inserted', name: 'Chart 1' });
+    expect(excel.charts[0]).toMatchObject({ source: 'A30:D38', valueTickLabels: 'None' });
   });
 
   test('a failed chart sync is an outcome, not a rejection, and adds no chart', async () => {
