@@ -240,13 +240,18 @@ function nextWidth(tried: number, c: Float64Array, accepted: boolean, from: numb
   const scale = early * Math.pow(rho, 5);
   const s = (rho + 1 / rho) / 2;
   const most = accepted ? Infinity : 0.5;
+  // A piece that is a straight line to rounding (coefficients 2–5 below 1e-12 of the linear part, as in a
+  // power-law tail read in log R) tells nothing of ρ: its late coefficients are rounding noise, which made
+  // ρ look like 1 and kept every later piece as narrow as this one. Predicted instead from coefficients
+  // 2–5 growing like f^5 in a piece f times as wide (the higher ones stay at the noise).
+  const straight = accepted && early <= 1e-12 * Math.max(1, Math.abs(c[0] as number), Math.abs(c[1] as number));
   let chosen = WIDTH_LADDER[WIDTH_LADDER.length - 1] as number;
   for (const f of WIDTH_LADDER) {
     if (f > most) continue;
     const s2 = s / f;
-    if (s2 <= 1) continue;
-    const rho2 = s2 + Math.sqrt(s2 * s2 - 1);
-    const predicted = scale * Math.pow(rho2, -(POINTS - 4));
+    if (s2 <= 1 && !straight) continue;
+    const rho2 = s2 + Math.sqrt(Math.max(0, s2 * s2 - 1));
+    const predicted = straight ? early * Math.pow(f, 5) : scale * Math.pow(rho2, -(POINTS - 4));
     const width = f * tried;
     let nearest: number;
     if (from <= start.mode && from + width >= start.mode) nearest = 0;
