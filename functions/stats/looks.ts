@@ -80,6 +80,14 @@ const THRESHOLD_EXACT_WORK = 6e7;
  * the rate moves by ~1e-5 over it, less than the normal method's own error).
  */
 const THRESHOLD_TOLERANCE = 1e-4;
+/**
+ * When THRESHOLD_FOR_LOOKS can afford only two exact runs: the first is this far below the calibrated normal
+ * method's root on the Φ⁻¹(threshold) scale (that method is within 1e-3 of the exact rate, ~0.01–0.02 on this
+ * scale), the second this far above the corrected root (the correction's error, measured at 100 looks, is
+ * below 2e-4 on this scale).
+ */
+const TWO_RUN_MARGIN = 0.02;
+const TWO_RUN_AIM = 3e-4;
 
 /** Which method answered, with the probability of a first declaration at each look. */
 export interface LooksResult {
@@ -158,6 +166,8 @@ interface Plan {
   readonly windowsAt?: (k: number) => { a: BinomialWindow; b: BinomialWindow; tailsB: Float64Array };
   /** Cost of one run, in the unit of its budget. */
   readonly runCost: number;
+  /** normal: points per unit of the recursive integration's grid (brownianCrossing's r; 12 unless coarser). */
+  readonly grid?: number;
 }
 
 function exactBudget(looks: number): number {
@@ -198,7 +208,7 @@ function makePlan(
       prior,
       method: 'exact',
       lattices: lookLattices(looks, pA, pB, prior),
-      runCost: work.perRun,
+      runCost: work.perRun + LATTICE_WEIGHT * work.setup,
     };
   }
   return normalPlan(looks, pA, pB, prior, what, walkBudget, keepWindows);
@@ -272,6 +282,7 @@ function calibratedCrossing(
   looks: readonly number[],
   marginals: readonly number[],
   sides: 1 | 2,
+  grid?: number,
 ): { probability: number; byLook: number[] } {
   const upper = marginals.map(upperBound);
   const first = upper.findIndex((b) => b === -Infinity);
@@ -280,14 +291,14 @@ function calibratedCrossing(
     const before =
       first === 0
         ? { probability: 0, byLook: [] as number[] }
-        : calibratedCrossing(looks.slice(0, first), marginals.slice(0, first), sides);
+        : calibratedCrossing(looks.slice(0, first), marginals.slice(0, first), sides, grid);
     return {
       probability: 1,
       byLook: [...before.byLook, 1 - before.probability, ...looks.slice(first + 1).map(() => 0)],
     };
   }
   const lower = sides === 2 ? upper.map((b) => -b) : undefined;
-  return brownianCrossing(looks, upper, lower);
+  return brownianCrossing(looks, upper, lower, grid);
 }
 
 /** Evaluates a plan at a threshold: the probability that some look declares. */
@@ -303,7 +314,7 @@ function evaluate(plan: Plan, threshold: number, sides: 1 | 2, memo?: CrossingMe
     const w = windowsAt(k);
     return lookPower(n, w.a, w.b, threshold, plan.prior, w.tailsB);
   });
-  const r = calibratedCrossing(plan.looks, marginals, sides);
+  const r = calibratedCrossing(plan.looks, marginals, sides, plan.grid);
   return { ...r, method: 'normal' };
 }
 
@@ -378,14 +389,18 @@ export function powerWithLooks(
  * thresholds, all of which give the same rate (then at most falseAlarm, possibly below it). For the
  * largest plans of the exact method the search stops after the runs its budget allows: the threshold still
  * keeps the rate at or below falseAlarm (checked by an exact run) but may lie a little above the smallest.
+ * Where the budget allows only two exact runs, they are placed to bracket the root (the first 0.02 below the
+ * calibrated normal method's root on the Φ⁻¹ scale, the second 3e-4 above the root corrected by the exact
+ * rate measured at the first): on the benchmark's 100-look plans the threshold's rate is then 0.04994–0.04999
+ * for a target of 0.05, within 3e-4 on the Φ⁻¹ scale of the smallest threshold found by more runs.
  *
  * Method: the same method as falseAlarmWithLooks for the same looks (so falseAlarmWithLooks at the result
  * is ≤ falseAlarm). Normal method: a first guess from the normal limit (equal bounds z at every look,
  * Pocock 1977), then secant steps on Φ⁻¹(threshold) inside a bracket. Exact method: the root of the
  * calibrated normal method, corrected by its offset from the exact rate there, then secant steps and, once
  * few read-out probabilities lie in the bracket, a bisection over the steps of the rate.
- * Cost: 4–10 runs of the normal method, or 2 exact runs + up to 6e7 multiply-adds of exact runs, plus up to ~20
- * recursive integrations.
+ * Cost: 4–10 runs of the normal method, or 2 exact runs + up to 6e7 multiply-adds (a lattice point weighed as
+ * 10) of exact runs, plus up to ~20 recursive integrations (on the coarse grid for the exact method's model).
  * Throws StatsError('invalid_argument') as falseAlarmWithLooks, or for falseAlarm outside [1e-6, 0.5];
  * StatsError('not_available') when even the threshold 0.999999 gives more false alarms than asked.
  * @example thresholdForLooks(0.05, [1e6, 2e6, 3e6, 4e6, 5e6], 0.05, 2) //=> 0.99209… (Φ(2.413), Pocock's z for 5 looks)
@@ -506,17 +521,34 @@ function solveThreshold(plan: Plan, alpha: number, sides: 1 | 2): ThresholdSolut
   let last: { u: number; r: number };
   if (plan.method === 'exact') {
     // Predict with the calibrated normal method (cheap at these sizes), then correct it by its offset
-    // from the exact rate: the offset changes little over a small change of threshold.
-    const model = normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity, true);
+    // from the exact rate: the offset changes little over a small change of threshold. The model's
+    // integration runs on the coarse grid (~1e-5 from the fine one, a smooth error the offset absorbs).
+    const model = {
+      ...normalPlan(plan.looks, plan.pA, plan.pB, plan.prior, 'visitors_at_looks', Infinity, true),
+      grid: COARSE_GRID,
+    };
     const modelAt = (u: number): number => evaluate(model, normalCdf(u), sides).probability;
     const guess = normalLimitGuess(plan.looks, alpha, sides);
     const slope = normalLimitSlope(plan.looks, guess, sides);
     const first = solveModel(modelAt, alpha, guess, slope);
-    const u0 = first.u;
-    const r0 = visit(u0);
-    const u1 = clampU(solveModel(modelAt, alpha - (r0 - first.rate), u0, slope, first.rate).u, u0);
-    before = { u: u0, r: r0 };
-    last = { u: u1, r: visit(u1) };
+    if (allowed <= 2) {
+      // Two runs only (the largest plans): the first below the model's root by more than the model's error,
+      // so that its rate is above alpha; the second at the root corrected by the offset measured there,
+      // a little above it, so that its rate is at most alpha. The bracket is then found without a third.
+      const u0 = clampU(first.u - TWO_RUN_MARGIN, first.u);
+      const r0 = visit(u0);
+      const m0 = modelAt(u0);
+      const aim = solveModel(modelAt, alpha - (r0 - m0), first.u, slope, first.rate).u + TWO_RUN_AIM;
+      before = { u: u0, r: r0 };
+      const u1 = clampU(aim, u0);
+      last = { u: u1, r: visit(u1) };
+    } else {
+      const u0 = first.u;
+      const r0 = visit(u0);
+      const u1 = clampU(solveModel(modelAt, alpha - (r0 - first.rate), u0, slope, first.rate).u, u0);
+      before = { u: u0, r: r0 };
+      last = { u: u1, r: visit(u1) };
+    }
   } else {
     // A first guess from the normal limit, then one step by the normal limit's slope there.
     const u0 = normalLimitGuess(plan.looks, alpha, sides);

@@ -144,19 +144,31 @@ export function readOutValuesBetween(
 }
 
 /**
- * What a run leaves behind for the next one at another threshold: per look, its declaring columns and the
- * undeclared mass after it. A run whose first k looks declare at the same lattice points starts from the
- * stored state after look k (nearby thresholds usually differ only at a few looks).
+ * The undeclared mass of a run after a look: values on the look's window rectangle (a row per count x_A of
+ * windowA, a column per count x_B of windowB, row-major), of which only columns lo[i] … hi[i] of row i are
+ * meaningful (an empty row has hi < lo). Nothing outside the ranges is ever read, so no array is zeroed
+ * beyond the ranges a look writes: the declared side of the boundary and the windows' far corners cost
+ * nothing.
+ */
+interface RunState {
+  readonly values: Float64Array;
+  readonly lo: Int32Array;
+  readonly hi: Int32Array;
+}
+
+/**
+ * What a run leaves behind for the next one at another threshold: per look, its declaring columns, the
+ * undeclared state after it (copies, for the first looks within MEMO_STATES values) and the mass declared
+ * there. A run whose first k looks declare at the same lattice points starts from the stored state after
+ * look k (nearby thresholds often differ only at the later looks). It also keeps the run's arrays.
  */
 export interface CrossingMemo {
   sides?: 1 | 2;
   cuts: Int32Array[];
   lows: Int32Array[];
-  /** The state after each look, for the looks whose states fit MEMO_STATES (undefined beyond). */
-  states: (Float64Array | undefined)[];
-  firsts: Int32Array[];
-  lasts: Int32Array[];
+  states: (RunState | undefined)[];
   byLook: number[];
+  buffers?: RunBuffers;
 }
 
 /**
@@ -167,7 +179,7 @@ const MEMO_STATES = 1e6;
 
 /** An empty memo for {@link exactCrossing}. */
 export function crossingMemo(): CrossingMemo {
-  return { cuts: [], lows: [], states: [], firsts: [], lasts: [], byLook: [] };
+  return { cuts: [], lows: [], states: [], byLook: [] };
 }
 
 function sameColumns(a: Int32Array | undefined, b: Int32Array): boolean {
@@ -177,11 +189,80 @@ function sameColumns(a: Int32Array | undefined, b: Int32Array): boolean {
 }
 
 /**
+ * States below this probability at the ends of a row are not carried to the next look: at most ~1e6 states,
+ * so at most 1e-14 of probability is dropped per look (the corners of the windows hold ~1e-24 each).
+ */
+const NEGLIGIBLE_STATE = 1e-20;
+
+/**
+ * The arrays of a run, made once for the largest look and reused from look to look (and from run to run
+ * through a memo): two states in turn and the convolution's intermediate rows. Sized from the lattices, so
+ * a run allocates nothing per look; the second state and the intermediate are made only for two looks or more.
+ */
+class RunBuffers {
+  private readonly slots: (RunState | undefined)[] = [undefined, undefined];
+  private between?: RunState;
+  readonly rect: number;
+  readonly rows: number;
+  private readonly middleSize: number;
+
+  constructor(lattices: readonly LookLattice[]) {
+    let rect = 0;
+    let rows = 0;
+    let middle = 0;
+    let prevRows = 0;
+    for (const look of lattices) {
+      const r = look.windowA.hi - look.windowA.lo + 1;
+      const w = look.windowB.hi - look.windowB.lo + 1;
+      rect = Math.max(rect, r * w);
+      rows = Math.max(rows, r);
+      middle = Math.max(middle, prevRows * w);
+      prevRows = r;
+    }
+    this.rect = rect;
+    this.rows = rows;
+    this.middleSize = middle;
+  }
+
+  /** State slot 0 or 1. */
+  state(slot: number): RunState {
+    let s = this.slots[slot];
+    if (s === undefined) {
+      s = { values: new Float64Array(this.rect), lo: new Int32Array(this.rows), hi: new Int32Array(this.rows) };
+      this.slots[slot] = s;
+    }
+    return s;
+  }
+
+  /** The convolution's intermediate: the old rows on the new look's columns. */
+  middle(): RunState {
+    if (this.between === undefined) {
+      this.between = {
+        values: new Float64Array(this.middleSize),
+        lo: new Int32Array(this.rows),
+        hi: new Int32Array(this.rows),
+      };
+    }
+    return this.between;
+  }
+}
+
+/** A copy of the first `rows` rows of a state of `width` columns (for the memo). */
+function copyState(state: RunState, rows: number, width: number): RunState {
+  return {
+    values: state.values.slice(0, rows * width),
+    lo: state.lo.slice(0, rows),
+    hi: state.hi.slice(0, rows),
+  };
+}
+
+/**
  * The exact probability that some look declares a winner: the challenger when P(B beats A) ≥ threshold,
  * and with two sides also the control when P(A beats B) = 1 − P(B beats A) ≥ threshold. Also the
  * probability of a first declaration at each look. With a `memo`, the looks before the first one whose
  * declaring points differ from the memo's are not recomputed (and the memo is updated).
- * Cost: up to the `perRun` of {@link exactWork} multiply-adds.
+ * Cost: up to the `perRun` of {@link exactWork} multiply-adds, plus a few passes over the undeclared part
+ * of each look's window rectangle; memory: three arrays of the largest rectangle (and the memo's copies).
  */
 export function exactCrossing(
   lattices: readonly LookLattice[],
@@ -189,7 +270,7 @@ export function exactCrossing(
   sides: 1 | 2,
   memo?: CrossingMemo,
 ): { probability: number; byLook: number[] } {
-  // The declaring columns of every row at every look for this threshold: binary searches only.
+  // The declaring columns of every row at every look for this threshold: boundary walks only.
   const cuts: Int32Array[] = [];
   const lows: Int32Array[] = [];
   for (const look of lattices) {
@@ -209,66 +290,26 @@ export function exactCrossing(
     }
   }
   const byLook: number[] = memo !== undefined && start > 0 ? memo.byLook.slice(0, start) : [];
-  let state: Float64Array =
-    start > 0 ? ((memo as CrossingMemo).states[start - 1] as Float64Array) : new Float64Array(0);
-  let first: Int32Array = start > 0 ? ((memo as CrossingMemo).firsts[start - 1] as Int32Array) : new Int32Array(0);
-  let last: Int32Array = start > 0 ? ((memo as CrossingMemo).lasts[start - 1] as Int32Array) : new Int32Array(0);
+  const buffers = memo?.buffers ?? new RunBuffers(lattices);
+  if (memo !== undefined) memo.buffers = buffers;
+  let state: RunState | undefined = start > 0 ? (memo as CrossingMemo).states[start - 1] : undefined;
   let kept = 0; // state values the memo holds
-  for (let k = 0; k < start; k++) kept += ((memo as CrossingMemo).states[k] as Float64Array).length;
-  const scratch = new Scratch();
-  if (memo !== undefined) {
-    // The memo's states from `start` on are replaced by this run: their arrays are reused for it.
-    for (let k = start; k < memo.states.length; k++) {
-      const replaced = memo.states[k];
-      if (replaced !== undefined) scratch.release(replaced);
-      memo.states[k] = undefined;
-    }
-  }
-  let owned = false; // whether `state` is this run's to reuse (not the memo's)
+  for (let k = 0; k < start; k++) kept += ((memo as CrossingMemo).states[k] as RunState).values.length;
+  if (memo !== undefined) memo.states.length = start;
+  let slot = 0;
   for (let k = start; k < lattices.length; k++) {
     const look = lattices[k] as LookLattice;
-    const { windowA, windowB } = look;
-    const rows = windowA.hi - windowA.lo + 1;
-    const width = windowB.hi - windowB.lo + 1;
-    let next: Float64Array;
-    if (k === 0) {
-      next = scratch.array(rows * width);
-      for (let i = 0; i < rows; i++) {
-        const a = windowA.pmf[i] as number;
-        for (let j = 0; j < width; j++) next[i * width + j] = a * (windowB.pmf[j] as number);
-      }
-    } else {
-      next = propagate(state, first, last, lattices[k - 1] as LookLattice, look, scratch);
-      if (owned) scratch.release(state);
-    }
-    // Declarations at this look.
-    let declared = 0;
-    first = new Int32Array(rows);
-    last = new Int32Array(rows);
-    const cut = cuts[k] as Int32Array;
-    const low = lows[k] as Int32Array;
-    for (let i = 0; i < rows; i++) {
-      const row = i * width;
-      for (let j = cut[i] as number; j < width; j++) {
-        declared += next[row + j] as number;
-        next[row + j] = 0;
-      }
-      for (let j = 0; j <= (low[i] as number); j++) {
-        declared += next[row + j] as number;
-        next[row + j] = 0;
-      }
-      first[i] = (low[i] as number) + 1;
-      last[i] = (cut[i] as number) - 1;
-    }
-    byLook.push(declared);
+    const rows = look.windowA.hi - look.windowA.lo + 1;
+    const width = look.windowB.hi - look.windowB.lo + 1;
+    const next = buffers.state(slot);
+    if (k === 0) firstLook(look, next);
+    else propagate(state as RunState, lattices[k - 1] as LookLattice, look, buffers.middle(), next);
+    byLook.push(declare(next, rows, width, cuts[k] as Int32Array, lows[k] as Int32Array));
     state = next;
-    owned = true;
-    if (memo !== undefined) {
-      kept += next.length;
-      memo.states[k] = kept <= MEMO_STATES ? next : undefined;
-      owned = memo.states[k] === undefined;
-      memo.firsts[k] = first;
-      memo.lasts[k] = last;
+    slot = 1 - slot;
+    if (memo !== undefined && kept + rows * width <= MEMO_STATES) {
+      kept += rows * width;
+      memo.states[k] = copyState(next, rows, width);
     }
   }
   if (memo !== undefined) {
@@ -276,57 +317,58 @@ export function exactCrossing(
     memo.cuts = cuts;
     memo.lows = lows;
     memo.byLook = byLook.slice();
-    memo.states.length = lattices.length;
   }
   let total = 0;
   for (const p of byLook) total += p;
   return { probability: Math.min(Math.max(total, 0), 1), byLook };
 }
 
-/**
- * States below this probability at the ends of a row are not carried to the next look: at most ~1e6 states,
- * so at most 1e-14 of probability is dropped per look (the corners of the windows hold ~1e-24 each).
- */
-const NEGLIGIBLE_STATE = 1e-20;
-
-/**
- * The arrays of one run, reused from look to look (zeroed) instead of made afresh: a 100-look run would
- * otherwise make 200 arrays of the lattice's size for the collector.
- */
-class Scratch {
-  private between = new Float64Array(0);
-  private spare: Float64Array[] = [];
-
-  /** The convolution's intermediate array, zeroed (valid until the next call). */
-  middle(size: number): Float64Array {
-    if (this.between.length < size) this.between = new Float64Array(size);
-    return this.between.subarray(0, size).fill(0);
-  }
-
-  /** A zeroed state array, from a released one when it is large enough. */
-  array(size: number): Float64Array {
-    const spare = this.spare.pop();
-    if (spare !== undefined && spare.length >= size) return spare.subarray(0, size).fill(0);
-    return new Float64Array(size);
-  }
-
-  /** Gives back a state array no longer needed (its whole buffer). */
-  release(values: Float64Array): void {
-    this.spare.push(
-      new Float64Array(values.buffer, values.byteOffset, values.buffer.byteLength / 8 - values.byteOffset / 8),
-    );
+/** The state at the first look: the product of both windows' pmfs, every row full. */
+function firstLook(look: LookLattice, into: RunState): void {
+  const { windowA, windowB } = look;
+  const rows = windowA.hi - windowA.lo + 1;
+  const width = windowB.hi - windowB.lo + 1;
+  const values = into.values;
+  for (let i = 0; i < rows; i++) {
+    const a = windowA.pmf[i] as number;
+    const row = i * width;
+    for (let j = 0; j < width; j++) values[row + j] = a * (windowB.pmf[j] as number);
+    into.lo[i] = 0;
+    into.hi[i] = width - 1;
   }
 }
 
-/** Moves the undeclared mass of look `from` to look `to`: convolution along x_B, then along x_A. */
-function propagate(
-  state: Float64Array,
-  first: Int32Array,
-  last: Int32Array,
-  from: LookLattice,
-  to: LookLattice,
-  scratch: Scratch,
-): Float64Array {
+/**
+ * The declarations of a look: the mass of each row at columns ≥ cut[i] and ≤ low[i] is declared (summed and
+ * taken out of the row's range); the range is then trimmed of negligible ends. Returns the mass declared.
+ */
+function declare(state: RunState, rows: number, width: number, cut: Int32Array, low: Int32Array): number {
+  const { values, lo, hi } = state;
+  let declared = 0;
+  for (let i = 0; i < rows; i++) {
+    const row = i * width;
+    let a = lo[i] as number;
+    let b = hi[i] as number;
+    const c = cut[i] as number;
+    const l = low[i] as number;
+    for (let j = Math.max(a, c); j <= b; j++) declared += values[row + j] as number;
+    if (b >= c) b = c - 1;
+    const end = Math.min(b, l);
+    for (let j = a; j <= end; j++) declared += values[row + j] as number;
+    if (a <= l) a = l + 1;
+    while (a <= b && (values[row + a] as number) < NEGLIGIBLE_STATE) a++;
+    while (b >= a && (values[row + b] as number) < NEGLIGIBLE_STATE) b--;
+    lo[i] = a;
+    hi[i] = b;
+  }
+  return declared;
+}
+
+/**
+ * Moves the undeclared mass of look `from` to look `to` (into `next`): convolution along x_B into `middle`,
+ * then along x_A. Only the rows' ranges are read, and only the ranges written are zeroed first.
+ */
+function propagate(state: RunState, from: LookLattice, to: LookLattice, middle: RunState, next: RunState): void {
   const stepA = to.stepA as BinomialWindow;
   const stepB = to.stepB as BinomialWindow;
   const rowsFrom = from.windowA.hi - from.windowA.lo + 1;
@@ -337,19 +379,26 @@ function propagate(
   const kA = stepA.pmf;
   const lenB = kB.length;
   const lenA = kA.length;
+  const source = state.values;
+  const between = middle.values;
+  const midLo = middle.lo;
+  const midHi = middle.hi;
   // Along x_B: column j of the old window moves to column j + shiftB + m of the new one.
   const shiftB = from.windowB.lo - to.windowB.lo + stepB.lo;
-  const middle = scratch.middle(rowsFrom * widthTo);
-  const rowFirst = new Int32Array(rowsFrom).fill(widthTo);
-  const rowLast = new Int32Array(rowsFrom).fill(-1);
   for (let i = 0; i < rowsFrom; i++) {
     const src = i * widthFrom;
     const dst = i * widthTo;
-    // The row's undeclared mass, without its negligible ends.
-    let j0 = first[i] as number;
-    let j1 = last[i] as number;
-    while (j0 <= j1 && (state[src + j0] as number) < NEGLIGIBLE_STATE) j0++;
-    while (j1 >= j0 && (state[src + j1] as number) < NEGLIGIBLE_STATE) j1--;
+    const j0 = state.lo[i] as number;
+    const j1 = state.hi[i] as number;
+    const c0 = Math.max(j0 + shiftB, 0);
+    const c1 = Math.min(j1 + shiftB + lenB - 1, widthTo - 1);
+    midLo[i] = c0;
+    midHi[i] = c1;
+    if (j0 > j1 || c0 > c1) {
+      midHi[i] = -1;
+      continue;
+    }
+    between.fill(0, dst + c0, dst + c1 + 1);
     // One term of the kernel at a time over the whole row (an inner loop over columns, however short the kernel).
     for (let m = 0; m < lenB; m++) {
       const shift = shiftB + m;
@@ -358,17 +407,38 @@ function propagate(
       if (a > b) continue;
       const k = kB[m] as number;
       const out = dst + shift;
-      for (let j = a; j <= b; j++) middle[out + j] = (middle[out + j] as number) + k * (state[src + j] as number);
-      if (a + shift < (rowFirst[i] as number)) rowFirst[i] = a + shift;
-      if (b + shift > (rowLast[i] as number)) rowLast[i] = b + shift;
+      for (let j = a; j <= b; j++) between[out + j] = (between[out + j] as number) + k * (source[src + j] as number);
     }
   }
-  // Along x_A: row i of the old window moves to row i + shiftA + m of the new one.
+  // Along x_A: row i of the old window moves to row i + shiftA + m of the new one. The new rows' ranges are
+  // the unions of the rows that reach them; those ranges are zeroed, then filled.
   const shiftA = from.windowA.lo - to.windowA.lo + stepA.lo;
-  const next = scratch.array(rowsTo * widthTo);
+  const values = next.values;
+  const lo = next.lo;
+  const hi = next.hi;
+  lo.fill(widthTo, 0, rowsTo);
+  hi.fill(-1, 0, rowsTo);
   for (let i = 0; i < rowsFrom; i++) {
-    const c0 = rowFirst[i] as number;
-    const c1 = rowLast[i] as number;
+    const c0 = midLo[i] as number;
+    const c1 = midHi[i] as number;
+    if (c0 > c1) continue;
+    const base = i + shiftA;
+    const m0 = Math.max(0, -base);
+    const m1 = Math.min(lenA - 1, rowsTo - 1 - base);
+    for (let m = m0; m <= m1; m++) {
+      const r = base + m;
+      if (c0 < (lo[r] as number)) lo[r] = c0;
+      if (c1 > (hi[r] as number)) hi[r] = c1;
+    }
+  }
+  for (let r = 0; r < rowsTo; r++) {
+    const c0 = lo[r] as number;
+    const c1 = hi[r] as number;
+    if (c0 <= c1) values.fill(0, r * widthTo + c0, r * widthTo + c1 + 1);
+  }
+  for (let i = 0; i < rowsFrom; i++) {
+    const c0 = midLo[i] as number;
+    const c1 = midHi[i] as number;
     if (c0 > c1) continue;
     const src = i * widthTo;
     const base = i + shiftA;
@@ -377,8 +447,7 @@ function propagate(
     for (let m = m0; m <= m1; m++) {
       const k = kA[m] as number;
       const dst = (base + m) * widthTo;
-      for (let j = c0; j <= c1; j++) next[dst + j] = (next[dst + j] as number) + k * (middle[src + j] as number);
+      for (let j = c0; j <= c1; j++) values[dst + j] = (values[dst + j] as number) + k * (between[src + j] as number);
     }
   }
-  return next;
 }

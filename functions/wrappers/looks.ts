@@ -93,7 +93,7 @@ export function powerWithLooks(
  * @param [prior_alpha] Prior alpha used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_beta).
  * @param [prior_beta] Prior beta used in the read-out, 0.001 to 1E+6 (optional; default 1, give together with prior_alpha).
  * @returns A threshold between 0.5 and 0.999999: declare at a look only when PROB_ABOVE_CONTROL reaches it.
- * @method Solves: the false-alarm rate with these looks at the threshold equals the rate asked, by the same method as that rate (so the rate at the result is at most the one asked), to 0.0001 on the normal-quantile scale of the threshold; for small tests the rate moves in steps and the middle of the step reached is returned. With large looks it is the constant boundary of Pocock (1977).
+ * @method Solves: the false-alarm rate with these looks at the threshold equals the rate asked, by the same method as that rate (so the rate at the result is at most the one asked), to 0.0001 on the normal-quantile scale of the threshold; for small tests the rate moves in steps and the middle of the step reached is returned. For the largest exactly enumerated plans two exact runs are taken: the rate at the result is then within about 0.0001 below the rate asked. With large looks it is the constant boundary of Pocock (1977).
  * @source S. J. Pocock, "Group sequential methods in the design and analysis of clinical trials", Biometrika 64 (1977); C. Jennison and B. W. Turnbull, Group Sequential Methods (2000), ch. 2 and 19.
  * @example =ABTEST.THRESHOLD_FOR_LOOKS(0.05, {1000000;2000000;3000000;4000000;5000000}, 0.05, 2) returns 0.99209
  * @crosscheck =NORM.S.DIST(2.413, TRUE) gives 0.99209, Pocock's two-sided boundary for 5 equally spaced looks.

@@ -2,6 +2,7 @@ import { brownianCrossing } from '../../functions/stats/brownianCrossing';
 import { normalCdf } from '../../functions/stats/special/normal';
 import { thrownStatsError } from '../helpers/assertions';
 import values from '../reference/looks/looks_values.json';
+import close from '../reference/looks/looks_close.json';
 
 const spaced = (k: number): number[] => Array.from({ length: k }, (_, i) => i + 1);
 const Z975 = 1.959963984540054;
@@ -32,6 +33,19 @@ describe('brownianCrossing against scipy multivariate normal (test/reference/loo
       const lower = c.lower === null ? undefined : c.lower.map((v) => (v === null ? -Infinity : v));
       const got = brownianCrossing(c.times, c.upper, lower).probability;
       expect(Math.abs(got - c.rate)).toBeLessThan(2e-6 + c.spread);
+    },
+  );
+});
+
+describe('brownianCrossing with looks close together (test/reference/looks/looks_close.py: scipy multivariate normal)', () => {
+  // Looks 1e-6 to 1e-2 of their size apart: each step's kernel is narrower than the integration grid, where
+  // the quadratic pieces take over from Simpson's rule. Measured within 3e-5 of scipy (mean of 3 seeds).
+  it.each(close.cases.map((c) => [c.times.length, c.times.at(-1)! - 1, c.sides, c] as const))(
+    '%p looks spanning %p of the first, %p side(s)',
+    (K, _span, sides, c) => {
+      const upper = Array(K).fill(c.z);
+      const got = brownianCrossing(c.times, upper, sides === 2 ? upper.map((z) => -z) : undefined).probability;
+      expect(Math.abs(got - c.rate)).toBeLessThan(4e-5 + c.spread);
     },
   );
 });

@@ -138,6 +138,19 @@ describe('looks: properties', () => {
     expect(falseAlarmWithLooks(0.1, spaced(5, 200), 0.95, 2).probability).toBeGreaterThan(five);
   });
 
+  it('looks a visitor apart at a million visitors add little to one look (the normal method joins close looks)', () => {
+    // 100 looks spanning 1e-4 of their size: in the normal limit 0.0507 (scipy, looks_close.py: 5 such looks
+    // 0.05057); Simpson's rule alone on the integration grid answered 1 here.
+    const looks = Array.from({ length: 100 }, (_, i) => 1e6 + i);
+    const many = crossingWithLooks(0.5, 0.5, looks, 0.95, 1, UNIFORM, 'normal');
+    const one = decisionPower(0.5, 0, 1e6, 0.95);
+    expect(many.probability).toBeGreaterThan(one);
+    expect(many.probability).toBeLessThan(one + 0.002);
+    const auto = falseAlarmWithLooks(0.5, looks, 0.95, 2);
+    expect(auto.method).toBe('normal');
+    expect(auto.probability).toBeLessThan(2 * one + 0.004);
+  });
+
   it('POWER_WITH_LOOKS with lift 0 is the one-sided false-alarm rate', () => {
     const a = powerWithLooks(0.04, 0, spaced(4, 500));
     const b = falseAlarmWithLooks(0.04, spaced(4, 500));
