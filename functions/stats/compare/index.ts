@@ -16,8 +16,10 @@ export {
   highestProbabilities,
   highestProbabilityIntegrals,
   logProbabilityGreater,
+  mappedHighestProbabilities,
   probabilityGreater,
 } from './ranking';
+export type { CoordinateMap } from './sharedHighest';
 export { expectedLosses } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
