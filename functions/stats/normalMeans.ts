@@ -22,6 +22,7 @@ import {
   differenceQuantile,
   expectedLosses,
   highestProbabilities,
+  mappedExpectedLosses,
   mappedHighestProbabilities,
   probabilityGreater,
   signedRatioCdf,
@@ -202,11 +203,6 @@ function tabulateShared(ps: readonly MeanPosterior[]): TabulatedDistribution[] |
   return tables;
 }
 
-/** The posteriors tabulated for a comparison of all of them: shared coordinate where it holds, else each its own. */
-function tabulateForComparison(ps: readonly MeanPosterior[]): TabulatedDistribution[] {
-  return tabulateShared(ps) ?? ps.map(tabulateOne);
-}
-
 /** The centre C and scale S of the coordinate w shared by a comparison, x = C + S·sinh(w) (see tabulateShared). */
 function sharedFrame(ps: readonly MeanPosterior[]): { centre: number; scale: number } {
   let lo = Infinity;
@@ -242,6 +238,32 @@ function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number 
       Math.abs(u) > FAR_W ? Math.sign(u) * (Math.abs(u) - logB) : Math.asinh(back + ratio * Math.sinh(u)),
     logSlope: (w: number): number => logB + logCosh(w) - logCosh(toOwn(w)),
   };
+}
+
+/**
+ * Expected losses of three or more posteriors that do not all fit the shared coordinate: each tabulated in its
+ * own u, on one grid in the shared w through coordinateMap (compare/losses.ts mappedExpectedLosses,
+ * O(k × nodes)); when that grid is over its budget, the pruned integrals of expectedLosses.
+ */
+function separateLosses(ps: readonly MeanPosterior[]): number[] {
+  const frame = sharedFrame(ps);
+  const tables = ps.map(tabulateOne);
+  if (Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0) {
+    const value = {
+      toValue: (w: number): number => frame.centre + frame.scale * Math.sinh(w),
+      valueJacobian: (w: number): number => frame.scale * Math.cosh(w),
+    };
+    try {
+      return mappedExpectedLosses(
+        tables,
+        ps.map((p) => coordinateMap(p, frame)),
+        value,
+      );
+    } catch (error) {
+      if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
+    }
+  }
+  return expectedLosses(tables);
 }
 
 /**
@@ -555,7 +577,8 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
     return ps.map((p) => (isPoint(p) ? top - p.centre + upperMoment : lowerMoment));
   }
   if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
-  return expectedLosses(tabulateForComparison(ps));
+  const shared = tabulateShared(ps);
+  return shared !== undefined || ps.length < 3 ? expectedLosses(shared ?? ps.map(tabulateOne)) : separateLosses(ps);
 }
 
 /**

@@ -20,7 +20,8 @@ export {
   probabilityGreater,
 } from './ranking';
 export type { CoordinateMap } from './sharedHighest';
-export { expectedLosses } from './losses';
+export { expectedLosses, mappedExpectedLosses } from './losses';
+export type { ValueFrame } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
 export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';

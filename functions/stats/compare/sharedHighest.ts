@@ -107,7 +107,7 @@ const MAPPED_WIDTH = 1;
  * at its own nodes. Outside its window a posterior's F is 0 or 1 to the window's tail mass (~e^-200) and
  * constrains nothing. Cost: O(k) per piece; at most maxGridCells / k pieces (else StatsError('not_available')).
  */
-function mappedPieces(
+export function mappedPieces(
   ds: readonly TabulatedDistribution[],
   maps: readonly CoordinateMap[],
   maxGridCells: number,
@@ -145,11 +145,11 @@ function mappedPieces(
   return edges;
 }
 
-/** The mapped grid could not be laid within its budget (the caller falls back to the per-variant integrals). */
+/** The mapped grid could not be laid within its budget (the callers fall back to the per-variant integrals). */
 function mappedGridFailed(k: number): StatsError {
   return new StatsError(
     'not_available',
-    `the probabilities of being highest of these ${k} variants need a finer comparison grid than one calculation may use`,
+    `these ${k} variants need a finer comparison grid than one calculation may use`,
   );
 }
 
