@@ -22,6 +22,8 @@ import {
   differenceQuantile,
   expectedLosses,
   highestProbabilities,
+  mappedExpectedLosses,
+  mappedHighestProbabilities,
   probabilityGreater,
   signedRatioCdf,
   signedRatioQuantile,
@@ -31,6 +33,7 @@ import type { LossDecision } from './decisionRule';
 import { ensure, StatsError } from './errors';
 import { tabulate } from './quadrature';
 import type { TabulatedDistribution } from './quadrature';
+import type { CoordinateMap } from './compare';
 import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
 import { findRoot } from './numeric';
 import { studentTCdf, studentTQuantile } from './special/studentT';
@@ -183,16 +186,7 @@ function sharedTableHolds(t: TabulatedDistribution): boolean {
  * and undefined is returned when any fails, for the caller to use each posterior's own coordinate.
  */
 function tabulateShared(ps: readonly MeanPosterior[]): TabulatedDistribution[] | undefined {
-  let lo = Infinity;
-  let hi = -Infinity;
-  let widest = 0;
-  for (const p of ps) {
-    lo = Math.min(lo, p.centre);
-    hi = Math.max(hi, p.centre);
-    widest = Math.max(widest, p.scale);
-  }
-  const centre = lo + (hi - lo) / 2;
-  const scale = Math.max(SHARED_SCALE_MIN * widest, (hi - lo) / 4);
+  const { centre, scale } = sharedFrame(ps);
   if (!(Number.isFinite(centre) && Number.isFinite(scale) && scale > 0)) return undefined;
   const coordinate = `asinh((x - ${centre})/${scale})`;
   const tables: TabulatedDistribution[] = [];
@@ -209,9 +203,84 @@ function tabulateShared(ps: readonly MeanPosterior[]): TabulatedDistribution[] |
   return tables;
 }
 
-/** The posteriors tabulated for a comparison of all of them: shared coordinate where it holds, else each its own. */
-function tabulateForComparison(ps: readonly MeanPosterior[]): TabulatedDistribution[] {
-  return tabulateShared(ps) ?? ps.map(tabulateOne);
+/** The centre C and scale S of the coordinate w shared by a comparison, x = C + S·sinh(w) (see tabulateShared). */
+function sharedFrame(ps: readonly MeanPosterior[]): { centre: number; scale: number } {
+  let lo = Infinity;
+  let hi = -Infinity;
+  let widest = 0;
+  for (const p of ps) {
+    lo = Math.min(lo, p.centre);
+    hi = Math.max(hi, p.centre);
+    widest = Math.max(widest, p.scale);
+  }
+  return { centre: lo + (hi - lo) / 2, scale: Math.max(SHARED_SCALE_MIN * widest, (hi - lo) / 4) };
+}
+
+/**
+ * A t posterior's own coordinate u (value = centre + scale·sinh u, studentTDensity.ts) read from the
+ * comparison's shared w (value = C + S·sinh w): u = asinh(a + b·sinh w) with a = (C − centre)/scale and
+ * b = S/scale formed once (no value is formed, so no digits are lost to a large mean, as in sharedTDensity),
+ * w = asinh((centre − C)/S + (scale/S)·sinh u), and du/dw = b·cosh w / cosh u. Beyond |w| or |u| = FAR_W
+ * (sinh would overflow) the exponential forms |u| = |w| + log b and back (a and the other terms are below
+ * e^-300 of them there).
+ */
+function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number }): CoordinateMap {
+  const a = (frame.centre - p.centre) / p.scale;
+  const b = frame.scale / p.scale;
+  const back = (p.centre - frame.centre) / frame.scale;
+  const ratio = p.scale / frame.scale;
+  const logB = Math.log(b);
+  const toOwn = (w: number): number =>
+    Math.abs(w) > FAR_W ? Math.sign(w) * (Math.abs(w) + logB) : Math.asinh(a + b * Math.sinh(w));
+  return {
+    toOwn,
+    fromOwn: (u: number): number =>
+      Math.abs(u) > FAR_W ? Math.sign(u) * (Math.abs(u) - logB) : Math.asinh(back + ratio * Math.sinh(u)),
+    logSlope: (w: number): number => logB + logCosh(w) - logCosh(toOwn(w)),
+  };
+}
+
+/**
+ * Expected losses of three or more posteriors that do not all fit the shared coordinate: each tabulated in its
+ * own u, on one grid in the shared w through coordinateMap (compare/losses.ts mappedExpectedLosses,
+ * O(k × nodes)); when that grid is over its budget, the pruned integrals of expectedLosses.
+ */
+function separateLosses(ps: readonly MeanPosterior[]): number[] {
+  const frame = sharedFrame(ps);
+  const tables = ps.map(tabulateOne);
+  if (Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0) {
+    const value = {
+      toValue: (w: number): number => frame.centre + frame.scale * Math.sinh(w),
+      valueJacobian: (w: number): number => frame.scale * Math.cosh(w),
+    };
+    try {
+      return mappedExpectedLosses(
+        tables,
+        ps.map((p) => coordinateMap(p, frame)),
+        value,
+      );
+    } catch (error) {
+      if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
+    }
+  }
+  return expectedLosses(tables);
+}
+
+/**
+ * P(highest) of posteriors that do not all fit the shared coordinate (heavy tails narrower than the others'
+ * spread): each tabulated in its own u, integrated on one grid in the shared w through coordinateMap
+ * (compare/sharedHighest.ts mappedHighestIntegrals, O(k × nodes)).
+ */
+function separateHighest(ps: readonly MeanPosterior[]): number[] {
+  const frame = sharedFrame(ps);
+  const tables = ps.map(tabulateOne);
+  if (!(Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0)) {
+    return highestProbabilities(tables);
+  }
+  return mappedHighestProbabilities(
+    tables,
+    ps.map((p) => coordinateMap(p, frame)),
+  );
 }
 
 /** P(μ ≤ x) for one posterior (a step for a point mass), through the t distribution function. */
@@ -275,7 +344,8 @@ function mixedPointMassError(ps: readonly MeanPosterior[], what: string): StatsE
  * sd = 0 the one with spread wins with its t probability of exceeding the largest exact mean. Accuracy 1e-9 absolute
  * or better against scipy.integrate.quad. The posteriors are tabulated in one shared coordinate where each
  * is log-concave in it (tabulateShared; in practice counts of about 100 and more), so every cdf is read at
- * the base's nodes directly; otherwise each in its own. Cost: one tabulation per variant plus O(k²) panel sums.
+ * the base's nodes directly; otherwise each in its own, read on one grid in the shared coordinate through
+ * the map between the two (separateHighest). Cost: one tabulation per variant plus O(k × grid nodes).
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') when two or more variants with spread sit beside one with sd = 0.
  * @example meanProbHighest([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }])
@@ -286,7 +356,8 @@ export function meanProbHighest(variants: readonly MeanSummary[]): number[] {
   const points = ps.filter(isPoint).length;
   if (points === 0) {
     try {
-      return highestProbabilities(tabulateForComparison(ps));
+      const shared = tabulateShared(ps);
+      return shared !== undefined ? highestProbabilities(shared) : separateHighest(ps);
     } catch (error) {
       if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
       return separatedHighest(ps);
@@ -506,7 +577,8 @@ export function meanExpectedLoss(variants: readonly MeanSummary[]): number[] {
     return ps.map((p) => (isPoint(p) ? top - p.centre + upperMoment : lowerMoment));
   }
   if (points > 0) throw mixedPointMassError(ps, 'an expected loss');
-  return expectedLosses(tabulateForComparison(ps));
+  const shared = tabulateShared(ps);
+  return shared !== undefined || ps.length < 3 ? expectedLosses(shared ?? ps.map(tabulateOne)) : separateLosses(ps);
 }
 
 /**

@@ -9,6 +9,7 @@ import reference from '../reference/means/means_values.json';
 import signedRatio from '../reference/means/means_signed_ratio.json';
 import heavyTails from '../reference/means/means_heavy_tails.json';
 import manyMixed from '../reference/means/means_many_mixed.json';
+import highestMixed from '../reference/means/means_highest_mixed.json';
 import pointMassHighest from '../reference/means/means_point_mass.json';
 import {
   meanDiffInterval,
@@ -160,13 +161,42 @@ describe('normalMeans against 50-digit mpmath', () => {
   });
 
   test('expected losses of 12 variants, counts 5 to 5e8, each in its own coordinate (scipy; means_many_mixed.py)', () => {
-    // Counts 5 to 8 are not log-concave in the shared coordinate, so the losses take the per-coordinate path:
-    // the top mean's loss integrated, the others as it plus the difference of means. scipy's quad at epsrel
-    // 1e-13 over the heavy nu = 4 tails: held to 1e-10 relative.
+    // Counts 5 to 8 are not log-concave in the shared coordinate, so each posterior keeps its own and the
+    // losses are integrated on one grid read through the maps between the coordinates (compare/losses.ts
+    // mappedExpectedLosses). scipy's quad at epsrel 1e-13 over the heavy nu = 4 tails: held to 1e-10 relative.
     const got = meanExpectedLoss(manyMixed.variants);
     manyMixed.expectedLoss.forEach((want, i) =>
       expect(Math.abs((got[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-10 * want),
     );
+  });
+
+  test('P(highest) of 50 variants, counts 2 to 1e8, each in its own coordinate (scipy; means_highest_mixed.py)', () => {
+    // The bench's 50 uneven averages: Cauchy-like and very narrow posteriors together, on the mapped grid
+    // (compare/sharedHighest.ts mappedHighestIntegrals). scipy's quad at epsrel 1e-12 in each variant's own
+    // asinh variable: 1e-9 absolute everywhere, 1e-9 relative above 1e-100 (the tabulated windows reach the
+    // tails to ~1e-100; below that a probability may come out 0, as one of about 8e-184 does here).
+    const got = meanProbHighest(highestMixed.variants);
+    highestMixed.probHighest.forEach((want, i) => {
+      const value = got[i] ?? NaN;
+      expect(Math.abs(value - want)).toBeLessThanOrEqual(1e-9);
+      if (want > 1e-100) expect(Math.abs(value - want)).toBeLessThanOrEqual(1e-9 * want);
+    });
+  });
+
+  test('expected losses do not depend on a common shift of the means, at 1e12 (translation of the model)', () => {
+    // Sixteen variants, counts 10 to 6e8, every mean equal: each loss is E[max] − mean, the same for all, and
+    // the posteriors are those of mean 0 moved by 1e12 (the t location family; common practice). Held to
+    // 1e-9 relative beside the answer at mean 0 (the grid never forms a value, so 1e12 costs no digits).
+    const counts = [74590, 13, 13, 14, 12, 13, 647454875, 10, 90, 10, 10, 85843043, 14, 20943, 10, 13];
+    const sds = [19.8, 23.1, 26.0, 24.2, 18.4, 25.9, 24.7, 23.8, 22.7, 26.0, 19.4, 18.5, 21.6, 21.5, 21.8, 20.5];
+    const at = (mean: number): number[] =>
+      meanExpectedLoss(counts.map((count, i) => ({ count, mean, sd: sds[i] as number })));
+    const far = at(1e12);
+    const near = at(0);
+    near.forEach((want, i) => {
+      expect(Math.abs((far[i] ?? NaN) - want)).toBeLessThanOrEqual(1e-9 * want);
+      expect(Math.abs(want - (near[0] as number))).toBeLessThanOrEqual(1e-12 * want);
+    });
   });
 
   test('t quantiles at 1 and 2 degrees of freedom (closed forms in mpmath)', () => {

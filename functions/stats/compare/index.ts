@@ -16,9 +16,12 @@ export {
   highestProbabilities,
   highestProbabilityIntegrals,
   logProbabilityGreater,
+  mappedHighestProbabilities,
   probabilityGreater,
 } from './ranking';
-export { expectedLosses } from './losses';
+export type { CoordinateMap } from './sharedHighest';
+export { expectedLosses, mappedExpectedLosses } from './losses';
+export type { ValueFrame } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
 export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';

@@ -3,6 +3,7 @@
  * pruned integrals of integrate.ts (two posteriors, or posteriors in different coordinates) or on one
  * grid shared by all of them (sharedGridLosses, three or more in one coordinate).
  */
+import { StatsError } from '../errors';
 import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
@@ -10,6 +11,37 @@ import { factor } from './factors';
 import type { Factor } from './factors';
 import { PRUNE, checkList, logIntegral } from './integrate';
 import { MAX_GRID_CELLS, cdfOneFrom, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
+import { mappedPieces } from './sharedHighest';
+import type { CoordinateMap } from './sharedHighest';
+
+/** The value and dx/dw of a grid's coordinate w (a table's own source when the tables share it). */
+export interface ValueFrame {
+  toValue(w: number): number;
+  valueJacobian(w: number): number;
+}
+
+/** The grid's edges read in each table's own coordinate, and the maps that read its nodes (none: shared). */
+interface GridReading {
+  readonly own: readonly Float64Array[];
+  readonly maps: readonly CoordinateMap[] | undefined;
+  readonly frame: ValueFrame;
+}
+
+/** Adds log F_j at the grid points (w) to row, through table j's map when there is one. */
+function addLogCdfAt(
+  d: TabulatedDistribution,
+  map: CoordinateMap | undefined,
+  points: Float64Array,
+  scratch: Float64Array,
+  row: Float64Array,
+): void {
+  if (map === undefined) {
+    d.addLogTailsAt(points, 0, points.length, row, false);
+    return;
+  }
+  for (let q = 0; q < points.length; q++) scratch[q] = map.toOwn(points[q] as number);
+  d.addLogTailsAt(scratch, 0, points.length, row, false);
+}
 
 /**
  * Expected loss of choosing each variant: loss_i = E[max_j X_j − X_i] = ∫ F_i (1 − Π_{j≠i} F_j) dx.
@@ -88,14 +120,65 @@ function directLoss(ds: readonly TabulatedDistribution[], i: number): number {
  *     running total (as in logIntegral), the others' product formed only where it is not negligible.
  */
 function sharedGridLosses(ds: readonly TabulatedDistribution[], maxGridCells: number): number[] {
-  const k = ds.length;
   const edges = sharedPieces(ds, maxGridCells);
+  const own = Float64Array.from(edges);
   const tails = tailBoundsAtEdges(ds, edges);
-  const { bound, best } = pieceBounds(ds, edges, tails.cdf, tails.sf);
+  const reading = { own: ds.map(() => own), maps: undefined, frame: (ds[0] as TabulatedDistribution).source };
+  return gridLosses(ds, edges, tails.cdf, tails.sf, reading);
+}
+
+/**
+ * The expected losses of posteriors each tabulated in its own coordinate, on one grid in a coordinate w
+ * common to all (maps[i] reads table i's coordinate at w; frame gives the value and dx/dw at w): the grid of
+ * sharedHighest.ts mappedPieces, then the four steps of sharedGridLosses with every table read through its
+ * map. O(k × nodes) instead of the O(k²)–O(k³) pruned integrals (the Normal model's t posteriors whose heavy
+ * tails do not fit one shared coordinate, normalMeans.ts). Throws StatsError('invalid_argument') for an empty
+ * list or maps of another length, StatsError('not_available') when the grid would exceed maxGridCells.
+ */
+export function mappedExpectedLosses(
+  ds: readonly TabulatedDistribution[],
+  maps: readonly CoordinateMap[],
+  frame: ValueFrame,
+  maxGridCells = MAX_GRID_CELLS,
+): number[] {
+  checkList(ds);
+  if (maps.length !== ds.length) {
+    throw new StatsError('invalid_argument', `${maps.length} coordinate maps for ${ds.length} posteriors`);
+  }
+  if (ds.length === 1) return [0];
+  const edges = mappedPieces(ds, maps, maxGridCells);
+  const k = ds.length;
+  const own = ds.map((_, j) => {
+    const map = maps[j] as CoordinateMap;
+    return Float64Array.from(edges, (w) => map.toOwn(w));
+  });
+  const cdf = new Float64Array(edges.length * k);
+  const sf = new Float64Array(edges.length * k);
+  ds.forEach((d, j) => {
+    const column = tailBoundsAtEdges([d], own[j] as Float64Array);
+    for (let e = 0; e < edges.length; e++) {
+      cdf[e * k + j] = column.cdf[e] as number;
+      sf[e * k + j] = column.sf[e] as number;
+    }
+  });
+  return gridLosses(ds, edges, cdf, sf, { own, maps, frame });
+}
+
+/** Steps 2–4 of sharedGridLosses on a grid read through `reading` (the tails' bounds at its edges given). */
+function gridLosses(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+  edgeCdf: Float64Array,
+  edgeSf: Float64Array,
+  reading: GridReading,
+): number[] {
+  const k = ds.length;
+  const tails = { cdf: edgeCdf, sf: edgeSf };
+  const { bound, best } = pieceBounds(edges, tails.cdf, tails.sf, k, reading.frame);
   // The losses far from 0 as E[max] − mean_i (when every mean is exact), the others integrated.
   const byDifference = new Array<number | undefined>(k).fill(undefined);
   if (ds.every((d) => d.source.exactMean !== undefined)) {
-    const { value, scale } = expectedMaximum(ds, edges, tails.cdf);
+    const { value, scale } = expectedMaximum(ds, edges, tails.cdf, reading);
     ds.forEach((d, i) => {
       const loss = value - d.mean;
       if (loss >= DIFFERENCE_FROM * scale) byDifference[i] = loss;
@@ -108,7 +191,7 @@ function sharedGridLosses(ds: readonly TabulatedDistribution[], maxGridCells: nu
     best[i] = 0;
   });
   const order = visitOrder(bound, best, pieces, k);
-  const totals = integratePieces(ds, edges, bound, tails.cdf, order);
+  const totals = integratePieces(ds, edges, bound, tails.cdf, order, reading);
   return totals.map((t, i) => byDifference[i] ?? Math.exp(t));
 }
 
@@ -130,11 +213,14 @@ function expectedMaximum(
   ds: readonly TabulatedDistribution[],
   edges: readonly number[],
   edgeCdf: Float64Array,
+  reading: GridReading,
 ): { value: number; scale: number } {
   const k = ds.length;
   const n = PANEL_ORDER;
-  const src = (ds[0] as TabulatedDistribution).source;
+  const src = reading.frame;
   const one = ds.map(cdfOneFrom);
+  const own = reading.own;
+  const scratch = new Float64Array(n);
   const points = new Float64Array(n);
   const sums = new Float64Array(n);
   const values = new Float64Array(n);
@@ -152,7 +238,7 @@ function expectedMaximum(
     let changing = false;
     for (let j = 0; j < k; j++) {
       if ((edgeCdf[(s + 1) * k + j] as number) <= PRODUCT_NEGLIGIBLE) negligible = true;
-      if (a < (one[j] as number)) changing = true;
+      if (((own[j] as Float64Array)[s] as number) < (one[j] as number)) changing = true;
     }
     if (negligible) {
       add(src.toValue(b) - src.toValue(a));
@@ -166,7 +252,8 @@ function expectedMaximum(
       sums[q] = 0;
     }
     for (let j = 0; j < k; j++) {
-      if (a < (one[j] as number)) (ds[j] as TabulatedDistribution).addLogTailsAt(points, 0, n, sums, false);
+      if (((own[j] as Float64Array)[s] as number) >= (one[j] as number)) continue;
+      addLogCdfAt(ds[j] as TabulatedDistribution, reading.maps?.[j], points, scratch, sums);
     }
     for (let q = 0; q < n; q++) {
       const total = sums[q] as number;
@@ -188,14 +275,13 @@ function expectedMaximum(
  * variant's largest bound, best[i].
  */
 function pieceBounds(
-  ds: readonly TabulatedDistribution[],
   edges: readonly number[],
   edgeCdf: Float64Array,
   edgeSf: Float64Array,
+  k: number,
+  src: ValueFrame,
 ): { bound: Float64Array; best: Float64Array } {
-  const k = ds.length;
   const pieces = edges.length - 1;
-  const src = (ds[0] as TabulatedDistribution).source;
   const edgeOthersSf = new Float64Array(edges.length * k);
   const logSf = new Float64Array(k);
   const sumScratch = new Float64Array(k + 1);
@@ -270,10 +356,11 @@ function integratePieces(
   bound: Float64Array,
   edgeCdf: Float64Array,
   order: readonly number[],
+  reading: GridReading,
 ): number[] {
   const k = ds.length;
   const n = PANEL_ORDER;
-  const src = (ds[0] as TabulatedDistribution).source;
+  const src = reading.frame;
   const totals = new Array<number>(k).fill(-Infinity);
   const need = new Uint8Array(k);
   const logF = new Float64Array(k * n);
@@ -314,7 +401,10 @@ function integratePieces(
     for (let j = 0; j < k; j++) {
       if (!full && need[j] === 0) continue;
       const row = rows[j] as Float64Array;
-      for (let q = 0; q < n; q++) row[q] = (ds[j] as TabulatedDistribution).logCdfAt(points[q] as number);
+      const map = reading.maps?.[j];
+      const d = ds[j] as TabulatedDistribution;
+      if (map === undefined) for (let q = 0; q < n; q++) row[q] = d.logCdfAt(points[q] as number);
+      else for (let q = 0; q < n; q++) row[q] = d.logCdfAt(map.toOwn(points[q] as number));
     }
     for (let q = 0; q < n; q++) {
       if (full) {

@@ -8,7 +8,8 @@ import type { TabulatedDistribution } from '../quadrature';
 import { factor } from './factors';
 import { checkList, logIntegral, xIsBase } from './integrate';
 import type { LogTails } from './integrate';
-import { sharedHighestIntegrals } from './sharedHighest';
+import { mappedHighestIntegrals, sharedHighestIntegrals } from './sharedHighest';
+import type { CoordinateMap } from './sharedHighest';
 
 /**
  * log P(X > Y) and log P(Y > X): the one expected to be smaller (that the lower-mean variable is above
@@ -115,6 +116,37 @@ export function highestProbabilityIntegrals(ds: readonly TabulatedDistribution[]
  */
 export function highestProbabilities(ds: readonly TabulatedDistribution[]): number[] {
   const raw = highestProbabilityIntegrals(ds);
+  let sum = 0;
+  for (const r of raw) sum += r;
+  if (!(sum > 0)) throw new StatsError('not_available', 'the probabilities of being highest could not be computed');
+  return raw.map((r) => r / sum);
+}
+
+/**
+ * P(X_i is the highest) for each i of posteriors each tabulated in its own coordinate, read through maps
+ * into a coordinate w common to all (maps[i] gives table i's coordinate at w): one grid for all of them
+ * (sharedHighest.ts mappedHighestIntegrals, O(k × nodes)), divided by their sum. When that grid would be
+ * over its budget (a posterior too narrow for w's doubles), the per-variant integrals of
+ * highestProbabilityIntegrals instead. Two posteriors take the per-variant integrals directly.
+ * Throws StatsError('invalid_argument') for an empty list or maps of another length.
+ */
+export function mappedHighestProbabilities(
+  ds: readonly TabulatedDistribution[],
+  maps: readonly CoordinateMap[],
+): number[] {
+  checkList(ds);
+  if (maps.length !== ds.length) {
+    throw new StatsError('invalid_argument', `${maps.length} coordinate maps for ${ds.length} posteriors`);
+  }
+  let raw: number[] | undefined;
+  if (ds.length >= 3) {
+    try {
+      raw = mappedHighestIntegrals(ds, maps);
+    } catch (error) {
+      if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
+    }
+  }
+  if (raw === undefined) return highestProbabilities(ds);
   let sum = 0;
   for (const r of raw) sum += r;
   if (!(sum > 0)) throw new StatsError('not_available', 'the probabilities of being highest could not be computed');

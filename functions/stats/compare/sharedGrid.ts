@@ -190,7 +190,7 @@ function narrowestPanels(
  */
 export function tailBoundsAtEdges(
   ds: readonly TabulatedDistribution[],
-  edges: readonly number[],
+  edges: ArrayLike<number>,
 ): { cdf: Float64Array; sf: Float64Array } {
   const k = ds.length;
   const cdf = new Float64Array(edges.length * k);

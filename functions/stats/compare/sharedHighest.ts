@@ -1,10 +1,13 @@
 /**
- * P(each is highest) of three or more posteriors sharing one working coordinate, on one grid for all of
- * them (sharedGrid.ts): at each node log F_j of every posterior that is not 1 there is read once, and each
- * variant's integrand f_i Π_{j≠i} F_j takes the product of the others from prefix and suffix sums of those
- * logs (never a total minus one term, so an exact zero needs no care). The work is O(k × nodes) instead of
- * the O(k² × nodes) of integrating each variant on its own panels against k − 1 factors (ranking.ts).
+ * P(each is highest) of three or more posteriors on one grid for all of them: at each node log F_j of every
+ * posterior that is not 1 there is read once, and each variant's integrand f_i Π_{j≠i} F_j takes the product
+ * of the others from prefix and suffix sums of those logs (never a total minus one term, so an exact zero
+ * needs no care). The work is O(k × nodes) instead of the O(k² × nodes) of integrating each variant on its
+ * own panels against k − 1 factors (ranking.ts). Two ways in: posteriors sharing one working coordinate
+ * (sharedHighestIntegrals, the grid of sharedGrid.ts), or posteriors each in its own coordinate read through
+ * a coordinate w common to all (mappedHighestIntegrals, the grid of mappedPieces).
  */
+import { StatsError } from '../errors';
 import { logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
@@ -24,6 +27,19 @@ const SPLIT_SCALE = 3.2;
 const ACTIVE_CHANGE = 0.01;
 
 /**
+ * A posterior's own working coordinate z seen from a coordinate w common to several posteriors (both
+ * increasing functions of the value): mappedHighestIntegrals reads each table through it.
+ */
+export interface CoordinateMap {
+  /** The own coordinate z at w (increasing). */
+  toOwn(w: number): number;
+  /** Its inverse: w at z. */
+  fromOwn(z: number): number;
+  /** log dz/dw at w. */
+  logSlope(w: number): number;
+}
+
+/**
  * The raw integrals ∫ f_i Π_{j≠i} F_j dz (before normalising) of posteriors sharing one working
  * coordinate, on the shared grid. Four steps:
  *  1. the grid (sharedPieces) and, at each of its edges, an upper bound of every log F from the tables'
@@ -41,30 +57,141 @@ const ACTIVE_CHANGE = 0.01;
  * grid would exceed MAX_GRID_CELLS (outside the documented domain; ranking.ts then integrates per variant).
  */
 export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], maxGridCells = MAX_GRID_CELLS): number[] {
+  const edges = sharedPieces(ds, maxGridCells);
+  const own = Float64Array.from(edges);
+  return gridIntegrals(
+    ds,
+    edges,
+    ds.map(() => own),
+    undefined,
+  );
+}
+
+/**
+ * The same raw integrals ∫ f_i Π_{j≠i} F_j of posteriors each tabulated in its own coordinate z_i, on one
+ * grid in a coordinate w common to all (maps[i] reads z_i at w): the Normal model's t posteriors, whose
+ * heavy tails do not fit one shared coordinate (normalMeans.ts). Each table is read at z_i(w) and its
+ * density in w is g_i(z_i(w))·dz_i/dw. The grid (mappedPieces) keeps every piece's image in every z_j
+ * within one unit and within the narrowest panel of z_j there, so each integrand is smooth on its pieces
+ * (see mappedPieces); the bounds, order and integrals are then those of sharedHighestIntegrals, the
+ * tables' values at the pieces' edges and nodes read through the maps.
+ * Cost: O(pieces × k) map evaluations and bounds, then per integrated piece 16 × (factors not 1 there +
+ * variants in need) maps and interpolations; pieces ≤ maxGridCells / k. Throws
+ * StatsError('not_available') when the grid would exceed that (the caller then integrates per variant).
+ */
+export function mappedHighestIntegrals(
+  ds: readonly TabulatedDistribution[],
+  maps: readonly CoordinateMap[],
+  maxGridCells = MAX_GRID_CELLS,
+): number[] {
+  const edges = mappedPieces(ds, maps, maxGridCells);
+  const own = ds.map((_, j) => {
+    const map = maps[j] as CoordinateMap;
+    return Float64Array.from(edges, (w) => map.toOwn(w));
+  });
+  return gridIntegrals(ds, edges, own, maps);
+}
+
+/** Widest piece of the mapped grid, in w and in each posterior's own coordinate (as GAP_WIDTH of sharedGrid.ts). */
+const MAPPED_WIDTH = 1;
+
+/**
+ * The edges (in w) of the grid shared by posteriors in their own coordinates: from the leftmost window end
+ * to the rightmost, each step the largest that keeps the piece within MAPPED_WIDTH in w and, for every
+ * posterior whose window it lies in, its image in z_j within MAPPED_WIDTH and within the width of the panel
+ * of z_j at its left end; every window end is an edge. Why this resolves the integrand: z_j(w) is analytic
+ * with its nearest singularity about 1/(dz_j/dw) from a real w (for the t posteriors, where
+ * centre + scale·sinh z_j is complex: z_j = asinh(a + b sinh w) at a + b sinh w = ±i), so a piece whose
+ * image is at most one unit wide lies at least its own width from it (Bernstein ellipse ρ ≥ 2 + √5, the
+ * 16-point rule's error ~ρ^-32 ≈ 1e-20), and within one panel's width the table's interpolant is as good as
+ * at its own nodes. Outside its window a posterior's F is 0 or 1 to the window's tail mass (~e^-200) and
+ * constrains nothing. Cost: O(k) per piece; at most maxGridCells / k pieces (else StatsError('not_available')).
+ */
+export function mappedPieces(
+  ds: readonly TabulatedDistribution[],
+  maps: readonly CoordinateMap[],
+  maxGridCells: number,
+): number[] {
+  const k = ds.length;
+  const lo = ds.map((d, j) => (maps[j] as CoordinateMap).fromOwn(d.windowLeft));
+  const hi = ds.map((d, j) => (maps[j] as CoordinateMap).fromOwn(d.windowRight));
+  const cuts = [...lo, ...hi].sort((u, v) => u - v);
+  let w = cuts[0] as number;
+  const end = cuts[cuts.length - 1] as number;
+  if (!(Number.isFinite(w) && Number.isFinite(end) && end > w)) throw mappedGridFailed(k);
+  const edges: number[] = [w];
+  const panel = new Int32Array(k);
+  let c = 0;
+  while (w < end) {
+    while (c < cuts.length && (cuts[c] as number) <= w) c++;
+    let next = Math.min(w + MAPPED_WIDTH, c < cuts.length ? (cuts[c] as number) : end);
+    for (let j = 0; j < k; j++) {
+      if (!((lo[j] as number) <= w && w < (hi[j] as number))) continue;
+      const d = ds[j] as TabulatedDistribution;
+      const map = maps[j] as CoordinateMap;
+      const z = map.toOwn(w);
+      let p = panel[j] as number;
+      while (p < d.panelCount - 1 && (d.edges[p + 1] as number) <= z) p++;
+      panel[j] = p;
+      const h = Math.min(MAPPED_WIDTH, (d.edges[p + 1] as number) - (d.edges[p] as number));
+      next = Math.min(next, map.fromOwn(z + h));
+    }
+    // A step lost to rounding (a posterior too narrow for w's doubles) cannot be resolved on this grid.
+    if (!(next > w)) throw mappedGridFailed(k);
+    edges.push(next);
+    w = next;
+    if (edges.length * k > maxGridCells) throw mappedGridFailed(k);
+  }
+  return edges;
+}
+
+/** The mapped grid could not be laid within its budget (the callers fall back to the per-variant integrals). */
+function mappedGridFailed(k: number): StatsError {
+  return new StatsError(
+    'not_available',
+    `these ${k} variants need a finer comparison grid than one calculation may use`,
+  );
+}
+
+/**
+ * Steps 2–4 of sharedHighestIntegrals on a grid with edges `edges` (in the common coordinate) that are
+ * own[j] in table j's coordinate; `maps` reads the tables at the nodes (undefined: the tables share the
+ * grid's coordinate and are read directly, bit for bit as before the mapped grid existed).
+ */
+function gridIntegrals(
+  ds: readonly TabulatedDistribution[],
+  edges: readonly number[],
+  own: readonly Float64Array[],
+  maps: readonly CoordinateMap[] | undefined,
+): number[] {
   const k = ds.length;
   const n = PANEL_ORDER;
-  const edges = sharedPieces(ds, maxGridCells);
   const pieces = edges.length - 1;
   const one = ds.map(cdfOneFrom);
   // The first index of each distinct table: only those are integrated.
   const firstOf = ds.map((d) => ds.indexOf(d));
 
   // 1. Upper bounds of log F at the edges (tailBoundsAtEdges), 0 from the point where F is 1.
-  const edgeCdf = tailBoundsAtEdges(ds, edges).cdf;
+  const edgeCdf = new Float64Array(edges.length * k);
   for (let j = 0; j < k; j++) {
-    for (let e = 0; e < edges.length; e++) if ((edges[e] as number) >= (one[j] as number)) edgeCdf[e * k + j] = 0;
+    const at = own[j] as Float64Array;
+    const column = tailBoundsAtEdges([ds[j] as TabulatedDistribution], at).cdf;
+    for (let e = 0; e < edges.length; e++) {
+      edgeCdf[e * k + j] = (at[e] as number) >= (one[j] as number) ? 0 : (column[e] as number);
+    }
   }
+  // Whether factor j is 1 on piece s (from its left edge on).
+  const isOne = (j: number, s: number): boolean => ((own[j] as Float64Array)[s] as number) >= (one[j] as number);
 
   // 2. Piece bounds: bound[s·k + i] (−Infinity where i is not integrated on s). First, per piece, the sum of
   // log F at its right edge over the factors not 1 on it, the −Infinity ones counted apart.
   const finite = new Float64Array(pieces);
   const zeros = new Int32Array(pieces);
   for (let s = 0; s < pieces; s++) {
-    const a = edges[s] as number;
     let sum = 0;
     let count = 0;
     for (let j = 0; j < k; j++) {
-      if (a >= (one[j] as number)) continue;
+      if (isOne(j, s)) continue;
       const v = edgeCdf[(s + 1) * k + j] as number;
       if (v === -Infinity) count += 1;
       else sum += v;
@@ -77,6 +204,7 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
   for (let i = 0; i < k; i++) {
     if (firstOf[i] !== i) continue;
     const d = ds[i] as TabulatedDistribution;
+    const at = own[i] as Float64Array;
     const left = d.windowLeft;
     const right = d.windowRight;
     const last = d.panelCount - 1;
@@ -84,16 +212,16 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
     let pa = 0;
     let pb = 0;
     for (let s = 0; s < pieces; s++) {
-      const a = edges[s] as number;
-      const b = edges[s + 1] as number;
+      const a = at[s] as number;
+      const b = at[s + 1] as number;
       if (b <= left) continue;
       if (a >= right) break;
       let others = finite[s] as number;
       let otherZeros = zeros[s] as number;
-      if (a < (one[i] as number)) {
-        const own = edgeCdf[(s + 1) * k + i] as number;
-        if (own === -Infinity) otherZeros -= 1;
-        else others -= own;
+      if (!isOne(i, s)) {
+        const mine = edgeCdf[(s + 1) * k + i] as number;
+        if (mine === -Infinity) otherZeros -= 1;
+        else others -= mine;
       }
       if (otherZeros > 0) continue;
       while (pa < last && (d.edges[pa + 1] as number) <= a) pa++;
@@ -126,6 +254,7 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
   const rows = Array.from({ length: k }, (_, f) => logF.subarray(f * n, f * n + n));
   const values = new Float64Array(k * n);
   const points = new Float64Array(n);
+  const mapped = new Float64Array(n);
   const prefix = new Float64Array(k + 1);
   const suffix = new Float64Array(k + 1);
   for (const s of order) {
@@ -142,7 +271,7 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
     let active = 0;
     for (let j = 0; j < k; j++) {
       position[j] = -1;
-      if (a >= (one[j] as number)) continue;
+      if (isOne(j, s)) continue;
       position[j] = factors.length;
       factors.push(j);
       const change = (edgeCdf[(s + 1) * k + j] as number) - (edgeCdf[s * k + j] as number);
@@ -157,11 +286,18 @@ export function sharedHighestIntegrals(ds: readonly TabulatedDistribution[], max
       for (let f = 0; f < m; f++) {
         const row = rows[f] as Float64Array;
         row.fill(0);
-        (ds[factors[f] as number] as TabulatedDistribution).addLogTailsAt(points, 0, n, row, false);
+        const j = factors[f] as number;
+        const map = maps === undefined ? undefined : (maps[j] as CoordinateMap);
+        if (map !== undefined) for (let q = 0; q < n; q++) mapped[q] = map.toOwn(points[q] as number);
+        (ds[j] as TabulatedDistribution).addLogTailsAt(map === undefined ? points : mapped, 0, n, row, false);
       }
       for (const i of need) {
         const d = ds[i] as TabulatedDistribution;
-        for (let q = 0; q < n; q++) values[i * n + q] = d.logDensityAt(points[q] as number);
+        const map = maps === undefined ? undefined : (maps[i] as CoordinateMap);
+        for (let q = 0; q < n; q++) {
+          const w = points[q] as number;
+          values[i * n + q] = map === undefined ? d.logDensityAt(w) : d.logDensityAt(map.toOwn(w)) + map.logSlope(w);
+        }
       }
       for (let q = 0; q < n; q++) {
         prefix[0] = 0;
