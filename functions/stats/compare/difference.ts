@@ -81,7 +81,11 @@ export function differenceQuantile(y: TabulatedDistribution, x: TabulatedDistrib
   const mx = x.median;
   const spread = Math.hypot(qy - my, qx - mx);
   const start = my - mx + (upperHalf ? spread : -spread);
-  return solveQuantile((d, upper) => differenceTailAndDensity(y, x, d, upper), p, start, bracket);
+  // Rates piled up against 0 put quantiles anywhere down to ~1e-300: split brackets geometrically, and
+  // resolve a root at 0 to 1e-300.
+  const evaluate = (d: number, upper: boolean): TailAndDensity => differenceTailAndDensity(y, x, d, upper);
+  const q = solveQuantile(evaluate, p, start, bracket, 1e-300, (d) => d, true);
+  return Math.abs(q) <= 1e-300 ? 0 : q;
 }
 
 /** log P(Y − X ≤ d) (or > d when upper) and log of the density of Y − X at d, in one pass. */

@@ -20,19 +20,41 @@ export function checkProbability(p: number): void {
 const ACCEPT_ERROR = 1e-15;
 const FIRST_STEP_K = 1000;
 
+/** At most this many evaluations per quantile (each one pass over the kept panels); see solveQuantile. */
+export const MAX_QUANTILE_STEPS = 100;
+
 /**
  * Solves P(V ≤ v) = p, by Newton's method on the log of the smaller tail (log P(V ≤ v) for p ≤ ½,
  * log P(V > v) above) with derivative e^{logDensity − logTail}, both from one `evaluate`, from `start`.
  * The bracket known so far (points with residual below and above 0) guards each step; when a step leaves
  * it (or gives no number) before both sides are known, `bracket()` supplies ends that hold the root by
- * construction, and the step is replaced by bisection. Once the error estimate of a Newton step is below
- * ACCEPT_ERROR that step is returned without another evaluation.
+ * construction. The step is replaced by bisection when it leaves the bracket, or when the previous
+ * Newton step did not halve the residual (a tail that bends sharply: a posterior piled up against 0, or
+ * an integrand with a kink inside a panel, where Newton crawls); so the bracket at least halves every
+ * other step. With `logSplit` (a difference of rates, whose quantiles may lie anywhere from 1e-300 to 1
+ * when posteriors pile up against 0) a bracket straddling 0 is split at 0 and one spanning more than a
+ * factor 4 at the geometric middle of its ends (1e-300 standing in for an end at 0). Stops
+ *  - when a Newton step's error estimate is below ACCEPT_ERROR (that step is returned without another
+ *    evaluation), or the residual is below 1e-14 (1e-12 once it stops halving: the tails' rounding noise);
+ *  - when a Newton step from a residual below 1e-8 moves v by less than 2 ulp (v is the root to double
+ *    precision: without this test a step that lands on the bracket's end was taken for a stray one);
+ *  - when the bracket is narrower than 2 ulp of its ends or than `tolerance` (absolute, in v: below the
+ *    caller's resolution, e.g. 1e-300 for a difference of rates), or when `report` (what
+ *    the caller returns for v, e.g. the lift expm1(v)) gives the same number at both ends (a root beyond
+ *    log(1.8e308) is +Infinity, one below −37.5 is a lift of exactly −1: no further step can change them).
+ * Work bound: at most MAX_QUANTILE_STEPS evaluations (one pass each) and one `bracket()`; from a bracket of
+ * width W the bisections close it to `tolerance` in log2(W/tolerance) of them (≤ ~90 for any finite W/tol
+ * ratio below 1e27), so the cap is reached only by a tail that cannot be resolved to the tolerance; the
+ * last point is then returned.
  */
 export function solveQuantile(
   evaluate: (v: number, upper: boolean) => TailAndDensity,
   p: number,
   start: number,
   bracket: () => [number, number],
+  tolerance = 0,
+  report: (v: number) => number = (v) => v,
+  logSplit = false,
 ): number {
   const upper = p > 0.5;
   const target = upper ? Math.log1p(-p) : Math.log(p);
@@ -44,7 +66,10 @@ export function solveQuantile(
   let k = FIRST_STEP_K;
   let stepped = false;
   let previousStep = 0;
-  for (let i = 0; i < 200; i++) {
+  // With logSplit: Newton in log|v| once a step in v has crawled (see above), until that crawls too.
+  let inLog = false;
+  let lastLog = false;
+  for (let i = 0; i < MAX_QUANTILE_STEPS; i++) {
     const e = evaluate(v, upper);
     // residual(v) is increasing in v: log F(v) − log p, or log(1 − p) − log S(v).
     const r = upper ? target - e.logTail : e.logTail - target;
@@ -52,29 +77,57 @@ export function solveQuantile(
     // The tails carry ~1e-13 of rounding noise at a million visitors and more (the nodes' z are stored
     // to 4e-16): once the residual is that small and stops halving, the root is found to that noise.
     if (Math.abs(r) <= 1e-12 && Math.abs(r) > 0.5 * previous) return v;
+    // The last Newton step did not halve the residual: bisect this time (or, with logSplit, switch a
+    // crawling step in v to one in log|v|, where a tail piled up against 0 is smooth).
+    const slow = stepped && Math.abs(r) > 0.5 * previous;
     previous = Math.abs(r);
     if (r < 0) a = v;
     else b = v;
     const slope = Math.exp(e.logDensity - e.logTail);
-    let next = slope > 0 && Number.isFinite(slope) ? v - r / slope : NaN;
-    let newton = next > a && next < b;
+    const linear: number = slope > 0 && Number.isFinite(slope) ? v - r / slope : NaN;
+    if (Math.abs(linear - v) <= 2 * Number.EPSILON * Math.abs(v) && Math.abs(r) <= 1e-8) return v;
+    let useLog = false;
+    if (logSplit && v !== 0 && a * b > 0) {
+      if (slow) {
+        useLog = !lastLog;
+        inLog = useLog;
+      } else useLog = inLog;
+    }
+    // Newton in t = log|v|: dr/dt = slope · |v|, so v ← v · exp(−r/(slope · v)).
+    let next: number = useLog ? v * Math.exp(-r / (slope * v)) : linear;
+    let newton: boolean = next >= a && next <= b && next !== v;
     if (!newton && !bracketed) {
       const [lo, hi] = bracket();
       a = Math.max(a, Math.min(lo, hi));
       b = Math.min(b, Math.max(lo, hi));
       bracketed = true;
-      newton = next > a && next < b;
+      newton = next >= a && next <= b && next !== v;
     }
-    if (!newton) next = (a + b) / 2;
+    if (slow && !useLog && Number.isFinite(a) && Number.isFinite(b)) newton = false;
+    if (!newton) next = logSplit ? geometricSplit(a, b) : (a + b) / 2;
+    lastLog = newton && useLog;
     // After a Newton step its curvature constant shows in the new residual; at least 1, to be safe.
     k = stepped ? Math.max(1, Math.abs(r) / (previousStep * previousStep)) : FIRST_STEP_K;
     if (newton && k * r * r <= ACCEPT_ERROR) return next;
     stepped = newton;
     previousStep = Math.abs(r);
+    const width = b - a;
     const closed =
-      Number.isFinite(a) && Number.isFinite(b) && b - a <= 2 * Number.EPSILON * Math.max(Math.abs(a), Math.abs(b));
+      Number.isFinite(width) &&
+      (width <= 2 * Number.EPSILON * Math.max(Math.abs(a), Math.abs(b)) || width <= tolerance);
+    // The caller's number is the same anywhere in the bracket: return the end just evaluated.
+    if (report(a) === report(b)) return r < 0 ? a : b;
     if (Math.abs(next - v) <= 2 * Number.EPSILON * Math.abs(v) || closed) return next;
     v = next;
   }
   return v;
+}
+
+/** Where a bisection of [a, b] (finite ends) splits it when quantiles span magnitudes: see solveQuantile. */
+function geometricSplit(a: number, b: number): number {
+  if (a < 0 && b > 0) return 0;
+  const small = Math.max(Math.min(Math.abs(a), Math.abs(b)), 1e-300);
+  const large = Math.max(Math.abs(a), Math.abs(b));
+  if (large <= 4 * small) return (a + b) / 2;
+  return (a >= 0 ? 1 : -1) * Math.sqrt(small) * Math.sqrt(large);
 }

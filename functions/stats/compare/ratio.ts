@@ -105,7 +105,9 @@ export function ratioQuantile(
     const hi = ratio(y.quantileUpper((1 - p) / 2), x.quantile((1 - p) / 2));
     return [Number.isFinite(lo) ? lo : -745, Number.isFinite(hi) ? hi : 745];
   };
-  return Math.expm1(solveQuantile((v, upper) => ratioTailAndDensity(y, x, v, upper), p, start, bracket));
+  // v = log(1 + m) is resolved to 4 ulp of 1 (the lift to ~1e-15 of 1 + m).
+  const evaluate = (v: number, upper: boolean): TailAndDensity => ratioTailAndDensity(y, x, v, upper);
+  return Math.expm1(solveQuantile(evaluate, p, start, bracket, 4 * Number.EPSILON, Math.expm1));
 }
 
 /** A marginal quantile: the value with P(below) = p, or with P(above) = p when upper. */
@@ -153,7 +155,8 @@ function ratioTailAndDensity(
   v: number,
   upper: boolean,
 ): TailAndDensity {
-  const s = 1 + Math.expm1(v);
+  // 1 + m as ratioCdf forms it; exp(v) below v = −1, where 1 + expm1(v) would lose s's digits (s = 0 below −37.4).
+  const s = v < -1 ? Math.exp(v) : 1 + Math.expm1(v);
   if (xIsBase(x, y)) {
     // P(Y ≤ sX) = ∫ f_X(t) F_Y(st) dt; d/dm = ∫ f_X(t) t f_Y(st) dt.
     const t = logTailAndDensity(x, y, upper ? 'sf' : 'cdf', s, 0, true);
@@ -268,5 +271,6 @@ export function signedRatioQuantile(y: TabulatedDistribution, x: TabulatedDistri
     for (let i = 0, step = first; i < 200 && residual(hi) < 0; i++, step *= 2) hi = start + 2 * step;
     return [lo, hi];
   };
-  return solveQuantile(evaluate, p, start, bracket);
+  // m is resolved to 4 ulp of 1 + |m| near the start.
+  return solveQuantile(evaluate, p, start, bracket, 4 * Number.EPSILON * (1 + Math.abs(start)));
 }
