@@ -237,7 +237,10 @@ function nextWidth(tried: number, c: Float64Array, accepted: boolean, from: numb
   for (let k = 2; k <= 5; k++) early = Math.max(early, Math.abs(c[k] as number));
   for (let k = 10; k <= 13; k++) late = Math.max(late, Math.abs(c[k] as number));
   const rho = early > 0 && late > 0 ? Math.max(1.0001, Math.pow(early / late, 1 / 8)) : 1.0001;
-  const scale = early * Math.pow(rho, 5);
+  // C fitted as max |c_k|·ρ^k over k = 2–5 (the largest of them times ρ^5 counted C up to ρ³ too high, so
+  // pieces grew by 1.4 at most where 2 was predicted within the safety share).
+  let scale = 0;
+  for (let k = 2; k <= 5; k++) scale = Math.max(scale, Math.abs(c[k] as number) * Math.pow(rho, k));
   const s = (rho + 1 / rho) / 2;
   const most = accepted ? Infinity : 0.5;
   // A piece that is a straight line to rounding (coefficients 2–5 below 1e-12 of the linear part, as in a
