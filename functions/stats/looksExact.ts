@@ -285,11 +285,16 @@ export function exactCrossing(
   sides: 1 | 2,
   memo?: CrossingMemo,
 ): { probability: number; byLook: number[] } {
-  // The declaring columns of every row at every look for this threshold: boundary walks only.
+  // Two sides with no difference between the variants: both counts have the same distribution and the
+  // decision is mirrored across the diagonal (P(B beats A) at (x, y) is 1 − P at (y, x)), so the state is
+  // symmetric and only the part on and above the diagonal (x_B ≥ x_A) is carried: half the work.
+  const symmetric = sides === 2 && lattices.every((l) => l.windowA === l.windowB && l.stepA === l.stepB);
+  // The declaring columns of every row at every look for this threshold: boundary walks only (the low side
+  // is not needed in the symmetric run).
   const cuts: Int32Array[] = [];
   const lows: Int32Array[] = [];
   for (const look of lattices) {
-    const { cut, low } = declaringColumns(look, threshold, sides);
+    const { cut, low } = declaringColumns(look, threshold, symmetric ? 1 : sides);
     cuts.push(cut);
     lows.push(low);
   }
@@ -312,10 +317,6 @@ export function exactCrossing(
   for (let k = 0; k < start; k++) kept += ((memo as CrossingMemo).states[k] as RunState).values.length;
   if (memo !== undefined) memo.states.length = start;
   let slot = 0;
-  // Two sides with no difference between the variants: both counts have the same distribution and the
-  // decision is mirrored across the diagonal (P(B beats A) at (x, y) is 1 − P at (y, x)), so the state is
-  // symmetric and only the part on and above the diagonal (x_B ≥ x_A) is carried: half the work.
-  const symmetric = sides === 2 && lattices.every((l) => l.windowA === l.windowB && l.stepA === l.stepB);
   for (let k = start; k < lattices.length; k++) {
     const look = lattices[k] as LookLattice;
     const rows = look.windowA.hi - look.windowA.lo + 1;
