@@ -93,7 +93,7 @@ function addLayerKnots(knots: number[], lower: number, upper: number, layer: num
  * Also each piece's integral (Simpson's rule is exact on a quadratic). Packed 7 numbers a piece.
  */
 function quadraticPieces(x: Float64Array, f: Float64Array): Float64Array {
-  const m = (x.length - 1) >> 1;
+  const m = Math.max((x.length - 1) >> 1, 0); // none on an empty grid (the region beyond reach)
   const out = new Float64Array(7 * m);
   for (let i = 0; i < m; i++) {
     const x0 = x[2 * i] as number;
