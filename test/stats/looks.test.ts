@@ -151,6 +151,16 @@ describe('looks: properties', () => {
     expect(auto.probability).toBeLessThan(2 * one + 0.004);
   });
 
+  it('two sides at a threshold just above ½ declare for certain within a few looks (normal method; fuzz seed 7)', () => {
+    // From a few looks on each side alone declares half the time or more, so the two together declare
+    // for certain (no region is left between the bounds); this answered an internal message once.
+    const looks = Array.from({ length: 10 }, (_, i) => 69522 * (i + 1));
+    const r = falseAlarmWithLooks(0.003828007706476486, looks, 0.5000000000000001, 2);
+    expect(r.method).toBe('normal');
+    expect(r.probability).toBe(1);
+    expect(Math.abs(r.byLook.reduce((a, b) => a + b, 0) - 1)).toBeLessThan(1e-10);
+  });
+
   it('POWER_WITH_LOOKS with lift 0 is the one-sided false-alarm rate', () => {
     const a = powerWithLooks(0.04, 0, spaced(4, 500));
     const b = falseAlarmWithLooks(0.04, spaced(4, 500));
