@@ -10,7 +10,10 @@
  * its peak are left out (beyond ~7.4 standard deviations: a mass below 1e-10 over 100 looks), otherwise the
  * sum is exact to rounding. The declaring points of a look for a threshold are found by one walk along
  * its boundary (decisionLattice.ts boundaryColumns), so no table of P over the lattice is kept: the memory
- * of a run is the two or three state arrays in flight (and what a memo keeps, within its own bound).
+ * of a run is the two or three state arrays in flight (and what a memo keeps, within its own bound). Each row
+ * of a state holds only a range of columns (the undeclared side, without negligible ends), and only those
+ * ranges are convolved and zeroed; with two sides and no difference between the variants the state is
+ * symmetric and only its half on and above the diagonal is carried.
  */
 import { type BinomialWindow, binomialWindow, boundaryColumns, DecisionCursor } from './decisionLattice';
 import type { BetaPrior } from './types';
