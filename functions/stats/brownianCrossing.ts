@@ -93,7 +93,7 @@ function addLayerKnots(knots: number[], lower: number, upper: number, layer: num
  * Also each piece's integral (Simpson's rule is exact on a quadratic). Packed 7 numbers a piece.
  */
 function quadraticPieces(x: Float64Array, f: Float64Array): Float64Array {
-  const m = (x.length - 1) >> 1;
+  const m = Math.max((x.length - 1) >> 1, 0); // none on an empty grid (the region beyond reach)
   const out = new Float64Array(7 * m);
   for (let i = 0; i < m; i++) {
     const x0 = x[2 * i] as number;
@@ -109,32 +109,40 @@ function quadraticPieces(x: Float64Array, f: Float64Array): Float64Array {
   return out;
 }
 
-/** Coefficients q0, q1, q2 of piece p (at offset o of `pieces`) in powers of t = y − c. */
-function aroundPoint(pieces: Float64Array, o: number, c: number): [number, number, number] {
-  const e0 = c - (pieces[o] as number);
-  const e1 = c - (pieces[o + 1] as number);
-  const f0 = pieces[o + 3] as number;
-  const d1 = pieces[o + 4] as number;
-  const d2 = pieces[o + 5] as number;
-  return [f0 + d1 * e0 + d2 * e0 * e1, d1 + d2 * (e0 + e1), d2];
-}
-
 /**
  * ∫ f(y) N(y; c, s²) dy over the pieces: per piece q0 M0 + q1 s M1 + q2 s² M2 with, for a = (x0 − c)/s and
  * b = (x2 − c)/s, M0 = Φ(b) − Φ(a), M1 = φ(a) − φ(b), M2 = M0 + aφ(a) − bφ(b) (the Gaussian's moments on the
- * piece; the difference of Φ taken in the tail it lies in). Pieces beyond KERNEL_REACH are left out (< 1e-18).
+ * piece; absolute error ~1e-16 each). Φ and φ at a knot are shared by the two pieces that meet there. Pieces
+ * beyond KERNEL_REACH are left out (< 1e-18).
  */
 function gaussianIntegral(pieces: Float64Array, c: number, s: number): number {
   let sum = 0;
+  let knot = NaN; // the last knot whose Φ and φ are known
+  let cdfAt = 0;
+  let pdfAt = 0;
   for (let o = 0; o < pieces.length; o += 7) {
-    const a = ((pieces[o] as number) - c) / s;
-    const b = ((pieces[o + 2] as number) - c) / s;
-    if (b < -KERNEL_REACH || a > KERNEL_REACH) continue;
-    const [q0, q1, q2] = aroundPoint(pieces, o, c);
-    const m0 = a > 0 ? normalCdf(-a) - normalCdf(-b) : normalCdf(b) - normalCdf(a);
-    const pa = INV_SQRT_2PI * Math.exp(-0.5 * a * a);
-    const pb = INV_SQRT_2PI * Math.exp(-0.5 * b * b);
-    sum += q0 * m0 + q1 * s * (pa - pb) + q2 * s * s * (m0 + a * pa - b * pb);
+    const x0 = pieces[o] as number;
+    const a = (x0 - c) / s;
+    if (a > KERNEL_REACH) break;
+    const x2 = pieces[o + 2] as number;
+    const b = (x2 - c) / s;
+    if (b < -KERNEL_REACH) continue;
+    const cdfA = knot === x0 ? cdfAt : normalCdf(a);
+    const pdfA = knot === x0 ? pdfAt : INV_SQRT_2PI * Math.exp(-0.5 * a * a);
+    const cdfB = normalCdf(b);
+    const pdfB = INV_SQRT_2PI * Math.exp(-0.5 * b * b);
+    knot = x2;
+    cdfAt = cdfB;
+    pdfAt = pdfB;
+    // the piece in powers of t = y − c
+    const e0 = c - x0;
+    const e1 = c - (pieces[o + 1] as number);
+    const d1 = pieces[o + 4] as number;
+    const d2 = pieces[o + 5] as number;
+    const q0 = (pieces[o + 3] as number) + d1 * e0 + d2 * e0 * e1;
+    const q1 = d1 + d2 * (e0 + e1);
+    const m0 = cdfB - cdfA;
+    sum += q0 * m0 + q1 * s * (pdfA - pdfB) + d2 * s * s * (m0 + a * pdfA - b * pdfB);
   }
   return sum;
 }
@@ -158,7 +166,12 @@ function stepIntegral(pieces: Float64Array, c: number, s: number, sign: 1 | -1):
       continue;
     }
     // f in powers of u: q0 + sign q1 s u + q2 s² u²; dy = s du (the sign flips the bounds back).
-    const [q0, q1, q2] = aroundPoint(pieces, o, c);
+    const e0 = c - (pieces[o] as number);
+    const e1 = c - (pieces[o + 1] as number);
+    const d1 = pieces[o + 4] as number;
+    const q2 = pieces[o + 5] as number;
+    const q0 = (pieces[o + 3] as number) + d1 * e0 + q2 * e0 * e1;
+    const q1 = d1 + q2 * (e0 + e1);
     const c1 = sign * q1 * s;
     const c2 = q2 * s * s;
     const antiderivative = (u: number): number => {

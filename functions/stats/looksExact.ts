@@ -10,7 +10,10 @@
  * its peak are left out (beyond ~7.4 standard deviations: a mass below 1e-10 over 100 looks), otherwise the
  * sum is exact to rounding. The declaring points of a look for a threshold are found by one walk along
  * its boundary (decisionLattice.ts boundaryColumns), so no table of P over the lattice is kept: the memory
- * of a run is the two or three state arrays in flight (and what a memo keeps, within its own bound).
+ * of a run is the two or three state arrays in flight (and what a memo keeps, within its own bound). Each row
+ * of a state holds only a range of columns (the undeclared side, without negligible ends), and only those
+ * ranges are convolved and zeroed; with two sides and no difference between the variants the state is
+ * symmetric and only its half on and above the diagonal is carried.
  */
 import { type BinomialWindow, binomialWindow, boundaryColumns, DecisionCursor } from './decisionLattice';
 import type { BetaPrior } from './types';
@@ -144,6 +147,21 @@ export function readOutValuesBetween(
 }
 
 /**
+ * y[yAt + j] += k·x[xAt + j] for j < n: the programme's one inner loop, kept in a function of its own so that
+ * the engine compiles it early (a large function holding it would run unoptimised for the first looks).
+ */
+function axpy(y: Float64Array, yAt: number, x: Float64Array, xAt: number, k: number, n: number): void {
+  for (let j = 0; j < n; j++) y[yAt + j] = (y[yAt + j] as number) + k * (x[xAt + j] as number);
+}
+
+/** x[from] + … + x[to]. */
+function sum(x: Float64Array, from: number, to: number): number {
+  let total = 0;
+  for (let j = from; j <= to; j++) total += x[j] as number;
+  return total;
+}
+
+/**
  * The undeclared mass of a run after a look: values on the look's window rectangle (a row per count x_A of
  * windowA, a column per count x_B of windowB, row-major), of which only columns lo[i] … hi[i] of row i are
  * meaningful (an empty row has hi < lo). Nothing outside the ranges is ever read, so no array is zeroed
@@ -270,11 +288,16 @@ export function exactCrossing(
   sides: 1 | 2,
   memo?: CrossingMemo,
 ): { probability: number; byLook: number[] } {
-  // The declaring columns of every row at every look for this threshold: boundary walks only.
+  // Two sides with no difference between the variants: both counts have the same distribution and the
+  // decision is mirrored across the diagonal (P(B beats A) at (x, y) is 1 − P at (y, x)), so the state is
+  // symmetric and only the part on and above the diagonal (x_B ≥ x_A) is carried: half the work.
+  const symmetric = sides === 2 && lattices.every((l) => l.windowA === l.windowB && l.stepA === l.stepB);
+  // The declaring columns of every row at every look for this threshold: boundary walks only (the low side
+  // is not needed in the symmetric run).
   const cuts: Int32Array[] = [];
   const lows: Int32Array[] = [];
   for (const look of lattices) {
-    const { cut, low } = declaringColumns(look, threshold, sides);
+    const { cut, low } = declaringColumns(look, threshold, symmetric ? 1 : sides);
     cuts.push(cut);
     lows.push(low);
   }
@@ -302,9 +325,16 @@ export function exactCrossing(
     const rows = look.windowA.hi - look.windowA.lo + 1;
     const width = look.windowB.hi - look.windowB.lo + 1;
     const next = buffers.state(slot);
-    if (k === 0) firstLook(look, next);
-    else propagate(state as RunState, lattices[k - 1] as LookLattice, look, buffers.middle(), next);
-    byLook.push(declare(next, rows, width, cuts[k] as Int32Array, lows[k] as Int32Array));
+    if (symmetric) {
+      if (k === 0) firstLook(look, next, true);
+      else propagateSymmetric(state as RunState, lattices[k - 1] as LookLattice, look, buffers.middle(), next);
+      // The declarations below the diagonal mirror those above it.
+      byLook.push(2 * declare(next, rows, width, cuts[k] as Int32Array, NO_LOW));
+    } else {
+      if (k === 0) firstLook(look, next, false);
+      else propagate(state as RunState, lattices[k - 1] as LookLattice, look, buffers.middle(), next);
+      byLook.push(declare(next, rows, width, cuts[k] as Int32Array, lows[k] as Int32Array));
+    }
     state = next;
     slot = 1 - slot;
     if (memo !== undefined && kept + rows * width <= MEMO_STATES) {
@@ -323,8 +353,14 @@ export function exactCrossing(
   return { probability: Math.min(Math.max(total, 0), 1), byLook };
 }
 
-/** The state at the first look: the product of both windows' pmfs, every row full. */
-function firstLook(look: LookLattice, into: RunState): void {
+/** No declaring column on the low side (the symmetric run's rows, which start at the diagonal). */
+const NO_LOW = new Int32Array(0);
+
+/**
+ * The state at the first look: the product of both windows' pmfs, every row full (from the diagonal on when
+ * `upper`: the symmetric run's rows).
+ */
+function firstLook(look: LookLattice, into: RunState, upper: boolean): void {
   const { windowA, windowB } = look;
   const rows = windowA.hi - windowA.lo + 1;
   const width = windowB.hi - windowB.lo + 1;
@@ -333,7 +369,7 @@ function firstLook(look: LookLattice, into: RunState): void {
     const a = windowA.pmf[i] as number;
     const row = i * width;
     for (let j = 0; j < width; j++) values[row + j] = a * (windowB.pmf[j] as number);
-    into.lo[i] = 0;
+    into.lo[i] = upper ? i : 0;
     into.hi[i] = width - 1;
   }
 }
@@ -350,11 +386,10 @@ function declare(state: RunState, rows: number, width: number, cut: Int32Array, 
     let a = lo[i] as number;
     let b = hi[i] as number;
     const c = cut[i] as number;
-    const l = low[i] as number;
-    for (let j = Math.max(a, c); j <= b; j++) declared += values[row + j] as number;
+    const l = low.length === 0 ? -1 : (low[i] as number);
+    if (b >= c) declared += sum(values, row + Math.max(a, c), row + b);
     if (b >= c) b = c - 1;
-    const end = Math.min(b, l);
-    for (let j = a; j <= end; j++) declared += values[row + j] as number;
+    if (a <= l) declared += sum(values, row + a, row + Math.min(b, l));
     if (a <= l) a = l + 1;
     while (a <= b && (values[row + a] as number) < NEGLIGIBLE_STATE) a++;
     while (b >= a && (values[row + b] as number) < NEGLIGIBLE_STATE) b--;
@@ -407,7 +442,7 @@ function propagate(state: RunState, from: LookLattice, to: LookLattice, middle: 
       if (a > b) continue;
       const k = kB[m] as number;
       const out = dst + shift;
-      for (let j = a; j <= b; j++) between[out + j] = (between[out + j] as number) + k * (source[src + j] as number);
+      axpy(between, out + a, source, src + a, k, b - a + 1);
     }
   }
   // Along x_A: row i of the old window moves to row i + shiftA + m of the new one. The new rows' ranges are
@@ -447,7 +482,111 @@ function propagate(state: RunState, from: LookLattice, to: LookLattice, middle: 
     for (let m = m0; m <= m1; m++) {
       const k = kA[m] as number;
       const dst = (base + m) * widthTo;
-      for (let j = c0; j <= c1; j++) values[dst + j] = (values[dst + j] as number) + k * (between[src + j] as number);
+      axpy(values, dst + c0, between, src + c0, k, c1 - c0 + 1);
+    }
+  }
+}
+
+/**
+ * {@link propagate} for the symmetric run: the rows hold the state on and above the diagonal (columns ≥ the
+ * row; windows and steps are the same for both variants, so the square's diagonal is x_A = x_B). Each row is
+ * first completed below the diagonal by the mirror image as far as the kernel reaches (L − 1 columns), then
+ * convolved along x_B from there; along x_A only the columns on and above the new diagonal are made.
+ */
+function propagateSymmetric(
+  state: RunState,
+  from: LookLattice,
+  to: LookLattice,
+  middle: RunState,
+  next: RunState,
+): void {
+  const step = to.stepB as BinomialWindow;
+  const size = from.windowB.hi - from.windowB.lo + 1;
+  const sizeTo = to.windowB.hi - to.windowB.lo + 1;
+  const kernel = step.pmf;
+  const len = kernel.length;
+  const source = state.values;
+  const between = middle.values;
+  const midLo = middle.lo;
+  const midHi = middle.hi;
+  // Column j (row i) of the old square moves to column j + shift + m (row i + shift + m) of the new one.
+  const shift = from.windowB.lo - to.windowB.lo + step.lo;
+  const lo = state.lo;
+  const hi = state.hi;
+  for (let i = 0; i < size; i++) {
+    const row = i * size;
+    const a = lo[i] as number;
+    const b = hi[i] as number;
+    // The row from max(i − L + 1, 0): the mirror image below the diagonal, zeros up to the row's range.
+    const from0 = Math.max(i - len + 1, 0);
+    for (let j = from0; j < i; j++) {
+      const inRange = i >= (lo[j] as number) && i <= (hi[j] as number);
+      source[row + j] = inRange ? (source[j * size + i] as number) : 0;
+    }
+    const to1 = b >= a ? b : i - 1;
+    for (let j = i; j < Math.min(a, to1 + 1); j++) source[row + j] = 0;
+    // Along x_B, only the columns reaching the new diagonal or beyond (c ≥ i + shift) are needed.
+    const dst = i * sizeTo;
+    const c0 = Math.max(from0 + shift, i + shift, 0);
+    const c1 = Math.min(to1 + shift + len - 1, sizeTo - 1);
+    midLo[i] = c0;
+    midHi[i] = c1;
+    if (from0 > to1 || c0 > c1) {
+      midHi[i] = -1;
+      continue;
+    }
+    between.fill(0, dst + c0, dst + c1 + 1);
+    for (let m = 0; m < len; m++) {
+      const s = shift + m;
+      const j0 = Math.max(from0, c0 - s);
+      const j1 = Math.min(to1, c1 - s);
+      if (j0 > j1) continue;
+      const k = kernel[m] as number;
+      const out = dst + s;
+      axpy(between, out + j0, source, row + j0, k, j1 - j0 + 1);
+    }
+  }
+  // Along x_A: row i moves to row r = i + shift + m, on the columns c ≥ r.
+  const values = next.values;
+  const nextLo = next.lo;
+  const nextHi = next.hi;
+  nextLo.fill(sizeTo, 0, sizeTo);
+  nextHi.fill(-1, 0, sizeTo);
+  for (let i = 0; i < size; i++) {
+    const c0 = midLo[i] as number;
+    const c1 = midHi[i] as number;
+    if (c0 > c1) continue;
+    const base = i + shift;
+    const m0 = Math.max(0, -base);
+    const m1 = Math.min(len - 1, sizeTo - 1 - base);
+    for (let m = m0; m <= m1; m++) {
+      const r = base + m;
+      const first = Math.max(c0, r);
+      if (first > c1) continue;
+      if (first < (nextLo[r] as number)) nextLo[r] = first;
+      if (c1 > (nextHi[r] as number)) nextHi[r] = c1;
+    }
+  }
+  for (let r = 0; r < sizeTo; r++) {
+    const c0 = nextLo[r] as number;
+    const c1 = nextHi[r] as number;
+    if (c0 <= c1) values.fill(0, r * sizeTo + c0, r * sizeTo + c1 + 1);
+  }
+  for (let i = 0; i < size; i++) {
+    const c0 = midLo[i] as number;
+    const c1 = midHi[i] as number;
+    if (c0 > c1) continue;
+    const src = i * sizeTo;
+    const base = i + shift;
+    const m0 = Math.max(0, -base);
+    const m1 = Math.min(len - 1, sizeTo - 1 - base);
+    for (let m = m0; m <= m1; m++) {
+      const r = base + m;
+      const first = Math.max(c0, r);
+      if (first > c1) continue;
+      const k = kernel[m] as number;
+      const dst = r * sizeTo;
+      axpy(values, dst + first, between, src + first, k, c1 - first + 1);
     }
   }
 }

@@ -50,6 +50,15 @@ describe('brownianCrossing with looks close together (test/reference/looks/looks
   );
 });
 
+describe('brownianCrossing: a continuation region beyond the grid at close looks', () => {
+  it('a first look that crosses for sure (Z ≥ −12) gives 1 whatever follows, the later regions empty', () => {
+    // Closed form: P(Z_1 ≥ −12) = 1 − Φ(−12) = 1 to double precision (Φ(−12) ≈ 1.8e-33).
+    const r = brownianCrossing([1000, 1001, 1002], [-12, -12, 3]);
+    expect(r.probability).toBe(1);
+    expect(r.byLook[1]).toBe(0);
+  });
+});
+
 describe('brownianCrossing against published tables', () => {
   // Jennison & Turnbull, Group Sequential Methods (2000), Table 1.1 (after Armitage, McPherson & Rowe 1969):
   // repeated two-sided tests at |Z| ≥ 1.96 on equally spaced looks. The table gives three decimals.
