@@ -222,7 +222,8 @@ function sharedFrame(ps: readonly MeanPosterior[]): { centre: number; scale: num
  * b = S/scale formed once (no value is formed, so no digits are lost to a large mean, as in sharedTDensity),
  * w = asinh((centre − C)/S + (scale/S)·sinh u), and du/dw = b·cosh w / cosh u. Beyond |w| or |u| = FAR_W
  * (sinh would overflow) the exponential forms |u| = |w| + log b and back (a and the other terms are below
- * e^-300 of them there).
+ * e^-300 of them there). At the grid's nodes u is read from sinh w computed once for all the posteriors
+ * (ownFromInner; inside the windows, where the grid lies, |w| < FAR_W and it is toOwn's form).
  */
 function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number }): CoordinateMap {
   const a = (frame.centre - p.centre) / p.scale;
@@ -236,7 +237,9 @@ function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number 
     toOwn,
     fromOwn: (u: number): number =>
       Math.abs(u) > FAR_W ? Math.sign(u) * (Math.abs(u) - logB) : Math.asinh(back + ratio * Math.sinh(u)),
-    logSlope: (w: number): number => logB + logCosh(w) - logCosh(toOwn(w)),
+    logSlope: (w: number, u: number): number => logB + logCosh(w) - logCosh(u),
+    inner: Math.sinh,
+    ownFromInner: (v: number): number => Math.asinh(a + b * v),
   };
 }
 
