@@ -244,24 +244,56 @@ function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number 
 }
 
 /**
+ * Each posterior tabulated in its own coordinate, variants with the same count, mean and sd sharing one table
+ * (the comparisons integrate a table listed twice once and give both the identical value). Cost: one
+ * tabulation per distinct posterior.
+ */
+function tabulateEach(ps: readonly MeanPosterior[]): TabulatedDistribution[] {
+  const known = new Map<string, TabulatedDistribution>();
+  return ps.map((p) => {
+    const key = `${p.df} ${p.centre} ${p.scale}`;
+    let table = known.get(key);
+    if (table === undefined) {
+      table = tabulateOne(p);
+      known.set(key, table);
+    }
+    return table;
+  });
+}
+
+/** The coordinate maps of tabulateEach's tables (one map object per distinct table). */
+function mapsOf(
+  ps: readonly MeanPosterior[],
+  tables: readonly TabulatedDistribution[],
+  frame: { centre: number; scale: number },
+): CoordinateMap[] {
+  const known = new Map<TabulatedDistribution, CoordinateMap>();
+  return ps.map((p, i) => {
+    const table = tables[i] as TabulatedDistribution;
+    let map = known.get(table);
+    if (map === undefined) {
+      map = coordinateMap(p, frame);
+      known.set(table, map);
+    }
+    return map;
+  });
+}
+
+/**
  * Expected losses of three or more posteriors that do not all fit the shared coordinate: each tabulated in its
  * own u, on one grid in the shared w through coordinateMap (compare/losses.ts mappedExpectedLosses,
  * O(k × nodes)); when that grid is over its budget, the pruned integrals of expectedLosses.
  */
 function separateLosses(ps: readonly MeanPosterior[]): number[] {
   const frame = sharedFrame(ps);
-  const tables = ps.map(tabulateOne);
+  const tables = tabulateEach(ps);
   if (Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0) {
     const value = {
       toValue: (w: number): number => frame.centre + frame.scale * Math.sinh(w),
       valueJacobian: (w: number): number => frame.scale * Math.cosh(w),
     };
     try {
-      return mappedExpectedLosses(
-        tables,
-        ps.map((p) => coordinateMap(p, frame)),
-        value,
-      );
+      return mappedExpectedLosses(tables, mapsOf(ps, tables, frame), value);
     } catch (error) {
       if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
     }
@@ -276,14 +308,11 @@ function separateLosses(ps: readonly MeanPosterior[]): number[] {
  */
 function separateHighest(ps: readonly MeanPosterior[]): number[] {
   const frame = sharedFrame(ps);
-  const tables = ps.map(tabulateOne);
+  const tables = tabulateEach(ps);
   if (!(Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0)) {
     return highestProbabilities(tables);
   }
-  return mappedHighestProbabilities(
-    tables,
-    ps.map((p) => coordinateMap(p, frame)),
-  );
+  return mappedHighestProbabilities(tables, mapsOf(ps, tables, frame));
 }
 
 /** P(μ ≤ x) for one posterior (a step for a point mass), through the t distribution function. */
