@@ -220,17 +220,20 @@ function gridIntegrals(
   // The first index of each distinct table: only those are integrated.
   const firstOf = ds.map((d) => ds.indexOf(d));
 
-  // 1. Upper bounds of log F at the edges (tailBoundsAtEdges), 0 from the point where F is 1.
-  const edgeCdf = new Float64Array(edges.length * k);
+  // 1. Upper bounds of log F at the edges (tailBoundsAtEdges; in one pass when the tables share the grid's
+  // coordinate), 0 from the point where F is 1; oneAt[e·k + j] = 1 from there on.
+  const edgeCdf = maps === undefined ? tailBoundsAtEdges(ds, edges).cdf : new Float64Array(edges.length * k);
+  const oneAt = new Uint8Array(edges.length * k);
   for (let j = 0; j < k; j++) {
     const at = own[j] as Float64Array;
-    const column = tailBoundsAtEdges([ds[j] as TabulatedDistribution], at).cdf;
+    const column = maps === undefined ? undefined : tailBoundsAtEdges([ds[j] as TabulatedDistribution], at).cdf;
     for (let e = 0; e < edges.length; e++) {
-      edgeCdf[e * k + j] = (at[e] as number) >= (one[j] as number) ? 0 : (column[e] as number);
+      if ((at[e] as number) >= (one[j] as number)) {
+        edgeCdf[e * k + j] = 0;
+        oneAt[e * k + j] = 1;
+      } else if (column !== undefined) edgeCdf[e * k + j] = column[e] as number;
     }
   }
-  // Whether factor j is 1 on piece s (from its left edge on).
-  const isOne = (j: number, s: number): boolean => ((own[j] as Float64Array)[s] as number) >= (one[j] as number);
 
   // 2. Piece bounds: bound[s·k + i] (−Infinity where i is not integrated on s). First, per piece, the sum of
   // log F at its right edge over the factors not 1 on it, the −Infinity ones counted apart.
@@ -240,7 +243,7 @@ function gridIntegrals(
     let sum = 0;
     let count = 0;
     for (let j = 0; j < k; j++) {
-      if (isOne(j, s)) continue;
+      if (oneAt[s * k + j] === 1) continue;
       const v = edgeCdf[(s + 1) * k + j] as number;
       if (v === -Infinity) count += 1;
       else sum += v;
@@ -274,7 +277,7 @@ function gridIntegrals(
       if (a >= right) break;
       let others = finite[s] as number;
       let otherZeros = zeros[s] as number;
-      if (!isOne(i, s)) {
+      if (oneAt[s * k + i] !== 1) {
         const mine = edgeCdf[(s + 1) * k + i] as number;
         if (mine === -Infinity) otherZeros -= 1;
         else others -= mine;
@@ -330,7 +333,7 @@ function gridIntegrals(
     let active = 0;
     for (let j = 0; j < k; j++) {
       position[j] = -1;
-      if (isOne(j, s)) continue;
+      if (oneAt[s * k + j] === 1) continue;
       position[j] = factors.length;
       factors.push(j);
       const change = (edgeCdf[(s + 1) * k + j] as number) - (edgeCdf[s * k + j] as number);
