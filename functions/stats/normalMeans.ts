@@ -222,7 +222,8 @@ function sharedFrame(ps: readonly MeanPosterior[]): { centre: number; scale: num
  * b = S/scale formed once (no value is formed, so no digits are lost to a large mean, as in sharedTDensity),
  * w = asinh((centre − C)/S + (scale/S)·sinh u), and du/dw = b·cosh w / cosh u. Beyond |w| or |u| = FAR_W
  * (sinh would overflow) the exponential forms |u| = |w| + log b and back (a and the other terms are below
- * e^-300 of them there).
+ * e^-300 of them there). At the grid's nodes u is read from sinh w computed once for all the posteriors
+ * (ownFromInner; inside the windows, where the grid lies, |w| < FAR_W and it is toOwn's form).
  */
 function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number }): CoordinateMap {
   const a = (frame.centre - p.centre) / p.scale;
@@ -236,8 +237,46 @@ function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number 
     toOwn,
     fromOwn: (u: number): number =>
       Math.abs(u) > FAR_W ? Math.sign(u) * (Math.abs(u) - logB) : Math.asinh(back + ratio * Math.sinh(u)),
-    logSlope: (w: number): number => logB + logCosh(w) - logCosh(toOwn(w)),
+    logSlope: (w: number, u: number): number => logB + logCosh(w) - logCosh(u),
+    inner: Math.sinh,
+    ownFromInner: (v: number): number => Math.asinh(a + b * v),
   };
+}
+
+/**
+ * Each posterior tabulated in its own coordinate, variants with the same count, mean and sd sharing one table
+ * (the comparisons integrate a table listed twice once and give both the identical value). Cost: one
+ * tabulation per distinct posterior.
+ */
+function tabulateEach(ps: readonly MeanPosterior[]): TabulatedDistribution[] {
+  const known = new Map<string, TabulatedDistribution>();
+  return ps.map((p) => {
+    const key = `${p.df} ${p.centre} ${p.scale}`;
+    let table = known.get(key);
+    if (table === undefined) {
+      table = tabulateOne(p);
+      known.set(key, table);
+    }
+    return table;
+  });
+}
+
+/** The coordinate maps of tabulateEach's tables (one map object per distinct table). */
+function mapsOf(
+  ps: readonly MeanPosterior[],
+  tables: readonly TabulatedDistribution[],
+  frame: { centre: number; scale: number },
+): CoordinateMap[] {
+  const known = new Map<TabulatedDistribution, CoordinateMap>();
+  return ps.map((p, i) => {
+    const table = tables[i] as TabulatedDistribution;
+    let map = known.get(table);
+    if (map === undefined) {
+      map = coordinateMap(p, frame);
+      known.set(table, map);
+    }
+    return map;
+  });
 }
 
 /**
@@ -247,18 +286,14 @@ function coordinateMap(p: MeanPosterior, frame: { centre: number; scale: number 
  */
 function separateLosses(ps: readonly MeanPosterior[]): number[] {
   const frame = sharedFrame(ps);
-  const tables = ps.map(tabulateOne);
+  const tables = tabulateEach(ps);
   if (Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0) {
     const value = {
       toValue: (w: number): number => frame.centre + frame.scale * Math.sinh(w),
       valueJacobian: (w: number): number => frame.scale * Math.cosh(w),
     };
     try {
-      return mappedExpectedLosses(
-        tables,
-        ps.map((p) => coordinateMap(p, frame)),
-        value,
-      );
+      return mappedExpectedLosses(tables, mapsOf(ps, tables, frame), value);
     } catch (error) {
       if (!(error instanceof StatsError && error.code === 'not_available')) throw error;
     }
@@ -273,14 +308,11 @@ function separateLosses(ps: readonly MeanPosterior[]): number[] {
  */
 function separateHighest(ps: readonly MeanPosterior[]): number[] {
   const frame = sharedFrame(ps);
-  const tables = ps.map(tabulateOne);
+  const tables = tabulateEach(ps);
   if (!(Number.isFinite(frame.centre) && Number.isFinite(frame.scale) && frame.scale > 0)) {
     return highestProbabilities(tables);
   }
-  return mappedHighestProbabilities(
-    tables,
-    ps.map((p) => coordinateMap(p, frame)),
-  );
+  return mappedHighestProbabilities(tables, mapsOf(ps, tables, frame));
 }
 
 /** P(μ ≤ x) for one posterior (a step for a point mass), through the t distribution function. */

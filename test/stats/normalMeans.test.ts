@@ -183,6 +183,23 @@ describe('normalMeans against 50-digit mpmath', () => {
     });
   });
 
+  test('variants with the same count, mean and sd get identical values beside heavy tails (exchangeability)', () => {
+    // Counts 5 and 8 keep the posteriors in their own coordinates (the mapped grid); two copies of one variant
+    // are exchangeable, so their P(highest) and losses are equal (common practice), and the P(highest) add to 1.
+    const a = { count: 5, mean: 48, sd: 21 };
+    const b = { count: 8, mean: 55, sd: 18 };
+    const c = { count: 2000000, mean: 50.45, sd: 19.5 };
+    const p = meanProbHighest([a, b, a, c, b]);
+    expect(p[0]).toBe(p[2]);
+    expect(p[1]).toBe(p[4]);
+    expect(Math.abs(p.reduce((sum, v) => sum + v, 0) - 1)).toBeLessThanOrEqual(1e-12);
+    const loss = meanExpectedLoss([a, b, a, c, b]);
+    expect(loss[0]).toBe(loss[2]);
+    expect(loss[1]).toBe(loss[4]);
+    // loss_i − loss_j = mean_j − mean_i (the losses share E[max]).
+    expect(Math.abs((loss[0] as number) - (loss[1] as number) - 7)).toBeLessThanOrEqual(1e-9);
+  });
+
   test('expected losses do not depend on a common shift of the means, at 1e12 (translation of the model)', () => {
     // Sixteen variants, counts 10 to 6e8, every mean equal: each loss is E[max] − mean, the same for all, and
     // the posteriors are those of mean 0 moved by 1e12 (the t location family; common practice). Held to

@@ -11,7 +11,7 @@ import { factor } from './factors';
 import type { Factor } from './factors';
 import { PRUNE, checkList, logIntegral } from './integrate';
 import { MAX_GRID_CELLS, cdfOneFrom, sharedPieces, tailBoundsAtEdges } from './sharedGrid';
-import { mappedPieces } from './sharedHighest';
+import { mapNodes, mappedPieces, ownEdges } from './sharedHighest';
 import type { CoordinateMap } from './sharedHighest';
 
 /** The value and dx/dw of a grid's coordinate w (a table's own source when the tables share it). */
@@ -27,20 +27,9 @@ interface GridReading {
   readonly frame: ValueFrame;
 }
 
-/** Adds log F_j at the grid points (w) to row, through table j's map when there is one. */
-function addLogCdfAt(
-  d: TabulatedDistribution,
-  map: CoordinateMap | undefined,
-  points: Float64Array,
-  scratch: Float64Array,
-  row: Float64Array,
-): void {
-  if (map === undefined) {
-    d.addLogTailsAt(points, 0, points.length, row, false);
-    return;
-  }
-  for (let q = 0; q < points.length; q++) scratch[q] = map.toOwn(points[q] as number);
-  d.addLogTailsAt(scratch, 0, points.length, row, false);
+/** The indices 0 … k − 1. */
+function allOf(k: number): number[] {
+  return Array.from({ length: k }, (_, j) => j);
 }
 
 /**
@@ -148,10 +137,7 @@ export function mappedExpectedLosses(
   if (ds.length === 1) return [0];
   const edges = mappedPieces(ds, maps, maxGridCells);
   const k = ds.length;
-  const own = ds.map((_, j) => {
-    const map = maps[j] as CoordinateMap;
-    return Float64Array.from(edges, (w) => map.toOwn(w));
-  });
+  const own = ownEdges(ds, maps, edges);
   const cdf = new Float64Array(edges.length * k);
   const sf = new Float64Array(edges.length * k);
   ds.forEach((d, j) => {
@@ -220,7 +206,9 @@ function expectedMaximum(
   const src = reading.frame;
   const one = ds.map(cdfOneFrom);
   const own = reading.own;
-  const scratch = new Float64Array(n);
+  const inner = new Float64Array(n);
+  const mapped = new Float64Array(k * n);
+  const every = allOf(k);
   const points = new Float64Array(n);
   const sums = new Float64Array(n);
   const values = new Float64Array(n);
@@ -251,9 +239,11 @@ function expectedMaximum(
       points[q] = mid + half * (PANEL_NODES[q] as number);
       sums[q] = 0;
     }
+    if (reading.maps !== undefined) mapNodes(reading.maps, every, points, inner, mapped);
     for (let j = 0; j < k; j++) {
       if (((own[j] as Float64Array)[s] as number) >= (one[j] as number)) continue;
-      addLogCdfAt(ds[j] as TabulatedDistribution, reading.maps?.[j], points, scratch, sums);
+      const at = reading.maps === undefined ? points : mapped.subarray(j * n, j * n + n);
+      (ds[j] as TabulatedDistribution).addLogTailsAt(at, 0, n, sums, false);
     }
     for (let q = 0; q < n; q++) {
       const total = sums[q] as number;
@@ -361,6 +351,9 @@ function integratePieces(
   const k = ds.length;
   const n = PANEL_ORDER;
   const src = reading.frame;
+  const inner = new Float64Array(n);
+  const mapped = new Float64Array(k * n);
+  const which: number[] = [];
   const totals = new Array<number>(k).fill(-Infinity);
   const need = new Uint8Array(k);
   const logF = new Float64Array(k * n);
@@ -398,13 +391,17 @@ function integratePieces(
       points[q] = z;
       logJacobian[q] = Math.log(src.valueJacobian(z));
     }
+    if (reading.maps !== undefined) {
+      which.length = 0;
+      for (let j = 0; j < k; j++) if (full || need[j] === 1) which.push(j);
+      mapNodes(reading.maps, which, points, inner, mapped);
+    }
     for (let j = 0; j < k; j++) {
       if (!full && need[j] === 0) continue;
       const row = rows[j] as Float64Array;
-      const map = reading.maps?.[j];
       const d = ds[j] as TabulatedDistribution;
-      if (map === undefined) for (let q = 0; q < n; q++) row[q] = d.logCdfAt(points[q] as number);
-      else for (let q = 0; q < n; q++) row[q] = d.logCdfAt(map.toOwn(points[q] as number));
+      if (reading.maps === undefined) for (let q = 0; q < n; q++) row[q] = d.logCdfAt(points[q] as number);
+      else for (let q = 0; q < n; q++) row[q] = d.logCdfAt(mapped[j * n + q] as number);
     }
     for (let q = 0; q < n; q++) {
       if (full) {

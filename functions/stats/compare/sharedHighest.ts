@@ -35,8 +35,35 @@ export interface CoordinateMap {
   toOwn(w: number): number;
   /** Its inverse: w at z. */
   fromOwn(z: number): number;
-  /** log dz/dw at w. */
-  logSlope(w: number): number;
+  /** log dz/dw at w, given z = toOwn(w). */
+  logSlope(w: number, z: number): number;
+  /**
+   * A function of w that every map of one comparison shares (the same function in each), computed once per
+   * node for all the tables: toOwn(w) is ownFromInner(inner(w)), bit for bit, wherever the grid reaches.
+   */
+  inner(w: number): number;
+  /** The own coordinate from inner(w). */
+  ownFromInner(v: number): number;
+}
+
+/**
+ * Reads every table's own coordinate at the n points, sharing inner(w) across the tables: own[j·n + q] for the
+ * tables listed in `which` (the others' rows are left as they are). Cost: n inner values and n maps per table.
+ */
+export function mapNodes(
+  maps: readonly CoordinateMap[],
+  which: readonly number[],
+  points: Float64Array,
+  inner: Float64Array,
+  own: Float64Array,
+): void {
+  const n = points.length;
+  const first = maps[0] as CoordinateMap;
+  for (let q = 0; q < n; q++) inner[q] = first.inner(points[q] as number);
+  for (const j of which) {
+    const map = maps[j] as CoordinateMap;
+    for (let q = 0; q < n; q++) own[j * n + q] = map.ownFromInner(inner[q] as number);
+  }
 }
 
 /**
@@ -85,11 +112,33 @@ export function mappedHighestIntegrals(
   maxGridCells = MAX_GRID_CELLS,
 ): number[] {
   const edges = mappedPieces(ds, maps, maxGridCells);
-  const own = ds.map((_, j) => {
+  return gridIntegrals(ds, edges, ownEdges(ds, maps, edges), maps);
+}
+
+/**
+ * The grid's edges in each table's own coordinate: mapped inside the table's window (and at the first edge
+ * beyond each end), ∓Number.MAX_VALUE further out, where every use of them (the tails' bounds at the window's
+ * ends, whether F is 1 from there on (cdfOneFrom: an edge of the window, or +Infinity), no mass of the table)
+ * reads the same as from the mapped value. Cost: one map evaluation per edge inside a window.
+ */
+export function ownEdges(
+  ds: readonly TabulatedDistribution[],
+  maps: readonly CoordinateMap[],
+  edges: readonly number[],
+): Float64Array[] {
+  return ds.map((d, j) => {
     const map = maps[j] as CoordinateMap;
-    return Float64Array.from(edges, (w) => map.toOwn(w));
+    const lo = map.fromOwn(d.windowLeft);
+    const hi = map.fromOwn(d.windowRight);
+    const own = new Float64Array(edges.length);
+    for (let e = 0; e < edges.length; e++) {
+      const w = edges[e] as number;
+      const before = e + 1 < edges.length && (edges[e + 1] as number) < lo;
+      const after = e > 0 && (edges[e - 1] as number) > hi;
+      own[e] = before ? -Number.MAX_VALUE : after ? Number.MAX_VALUE : map.toOwn(w);
+    }
+    return own;
   });
-  return gridIntegrals(ds, edges, own, maps);
 }
 
 /** Widest piece of the mapped grid, in w and in each posterior's own coordinate (as GAP_WIDTH of sharedGrid.ts). */
@@ -171,17 +220,20 @@ function gridIntegrals(
   // The first index of each distinct table: only those are integrated.
   const firstOf = ds.map((d) => ds.indexOf(d));
 
-  // 1. Upper bounds of log F at the edges (tailBoundsAtEdges), 0 from the point where F is 1.
-  const edgeCdf = new Float64Array(edges.length * k);
+  // 1. Upper bounds of log F at the edges (tailBoundsAtEdges; in one pass when the tables share the grid's
+  // coordinate), 0 from the point where F is 1; oneAt[e·k + j] = 1 from there on.
+  const edgeCdf = maps === undefined ? tailBoundsAtEdges(ds, edges).cdf : new Float64Array(edges.length * k);
+  const oneAt = new Uint8Array(edges.length * k);
   for (let j = 0; j < k; j++) {
     const at = own[j] as Float64Array;
-    const column = tailBoundsAtEdges([ds[j] as TabulatedDistribution], at).cdf;
+    const column = maps === undefined ? undefined : tailBoundsAtEdges([ds[j] as TabulatedDistribution], at).cdf;
     for (let e = 0; e < edges.length; e++) {
-      edgeCdf[e * k + j] = (at[e] as number) >= (one[j] as number) ? 0 : (column[e] as number);
+      if ((at[e] as number) >= (one[j] as number)) {
+        edgeCdf[e * k + j] = 0;
+        oneAt[e * k + j] = 1;
+      } else if (column !== undefined) edgeCdf[e * k + j] = column[e] as number;
     }
   }
-  // Whether factor j is 1 on piece s (from its left edge on).
-  const isOne = (j: number, s: number): boolean => ((own[j] as Float64Array)[s] as number) >= (one[j] as number);
 
   // 2. Piece bounds: bound[s·k + i] (−Infinity where i is not integrated on s). First, per piece, the sum of
   // log F at its right edge over the factors not 1 on it, the −Infinity ones counted apart.
@@ -191,7 +243,7 @@ function gridIntegrals(
     let sum = 0;
     let count = 0;
     for (let j = 0; j < k; j++) {
-      if (isOne(j, s)) continue;
+      if (oneAt[s * k + j] === 1) continue;
       const v = edgeCdf[(s + 1) * k + j] as number;
       if (v === -Infinity) count += 1;
       else sum += v;
@@ -211,14 +263,21 @@ function gridIntegrals(
     // The mass of i's panels that piece [a, b] overlaps, the panels found by walking (the pieces ascend).
     let pa = 0;
     let pb = 0;
-    for (let s = 0; s < pieces; s++) {
+    // The first piece reaching into i's window (at ascends).
+    let first = 0;
+    for (let hiS = pieces; first < hiS;) {
+      const mid = (first + hiS) >> 1;
+      if ((at[mid + 1] as number) <= left) first = mid + 1;
+      else hiS = mid;
+    }
+    for (let s = first; s < pieces; s++) {
       const a = at[s] as number;
       const b = at[s + 1] as number;
       if (b <= left) continue;
       if (a >= right) break;
       let others = finite[s] as number;
       let otherZeros = zeros[s] as number;
-      if (!isOne(i, s)) {
+      if (oneAt[s * k + i] !== 1) {
         const mine = edgeCdf[(s + 1) * k + i] as number;
         if (mine === -Infinity) otherZeros -= 1;
         else others -= mine;
@@ -254,7 +313,10 @@ function gridIntegrals(
   const rows = Array.from({ length: k }, (_, f) => logF.subarray(f * n, f * n + n));
   const values = new Float64Array(k * n);
   const points = new Float64Array(n);
-  const mapped = new Float64Array(n);
+  const inner = new Float64Array(n);
+  const mapped = new Float64Array(k * n);
+  const both: number[] = [];
+  const inNeed = new Uint8Array(k);
   const prefix = new Float64Array(k + 1);
   const suffix = new Float64Array(k + 1);
   for (const s of order) {
@@ -271,7 +333,7 @@ function gridIntegrals(
     let active = 0;
     for (let j = 0; j < k; j++) {
       position[j] = -1;
-      if (isOne(j, s)) continue;
+      if (oneAt[s * k + j] === 1) continue;
       position[j] = factors.length;
       factors.push(j);
       const change = (edgeCdf[(s + 1) * k + j] as number) - (edgeCdf[s * k + j] as number);
@@ -283,20 +345,30 @@ function gridIntegrals(
       const mid = a + (2 * part + 1) * half;
       for (let q = 0; q < n; q++) points[q] = mid + half * (PANEL_NODES[q] as number);
       const m = factors.length;
+      if (maps !== undefined) {
+        both.length = 0;
+        for (const i of need) inNeed[i] = 1;
+        for (let j = 0; j < k; j++) if ((position[j] as number) >= 0 || inNeed[j] === 1) both.push(j);
+        for (const i of need) inNeed[i] = 0;
+        mapNodes(maps, both, points, inner, mapped);
+      }
       for (let f = 0; f < m; f++) {
         const row = rows[f] as Float64Array;
         row.fill(0);
         const j = factors[f] as number;
-        const map = maps === undefined ? undefined : (maps[j] as CoordinateMap);
-        if (map !== undefined) for (let q = 0; q < n; q++) mapped[q] = map.toOwn(points[q] as number);
-        (ds[j] as TabulatedDistribution).addLogTailsAt(map === undefined ? points : mapped, 0, n, row, false);
+        const at = maps === undefined ? points : mapped.subarray(j * n, j * n + n);
+        (ds[j] as TabulatedDistribution).addLogTailsAt(at, 0, n, row, false);
       }
       for (const i of need) {
         const d = ds[i] as TabulatedDistribution;
         const map = maps === undefined ? undefined : (maps[i] as CoordinateMap);
         for (let q = 0; q < n; q++) {
           const w = points[q] as number;
-          values[i * n + q] = map === undefined ? d.logDensityAt(w) : d.logDensityAt(map.toOwn(w)) + map.logSlope(w);
+          if (map === undefined) values[i * n + q] = d.logDensityAt(w);
+          else {
+            const z = mapped[i * n + q] as number;
+            values[i * n + q] = d.logDensityAt(z) + map.logSlope(w, z);
+          }
         }
       }
       for (let q = 0; q < n; q++) {
