@@ -40,8 +40,9 @@ export const MAX_QUANTILE_STEPS = 100;
  * posterior's density u^(a−1) at a cusp), while the tails themselves stay accurate. Stops
  *  - when a Newton step's error estimate is below ACCEPT_ERROR (that step is returned without another
  *    evaluation), or the residual is below 1e-14 (1e-12 once it stops halving: the tails' rounding noise);
- *  - when a Newton step from a residual below 1e-8 moves v by less than 2 ulp (v is the root to double
- *    precision: without this test a step that lands on the bracket's end was taken for a stray one);
+ *  - when a Newton step from a residual below 1e-6 moves v by less than 2 ulp or `tolerance` (v is the
+ *    root to double precision, or to the caller's resolution: without this test a step that lands on the
+ *    bracket's end was taken for a stray one, and a lift of 1e-18, where 1 + m rounds to 1, crept on);
  *  - when the bracket is narrower than 2 ulp of its ends or than `tolerance` (absolute, in v: below the
  *    caller's resolution, e.g. 1e-300 for a difference of rates), or when `report` (what
  *    the caller returns for v, e.g. the lift expm1(v)) gives the same number at both ends (a root beyond
@@ -106,7 +107,7 @@ export function solveQuantile(
     }
     const slope = Math.exp(e.logDensity - e.logTail);
     const linear: number = slope > 0 && Number.isFinite(slope) ? v - r / slope : NaN;
-    if (Math.abs(linear - v) <= 2 * Number.EPSILON * Math.abs(v) && Math.abs(r) <= 1e-8) return v;
+    if (Math.abs(linear - v) <= Math.max(2 * Number.EPSILON * Math.abs(v), tolerance) && Math.abs(r) <= 1e-6) return v;
     let useLog = false;
     if (logSplit && v !== 0 && a * b > 0 && !secantMode) {
       if (slow) {
