@@ -81,11 +81,13 @@ export function differenceQuantile(y: TabulatedDistribution, x: TabulatedDistrib
   const mx = x.median;
   const spread = Math.hypot(qy - my, qx - mx);
   const start = my - mx + (upperHalf ? spread : -spread);
-  // Rates piled up against 0 put quantiles anywhere down to ~1e-300: split brackets geometrically, and
-  // resolve a root at 0 to 1e-300.
+  // Rates piled up against 0 put quantiles anywhere down to ~1e-300: split brackets geometrically. The
+  // tails are integrals of F(s + d), so d is resolved no finer than the rounding of s + d at the medians
+  // (4 ulp: 2e-3 for means of 1e12, where bisecting further only follows that rounding) or 1e-300.
+  const resolution = 4 * Number.EPSILON * Math.max(Math.abs(y.median), Math.abs(x.median));
   const evaluate = (d: number, upper: boolean): TailAndDensity => differenceTailAndDensity(y, x, d, upper);
-  const q = solveQuantile(evaluate, p, start, bracket, 1e-300, (d) => d, true);
-  return Math.abs(q) <= 1e-300 ? 0 : q;
+  const q = solveQuantile(evaluate, p, start, bracket, Math.max(1e-300, resolution), (d) => d, true);
+  return Math.abs(q) <= Math.max(1e-300, resolution) ? 0 : q;
 }
 
 /** log P(Y − X ≤ d) (or > d when upper) and log of the density of Y − X at d, in one pass. */

@@ -143,6 +143,61 @@ export function innerEdges(
   }
 }
 
+/** Offsets from a cusp (in the base's working variable), graded by 4 down to 4^-22 ≈ 2e-13: see shiftEdges. */
+const CUSP_STEPS: readonly number[] = Array.from({ length: 23 }, (_, k) => 4 ** -k);
+/** Offsets from a soft bend (in the base's working variable): see shiftEdges. */
+const BEND_STEPS: readonly number[] = [1, 2, 4, 8, 16, 32, 64];
+
+/**
+ * Extra cuts for a shifted factor u = scale·x + shift (a difference) whose posterior starts at 0 and is
+ * piled up against it (the slope of its log density in its working variable is below 1 at its window's
+ * left end: a Beta or Gamma shape below 1), inside the base interval [za, zb]:
+ *  - where u = 0 falls inside it (x0 = −shift/scale), the factor behaves like u^a with a < 1 on the side
+ *    where u > 0 (a cusp no panel rule resolves): that side is graded towards x0's working value z0, cuts
+ *    at z0 ± 4^-k for k = 0 … 22 (a leftover of 2e-13 of a working unit holds less than ~1e-13 of the
+ *    panel's mass); each piece then starts at a quarter of its width from the cusp (~1e-15 for the
+ *    16-point rule);
+ *  - where u = 0 lies outside the base's values (x0 ≤ 0 for rates), the factor bends where x ≈ |x0| (its
+ *    working value goes from log|shift| to log x): on a panel wider than 1, cuts at that point's working
+ *    value ± 1, 2, 4 … 64.
+ * Cost: at most 23 (or 15) cuts, in the one base panel holding the point; nothing for other factors.
+ */
+export function shiftEdges(
+  base: TabulatedDistribution,
+  f: Factor,
+  direct: boolean,
+  za: number,
+  zb: number,
+  out: number[],
+): void {
+  const d = f.dist;
+  if (direct || f.shift === 0 || isSigned(f.kind) || d.source.valueRange[0] !== 0) return;
+  if (!(d.source.slope(d.windowLeft) < 1)) return;
+  const x0 = -f.shift / f.scale;
+  const [lo, hi] = base.source.valueRange;
+  if (x0 > lo && x0 < hi) {
+    const z0 = base.source.toWorking(x0);
+    if (!(z0 > za && z0 < zb)) return;
+    out.push(z0);
+    // u > 0 to the right of z0 when scale > 0 (toWorking increases), to the left otherwise.
+    const side = f.scale > 0 ? 1 : -1;
+    for (const step of CUSP_STEPS) {
+      const z = z0 + side * step;
+      if (z > za && z < zb) out.push(z);
+    }
+    return;
+  }
+  const bend = Math.abs(x0);
+  if (!(zb - za > 1 && bend > lo && bend < hi)) return;
+  const z1 = base.source.toWorking(bend);
+  if (!(z1 > za - 64 && z1 < zb + 64)) return;
+  if (z1 > za && z1 < zb) out.push(z1);
+  for (const step of BEND_STEPS) {
+    if (z1 - step > za && z1 - step < zb) out.push(z1 - step);
+    if (z1 + step > za && z1 + step < zb) out.push(z1 + step);
+  }
+}
+
 /** log of the integrand f_base · x^{withValue} · Π factors at one point. */
 export function pointLog(
   base: TabulatedDistribution,

@@ -16,7 +16,7 @@ import { StatsError } from '../errors';
 import { log1mExp, logAddExp } from '../numeric';
 import { PANEL_NODES, PANEL_ORDER, panelLogIntegral } from '../quadrature';
 import type { TabulatedDistribution } from '../quadrature';
-import { boundSide, factor, factorLog, forEachPiece, innerEdges, isDirect, pointLog } from './factors';
+import { boundSide, factor, factorLog, forEachPiece, innerEdges, isDirect, pointLog, shiftEdges } from './factors';
 import type { Factor } from './factors';
 
 /** Panels whose bound lies this far (in log) below the running total are skipped (e^-46 ≈ 1e-20). */
@@ -99,7 +99,10 @@ export function logIntegral(
     const a = base.edges[p] as number;
     const b = base.edges[p + 1] as number;
     breaks.length = 0;
-    for (let i = 0; i < count; i++) innerEdges(base, factors[i] as Factor, direct[i] as boolean, a, b, breaks);
+    for (let i = 0; i < count; i++) {
+      innerEdges(base, factors[i] as Factor, direct[i] as boolean, a, b, breaks);
+      shiftEdges(base, factors[i] as Factor, direct[i] as boolean, a, b, breaks);
+    }
     // Many factors changing on this panel add their curvatures to the integrand's: with `active` of them
     // it is ~√(1 + active) times narrower than the base density, so split the panel into equal parts
     // keeping it within ~4.5 of its own standard deviations (measured: P(highest) of 50 close variants
@@ -419,6 +422,7 @@ export function logTailAndDensity(
     if (!needTail && !needDensity) continue;
     breaks.length = 0;
     innerEdges(base, tailFactor, direct, a, b, breaks);
+    shiftEdges(base, tailFactor, direct, a, b, breaks);
     if (breaks.length === 0) {
       fill(0, 0, p * n);
       const half = (b - a) / 2;

@@ -33,11 +33,16 @@ export const MAX_QUANTILE_STEPS = 100;
  * an integrand with a kink inside a panel, where Newton crawls); so the bracket at least halves every
  * other step. With `logSplit` (a difference of rates, whose quantiles may lie anywhere from 1e-300 to 1
  * when posteriors pile up against 0) a bracket straddling 0 is split at 0 and one spanning more than a
- * factor 4 at the geometric middle of its ends (1e-300 standing in for an end at 0). Stops
+ * factor 4 at the geometric middle of its ends (1e-300 standing in for an end at 0). Once Newton has
+ * crawled with the residuals at both ends of the bracket known, the steps are regula falsi between them
+ * (Illinois: an end kept twice has its residual halved; in log|v| with logSplit), a crawling one followed
+ * by a bisection: the density can mislead Newton where the integrand has a singular factor (the other
+ * posterior's density u^(a−1) at a cusp), while the tails themselves stay accurate. Stops
  *  - when a Newton step's error estimate is below ACCEPT_ERROR (that step is returned without another
  *    evaluation), or the residual is below 1e-14 (1e-12 once it stops halving: the tails' rounding noise);
- *  - when a Newton step from a residual below 1e-8 moves v by less than 2 ulp (v is the root to double
- *    precision: without this test a step that lands on the bracket's end was taken for a stray one);
+ *  - when a Newton step from a residual below 1e-6 moves v by less than 2 ulp or `tolerance` (v is the
+ *    root to double precision, or to the caller's resolution: without this test a step that lands on the
+ *    bracket's end was taken for a stray one, and a lift of 1e-18, where 1 + m rounds to 1, crept on);
  *  - when the bracket is narrower than 2 ulp of its ends or than `tolerance` (absolute, in v: below the
  *    caller's resolution, e.g. 1e-300 for a difference of rates), or when `report` (what
  *    the caller returns for v, e.g. the lift expm1(v)) gives the same number at both ends (a root beyond
@@ -63,12 +68,19 @@ export function solveQuantile(
   let bracketed = false;
   let v = start;
   let previous = Infinity;
-  let k = FIRST_STEP_K;
   let stepped = false;
   let previousStep = 0;
   // With logSplit: Newton in log|v| once a step in v has crawled (see above), until that crawls too.
   let inLog = false;
   let lastLog = false;
+  // Regula falsi (Illinois) between the bracket's ends once Newton has crawled with both ends' residuals
+  // known (a density that misleads Newton, e.g. near a cusp); a crawling secant step is followed by a
+  // bisection.
+  let ra = NaN;
+  let rb = NaN;
+  let lastSide = 0;
+  let secantMode = false;
+  let lastSecant = false;
   for (let i = 0; i < MAX_QUANTILE_STEPS; i++) {
     const e = evaluate(v, upper);
     // residual(v) is increasing in v: log F(v) − log p, or log(1 − p) − log S(v).
@@ -81,13 +93,23 @@ export function solveQuantile(
     // crawling step in v to one in log|v|, where a tail piled up against 0 is smooth).
     const slow = stepped && Math.abs(r) > 0.5 * previous;
     previous = Math.abs(r);
-    if (r < 0) a = v;
-    else b = v;
+    // Illinois: an end kept twice in a row has its residual halved, so the secant moves off it.
+    if (r < 0) {
+      if (secantMode && lastSide === -1) rb /= 2;
+      a = v;
+      ra = r;
+      lastSide = -1;
+    } else {
+      if (secantMode && lastSide === 1) ra /= 2;
+      b = v;
+      rb = r;
+      lastSide = 1;
+    }
     const slope = Math.exp(e.logDensity - e.logTail);
     const linear: number = slope > 0 && Number.isFinite(slope) ? v - r / slope : NaN;
-    if (Math.abs(linear - v) <= 2 * Number.EPSILON * Math.abs(v) && Math.abs(r) <= 1e-8) return v;
+    if (Math.abs(linear - v) <= Math.max(2 * Number.EPSILON * Math.abs(v), tolerance) && Math.abs(r) <= 1e-6) return v;
     let useLog = false;
-    if (logSplit && v !== 0 && a * b > 0) {
+    if (logSplit && v !== 0 && a * b > 0 && !secantMode) {
       if (slow) {
         useLog = !lastLog;
         inLog = useLog;
@@ -100,16 +122,34 @@ export function solveQuantile(
       const [lo, hi] = bracket();
       a = Math.max(a, Math.min(lo, hi));
       b = Math.min(b, Math.max(lo, hi));
+      if (a !== v) ra = NaN;
+      if (b !== v) rb = NaN;
       bracketed = true;
       newton = next >= a && next <= b && next !== v;
     }
-    if (slow && !useLog && Number.isFinite(a) && Number.isFinite(b)) newton = false;
-    if (!newton) next = logSplit ? geometricSplit(a, b) : (a + b) / 2;
+    const known = Number.isFinite(ra) && Number.isFinite(rb);
+    if (slow && !useLog && known) secantMode = true;
+    let secant = false;
+    if (secantMode && known && !(slow && lastSecant)) {
+      // The secant through (a, ra) and (b, rb), in log|v| when both ends have one sign and logSplit.
+      const t = ra / (ra - rb);
+      const s =
+        logSplit && a * b > 0
+          ? Math.sign(a) * Math.exp(Math.log(Math.abs(a)) * (1 - t) + Math.log(Math.abs(b)) * t)
+          : a + t * (b - a);
+      if (s > a && s < b) {
+        next = s;
+        secant = true;
+      }
+      newton = false;
+    } else if (slow && !useLog && Number.isFinite(a) && Number.isFinite(b)) newton = false;
+    if (!newton && !secant) next = logSplit ? geometricSplit(a, b) : (a + b) / 2;
     lastLog = newton && useLog;
+    lastSecant = secant;
     // After a Newton step its curvature constant shows in the new residual; at least 1, to be safe.
-    k = stepped ? Math.max(1, Math.abs(r) / (previousStep * previousStep)) : FIRST_STEP_K;
+    const k = stepped ? Math.max(1, Math.abs(r) / (previousStep * previousStep)) : FIRST_STEP_K;
     if (newton && k * r * r <= ACCEPT_ERROR) return next;
-    stepped = newton;
+    stepped = newton || secant;
     previousStep = Math.abs(r);
     const width = b - a;
     const closed =
