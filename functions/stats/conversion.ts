@@ -549,8 +549,11 @@ const LIFT_CHART_FENCE = 3;
  * (liftChartRange: the 1%–99% lift quantiles, kept within three interquartile ranges of the quartiles),
  * and each challenger's lift density there (compare/ratioGrid.ts: exact ratio densities, interpolated
  * between them in log(1 + lift) where checked to be as accurate).
- * Cost: 4 (k − 1) quantiles and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
- * integrals (typically 16 a challenger at thousands of visitors). Errors as posteriorDensityTable, and 2 … 50 variants,
+ * Cost: at most 4 (k − 1) quantiles (only those of challengers that may set the grid's ends when their
+ * fitted piece gives estimates) and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
+ * integrals (typically 16 a challenger at thousands of visitors), each either 24 evaluations by the checked
+ * Gauss rules of ratioGrid.ts (PairRule), none where a bound shows the density underflows, or the exact
+ * pruned integral. Errors as posteriorDensityTable, and 2 … 50 variants,
  * StatsError('invalid_argument') for more than 5,000 density values (limits.ts checkLiftDensityCells);
  * StatsError('not_available') naming prior_alpha (and prior_beta) when a lift has no chart range.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3

@@ -5,6 +5,7 @@ import { gaussLegendre } from '../../functions/stats/numeric';
 import { posteriorOf } from '../../functions/stats/conversion';
 import { tabulate } from '../../functions/stats/quadrature';
 import reference from '../reference/addin/lift_chart_density.json';
+import underflow from '../reference/addin/lift_density_underflow.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
@@ -136,6 +137,22 @@ describe('lift densities from Gauss rules of the narrower posterior (PairRule) a
     );
     expect(rule.usable).toBe(false);
     expect(rule.logDensity(1)).toBeUndefined();
+  });
+});
+
+describe('lift densities below the smallest double (PairRule densityUnderflows) against mpmath', () => {
+  // lift_density_underflow.py: the log density by mpmath; below −746 the table's value is 0 (as the exact
+  // integral's exponential is), found from the bound without the integral; above it the bound must not claim it.
+  it.each(underflow.cases.map((c) => [c.why, c] as const))('%s', (_why, c) => {
+    const [cx, nx] = c.control as [number, number];
+    const [cy, ny] = c.challenger as [number, number];
+    const x = posteriorOf({ conversions: cx, visitors: nx });
+    const y = posteriorOf({ conversions: cy, visitors: ny });
+    const below = c.logDensity < -746;
+    expect(new PairRule(y, x).densityUnderflows(1 + c.lift)).toBe(below);
+    const [density] = ratioDensityGrid(y, x, [c.lift]).densities;
+    if (below) expect(density).toBe(0);
+    else expect(relativeError(Math.log(density as number), c.logDensity)).toBeLessThan(1e-12);
   });
 });
 

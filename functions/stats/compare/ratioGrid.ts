@@ -5,7 +5,10 @@
  * points, wherever a piece's Chebyshev coefficients show that the interpolant is accurate; elsewhere each
  * grid point is evaluated exactly. In v = log(1 + m) the log density is smooth across the whole grid (its
  * singularity at m = −1 becomes a straight tail), so at a thousand visitors one piece of 16 points stands
- * for a hundred or a thousand rows.
+ * for a hundred or a thousand rows. Each exact value is the integral over the narrower posterior taken by
+ * that posterior's own Gauss rules where they pass their check (PairRule, 24 evaluations; typical when a
+ * challenger has many more or many fewer visitors than the control), 0 where a bound shows it is below
+ * the smallest double, else ratio.ts's pruned integral.
  */
 import { barycentric, chebyshevNodes } from '../chebyshevNodes';
 import { gaussLegendre, logAddExp } from '../numeric';
@@ -339,7 +342,11 @@ export class PairRule {
   private readonly lowValue: number;
   private readonly highValue: number;
 
-  constructor(y: TabulatedDistribution, x: TabulatedDistribution) {
+  constructor(
+    private readonly y: TabulatedDistribution,
+    private readonly x: TabulatedDistribution,
+  ) {
+    this.exactBaseIsX = xIsBase(x, y);
     // In log(1 + lift) = log Y − log X what matters is each one's spread relative to its size.
     const relativeX = x.spread / x.mean;
     const relativeY = y.spread / y.mean;
@@ -449,6 +456,66 @@ export class PairRule {
     return high;
   }
 
+  /** Per panel of the exact integrals' other posterior, its largest log value density at its nodes (on first use). */
+  private otherPanelMax: Float64Array | undefined;
+  /** Whether the exact integrals take X as their base (integrate.ts xIsBase). */
+  private readonly exactBaseIsX: boolean;
+
+  /**
+   * An upper bound on the log of the exact integral ∫ f_B(t) t f_O(scale·t) dt over the panels of B, the
+   * posterior the exact integrals take as their base (integrate.ts xIsBase, which may differ from this
+   * rule's base): per panel of B, its mass times its largest value times the largest O's value density
+   * reaches over the panel's image (the largest at O's nodes there and at the image's ends, plus 1: the
+   * margin the exact integrals' own pruning bounds take, tabulated.ts logMaxValueDensity; a Beta's value
+   * density is largest over an interval without its mode at an end). Infinity where the image reaches O's
+   * upper value end. Cost: O(B's panels + O's panels met).
+   */
+  private logDensityIntegralBound(scale: number): number {
+    const base = this.exactBaseIsX ? this.x : this.y;
+    const other = this.exactBaseIsX ? this.y : this.x;
+    const os = other.source;
+    const hi = os.valueRange[1];
+    if (this.otherPanelMax === undefined) {
+      const most = new Float64Array(other.panelCount).fill(-Infinity);
+      for (let i = 0; i < other.nodeZ.length; i++) {
+        const p = Math.floor(i / PANEL_ORDER);
+        const v = (other.nodeLogDensity[i] as number) - Math.log(os.valueJacobian(other.nodeZ[i] as number));
+        if (v > (most[p] as number)) most[p] = v;
+      }
+      this.otherPanelMax = most;
+    }
+    const panelMax = this.otherPanelMax;
+    let bound = -Infinity;
+    for (let p = 0; p < base.panelCount; p++) {
+      const mass = base.panelLogMass[p] as number;
+      if (mass === -Infinity) continue;
+      const ta = base.source.toValue(base.edges[p] as number);
+      const tb = base.source.toValue(base.edges[p + 1] as number);
+      const a = scale * ta;
+      const b = scale * tb;
+      if (!(b < hi)) return Infinity;
+      let most = Math.max(other.logValueDensity(a), other.logValueDensity(b));
+      const za = os.toWorking(a);
+      const zb = os.toWorking(b);
+      if (zb > other.windowLeft && za < other.windowRight) {
+        const last = other.findPanel(zb);
+        for (let q = other.findPanel(za); q <= last; q++) most = Math.max(most, panelMax[q] as number);
+      }
+      bound = logAddExp(bound, mass + Math.log(tb) + most + 1);
+    }
+    return bound;
+  }
+
+  /**
+   * Whether the exact density of R at s = 1 + m is below the smallest positive double for sure (by
+   * logDensityIntegralBound): then it is 0 in the table, as the exact integral's exponential would be.
+   */
+  densityUnderflows(s: number): boolean {
+    const scale = this.exactBaseIsX ? s : 1 / s;
+    const offset = this.exactBaseIsX ? 0 : -2 * Math.log(s);
+    return this.logDensityIntegralBound(scale) + offset < LOG_UNDERFLOW;
+  }
+
   /**
    * log of the density of R at m (s = 1 + m), as ratio.ts logRatioDensity: over X ∫ f_X(t) t f_Y(st) dt,
    * over Y ∫ f_Y(t) t f_X(t/s) dt / s²; undefined where the check fails.
@@ -474,6 +541,8 @@ export class PairRule {
 }
 
 const SCRATCH = new Float64Array(64);
+/** Below this log a density is 0 in double precision (e^-745.2 is the smallest positive double's half). */
+const LOG_UNDERFLOW = -746;
 
 /**
  * One challenger against the control for a chart: the lift's log density and tails, each from the
@@ -495,7 +564,9 @@ class LiftPair {
 
   /** log of the density of R at m > −1. */
   logAt(m: number): number {
-    return this.rule.logDensity(1 + m) ?? this.exact.logAt(m);
+    const fast = this.rule.logDensity(1 + m);
+    if (fast !== undefined) return fast;
+    return this.rule.densityUnderflows(1 + m) ? -Infinity : this.exact.logAt(m);
   }
 
   /**
