@@ -24,7 +24,7 @@ import {
   ratioQuantile,
   ratioSf,
 } from './compare';
-import type { LogDensityPiece, QuantileOf } from './compare';
+import type { LiftPair, LogDensityPiece, QuantileOf } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
@@ -467,6 +467,7 @@ function chartRange(
   return {
     range,
     piece: found.piece,
+    pair: found.pair,
     estimated: found.estimated,
     solved: () => (found.estimated ? rangeOf(found.solved()) : range),
   };
@@ -476,6 +477,8 @@ function chartRange(
 interface ChartRange {
   readonly range: [number, number] | 'wide' | 'narrow';
   readonly piece: LogDensityPiece | undefined;
+  /** The pair's rules and exact integrals (compare/ratioGrid.ts), reused for the grid's densities. */
+  readonly pair: LiftPair;
   /** Whether `range` comes from the piece's quantile estimates (right to ~1e-12 in log(1 + lift)). */
   readonly estimated: boolean;
   /** The range from the solved quantiles (`range` itself when not estimated). */
@@ -615,6 +618,8 @@ export function liftDensityTable(
   const grid = evenGrid(lo, hi, points);
   return {
     grid,
-    densities: challengers.map((d, i) => ratioDensityGrid(d, control, grid, charts[i]?.chart.piece).densities),
+    densities: challengers.map(
+      (d, i) => ratioDensityGrid(d, control, grid, charts[i]?.chart.piece, charts[i]?.chart.pair).densities,
+    ),
   };
 }

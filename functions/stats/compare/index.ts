@@ -22,5 +22,5 @@ export { expectedLosses } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
 export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';
-export type { LogDensityPiece } from './ratioGrid';
+export type { LiftPair, LogDensityPiece } from './ratioGrid';
 export type { QuantileOf } from './ratio';

@@ -358,7 +358,15 @@ export class PairRule {
     const base = this.base;
     const mass = base.panelLogMass;
     const [first, last] = keptPanels(base);
-    // (The measure below is built even when unusable: cheap next to one integral, and keeps the fields set.)
+    this.lowValue = base.source.toValue(base.edges[first] as number);
+    this.highValue = base.source.toValue(base.edges[last + 1] as number);
+    this.logTopValue = Math.log(base.source.toValue(base.windowRight));
+    if (!this.usable) {
+      this.logOutside = 0;
+      this.low = undefined;
+      this.high = undefined;
+      return;
+    }
     let outside = -Infinity;
     const kept: number[] = [];
     for (let p = 0; p < base.panelCount; p++) {
@@ -366,9 +374,6 @@ export class PairRule {
       else outside = logAddExp(outside, mass[p] as number);
     }
     this.logOutside = outside;
-    this.logTopValue = Math.log(base.source.toValue(base.windowRight));
-    this.lowValue = base.source.toValue(base.edges[first] as number);
-    this.highValue = base.source.toValue(base.edges[last + 1] as number);
     // The discrete measure: the kept panels' nodes, in z scaled to mean 0 and spread 1.
     const count = kept.length * PANEL_ORDER;
     const z = new Float64Array(count);
@@ -411,8 +416,8 @@ export class PairRule {
       }
       return { logWeight, value, logValue };
     };
-    this.low = this.usable ? make(RULE_LOW) : undefined;
-    this.high = this.usable ? make(RULE_HIGH) : undefined;
+    this.low = make(RULE_LOW);
+    this.high = make(RULE_HIGH);
   }
 
   /** log Σ_j w_j · x_j^{withValue} · e^{term(scale · x_j)} over one rule. */
@@ -468,9 +473,10 @@ export class PairRule {
    * reaches over the panel's image (the largest at O's nodes there and at the image's ends, plus 1: the
    * margin the exact integrals' own pruning bounds take, tabulated.ts logMaxValueDensity; a Beta's value
    * density is largest over an interval without its mode at an end). Infinity where the image reaches O's
-   * upper value end. Cost: O(B's panels + O's panels met).
+   * upper value end. Returns as soon as the bound passes `stop` (the panels visited heaviest first).
+   * Cost: O(B's panels + O's panels met).
    */
-  private logDensityIntegralBound(scale: number): number {
+  private logDensityIntegralBound(scale: number, stop: number): number {
     const base = this.exactBaseIsX ? this.x : this.y;
     const other = this.exactBaseIsX ? this.y : this.x;
     const os = other.source;
@@ -486,7 +492,10 @@ export class PairRule {
     }
     const panelMax = this.otherPanelMax;
     let bound = -Infinity;
-    for (let p = 0; p < base.panelCount; p++) {
+    // The heaviest panels first: a lift near the middle shows a bound above the threshold at once.
+    const order = base.panelOrder;
+    for (let r = 0; r < base.panelCount; r++) {
+      const p = order[r] as number;
       const mass = base.panelLogMass[p] as number;
       if (mass === -Infinity) continue;
       const ta = base.source.toValue(base.edges[p] as number);
@@ -502,6 +511,7 @@ export class PairRule {
         for (let q = other.findPanel(za); q <= last; q++) most = Math.max(most, panelMax[q] as number);
       }
       bound = logAddExp(bound, mass + Math.log(tb) + most + 1);
+      if (bound > stop) return bound;
     }
     return bound;
   }
@@ -513,7 +523,7 @@ export class PairRule {
   densityUnderflows(s: number): boolean {
     const scale = this.exactBaseIsX ? s : 1 / s;
     const offset = this.exactBaseIsX ? 0 : -2 * Math.log(s);
-    return this.logDensityIntegralBound(scale) + offset < LOG_UNDERFLOW;
+    return this.logDensityIntegralBound(scale, LOG_UNDERFLOW - offset) + offset < LOG_UNDERFLOW;
   }
 
   /**
@@ -550,7 +560,7 @@ const LOG_UNDERFLOW = -746;
  * (PairDensity; integrate.ts logTailAndDensity, as ratio.ts does), and its quantiles by ratio.ts's solver
  * on those values.
  */
-class LiftPair {
+export class LiftPair {
   private readonly exact: PairDensity;
   private readonly rule: PairRule;
 
@@ -667,6 +677,7 @@ export function ratioDensityGrid(
   x: TabulatedDistribution,
   grid: readonly number[],
   known?: LogDensityPiece,
+  reuse?: LiftPair,
 ): RatioDensityGrid {
   const densities = grid.map(() => 0);
   let first = 0;
@@ -688,7 +699,7 @@ export function ratioDensityGrid(
   const count = grid.length - first - (knownTo - knownFrom + 1);
   let integrals = 0;
   let tried = 0;
-  const pair = count > 0 ? new LiftPair(y, x) : undefined;
+  const pair = count > 0 ? (reuse ?? new LiftPair(y, x)) : undefined;
   const exact = (m: number): number => {
     integrals++;
     return (pair as LiftPair).logAt(m);
@@ -756,6 +767,8 @@ export interface RatioChartQuantiles {
   readonly estimated: boolean;
   /** The roots (ratioQuantile's, to ~1e-13), solved on first call from the estimates. */
   solved(): number[];
+  /** The pair's rules and exact integrals, for ratioDensityGrid to reuse. */
+  readonly pair: LiftPair;
 }
 
 /**
@@ -787,7 +800,7 @@ export function ratioChartQuantiles(
   const pair = new LiftPair(y, x);
   const solvedFrom = (from: readonly number[], piece: LogDensityPiece | undefined): RatioChartQuantiles => {
     const quantiles = ps.map((p, i) => pair.quantile(p, from[i] as number));
-    return { quantiles, piece, estimated: false, solved: () => quantiles };
+    return { quantiles, piece, estimated: false, solved: () => quantiles, pair };
   };
   const low = Math.min(...starts);
   const high = Math.max(...starts);
@@ -841,5 +854,6 @@ export function ratioChartQuantiles(
     piece,
     estimated: true,
     solved: () => (solved ??= solvedFrom(from, piece).quantiles),
+    pair,
   };
 }
