@@ -24,7 +24,7 @@ import {
   ratioQuantile,
   ratioSf,
 } from './compare';
-import type { LogDensityPiece, QuantileOf } from './compare';
+import type { LiftPair, LogDensityPiece, QuantileOf } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
@@ -452,15 +452,44 @@ function chartRange(
   challenger: TabulatedDistribution,
   control: TabulatedDistribution,
   controlQuantile?: QuantileOf,
-): { range: [number, number] | 'wide' | 'narrow'; piece: LogDensityPiece | undefined } {
-  const { quantiles, piece } = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES, controlQuantile);
-  const [q01, q25, q75, q99] = quantiles as [number, number, number, number];
-  const spread = q75 - q25;
-  const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
-  const hi = Math.min(q99, q75 + LIFT_CHART_FENCE * spread);
-  if (!(Number.isFinite(lo) && Number.isFinite(hi))) return { range: 'wide', piece };
-  return { range: hi > lo ? [lo, hi] : 'narrow', piece };
+  estimate = false,
+): ChartRange {
+  const found = ratioChartQuantiles(challenger, control, LIFT_CHART_QUANTILES, controlQuantile, estimate);
+  const rangeOf = (quantiles: readonly number[]): [number, number] | 'wide' | 'narrow' => {
+    const [q01, q25, q75, q99] = quantiles as [number, number, number, number];
+    const spread = q75 - q25;
+    const lo = Math.max(q01, q25 - LIFT_CHART_FENCE * spread);
+    const hi = Math.min(q99, q75 + LIFT_CHART_FENCE * spread);
+    if (!(Number.isFinite(lo) && Number.isFinite(hi))) return 'wide';
+    return hi > lo ? [lo, hi] : 'narrow';
+  };
+  const range = rangeOf(found.quantiles);
+  return {
+    range,
+    piece: found.piece,
+    pair: found.pair,
+    estimated: found.estimated,
+    solved: () => (found.estimated ? rangeOf(found.solved()) : range),
+  };
 }
+
+/** A challenger's chart range (chartRange): the range, the piece of its lift's log density, and the solved range. */
+interface ChartRange {
+  readonly range: [number, number] | 'wide' | 'narrow';
+  readonly piece: LogDensityPiece | undefined;
+  /** The pair's rules and exact integrals (compare/ratioGrid.ts), reused for the grid's densities. */
+  readonly pair: LiftPair;
+  /** Whether `range` comes from the piece's quantile estimates (right to ~1e-12 in log(1 + lift)). */
+  readonly estimated: boolean;
+  /** The range from the solved quantiles (`range` itself when not estimated). */
+  solved(): [number, number] | 'wide' | 'narrow';
+}
+
+/**
+ * How close an estimated end must come to the union's end for its challenger's quantiles to be solved,
+ * relative to the union's width plus 1 + its largest |lift|: a thousand times the estimates' error.
+ */
+const CHART_END_MARGIN = 1e-9;
 
 /**
  * The chart range of chartRange above. Throws StatsError('not_available') when there is none.
@@ -523,8 +552,11 @@ const LIFT_CHART_FENCE = 3;
  * (liftChartRange: the 1%–99% lift quantiles, kept within three interquartile ranges of the quartiles),
  * and each challenger's lift density there (compare/ratioGrid.ts: exact ratio densities, interpolated
  * between them in log(1 + lift) where checked to be as accurate).
- * Cost: 4 (k − 1) quantiles and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
- * integrals (typically 16 a challenger at thousands of visitors). Errors as posteriorDensityTable, and 2 … 50 variants,
+ * Cost: at most 4 (k − 1) quantiles (only those of challengers that may set the grid's ends when their
+ * fitted piece gives estimates) and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
+ * integrals (typically 16 a challenger at thousands of visitors), each either 24 evaluations by the checked
+ * Gauss rules of ratioGrid.ts (PairRule), none where a bound shows the density underflows, or the exact
+ * pruned integral. Errors as posteriorDensityTable, and 2 … 50 variants,
  * StatsError('invalid_argument') for more than 5,000 density values (limits.ts checkLiftDensityCells);
  * StatsError('not_available') naming prior_alpha (and prior_beta) when a lift has no chart range.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
@@ -557,21 +589,37 @@ export function liftDensityTable(
   // 1 to double precision under a prior of 0.001): the lift's middle half is one number too, answered before
   // its quantiles are solved for (those solves cannot converge there and would run past the work budget).
   const controlPinned = middleHalfPinned(control);
+  const fail = (i: number, why: 'wide' | 'narrow'): StatsError =>
+    noChartRange(why, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
+  // Each challenger's range from the estimates of its fitted piece where it has one; then the ranges that
+  // may set an end of the union (within CHART_END_MARGIN of it), or that are near empty, are solved, so the
+  // grid's ends are the solved quantiles' (the others lie inside by more than their estimates' error).
   const charts = challengers.map((d, i) => {
-    if (controlPinned && middleHalfPinned(d)) {
-      throw noChartRange('narrow', prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
-    }
-    const chart = chartRange(d, control, controlQuantile);
-    if (typeof chart.range === 'string') {
-      throw noChartRange(chart.range, prior, variants[0] as ConversionCounts, variants[i + 1] as ConversionCounts);
-    }
-    return { range: chart.range, piece: chart.piece };
+    if (controlPinned && middleHalfPinned(d)) throw fail(i, 'narrow');
+    const chart = chartRange(d, control, controlQuantile, true);
+    const range = typeof chart.range === 'string' ? chart.solved() : chart.range;
+    if (typeof range === 'string') throw fail(i, range);
+    return { chart, range, settled: typeof chart.range === 'string' || !chart.estimated };
   });
-  const lo = Math.min(...charts.map((c) => c.range[0]));
-  const hi = Math.max(...charts.map((c) => c.range[1]));
+  const roughLo = Math.min(...charts.map((c) => c.range[0]));
+  const roughHi = Math.max(...charts.map((c) => c.range[1]));
+  // The estimates are right to ~1e-12 in log(1 + lift), i.e. to ~1e-12 (1 + |lift|) in the lift.
+  const margin = CHART_END_MARGIN * (roughHi - roughLo + 1 + Math.max(Math.abs(roughLo), Math.abs(roughHi)));
+  const ranges = charts.map(({ chart, range, settled }, i) => {
+    if (settled || (range[0] > roughLo + margin && range[1] < roughHi - margin && range[1] - range[0] > margin)) {
+      return range;
+    }
+    const solved = chart.solved();
+    if (typeof solved === 'string') throw fail(i, solved);
+    return solved;
+  });
+  const lo = Math.min(...ranges.map((r) => r[0]));
+  const hi = Math.max(...ranges.map((r) => r[1]));
   const grid = evenGrid(lo, hi, points);
   return {
     grid,
-    densities: challengers.map((d, i) => ratioDensityGrid(d, control, grid, charts[i]?.piece).densities),
+    densities: challengers.map(
+      (d, i) => ratioDensityGrid(d, control, grid, charts[i]?.chart.piece, charts[i]?.chart.pair).densities,
+    ),
   };
 }

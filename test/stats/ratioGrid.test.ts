@@ -1,9 +1,11 @@
 import { betaWorkingDensity } from '../../functions/stats/betaDensity';
 import { ratioDensity, ratioQuantile } from '../../functions/stats/compare';
-import { ratioChartQuantiles, ratioDensityGrid } from '../../functions/stats/compare/ratioGrid';
+import { PairRule, gaussRuleOf, ratioChartQuantiles, ratioDensityGrid } from '../../functions/stats/compare/ratioGrid';
+import { gaussLegendre } from '../../functions/stats/numeric';
 import { posteriorOf } from '../../functions/stats/conversion';
 import { tabulate } from '../../functions/stats/quadrature';
 import reference from '../reference/addin/lift_chart_density.json';
+import underflow from '../reference/addin/lift_density_underflow.json';
 import { relativeError } from '../helpers/assertions';
 
 /*
@@ -103,5 +105,92 @@ describe('lift quantiles for a chart (ratioChartQuantiles): the roots of ratioQu
     c.densities.forEach((expected, j) => {
       expect(relativeError(result.densities[j] as number, expected)).toBeLessThan(2e-12);
     });
+  });
+});
+
+describe('lift densities from Gauss rules of the narrower posterior (PairRule) against mpmath', () => {
+  // The last two cases of lift_chart_density.py: challengers of 12,649 and ten million visitors against
+  // controls of 10 and 2,000 (invented counts), where the rules pass their check at almost every lift.
+  const cases = reference.cases.filter((c) => c.why.startsWith('a challenger of'));
+  it.each(cases.map((c) => [c.why, c] as const))('%s', (_why, c) => {
+    const prior = { alpha: c.prior[0] as number, beta: c.prior[1] as number };
+    const [cx, nx] = c.control as [number, number];
+    const [cy, ny] = c.challenger as [number, number];
+    const rule = new PairRule(
+      posteriorOf({ conversions: cy, visitors: ny }, prior),
+      posteriorOf({ conversions: cx, visitors: nx }, prior),
+    );
+    let used = 0;
+    c.lifts.forEach((lift, j) => {
+      const logDensity = rule.logDensity(1 + lift);
+      if (logDensity === undefined) return;
+      used++;
+      expect(relativeError(Math.exp(logDensity), c.densities[j] as number)).toBeLessThan(2e-12);
+    });
+    expect(used).toBeGreaterThanOrEqual(37);
+  });
+
+  it('declines a pair of equal spreads (the rules are not tried) and gives no density there', () => {
+    const rule = new PairRule(
+      posteriorOf({ conversions: 510, visitors: 10007 }),
+      posteriorOf({ conversions: 500, visitors: 10000 }),
+    );
+    expect(rule.usable).toBe(false);
+    expect(rule.logDensity(1)).toBeUndefined();
+  });
+});
+
+describe('lift densities below the smallest double (PairRule densityUnderflows) against mpmath', () => {
+  // lift_density_underflow.py: the log density by mpmath; below −746 the table's value is 0 (as the exact
+  // integral's exponential is), found from the bound without the integral; above it the bound must not claim it.
+  it.each(underflow.cases.map((c) => [c.why, c] as const))('%s', (_why, c) => {
+    const [cx, nx] = c.control as [number, number];
+    const [cy, ny] = c.challenger as [number, number];
+    const x = posteriorOf({ conversions: cx, visitors: nx });
+    const y = posteriorOf({ conversions: cy, visitors: ny });
+    const below = c.logDensity < -746;
+    expect(new PairRule(y, x).densityUnderflows(1 + c.lift)).toBe(below);
+    const [density] = ratioDensityGrid(y, x, [c.lift]).densities;
+    if (below) expect(density).toBe(0);
+    else expect(relativeError(Math.log(density as number), c.logDensity)).toBeLessThan(1e-12);
+  });
+});
+
+describe('Gauss rules of a discrete measure (ratioGrid.ts gaussRuleOf, used by the checked lift rules)', () => {
+  // The standard normal density on 400 Gauss–Legendre points over [−12, 12]: a discrete measure whose
+  // moments match the normal's to ~1e-15, so its Gauss rules are the probabilists' Gauss–Hermite rules.
+  const rule = gaussLegendre(400);
+  const points = rule.nodes.map((t) => 12 * t);
+  const weights = points.map(
+    (x, i) => (12 * (rule.weights[i] as number) * Math.exp((-x * x) / 2)) / Math.sqrt(2 * Math.PI),
+  );
+
+  it('3 points: 0 and ±√3 with weights 2/3 and 1/6 (the roots of He₃ = x³ − 3x; closed form, common practice)', () => {
+    const r = gaussRuleOf(points, weights, points.length, 3);
+    expect(r).toBeDefined();
+    const order = Array.from(r!.nodes.keys()).sort((i, j) => (r!.nodes[i] as number) - (r!.nodes[j] as number));
+    const nodes = order.map((i) => r!.nodes[i] as number);
+    const w = order.map((i) => r!.weights[i] as number);
+    [-Math.sqrt(3), 0, Math.sqrt(3)].forEach((x, i) => expect(Math.abs((nodes[i] as number) - x)).toBeLessThan(1e-12));
+    [1 / 6, 2 / 3, 1 / 6].forEach((x, i) => expect(Math.abs((w[i] as number) - x)).toBeLessThan(1e-12));
+  });
+
+  it('5 points: the roots of He₅ = x⁵ − 10x³ + 15x, x² = 5 ± √10 (closed form)', () => {
+    const r = gaussRuleOf(points, weights, points.length, 5);
+    const nodes = Array.from(r!.nodes).sort((a, b) => a - b);
+    const root = (sign: number) => Math.sqrt(5 + sign * Math.sqrt(10));
+    [-root(1), -root(-1), 0, root(-1), root(1)].forEach((x, i) =>
+      expect(Math.abs((nodes[i] as number) - x)).toBeLessThan(1e-12),
+    );
+    // The weights sum to the measure's total and integrate x⁸ exactly (E x⁸ = 105 for a standard normal).
+    const sum = Array.from(r!.weights).reduce((a, b) => a + b, 0);
+    expect(Math.abs(sum - 1)).toBeLessThan(1e-13);
+    const m8 = Array.from(r!.nodes).reduce((a, x, i) => a + (r!.weights[i] as number) * x ** 8, 0);
+    expect(Math.abs(m8 - 105) / 105).toBeLessThan(1e-12);
+  });
+
+  it('answers undefined when the measure has fewer points than the rule needs', () => {
+    const few = new Float64Array([0, 1]);
+    expect(gaussRuleOf(few, new Float64Array([0.5, 0.5]), 2, 3)).toBeUndefined();
   });
 });

@@ -25,5 +25,5 @@ export type { ValueFrame } from './losses';
 export { differenceCdf, differenceDensity, differenceQuantile, differenceSf } from './difference';
 export { ratioCdf, ratioDensity, ratioQuantile, ratioSf, signedRatioCdf, signedRatioQuantile } from './ratio';
 export { ratioChartQuantiles, ratioDensityGrid } from './ratioGrid';
-export type { LogDensityPiece } from './ratioGrid';
+export type { LiftPair, LogDensityPiece } from './ratioGrid';
 export type { QuantileOf } from './ratio';

@@ -3,7 +3,8 @@ Reference values for the densities of LIFT_DENSITY on a grid of lifts (compare/r
 interpolates the log density of log(1 + lift) between exact values): for each case, the lift's density at
 41 evenly spread lifts, by mpmath at 40 digits. The counts are invented; they cover a light-tailed lift, a
 control with no conversions (a heavy right tail), small counts whose lift reaches down to -1, close
-variants of 10,000 visitors, two million visitors, and a weak prior.
+variants of 10,000 visitors, two million visitors, a weak prior, and challengers far larger than their
+control (whose densities ratioGrid.ts takes from Gauss rules of the challenger's posterior).
 
 With X ~ Beta(alpha + x_A, beta + n_A - x_A) the control's rate and Y the challenger's, the lift
 L = Y/X - 1 has the density (common practice: the density of a ratio, differentiated under the integral)
@@ -28,6 +29,9 @@ CASES = [
     ('close variants of 10,000 visitors', (500, 10000), (510, 10007), (1, 1), (-0.13, 0.26)),
     ('two million visitors each', (100000, 2000000), (101000, 2000000), (1, 1), (-0.004, 0.024)),
     ('a weak prior, 0.5 and 0.5', (2, 1000), (9, 1000), (0.5, 0.5), (-0.6, 20)),
+    ('a challenger of 12,649 visitors against a control of 10', (0, 10), (4217, 12649), (1, 1), (0.2, 40)),
+    ('a challenger of ten million visitors against a control of 2,000', (100, 2000), (500000, 10000000), (1, 1),
+     (-0.3, 0.45)),
 ]
 POINTS = 41
 
