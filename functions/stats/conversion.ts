@@ -411,15 +411,31 @@ export function decide(
   return { choose: loss <= threshold, index, loss, maxLoss: threshold };
 }
 
-function evenGrid(lo: number, hi: number, points: number): number[] {
-  return Array.from({ length: points }, (_, r) => (r === points - 1 ? hi : lo + ((hi - lo) * r) / (points - 1)));
+/**
+ * `points` values evenly spread from lo to hi. Throws StatsError('not_available') naming `what` (the chart's
+ * quantity) when two neighbours are the same number to double precision (a range of a few units in the last
+ * place, e.g. a rate known to 16 digits from 9E+15 visitors): a chart table needs distinct rows.
+ */
+function evenGrid(lo: number, hi: number, points: number, what: string, instead: string): number[] {
+  const grid = Array.from({ length: points }, (_, r) => (r === points - 1 ? hi : lo + ((hi - lo) * r) / (points - 1)));
+  const distinct = grid.every((x, r) => r === 0 || x > (grid[r - 1] as number));
+  if (!distinct) {
+    const place = Math.max(Math.abs(lo), Math.abs(hi)) * Number.EPSILON;
+    throw new StatsError(
+      'not_available',
+      `points: ${points} different rows do not fit: the ${what} run only from ${lo} to ${hi} (numbers a cell ` +
+        `holds are about ${Number(place.toPrecision(2))} apart there); ${instead}`,
+    );
+  }
+  return grid;
 }
 
 /**
  * A table for a chart of the posterior densities of the rates: `points` rates evenly spread over the
  * union of the variants' central 99.9% intervals, and each variant's density there (per unit of rate).
  * Cost: k tabulations and k × points density evaluations.
- * Throws StatsError('invalid_argument') for bad counts, prior or points (2 … 1000).
+ * Throws StatsError('invalid_argument') for bad counts, prior or points (2 … 1000), and
+ * StatsError('not_available') when that union is too narrow for `points` different rates in double precision.
  * @example posteriorDensityTable([{ conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid
  * //=> [0.1100007873…, 0.5000000000…, 0.8899992126…] (Beta(6, 6)'s 0.05% and 99.95% quantiles)
  */
@@ -435,7 +451,13 @@ export function posteriorDensityTable(
   const ds = posteriors(variants, prior, tables);
   const lo = Math.min(...ds.map((d) => d.quantile(0.0005)));
   const hi = Math.max(...ds.map((d) => d.quantileUpper(0.0005)));
-  const grid = evenGrid(lo, hi, points);
+  const grid = evenGrid(
+    lo,
+    hi,
+    points,
+    'posteriors of the rates',
+    'the rates are known to every digit a cell shows: read them with RATE_INTERVAL, or ask for fewer points',
+  );
   return { grid, densities: ds.map((d) => grid.map((x) => d.density(x))) };
 }
 
@@ -615,7 +637,13 @@ export function liftDensityTable(
   });
   const lo = Math.min(...ranges.map((r) => r[0]));
   const hi = Math.max(...ranges.map((r) => r[1]));
-  const grid = evenGrid(lo, hi, points);
+  const grid = evenGrid(
+    lo,
+    hi,
+    points,
+    'lifts in the chart',
+    'the lifts are known to every digit a cell shows: read them with LIFT_INTERVAL, or ask for fewer points',
+  );
   return {
     grid,
     densities: challengers.map(

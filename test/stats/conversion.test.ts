@@ -257,6 +257,31 @@ describe('density tables', () => {
     });
   });
 
+  it('posteriorDensityTable refuses more rows than distinct rates exist in its range (2^53 visitors, all converted)', () => {
+    // Beta(2^53 + 0.5, 0.5): its sd is about √0.5 / 2^53 ≈ 7.9e-17 (the Beta variance ab / ((a + b)²(a + b + 1)),
+    // common practice), below the spacing of doubles just under 1 (1.1e-16): only a handful of rates between
+    // its 0.05% and 99.95% quantiles exist as numbers, so 101 rows would repeat rates.
+    const n = 9007199254740992;
+    const variants = counts([
+      [n, n],
+      [n, n],
+    ]);
+    const prior = { alpha: 0.5, beta: 0.5 };
+    const error = thrown(() => posteriorDensityTable(variants, 101, prior));
+    expect(error.code).toBe('not_available');
+    expect(error.message).toMatch(
+      /^points: 101 different rows do not fit: the posteriors of the rates run only from 0\.99999999999999\d+ to 1 /,
+    );
+    expect(error.message).toContain('read them with RATE_INTERVAL, or ask for fewer points');
+    // Five rows fit: distinct, increasing rates up to 1.
+    const five = posteriorDensityTable(variants, 5, prior);
+    expect(five.grid).toHaveLength(5);
+    five.grid.forEach((x, i) => {
+      if (i > 0) expect(x).toBeGreaterThan(five.grid[i - 1] as number);
+    });
+    expect(five.grid[4]).toBe(1);
+  });
+
   it('liftDensityTable of one challenger holds 98% of the lift distribution (trapezoid rule; 1%–99% quantiles)', () => {
     const table = liftDensityTable(
       counts([
