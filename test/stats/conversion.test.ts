@@ -241,6 +241,22 @@ describe('posteriorMean, probLiftAbove, decide', () => {
   });
 });
 
+describe('challengers with the same counts', () => {
+  it('get the interval of the same pair alone, each as its own object (rateDiffInterval, liftInterval)', () => {
+    // The pairs' values themselves are checked against scipy elsewhere in this file; here each repeated
+    // challenger (solved once) must answer exactly what its pair answers alone.
+    const control: [number, number] = [40, 1000];
+    const a: [number, number] = [52, 1000];
+    const b: [number, number] = [31, 990];
+    for (const interval of [rateDiffInterval, liftInterval]) {
+      const many = interval(counts([control, a, b, a, a]), 0.95, UNIFORM_PRIOR);
+      const alone = (x: [number, number]) => interval(counts([control, x]), 0.95, UNIFORM_PRIOR)[0];
+      expect(many).toEqual([alone(a), alone(b), alone(a), alone(a)]);
+      expect(many[0]).not.toBe(many[2]);
+    }
+  });
+});
+
 describe('density tables', () => {
   it('posteriorDensityTable spans the 99.9% ranges and gives dbeta (exact polynomial for Beta(8, 10))', () => {
     // 7 conversions of 16 visitors with a uniform prior: Beta(8, 10), density x^7 (1 − x)^9 / B(8, 10),
