@@ -467,6 +467,26 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
 }
 
 /**
+ * `solve` of each challenger, once per distinct posterior (same df, centre and scale: the same count, mean and
+ * sd), each answer its own object: repeated challengers cost one solve.
+ */
+function oncePerPosterior(
+  challengers: readonly MeanPosterior[],
+  solve: (p: MeanPosterior) => IntervalWithMedian,
+): IntervalWithMedian[] {
+  const solved = new Map<string, IntervalWithMedian>();
+  return challengers.map((p) => {
+    const key = `${p.df}|${p.centre}|${p.scale}`;
+    let interval = solved.get(key);
+    if (interval === undefined) {
+      interval = solve(p);
+      solved.set(key, interval);
+    }
+    return { ...interval };
+  });
+}
+
+/**
  * Per challenger: lower, median and upper of the difference mean − control's mean at `level`
  * (in the metric's own units: 0.25 is 25 cents more revenue per visitor).
  *
@@ -475,7 +495,7 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
  * difference distribution P(D ≤ d) = ∫ f_0(x) F_i(x + d) dx by quadrature (compare/difference.ts). With one sd = 0
  * the difference is the other t shifted (exact quantile); with both, all three are the difference.
  * Accuracy 1e-9 absolute relative to the scale of the means (against scipy quadrature and brentq).
- * Cost: tabulation plus a root search of O(panels) integrals per challenger.
+ * Cost: tabulation plus a root search of O(panels) integrals per distinct challenger.
  * Throws StatsError('invalid_argument') for bad input; 2 to 50 variants.
  * @example meanDiffInterval([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0.95)
  * //=> [{ lower: -1.893549289701…, median: 4, upper: 9.893549289701… }]
@@ -486,7 +506,7 @@ export function meanDiffInterval(variants: readonly MeanSummary[], level = 0.95)
   const [control, ...challengers] = posteriors(variants, 2);
   if (control === undefined) return [];
   const controlTable = isPoint(control) ? undefined : tabulateOne(control);
-  return challengers.map((p) => {
+  return oncePerPosterior(challengers, (p) => {
     const median = p.centre - control.centre;
     let half: number;
     if (isPoint(p) && isPoint(control)) half = 0;
@@ -532,8 +552,8 @@ function percent(p: number): string {
  * the challenger's t quantiles by it.
  * The lift is only defined while the control's mean is clearly positive: when its posterior puts more
  * than 1e-6 at or below zero the function refuses (the ratio would be dominated by division by values
- * near zero). Accuracy 1e-9 absolute (against scipy quadrature). Cost: tabulation plus, per quantile,
- * 2–6 Newton steps of one pass over the control's kept panels.
+ * near zero). Accuracy 1e-9 absolute (against scipy quadrature). Cost: tabulation plus, per quantile of each
+ * distinct challenger, 2–6 Newton steps of one pass over the control's kept panels.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') naming the control when its mean could plausibly be ≤ 0.
  * @example meanLiftInterval([{ count: 100, mean: 48, sd: 20 }, { count: 100, mean: 52, sd: 22 }], 0.95)
@@ -547,7 +567,7 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
   const belowZero = checkLiftControl(control);
   const probs = [tail, 0.5, 1 - tail] as const;
   const controlTable = isPoint(control) ? undefined : tabulateOne(control);
-  return challengers.map((p) => {
+  return oncePerPosterior(challengers, (p) => {
     let q: number[];
     if (controlTable === undefined) {
       // A known, positive control mean c0: the lift is (Y − c0)/c0.
@@ -571,9 +591,10 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
  * (compare/losses.ts). With count 2 a posterior is a Cauchy, whose mean does not exist, so every expected loss
  * is infinite: that is reported as not available. When every variant has sd = 0 the loss is
  * max mean − mean; when all but one have sd = 0 it comes from that one's integrated cdf E[(M − X)^+]. Accuracy 1e-9 relative to the scale of the means (against scipy.integrate.quad).
- * Cost: one tabulation per variant, then with three or more posteriors in the shared coordinate of
- * tabulateShared (log-concave there; in practice counts of about 100 and more) the O(k²) shared-grid
- * integral of compare/losses.ts (20 variants ≈ 50 ms), else O(k³) pruned integrals (20 variants ≈ 0.5–1 s).
+ * Cost: one tabulation per distinct variant, then with three or more posteriors one grid of O(k × nodes):
+ * in the shared coordinate of tabulateShared when all are log-concave there (in practice counts of about 100
+ * and more), else each table read through its own coordinate on a common grid (losses.ts
+ * mappedExpectedLosses); per-variant pruned integrals only when that grid would exceed its budget.
  * Throws StatsError('invalid_argument') for bad input (2 to 50 variants) and
  * StatsError('not_available') for a variant with count 2, or two or more variants with spread beside one
  * with sd = 0.

@@ -378,3 +378,19 @@ describe('normalMeans: bad input gets a clear error', () => {
     expect(meanExpectedLoss(c.variants)).toEqual(meanExpectedLoss(c.variants));
   });
 });
+
+describe('challengers with the same count, mean and sd', () => {
+  it('get the interval of the same pair alone, each as its own object (meanDiffInterval, meanLiftInterval)', () => {
+    // The pairs' values are checked against scipy above; here each repeated challenger (solved once) must
+    // answer exactly what its pair answers alone.
+    const control: MeanSummary = { count: 400, mean: 48, sd: 20 };
+    const a: MeanSummary = { count: 380, mean: 52, sd: 22 };
+    const b: MeanSummary = { count: 5, mean: 47, sd: 30 };
+    for (const interval of [meanDiffInterval, meanLiftInterval]) {
+      const many = interval([control, a, b, a, a], 0.95);
+      const alone = (x: MeanSummary) => interval([control, x], 0.95)[0];
+      expect(many).toEqual([alone(a), alone(b), alone(a), alone(a)]);
+      expect(many[0]).not.toBe(many[2]);
+    }
+  });
+});
