@@ -586,9 +586,9 @@ const LIFT_CHART_FENCE = 3;
  * between them in log(1 + lift) where checked to be as accurate).
  * Cost: at most 4 (k − 1) quantiles (only those of challengers that may set the grid's ends when their
  * fitted piece gives estimates) and at most 1.25 (k − 1) × points + 16 (k − 1) ≤ 7,100 one-dimensional
- * integrals (typically 16 a challenger at thousands of visitors), each either 24 evaluations by the checked
- * Gauss rules of ratioGrid.ts (PairRule), none where a bound shows the density underflows, or the exact
- * pruned integral. Errors as posteriorDensityTable, and 2 … 50 variants,
+ * integrals (typically 16 a challenger at thousands of visitors; challengers with the same counts count
+ * once), each either 24 evaluations by the checked Gauss rules of ratioGrid.ts (PairRule), none where a bound
+ * shows the density underflows, or the exact pruned integral. Errors as posteriorDensityTable, and 2 … 50 variants,
  * StatsError('invalid_argument') for more than 5,000 density values (limits.ts checkLiftDensityCells);
  * StatsError('not_available') naming prior_alpha (and prior_beta) when a lift has no chart range.
  * @example liftDensityTable([{ conversions: 5, visitors: 10 }, { conversions: 5, visitors: 10 }], 3, UNIFORM_PRIOR).grid.length //=> 3
@@ -626,7 +626,15 @@ export function liftDensityTable(
   // Each challenger's range from the estimates of its fitted piece where it has one; then the ranges that
   // may set an end of the union (within CHART_END_MARGIN of it), or that are near empty, are solved, so the
   // grid's ends are the solved quantiles' (the others lie inside by more than their estimates' error).
-  const charts = challengers.map((d, i) => {
+  // Challengers with the same counts share one posterior object (posteriors()): each distinct one is charted
+  // once, under the index of its first appearance (which the messages name), and its column copied.
+  const firstAt = new Map<TabulatedDistribution, number>();
+  challengers.forEach((d, i) => {
+    if (!firstAt.has(d)) firstAt.set(d, i);
+  });
+  const distinct = [...firstAt.keys()];
+  const charts = distinct.map((d) => {
+    const i = firstAt.get(d) as number;
     if (controlPinned && middleHalfPinned(d)) throw fail(i, 'narrow');
     const chart = chartRange(d, control, controlQuantile, true);
     const range = typeof chart.range === 'string' ? chart.solved() : chart.range;
@@ -637,12 +645,12 @@ export function liftDensityTable(
   const roughHi = Math.max(...charts.map((c) => c.range[1]));
   // The estimates are right to ~1e-12 in log(1 + lift), i.e. to ~1e-12 (1 + |lift|) in the lift.
   const margin = CHART_END_MARGIN * (roughHi - roughLo + 1 + Math.max(Math.abs(roughLo), Math.abs(roughHi)));
-  const ranges = charts.map(({ chart, range, settled }, i) => {
+  const ranges = charts.map(({ chart, range, settled }, j) => {
     if (settled || (range[0] > roughLo + margin && range[1] < roughHi - margin && range[1] - range[0] > margin)) {
       return range;
     }
     const solved = chart.solved();
-    if (typeof solved === 'string') throw fail(i, solved);
+    if (typeof solved === 'string') throw fail(firstAt.get(distinct[j] as TabulatedDistribution) as number, solved);
     return solved;
   });
   const lo = Math.min(...ranges.map((r) => r[0]));
@@ -654,10 +662,9 @@ export function liftDensityTable(
     'lifts in the chart',
     'the lifts are known to every digit a cell shows: read them with LIFT_INTERVAL, or ask for fewer points',
   );
-  return {
-    grid,
-    densities: challengers.map(
-      (d, i) => ratioDensityGrid(d, control, grid, charts[i]?.chart.piece, charts[i]?.chart.pair).densities,
-    ),
-  };
+  const columns = new Map<TabulatedDistribution, number[]>();
+  distinct.forEach((d, j) => {
+    columns.set(d, ratioDensityGrid(d, control, grid, charts[j]?.chart.piece, charts[j]?.chart.pair).densities);
+  });
+  return { grid, densities: challengers.map((d) => [...(columns.get(d) as number[])]) };
 }

@@ -255,6 +255,18 @@ describe('challengers with the same counts', () => {
       expect(many[0]).not.toBe(many[2]);
     }
   });
+
+  it('get the lift density column of the same pair alone (liftDensityTable), each its own array', () => {
+    const control: [number, number] = [40, 1000];
+    const a: [number, number] = [52, 1000];
+    const b: [number, number] = [31, 990];
+    const many = liftDensityTable(counts([control, a, b, a]), 21, UNIFORM_PRIOR);
+    const pair = liftDensityTable(counts([control, a, b]), 21, UNIFORM_PRIOR);
+    // Same union of chart ranges (a repeated challenger adds none), so the same grid and columns.
+    expect(many.grid).toEqual(pair.grid);
+    expect(many.densities).toEqual([pair.densities[0], pair.densities[1], pair.densities[0]]);
+    expect(many.densities[0]).not.toBe(many.densities[2]);
+  });
 });
 
 describe('density tables', () => {
