@@ -112,7 +112,18 @@ const LOOKS_BY_ONE = spaced(100, 2101, 2200);
 /** 100 looks from 50 to 5000 (the exact method's most convolution work at 100 looks). */
 const LOOKS_TO_5000 = spaced(100, 50, 5000);
 
+/**
+ * k invented variants of 2,300 to 3,400 visitors with no conversions, but for two that converted every visitor
+ * (a fuzz finding: each lift over a control at 0 is heavy-tailed, so no column can be interpolated).
+ */
+function zeroConversions(k) {
+  const visitors = Array.from({ length: k }, (_, i) => 2300 + ((i * 37) % 1100));
+  const conversions = visitors.map((n, i) => (i === 29 || i === 41 ? n : 0));
+  return { conversions: col(conversions), visitors: col(visitors) };
+}
+
 const U50 = uneven(50);
+const ZERO50 = zeroConversions(50);
 const C50 = close(50);
 const M50 = unevenMeans(50);
 const O50 = ordinaryMeans(50);
@@ -231,6 +242,12 @@ const CASES = [
     'LIFT_DENSITY, 50 close variants × 102 points (most rows allowed)',
     'LIFT_DENSITY',
     [C50.conversions, C50.visitors, 102],
+    true,
+  ],
+  [
+    'LIFT_DENSITY, 50 variants at 0 conversions (two all converted) × 101 points',
+    'LIFT_DENSITY',
+    [ZERO50.conversions, ZERO50.visitors],
     true,
   ],
   [
