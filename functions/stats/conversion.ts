@@ -28,7 +28,7 @@ import type { LiftPair, LogDensityPiece, QuantileOf } from './compare';
 import { TabulatedDistribution, tabulate } from './quadrature';
 import { MAX_COUNT, MAX_VARIANTS, checkLevel, checkLiftDensityCells, checkPoints } from './limits';
 import { findRoot } from './numeric';
-import { NO_MEMO } from './tableMemo';
+import { NO_MEMO, solveOncePerKey } from './tableMemo';
 import type { TableSource } from './tableMemo';
 import type { BetaPrior, ConversionCounts, DensityTable, Interval, IntervalWithMedian } from './types';
 import { UNIFORM_PRIOR } from './types';
@@ -307,19 +307,15 @@ function challengerIntervals(
   const control = ds[0] as TabulatedDistribution;
   const tail = (1 - level) / 2;
   // Challengers with the same counts share one posterior object (posteriors()), so one solve serves them all.
-  const solved = new Map<TabulatedDistribution, IntervalWithMedian>();
-  return ds.slice(1).map((d) => {
-    let interval = solved.get(d);
-    if (interval === undefined) {
-      interval = {
-        lower: quantile(d, control, tail),
-        median: quantile(d, control, 0.5),
-        upper: quantile(d, control, 1 - tail),
-      };
-      solved.set(d, interval);
-    }
-    return { ...interval };
-  });
+  return solveOncePerKey(
+    ds.slice(1),
+    (d) => d,
+    (d) => ({
+      lower: quantile(d, control, tail),
+      median: quantile(d, control, 0.5),
+      upper: quantile(d, control, 1 - tail),
+    }),
+  );
 }
 
 /**

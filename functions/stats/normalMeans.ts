@@ -36,6 +36,7 @@ import type { TabulatedDistribution } from './quadrature';
 import type { CoordinateMap } from './compare';
 import { MAX_COUNT, checkLevel, checkVariantCount } from './limits';
 import { findRoot } from './numeric';
+import { solveOncePerKey } from './tableMemo';
 import { studentTCdf, studentTQuantile } from './special/studentT';
 import { studentTWorkingDensity } from './studentTDensity';
 import type { Interval, IntervalWithMedian, MeanSummary, WorkingDensity } from './types';
@@ -466,25 +467,8 @@ export function meanProbAboveControl(variants: readonly MeanSummary[]): number[]
   });
 }
 
-/**
- * `solve` of each challenger, once per distinct posterior (same df, centre and scale: the same count, mean and
- * sd), each answer its own object: repeated challengers cost one solve.
- */
-function oncePerPosterior(
-  challengers: readonly MeanPosterior[],
-  solve: (p: MeanPosterior) => IntervalWithMedian,
-): IntervalWithMedian[] {
-  const solved = new Map<string, IntervalWithMedian>();
-  return challengers.map((p) => {
-    const key = `${p.df}|${p.centre}|${p.scale}`;
-    let interval = solved.get(key);
-    if (interval === undefined) {
-      interval = solve(p);
-      solved.set(key, interval);
-    }
-    return { ...interval };
-  });
-}
+/** The key of a t posterior: df, centre and scale determine it (the same count, mean and sd). */
+const posteriorKey = (p: MeanPosterior): string => `${p.df}|${p.centre}|${p.scale}`;
 
 /**
  * Per challenger: lower, median and upper of the difference mean − control's mean at `level`
@@ -506,7 +490,7 @@ export function meanDiffInterval(variants: readonly MeanSummary[], level = 0.95)
   const [control, ...challengers] = posteriors(variants, 2);
   if (control === undefined) return [];
   const controlTable = isPoint(control) ? undefined : tabulateOne(control);
-  return oncePerPosterior(challengers, (p) => {
+  return solveOncePerKey(challengers, posteriorKey, (p): IntervalWithMedian => {
     const median = p.centre - control.centre;
     let half: number;
     if (isPoint(p) && isPoint(control)) half = 0;
@@ -567,7 +551,7 @@ export function meanLiftInterval(variants: readonly MeanSummary[], level = 0.95)
   const belowZero = checkLiftControl(control);
   const probs = [tail, 0.5, 1 - tail] as const;
   const controlTable = isPoint(control) ? undefined : tabulateOne(control);
-  return oncePerPosterior(challengers, (p) => {
+  return solveOncePerKey(challengers, posteriorKey, (p): IntervalWithMedian => {
     let q: number[];
     if (controlTable === undefined) {
       // A known, positive control mean c0: the lift is (Y − c0)/c0.

@@ -92,3 +92,26 @@ export class TableMemo implements TableSource {
     this.nodes = 0;
   }
 }
+
+/**
+ * `solve` of each item, computed once per distinct `keyOf(item)` within this call (repeated challengers of one
+ * read-out), each answer handed out as its own shallow copy. Cost: one solve per distinct key.
+ * @example solveOncePerKey([2, 3, 2], (x) => x, (x) => ({ square: x * x }))
+ * //=> [{ square: 4 }, { square: 9 }, { square: 4 }]
+ */
+export function solveOncePerKey<T, K, R extends object>(
+  items: readonly T[],
+  keyOf: (item: T) => K,
+  solve: (item: T) => R,
+): R[] {
+  const solved = new Map<K, R>();
+  return items.map((item) => {
+    const key = keyOf(item);
+    let answer = solved.get(key);
+    if (answer === undefined) {
+      answer = solve(item);
+      solved.set(key, answer);
+    }
+    return { ...answer };
+  });
+}
